@@ -1,0 +1,70 @@
+# haloledger - build, demo and tests.  `make demo` and `make test` run `make deps` first.
+BUILD    ?= build
+CC       ?= gcc
+PKGS     := xlsxwriter libcjson
+BASEFLAGS := -std=c11 -Wall -Wextra -Werror -O2 -D_POSIX_C_SOURCE=200809L -Iinclude -I$(BUILD)
+EXTRA_CFLAGS ?=
+CFLAGS_ALL = $(BASEFLAGS) $(EXTRA_CFLAGS) $(shell pkg-config --cflags $(PKGS) 2>/dev/null)
+LDLIBS_ALL = $(shell pkg-config --libs $(PKGS) 2>/dev/null) -lm
+CUNIT_LIBS = $(shell pkg-config --libs cunit 2>/dev/null)
+
+LIB_SRC  := $(filter-out src/main.c,$(wildcard src/*.c))
+LIB_OBJ  := $(patsubst src/%.c,$(BUILD)/obj/%.o,$(LIB_SRC)) $(BUILD)/obj/catalog_data.o
+UNIT_SRC := $(wildcard tests/unit/test_*.c)
+UNIT_BIN := $(patsubst tests/unit/%.c,$(BUILD)/%,$(UNIT_SRC))
+HEADERS  := $(wildcard include/*.h) $(wildcard tests/unit/*.h)
+
+.PHONY: all deps demo test unit sanitize valgrind fuzz clean
+all: $(BUILD)/haloledger
+
+deps:
+	@sh tools/deps.sh
+
+$(BUILD)/obj/%.o: src/%.c $(HEADERS) | $(BUILD)/obj
+	$(CC) $(CFLAGS_ALL) -c $< -o $@
+
+# The default container catalog is compiled in from templates/containers.json.
+$(BUILD)/catalog_data.c: templates/containers.json tools/embed.sh | $(BUILD)/obj
+	sh tools/embed.sh $< catalog_default_json > $@
+$(BUILD)/obj/catalog_data.o: $(BUILD)/catalog_data.c
+	$(CC) $(CFLAGS_ALL) -c $< -o $@
+
+$(BUILD)/libhalo.a: $(LIB_OBJ)
+	rm -f $@ && ar rcs $@ $^
+
+$(BUILD)/haloledger: src/main.c $(BUILD)/libhalo.a $(HEADERS)
+	$(CC) $(CFLAGS_ALL) src/main.c $(BUILD)/libhalo.a $(LDLIBS_ALL) -o $@
+
+$(BUILD)/test_%: tests/unit/test_%.c $(BUILD)/libhalo.a $(HEADERS)
+	$(CC) $(CFLAGS_ALL) -Itests/unit $< $(BUILD)/libhalo.a $(CUNIT_LIBS) $(LDLIBS_ALL) -o $@
+
+$(BUILD)/obj:
+	mkdir -p $@
+
+unit: $(UNIT_BIN)
+
+demo: deps
+	@$(MAKE) --no-print-directory all
+	@sh tools/demo.sh $(BUILD)/haloledger
+
+test: deps
+	@$(MAKE) --no-print-directory all unit
+	@BUILD=$(BUILD) sh tests/run.sh
+
+# ASan + UBSan build of everything, then the whole suite on it.
+sanitize: deps
+	@$(MAKE) --no-print-directory BUILD=build/san \
+	  EXTRA_CFLAGS="-fsanitize=address,undefined -fno-omit-frame-pointer -fno-sanitize-recover=all -O1" \
+	  all unit
+	@BUILD=build/san ASAN_OPTIONS=detect_leaks=1:abort_on_error=1 UBSAN_OPTIONS=halt_on_error=1:print_stacktrace=1 sh tests/run.sh
+
+valgrind: deps
+	@$(MAKE) --no-print-directory all unit
+	@BUILD=$(BUILD) HL_WRAP="valgrind -q --leak-check=full --errors-for-leak-kinds=definite,indirect --error-exitcode=99" sh tests/run.sh
+
+FUZZ_SECONDS ?= 30
+fuzz:
+	@sh tools/fuzz.sh $(FUZZ_SECONDS)
+
+clean:
+	rm -rf build out

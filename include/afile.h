@@ -1,0 +1,24 @@
+/*
+ * afile.h - atomic output files.
+ *
+ * An output is first written under a temporary name in the target folder
+ * (same file system, so rename(2) is atomic) and renamed over the target only
+ * when every byte is written and fclose() succeeded.  On any failure the
+ * temporary is removed and the previous file stays as it was.
+ */
+#ifndef AFILE_H
+#define AFILE_H
+
+#include <stddef.h>
+#include "hlerr.h"
+
+/* Temporary name next to path: "DIR/.NAME.tmp-PID-N". *tmp owned by caller (hl_free). */
+enum hl_status afile_tmpname(const char *path, char **tmp, struct hl_err *e);
+/* Directory part of path ("." when none); *dir owned by caller (hl_free). */
+enum hl_status afile_dirname(const char *path, char **dir, struct hl_err *e);
+/* rename(tmp, path); on failure unlink(tmp) and report HL_ERR_IO naming path. */
+enum hl_status afile_commit(const char *tmp, const char *path, struct hl_err *e);
+/* Write len bytes to path atomically (tmp + fwrite + fflush + fsync + fclose + rename). */
+enum hl_status afile_write(const char *path, const void *data, size_t len, struct hl_err *e);
+
+#endif

@@ -1,0 +1,79 @@
+/*
+ * balance.h - the mass balance of one run.
+ *
+ * Takes one resolved run (substrate, reagent amount, conversion, model
+ * parameters), asks selectivity.h for the first-step products and kinetics.h
+ * for the degree distribution, and returns moles and kilograms in and out:
+ * products by degree and isomer, HX, SO2, succinimide, unreacted reagent (to
+ * the vent or left in the mass), and the element balance over C H N O S Cl Br.
+ * The halogen reacted is min(charged x conversion, what the substrate can take).
+ */
+#ifndef BALANCE_H
+#define BALANCE_H
+
+#include "formula.h"
+#include "hlerr.h"
+#include "kinetics.h"
+#include "reagents.h"
+#include "selectivity.h"
+
+enum bal_role { ROLE_WANTED, ROLE_ISOMER, ROLE_OVERHAL, ROLE_UNREACTED };
+
+/* Elements the element balance closes over. */
+enum { BAL_NEL = 7 };
+extern const int bal_elements[BAL_NEL]; /* EL_C, EL_H, EL_N, EL_O, EL_S, EL_Cl, EL_Br */
+
+struct bal_in {
+    const char *smiles;          /* substrate SMILES, or NULL */
+    const char *formula;         /* substrate formula text when no SMILES */
+    const char *product_smiles;  /* wanted isomer, may be NULL */
+    double substrate_kg;
+    int reagent;                 /* enum reagent_id */
+    int amount_is_kg;
+    double reagent_eq, reagent_kg;
+    double halogen_conversion;   /* 0..1 */
+    double temp_c;
+    enum kin_mode mode;
+    double vent_retained_fraction;
+    struct sel_reactivity user;  /* set_mask 0 = defaults */
+    int has_phi; double phi;     /* overhalogenation_factor */
+    const double *ratios; int nratios;
+};
+
+struct bal_product {
+    char *smiles;                /* owned, NULL when no unambiguous structure */
+    char formula[64];
+    int degree;
+    double molar_mass_g_mol, mol, kg, mol_fraction;
+    enum bal_role role;
+};
+
+struct bal_out {
+    char substrate_formula[64];
+    double substrate_molar_mass_g_mol, substrate_mol;
+    double reagent_mol, reagent_kg;      /* charged */
+    double reagent_reacted_mol, reagent_unreacted_mol;
+    double halogen_reacted_mol;          /* C-X bonds formed */
+    int capped;                          /* reaction limited by what the substrate can take */
+    double mean_degree;                  /* halogen per mole of substrate */
+    struct bal_product *products; int nproducts; /* degree 0 first, then wanted, isomers, higher degrees */
+    double hx_kg[2];                     /* [0] HCl, [1] HBr formed */
+    double so2_kg, succinimide_kg;
+    double vent_mol[VS_COUNT];           /* to the scrubber */
+    double retained_mol[VS_COUNT];       /* dissolved in the reaction mass */
+    double reagent_left_kg;              /* unreacted reagent that stays in the mass (SO2Cl2, NBS) */
+    double wanted_kg, isomer_kg, overhal_kg, unreacted_substrate_kg;
+    double el_in_mol[BAL_NEL], el_out_mol[BAL_NEL];
+    double max_rel_error;
+    struct sel_result sel;               /* the selectivity prediction (niso 0 for formula input) */
+    char warning[320];                   /* "" or why the run is capped / out of range */
+};
+
+/* Compute the balance of one run. On HL_ERR_INPUT, e->field names the input
+ * ("smiles", "product_smiles", "formula", "reagent") and e->col the column inside
+ * it (0 = the whole value). out is owned by the caller: bal_free. */
+enum hl_status bal_compute(const struct bal_in *in, struct bal_out *out, struct hl_err *e);
+
+void bal_free(struct bal_out *out);
+
+#endif

@@ -1,0 +1,127 @@
+/*
+ * campaign.h - the campaign file (design section 3) read into plain structs.
+ *
+ * The reader is strict: unknown keys (with the nearest known key suggested),
+ * duplicate keys, wrong types, non-finite or out-of-range numbers, bad dates,
+ * invalid UTF-8, duplicate ids, unknown scrubber or reagent references and an
+ * amount given twice or not at all are refused with the JSON path of the value
+ * and its line:column.  `repeat` entries are expanded here, so models see one
+ * struct camp_run per batch.  Every position the models may still need to
+ * blame (SMILES, formula, reagent) is kept in the run.
+ */
+#ifndef CAMPAIGN_H
+#define CAMPAIGN_H
+
+#include <stddef.h>
+#include <stdint.h>
+#include "hlerr.h"
+
+struct camp_pos { int line, col; }; /* 1-based position of a value; col points at its first byte */
+
+enum camp_liquor { CAMP_LIQUOR_NAOH, CAMP_LIQUOR_WATER };
+enum camp_mode { CAMP_BATCH, CAMP_CSTR };
+
+/* Optional model block; a bit in set_mask tells which fields were given. */
+enum camp_model_bit {
+    CM_PRIMARY = 1u << 0, CM_SECONDARY = 1u << 1, CM_TERTIARY = 1u << 2,
+    CM_BENZYLIC = 1u << 3, CM_ALLYLIC = 1u << 4, CM_REF_TEMP = 1u << 5,
+    CM_OVERHAL = 1u << 6, CM_RATIOS = 1u << 7
+};
+#define CAMP_MAX_RATIOS 64
+struct camp_model {
+    unsigned set_mask;
+    double primary, secondary, tertiary, benzylic, allylic, ref_temp_c;
+    double overhalogenation_factor;
+    double rate_ratios[CAMP_MAX_RATIOS]; int nratios;
+};
+
+/* Optional packed-column data of a scrubber (issue: column check). */
+struct camp_column {
+    int present;
+    double packing_factor_1_m;  /* Fp, 1/m */
+    double htu_m;               /* height of a gas-phase transfer unit */
+    double removal_fraction;    /* design removal, e.g. 0.999 */
+    double flood_fraction;      /* design fraction of flooding velocity, e.g. 0.7 */
+    double carrier_kmol_h;      /* inert sweep gas (N2/air) with the acid gas */
+    double liquor_kg_h;         /* circulated liquor */
+    double gas_temp_c;
+    struct camp_pos pos;
+};
+
+struct camp_scrubber {
+    char *id;
+    enum camp_liquor liquor;
+    double naoh_wt_pct;         /* fresh liquor strength (naoh liquor) */
+    double liquor_kg;           /* charge of fresh liquor */
+    double min_naoh_wt_pct;     /* changeout before a run would go below it */
+    double max_acid_wt_pct;     /* water liquor: changeout before acid passes it */
+    double rated_acid_kmol_h;
+    double makeup_naoh_wt_pct;  /* strength of purchased caustic, default 50 */
+    double liquor_cp_kj_kg_k;   /* 0 = the built-in correlation */
+    struct camp_column column;
+    struct camp_pos pos;
+};
+
+struct camp_stock {
+    int reagent;                /* enum reagent_id (RG_NAOH for caustic) */
+    double on_hand_kg, safety_kg, lead_days;
+    struct camp_pos pos;
+};
+
+struct camp_container {
+    int reagent;
+    char *name;
+    double net_kg, heel_kg;
+    int from_catalog;           /* 1 if it came from the default catalog */
+    struct camp_pos pos;
+};
+
+struct camp_run {
+    char *id;                   /* with -1, -2 ... suffix when expanded from repeat */
+    int src_index;              /* index in the file's runs[] */
+    int repeat_no;              /* 1..count, 0 when not repeated */
+    int64_t start_min;          /* isodate minutes */
+    char *reactor;              /* may be NULL */
+    int scrubber;               /* index into campaign.scrubbers, -1 = none given */
+    char *substrate_name;       /* may be NULL */
+    char *smiles, *formula, *product_smiles; /* smiles xor formula; product_smiles optional */
+    double substrate_kg;
+    int reagent;                /* enum reagent_id */
+    int amount_is_kg;           /* 1: reagent_kg given; 0: reagent_eq given */
+    double reagent_eq, reagent_kg;
+    double halogen_conversion;  /* default 1 */
+    double temp_c;              /* default 25 */
+    double feed_h;              /* default 1 */
+    double peak_factor;         /* default 1 */
+    double vent_retained_fraction; /* default 0 */
+    enum camp_mode mode;
+    struct camp_model model;    /* campaign-level block merged under the run's own */
+    struct camp_pos pos, pos_smiles, pos_formula, pos_product_smiles, pos_reagent, pos_amount;
+};
+
+struct campaign {
+    char *file;                 /* path as given */
+    char *title, *site;         /* may be NULL */
+    int64_t issued_min;         /* optional "issued" date, -1 if absent */
+    struct camp_scrubber *scrubbers; int nscrubbers;
+    struct camp_stock *stock; int nstock;
+    struct camp_container *containers; int ncontainers; /* campaign entries, then catalog ones not overridden */
+    struct camp_run *runs; int nruns;                   /* expanded, file order */
+};
+
+/* Read and validate the campaign at path. catalog_text (may be NULL) is the default
+ * container catalog JSON (templates/containers.json) merged under the campaign's
+ * own containers. On success *out is owned by the caller (camp_free). On failure
+ * returns HL_ERR_INPUT (or _IO/_NOMEM) with e->line/col/field set and *out NULL. */
+enum hl_status camp_load(const char *path, const char *catalog_text,
+                         struct campaign **out, struct hl_err *e);
+
+/* Same from text already in memory (len bytes; need not be NUL-terminated). */
+enum hl_status camp_parse(const char *text, size_t len, const char *path,
+                          const char *catalog_text, struct campaign **out,
+                          struct hl_err *e);
+
+/* Free a campaign; NULL is fine. */
+void camp_free(struct campaign *c);
+
+#endif

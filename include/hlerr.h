@@ -1,0 +1,44 @@
+/*
+ * hlerr.h - error values shared by every haloledger module.
+ *
+ * Library code never exits: it returns an enum hl_status and fills a
+ * struct hl_err with where (line:column and field path) and why.  Only
+ * main() turns a status into an exit code (design section 6).
+ */
+#ifndef HLERR_H
+#define HLERR_H
+
+#include <stddef.h>
+
+enum hl_status {
+    HL_OK = 0,
+    HL_ERR_INPUT,   /* bad campaign, SMILES, formula or option: exit 2 */
+    HL_ERR_NOMEM,   /* allocation failed: exit 1 */
+    HL_ERR_IO,      /* read/write/rename failed: exit 1 */
+    HL_ERR_INTERNAL /* a model did not converge or an invariant broke: exit 1 */
+};
+
+struct hl_err {
+    enum hl_status status;
+    int line, col;      /* 1-based position in the input file; 0 = unknown */
+    char field[160];    /* JSON path of the offending value, "" if none */
+    char msg[480];      /* human message, no trailing newline */
+};
+
+/* Short English name of a status ("bad input", "out of memory", ...). Static string. */
+const char *hl_strerror(enum hl_status st);
+
+/* Reset *e to HL_OK with empty texts. */
+void hl_err_clear(struct hl_err *e);
+
+/* Set status and printf-style message; keeps line/col/field. Returns st so callers can
+ * write `return hl_err_set(e, HL_ERR_INPUT, "...")`. e may be NULL. */
+enum hl_status hl_err_set(struct hl_err *e, enum hl_status st, const char *fmt, ...)
+    __attribute__((format(printf, 3, 4)));
+
+/* Like hl_err_set, also recording position and field path. */
+enum hl_status hl_err_at(struct hl_err *e, enum hl_status st, int line, int col,
+                         const char *field, const char *fmt, ...)
+    __attribute__((format(printf, 6, 7)));
+
+#endif

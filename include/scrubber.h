@@ -1,0 +1,100 @@
+/*
+ * scrubber.h - vent scrubber liquor, heat, hourly load and column check.
+ *
+ * Liquor reactions (design section 4), caustic liquor:
+ *   HCl + NaOH -> NaCl + H2O          HBr + NaOH -> NaBr + H2O
+ *   Cl2 + 2 NaOH -> NaCl + NaOCl + H2O Br2 + 2 NaOH -> NaBr + NaOBr + H2O
+ *   SO2 + 2 NaOH -> Na2SO3 + H2O
+ * Heats from standard enthalpies of formation (NBS tables, see scrubber.c).
+ * Runs are processed in start order; each scrubber's liquor is tracked run by
+ * run with changeouts, and its acid-gas load is binned hour by hour with a
+ * difference array, so the cost is linear in runs plus hours.
+ */
+#ifndef SCRUBBER_H
+#define SCRUBBER_H
+
+#include <stdint.h>
+#include "hlerr.h"
+#include "reagents.h"
+
+/* Salts / products in the liquor. */
+enum scrub_salt { SALT_NACL, SALT_NABR, SALT_NAOCL, SALT_NAOBR, SALT_NA2SO3, SALT_COUNT };
+
+struct scrub_unit_in {
+    const char *id;
+    int water_liquor;           /* 1: water absorption making hydrochloric acid */
+    double naoh_wt_pct, liquor_kg, min_naoh_wt_pct, max_acid_wt_pct;
+    double rated_acid_kmol_h, makeup_naoh_wt_pct, liquor_cp_kj_kg_k; /* cp 0 = built-in */
+    int has_column;
+    double packing_factor_1_m, htu_m, removal_fraction, flood_fraction;
+    double carrier_kmol_h, liquor_kg_h, gas_temp_c;
+};
+
+struct scrub_run_in {
+    int unit;                   /* index into units, -1 = not scrubbed */
+    int64_t start_min;
+    double feed_h, peak_factor; /* vent leaves at peak_factor x mean rate over feed_h */
+    double vent_mol[VS_COUNT];  /* gas sent to the scrubber [mol] */
+};
+
+struct scrub_run_out {
+    double acid_kmol_h;         /* (HCl+HBr+Cl2+Br2+SO2) vented / feed_h x peak_factor [kmol/h] */
+    double naoh_kg;             /* NaOH consumed */
+    double heat_kj;             /* heat released in the liquor (positive = released) */
+    double temp_rise_k;         /* adiabatic rise of the liquor */
+    int changeout_before;       /* fresh liquor charged before this run */
+    int exhausted;              /* liquor would run out during the run (warning) */
+    double naoh_left_kg, liquor_kg_after, naoh_wt_pct_after;
+    double salt_kg[SALT_COUNT];
+    double water_formed_kg;
+    double acid_wt_pct_after;   /* water liquor: HCl wt% after the run */
+};
+
+/* One liquor batch sent to waste (at a changeout, and the last one at campaign end). */
+struct scrub_spent {
+    int64_t at_min;             /* when it was drained (start of the next run, or last run end) */
+    double mass_kg, naoh_kg, water_kg, hcl_kg, salt_kg[SALT_COUNT];
+    int final;                  /* 1 = still in the unit at the end of the campaign */
+};
+
+struct scrub_column_check {
+    int present;
+    double gas_kmol_h, y_in, y_out, ntu, height_m, diameter_m, flood_velocity_m_s;
+    double flow_parameter;      /* (L/G) sqrt(rho_g/rho_l) */
+};
+
+struct scrub_unit_out {
+    double peak_acid_kmol_h;
+    int64_t peak_at_min;        /* start of the peak hour */
+    int *peak_runs; int npeak_runs; /* run indices active in the peak hour, owned */
+    int overloaded;
+    int changeouts;
+    double naoh_kg;             /* consumed over the campaign */
+    double makeup_kg;           /* purchased caustic solution for the changeouts [kg of makeup_naoh_wt_pct] */
+    double heat_kj;
+    int64_t hour0_min; int nhours; double *hourly_kmol_h; /* load profile, owned */
+    struct scrub_spent *spent; int nspent;                /* owned */
+    struct scrub_column_check column;
+};
+
+/* Heat released per mole of gas absorbed [kJ/mol] (positive), caustic or water liquor. */
+double scrub_heat_kj_per_mol(int vent_species, int water_liquor);
+/* NaOH consumed per mole of gas [mol/mol]. */
+double scrub_naoh_per_mol(int vent_species);
+/* Heat capacity of caustic liquor [kJ/(kg K)] at a NaOH mass fraction (see source in .c). */
+double scrub_liquor_cp_kj_kg_k(double naoh_wt_pct);
+
+/* Run the whole campaign. order[0..nruns-1] lists run indices by start time.
+ * run_out[nruns] and unit_out[nunits] are filled; free unit_out with
+ * scrub_unit_out_free. Errors only for allocation or bad arguments. */
+enum hl_status scrub_campaign(const struct scrub_unit_in *units, int nunits,
+                              const struct scrub_run_in *runs, int nruns, const int *order,
+                              struct scrub_run_out *run_out, struct scrub_unit_out *unit_out,
+                              struct hl_err *e);
+
+/* NTU for a fast irreversible reaction under gas-film control: ln(y_in/y_out). */
+double scrub_ntu(double y_in, double y_out);
+
+void scrub_unit_out_free(struct scrub_unit_out *u, int nunits);
+
+#endif

@@ -1,0 +1,19 @@
+/*
+ * xlsx_out.h - the spreadsheet ledger (libxlsxwriter).
+ *
+ * Sheets: Summary, Runs, Products, Scrubber, Orders, Waste, Monthly (with
+ * charts on plain number cells), Cautions, Assumptions.  Every numeric
+ * column carries its unit in the header; totals are formulas with their
+ * values cached.  Written to a temporary file in the target folder and
+ * renamed into place, so an existing file is never left half-written.
+ */
+#ifndef XLSX_OUT_H
+#define XLSX_OUT_H
+
+#include "hlerr.h"
+#include "ledger.h"
+
+/* Write the workbook to path atomically. HL_ERR_IO with a message on failure. */
+enum hl_status xlsx_out_write(const struct ledger *l, const char *path, struct hl_err *e);
+
+#endif

@@ -1,0 +1,24 @@
+#!/bin/sh
+# deps.sh - install what is missing of the Debian packages haloledger builds and tests with.
+# Uses apt-get as root, else sudo; otherwise prints the exact command to run.
+PKGS="pkg-config gcc make libxlsxwriter-dev libcjson-dev libcunit1-dev python3 python3-rdkit python3-openpyxl"
+missing=""
+for p in $PKGS; do
+    dpkg-query -W -f='${Status}' "$p" 2>/dev/null | grep -q "install ok installed" || missing="$missing $p"
+done
+[ -z "$missing" ] && exit 0
+echo "haloledger: installing missing Debian packages:$missing"
+if [ "$(id -u)" = 0 ]; then
+    SUDO=""
+elif command -v sudo >/dev/null 2>&1 && sudo -n true 2>/dev/null; then
+    SUDO="sudo"
+else
+    echo "haloledger: cannot install packages (not root, no password-less sudo). Run as root:" >&2
+    echo "  apt-get update && apt-get install -y$missing" >&2
+    exit 1
+fi
+export DEBIAN_FRONTEND=noninteractive
+$SUDO apt-get update -qq && $SUDO apt-get install -y -qq $missing >/dev/null || {
+    echo "haloledger: apt-get failed; run: apt-get update && apt-get install -y$missing" >&2
+    exit 1
+}
