@@ -12,6 +12,8 @@ LIB_SRC  := $(filter-out src/main.c,$(wildcard src/*.c))
 LIB_OBJ  := $(patsubst src/%.c,$(BUILD)/obj/%.o,$(LIB_SRC)) $(BUILD)/obj/catalog_data.o
 UNIT_SRC := $(wildcard tests/unit/test_*.c)
 UNIT_BIN := $(patsubst tests/unit/%.c,$(BUILD)/%,$(UNIT_SRC))
+TOOL_SRC := $(wildcard tests/tools/tool_*.c)
+TOOL_BIN := $(patsubst tests/tools/%.c,$(BUILD)/%,$(TOOL_SRC))
 HEADERS  := $(wildcard include/*.h) $(wildcard tests/unit/*.h)
 
 .PHONY: all deps demo test unit sanitize valgrind fuzz clean
@@ -38,10 +40,14 @@ $(BUILD)/haloledger: src/main.c $(BUILD)/libhalo.a $(HEADERS)
 $(BUILD)/test_%: tests/unit/test_%.c $(BUILD)/libhalo.a $(HEADERS)
 	$(CC) $(CFLAGS_ALL) -Itests/unit $< $(BUILD)/libhalo.a $(CUNIT_LIBS) $(LDLIBS_ALL) -o $@
 
+# Test-only command-line probes that end-to-end scripts compare with RDKit/openpyxl.
+$(BUILD)/tool_%: tests/tools/tool_%.c $(BUILD)/libhalo.a $(HEADERS)
+	$(CC) $(CFLAGS_ALL) -Itests/unit $< $(BUILD)/libhalo.a $(LDLIBS_ALL) -o $@
+
 $(BUILD)/obj:
 	mkdir -p $@
 
-unit: $(UNIT_BIN)
+unit: $(UNIT_BIN) $(TOOL_BIN)
 
 demo: deps
 	@$(MAKE) --no-print-directory all
