@@ -6,6 +6,11 @@
  * in the month - lead days.  Stock carried into the next month = stock at the
  * start + usable content ordered - demand.  Items are enum reagent_id values;
  * RG_NAOH is the caustic make-up for scrubber changeouts.
+ *
+ * Choices (see orders.c): of several containers for an item the one wasting the
+ * least usable excess wins, a tie goes to fewer containers, then catalog order;
+ * without a container the amount is taken as bought in bulk (flag no_container);
+ * fractional lead days round up (earlier order-by); `late` needs something to order.
  */
 #ifndef ORDERS_H
 #define ORDERS_H

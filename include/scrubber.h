@@ -48,6 +48,10 @@ struct scrub_run_out {
     double salt_kg[SALT_COUNT];
     double water_formed_kg;
     double acid_wt_pct_after;   /* water liquor: HCl wt% after the run */
+    /* additions: */
+    int unabsorbed;             /* water liquor: gas other than HCl passed through (warning) */
+    double unabsorbed_mol;      /* that gas [mol] */
+    double breakthrough_mol;    /* caustic ran out: gas left unneutralised [mol] */
 };
 
 /* One liquor batch sent to waste (at a changeout, and the last one at campaign end). */
@@ -61,6 +65,9 @@ struct scrub_column_check {
     int present;
     double gas_kmol_h, y_in, y_out, ntu, height_m, diameter_m, flood_velocity_m_s;
     double flow_parameter;      /* (L/G) sqrt(rho_g/rho_l) */
+    /* additions: */
+    double gas_density_kg_m3, liquid_density_kg_m3, design_velocity_m_s;
+    int outside_fit;            /* flow parameter outside the fit range 0.01..10 (clamped) */
 };
 
 struct scrub_unit_out {
@@ -86,7 +93,11 @@ double scrub_liquor_cp_kj_kg_k(double naoh_wt_pct);
 
 /* Run the whole campaign. order[0..nruns-1] lists run indices by start time.
  * run_out[nruns] and unit_out[nunits] are filled; free unit_out with
- * scrub_unit_out_free. Errors only for allocation or bad arguments. */
+ * scrub_unit_out_free. Errors only for allocation or bad arguments.
+ * Defaults: peak_factor <= 0 -> 1, makeup_naoh_wt_pct <= 0 -> 50, water liquor
+ * max_acid_wt_pct <= 0 -> 20. A changeout needs the unit idle (no run still venting
+ * into it); the first fill is in place already (makeup_kg counts changeouts only).
+ * A unit with no runs gets no profile and no spent batch (its liquor is unused). */
 enum hl_status scrub_campaign(const struct scrub_unit_in *units, int nunits,
                               const struct scrub_run_in *runs, int nruns, const int *order,
                               struct scrub_run_out *run_out, struct scrub_unit_out *unit_out,
@@ -96,5 +107,24 @@ enum hl_status scrub_campaign(const struct scrub_unit_in *units, int nunits,
 double scrub_ntu(double y_in, double y_out);
 
 void scrub_unit_out_free(struct scrub_unit_out *u, int nunits);
+
+/* ---- additions ---- */
+
+/* Standard enthalpy of formation used by the heats, with its source (Assumptions sheet). */
+struct scrub_dfh { const char *species; double dfh_kj_mol; const char *source; };
+/* Row i of the table, NULL past the end. Static data. */
+const struct scrub_dfh *scrub_dfh_get(int i);
+/* Molar mass [g/mol] of a salt (CIAAW 2021 abridged weights), 0 out of range. */
+double scrub_salt_molar_mass_g_mol(int salt);
+/* Salt formula text ("NaOCl"), NULL out of range. Static string. */
+const char *scrub_salt_name(int salt);
+/* Density [kg/m3] of hydrochloric acid at 20 C and a HCl mass percent 0..40 (clamped). */
+double scrub_hcl_acid_density_kg_m3(double hcl_wt_pct);
+/* Density [kg/m3] of caustic soda solution at 20 C and a NaOH mass percent 0..50 (clamped). */
+double scrub_naoh_density_kg_m3(double naoh_wt_pct);
+/* Heat capacity [kJ/(kg K)] of hydrochloric acid at a HCl mass percent 0..40 (clamped). */
+double scrub_hcl_acid_cp_kj_kg_k(double hcl_wt_pct);
+/* Generalized pressure-drop correlation flooding ordinate Y at flow parameter X (see .c). */
+double scrub_gpdc_flood_y(double flow_parameter);
 
 #endif

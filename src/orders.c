@@ -1,0 +1,179 @@
+/*
+ * orders.c - monthly demand, stock carried over, whole containers, order-by dates.
+ *
+ * Choices where design section 4 is silent (also in orders.h):
+ * - Several containers for one item: the one that leaves the least usable excess
+ *   (containers x (net - heel) - to order); on a tie the fewer containers, then the
+ *   first in the catalog.
+ * - No container defined for an item with demand: the amount to order is taken as
+ *   bought in bulk (ordered usable = to order), containers = 0 and the line is flagged.
+ * - Lead time: order-by = midnight of the first-use day minus lead_days rounded up
+ *   to whole days, i.e. fractional days round toward the earlier date.
+ * - Months where an item has no demand get no line and leave its stock unchanged.
+ */
+#include "orders.h"
+
+#include <math.h>
+#include <stdlib.h>
+#include <string.h>
+
+#include "hlmem.h"
+#include "isodate.h"
+#include "reagents.h"
+
+#define DAY_MIN 1440
+#define REL_EPS 1e-9 /* round-off guard for whole-container counts and tiny shortfalls */
+
+struct dm { int month, item; int64_t when; double kg; int idx; };
+
+static int cmp_dm(const void *pa, const void *pb)
+{
+    const struct dm *a = pa, *b = pb;
+    if (a->month != b->month)
+        return a->month < b->month ? -1 : 1;
+    if (a->item != b->item)
+        return a->item < b->item ? -1 : 1;
+    if (a->when != b->when)
+        return a->when < b->when ? -1 : 1;
+    return (a->idx > b->idx) - (a->idx < b->idx);
+}
+
+static int64_t day_start(int64_t m) { return (m / DAY_MIN - (m % DAY_MIN < 0)) * DAY_MIN; }
+
+/* Whole containers of `usable` kg for `kg`, without an extra one from round-off. */
+static int count_containers(double kg, double usable)
+{
+    if (!(kg > 0))
+        return 0;
+    double n = kg / usable;
+    return (int)ceil(n - REL_EPS * (n > 1 ? n : 1));
+}
+
+static enum hl_status check(const struct ord_demand *d, int nd, const struct ord_stock *s, int ns,
+                            const struct ord_container *c, int nc, struct hl_err *e)
+{
+    for (int i = 0; i < nd; i++)
+        if (d[i].item < 0 || d[i].item >= RG_COUNT || !(d[i].kg >= 0) || !isfinite(d[i].kg))
+            return hl_err_set(e, HL_ERR_INPUT, "order demand %d: item %d, kg %g not valid", i,
+                              d[i].item, d[i].kg);
+    for (int i = 0; i < ns; i++) {
+        if (s[i].item < 0 || s[i].item >= RG_COUNT || !(s[i].on_hand_kg >= 0) ||
+            !(s[i].safety_kg >= 0) || !(s[i].lead_days >= 0) || !isfinite(s[i].on_hand_kg) ||
+            !isfinite(s[i].safety_kg) || !isfinite(s[i].lead_days) || s[i].lead_days > 3650)
+            return hl_err_set(e, HL_ERR_INPUT, "stock row %d: values must be >= 0 (lead <= 3650 d)", i);
+        for (int j = 0; j < i; j++)
+            if (s[j].item == s[i].item)
+                return hl_err_set(e, HL_ERR_INPUT, "stock rows %d and %d name the same item", j, i);
+    }
+    for (int i = 0; i < nc; i++)
+        if (c[i].item < 0 || c[i].item >= RG_COUNT || !isfinite(c[i].net_kg) ||
+            !(c[i].heel_kg >= 0) || !(c[i].net_kg - c[i].heel_kg > 0))
+            return hl_err_set(e, HL_ERR_INPUT, "container %s: need net_kg > heel_kg >= 0",
+                              c[i].name ? c[i].name : "?");
+    return HL_OK;
+}
+
+enum hl_status ord_plan(const struct ord_demand *d, int nd,
+                        const struct ord_stock *s, int ns,
+                        const struct ord_container *c, int nc,
+                        int64_t today_min, struct ord_line **out, int *nout,
+                        struct hl_err *e)
+{
+    if (!out || !nout || nd < 0 || ns < 0 || nc < 0 || (nd && !d) || (ns && !s) || (nc && !c))
+        return hl_err_set(e, HL_ERR_INPUT, "ord_plan: bad arguments");
+    *out = NULL;
+    *nout = 0;
+    enum hl_status st = check(d, nd, s, ns, c, nc, e);
+    if (st)
+        return st;
+    if (nd == 0)
+        return HL_OK;
+
+    struct dm *v = hl_malloc((size_t)nd * sizeof *v);
+    if (!v)
+        return hl_err_set(e, HL_ERR_NOMEM, "out of memory planning orders");
+    for (int i = 0; i < nd; i++)
+        v[i] = (struct dm){isodate_month_index(d[i].when_min), d[i].item, d[i].when_min, d[i].kg, i};
+    qsort(v, (size_t)nd, sizeof *v, cmp_dm);
+
+    int ng = 0;
+    for (int i = 0; i < nd; i++)
+        if (i == 0 || v[i].month != v[i - 1].month || v[i].item != v[i - 1].item)
+            ng++;
+    struct ord_line *L = hl_calloc((size_t)ng, sizeof *L);
+    if (!L) {
+        hl_free(v);
+        return hl_err_set(e, HL_ERR_NOMEM, "out of memory planning orders");
+    }
+
+    double stock[RG_COUNT], safety[RG_COUNT], lead[RG_COUNT];
+    for (int k = 0; k < RG_COUNT; k++)
+        stock[k] = safety[k] = lead[k] = 0;
+    for (int i = 0; i < ns; i++) {
+        stock[s[i].item] = s[i].on_hand_kg;
+        safety[s[i].item] = s[i].safety_kg;
+        lead[s[i].item] = s[i].lead_days;
+    }
+
+    int g = -1;
+    for (int i = 0; i < nd; i++) {
+        if (i == 0 || v[i].month != v[i - 1].month || v[i].item != v[i - 1].item) {
+            L[++g].month_index = v[i].month;
+            L[g].item = v[i].item;
+            L[g].first_use_min = v[i].when; /* sorted by time within the group */
+        }
+        L[g].demand_kg += v[i].kg;
+    }
+    hl_free(v);
+
+    /* Groups are in month order, so the stock of each item carries forward. */
+    for (g = 0; g < ng; g++) {
+        struct ord_line *o = &L[g];
+        int it = o->item;
+        o->stock_start_kg = stock[it];
+        o->safety_kg = safety[it];
+        double need = o->demand_kg + o->safety_kg - o->stock_start_kg;
+        double scale = o->demand_kg + o->safety_kg + fabs(o->stock_start_kg);
+        o->to_order_kg = need > REL_EPS * scale ? need : 0;
+
+        int best = -1, best_n = 0;
+        double best_waste = 0;
+        for (int j = 0; j < nc; j++) {
+            if (c[j].item != it)
+                continue;
+            double usable = c[j].net_kg - c[j].heel_kg;
+            int n = count_containers(o->to_order_kg, usable);
+            double waste = n * usable - o->to_order_kg;
+            if (waste < 0)
+                waste = 0; /* within the round-off guard */
+            double tol = REL_EPS * (usable > 1 ? usable : 1);
+            if (best < 0 || waste < best_waste - tol || (fabs(waste - best_waste) <= tol && n < best_n)) {
+                best = j;
+                best_n = n;
+                best_waste = waste;
+            }
+        }
+        if (best >= 0) {
+            o->container = c[best].name;
+            o->net_kg = c[best].net_kg;
+            o->heel_kg = c[best].heel_kg;
+            o->containers = best_n;
+            o->ordered_usable_kg = best_n * (c[best].net_kg - c[best].heel_kg);
+        } else {
+            o->no_container = o->demand_kg > 0;
+            o->ordered_usable_kg = o->to_order_kg; /* bought in bulk */
+        }
+        o->stock_end_kg = o->stock_start_kg + o->ordered_usable_kg - o->demand_kg;
+        stock[it] = o->stock_end_kg;
+
+        /* whole lead days, rounded up: a fractional day moves the date earlier */
+        int64_t lead_d = (int64_t)ceil(lead[it] - REL_EPS);
+        if (lead_d < 0)
+            lead_d = 0;
+        o->order_by_min = day_start(o->first_use_min) - lead_d * DAY_MIN;
+        o->late = today_min >= 0 && o->to_order_kg > 0 && o->order_by_min < today_min;
+    }
+    *out = L;
+    *nout = ng;
+    return HL_OK;
+}

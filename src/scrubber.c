@@ -1,0 +1,667 @@
+/*
+ * scrubber.c - vent scrubber liquor, heat, hourly load and packed-column check.
+ *
+ * Everything here is an engineering estimate for planning and checking.  A
+ * scrubber design, its relief and its interlocks need the SDS of every
+ * substance, local regulations and review by a licensed engineer.
+ * Hypochlorite/hypobromite liquor releases Cl2/Br2 when acidified: keep the
+ * liquor alkaline (that is what min_naoh_wt_pct is for) and never mix spent
+ * liquor with acid waste.
+ */
+#include "scrubber.h"
+
+#include <math.h>
+#include <string.h>
+
+#include "hlmem.h"
+
+/* ---- molar masses ----
+ * CIAAW 2021 standard atomic weights, abridged (conventional) values; the same
+ * values include/elements.h carries.  Kept local so that the scrubber needs no
+ * formula parser; test_scrubber checks every sum. */
+#define W_H 1.008
+#define W_O 15.999
+#define W_NA 22.990
+#define W_S 32.06
+#define W_CL 35.45
+#define W_BR 79.904
+
+#define M_NAOH (W_NA + W_O + W_H)
+#define M_H2O (2 * W_H + W_O)
+#define M_AIR 28.9644 /* dry air, U.S. Standard Atmosphere 1976 */
+
+static const double gas_mm[VS_COUNT] = {
+    [VS_HCL] = W_H + W_CL, [VS_HBR] = W_H + W_BR, [VS_CL2] = 2 * W_CL,
+    [VS_BR2] = 2 * W_BR,   [VS_SO2] = W_S + 2 * W_O};
+
+static const double salt_mm[SALT_COUNT] = {
+    [SALT_NACL] = W_NA + W_CL,         [SALT_NABR] = W_NA + W_BR,
+    [SALT_NAOCL] = W_NA + W_O + W_CL,  [SALT_NAOBR] = W_NA + W_O + W_BR,
+    [SALT_NA2SO3] = 2 * W_NA + W_S + 3 * W_O};
+
+static const char *const salt_names[SALT_COUNT] = {"NaCl", "NaBr", "NaOCl", "NaOBr", "Na2SO3"};
+
+/* ---- standard enthalpies of formation at 298.15 K, 1 bar [kJ/mol] ----
+ * NBS = Wagman et al., "The NBS tables of chemical thermodynamic properties",
+ *       J. Phys. Chem. Ref. Data 11, Suppl. 2 (1982).
+ * CODATA = Cox, Wagman & Medvedev, CODATA Key Values for Thermodynamics (1989).
+ * "aq" is the hypothetical 1 mol/kg standard state (infinite dilution); the
+ * heats are therefore those of absorption into dilute liquor.  Salts whose
+ * neutral aqueous value we could not confirm are sums of NBS ion values, and
+ * ion values recalled without the table in hand are marked "from memory". */
+enum tsp {
+    T_H2O, T_HCL_G, T_HCL_AQ, T_HBR_G, T_CL2_G, T_BR2_G, T_SO2_G, T_NAOH_AQ,
+    T_NACL_AQ, T_NABR_AQ, T_NAOCL_AQ, T_NAOBR_AQ, T_NA2SO3_AQ, T_COUNT
+};
+/* ion values (NBS 1982): Na+(aq) -240.12; ClO-(aq) -107.1, BrO-(aq) -94.1, SO3^2-(aq) -635.5 */
+#define DFH_NA_ION (-240.12)
+static const struct scrub_dfh dfh[T_COUNT] = {
+    [T_H2O] = {"H2O(l)", -285.830, "NBS 1982 (CODATA 1989 -285.830)"},
+    [T_HCL_G] = {"HCl(g)", -92.307, "NBS 1982 (CODATA 1989 -92.31)"},
+    [T_HCL_AQ] = {"HCl(aq)", -167.159, "NBS 1982"},
+    [T_HBR_G] = {"HBr(g)", -36.29, "CODATA 1989 (NBS 1982 lists -36.40)"},
+    [T_CL2_G] = {"Cl2(g)", 0.0, "reference state"},
+    [T_BR2_G] = {"Br2(g)", 30.907, "NBS 1982 (Br2(l) = 0, reference state)"},
+    [T_SO2_G] = {"SO2(g)", -296.830, "NBS 1982"},
+    [T_NAOH_AQ] = {"NaOH(aq)", -470.114, "NBS 1982"},
+    [T_NACL_AQ] = {"NaCl(aq)", -407.27, "NBS 1982"},
+    [T_NABR_AQ] = {"NaBr(aq)", -361.67, "NBS 1982"},
+    [T_NAOCL_AQ] = {"NaOCl(aq)", DFH_NA_ION - 107.1,
+                    "Na+(aq) -240.12 (NBS 1982) + ClO-(aq) -107.1 (NBS 1982, from memory)"},
+    [T_NAOBR_AQ] = {"NaOBr(aq)", DFH_NA_ION - 94.1,
+                    "Na+(aq) -240.12 (NBS 1982) + BrO-(aq) -94.1 (NBS 1982, from memory)"},
+    [T_NA2SO3_AQ] = {"Na2SO3(aq)", 2 * DFH_NA_ION - 635.5,
+                     "2 Na+(aq) (NBS 1982) + SO3^2-(aq) -635.5 (NBS 1982, from memory)"},
+};
+
+const struct scrub_dfh *scrub_dfh_get(int i)
+{
+    return i >= 0 && i < T_COUNT ? &dfh[i] : NULL;
+}
+
+/* Caustic liquor reactions of design section 4, per mole of vent gas. */
+struct rxn {
+    int gas;                   /* table species of the gas */
+    double naoh;               /* NaOH used */
+    int salt[2]; double nsalt[2]; /* salts formed (-1 = none) */
+};
+static const struct rxn rxns[VS_COUNT] = {
+    [VS_HCL] = {T_HCL_G, 1, {SALT_NACL, -1}, {1, 0}},
+    [VS_HBR] = {T_HBR_G, 1, {SALT_NABR, -1}, {1, 0}},
+    [VS_CL2] = {T_CL2_G, 2, {SALT_NACL, SALT_NAOCL}, {1, 1}},
+    [VS_BR2] = {T_BR2_G, 2, {SALT_NABR, SALT_NAOBR}, {1, 1}},
+    [VS_SO2] = {T_SO2_G, 2, {SALT_NA2SO3, -1}, {1, 0}},
+};
+static const int salt_tsp[SALT_COUNT] = {T_NACL_AQ, T_NABR_AQ, T_NAOCL_AQ, T_NAOBR_AQ,
+                                         T_NA2SO3_AQ};
+
+double scrub_heat_kj_per_mol(int vs, int water_liquor)
+{
+    if (vs < 0 || vs >= VS_COUNT)
+        return 0;
+    if (water_liquor)
+        /* Only HCl is credited as absorbed in water (HCl(g) -> HCl(aq)); the
+         * other gases pass through and the run is flagged. */
+        return vs == VS_HCL ? -(dfh[T_HCL_AQ].dfh_kj_mol - dfh[T_HCL_G].dfh_kj_mol) : 0;
+    const struct rxn *r = &rxns[vs];
+    double h = dfh[T_H2O].dfh_kj_mol - dfh[r->gas].dfh_kj_mol - r->naoh * dfh[T_NAOH_AQ].dfh_kj_mol;
+    for (int k = 0; k < 2; k++)
+        if (r->salt[k] >= 0)
+            h += r->nsalt[k] * dfh[salt_tsp[r->salt[k]]].dfh_kj_mol;
+    return -h; /* released */
+}
+
+double scrub_naoh_per_mol(int vs)
+{
+    return vs >= 0 && vs < VS_COUNT ? rxns[vs].naoh : 0;
+}
+
+double scrub_salt_molar_mass_g_mol(int salt)
+{
+    return salt >= 0 && salt < SALT_COUNT ? salt_mm[salt] : 0;
+}
+
+const char *scrub_salt_name(int salt)
+{
+    return salt >= 0 && salt < SALT_COUNT ? salt_names[salt] : NULL;
+}
+
+/* ---- property tables (linear interpolation, clamped at the ends) ---- */
+struct pt { double x, y; };
+
+static double interp(const struct pt *t, int n, double x)
+{
+    if (!(x > t[0].x))
+        return t[0].y;
+    if (x >= t[n - 1].x)
+        return t[n - 1].y;
+    int i = 1;
+    while (t[i].x < x)
+        i++;
+    double f = (x - t[i - 1].x) / (t[i].x - t[i - 1].x);
+    return t[i - 1].y + f * (t[i].y - t[i - 1].y);
+}
+#define NPT(t) ((int)(sizeof(t) / sizeof(t[0])))
+
+/* Hydrochloric acid, density at 20 C [g/cm3] vs HCl mass percent: CRC Handbook of
+ * Chemistry and Physics, "Concentrative properties of aqueous solutions" (the same
+ * figures appear in Perry's Chemical Engineers' Handbook).  Values from memory of that
+ * table; 0 % is water at 20 C, 0.99820 g/cm3. */
+static const struct pt hcl_rho[] = {
+    {0, 0.99820},  {2, 1.0082},  {4, 1.0181},  {6, 1.0279},  {8, 1.0376},  {10, 1.0474},
+    {12, 1.0574},  {14, 1.0675}, {16, 1.0776}, {18, 1.0878}, {20, 1.0980}, {22, 1.1083},
+    {24, 1.1187},  {26, 1.1290}, {28, 1.1392}, {30, 1.1493}, {32, 1.1593}, {34, 1.1691},
+    {36, 1.1789},  {38, 1.1885}, {40, 1.1980}};
+
+double scrub_hcl_acid_density_kg_m3(double wt) { return 1000.0 * interp(hcl_rho, NPT(hcl_rho), wt); }
+
+/* Caustic soda solution, density at 20 C [g/cm3]: CRC Handbook, "Concentrative
+ * properties of aqueous solutions"; values from memory of that table. */
+static const struct pt naoh_rho[] = {{0, 0.99820}, {10, 1.1089}, {20, 1.2191},
+                                     {30, 1.3277}, {40, 1.4300}, {50, 1.5253}};
+
+double scrub_naoh_density_kg_m3(double wt) { return 1000.0 * interp(naoh_rho, NPT(naoh_rho), wt); }
+
+/* Caustic soda solution heat capacity near 20 C [kJ/(kg K)] vs NaOH mass percent.
+ * From memory (caustic producers' data sheets give about 0.78 Btu/(lb F) = 3.27 at
+ * 50 %); about +-3 %.  0 % is liquid water, 4.18 (IAPWS-95 near 20 C).  Salts in
+ * spent liquor lower it a little more; the rise is then slightly understated. */
+static const struct pt naoh_cp[] = {{0, 4.18}, {10, 3.78}, {20, 3.59},
+                                    {30, 3.48}, {40, 3.38}, {50, 3.27}};
+
+double scrub_liquor_cp_kj_kg_k(double wt) { return interp(naoh_cp, NPT(naoh_cp), wt); }
+
+/* Hydrochloric acid heat capacity [kJ/(kg K)]: from memory of Perry's table of heat
+ * capacities of aqueous HCl (cal/(g K) 1.00, 0.72, 0.61, 0.58, 0.55 at 0, 9.09, 16.7,
+ * 20.0, 25.9 mol % HCl), converted to mass percent and kJ/(kg K). */
+static const struct pt hcl_cp[] = {{0, 4.18}, {16.8, 3.01}, {28.8, 2.55}, {33.6, 2.43},
+                                   {41.5, 2.30}};
+
+double scrub_hcl_acid_cp_kj_kg_k(double wt) { return interp(hcl_cp, NPT(hcl_cp), wt); }
+
+/* Caustic soda viscosity at 20 C [mPa s], from memory (approximate); it enters the
+ * flooding correlation only as mu^0.2, so a 2x error moves the diameter by ~4 %. */
+static const struct pt naoh_mu[] = {{0, 1.00}, {10, 1.9}, {20, 4.5}, {30, 11.0},
+                                    {40, 30.0}, {50, 80.0}};
+
+/* ---- packed column ----
+ * Flooding line of Eckert's generalized pressure-drop correlation (J. S. Eckert,
+ * Chem. Eng. Prog. 66(3), 39 (1970)) as the cubic fit in ln X
+ *   ln Y = -3.7121 - 1.0371 ln X - 0.1501 (ln X)^2 - 0.007544 (ln X)^3,
+ *   X = (L/G) sqrt(rho_G/rho_L),  Y = (u^2 Fp / g)(rho_G/rho_L)(rho_W/rho_L) mu_L^0.2
+ * with u the superficial gas velocity, Fp the packing factor, mu_L in mPa s.  The fit's
+ * coefficients are from memory (the form is the one common in separation-process
+ * texts) and it is used for 0.01 <= X <= 10 only.  Packing factors: Perry's Chemical
+ * Engineers' Handbook table of packing characteristics (listed in 1/ft: multiply by
+ * 3.281 for 1/m). */
+#define GPDC_X_MIN 0.01
+#define GPDC_X_MAX 10.0
+
+double scrub_gpdc_flood_y(double x)
+{
+    double l = log(x);
+    return exp(-3.7121 - 1.0371 * l - 0.1501 * l * l - 0.007544 * l * l * l);
+}
+
+double scrub_ntu(double y_in, double y_out)
+{
+    if (!(y_in > 0) || !(y_out > 0) || y_out >= y_in)
+        return 0;
+    return log(y_in / y_out);
+}
+
+#define P_ATM 101325.0        /* the column runs near atmospheric: common practice */
+#define R_GAS 8.314462618     /* J/(mol K), CODATA 2018 */
+#define G_STD 9.80665         /* m/s2, standard gravity */
+#define RHO_WATER 998.20      /* kg/m3 at 20 C */
+#define PI 3.14159265358979323846
+
+static void column_check(const struct scrub_unit_in *u, double peak_kmol_h, double acid_mm,
+                         struct scrub_column_check *c)
+{
+    memset(c, 0, sizeof *c);
+    c->present = 1;
+    c->gas_kmol_h = u->carrier_kmol_h + peak_kmol_h;
+    if (!(c->gas_kmol_h > 0))
+        return;
+    c->y_in = peak_kmol_h / c->gas_kmol_h;
+    c->y_out = c->y_in * (1.0 - u->removal_fraction);
+    c->ntu = scrub_ntu(c->y_in, c->y_out);
+    c->height_m = c->ntu * u->htu_m;
+
+    double gas_kg_h = u->carrier_kmol_h * M_AIR + peak_kmol_h * acid_mm;
+    double mix_mm = gas_kg_h / c->gas_kmol_h; /* kg/kmol = g/mol */
+    c->gas_density_kg_m3 = P_ATM * mix_mm / 1000.0 / (R_GAS * (u->gas_temp_c + 273.15));
+    double mu = 1.0;
+    if (u->water_liquor) {
+        c->liquid_density_kg_m3 = RHO_WATER;
+    } else {
+        c->liquid_density_kg_m3 = scrub_naoh_density_kg_m3(u->naoh_wt_pct);
+        mu = interp(naoh_mu, NPT(naoh_mu), u->naoh_wt_pct);
+    }
+    double rg = c->gas_density_kg_m3, rl = c->liquid_density_kg_m3;
+    double x = u->liquor_kg_h / gas_kg_h * sqrt(rg / rl);
+    c->flow_parameter = x;
+    if (x < GPDC_X_MIN || x > GPDC_X_MAX) {
+        c->outside_fit = 1;
+        x = x < GPDC_X_MIN ? GPDC_X_MIN : GPDC_X_MAX;
+    }
+    double y = scrub_gpdc_flood_y(x);
+    c->flood_velocity_m_s = sqrt(y * G_STD / (u->packing_factor_1_m * (rg / rl) * (RHO_WATER / rl) *
+                                              pow(mu, 0.2)));
+    c->design_velocity_m_s = u->flood_fraction * c->flood_velocity_m_s;
+    double q_m3_s = gas_kg_h / rg / 3600.0;
+    c->diameter_m = sqrt(4.0 * q_m3_s / (PI * c->design_velocity_m_s));
+}
+
+/* ---- campaign ---- */
+
+#define MAX_HOURS (20L * 366 * 24) /* a load profile longer than 20 years is a bad input */
+#define DEFAULT_MAX_ACID_WT_PCT 20.0 /* same default as campaign.c (HCl-water azeotrope, from memory) */
+#define DEFAULT_MAKEUP_WT_PCT 50.0   /* purchased caustic soda 50 %: common practice */
+
+struct liq {
+    double naoh, water, hcl, salt[SALT_COUNT]; /* kg in the unit */
+    int dirty;               /* something absorbed since the last fill */
+    int used;                /* any run on this unit */
+    double busy_until_min;   /* end of the latest vent window so far */
+    int64_t first_min;       /* earliest run start */
+    double last_end_min;     /* latest vent-window end */
+    double gas_mol, gas_g;   /* totals, for the column's mean acid molar mass */
+    double max_rate;         /* largest run rate [kmol/h]: scale of the round-off */
+    int cap_spent;
+};
+
+static double liq_mass(const struct liq *q)
+{
+    double m = q->naoh + q->water + q->hcl;
+    for (int s = 0; s < SALT_COUNT; s++)
+        m += q->salt[s];
+    return m;
+}
+
+static void fill(const struct scrub_unit_in *u, struct liq *q)
+{
+    q->naoh = u->water_liquor ? 0 : u->liquor_kg * u->naoh_wt_pct / 100.0;
+    q->water = u->liquor_kg - q->naoh;
+    q->hcl = 0;
+    memset(q->salt, 0, sizeof q->salt);
+    q->dirty = 0;
+}
+
+static enum hl_status push_spent(struct scrub_unit_out *o, struct liq *q, int64_t at, int final)
+{
+    if (o->nspent == q->cap_spent) {
+        int cap = q->cap_spent ? 2 * q->cap_spent : 4;
+        struct scrub_spent *p = hl_realloc(o->spent, (size_t)cap * sizeof *p);
+        if (!p)
+            return HL_ERR_NOMEM;
+        o->spent = p;
+        q->cap_spent = cap;
+    }
+    struct scrub_spent *s = &o->spent[o->nspent++];
+    memset(s, 0, sizeof *s);
+    s->at_min = at;
+    s->mass_kg = liq_mass(q);
+    s->naoh_kg = q->naoh;
+    s->water_kg = q->water;
+    s->hcl_kg = q->hcl;
+    memcpy(s->salt_kg, q->salt, sizeof s->salt_kg);
+    s->final = final;
+    return HL_OK;
+}
+
+/* Would absorbing vent (mol) break the liquor limit? Caustic: NaOH wt% below the
+ * minimum (or NaOH short); water: HCl wt% above the maximum. */
+static int over_limit(const struct scrub_unit_in *u, const struct liq *q, const double *vent)
+{
+    double gas_kg = 0, naoh_kg = 0;
+    if (u->water_liquor) {
+        gas_kg = vent[VS_HCL] * gas_mm[VS_HCL] / 1000.0;
+        if (!(gas_kg > 0))
+            return 0;
+        double max = u->max_acid_wt_pct > 0 ? u->max_acid_wt_pct : DEFAULT_MAX_ACID_WT_PCT;
+        return (q->hcl + gas_kg) / (liq_mass(q) + gas_kg) * 100.0 > max;
+    }
+    for (int v = 0; v < VS_COUNT; v++) {
+        gas_kg += vent[v] * gas_mm[v] / 1000.0;
+        naoh_kg += vent[v] * rxns[v].naoh * M_NAOH / 1000.0;
+    }
+    if (!(naoh_kg > 0))
+        return 0;
+    double left = q->naoh - naoh_kg;
+    return left < 0 || left / (liq_mass(q) + gas_kg) * 100.0 < u->min_naoh_wt_pct;
+}
+
+/* Absorb one run's vent into the liquor and fill the run's liquor figures. */
+static void absorb(const struct scrub_unit_in *u, struct liq *q, const double *vent,
+                   struct scrub_run_out *r)
+{
+    double wt_before = 0, mass_before = liq_mass(q);
+    if (u->water_liquor) {
+        wt_before = mass_before > 0 ? q->hcl / mass_before * 100.0 : 0;
+        double kg = vent[VS_HCL] * gas_mm[VS_HCL] / 1000.0;
+        q->hcl += kg;
+        r->heat_kj = vent[VS_HCL] * scrub_heat_kj_per_mol(VS_HCL, 1);
+        for (int v = 0; v < VS_COUNT; v++)
+            if (v != VS_HCL)
+                r->unabsorbed_mol += vent[v];
+        r->unabsorbed = r->unabsorbed_mol > 0;
+    } else {
+        wt_before = mass_before > 0 ? q->naoh / mass_before * 100.0 : 0;
+        double need_kg = 0, total_mol = 0;
+        for (int v = 0; v < VS_COUNT; v++) {
+            need_kg += vent[v] * rxns[v].naoh * M_NAOH / 1000.0;
+            total_mol += vent[v];
+        }
+        /* When the NaOH runs out, every gas is neutralised in the same proportion and
+         * the rest breaks through: a simple bound, flagged as exhausted. */
+        double f = need_kg > q->naoh ? (q->naoh > 0 ? q->naoh / need_kg : 0) : 1.0;
+        r->breakthrough_mol = (1.0 - f) * total_mol;
+        for (int v = 0; v < VS_COUNT; v++) {
+            double n = f * vent[v];
+            if (!(n > 0))
+                continue;
+            q->naoh -= n * rxns[v].naoh * M_NAOH / 1000.0;
+            q->water += n * M_H2O / 1000.0;
+            r->water_formed_kg += n * M_H2O / 1000.0;
+            for (int k = 0; k < 2; k++)
+                if (rxns[v].salt[k] >= 0) {
+                    double kg = n * rxns[v].nsalt[k] * salt_mm[rxns[v].salt[k]] / 1000.0;
+                    q->salt[rxns[v].salt[k]] += kg;
+                    r->salt_kg[rxns[v].salt[k]] += kg;
+                }
+            r->naoh_kg += n * rxns[v].naoh * M_NAOH / 1000.0;
+            r->heat_kj += n * scrub_heat_kj_per_mol(v, 0);
+        }
+        if (q->naoh < 0)
+            q->naoh = 0; /* round-off only: f caps the use at what is there */
+    }
+    double mass = liq_mass(q);
+    if (mass > mass_before)
+        q->dirty = 1;
+    /* The heat warms the whole liquor after absorption; cp at the strength the run
+     * starts with (an input cp overrides the built-in tables). */
+    double cp = u->liquor_cp_kj_kg_k > 0 ? u->liquor_cp_kj_kg_k
+                : u->water_liquor ? scrub_hcl_acid_cp_kj_kg_k(wt_before)
+                                  : scrub_liquor_cp_kj_kg_k(wt_before);
+    r->temp_rise_k = mass > 0 ? r->heat_kj / (mass * cp) : 0;
+    r->naoh_left_kg = q->naoh;
+    r->liquor_kg_after = mass;
+    r->naoh_wt_pct_after = mass > 0 ? q->naoh / mass * 100.0 : 0;
+    r->acid_wt_pct_after = u->water_liquor && mass > 0 ? q->hcl / mass * 100.0 : 0;
+}
+
+static enum hl_status check_inputs(const struct scrub_unit_in *units, int nunits,
+                                   const struct scrub_run_in *runs, int nruns, const int *order,
+                                   char *seen, struct hl_err *e)
+{
+    for (int i = 0; i < nunits; i++) {
+        const struct scrub_unit_in *u = &units[i];
+        const char *id = u->id ? u->id : "?";
+        if (!(u->liquor_kg > 0) || !isfinite(u->liquor_kg))
+            return hl_err_set(e, HL_ERR_INPUT, "scrubber %s: liquor_kg must be > 0", id);
+        if (!u->water_liquor && (!(u->naoh_wt_pct > 0 && u->naoh_wt_pct < 100) ||
+                                 !(u->min_naoh_wt_pct >= 0 && u->min_naoh_wt_pct < u->naoh_wt_pct)))
+            return hl_err_set(e, HL_ERR_INPUT,
+                              "scrubber %s: need 0 < naoh_wt_pct < 100 and 0 <= min_naoh_wt_pct < "
+                              "naoh_wt_pct", id);
+        if (u->water_liquor && !(u->max_acid_wt_pct < 100))
+            return hl_err_set(e, HL_ERR_INPUT, "scrubber %s: max_acid_wt_pct must be < 100", id);
+        if (u->has_column &&
+            (!(u->packing_factor_1_m > 0) || !(u->htu_m > 0) || !(u->removal_fraction > 0) ||
+             !(u->removal_fraction < 1) || !(u->flood_fraction > 0) || !(u->flood_fraction <= 1) ||
+             !(u->carrier_kmol_h >= 0) || !(u->liquor_kg_h > 0) || !(u->gas_temp_c > -273.15)))
+            return hl_err_set(e, HL_ERR_INPUT,
+                              "scrubber %s: column needs packing factor, HTU, liquor flow > 0, "
+                              "0 < removal < 1, 0 < flood fraction <= 1, carrier >= 0", id);
+    }
+    for (int i = 0; i < nruns; i++) {
+        const struct scrub_run_in *r = &runs[i];
+        if (r->unit < -1 || r->unit >= nunits)
+            return hl_err_set(e, HL_ERR_INPUT, "run %d: scrubber index %d out of range", i, r->unit);
+        if (!(r->feed_h > 0) || !isfinite(r->feed_h) || !isfinite(r->peak_factor))
+            return hl_err_set(e, HL_ERR_INPUT, "run %d: feed_h must be > 0", i);
+        for (int v = 0; v < VS_COUNT; v++)
+            if (!(r->vent_mol[v] >= 0) || !isfinite(r->vent_mol[v]))
+                return hl_err_set(e, HL_ERR_INPUT, "run %d: vent amounts must be >= 0", i);
+    }
+    for (int k = 0; k < nruns; k++) {
+        int i = order[k];
+        if (i < 0 || i >= nruns || seen[i])
+            return hl_err_set(e, HL_ERR_INPUT, "run order: entry %d is not a permutation", k);
+        seen[i] = 1;
+        if (k > 0 && runs[i].start_min < runs[order[k - 1]].start_min)
+            return hl_err_set(e, HL_ERR_INPUT, "run order: entry %d starts before entry %d", k, k - 1);
+    }
+    return HL_OK;
+}
+
+static double pf_of(const struct scrub_run_in *r) { return r->peak_factor > 0 ? r->peak_factor : 1.0; }
+
+static int64_t floor_div(int64_t a, int64_t b) { return a / b - ((a % b != 0) && ((a < 0) != (b < 0))); }
+
+void scrub_unit_out_free(struct scrub_unit_out *u, int nunits)
+{
+    if (!u)
+        return;
+    for (int i = 0; i < nunits; i++) {
+        hl_free(u[i].peak_runs);
+        hl_free(u[i].hourly_kmol_h);
+        hl_free(u[i].spent);
+        u[i].peak_runs = NULL;
+        u[i].hourly_kmol_h = NULL;
+        u[i].spent = NULL;
+        u[i].npeak_runs = u[i].nhours = u[i].nspent = 0;
+    }
+}
+
+enum hl_status scrub_campaign(const struct scrub_unit_in *units, int nunits,
+                              const struct scrub_run_in *runs, int nruns, const int *order,
+                              struct scrub_run_out *run_out, struct scrub_unit_out *unit_out,
+                              struct hl_err *e)
+{
+    if (nunits < 0 || nruns < 0 || (nunits && (!units || !unit_out)) ||
+        (nruns && (!runs || !order || !run_out)))
+        return hl_err_set(e, HL_ERR_INPUT, "scrub_campaign: bad arguments");
+    if (nunits)
+        memset(unit_out, 0, (size_t)nunits * sizeof *unit_out);
+    if (nruns)
+        memset(run_out, 0, (size_t)nruns * sizeof *run_out);
+
+    enum hl_status st = HL_OK;
+    char *seen = hl_calloc((size_t)(nruns ? nruns : 1), 1);
+    struct liq *q = hl_calloc((size_t)(nunits ? nunits : 1), sizeof *q);
+    double **diff = hl_calloc((size_t)(nunits ? nunits : 1), sizeof *diff);
+    if (!seen || !q || !diff) {
+        st = hl_err_set(e, HL_ERR_NOMEM, "out of memory in the scrubber model");
+        goto out;
+    }
+    if ((st = check_inputs(units, nunits, runs, nruns, order, seen, e)))
+        goto out;
+
+    /* Pass 1: each unit's time span, for the size of its hourly profile. */
+    for (int i = 0; i < nruns; i++) {
+        const struct scrub_run_in *r = &runs[i];
+        double gas = 0;
+        for (int v = 0; v < VS_COUNT; v++)
+            gas += r->vent_mol[v];
+        run_out[i].acid_kmol_h = gas / 1000.0 / r->feed_h * pf_of(r);
+        if (r->unit < 0)
+            continue;
+        struct liq *l = &q[r->unit];
+        double end = (double)r->start_min + r->feed_h / pf_of(r) * 60.0;
+        if (!l->used || r->start_min < l->first_min)
+            l->first_min = r->start_min;
+        if (!l->used || end > l->last_end_min)
+            l->last_end_min = end;
+        l->used = 1;
+        for (int v = 0; v < VS_COUNT; v++) {
+            l->gas_mol += r->vent_mol[v];
+            l->gas_g += r->vent_mol[v] * gas_mm[v];
+        }
+    }
+    for (int u = 0; u < nunits; u++) {
+        struct scrub_unit_out *o = &unit_out[u];
+        if (!q[u].used)
+            continue;
+        o->hour0_min = floor_div(q[u].first_min, 60) * 60;
+        double hours = ceil((q[u].last_end_min - (double)o->hour0_min) / 60.0);
+        if (!(hours <= MAX_HOURS)) {
+            st = hl_err_set(e, HL_ERR_INPUT,
+                            "scrubber %s: load profile would span %.0f hours (more than 20 years)",
+                            units[u].id ? units[u].id : "?", hours);
+            goto out;
+        }
+        o->nhours = hours < 1 ? 1 : (int)hours;
+        o->hourly_kmol_h = hl_calloc((size_t)o->nhours + 1, sizeof(double));
+        diff[u] = hl_calloc((size_t)o->nhours + 1, sizeof(double));
+        if (!o->hourly_kmol_h || !diff[u]) {
+            st = hl_err_set(e, HL_ERR_NOMEM, "out of memory in the scrubber model");
+            goto out;
+        }
+        fill(&units[u], &q[u]);
+        q[u].busy_until_min = -HUGE_VAL;
+    }
+
+    /* Pass 2, in start order: liquor run by run, and each run's vent into the bins.
+     * The vent leaves at rate = amount / feed_h x peak_factor over [start, start +
+     * feed_h / peak_factor], so the amount is conserved.  Bin k holds the kmol entering
+     * in clock hour k (per 1 h): the partial first and last hours go straight into the
+     * bin, the whole hours between into a difference array - O(1) per run. */
+    for (int k = 0; k < nruns; k++) {
+        int i = order[k];
+        const struct scrub_run_in *r = &runs[i];
+        struct scrub_run_out *ro = &run_out[i];
+        if (r->unit < 0)
+            continue;
+        const struct scrub_unit_in *u = &units[r->unit];
+        struct scrub_unit_out *o = &unit_out[r->unit];
+        struct liq *l = &q[r->unit];
+
+        double rate = ro->acid_kmol_h;
+        double a = (double)(r->start_min - o->hour0_min);
+        double b = a + r->feed_h / pf_of(r) * 60.0; /* minutes from hour0 */
+        if (rate > 0) {
+            /* b <= nhours x 60 up to round-off, so ib <= nhours: both arrays have
+             * nhours + 1 slots and the last one is never reported */
+            int64_t ia = (r->start_min - o->hour0_min) / 60, ib = (int64_t)floor(b / 60.0);
+            if (ib > o->nhours)
+                ib = o->nhours;
+            if (rate > l->max_rate)
+                l->max_rate = rate;
+            if (ia == ib) {
+                o->hourly_kmol_h[ia] += rate * (b - a) / 60.0;
+            } else {
+                o->hourly_kmol_h[ia] += rate * ((double)(ia + 1) * 60.0 - a) / 60.0;
+                diff[r->unit][ia + 1] += rate;
+                diff[r->unit][ib] -= rate;
+                o->hourly_kmol_h[ib] += rate * (b - (double)ib * 60.0) / 60.0;
+            }
+        }
+
+        if (over_limit(u, l, r->vent_mol)) {
+            /* A changeout needs the unit idle (no other run venting into it) and is
+             * pointless on fresh liquor; otherwise the run is flagged. */
+            if (l->dirty && (double)r->start_min >= l->busy_until_min) {
+                if ((st = push_spent(o, l, r->start_min, 0))) {
+                    hl_err_set(e, st, "out of memory in the scrubber model");
+                    goto out;
+                }
+                fill(u, l);
+                o->changeouts++;
+                ro->changeout_before = 1;
+            }
+            if (over_limit(u, l, r->vent_mol))
+                ro->exhausted = 1;
+        }
+        absorb(u, l, r->vent_mol, ro);
+        o->naoh_kg += ro->naoh_kg;
+        o->heat_kj += ro->heat_kj;
+        double end = (double)r->start_min + r->feed_h / pf_of(r) * 60.0;
+        if (end > l->busy_until_min)
+            l->busy_until_min = end;
+    }
+
+    /* Per unit: the profile, its peak, the final liquor and the caustic make-up. */
+    for (int u = 0; u < nunits; u++) {
+        struct scrub_unit_out *o = &unit_out[u];
+        const struct scrub_unit_in *ui = &units[u];
+        if (!q[u].used)
+            continue;
+        double run = 0, best = -1;
+        int at = 0;
+        for (int h = 0; h < o->nhours; h++) {
+            run += diff[u][h];
+            if (fabs(run) < 1e-12 * q[u].max_rate)
+                run = 0; /* what is left of +r -r pairs is round-off */
+            o->hourly_kmol_h[h] += run;
+            /* earliest hour wins a tie, including ties broken only by round-off */
+            if (o->hourly_kmol_h[h] > best * (1 + 1e-12) + 1e-300) {
+                best = o->hourly_kmol_h[h];
+                at = h;
+            }
+        }
+        o->peak_acid_kmol_h = best > 0 ? best : 0;
+        o->peak_at_min = o->hour0_min + (int64_t)at * 60;
+        o->overloaded = ui->rated_acid_kmol_h > 0 &&
+                        o->peak_acid_kmol_h > ui->rated_acid_kmol_h * (1 + 1e-12);
+        if ((st = push_spent(o, &q[u], (int64_t)ceil(q[u].last_end_min - 1e-9), 1))) {
+            hl_err_set(e, st, "out of memory in the scrubber model");
+            goto out;
+        }
+        /* The first fill is in place before the campaign: only changeouts buy caustic. */
+        if (!ui->water_liquor) {
+            double mk = ui->makeup_naoh_wt_pct > 0 ? ui->makeup_naoh_wt_pct : DEFAULT_MAKEUP_WT_PCT;
+            o->makeup_kg = o->changeouts * ui->liquor_kg * ui->naoh_wt_pct / 100.0 / (mk / 100.0);
+        }
+    }
+
+    /* Runs active in each unit's peak hour: one sweep over the runs. */
+    for (int pass = 0; pass < 2; pass++) {
+        for (int k = 0; k < nruns; k++) {
+            int i = order[k];
+            const struct scrub_run_in *r = &runs[i];
+            if (r->unit < 0 || !(run_out[i].acid_kmol_h > 0))
+                continue;
+            struct scrub_unit_out *o = &unit_out[r->unit];
+            if (!(o->peak_acid_kmol_h > 0))
+                continue;
+            double a = (double)r->start_min, b = a + r->feed_h / pf_of(r) * 60.0;
+            double p0 = (double)o->peak_at_min, p1 = p0 + 60.0;
+            if ((b < p1 ? b : p1) - (a > p0 ? a : p0) <= 0)
+                continue;
+            if (pass == 1)
+                o->peak_runs[o->npeak_runs] = i;
+            o->npeak_runs++;
+        }
+        if (pass == 0)
+            for (int u = 0; u < nunits; u++) {
+                struct scrub_unit_out *o = &unit_out[u];
+                if (o->npeak_runs && !(o->peak_runs = hl_malloc((size_t)o->npeak_runs * sizeof(int)))) {
+                    st = hl_err_set(e, HL_ERR_NOMEM, "out of memory in the scrubber model");
+                    goto out;
+                }
+                o->npeak_runs = 0;
+            }
+    }
+
+    for (int u = 0; u < nunits; u++)
+        if (units[u].has_column) {
+            double mm = q[u].gas_mol > 0 ? q[u].gas_g / q[u].gas_mol : gas_mm[VS_HCL];
+            column_check(&units[u], unit_out[u].peak_acid_kmol_h, mm, &unit_out[u].column);
+        }
+
+out:
+    if (st && nunits && unit_out) {
+        scrub_unit_out_free(unit_out, nunits);
+        memset(unit_out, 0, (size_t)nunits * sizeof *unit_out);
+    }
+    if (diff)
+        for (int u = 0; u < nunits; u++)
+            hl_free(diff[u]);
+    hl_free(diff);
+    hl_free(q);
+    hl_free(seen);
+    return st;
+}
