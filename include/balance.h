@@ -71,7 +71,8 @@ struct bal_out {
 
 /* Compute the balance of one run. On HL_ERR_INPUT, e->field names the input
  * ("smiles", "product_smiles", "formula", "reagent") and e->col the column inside
- * it (0 = the whole value). out is owned by the caller: bal_free. */
+ * it (0 = the whole value); out is then left empty. On success out is owned by the
+ * caller: bal_free. */
 enum hl_status bal_compute(const struct bal_in *in, struct bal_out *out, struct hl_err *e);
 
 void bal_free(struct bal_out *out);

@@ -27,5 +27,7 @@ void isodate_format(int64_t minutes, int date_only, char *buf, size_t n);
 void isodate_month(int64_t minutes, char *buf, size_t n);
 /* Month index y*12 + (mo-1), for grouping without strings. */
 int isodate_month_index(int64_t minutes);
+/* "YYYY-MM" of a month index (buf >= 16 to hold any int safely). */
+void isodate_month_text(int month_index, char *buf, size_t n);
 
 #endif

@@ -19,8 +19,9 @@
 
 struct ledger_run {
     char *id, *reactor, *scrubber, *substrate_name, *smiles; /* owned; reactor/scrubber/name/smiles may be NULL */
+    int scrubber_index;                  /* into ledger.scrubbers, -1 = none */
     int64_t start_min;
-    double feed_h, temp_c, substrate_kg;
+    double feed_h, temp_c, substrate_kg, peak_factor;
     int reagent;
     enum kin_mode mode;
     struct bal_out bal;
@@ -45,7 +46,7 @@ struct ledger_scrubber {
 };
 
 struct ledger_warning { char *run; char *message; };            /* run may be NULL */
-struct ledger_assumption { char *what; double value; char *unit; char *origin; };
+struct ledger_assumption { char *what; int has_value; double value; char *unit; char *origin; }; /* has_value 0: text only */
 
 struct ledger {
     char *title, *site, *file;

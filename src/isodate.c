@@ -136,3 +136,9 @@ int isodate_month_index(int64_t minutes)
     isodate_to_civil(minutes, &y, &mo, NULL, NULL, NULL);
     return y * 12 + (mo - 1);
 }
+
+void isodate_month_text(int month_index, char *buf, size_t n)
+{
+    int y = month_index >= 0 ? month_index / 12 : -((-month_index + 11) / 12);
+    snprintf(buf, n, "%04d-%02d", y, month_index - y * 12 + 1);
+}

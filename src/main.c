@@ -1,3 +1,292 @@
-/* main.c - placeholder until the CLI lands. */
+/*
+ * main.c - the haloledger command line.
+ *
+ *   haloledger check CAMPAIGN [options]            validate, print a per-month summary
+ *   haloledger report CAMPAIGN -o OUT.xlsx|OUT.json [-o ...] [options]
+ *
+ * Only this file decides exit status (design section 6): 0 success, 1 run-time
+ * failure, 2 bad usage or bad input, 3 with --strict when the ledger carries
+ * warnings.  Nothing is written unless the whole campaign computed cleanly.
+ */
+#include "campaign.h"
+#include "hlmem.h"
+#include "isodate.h"
+#include "json_out.h"
+#include "ledger.h"
+#include "reagents.h"
+#include "xlsx_out.h"
+
+#include <cjson/cJSON.h>
+#include <errno.h>
+#include <getopt.h>
 #include <stdio.h>
-int main(void) { puts("haloledger"); return 0; }
+#include <stdlib.h>
+#include <string.h>
+#include <xlsxwriter.h>
+
+#define HALOLEDGER_VERSION "0.1.0"
+#define MAX_OUTPUTS 4
+
+extern const char catalog_default_json[]; /* templates/containers.json, compiled in */
+
+enum { EXIT_OK = 0, EXIT_RUNTIME = 1, EXIT_INPUT = 2, EXIT_WARNINGS = 3 };
+
+static const char usage_text[] =
+    "Usage: haloledger check CAMPAIGN [--today DATE] [--strict] [--catalog FILE]\n"
+    "       haloledger report CAMPAIGN -o OUT.xlsx|OUT.json [-o ...] [--today DATE]\n"
+    "                         [--strict] [--catalog FILE]\n"
+    "       haloledger --help | --version\n"
+    "\n"
+    "Reads a campaign of free-radical halogenation batches (JSON, see README) and\n"
+    "computes each batch's mass balance, vent-scrubber load and caustic use, halogen\n"
+    "orders by month and the losses to isomers and over-halogenation.\n"
+    "\n"
+    "Commands:\n"
+    "  check     validate the campaign, run every model, print a per-month summary,\n"
+    "            warnings and handling cautions; writes nothing\n"
+    "  report    as check, then write the ledger: .xlsx workbook and/or .json ledger\n"
+    "\n"
+    "Options:\n"
+    "  -o, --output FILE   output file; the extension (.xlsx or .json) picks the format\n"
+    "      --today DATE    ISO 8601 date; orders whose order-by date has passed are flagged\n"
+    "      --strict        exit 3 when the ledger carries warnings (overload, late order...)\n"
+    "      --catalog FILE  container catalog to use instead of the built-in one\n"
+    "  -h, --help          this text\n"
+    "  -V, --version       program and library versions\n"
+    "\n"
+    "Exit status: 0 ok, 1 run-time failure, 2 bad usage or input, 3 warnings with --strict.\n"
+    "Environment: SOURCE_DATE_EPOCH fixes the workbook's creation time when the campaign\n"
+    "has no \"issued\" date.\n"
+    "The figures are planning estimates: check them against the SDS, local regulations\n"
+    "and a licensed engineer's review before acting on them.\n";
+
+static void print_err(const char *file, const struct hl_err *e)
+{
+    if (e->line > 0)
+        fprintf(stderr, "haloledger: %s:%d:%d: %s: %s\n", file, e->line, e->col,
+                e->field[0] ? e->field : "(file)", e->msg);
+    else if (e->field[0])
+        fprintf(stderr, "haloledger: %s: %s: %s\n", file, e->field, e->msg);
+    else
+        fprintf(stderr, "haloledger: %s: %s\n", file, e->msg);
+}
+
+static int exit_for(enum hl_status st)
+{
+    return st == HL_OK ? EXIT_OK : st == HL_ERR_INPUT ? EXIT_INPUT : EXIT_RUNTIME;
+}
+
+static int usage_error(const char *fmt, const char *arg)
+{
+    fprintf(stderr, "haloledger: ");
+    fprintf(stderr, fmt, arg);
+    fprintf(stderr, "\nTry 'haloledger --help'.\n");
+    return EXIT_INPUT;
+}
+
+/* Whole file into a NUL-terminated buffer (hl_free). */
+static char *read_file(const char *path, struct hl_err *e)
+{
+    FILE *f = fopen(path, "rb");
+    if (!f) {
+        hl_err_set(e, errno == ENOENT ? HL_ERR_INPUT : HL_ERR_IO, "cannot open: %s", strerror(errno));
+        return NULL;
+    }
+    size_t cap = 1 << 16, n = 0;
+    char *buf = hl_malloc(cap);
+    while (buf) {
+        n += fread(buf + n, 1, cap - n - 1, f);
+        if (n < cap - 1)
+            break;
+        char *bigger = hl_realloc(buf, cap * 2);
+        if (!bigger) {
+            hl_free(buf);
+            buf = NULL;
+            break;
+        }
+        buf = bigger;
+        cap *= 2;
+    }
+    int bad = ferror(f);
+    fclose(f);
+    if (!buf) {
+        hl_err_set(e, HL_ERR_NOMEM, "out of memory");
+        return NULL;
+    }
+    if (bad) {
+        hl_free(buf);
+        hl_err_set(e, HL_ERR_IO, "read error");
+        return NULL;
+    }
+    buf[n] = '\0';
+    return buf;
+}
+
+static int64_t source_date_minutes(void)
+{
+    const char *s = getenv("SOURCE_DATE_EPOCH");
+    if (!s || !*s)
+        return -1;
+    char *end;
+    errno = 0;
+    long long v = strtoll(s, &end, 10);
+    if (errno || *end || v < 0)
+        return -1;
+    return (int64_t)(v / 60);
+}
+
+static void print_summary(const struct ledger *l)
+{
+    char month[16], when[20];
+    printf("%s%s%s: %d runs\n", l->title ? l->title : "(untitled campaign)", l->site ? ", " : "",
+           l->site ? l->site : "", l->nruns);
+    for (int i = 0; i < l->nmonths; i++) {
+        const struct ledger_month *m = &l->months[i];
+        isodate_month_text(m->month_index, month, sizeof month);
+        double acid = 0;
+        for (int v = 0; v < VS_COUNT; v++)
+            acid += m->vent_kg[v];
+        printf("  %s  runs %d  product %.1f kg  isomers %.1f kg  over-halogenated %.1f kg"
+               "  to scrubber %.1f kg  NaOH %.1f kg  changeouts %d\n",
+               month, m->runs, m->product_kg, m->isomer_kg, m->overhal_kg, acid, m->naoh_kg,
+               m->changeouts);
+        for (int r = 0; r < RG_COUNT; r++)
+            if (m->reagents_kg[r] > 0)
+                printf("           %-7s %.1f kg\n", reagent_get(r)->name, m->reagents_kg[r]);
+    }
+    for (int i = 0; i < l->nscrubbers; i++) {
+        const struct ledger_scrubber *s = &l->scrubbers[i];
+        isodate_format(s->out.peak_at_min, 0, when, sizeof when);
+        printf("  scrubber %s: peak %.3f kmol/h at %s (rated %.3f)%s, %d changeouts, NaOH %.1f kg\n",
+               s->id, s->out.peak_acid_kmol_h, when, s->rated_acid_kmol_h,
+               s->out.overloaded ? " OVERLOADED" : "", s->out.changeouts, s->out.naoh_kg);
+    }
+    for (int i = 0; i < l->norders; i++) {
+        const struct ord_line *o = &l->orders[i];
+        if (o->containers <= 0)
+            continue;
+        isodate_month_text(o->month_index, month, sizeof month);
+        isodate_format(o->order_by_min, 1, when, sizeof when);
+        printf("  order %s %s: %d x %s by %s%s\n", month, reagent_get(o->item)->name, o->containers,
+               o->container ? o->container : "?", when, o->late ? " (LATE)" : "");
+    }
+    if (l->cautions_mask) {
+        printf("Cautions:\n");
+        for (int c = 0; c < CA_COUNT; c++)
+            if (l->cautions_mask & (1u << c))
+                printf("  - %s\n", caution_get(c)->short_form);
+        printf("  %s\n", caution_deferral());
+    }
+}
+
+static int has_ext(const char *path, const char *ext)
+{
+    size_t n = strlen(path), k = strlen(ext);
+    return n > k && !strcmp(path + n - k, ext);
+}
+
+int main(int argc, char **argv)
+{
+    static const struct option opts[] = {
+        {"output", required_argument, NULL, 'o'}, {"today", required_argument, NULL, 't'},
+        {"strict", no_argument, NULL, 's'},        {"catalog", required_argument, NULL, 'c'},
+        {"help", no_argument, NULL, 'h'},          {"version", no_argument, NULL, 'V'},
+        {NULL, 0, NULL, 0}};
+    const char *outputs[MAX_OUTPUTS];
+    int nout = 0, strict = 0, ch;
+    const char *catalog_path = NULL, *today_text = NULL;
+    hl_mem_hook_cjson();
+    opterr = 0; /* our own messages, in our own format */
+    /* GNU getopt permutes, so options may come before or after the command; "--" ends them. */
+    while ((ch = getopt_long(argc, argv, ":o:hV", opts, NULL)) != -1) {
+        switch (ch) {
+        case 'o':
+            if (nout == MAX_OUTPUTS)
+                return usage_error("at most %s outputs", "4");
+            outputs[nout++] = optarg;
+            break;
+        case 't': today_text = optarg; break;
+        case 's': strict = 1; break;
+        case 'c': catalog_path = optarg; break;
+        case 'h': fputs(usage_text, stdout); return EXIT_OK;
+        case 'V':
+            printf("haloledger %s (libxlsxwriter %s, cJSON %s)\n", HALOLEDGER_VERSION, LXW_VERSION,
+                   cJSON_Version());
+            return EXIT_OK;
+        case ':': return usage_error("option %s needs a value", argv[optind - 1]);
+        default: return usage_error("unknown option '%s'", argv[optind - 1]);
+        }
+    }
+    if (optind >= argc)
+        return usage_error("%s", "missing command: check or report");
+    const char *cmd = argv[optind++];
+    int report = !strcmp(cmd, "report");
+    if (!report && strcmp(cmd, "check"))
+        return usage_error("unknown command '%s' (expected check or report)", cmd);
+    if (optind >= argc)
+        return usage_error("%s: missing CAMPAIGN file", cmd);
+    const char *campaign_path = argv[optind++];
+    if (optind < argc)
+        return usage_error("unexpected argument '%s'", argv[optind]);
+    if (report && nout == 0)
+        return usage_error("%s", "report needs -o OUT.xlsx or -o OUT.json");
+    if (!report && nout > 0)
+        return usage_error("%s", "check writes nothing; use report -o");
+    for (int i = 0; i < nout; i++)
+        if (!has_ext(outputs[i], ".xlsx") && !has_ext(outputs[i], ".json"))
+            return usage_error("output '%s' must end in .xlsx or .json", outputs[i]);
+
+    struct ledger_opts lo = {.today_min = -1, .created_min = source_date_minutes()};
+    if (today_text) {
+        int bad;
+        if (isodate_parse(today_text, &lo.today_min, &bad))
+            return usage_error("--today: '%s' is not an ISO 8601 date (YYYY-MM-DD)", today_text);
+    }
+
+    struct hl_err e;
+    hl_err_clear(&e);
+    char *catalog = NULL;
+    if (catalog_path && !(catalog = read_file(catalog_path, &e))) {
+        print_err(catalog_path, &e);
+        return exit_for(e.status);
+    }
+    struct campaign *c = NULL;
+    enum hl_status st = camp_load(campaign_path, catalog ? catalog : catalog_default_json, &c, &e);
+    hl_free(catalog);
+    if (st) {
+        print_err(campaign_path, &e);
+        return exit_for(st);
+    }
+    struct ledger *l = NULL;
+    st = ledger_build(c, &lo, &l, &e);
+    camp_free(c);
+    if (st) {
+        print_err(campaign_path, &e);
+        return exit_for(st);
+    }
+    for (int i = 0; i < l->nwarnings; i++) {
+        const struct ledger_warning *w = &l->warnings[i];
+        if (w->run)
+            fprintf(stderr, "haloledger: warning: run %s: %s\n", w->run, w->message);
+        else
+            fprintf(stderr, "haloledger: warning: %s\n", w->message);
+    }
+    int rc = EXIT_OK;
+    if (!report)
+        print_summary(l);
+    for (int i = 0; i < nout && rc == EXIT_OK; i++) {
+        hl_err_clear(&e);
+        st = has_ext(outputs[i], ".xlsx") ? xlsx_out_write(l, outputs[i], &e)
+                                          : json_out_write(l, outputs[i], &e);
+        if (st) {
+            print_err(outputs[i], &e);
+            rc = exit_for(st);
+        } else {
+            printf("wrote %s\n", outputs[i]);
+        }
+    }
+    if (rc == EXIT_OK && strict && l->nwarnings > 0)
+        rc = EXIT_WARNINGS;
+    ledger_free(l);
+    return rc;
+}

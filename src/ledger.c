@@ -1,0 +1,572 @@
+/*
+ * ledger.c - run every model over a validated campaign (see ledger.h).
+ *
+ * The order is fixed by the data flow: balance per run (independent), then
+ * the scrubbers over the runs in start order (the liquor has a history), then
+ * orders over the month-grouped demand (stock has a history).  Runs are
+ * sorted once by start; everything after is a single pass or a sort, so the
+ * cost is O(n log n) in runs (design section 7).
+ */
+#include "ledger.h"
+#include "hlmem.h"
+#include "isodate.h"
+
+#include <math.h>
+#include <stdarg.h>
+#include <stdio.h>
+#include <stdlib.h>
+#include <string.h>
+
+const char *ledger_role_name(enum bal_role r)
+{
+    switch (r) {
+    case ROLE_WANTED: return "wanted";
+    case ROLE_ISOMER: return "isomer";
+    case ROLE_OVERHAL: return "overhalogenated";
+    case ROLE_UNREACTED: return "unreacted";
+    }
+    return "?";
+}
+
+/* ---- growing lists of warnings and assumptions ---- */
+
+static enum hl_status nomem(struct hl_err *e) { return hl_err_set(e, HL_ERR_NOMEM, "out of memory"); }
+
+static enum hl_status warn(struct ledger *l, struct hl_err *e, const char *run, const char *fmt, ...)
+    __attribute__((format(printf, 4, 5)));
+
+static enum hl_status warn(struct ledger *l, struct hl_err *e, const char *run, const char *fmt, ...)
+{
+    char buf[600];
+    va_list ap;
+    va_start(ap, fmt);
+    vsnprintf(buf, sizeof buf, fmt, ap);
+    va_end(ap);
+    struct ledger_warning *w = hl_realloc(l->warnings, (size_t)(l->nwarnings + 1) * sizeof *w);
+    if (!w)
+        return nomem(e);
+    l->warnings = w;
+    w += l->nwarnings;
+    w->run = hl_strdup(run);
+    w->message = hl_strdup(buf);
+    if ((run && !w->run) || !w->message) {
+        hl_free(w->run);
+        hl_free(w->message);
+        return nomem(e);
+    }
+    l->nwarnings++;
+    return HL_OK;
+}
+
+/* Add an assumption unless one with the same text is listed (the list stays short:
+ * a few dozen distinct values, so a scan is cheaper than a hash). */
+static enum hl_status assume(struct ledger *l, struct hl_err *e, const char *what, int has_value,
+                             double value, const char *unit, const char *origin)
+{
+    for (int i = 0; i < l->nassumptions; i++)
+        if (!strcmp(l->assumptions[i].what, what) &&
+            (!has_value || l->assumptions[i].value == value))
+            return HL_OK;
+    struct ledger_assumption *a = hl_realloc(l->assumptions, (size_t)(l->nassumptions + 1) * sizeof *a);
+    if (!a)
+        return nomem(e);
+    l->assumptions = a;
+    a += l->nassumptions;
+    a->what = hl_strdup(what);
+    a->unit = hl_strdup(unit ? unit : "");
+    a->origin = hl_strdup(origin);
+    a->has_value = has_value;
+    a->value = has_value ? value : 0.0;
+    if (!a->what || !a->unit || !a->origin) {
+        hl_free(a->what);
+        hl_free(a->unit);
+        hl_free(a->origin);
+        return nomem(e);
+    }
+    l->nassumptions++;
+    return HL_OK;
+}
+
+/* ---- per-run balance ---- */
+
+static void model_to_input(const struct camp_model *m, struct bal_in *in)
+{
+    static const struct { unsigned bit; int cls; } map[] = {
+        {CM_PRIMARY, SITE_PRIMARY}, {CM_SECONDARY, SITE_SECONDARY}, {CM_TERTIARY, SITE_TERTIARY},
+        {CM_BENZYLIC, SITE_BENZYLIC}, {CM_ALLYLIC, SITE_ALLYLIC}};
+    const double val[] = {m->primary, m->secondary, m->tertiary, m->benzylic, m->allylic};
+    memset(&in->user, 0, sizeof in->user);
+    for (size_t i = 0; i < sizeof map / sizeof map[0]; i++)
+        if (m->set_mask & map[i].bit) {
+            in->user.r[map[i].cls] = val[i];
+            in->user.set_mask |= 1u << map[i].cls;
+        }
+    if (m->set_mask & CM_REF_TEMP) {
+        in->user.ref_temp_c = m->ref_temp_c;
+        in->user.set_mask |= 1u << SITE_CLASS_COUNT;
+    }
+    in->has_phi = (m->set_mask & CM_OVERHAL) != 0;
+    in->phi = m->overhalogenation_factor;
+    in->ratios = (m->set_mask & CM_RATIOS) ? m->rate_ratios : NULL;
+    in->nratios = (m->set_mask & CM_RATIOS) ? m->nratios : 0;
+}
+
+/* A model error names a field inside the run; point it at the campaign file. */
+static enum hl_status blame_run(const struct campaign *c, const struct camp_run *r, struct hl_err *e)
+{
+    static const struct { const char *field, *path; } names[] = {
+        {"smiles", "substrate.smiles"}, {"product_smiles", "product_smiles"},
+        {"formula", "substrate.formula"}, {"reagent", "reagent"}, {"model", "model"}};
+    struct camp_pos pos = r->pos;
+    const char *path = NULL;
+    for (size_t i = 0; i < sizeof names / sizeof names[0]; i++)
+        if (!strcmp(e->field, names[i].field))
+            path = names[i].path;
+    if (path && !strcmp(e->field, "smiles")) pos = r->pos_smiles;
+    else if (path && !strcmp(e->field, "product_smiles")) pos = r->pos_product_smiles;
+    else if (path && !strcmp(e->field, "formula")) pos = r->pos_formula;
+    else if (path && !strcmp(e->field, "reagent")) pos = r->pos_reagent;
+    int in_string = path && strcmp(e->field, "reagent") && strcmp(e->field, "model");
+    /* pos.col is the opening quote; character k (1-based) of the string sits k columns on. */
+    int col = (in_string && e->col > 0) ? pos.col + e->col : pos.col;
+    char field[64], msg[sizeof e->msg];
+    snprintf(field, sizeof field, "runs[%d]%s%s", r->src_index, path ? "." : "", path ? path : "");
+    /* the run id tells which repeat of an entry failed; keep the model's text whole */
+    snprintf(msg, sizeof msg, "%.400s (run %.60s)", e->msg, r->id);
+    (void)c;
+    return hl_err_at(e, HL_ERR_INPUT, pos.line, col, field, "%s", msg);
+}
+
+static int by_start(const void *a, const void *b)
+{
+    const struct camp_run *x = *(const struct camp_run *const *)a, *y = *(const struct camp_run *const *)b;
+    if (x->start_min != y->start_min)
+        return x->start_min < y->start_min ? -1 : 1;
+    return (x > y) - (x < y); /* file order: runs[] is contiguous */
+}
+
+static enum hl_status balance_runs(const struct campaign *c, struct ledger *l, struct hl_err *e)
+{
+    const struct camp_run **sorted = hl_malloc((size_t)(c->nruns ? c->nruns : 1) * sizeof *sorted);
+    l->runs = hl_calloc((size_t)(c->nruns ? c->nruns : 1), sizeof *l->runs);
+    if (!sorted || !l->runs) {
+        hl_free(sorted);
+        return nomem(e);
+    }
+    for (int i = 0; i < c->nruns; i++)
+        sorted[i] = &c->runs[i];
+    qsort(sorted, (size_t)c->nruns, sizeof *sorted, by_start);
+    enum hl_status st = HL_OK;
+    for (int i = 0; i < c->nruns && !st; i++) {
+        const struct camp_run *r = sorted[i];
+        struct ledger_run *lr = &l->runs[i];
+        l->nruns = i + 1;
+        lr->id = hl_strdup(r->id);
+        lr->reactor = hl_strdup(r->reactor);
+        lr->scrubber = r->scrubber >= 0 ? hl_strdup(c->scrubbers[r->scrubber].id) : NULL;
+        lr->substrate_name = hl_strdup(r->substrate_name);
+        lr->smiles = hl_strdup(r->smiles);
+        if (!lr->id || (r->reactor && !lr->reactor) || (r->scrubber >= 0 && !lr->scrubber) ||
+            (r->substrate_name && !lr->substrate_name) || (r->smiles && !lr->smiles)) {
+            st = nomem(e);
+            break;
+        }
+        lr->scrubber_index = r->scrubber;
+        lr->peak_factor = r->peak_factor;
+        lr->start_min = r->start_min;
+        lr->feed_h = r->feed_h;
+        lr->temp_c = r->temp_c;
+        lr->substrate_kg = r->substrate_kg;
+        lr->reagent = r->reagent;
+        lr->mode = r->mode == CAMP_CSTR ? KIN_CSTR : KIN_BATCH;
+        struct bal_in in = {
+            .smiles = r->smiles, .formula = r->formula, .product_smiles = r->product_smiles,
+            .substrate_kg = r->substrate_kg, .reagent = r->reagent,
+            .amount_is_kg = r->amount_is_kg, .reagent_eq = r->reagent_eq,
+            .reagent_kg = r->reagent_kg, .halogen_conversion = r->halogen_conversion,
+            .temp_c = r->temp_c, .mode = lr->mode,
+            .vent_retained_fraction = r->vent_retained_fraction};
+        model_to_input(&r->model, &in);
+        hl_err_clear(e);
+        st = bal_compute(&in, &lr->bal, e);
+        if (st == HL_ERR_INPUT)
+            st = blame_run(c, r, e);
+        else if (st == HL_OK && lr->bal.warning[0])
+            st = warn(l, e, lr->id, "%s", lr->bal.warning);
+    }
+    hl_free(sorted);
+    return st;
+}
+
+/* ---- scrubbers ---- */
+
+static double fresh_naoh_kg(const struct camp_scrubber *s)
+{
+    return s->liquor == CAMP_LIQUOR_NAOH ? s->liquor_kg * s->naoh_wt_pct / 100.0 : 0.0;
+}
+
+static enum hl_status run_scrubbers(const struct campaign *c, struct ledger *l, struct hl_err *e)
+{
+    int nu = c->nscrubbers, nr = l->nruns;
+    struct scrub_unit_in *units = hl_calloc((size_t)(nu ? nu : 1), sizeof *units);
+    struct scrub_unit_out *uout = hl_calloc((size_t)(nu ? nu : 1), sizeof *uout);
+    struct scrub_run_in *rin = hl_calloc((size_t)(nr ? nr : 1), sizeof *rin);
+    struct scrub_run_out *rout = hl_calloc((size_t)(nr ? nr : 1), sizeof *rout);
+    int *order = hl_malloc((size_t)(nr ? nr : 1) * sizeof *order);
+    l->scrubbers = hl_calloc((size_t)(nu ? nu : 1), sizeof *l->scrubbers);
+    enum hl_status st = HL_OK;
+    if (!units || !uout || !rin || !rout || !order || !l->scrubbers) {
+        st = nomem(e);
+        goto out;
+    }
+    for (int u = 0; u < nu; u++) {
+        const struct camp_scrubber *s = &c->scrubbers[u];
+        units[u] = (struct scrub_unit_in){
+            .id = s->id, .water_liquor = s->liquor == CAMP_LIQUOR_WATER,
+            .naoh_wt_pct = s->naoh_wt_pct, .liquor_kg = s->liquor_kg,
+            .min_naoh_wt_pct = s->min_naoh_wt_pct, .max_acid_wt_pct = s->max_acid_wt_pct,
+            .rated_acid_kmol_h = s->rated_acid_kmol_h, .makeup_naoh_wt_pct = s->makeup_naoh_wt_pct,
+            .liquor_cp_kj_kg_k = s->liquor_cp_kj_kg_k, .has_column = s->column.present,
+            .packing_factor_1_m = s->column.packing_factor_1_m, .htu_m = s->column.htu_m,
+            .removal_fraction = s->column.removal_fraction, .flood_fraction = s->column.flood_fraction,
+            .carrier_kmol_h = s->column.carrier_kmol_h, .liquor_kg_h = s->column.liquor_kg_h,
+            .gas_temp_c = s->column.gas_temp_c};
+    }
+    for (int i = 0; i < nr; i++) {
+        const struct ledger_run *lr = &l->runs[i];
+        rin[i].unit = lr->scrubber_index;
+        rin[i].start_min = lr->start_min;
+        rin[i].feed_h = lr->feed_h;
+        rin[i].peak_factor = lr->peak_factor;
+        memcpy(rin[i].vent_mol, lr->bal.vent_mol, sizeof rin[i].vent_mol);
+        order[i] = i; /* l->runs is already in start order */
+    }
+    if ((st = scrub_campaign(units, nu, rin, nr, order, rout, uout, e)))
+        goto out;
+    for (int u = 0; u < nu; u++) {
+        l->scrubbers[u].out = uout[u]; /* ownership moves to the ledger */
+        memset(&uout[u], 0, sizeof uout[u]);
+        l->scrubbers[u].rated_acid_kmol_h = c->scrubbers[u].rated_acid_kmol_h;
+        l->nscrubbers = u + 1;
+        if (!(l->scrubbers[u].id = hl_strdup(c->scrubbers[u].id))) {
+            st = nomem(e);
+            goto out;
+        }
+    }
+    for (int i = 0; i < nr; i++)
+        l->runs[i].scrub = rout[i];
+out:
+    if (uout && st)
+        scrub_unit_out_free(uout, nu);
+    hl_free(units);
+    hl_free(uout);
+    hl_free(rin);
+    hl_free(rout);
+    hl_free(order);
+    return st;
+}
+
+/* ---- orders ---- */
+
+static enum hl_status plan_orders(const struct campaign *c, struct ledger *l, struct hl_err *e)
+{
+    int nd = 0;
+    struct ord_demand *d = hl_calloc((size_t)(2 * l->nruns + 1), sizeof *d);
+    struct ord_stock *s = hl_calloc((size_t)(c->nstock + 1), sizeof *s);
+    struct ord_container *k = hl_calloc((size_t)(c->ncontainers + 1), sizeof *k);
+    enum hl_status st = HL_OK;
+    if (!d || !s || !k) {
+        st = nomem(e);
+        goto out;
+    }
+    for (int i = 0; i < l->nruns; i++) {
+        const struct ledger_run *r = &l->runs[i];
+        d[nd++] = (struct ord_demand){r->reagent, r->start_min, r->bal.reagent_kg};
+        /* caustic make-up for a fresh charge, bought as purchased-strength solution */
+        if (r->scrub.changeout_before && r->scrubber_index >= 0) {
+            const struct camp_scrubber *u = &c->scrubbers[r->scrubber_index];
+            double kg = fresh_naoh_kg(u) / (u->makeup_naoh_wt_pct / 100.0);
+            if (kg > 0)
+                d[nd++] = (struct ord_demand){RG_NAOH, r->start_min, kg};
+        }
+    }
+    for (int i = 0; i < c->nstock; i++)
+        s[i] = (struct ord_stock){c->stock[i].reagent, c->stock[i].on_hand_kg,
+                                  c->stock[i].safety_kg, c->stock[i].lead_days};
+    for (int i = 0; i < c->ncontainers; i++)
+        k[i] = (struct ord_container){c->containers[i].reagent, c->containers[i].name,
+                                      c->containers[i].net_kg, c->containers[i].heel_kg};
+    st = ord_plan(d, nd, s, c->nstock, k, c->ncontainers, l->today_min, &l->orders, &l->norders, e);
+out:
+    hl_free(d);
+    hl_free(s);
+    hl_free(k);
+    return st;
+}
+
+/* The container names in l->orders are borrowed from the campaign; copy them so the
+ * ledger stands alone once the campaign is freed. */
+static enum hl_status own_container_names(struct ledger *l, struct hl_err *e)
+{
+    for (int i = 0; i < l->norders; i++) {
+        if (!l->orders[i].container)
+            continue;
+        char *dup = hl_strdup(l->orders[i].container);
+        if (!dup) {
+            for (int j = 0; j < i; j++)
+                hl_free((char *)l->orders[j].container);
+            for (int j = i; j < l->norders; j++)
+                l->orders[j].container = NULL;
+            return nomem(e);
+        }
+        l->orders[i].container = dup;
+    }
+    return HL_OK;
+}
+
+/* ---- months ---- */
+
+static int cmp_int(const void *a, const void *b)
+{
+    int x = *(const int *)a, y = *(const int *)b;
+    return (x > y) - (x < y);
+}
+
+static struct ledger_month *month_of(struct ledger *l, int64_t t)
+{
+    int key = isodate_month_index(t);
+    int lo = 0, hi = l->nmonths - 1;
+    while (lo <= hi) {
+        int mid = (lo + hi) / 2;
+        if (l->months[mid].month_index == key)
+            return &l->months[mid];
+        if (l->months[mid].month_index < key) lo = mid + 1;
+        else hi = mid - 1;
+    }
+    return NULL;
+}
+
+static enum hl_status build_months(struct ledger *l, struct hl_err *e)
+{
+    int n = l->nruns;
+    for (int u = 0; u < l->nscrubbers; u++)
+        n += l->scrubbers[u].out.nspent;
+    int *keys = hl_malloc((size_t)(n ? n : 1) * sizeof *keys);
+    l->months = hl_calloc((size_t)(n ? n : 1), sizeof *l->months);
+    if (!keys || !l->months) {
+        hl_free(keys);
+        return nomem(e);
+    }
+    int k = 0;
+    for (int i = 0; i < l->nruns; i++)
+        keys[k++] = isodate_month_index(l->runs[i].start_min);
+    for (int u = 0; u < l->nscrubbers; u++)
+        for (int j = 0; j < l->scrubbers[u].out.nspent; j++)
+            keys[k++] = isodate_month_index(l->scrubbers[u].out.spent[j].at_min);
+    qsort(keys, (size_t)k, sizeof *keys, cmp_int);
+    for (int i = 0; i < k; i++)
+        if (l->nmonths == 0 || l->months[l->nmonths - 1].month_index != keys[i])
+            l->months[l->nmonths++].month_index = keys[i];
+    hl_free(keys);
+
+    for (int i = 0; i < l->nruns; i++) {
+        const struct ledger_run *r = &l->runs[i];
+        const struct bal_out *b = &r->bal;
+        struct ledger_month *m = month_of(l, r->start_min);
+        m->runs++;
+        m->product_kg += b->wanted_kg;
+        m->isomer_kg += b->isomer_kg;
+        m->overhal_kg += b->overhal_kg;
+        m->unreacted_substrate_kg += b->unreacted_substrate_kg;
+        m->reagents_kg[r->reagent] += b->reagent_kg;
+        for (int v = 0; v < VS_COUNT; v++) {
+            m->vent_kg[v] += b->vent_mol[v] * vent_molar_mass_g_mol(v) / 1000.0;
+            m->retained_acid_kg += b->retained_mol[v] * vent_molar_mass_g_mol(v) / 1000.0;
+        }
+        m->naoh_kg += r->scrub.naoh_kg;
+        m->changeouts += r->scrub.changeout_before;
+        m->succinimide_kg += b->succinimide_kg;
+        m->reagent_left_kg += b->reagent_left_kg;
+    }
+    for (int i = 0; i < l->norders; i++)
+        if (l->orders[i].item == RG_NAOH) {
+            /* caustic bought for changeouts, by month of need */
+            for (int j = 0; j < l->nmonths; j++)
+                if (l->months[j].month_index == l->orders[i].month_index)
+                    l->months[j].reagents_kg[RG_NAOH] += l->orders[i].demand_kg;
+        }
+    for (int u = 0; u < l->nscrubbers; u++)
+        for (int j = 0; j < l->scrubbers[u].out.nspent; j++) {
+            const struct scrub_spent *sp = &l->scrubbers[u].out.spent[j];
+            month_of(l, sp->at_min)->spent_liquor_kg += sp->mass_kg;
+        }
+    return HL_OK;
+}
+
+/* ---- warnings, cautions, assumptions ---- */
+
+static enum hl_status collect_warnings(struct ledger *l, struct hl_err *e)
+{
+    enum hl_status st = HL_OK;
+    char when[20];
+    for (int i = 0; i < l->nruns && !st; i++) {
+        const struct ledger_run *r = &l->runs[i];
+        double gas = 0;
+        for (int v = 0; v < VS_COUNT; v++)
+            gas += r->bal.vent_mol[v];
+        if (r->scrubber_index < 0 && gas > 0)
+            st = warn(l, e, r->id, "vents %.1f mol of gas but names no scrubber", gas);
+        else if (r->scrub.exhausted)
+            st = warn(l, e, r->id, "scrubber %s liquor would run out of NaOH during this run",
+                      r->scrubber);
+    }
+    for (int u = 0; u < l->nscrubbers && !st; u++) {
+        const struct ledger_scrubber *s = &l->scrubbers[u];
+        if (s->out.overloaded) {
+            isodate_format(s->out.peak_at_min, 0, when, sizeof when);
+            st = warn(l, e, NULL, "scrubber %s overloaded: peak %.3f kmol/h at %s exceeds rated %.3f kmol/h",
+                      s->id, s->out.peak_acid_kmol_h, when, s->rated_acid_kmol_h);
+        }
+    }
+    for (int i = 0; i < l->norders && !st; i++) {
+        const struct ord_line *o = &l->orders[i];
+        const char *item = reagent_get(o->item)->name;
+        char month[8];
+        isodate_month(o->first_use_min, month, sizeof month);
+        if (o->late) {
+            isodate_format(o->order_by_min, 1, when, sizeof when);
+            st = warn(l, e, NULL, "%s order for %s is late: it had to be placed by %s", item, month, when);
+        } else if (o->no_container && o->to_order_kg > 0) {
+            st = warn(l, e, NULL, "%s for %s: %.1f kg to order but no container is defined",
+                      item, month, o->to_order_kg);
+        }
+    }
+    return st;
+}
+
+static void collect_cautions(struct ledger *l)
+{
+    for (int i = 0; i < l->nruns; i++) {
+        const struct ledger_run *r = &l->runs[i];
+        l->cautions_mask |= 1u << reagent_get(r->reagent)->caution;
+        for (int v = 0; v < VS_COUNT; v++)
+            if (r->bal.vent_mol[v] > 0 || r->bal.retained_mol[v] > 0)
+                l->cautions_mask |= 1u << vent_caution(v);
+        if (r->scrubber_index >= 0 && r->bal.vent_mol[VS_CL2] > 0)
+            l->cautions_mask |= 1u << CA_NAOCL; /* Cl2 on caustic makes hypochlorite liquor */
+    }
+    if (l->nscrubbers > 0)
+        l->cautions_mask |= 1u << CA_NAOH;
+}
+
+static enum hl_status collect_assumptions(struct ledger *l, struct hl_err *e)
+{
+    enum hl_status st;
+    if ((st = assume(l, e, "Standard atomic weights", 0, 0, NULL,
+                     "CIAAW 2021 standard atomic weights (abridged values)")) ||
+        (st = assume(l, e, "Temperature scaling of per-H reactivity", 0, 0, NULL,
+                     "r(T) = r(Tref)^(Tref/T) in kelvin: equal pre-exponential factors for all "
+                     "site classes (design section 4)")) ||
+        (st = assume(l, e, "Later halogenation steps", 0, 0, NULL,
+                     "k_n = H left on A_n x mean per-H reactivity x overhalogenation_factor^n, "
+                     "unless rate_ratios are given (design section 4)")))
+        return st;
+    char what[160];
+    for (int i = 0; i < l->nruns; i++) {
+        const struct sel_result *s = &l->runs[i].bal.sel;
+        for (int j = 0; j < s->nused; j++)
+            if ((st = assume(l, e, s->used[j].what, 1, s->used[j].value, "per H, relative",
+                             s->used[j].origin)))
+                return st;
+    }
+    for (int v = 0; v < VS_COUNT; v++) {
+        snprintf(what, sizeof what, "Heat of absorption of %s in caustic liquor", vent_name(v));
+        if ((st = assume(l, e, what, 1, scrub_heat_kj_per_mol(v, 0), "kJ/mol",
+                         "from standard enthalpies of formation (scrubber.c table)")))
+            return st;
+    }
+    for (int v = 0; v < VS_COUNT; v++) {
+        snprintf(what, sizeof what, "NaOH used per mol of %s", vent_name(v));
+        if ((st = assume(l, e, what, 1, scrub_naoh_per_mol(v), "mol/mol",
+                         "liquor reaction stoichiometry (design section 4)")))
+            return st;
+    }
+    return HL_OK;
+}
+
+static enum hl_status copy_identity(const struct campaign *c, const struct ledger_opts *o,
+                                    struct ledger *l, struct hl_err *e)
+{
+    l->title = hl_strdup(c->title);
+    l->site = hl_strdup(c->site);
+    l->file = hl_strdup(c->file);
+    if ((c->title && !l->title) || (c->site && !l->site) || (c->file && !l->file))
+        return nomem(e);
+    l->today_min = o ? o->today_min : -1;
+    /* Document time: the campaign's issued date wins, then the caller's (SOURCE_DATE_EPOCH),
+     * else 0 = a fixed stamp chosen by the writers. Never the wall clock. */
+    l->created_min = c->issued_min >= 0 ? c->issued_min : (o && o->created_min >= 0 ? o->created_min : 0);
+    return HL_OK;
+}
+
+enum hl_status ledger_build(const struct campaign *c, const struct ledger_opts *o,
+                            struct ledger **out, struct hl_err *e)
+{
+    *out = NULL;
+    struct ledger *l = hl_calloc(1, sizeof *l);
+    if (!l)
+        return nomem(e);
+    enum hl_status st;
+    if ((st = copy_identity(c, o, l, e)) || (st = balance_runs(c, l, e)))
+        goto fail;
+    if ((st = run_scrubbers(c, l, e)) || (st = plan_orders(c, l, e)) ||
+        (st = own_container_names(l, e)) || (st = build_months(l, e)) ||
+        (st = collect_warnings(l, e)) || (st = collect_assumptions(l, e)))
+        goto fail;
+    collect_cautions(l);
+    *out = l;
+    return HL_OK;
+fail:
+    ledger_free(l);
+    return st;
+}
+
+void ledger_free(struct ledger *l)
+{
+    if (!l)
+        return;
+    for (int i = 0; i < l->nruns; i++) {
+        struct ledger_run *r = &l->runs[i];
+        hl_free(r->id);
+        hl_free(r->reactor);
+        hl_free(r->scrubber);
+        hl_free(r->substrate_name);
+        hl_free(r->smiles);
+        bal_free(&r->bal);
+    }
+    hl_free(l->runs);
+    hl_free(l->months);
+    for (int i = 0; i < l->norders; i++)
+        hl_free((char *)l->orders[i].container);
+    hl_free(l->orders);
+    for (int i = 0; i < l->nscrubbers; i++) {
+        hl_free(l->scrubbers[i].id);
+        scrub_unit_out_free(&l->scrubbers[i].out, 1);
+    }
+    hl_free(l->scrubbers);
+    for (int i = 0; i < l->nwarnings; i++) {
+        hl_free(l->warnings[i].run);
+        hl_free(l->warnings[i].message);
+    }
+    hl_free(l->warnings);
+    for (int i = 0; i < l->nassumptions; i++) {
+        hl_free(l->assumptions[i].what);
+        hl_free(l->assumptions[i].unit);
+        hl_free(l->assumptions[i].origin);
+    }
+    hl_free(l->assumptions);
+    hl_free(l->title);
+    hl_free(l->site);
+    hl_free(l->file);
+    hl_free(l);
+}
