@@ -22,9 +22,9 @@ enum elem_id {
 
 /* Element symbol ("Cl") of an index; NULL if out of range. Static string. */
 const char *elem_symbol(int el);
-/* Standard atomic weight [g/mol] (CIAAW 2021 abridged/conventional). */
+/* Standard atomic weight [g/mol] (CIAAW 2021 abridged/conventional); 0 if out of range. */
 double elem_weight_g_mol(int el);
-/* Atomic number Z of an index. */
+/* Atomic number Z of an index; 0 if out of range. */
 int elem_z(int el);
 /* Index of a symbol given by its first len bytes (case-sensitive), -1 if unknown. */
 int elem_lookup(const char *sym, size_t len);

@@ -21,13 +21,17 @@ enum kin_mode { KIN_BATCH, KIN_CSTR };
 
 /* Mole fractions x[0..nsteps] of A0..A_nsteps at pseudo-time tau >= 0, starting
  * from pure A0. k[0..nsteps-1] > 0 are the step rate constants (any consistent
- * unit, tau in its inverse); A_nsteps is terminal. */
+ * unit, tau in its inverse); A_nsteps is terminal. 1 <= nsteps <= KIN_MAX_STEPS,
+ * each k in 1e-200..1e200, tau finite; otherwise HL_ERR_INPUT. Batch fractions
+ * carry an absolute error below 1e-14 (see kinetics.c); they sum to 1 within 1e-14. */
 enum hl_status kin_distribution(enum kin_mode mode, const double *k, int nsteps,
                                 double tau, double *x, struct hl_err *e);
 
 /* Find tau so that sum n x[n] = mean_degree (0 <= mean_degree < nsteps; values within
  * 1e-12 of nsteps give the all-terminal limit) and fill x[0..nsteps]. Relative error
- * of the achieved mean degree <= 1e-12. *tau_out may be NULL. */
+ * of the achieved mean degree <= 1e-12. *tau_out may be NULL; it is 0 for mean_degree
+ * 0 and INFINITY for the all-terminal limit (do not write it unchecked). "Within 1e-12"
+ * is relative to nsteps; above that HL_ERR_INPUT. HL_ERR_INTERNAL if no root is found. */
 enum hl_status kin_solve_extent(enum kin_mode mode, const double *k, int nsteps,
                                 double mean_degree, double *x, double *tau_out,
                                 struct hl_err *e);

@@ -58,8 +58,10 @@ const struct reagent_info *reagent_get(int id);
 /* Reagent id from its campaign spelling (case-sensitive), -1 if unknown. */
 int reagent_lookup(const char *name);
 
-/* Vent species: name ("HCl"), formula text, molar mass [g/mol], caution id. */
+/* Vent species: name ("HCl"), formula text, molar mass [g/mol], caution id.
+ * Out of range: NULL, 0.0 and -1. */
 const char *vent_name(int vs);
+const char *vent_formula(int vs); /* Hill formula text ("ClH"), parsed by formula.h */
 double vent_molar_mass_g_mol(int vs);
 int vent_caution(int vs);
 

@@ -1,0 +1,270 @@
+/*
+ * reagents.c - reagent, vent-species and caution tables (see reagents.h).
+ *
+ * Molar masses are written as the sums of the CIAAW 2021 weights of
+ * elements.c, so the table and formula_molar_mass_g_mol() agree (checked by
+ * test_reagents.c to 1e-9).  Stoichiometry per mole of reagent reacted
+ * follows design section 4.
+ *
+ * Exposure limits: NIOSH REL, OSHA PEL and IDLH as listed in the NIOSH Pocket
+ * Guide to Chemical Hazards, DHHS (NIOSH) Publication 2005-149 (2007); they were
+ * entered as recalled from that guide, without a copy at hand to re-read, so
+ * check them against it before quoting them in a permit.  ACGIH TLVs are from
+ * memory (the edition year could not be checked) and say so in their source
+ * field, as do the "none established" rows for SO2Cl2, NBS and NaOCl.  Limits are revised: the current SDS and
+ * the regulations in force take precedence (caution_deferral()).
+ */
+#include "reagents.h"
+
+#include "elements.h"
+
+#include <string.h>
+
+/* CIAAW 2021 abridged/conventional weights, as in elements.c */
+#define W_H 1.008
+#define W_C 12.011
+#define W_N 14.007
+#define W_O 15.999
+#define W_NA 22.990
+#define W_S 32.06
+#define W_CL 35.45
+#define W_BR 79.904
+
+static const struct reagent_info reagents[RG_COUNT] = {
+    [RG_CL2] = {"Cl2", "Cl2", "chlorine", 2 * W_CL, RK_SUBSTITUTION, EL_Cl,
+                1.0, VS_HCL, 0.0, 0.0,
+                /* unreacted chlorine leaves with the HCl to the scrubber */
+                VS_CL2, "gas (liquefied under pressure)", CA_CL2},
+    [RG_BR2] = {"Br2", "Br2", "bromine", 2 * W_BR, RK_SUBSTITUTION, EL_Br,
+                1.0, VS_HBR, 0.0, 0.0,
+                /* Br2 boils at 59 C (from memory) and is swept out with the HBr
+                 * off-gas; counting it at the scrubber is the conservative choice
+                 * for liquor sizing (common practice) */
+                VS_BR2, "liquid (fuming, bp about 59 C)", CA_BR2},
+    [RG_SO2CL2] = {"SO2Cl2", "Cl2O2S", "sulfuryl chloride", W_S + 2 * W_O + 2 * W_CL,
+                   RK_SUBSTITUTION, EL_Cl, 1.0, VS_HCL, 1.0, 0.0,
+                   /* a liquid boiling at 69 C (from memory): what is not consumed
+                    * stays in the reaction mass and must be quenched in work-up */
+                   -1, "liquid (bp about 69 C)", CA_SO2CL2},
+    [RG_NBS] = {"NBS", "C4H4BrNO2", "N-bromosuccinimide",
+                4 * W_C + 4 * W_H + W_BR + W_N + 2 * W_O, RK_NBS, EL_Br,
+                /* the HBr of each abstraction step reacts with NBS to give the Br2
+                 * that brominates: net RH + NBS -> RBr + succinimide, no HX vented */
+                0.0, -1, 0.0, 1.0,
+                /* a solid (succinimide and unreacted NBS are filtered off) */
+                -1, "solid", CA_NBS},
+    [RG_HBR] = {"HBr", "BrH", "hydrogen bromide", W_H + W_BR, RK_ADDITION, EL_Br,
+                /* the adduct takes the whole HBr: no acid gas formed */
+                0.0, -1, 0.0, 0.0,
+                /* excess HBr vents (design section 4) */
+                VS_HBR, "gas (liquefied under pressure)", CA_HBR},
+    [RG_NAOH] = {"NaOH", "HNaO", "sodium hydroxide (scrubber caustic make-up)",
+                 W_NA + W_O + W_H, RK_CAUSTIC, -1, 0.0, -1, 0.0, 0.0, -1,
+                 "aqueous solution (caustic liquor)", CA_NAOH},
+};
+
+const struct reagent_info *reagent_get(int id)
+{
+    return (id >= 0 && id < RG_COUNT) ? &reagents[id] : NULL;
+}
+
+int reagent_lookup(const char *name)
+{
+    if (!name)
+        return -1;
+    for (int i = 0; i < RG_COUNT; i++)
+        if (strcmp(reagents[i].name, name) == 0)
+            return i;
+    return -1;
+}
+
+struct vent_row {
+    const char *name, *formula;
+    double molar_mass_g_mol;
+    int caution;
+};
+
+static const struct vent_row vents[VS_COUNT] = {
+    [VS_HCL] = {"HCl", "ClH", W_H + W_CL, CA_HCL},
+    [VS_HBR] = {"HBr", "BrH", W_H + W_BR, CA_HBR},
+    [VS_CL2] = {"Cl2", "Cl2", 2 * W_CL, CA_CL2},
+    [VS_BR2] = {"Br2", "Br2", 2 * W_BR, CA_BR2},
+    [VS_SO2] = {"SO2", "O2S", W_S + 2 * W_O, CA_SO2},
+};
+
+const char *vent_name(int vs) { return (vs >= 0 && vs < VS_COUNT) ? vents[vs].name : NULL; }
+
+const char *vent_formula(int vs) { return (vs >= 0 && vs < VS_COUNT) ? vents[vs].formula : NULL; }
+
+double vent_molar_mass_g_mol(int vs)
+{
+    return (vs >= 0 && vs < VS_COUNT) ? vents[vs].molar_mass_g_mol : 0.0;
+}
+
+int vent_caution(int vs) { return (vs >= 0 && vs < VS_COUNT) ? vents[vs].caution : -1; }
+
+#define SRC_NIOSH "NIOSH Pocket Guide to Chemical Hazards, DHHS (NIOSH) Publication 2005-149, 2007"
+#define SRC_OSHA                                                                             \
+    "OSHA 29 CFR 1910.1000 Table Z-1, as listed in the NIOSH Pocket Guide to Chemical "      \
+    "Hazards, DHHS (NIOSH) Publication 2005-149, 2007"
+#define SRC_ACGIH "ACGIH TLVs and BEIs (from memory; edition year not verified)"
+#define SRC_NO_NIOSH                                                                         \
+    "NIOSH Pocket Guide to Chemical Hazards, DHHS (NIOSH) Publication 2005-149, 2007: "      \
+    "not listed (from memory)"
+#define SRC_NO_OSHA "OSHA 29 CFR 1910.1000 Table Z-1: not listed (from memory)"
+#define NONE "none established"
+
+#define LIM4(rel, pel, idlh, tlv)                                                            \
+    {{"NIOSH REL", rel, SRC_NIOSH}, {"OSHA PEL", pel, SRC_OSHA}, {"IDLH", idlh, SRC_NIOSH},  \
+     {"ACGIH TLV", tlv, SRC_ACGIH}},                                                         \
+        4
+#define LIM_NONE                                                                             \
+    {{"NIOSH REL", NONE, SRC_NO_NIOSH}, {"OSHA PEL", NONE, SRC_NO_OSHA},                     \
+     {"IDLH", NONE, SRC_NO_NIOSH}, {"ACGIH TLV", NONE, SRC_ACGIH}},                          \
+        4
+
+static const struct caution_info cautions[CA_COUNT] = {
+    [CA_CL2] = {
+        "Chlorine (Cl2)", "7782-50-5",
+        LIM4("C 0.5 ppm (1.45 mg/m3), 15-minute ceiling", "C 1 ppm (3 mg/m3)", "10 ppm",
+             "TWA 0.1 ppm, STEL 0.4 ppm"),
+        "Toxic, corrosive gas, heavier than air, that pools in low places; attacks eyes and "
+        "airways, with lung oedema that can appear hours after a heavy exposure. A strong "
+        "oxidiser that supports burning. Stored as a liquid under pressure, so a small liquid "
+        "leak gives a large gas release.",
+        "Ammonia and amines (explosive nitrogen chlorides), hydrogen, hydrocarbons and other "
+        "organics (violent or explosive reaction, especially in light), finely divided metals; "
+        "dry chlorine ignites titanium; wet chlorine corrodes steel. Hypochlorite liquor mixed "
+        "with acid gives chlorine back.",
+        "Closed transfer with leak-tested connections; fixed chlorine detectors and alarms; "
+        "self-contained breathing apparatus for line breaking and emergencies; goggles, face "
+        "shield and resistant gloves; the container supplier's emergency kit at hand.",
+        "Cl2: toxic oxidising gas - NIOSH REL C 0.5 ppm, IDLH 10 ppm; keep from ammonia, "
+        "hydrocarbons and acidified hypochlorite.",
+    },
+    [CA_BR2] = {
+        "Bromine (Br2)", "7726-95-6",
+        LIM4("TWA 0.1 ppm (0.7 mg/m3), ST 0.3 ppm (2 mg/m3)", "TWA 0.1 ppm (0.7 mg/m3)",
+             "3 ppm", "TWA 0.1 ppm, STEL 0.2 ppm"),
+        "Very toxic, dense fuming liquid whose vapour is much heavier than air; deep, slow-"
+        "healing burns to skin and eyes (sometimes delayed); attacks the airways. Strong "
+        "oxidiser.",
+        "Aluminium and several other metals (violent), alkali metals, ammonia, reducing agents, "
+        "organic matter and hydrocarbons; moisture makes it corrosive to most metals. "
+        "Hypobromite liquor mixed with acid gives bromine back.",
+        "Closed transfer; goggles and face shield, gloves rated for bromine by their maker, "
+        "acid-resistant suit for drum or cylinder changes; respirator or breathing apparatus "
+        "as the SDS sets; thiosulfate or bisulfite solution ready for small spills (common "
+        "practice).",
+        "Br2: very toxic, corrosive liquid - NIOSH REL TWA 0.1 ppm, IDLH 3 ppm; keep from "
+        "aluminium, ammonia and reducers.",
+    },
+    [CA_HCL] = {
+        "Hydrogen chloride (HCl)", "7647-01-0",
+        LIM4("C 5 ppm (7 mg/m3)", "C 5 ppm (7 mg/m3)", "50 ppm", "C 2 ppm"),
+        "Corrosive gas that fumes in moist air; burns eyes, skin and airways. With water it "
+        "forms hydrochloric acid, which corrodes most metals and gives off hydrogen with them.",
+        "Bases and caustic (strong heat), hypochlorite liquor (releases chlorine), oxidisers, "
+        "reactive metals (hydrogen), cyanides and sulfides (toxic gases).",
+        "Goggles and face shield, acid-resistant gloves and clothing; acid-gas cartridge "
+        "respirators only well below the IDLH, breathing apparatus above it; eyewash and "
+        "shower near vent and scrubber equipment.",
+        "HCl: corrosive acid gas - NIOSH REL C 5 ppm, IDLH 50 ppm; never into hypochlorite "
+        "liquor.",
+    },
+    [CA_HBR] = {
+        "Hydrogen bromide (HBr)", "10035-10-6",
+        LIM4("C 3 ppm (10 mg/m3)", "TWA 3 ppm (10 mg/m3)", "30 ppm", "C 2 ppm"),
+        "Corrosive gas, stored liquefied under pressure; fumes in moist air and burns eyes, "
+        "skin and airways. Its aqueous acid corrodes most metals with hydrogen evolution.",
+        "Bases and caustic (strong heat), oxidisers (bromine formed), hypochlorite liquor, "
+        "reactive metals, cyanides and sulfides.",
+        "Closed transfer; goggles and face shield, acid-resistant gloves and clothing; "
+        "breathing apparatus for line breaking and emergencies.",
+        "HBr: corrosive acid gas - NIOSH REL C 3 ppm, IDLH 30 ppm; keep from oxidisers and "
+        "hypochlorite liquor.",
+    },
+    [CA_SO2] = {
+        "Sulfur dioxide (SO2)", "7446-09-5",
+        LIM4("TWA 2 ppm (5 mg/m3), ST 5 ppm (13 mg/m3)", "TWA 5 ppm (13 mg/m3)", "100 ppm",
+             "STEL 0.25 ppm"),
+        "Toxic, irritant gas; constricts the airways (people with asthma react at low "
+        "levels); forms sulfurous acid with water.",
+        "Strong oxidisers, caustic (heat), powdered metals, halogens; it reduces and so "
+        "consumes hypochlorite in scrubber liquor.",
+        "Fixed detection where SO2 vents; goggles; acid-gas respirator below the IDLH, "
+        "breathing apparatus above.",
+        "SO2: toxic irritant gas - NIOSH REL TWA 2 ppm, IDLH 100 ppm.",
+    },
+    [CA_SO2CL2] = {
+        "Sulfuryl chloride (SO2Cl2)", "7791-25-5",
+        LIM_NONE,
+        "Corrosive fuming liquid; reacts with water and moist air to give hydrogen chloride "
+        "and sulfuric acid, and gives SO2 and chlorine on heating; vapour attacks eyes and "
+        "lungs. With no limit of its own, judge exposure against the HCl, SO2 and Cl2 limits.",
+        "Water (violent hydrolysis), bases, alcohols and amines, metals in the presence of "
+        "moisture.",
+        "Closed transfer under dry nitrogen; goggles and face shield, acid-resistant gloves "
+        "and clothing; acid-gas respirator or breathing apparatus as the SDS sets.",
+        "SO2Cl2: corrosive, water-reactive liquid (HCl, SO2) - no exposure limit of its own; "
+        "keep dry.",
+    },
+    [CA_NBS] = {
+        "N-Bromosuccinimide (NBS)", "128-08-5",
+        LIM_NONE,
+        "Oxidising, irritant to corrosive solid; its dust attacks eyes, skin and airways; "
+        "harmful if swallowed. Decomposes with heat and light, releasing bromine and HBr; "
+        "mixtures of NBS with some solvents and amines can decompose exothermically - screen "
+        "new recipes by calorimetry (common practice).",
+        "Reducing agents, strong bases, amines, moisture, iron and other metals; heat and "
+        "light.",
+        "Dust control or a particle respirator, goggles, chemical gloves; store cool, dry and "
+        "dark, away from reducers.",
+        "NBS: oxidising irritant solid - no exposure limit established; store cool and dark, "
+        "check solvent compatibility.",
+    },
+    [CA_NAOCL] = {
+        "Sodium hypochlorite liquor (NaOCl, spent scrubber liquor)", "7681-52-9",
+        LIM_NONE,
+        "Corrosive, alkaline, oxidising liquor. Acidified, it releases chlorine gas (see the "
+        "Cl2 limits). Decomposes with heat, light and traces of nickel, copper or cobalt, "
+        "giving oxygen and chlorate.",
+        "Acids of any kind - chlorine is released: never route acid drains or acid gas into a "
+        "hypochlorite tank, and keep the scrubber from running out of caustic. Ammonia and "
+        "amines (chloramines), organic matter and reducers, nickel, copper and cobalt.",
+        "Goggles and face shield, alkali-resistant gloves and apron; vented, labelled tanks; "
+        "segregate from acids in storage and in drains.",
+        "NaOCl liquor: oxidising alkali - with acid it releases chlorine; keep acids and "
+        "ammonia away.",
+    },
+    [CA_NAOH] = {
+        "Sodium hydroxide (caustic soda, NaOH)", "1310-73-2",
+        LIM4("C 2 mg/m3", "TWA 2 mg/m3", "10 mg/m3", "C 2 mg/m3"),
+        "Severely corrosive to eyes and skin; alkali burns penetrate deeply and may not hurt "
+        "at first. Strong heat on dilution. Solutions attack aluminium, zinc and tin, "
+        "releasing hydrogen.",
+        "Acids (violent heat), aluminium, zinc, tin and galvanised parts (hydrogen), ammonium "
+        "salts (ammonia), some halogenated organics.",
+        "Goggles and face shield, alkali-resistant gloves and clothing; eyewash and shower "
+        "within reach; dilute by adding caustic to water, never water to solid caustic "
+        "(common practice).",
+        "NaOH: corrosive alkali - NIOSH REL C 2 mg/m3; eye protection, keep from acids and "
+        "aluminium.",
+    },
+};
+
+const struct caution_info *caution_get(int ca)
+{
+    return (ca >= 0 && ca < CA_COUNT) ? &cautions[ca] : NULL;
+}
+
+const char *caution_deferral(void)
+{
+    return "These notes are a reminder, not a safety assessment. The supplier's current "
+           "Safety Data Sheet (SDS) governs handling, protective equipment and first aid; the "
+           "local regulations and the site's permits decide which exposure limits and release "
+           "rules apply; halogen handling, vent and scrubber systems need review and sign-off "
+           "by a licensed engineer. Exposure limits change between editions (ACGIH values "
+           "here are from memory): confirm them in the current sources before relying on "
+           "them.";
+}

@@ -1,0 +1,253 @@
+/* test_reagents.c - the reagent, vent and caution tables.
+ *
+ * Masses: the table must equal the formula mass from the CIAAW 2021 weights
+ * (formula.c) and the sums written out here by hand.  Stoichiometry: design
+ * section 4 (RH + X2 -> RX + HX; RH + SO2Cl2 -> RCl + SO2 + HCl; RH + NBS ->
+ * RBr + succinimide; C=C + HBr -> RBr) checked as element balances.  CAS
+ * numbers: the check digit rule of the CAS Registry (last digit = sum of the
+ * other digits times their position from the right, mod 10).
+ */
+#include "cu_helpers.h"
+#include "formula.h"
+#include "reagents.h"
+
+#include <ctype.h>
+#include <string.h>
+
+static void masses_match_formulas(void)
+{
+    for (int i = 0; i < RG_COUNT; i++) {
+        const struct reagent_info *r = reagent_get(i);
+        CU_ASSERT_PTR_NOT_NULL_FATAL(r);
+        struct formula f;
+        CU_ASSERT_EQUAL(formula_parse(r->formula, &f, NULL), HL_OK);
+        ASSERT_REL(r->molar_mass_g_mol, formula_molar_mass_g_mol(&f), 1e-9);
+        /* the formula text is already in Hill order */
+        char hill[64];
+        CU_ASSERT_STRING_EQUAL(formula_hill(&f, hill, sizeof hill), r->formula);
+    }
+    /* by hand, CIAAW 2021: Cl 35.45, Br 79.904, S 32.06, O 15.999, C 12.011, H 1.008,
+     * N 14.007, Na 22.990 */
+    ASSERT_ABS(reagent_get(RG_CL2)->molar_mass_g_mol, 70.900, 5e-4);
+    ASSERT_ABS(reagent_get(RG_BR2)->molar_mass_g_mol, 159.808, 5e-4);
+    ASSERT_ABS(reagent_get(RG_SO2CL2)->molar_mass_g_mol, 134.958, 5e-4);
+    ASSERT_ABS(reagent_get(RG_NBS)->molar_mass_g_mol, 177.985, 5e-4);
+    ASSERT_ABS(reagent_get(RG_HBR)->molar_mass_g_mol, 80.912, 5e-4);
+    ASSERT_ABS(reagent_get(RG_NAOH)->molar_mass_g_mol, 39.997, 5e-4);
+    for (int v = 0; v < VS_COUNT; v++) {
+        struct formula f;
+        CU_ASSERT_EQUAL(formula_parse(vent_formula(v), &f, NULL), HL_OK);
+        ASSERT_REL(vent_molar_mass_g_mol(v), formula_molar_mass_g_mol(&f), 1e-9);
+        CU_ASSERT_EQUAL(formula_parse(vent_name(v), &f, NULL), HL_OK); /* names are formulas */
+        ASSERT_REL(vent_molar_mass_g_mol(v), formula_molar_mass_g_mol(&f), 1e-9);
+    }
+    ASSERT_ABS(vent_molar_mass_g_mol(VS_HCL), 36.458, 5e-4);
+    ASSERT_ABS(vent_molar_mass_g_mol(VS_SO2), 64.058, 5e-4);
+}
+
+/* Element balance of one reaction per reagent on a model substrate. */
+static void stoichiometry_balances(void)
+{
+    struct formula rh, rx, lhs, rhs, g;
+    const char *gas_of[VS_COUNT];
+    for (int v = 0; v < VS_COUNT; v++)
+        gas_of[v] = vent_formula(v);
+    for (int i = 0; i < RG_CHARGEABLE; i++) {
+        const struct reagent_info *r = reagent_get(i);
+        CU_ASSERT(r->halogen_el == EL_Cl || r->halogen_el == EL_Br);
+        /* substrate: propene for HBr addition, toluene otherwise */
+        CU_ASSERT_EQUAL(formula_parse(r->kind == RK_ADDITION ? "C3H6" : "C7H8", &rh, NULL), HL_OK);
+        rx = rh;
+        rx.n[r->halogen_el] += 1;
+        if (r->kind != RK_ADDITION)
+            rx.n[EL_H] -= 1; /* substitution: one H replaced */
+        else
+            rx.n[EL_H] += 1; /* addition: H and Br across C=C */
+        CU_ASSERT_EQUAL(formula_parse(r->formula, &g, NULL), HL_OK);
+        lhs = rh;
+        formula_add(&lhs, &g, 1);
+        rhs = rx;
+        if (r->hx_mol > 0) {
+            CU_ASSERT_EQUAL(formula_parse(gas_of[r->hx_species], &g, NULL), HL_OK);
+            formula_add(&rhs, &g, (long)r->hx_mol);
+        }
+        if (r->so2_mol > 0) {
+            CU_ASSERT_EQUAL(formula_parse(gas_of[VS_SO2], &g, NULL), HL_OK);
+            formula_add(&rhs, &g, (long)r->so2_mol);
+        }
+        if (r->succinimide_mol > 0) {
+            CU_ASSERT_EQUAL(formula_parse("C4H5NO2", &g, NULL), HL_OK);
+            formula_add(&rhs, &g, (long)r->succinimide_mol);
+        }
+        if (!formula_equal(&lhs, &rhs))
+            printf("\n  %s: reaction does not balance", r->name);
+        CU_ASSERT(formula_equal(&lhs, &rhs));
+    }
+    /* the expected by-products themselves (design section 4) */
+    CU_ASSERT_EQUAL(reagent_get(RG_CL2)->hx_species, VS_HCL);
+    CU_ASSERT_EQUAL(reagent_get(RG_BR2)->hx_species, VS_HBR);
+    CU_ASSERT_EQUAL(reagent_get(RG_SO2CL2)->hx_species, VS_HCL);
+    ASSERT_ABS(reagent_get(RG_SO2CL2)->so2_mol, 1.0, 0.0);
+    ASSERT_ABS(reagent_get(RG_NBS)->succinimide_mol, 1.0, 0.0);
+    ASSERT_ABS(reagent_get(RG_NBS)->hx_mol, 0.0, 0.0);
+    ASSERT_ABS(reagent_get(RG_HBR)->hx_mol, 0.0, 0.0);
+    CU_ASSERT_EQUAL(reagent_get(RG_NAOH)->kind, RK_CAUSTIC);
+    CU_ASSERT_EQUAL(reagent_get(RG_NAOH)->halogen_el, -1);
+}
+
+static void unreacted_and_phase(void)
+{
+    /* gases (and the volatile Br2) vent as themselves; the liquid SO2Cl2 and solid NBS stay */
+    CU_ASSERT_EQUAL(reagent_get(RG_CL2)->unreacted_vent, VS_CL2);
+    CU_ASSERT_EQUAL(reagent_get(RG_BR2)->unreacted_vent, VS_BR2);
+    CU_ASSERT_EQUAL(reagent_get(RG_HBR)->unreacted_vent, VS_HBR);
+    CU_ASSERT_EQUAL(reagent_get(RG_SO2CL2)->unreacted_vent, -1);
+    CU_ASSERT_EQUAL(reagent_get(RG_NBS)->unreacted_vent, -1);
+    for (int i = 0; i < RG_COUNT; i++) {
+        const struct reagent_info *r = reagent_get(i);
+        CU_ASSERT(r->phase && *r->phase);
+        CU_ASSERT(r->long_name && *r->long_name);
+        if (r->unreacted_vent >= 0) /* what vents is the reagent itself */
+            CU_ASSERT_STRING_EQUAL(vent_formula(r->unreacted_vent), r->formula);
+    }
+    CU_ASSERT_PTR_NOT_NULL(strstr(reagent_get(RG_CL2)->phase, "gas"));
+    CU_ASSERT_PTR_NOT_NULL(strstr(reagent_get(RG_HBR)->phase, "gas"));
+    CU_ASSERT_PTR_NOT_NULL(strstr(reagent_get(RG_SO2CL2)->phase, "liquid"));
+    CU_ASSERT_PTR_NOT_NULL(strstr(reagent_get(RG_NBS)->phase, "solid"));
+}
+
+static void lookups(void)
+{
+    static const char *names[RG_COUNT] = {"Cl2", "Br2", "SO2Cl2", "NBS", "HBr", "NaOH"};
+    for (int i = 0; i < RG_COUNT; i++) {
+        CU_ASSERT_EQUAL(reagent_lookup(names[i]), i);
+        CU_ASSERT_STRING_EQUAL(reagent_get(i)->name, names[i]);
+    }
+    CU_ASSERT_EQUAL(reagent_lookup("cl2"), -1);
+    CU_ASSERT_EQUAL(reagent_lookup("Cl"), -1);
+    CU_ASSERT_EQUAL(reagent_lookup(""), -1);
+    CU_ASSERT_EQUAL(reagent_lookup(NULL), -1);
+    CU_ASSERT_PTR_NULL(reagent_get(-1));
+    CU_ASSERT_PTR_NULL(reagent_get(RG_COUNT));
+    CU_ASSERT_PTR_NULL(vent_name(VS_COUNT));
+    CU_ASSERT_PTR_NULL(vent_formula(-1));
+    ASSERT_ABS(vent_molar_mass_g_mol(VS_COUNT), 0.0, 0.0);
+    CU_ASSERT_EQUAL(vent_caution(-1), -1);
+    CU_ASSERT_PTR_NULL(caution_get(CA_COUNT));
+    CU_ASSERT_PTR_NULL(caution_get(-1));
+    static const int vc[VS_COUNT] = {CA_HCL, CA_HBR, CA_CL2, CA_BR2, CA_SO2};
+    static const char *vn[VS_COUNT] = {"HCl", "HBr", "Cl2", "Br2", "SO2"};
+    for (int v = 0; v < VS_COUNT; v++) {
+        CU_ASSERT_EQUAL(vent_caution(v), vc[v]);
+        CU_ASSERT_STRING_EQUAL(vent_name(v), vn[v]);
+    }
+}
+
+/* CAS Registry check digit. */
+static int cas_valid(const char *cas)
+{
+    int digits[16], n = 0, dashes = 0;
+    size_t len = strlen(cas);
+    for (size_t i = 0; i < len; i++) {
+        if (cas[i] == '-') {
+            dashes++;
+            continue;
+        }
+        if (!isdigit((unsigned char)cas[i]) || n >= 16)
+            return 0;
+        digits[n++] = cas[i] - '0';
+    }
+    if (dashes != 2 || n < 5 || cas[len - 2] != '-' || cas[len - 5] != '-')
+        return 0;
+    int sum = 0;
+    for (int i = n - 2, w = 1; i >= 0; i--, w++)
+        sum += digits[i] * w;
+    return sum % 10 == digits[n - 1];
+}
+
+static void cautions(void)
+{
+    CU_ASSERT(cas_valid("7732-18-5"));  /* water: a known-good number */
+    CU_ASSERT(!cas_valid("7732-18-4")); /* and the rule rejects a typo */
+    int used[CA_COUNT] = {0};
+    for (int i = 0; i < RG_COUNT; i++)
+        used[reagent_get(i)->caution] = 1;
+    for (int v = 0; v < VS_COUNT; v++)
+        used[vent_caution(v)] = 1;
+    used[CA_NAOCL] = 1; /* the scrubber's product */
+    for (int c = 0; c < CA_COUNT; c++) {
+        const struct caution_info *ci = caution_get(c);
+        CU_ASSERT_PTR_NOT_NULL_FATAL(ci);
+        CU_ASSERT(used[c]);
+        if (!cas_valid(ci->cas))
+            printf("\n  %s: CAS %s fails its check digit", ci->substance, ci->cas);
+        CU_ASSERT(cas_valid(ci->cas));
+        CU_ASSERT(ci->nlimits >= 1 && ci->nlimits <= 4);
+        int sourced = 0, niosh = 0, acgih = 0;
+        for (int k = 0; k < ci->nlimits; k++) {
+            const struct exposure_limit *l = &ci->limits[k];
+            CU_ASSERT(l->kind && l->value && *l->value && l->source);
+            if (l->source && strlen(l->source) > 10)
+                sourced++;
+            if (l->source && strstr(l->source, "NIOSH") && strstr(l->source, "2005-149"))
+                niosh++;
+            /* ACGIH values could not be checked against the book: must say so */
+            if (strcmp(l->kind, "ACGIH TLV") == 0) {
+                acgih++;
+                CU_ASSERT_PTR_NOT_NULL(strstr(l->source, "from memory"));
+            }
+            /* "none established" rows carry a source too */
+            if (strstr(l->value, "none"))
+                CU_ASSERT_STRING_EQUAL(l->value, "none established");
+        }
+        CU_ASSERT(sourced >= 1);
+        CU_ASSERT(niosh >= 1);
+        CU_ASSERT(acgih == 1);
+        CU_ASSERT(ci->hazards && strlen(ci->hazards) > 40);
+        CU_ASSERT(ci->incompatible && strlen(ci->incompatible) > 20);
+        CU_ASSERT(ci->ppe && strlen(ci->ppe) > 20);
+        /* one line for `check` output */
+        CU_ASSERT(ci->short_form && strlen(ci->short_form) > 10 && strlen(ci->short_form) <= 120);
+        CU_ASSERT_PTR_NULL(strchr(ci->short_form, '\n'));
+    }
+    /* every chargeable reagent and NaOH has its own row */
+    CU_ASSERT_EQUAL(reagent_get(RG_CL2)->caution, CA_CL2);
+    CU_ASSERT_EQUAL(reagent_get(RG_BR2)->caution, CA_BR2);
+    CU_ASSERT_EQUAL(reagent_get(RG_SO2CL2)->caution, CA_SO2CL2);
+    CU_ASSERT_EQUAL(reagent_get(RG_NBS)->caution, CA_NBS);
+    CU_ASSERT_EQUAL(reagent_get(RG_HBR)->caution, CA_HBR);
+    CU_ASSERT_EQUAL(reagent_get(RG_NAOH)->caution, CA_NAOH);
+    /* the incompatibility the scrubber depends on (design section 8) */
+    CU_ASSERT_PTR_NOT_NULL(strstr(caution_get(CA_NAOCL)->incompatible, "chlorine"));
+    CU_ASSERT_PTR_NOT_NULL(strstr(caution_get(CA_NAOCL)->incompatible, "Acid"));
+    CU_ASSERT_PTR_NOT_NULL(strstr(caution_get(CA_CL2)->incompatible, "mmonia"));
+    CU_ASSERT_PTR_NOT_NULL(strstr(caution_get(CA_CL2)->incompatible, "hydrocarbons"));
+    /* NIOSH Pocket Guide (2007) values that the ledger quotes most */
+    CU_ASSERT_PTR_NOT_NULL(strstr(caution_get(CA_CL2)->limits[0].value, "C 0.5 ppm"));
+    CU_ASSERT_STRING_EQUAL(caution_get(CA_CL2)->limits[2].value, "10 ppm");
+    CU_ASSERT_PTR_NOT_NULL(strstr(caution_get(CA_HCL)->limits[0].value, "C 5 ppm"));
+    CU_ASSERT_STRING_EQUAL(caution_get(CA_SO2CL2)->limits[0].value, "none established");
+    CU_ASSERT_STRING_EQUAL(caution_get(CA_NBS)->limits[0].value, "none established");
+}
+
+static void deferral(void)
+{
+    const char *d = caution_deferral();
+    CU_ASSERT_PTR_NOT_NULL_FATAL(d);
+    CU_ASSERT_PTR_NOT_NULL(strstr(d, "SDS"));
+    CU_ASSERT_PTR_NOT_NULL(strstr(d, "Safety Data Sheet"));
+    CU_ASSERT_PTR_NOT_NULL(strstr(d, "regulations"));
+    CU_ASSERT_PTR_NOT_NULL(strstr(d, "licensed engineer"));
+}
+
+int main(void)
+{
+    static const struct cu_case cases[] = {
+        {"masses match formulas", masses_match_formulas},
+        {"stoichiometry balances", stoichiometry_balances},
+        {"unreacted and phase", unreacted_and_phase},
+        {"lookups", lookups},
+        {"cautions", cautions},
+        {"deferral", deferral}};
+    return CU_RUN_ALL("reagents", cases);
+}
