@@ -41,6 +41,7 @@ struct sel_isomer {
 struct sel_used {
     char what[96];           /* "Cl2 per-H reactivity, tertiary, at 25 C" */
     double value;
+    char unit[32];           /* "relative, per H", "fraction", "ratio of rate constants" */
     char origin[160];        /* "Morrison & Boyd, Organic Chemistry, 6th ed." or "campaign model" */
 };
 
@@ -60,6 +61,10 @@ struct sel_result {
 /* Default per-H reactivities of a reagent (enum reagent_id) with their origin text. */
 void sel_defaults(int reagent, struct sel_reactivity *r, const char **origin);
 
+/* Origin text of the default per-H reactivity of one site class for a reagent
+ * (static string; "" for a class the reagent does not attack). */
+const char *sel_default_origin(int reagent, int site_class);
+
 /* r at temp_c from r_ref at ref_temp_c: r_ref^((ref+273.15)/(temp+273.15)). */
 double sel_scale_to_temp(double r_ref, double ref_temp_c, double temp_c);
 
@@ -71,6 +76,12 @@ double sel_scale_to_temp(double r_ref, double ref_temp_c, double temp_c);
 enum hl_status sel_predict(const char *smiles, const char *product_smiles, int reagent,
                            double temp_c, const struct sel_reactivity *user,
                            struct sel_result *out, struct hl_err *e);
+
+/* Notes on the fields filled by sel_predict: rate_ratios/nratios are set for
+ * methane + Cl2 (Bryukov, Slagle & Knyazev 2002 expressions at temp_c) whatever
+ * the campaign says; the caller prefers the campaign's own rate_ratios.
+ * over_smiles[d] is set for 2 <= d <= h0 where the structure is unambiguous (all
+ * abstractable H on one carbon; HBr: every C=C added, d = h0); [0] and [1] stay NULL. */
 
 /* Free what sel_predict allocated; safe on a zeroed result. */
 void sel_free(struct sel_result *r);

@@ -1,0 +1,1032 @@
+/*
+ * smiles.c - OpenSMILES v1.0 subset reader and a plain writer (see smiles.h).
+ *
+ * The reader is a single left-to-right pass with an explicit branch stack, so
+ * nesting depth is limited only by memory.  Bonds written without a symbol
+ * are resolved after the pass: aromatic when both ends are aromatic and the
+ * bond lies on a ring, single otherwise (a bond between two aromatic rings,
+ * as in biphenyl, is single).  Implicit hydrogens follow the OpenSMILES
+ * normal-valence rule: the lowest normal valence >= the bond-order sum; for
+ * an aromatic atom one more unit is taken by the pi system, so c in benzene
+ * has 1 H and n in pyridine none (aromatic atoms use their lowest valence).
+ * Bracket [H] atoms with one heavy neighbour are folded into that atom's
+ * hydrogen count, as RDKit does by default.
+ */
+#include "smiles.h"
+#include "elements.h"
+#include "hlmem.h"
+
+#include <stdio.h>
+#include <string.h>
+
+#define NRING 100 /* ring-closure numbers 0..99 */
+
+static enum hl_status nomem(struct hl_err *e) { return hl_err_set(e, HL_ERR_NOMEM, "out of memory"); }
+
+static enum hl_status bad(struct hl_err *e, int col, const char *fmt, const char *arg)
+{
+    hl_err_at(e, HL_ERR_INPUT, 0, col, "", fmt, arg ? arg : "");
+    return HL_ERR_INPUT;
+}
+
+void smiles_free(struct smi_mol *m)
+{
+    if (!m)
+        return;
+    hl_free(m->atoms);
+    hl_free(m->bonds);
+    hl_free(m->adj_start);
+    hl_free(m->adj);
+    memset(m, 0, sizeof *m);
+}
+
+int smiles_add_atom(struct smi_mol *m, int el)
+{
+    if (m->natoms == m->cap_atoms) {
+        int cap = m->cap_atoms ? 2 * m->cap_atoms : 16;
+        struct smi_atom *p = hl_realloc(m->atoms, (size_t)cap * sizeof *p);
+        if (!p)
+            return -1;
+        m->atoms = p;
+        m->cap_atoms = cap;
+    }
+    struct smi_atom *a = &m->atoms[m->natoms];
+    memset(a, 0, sizeof *a);
+    a->el = el;
+    return m->natoms++;
+}
+
+enum hl_status smiles_add_bond(struct smi_mol *m, int a, int b, int order, struct hl_err *e)
+{
+    if (m->nbonds == m->cap_bonds) {
+        int cap = m->cap_bonds ? 2 * m->cap_bonds : 16;
+        struct smi_bond *p = hl_realloc(m->bonds, (size_t)cap * sizeof *p);
+        if (!p)
+            return nomem(e);
+        m->bonds = p;
+        m->cap_bonds = cap;
+    }
+    struct smi_bond *bd = &m->bonds[m->nbonds++];
+    bd->a = a;
+    bd->b = b;
+    bd->order = order;
+    bd->in_ring = 0;
+    return HL_OK;
+}
+
+int smiles_find_bond(const struct smi_mol *m, int a, int b)
+{
+    if (m->adj_start) {
+        for (int k = m->adj_start[a]; k < m->adj_start[a + 1]; k++)
+            if (smiles_other(m, m->adj[k], a) == b)
+                return m->adj[k];
+        return -1;
+    }
+    for (int i = 0; i < m->nbonds; i++)
+        if ((m->bonds[i].a == a && m->bonds[i].b == b) || (m->bonds[i].a == b && m->bonds[i].b == a))
+            return i;
+    return -1;
+}
+
+enum hl_status smiles_copy(const struct smi_mol *src, struct smi_mol *dst, struct hl_err *e)
+{
+    memset(dst, 0, sizeof *dst);
+    int na = src->natoms > 0 ? src->natoms : 1, nb = src->nbonds > 0 ? src->nbonds : 1;
+    dst->atoms = hl_malloc((size_t)na * sizeof *dst->atoms);
+    dst->bonds = hl_malloc((size_t)nb * sizeof *dst->bonds);
+    if (!dst->atoms || !dst->bonds) {
+        smiles_free(dst);
+        return nomem(e);
+    }
+    if (src->natoms)
+        memcpy(dst->atoms, src->atoms, (size_t)src->natoms * sizeof *dst->atoms);
+    if (src->nbonds)
+        memcpy(dst->bonds, src->bonds, (size_t)src->nbonds * sizeof *dst->bonds);
+    dst->natoms = src->natoms;
+    dst->cap_atoms = na;
+    dst->nbonds = src->nbonds;
+    dst->cap_bonds = nb;
+    enum hl_status st = smiles_reindex(dst, e);
+    if (st)
+        smiles_free(dst);
+    return st;
+}
+
+/* Bridges by Tarjan's low-link, iteratively: a bond is on a ring iff it is no bridge. */
+static enum hl_status find_rings(struct smi_mol *m, struct hl_err *e)
+{
+    int n = m->natoms;
+    int *disc = hl_malloc((size_t)(n ? n : 1) * 4 * sizeof *disc);
+    if (!disc)
+        return nomem(e);
+    int *low = disc + n, *pbond = low + n, *it = pbond + n;
+    int *stack = hl_malloc((size_t)(n ? n : 1) * sizeof *stack);
+    if (!stack) {
+        hl_free(disc);
+        return nomem(e);
+    }
+    for (int i = 0; i < n; i++) {
+        disc[i] = -1;
+        pbond[i] = -1;
+        it[i] = m->adj_start[i];
+        m->atoms[i].in_ring = 0;
+    }
+    for (int i = 0; i < m->nbonds; i++)
+        m->bonds[i].in_ring = 1;
+    int t = 0;
+    for (int r = 0; r < n; r++) {
+        if (disc[r] >= 0)
+            continue;
+        int sp = 0;
+        stack[sp++] = r;
+        disc[r] = low[r] = t++;
+        while (sp) {
+            int v = stack[sp - 1];
+            if (it[v] < m->adj_start[v + 1]) {
+                int b = m->adj[it[v]++];
+                if (b == pbond[v])
+                    continue;
+                int w = smiles_other(m, b, v);
+                if (disc[w] < 0) {
+                    pbond[w] = b;
+                    disc[w] = low[w] = t++;
+                    stack[sp++] = w;
+                } else if (disc[w] < low[v]) {
+                    low[v] = disc[w];
+                }
+            } else {
+                sp--;
+                if (pbond[v] >= 0) {
+                    int u = smiles_other(m, pbond[v], v);
+                    if (low[v] < low[u])
+                        low[u] = low[v];
+                    if (low[v] > disc[u])
+                        m->bonds[pbond[v]].in_ring = 0;
+                }
+            }
+        }
+    }
+    for (int i = 0; i < m->nbonds; i++)
+        if (m->bonds[i].in_ring)
+            m->atoms[m->bonds[i].a].in_ring = m->atoms[m->bonds[i].b].in_ring = 1;
+    hl_free(stack);
+    hl_free(disc);
+    return HL_OK;
+}
+
+enum hl_status smiles_reindex(struct smi_mol *m, struct hl_err *e)
+{
+    hl_free(m->adj_start);
+    hl_free(m->adj);
+    m->adj = NULL;
+    m->adj_start = hl_calloc((size_t)m->natoms + 1, sizeof *m->adj_start);
+    if (!m->adj_start)
+        return nomem(e);
+    m->adj = hl_malloc((size_t)(m->nbonds ? 2 * m->nbonds : 1) * sizeof *m->adj);
+    if (!m->adj) {
+        hl_free(m->adj_start);
+        m->adj_start = NULL;
+        return nomem(e);
+    }
+    for (int i = 0; i < m->nbonds; i++) {
+        m->adj_start[m->bonds[i].a + 1]++;
+        m->adj_start[m->bonds[i].b + 1]++;
+    }
+    for (int i = 0; i < m->natoms; i++)
+        m->adj_start[i + 1] += m->adj_start[i];
+    int *fill = hl_malloc((size_t)(m->natoms ? m->natoms : 1) * sizeof *fill);
+    if (!fill) {
+        hl_free(m->adj_start);
+        hl_free(m->adj);
+        m->adj_start = m->adj = NULL;
+        return nomem(e);
+    }
+    memcpy(fill, m->adj_start, (size_t)m->natoms * sizeof *fill);
+    for (int i = 0; i < m->nbonds; i++) {
+        m->adj[fill[m->bonds[i].a]++] = i;
+        m->adj[fill[m->bonds[i].b]++] = i;
+    }
+    hl_free(fill);
+    return find_rings(m, e);
+}
+
+/* ---- valence ---------------------------------------------------------------- */
+
+/* Normal valences of the organic subset (OpenSMILES), ascending; 0 ends the list. */
+static const int *normal_valences(int el)
+{
+    static const int v_b[] = {3, 0}, v_c[] = {4, 0}, v_n[] = {3, 5, 0}, v_o[] = {2, 0},
+                     v_p[] = {3, 5, 0}, v_s[] = {2, 4, 6, 0}, v_x[] = {1, 0};
+    switch (el) {
+    case EL_B: return v_b;
+    case EL_C: return v_c;
+    case EL_N: return v_n;
+    case EL_O: return v_o;
+    case EL_P: return v_p;
+    case EL_S: return v_s;
+    case EL_F: case EL_Cl: case EL_Br: case EL_I: return v_x;
+    default: return NULL;
+    }
+}
+
+static int bond_sum(const struct smi_mol *m, int a)
+{
+    int s = 0;
+    for (int k = m->adj_start[a]; k < m->adj_start[a + 1]; k++) {
+        int o = m->bonds[m->adj[k]].order;
+        s += o == SMI_AROMATIC ? 1 : o;
+    }
+    return s;
+}
+
+int smiles_implicit_h(const struct smi_mol *m, int a)
+{
+    const int *v = normal_valences(m->atoms[a].el);
+    if (!v)
+        return -1;
+    int s = bond_sum(m, a);
+    int vmax = 0;
+    for (int i = 0; v[i]; i++)
+        vmax = v[i];
+    if (s > vmax)
+        return -1;
+    if (m->atoms[a].aromatic) {
+        int h = v[0] - s - 1; /* the pi system takes one unit */
+        return h > 0 ? h : 0;
+    }
+    for (int i = 0; v[i]; i++)
+        if (v[i] >= s)
+            return v[i] - s;
+    return -1;
+}
+
+/* ---- reader ------------------------------------------------------------------- */
+
+struct ring_open { int atom, order, col; };
+struct parser {
+    const char *s;
+    struct smi_mol *m;
+    int *bcol;        /* per bond: column of its symbol or of the later atom, for messages */
+    int cap_bcol;
+};
+
+static int aromatic_el(const char *p, int *len)
+{
+    *len = 1;
+    if (p[0] == 's' && p[1] == 'e') { *len = 2; return EL_Se; }
+    if (p[0] == 'a' && p[1] == 's') { *len = 2; return EL_As; }
+    switch (p[0]) {
+    case 'b': return EL_B;
+    case 'c': return EL_C;
+    case 'n': return EL_N;
+    case 'o': return EL_O;
+    case 'p': return EL_P;
+    case 's': return EL_S;
+    default: return -1;
+    }
+}
+
+static int is_digit(char c) { return c >= '0' && c <= '9'; }
+
+/* Bracket atom at s[i] == '['. On success *end is the index after ']'. */
+static enum hl_status read_bracket(struct parser *P, int i, int *end, int *atom, struct hl_err *e)
+{
+    const char *s = P->s;
+    int open = i + 1, j = i + 1;
+    int iso = 0, ndig = 0;
+    while (is_digit(s[j])) {
+        if (++ndig > 3)
+            return bad(e, j + 1, "isotope mass number longer than 3 digits%s", NULL);
+        iso = iso * 10 + (s[j] - '0');
+        j++;
+    }
+    if (ndig && iso == 0)
+        return bad(e, i + 2, "isotope mass number 0 is not a nuclide%s", NULL);
+    int symcol = j + 1, el = -1, len = 0, arom = 0;
+    if (s[j] >= 'A' && s[j] <= 'Z') {
+        if (s[j + 1] >= 'a' && s[j + 1] <= 'z' && (el = elem_lookup(s + j, 2)) >= 0)
+            len = 2;
+        else if ((el = elem_lookup(s + j, 1)) >= 0)
+            len = 1;
+    } else if (s[j] >= 'a' && s[j] <= 'z') {
+        el = aromatic_el(s + j, &len);
+        arom = 1;
+    } else if (s[j] == '*') {
+        return bad(e, symcol, "wildcard atom '*' is not a substance%s", NULL);
+    }
+    if (el < 0) {
+        char sym[3] = {s[j], 0, 0};
+        if (s[j] && s[j + 1] >= 'a' && s[j + 1] <= 'z')
+            sym[1] = s[j + 1];
+        if (!s[j] || s[j] == ']')
+            return bad(e, symcol, "bracket atom without an element symbol%s", NULL);
+        return bad(e, symcol, "unknown element '%s'", sym);
+    }
+    j += len;
+    if (iso && (iso < elem_z(el) || iso > 300)) {
+        hl_err_at(e, HL_ERR_INPUT, 0, open + 1, "",
+                  "isotope mass number %d is impossible for %s (Z = %d)", iso, elem_symbol(el),
+                  elem_z(el));
+        return HL_ERR_INPUT;
+    }
+    /* chirality: @, @@, @TH1-2, @AL1-2, @SP1-3, @TB1-20, @OH1-30 (accepted, not modelled) */
+    if (s[j] == '@') {
+        int ccol = j + 1;
+        j++;
+        if (s[j] == '@') {
+            j++;
+        } else if (s[j] >= 'A' && s[j] <= 'Z' && s[j + 1] >= 'A' && s[j + 1] <= 'Z') {
+            static const struct { const char *tag; int max; } tags[] = {
+                {"TH", 2}, {"AL", 2}, {"SP", 3}, {"TB", 20}, {"OH", 30}};
+            int found = -1;
+            for (int t = 0; t < 5; t++)
+                if (s[j] == tags[t].tag[0] && s[j + 1] == tags[t].tag[1])
+                    found = t;
+            if (found < 0 || !is_digit(s[j + 2]))
+                return bad(e, ccol, "unknown chirality class%s", NULL);
+            j += 2;
+            int v = 0;
+            while (is_digit(s[j]) && v <= 99)
+                v = v * 10 + (s[j++] - '0');
+            if (v < 1 || v > tags[found].max)
+                return bad(e, ccol, "chirality class number out of range%s", NULL);
+        }
+    }
+    int h = 0;
+    if (s[j] == 'H') {
+        j++;
+        h = 1;
+        if (is_digit(s[j]))
+            h = s[j++] - '0';
+    }
+    int charge = 0;
+    if (s[j] == '+' || s[j] == '-') {
+        int ccol = j + 1;
+        char sign = s[j++];
+        int mag = 1;
+        if (s[j] == sign) {
+            j++;
+            mag = 2;
+            if (s[j] == sign || s[j] == '+' || s[j] == '-')
+                return bad(e, ccol, "bad charge: write +3 rather than repeating the sign%s", NULL);
+        } else if (is_digit(s[j])) {
+            mag = 0;
+            int nd = 0;
+            while (is_digit(s[j])) {
+                if (++nd > 2)
+                    return bad(e, ccol, "bad charge: at most 15%s", NULL);
+                mag = mag * 10 + (s[j++] - '0');
+            }
+            if (mag == 0 || mag > 15)
+                return bad(e, ccol, "bad charge: magnitude must be 1..15%s", NULL);
+        }
+        if (s[j] == '+' || s[j] == '-')
+            return bad(e, ccol, "bad charge%s", NULL);
+        charge = sign == '+' ? mag : -mag;
+    }
+    int aclass = 0;
+    if (s[j] == ':') {
+        int ccol = j + 1;
+        j++;
+        if (!is_digit(s[j]))
+            return bad(e, ccol, "atom class ':' needs a number%s", NULL);
+        int nd = 0;
+        while (is_digit(s[j])) {
+            if (++nd > 6)
+                return bad(e, ccol, "atom class number too long%s", NULL);
+            aclass = aclass * 10 + (s[j++] - '0');
+        }
+    }
+    if (s[j] != ']') {
+        if (!s[j])
+            return bad(e, open, "bracket atom not closed with ']'%s", NULL);
+        char c[2] = {s[j], 0};
+        return bad(e, j + 1, "unexpected '%s' in bracket atom", c);
+    }
+    int a = smiles_add_atom(P->m, el);
+    if (a < 0)
+        return nomem(e);
+    struct smi_atom *at = &P->m->atoms[a];
+    at->isotope = iso;
+    at->charge = charge;
+    at->hcount = h;
+    at->aromatic = arom;
+    at->bracket = 1;
+    at->aclass = aclass;
+    at->col = open;
+    *atom = a;
+    *end = j + 1;
+    return HL_OK;
+}
+
+static enum hl_status add_bond_col(struct parser *P, int a, int b, int order, int col, struct hl_err *e)
+{
+    if (P->m->nbonds == P->cap_bcol) {
+        int cap = P->cap_bcol ? 2 * P->cap_bcol : 16;
+        int *p = hl_realloc(P->bcol, (size_t)cap * sizeof *p);
+        if (!p)
+            return nomem(e);
+        P->bcol = p;
+        P->cap_bcol = cap;
+    }
+    P->bcol[P->m->nbonds] = col;
+    return smiles_add_bond(P->m, a, b, order, e);
+}
+
+static int bond_code(char c)
+{
+    switch (c) {
+    case '-': case '/': case '\\': return 1;
+    case '=': return 2;
+    case '#': return 3;
+    case '$': return 5; /* quadruple: recognised to give a clear refusal */
+    case ':': return SMI_AROMATIC;
+    default: return 0;
+    }
+}
+
+/* Remove bracket [H] atoms that hang on one non-hydrogen atom: their count goes to it. */
+static enum hl_status fold_hydrogens(struct smi_mol *m, struct hl_err *e)
+{
+    int n = m->natoms, removed = 0;
+    int *map = hl_malloc((size_t)(n ? n : 1) * sizeof *map);
+    if (!map)
+        return nomem(e);
+    for (int i = 0; i < n; i++) {
+        map[i] = i;
+        const struct smi_atom *a = &m->atoms[i];
+        if (a->el != EL_H || a->isotope || a->charge || a->hcount || a->aclass ||
+            smiles_degree(m, i) != 1)
+            continue;
+        int b = m->adj[m->adj_start[i]];
+        int w = smiles_other(m, b, i);
+        if (m->atoms[w].el == EL_H || m->bonds[b].order != 1)
+            continue;
+        m->atoms[w].hcount++;
+        map[i] = -1;
+        removed++;
+    }
+    if (!removed) {
+        hl_free(map);
+        return HL_OK;
+    }
+    int k = 0;
+    for (int i = 0; i < n; i++)
+        if (map[i] >= 0) {
+            m->atoms[k] = m->atoms[i];
+            map[i] = k++;
+        }
+    m->natoms = k;
+    int nb = 0;
+    for (int i = 0; i < m->nbonds; i++) {
+        struct smi_bond bd = m->bonds[i];
+        if (map[bd.a] < 0 || map[bd.b] < 0)
+            continue;
+        bd.a = map[bd.a];
+        bd.b = map[bd.b];
+        m->bonds[nb++] = bd;
+    }
+    m->nbonds = nb;
+    hl_free(map);
+    return smiles_reindex(m, e);
+}
+
+/* Kekule six-membered rings -> aromatic, so that C1=CC=CC=C1C and Cc1ccccc1 are one
+ * molecule to the site and symmetry models. A ring qualifies when each of its six
+ * atoms (C or N, uncharged) is already aromatic or has exactly one double bond and
+ * its partner lies on the same ring; repeated until no ring changes (fused rings).
+ * Five-membered Kekule rings (pyrrole, furan) are left as written. */
+static int kek_candidate(const struct smi_mol *m, int a)
+{
+    const struct smi_atom *at = &m->atoms[a];
+    if ((at->el != EL_C && at->el != EL_N) || at->charge || !at->in_ring)
+        return 0;
+    if (at->aromatic)
+        return 1;
+    int dbl = 0;
+    for (int k = m->adj_start[a]; k < m->adj_start[a + 1]; k++) {
+        int o = m->bonds[m->adj[k]].order;
+        if (o == 3)
+            return 0;
+        dbl += o == 2;
+    }
+    return dbl == 1;
+}
+
+static int kek_ring_ok(const struct smi_mol *m, const int *ring)
+{
+    for (int i = 0; i < 6; i++) {
+        int a = ring[i];
+        if (m->atoms[a].aromatic)
+            continue;
+        int ok = 0;
+        for (int k = m->adj_start[a]; k < m->adj_start[a + 1]; k++) {
+            int bd = m->adj[k];
+            if (m->bonds[bd].order != 2)
+                continue;
+            int w = smiles_other(m, bd, a);
+            ok = w == ring[(i + 1) % 6] || w == ring[(i + 5) % 6];
+        }
+        if (!ok)
+            return 0;
+    }
+    return 1;
+}
+
+static void aromatize_kekule(struct smi_mol *m)
+{
+    int changed = 1;
+    while (changed) {
+        changed = 0;
+        for (int s0 = 0; s0 < m->natoms; s0++) {
+            if (!kek_candidate(m, s0))
+                continue;
+            /* depth-first paths s0 - p1 - ... - p5 - s0 over candidate atoms > s0 */
+            int path[6], it[6];
+            path[0] = s0;
+            it[0] = m->adj_start[s0];
+            int d = 0;
+            while (d >= 0) {
+                int v = path[d];
+                if (it[d] == m->adj_start[v + 1]) {
+                    d--;
+                    continue;
+                }
+                int bd = m->adj[it[d]++];
+                int w = smiles_other(m, bd, v);
+                if (!m->bonds[bd].in_ring)
+                    continue;
+                if (d == 5) {
+                    if (w == s0 && path[1] < path[5] && kek_ring_ok(m, path)) {
+                        int all = 1;
+                        for (int i = 0; i < 6; i++)
+                            all &= m->atoms[path[i]].aromatic;
+                        if (!all) {
+                            for (int i = 0; i < 6; i++) {
+                                m->atoms[path[i]].aromatic = 1;
+                                m->bonds[smiles_find_bond(m, path[i], path[(i + 1) % 6])].order =
+                                    SMI_AROMATIC;
+                            }
+                            changed = 1;
+                        }
+                    }
+                    continue;
+                }
+                if (w <= s0 || !kek_candidate(m, w))
+                    continue;
+                int dup = 0;
+                for (int i = 1; i <= d; i++)
+                    dup |= path[i] == w;
+                if (dup)
+                    continue;
+                path[++d] = w;
+                it[d] = m->adj_start[w];
+            }
+        }
+    }
+}
+
+static enum hl_status finish(struct parser *P, struct hl_err *e)
+{
+    struct smi_mol *m = P->m;
+    enum hl_status st = smiles_reindex(m, e);
+    if (st)
+        return st;
+    /* implicit bonds: aromatic between aromatic atoms on a ring, single otherwise */
+    for (int i = 0; i < m->nbonds; i++) {
+        struct smi_bond *b = &m->bonds[i];
+        if (b->order == 0)
+            b->order = (b->in_ring && m->atoms[b->a].aromatic && m->atoms[b->b].aromatic)
+                           ? SMI_AROMATIC : 1;
+        else if (b->order == SMI_AROMATIC && !b->in_ring)
+            return bad(e, P->bcol[i], "aromatic bond ':' outside a ring%s", NULL);
+        else if (b->order == SMI_AROMATIC && !(m->atoms[b->a].aromatic && m->atoms[b->b].aromatic))
+            return bad(e, P->bcol[i], "aromatic bond ':' between non-aromatic atoms%s", NULL);
+    }
+    for (int a = 0; a < m->natoms; a++) {
+        struct smi_atom *at = &m->atoms[a];
+        if (at->aromatic && !at->in_ring)
+            return bad(e, at->col, "aromatic atom not in a ring%s", NULL);
+        if (!at->bracket) {
+            int h = smiles_implicit_h(m, a);
+            if (h < 0)
+                return bad(e, at->col, "too many bonds on %s (above its normal valence)",
+                           elem_symbol(at->el));
+            at->hcount = h;
+        } else if (at->el == EL_C) {
+            /* carbon has four bonds whatever the charge ([CH3+] has three): more is no molecule */
+            int total = bond_sum(m, a) + at->hcount + (at->aromatic ? 1 : 0);
+            if (total > 4)
+                return bad(e, at->col, "too many bonds on carbon (valence above 4)%s", NULL);
+        }
+    }
+    aromatize_kekule(m);
+    return fold_hydrogens(m, e);
+}
+
+enum hl_status smiles_parse(const char *text, struct smi_mol *m, struct hl_err *e)
+{
+    memset(m, 0, sizeof *m);
+    if (!text || !*text)
+        return bad(e, 1, "empty SMILES%s", NULL);
+    struct parser P = {.s = text, .m = m};
+    struct ring_open ring[NRING];
+    for (int r = 0; r < NRING; r++)
+        ring[r].atom = -1;
+    int *stack = NULL, sp = 0, cap = 0; /* pairs: atom, column of its '(' */
+    int prev = -1, bond = 0, bond_col = 0, just_opened = 0;
+    enum hl_status st = HL_OK;
+    const char *s = text;
+    int i = 0;
+    while (!st && s[i]) {
+        char c = s[i];
+        int col = i + 1;
+        int el = -1, len = 1, arom = 0, atom = -1, bc;
+        if (c == '[') {
+            int end;
+            if ((st = read_bracket(&P, i, &end, &atom, e)))
+                break;
+            len = end - i;
+        } else if (c >= 'A' && c <= 'Z') {
+            if (c == 'C' && s[i + 1] == 'l') { el = EL_Cl; len = 2; }
+            else if (c == 'B' && s[i + 1] == 'r') { el = EL_Br; len = 2; }
+            else if (strchr("BCNOPSFI", c)) el = elem_lookup(s + i, 1);
+            if (el < 0) {
+                char sym[3] = {c, 0, 0};
+                if (s[i + 1] >= 'a' && s[i + 1] <= 'z')
+                    sym[1] = s[i + 1];
+                int known = elem_lookup(sym, strlen(sym)) >= 0 || elem_lookup(sym, 1) >= 0;
+                st = bad(e, col, known ? "element '%s' must be written in brackets"
+                                       : "unknown element '%s'", sym);
+                break;
+            }
+        } else if (c >= 'a' && c <= 'z') {
+            el = aromatic_el(s + i, &len);
+            if (el < 0 || len != 1) {
+                char sym[2] = {c, 0};
+                st = bad(e, col, "'%s' is not an aromatic organic-subset atom (b c n o p s)", sym);
+                break;
+            }
+            arom = 1;
+        }
+        if (el >= 0) {
+            if ((atom = smiles_add_atom(m, el)) < 0) {
+                st = nomem(e);
+                break;
+            }
+            m->atoms[atom].aromatic = arom;
+            m->atoms[atom].col = col;
+        }
+        if (atom >= 0) {
+            if (prev >= 0 && (st = add_bond_col(&P, prev, atom, bond, bond ? bond_col : col, e)))
+                break;
+            prev = atom;
+            bond = 0;
+            just_opened = 0;
+            i += len;
+            continue;
+        }
+        if ((bc = bond_code(c))) {
+            if (prev < 0) { st = bad(e, col, "bond symbol with no atom before it%s", NULL); break; }
+            if (bond) { st = bad(e, col, "two bond symbols in a row%s", NULL); break; }
+            if (bc == 5) { st = bad(e, col, "quadruple bond '$' is not supported%s", NULL); break; }
+            bond = bc;
+            bond_col = col;
+            i++;
+            continue;
+        }
+        if (c == '(') {
+            if (prev < 0) { st = bad(e, col, "branch '(' with no atom before it%s", NULL); break; }
+            if (bond) { st = bad(e, bond_col, "bond symbol before '(': put it inside the branch%s", NULL); break; }
+            if (sp == cap) {
+                int ncap = cap ? 2 * cap : 32;
+                int *p = hl_realloc(stack, (size_t)ncap * 2 * sizeof *p);
+                if (!p) { st = nomem(e); break; }
+                stack = p;
+                cap = ncap;
+            }
+            stack[2 * sp] = prev;
+            stack[2 * sp + 1] = col;
+            sp++;
+            just_opened = 1;
+            i++;
+            continue;
+        }
+        if (c == ')') {
+            if (!sp) { st = bad(e, col, "')' without a matching '('%s", NULL); break; }
+            if (bond) { st = bad(e, bond_col, "bond symbol with no atom after it%s", NULL); break; }
+            if (just_opened) { st = bad(e, col, "empty branch '()'%s", NULL); break; }
+            prev = stack[2 * (--sp)];
+            i++;
+            continue;
+        }
+        if (is_digit(c) || c == '%') {
+            int num, nlen = 1;
+            if (c == '%') {
+                if (!is_digit(s[i + 1]) || !is_digit(s[i + 2])) {
+                    st = bad(e, col, "'%%' must be followed by two digits%s", NULL);
+                    break;
+                }
+                num = (s[i + 1] - '0') * 10 + (s[i + 2] - '0');
+                nlen = 3;
+            } else {
+                num = c - '0';
+            }
+            if (prev < 0) { st = bad(e, col, "ring-closure number with no atom before it%s", NULL); break; }
+            if (just_opened) { st = bad(e, col, "ring-closure number right after '('%s", NULL); break; }
+            struct ring_open *r = &ring[num];
+            if (r->atom < 0) {
+                r->atom = prev;
+                r->order = bond;
+                r->col = bond ? bond_col : col;
+            } else {
+                if (r->atom == prev) { st = bad(e, col, "ring bond from an atom to itself%s", NULL); break; }
+                if (r->order && bond && r->order != bond) {
+                    st = bad(e, bond_col, "ring-closure bond symbols disagree%s", NULL);
+                    break;
+                }
+                if (smiles_find_bond(m, r->atom, prev) >= 0) {
+                    st = bad(e, col, "duplicate bond: these two atoms are already bonded%s", NULL);
+                    break;
+                }
+                int order = bond ? bond : r->order;
+                if ((st = add_bond_col(&P, r->atom, prev, order, bond ? bond_col : col, e)))
+                    break;
+                r->atom = -1;
+            }
+            bond = 0;
+            i += nlen;
+            continue;
+        }
+        if (c == '.') {
+            st = bad(e, col, "'.' (disconnected structures) is not supported: give one molecule%s", NULL);
+            break;
+        }
+        if (c == ' ' || c == '\t' || c == '\n' || c == '\r') {
+            st = bad(e, col, "white space inside SMILES%s", NULL);
+            break;
+        }
+        char cc[2] = {c, 0};
+        st = bad(e, col, (unsigned char)c < 32 || (unsigned char)c > 126 ? "unexpected byte%s"
+                                                                          : "unexpected character '%s'",
+                 (unsigned char)c < 32 || (unsigned char)c > 126 ? "" : cc);
+    }
+    if (!st && bond)
+        st = bad(e, bond_col, "bond symbol with no atom after it%s", NULL);
+    if (!st && sp)
+        st = bad(e, stack[2 * (sp - 1) + 1], "branch '(' is not closed%s", NULL);
+    if (!st) {
+        int worst = -1;
+        for (int r = 0; r < NRING; r++)
+            if (ring[r].atom >= 0 && (worst < 0 || ring[r].col < ring[worst].col))
+                worst = r;
+        if (worst >= 0) {
+            char num[16];
+            snprintf(num, sizeof num, "%d", worst);
+            st = bad(e, ring[worst].col, "ring bond %s is not closed", num);
+        }
+    }
+    if (!st)
+        st = finish(&P, e);
+    hl_free(stack);
+    hl_free(P.bcol);
+    return st;
+}
+
+/* ---- formula ------------------------------------------------------------------- */
+
+void smiles_formula(const struct smi_mol *m, struct formula *f)
+{
+    memset(f, 0, sizeof *f);
+    for (int i = 0; i < m->natoms; i++) {
+        f->n[m->atoms[i].el]++;
+        f->n[EL_H] += m->atoms[i].hcount;
+    }
+}
+
+double smiles_molar_mass_g_mol(const struct smi_mol *m)
+{
+    struct formula f;
+    smiles_formula(m, &f);
+    return formula_molar_mass_g_mol(&f);
+}
+
+/* ---- writer -------------------------------------------------------------------- */
+
+struct sbuf { char *p; size_t n, cap; int fail; };
+
+static void put(struct sbuf *b, const char *s)
+{
+    size_t k = strlen(s);
+    if (b->fail)
+        return;
+    if (b->n + k + 1 > b->cap) {
+        size_t cap = b->cap ? b->cap : 64;
+        while (b->n + k + 1 > cap)
+            cap *= 2;
+        char *p = hl_realloc(b->p, cap);
+        if (!p) {
+            b->fail = 1;
+            return;
+        }
+        b->p = p;
+        b->cap = cap;
+    }
+    memcpy(b->p + b->n, s, k + 1);
+    b->n += k;
+}
+
+static void put_atom(struct sbuf *b, const struct smi_mol *m, int a)
+{
+    const struct smi_atom *at = &m->atoms[a];
+    char sym[4];
+    snprintf(sym, sizeof sym, "%s", elem_symbol(at->el));
+    if (at->aromatic)
+        for (char *q = sym; *q; q++)
+            if (*q >= 'A' && *q <= 'Z')
+                *q = (char)(*q - 'A' + 'a');
+    int plain = !at->isotope && !at->charge && !at->aclass && smiles_implicit_h(m, a) == at->hcount;
+    if (plain) {
+        put(b, sym);
+        return;
+    }
+    char buf[48];
+    int k = 0;
+    k += snprintf(buf + k, sizeof buf - (size_t)k, "[");
+    if (at->isotope)
+        k += snprintf(buf + k, sizeof buf - (size_t)k, "%d", at->isotope);
+    k += snprintf(buf + k, sizeof buf - (size_t)k, "%s", sym);
+    if (at->hcount == 1)
+        k += snprintf(buf + k, sizeof buf - (size_t)k, "H");
+    else if (at->hcount > 1)
+        k += snprintf(buf + k, sizeof buf - (size_t)k, "H%d", at->hcount);
+    if (at->charge == 1 || at->charge == -1)
+        k += snprintf(buf + k, sizeof buf - (size_t)k, "%c", at->charge > 0 ? '+' : '-');
+    else if (at->charge)
+        k += snprintf(buf + k, sizeof buf - (size_t)k, "%c%d", at->charge > 0 ? '+' : '-',
+                      at->charge > 0 ? at->charge : -at->charge);
+    if (at->aclass)
+        k += snprintf(buf + k, sizeof buf - (size_t)k, ":%d", at->aclass);
+    snprintf(buf + k, sizeof buf - (size_t)k, "]");
+    put(b, buf);
+}
+
+/* Symbol to write for bond bd: nothing where the reader's default gives the same order. */
+static const char *bond_text(const struct smi_mol *m, int bd)
+{
+    const struct smi_bond *b = &m->bonds[bd];
+    int both_arom = m->atoms[b->a].aromatic && m->atoms[b->b].aromatic;
+    switch (b->order) {
+    case 2: return "=";
+    case 3: return "#";
+    case SMI_AROMATIC: return both_arom && b->in_ring ? "" : ":";
+    default: return both_arom && b->in_ring ? "-" : "";
+    }
+}
+
+enum hl_status smiles_write(const struct smi_mol *m, char **out, struct hl_err *e)
+{
+    *out = NULL;
+    int n = m->natoms;
+    if (n == 0)
+        return hl_err_set(e, HL_ERR_INPUT, "empty molecule");
+    /* Phase 1: depth-first tree; each non-tree bond becomes a ring closure opened
+     * at the atom visited first. */
+    int *order = hl_malloc((size_t)n * 6 * sizeof *order);
+    int *isring = hl_calloc((size_t)(m->nbonds ? m->nbonds : 1), sizeof *isring);
+    if (!order || !isring) {
+        hl_free(order);
+        hl_free(isring);
+        return nomem(e);
+    }
+    int *visit = order + n, *pbond = visit + n, *it = pbond + n, *stack = it + n, *size = stack + n;
+    int *bdigit = NULL;
+    struct sbuf b = {0};
+    enum hl_status st = HL_OK;
+    for (int i = 0; i < n; i++) {
+        visit[i] = -1;
+        pbond[i] = -1;
+        it[i] = m->adj_start[i];
+    }
+    /* Start at the last atom with one neighbour (an added halogen in a product:
+     * "ClCC" rather than "C(C)Cl"), or atom 0 in a ring-only molecule. */
+    int root = 0;
+    for (int i = 0; i < n; i++)
+        if (smiles_degree(m, i) <= 1)
+            root = i;
+    int t = 0, sp = 0;
+    stack[sp++] = root;
+    visit[root] = t;
+    order[t++] = root;
+    while (sp) {
+        int v = stack[sp - 1];
+        if (it[v] == m->adj_start[v + 1]) {
+            sp--;
+            continue;
+        }
+        int bd = m->adj[it[v]++];
+        if (bd == pbond[v])
+            continue;
+        int w = smiles_other(m, bd, v);
+        if (visit[w] < 0) {
+            pbond[w] = bd;
+            visit[w] = t;
+            order[t++] = w;
+            stack[sp++] = w;
+        } else {
+            isring[bd] = 1;
+        }
+    }
+    if (t != n) {
+        st = hl_err_set(e, HL_ERR_INPUT, "molecule is not connected");
+        goto done;
+    }
+    /* subtree sizes (reverse pre-order), so that small branches go in parentheses
+     * and the largest continues the main chain */
+    for (int i = 0; i < n; i++)
+        size[i] = 1;
+    for (int i = n - 1; i > 0; i--)
+        size[smiles_other(m, pbond[order[i]], order[i])] += size[order[i]];
+    bdigit = hl_malloc((size_t)(m->nbonds ? m->nbonds : 1) * sizeof *bdigit);
+    if (!bdigit) {
+        st = nomem(e);
+        goto done;
+    }
+    int used[100] = {0};
+    /* Emission in pre-order; ring closures open at the ancestor end (written first
+     * whatever the sibling order). it[v] < 0: not written yet. */
+    for (int i = 0; i < n; i++)
+        it[i] = -1;
+    sp = 0;
+    stack[sp++] = root;
+    while (sp && !b.fail && !st) {
+        int v = stack[sp - 1] < 0 ? -stack[sp - 1] - 1 : stack[sp - 1];
+        if (stack[sp - 1] < 0) { /* returning from a branch in parentheses */
+            put(&b, ")");
+            stack[sp - 1] = v;
+        }
+        if (it[v] < 0) {
+            if (pbond[v] >= 0)
+                put(&b, bond_text(m, pbond[v]));
+            put_atom(&b, m, v);
+            for (int k = m->adj_start[v]; k < m->adj_start[v + 1]; k++) {
+                int bd = m->adj[k];
+                if (!isring[bd])
+                    continue;
+                int w = smiles_other(m, bd, v);
+                char num[16];
+                if (visit[w] > visit[v]) { /* open */
+                    int d = 1;
+                    while (d < 100 && used[d])
+                        d++;
+                    if (d == 100) {
+                        st = hl_err_set(e, HL_ERR_INPUT, "more than 99 open ring closures");
+                        break;
+                    }
+                    used[d] = 1;
+                    bdigit[bd] = d;
+                    put(&b, bond_text(m, bd));
+                } else {
+                    used[bdigit[bd]] = 0;
+                }
+                if (bdigit[bd] < 10)
+                    snprintf(num, sizeof num, "%d", bdigit[bd]);
+                else
+                    snprintf(num, sizeof num, "%%%d", bdigit[bd]);
+                put(&b, num);
+            }
+            it[v] = 0;
+        }
+        /* next child: the smallest unwritten subtree */
+        int child = -1, left = 0;
+        for (int k = m->adj_start[v]; k < m->adj_start[v + 1]; k++) {
+            int bd = m->adj[k];
+            int w = smiles_other(m, bd, v);
+            if (pbond[w] != bd || visit[w] < visit[v] || it[w] >= 0)
+                continue;
+            left++;
+            if (child < 0 || size[w] < size[child])
+                child = w;
+        }
+        if (child < 0) {
+            sp--;
+            continue;
+        }
+        if (left > 1) {
+            put(&b, "(");
+            stack[sp - 1] = -v - 1; /* write ')' when control comes back to v */
+        }
+        stack[sp++] = child;
+    }
+    if (!st && b.fail)
+        st = nomem(e);
+done:
+    hl_free(order);
+    hl_free(isring);
+    hl_free(bdigit);
+    if (st)
+        hl_free(b.p);
+    else
+        *out = b.p;
+    return st;
+}
