@@ -7,7 +7,38 @@
  * amount given twice or not at all are refused with the JSON path of the value
  * and its line:column.  `repeat` entries are expanded here, so models see one
  * struct camp_run per batch.  Every position the models may still need to
- * blame (SMILES, formula, reagent) is kept in the run.
+ * blame (SMILES, formula, reagent) is kept in the run; a string's position is
+ * that of its opening quote, so character k (1-based) of a SMILES without
+ * escapes sits at column pos_smiles.col + k.
+ *
+ * Required (R) keys, defaults (=) and accepted ranges.  The top level and each
+ * scrubbers/stock/containers/runs entry may also carry a free-text "note".  Text is UTF-8 without control characters, at most
+ * 32767 bytes (ids: 1..100 bytes).  Masses in kg are in (0, 1e9) unless said.
+ *  top:       format R = "haloledger-campaign/1"; title, site; issued (ISO date);
+ *             model; scrubbers[], stock[], containers[] (may be empty); runs[] R, non-empty.
+ *  scrubbers: id R (unique); liquor "naoh"|"water" = naoh; naoh_wt_pct (0,50] R for naoh;
+ *             liquor_kg R; min_naoh_wt_pct [0, naoh_wt_pct) = 2 (naoh only);
+ *             max_acid_wt_pct (0,60] = 20 (water only); rated_acid_kmol_h (0,1e6] R;
+ *             makeup_naoh_wt_pct (0,100] = 50, >= naoh_wt_pct; liquor_cp_kj_kg_k [0.5,10]
+ *             (absent = 0 = built-in); column {packing_factor_1_m (0,1e4] R, htu_m (0,20] R,
+ *             removal_fraction (0,1) R, flood_fraction (0,1) = 0.7, carrier_kmol_h (0,1e6] R,
+ *             liquor_kg_h R, gas_temp_c [-40,200] = 25}.
+ *  stock:     reagent R (incl. "NaOH"; one entry per reagent); on_hand_kg [0,1e9) R;
+ *             safety_kg [0,1e9) = 0; lead_days [0,3650] = 0.
+ *  containers: reagent R; name R; net_kg (0,1e6] R; heel_kg [0, net_kg) = 0.
+ *  runs:      id R (unique after repeat expansion); start R (ISO date); reactor; scrubber
+ *             (an id of scrubbers[]; absent = -1); substrate R {name; smiles | formula, one R};
+ *             product_smiles; substrate_kg R; reagent R (Cl2 Br2 SO2Cl2 NBS HBr);
+ *             reagent_eq (0,1000] | reagent_kg, exactly one R; halogen_conversion (0,1] = 1;
+ *             temp_c [-80,400] = 25; feed_h (0,8760] = 1; peak_factor [1,1000] = 1;
+ *             vent_retained_fraction [0,1) = 0; reactor_mode "batch"|"cstr" = batch;
+ *             repeat {count 1..10000 R, every_days (0,3650] R}; model.
+ *  model:     relative_reactivity {primary, secondary, tertiary, allylic, benzylic (0,1e6];
+ *             ref_temp_c [-80,400]}; overhalogenation_factor (0,1000]; rate_ratios: 1..64
+ *             numbers in (0,1e6], the first = 1 (step 0 is the reference).  All optional.
+ * At most 1e6 runs after expansion; nesting depth at most 64; numbers of at most 63
+ * characters.  Field paths: "runs[3].reagent_eq" ("$" = the whole document);
+ * catalog errors: "catalog.containers[2].net_kg" with line:column in the catalog text.
  */
 #ifndef CAMPAIGN_H
 #define CAMPAIGN_H
@@ -97,6 +128,7 @@ struct camp_run {
     enum camp_mode mode;
     struct camp_model model;    /* campaign-level block merged under the run's own */
     struct camp_pos pos, pos_smiles, pos_formula, pos_product_smiles, pos_reagent, pos_amount;
+    struct camp_pos pos_id, pos_start; /* of the id and start values (shared by repeat copies) */
 };
 
 struct campaign {

@@ -1,0 +1,1775 @@
+/*
+ * campaign.c - strict reader of the campaign file (see campaign.h).
+ *
+ * Two linear passes over the text.  A small scanner of our own checks the
+ * JSON syntax (RFC 8259), UTF-8 (RFC 3629), escapes and nesting depth, and
+ * records for every value, in document order, its byte offset and line:column
+ * and those of its key: cJSON keeps no positions and gives no messages.
+ * cJSON then builds the tree.  Its nodes are created in the same document
+ * (pre-)order, so the i-th node of a pre-order walk is the i-th value the
+ * scanner saw; the index is stored in the node's valueint, which this reader
+ * never reads otherwise (numbers come from valuedouble: valueint saturates).
+ * Line and column are counted while scanning (newlines can only occur in
+ * whitespace), so no position ever costs a rescan.
+ */
+#include "campaign.h"
+
+#include <cjson/cJSON.h>
+#include <errno.h>
+#include <math.h>
+#include <stdarg.h>
+#include <stdio.h>
+#include <string.h>
+
+#include "hlmem.h"
+#include "isodate.h"
+#include "reagents.h"
+
+#define MAX_DEPTH 64          /* far below cJSON's compiled-in 1000 */
+#define MAX_TEXT 32767        /* longest string a workbook cell holds */
+#define MAX_ID 100            /* ids are short labels */
+#define MAX_RUNS 1000000      /* expanded runs; design section 7 plans for 1e5 a year */
+#define MAX_FILE (1u << 30)   /* keeps value counts inside int (valueint) */
+#define MAX_NUMBER_CHARS 63   /* cJSON copies at most 63 characters of a number */
+
+/* ------------------------------------------------------------------ */
+/* Pass 1: scanner                                                     */
+/* ------------------------------------------------------------------ */
+
+struct vpos { size_t off; int line, col, kline, kcol; };
+
+struct frame { int is_obj; size_t key_off, key_len; long index; int has; };
+
+struct scan {
+    const char *t; size_t n, i;
+    int line; size_t lstart;
+    struct vpos *v; size_t nv, cap;
+    struct frame fr[MAX_DEPTH + 1]; int depth;
+    const char *prefix, *doc;
+    struct hl_err *e;
+};
+
+/* Append printable bytes of s[0..n) to buf (controls shown as '?'). */
+static void put_clean(char *buf, size_t cap, size_t *k, const char *s, size_t n)
+{
+    for (size_t j = 0; j < n && *k + 1 < cap; j++) {
+        unsigned char ch = (unsigned char)s[j];
+        buf[(*k)++] = (ch < 0x20 || ch == 0x7f) ? '?' : (char)ch;
+    }
+    buf[*k] = '\0';
+}
+
+/* Field path: prefix ("" or "catalog") + components; "$" for the top of a campaign. */
+static void finish_field(char *out, size_t cap, const char *prefix, const char *path)
+{
+    size_t k = 0;
+    /* top-level arrays (never valid, but reported) read "$[0]" */
+    const char *parts[3] = {prefix, (!prefix[0] && path[0] != '.') ? "$" : "",
+                            path + (!prefix[0] && path[0] == '.')};
+    for (int j = 0; j < 3; j++)
+        for (const char *p = parts[j]; *p && k + 1 < cap; p++)
+            out[k++] = *p;
+    out[k] = '\0';
+}
+
+static void scan_path(const struct scan *s, char *out, size_t cap)
+{
+    char p[512];
+    size_t k = 0;
+    p[0] = '\0';
+    for (int d = 0; d < s->depth; d++) {
+        const struct frame *f = &s->fr[d];
+        if (!f->has)
+            continue;
+        if (f->is_obj) {
+            if (k + 1 < sizeof p)
+                p[k++] = '.';
+            if (f->key_len)
+                put_clean(p, sizeof p, &k, s->t + f->key_off, f->key_len);
+            else
+                put_clean(p, sizeof p, &k, "\"\"", 2); /* an empty key shows as "" */
+        } else {
+            int w = snprintf(p + k, sizeof p - k, "[%ld]", f->index);
+            if (w > 0)
+                k = k + (size_t)w < sizeof p ? k + (size_t)w : sizeof p - 1;
+        }
+    }
+    p[k] = '\0';
+    finish_field(out, cap, s->prefix, p);
+}
+
+static enum hl_status serr(struct scan *s, size_t at, const char *fmt, ...)
+    __attribute__((format(printf, 3, 4)));
+static enum hl_status serr(struct scan *s, size_t at, const char *fmt, ...)
+{
+    char msg[480], field[160];
+    va_list ap;
+    va_start(ap, fmt);
+    vsnprintf(msg, sizeof msg, fmt, ap);
+    va_end(ap);
+    scan_path(s, field, sizeof field);
+    int col = at >= s->lstart ? (int)(at - s->lstart + 1) : 1;
+    return hl_err_at(s->e, HL_ERR_INPUT, s->line, col, field, "%s", msg);
+}
+
+static void skip_ws(struct scan *s)
+{
+    while (s->i < s->n) {
+        char c = s->t[s->i];
+        if (c == ' ' || c == '\t' || c == '\r') {
+            s->i++;
+        } else if (c == '\n') {
+            s->i++;
+            s->line++;
+            s->lstart = s->i;
+        } else {
+            break;
+        }
+    }
+}
+
+static const char *describe_byte(unsigned char c, char *buf, size_t n)
+{
+    if (c == '\'')
+        snprintf(buf, n, "a single quote");
+    else if (c >= 0x21 && c < 0x7f)
+        snprintf(buf, n, "'%c'", c);
+    else
+        snprintf(buf, n, "byte 0x%02X", c);
+    return buf;
+}
+
+/* Length of a valid UTF-8 sequence at p (RFC 3629 table 4), 0 if invalid. */
+static int utf8_len(const unsigned char *p, size_t avail)
+{
+    unsigned char c = p[0];
+    int n;
+    unsigned char lo = 0x80, hi = 0xBF;
+    if (c < 0x80)
+        return 1;
+    if (c >= 0xC2 && c <= 0xDF) n = 2;
+    else if (c == 0xE0) { n = 3; lo = 0xA0; }
+    else if (c >= 0xE1 && c <= 0xEC) n = 3;
+    else if (c == 0xED) { n = 3; hi = 0x9F; }
+    else if (c >= 0xEE && c <= 0xEF) n = 3;
+    else if (c == 0xF0) { n = 4; lo = 0x90; }
+    else if (c >= 0xF1 && c <= 0xF3) n = 4;
+    else if (c == 0xF4) { n = 4; hi = 0x8F; }
+    else return 0;
+    if ((size_t)n > avail)
+        return 0;
+    if (p[1] < lo || p[1] > hi)
+        return 0;
+    for (int k = 2; k < n; k++)
+        if (p[k] < 0x80 || p[k] > 0xBF)
+            return 0;
+    return n;
+}
+
+static int hex4(const char *p, size_t avail, unsigned *cp)
+{
+    unsigned v = 0;
+    if (avail < 4)
+        return -1;
+    for (int k = 0; k < 4; k++) {
+        char c = p[k];
+        v <<= 4;
+        if (c >= '0' && c <= '9') v |= (unsigned)(c - '0');
+        else if (c >= 'a' && c <= 'f') v |= (unsigned)(c - 'a' + 10);
+        else if (c >= 'A' && c <= 'F') v |= (unsigned)(c - 'A' + 10);
+        else return -1;
+    }
+    *cp = v;
+    return 0;
+}
+
+/* Scan a string starting at the opening quote; is_key only changes the wording. */
+static enum hl_status scan_string(struct scan *s, int is_key)
+{
+    size_t start = s->i;
+    const char *what = is_key ? "key" : "string";
+    s->i++;
+    for (;;) {
+        if (s->i >= s->n)
+            return serr(s, s->n, "unexpected end of file inside a %s (opened at %d:%zu)", what,
+                        s->line, start - s->lstart + 1);
+        unsigned char c = (unsigned char)s->t[s->i];
+        if (c == '"') {
+            s->i++;
+            return HL_OK;
+        }
+        if (c == '\\') {
+            if (s->i + 1 >= s->n)
+                return serr(s, s->n, "unexpected end of file inside a %s (opened at %d:%zu)", what,
+                            s->line, start - s->lstart + 1);
+            char x = s->t[s->i + 1];
+            if (strchr("\"\\/bfnrt", x) && x) {
+                s->i += 2;
+                continue;
+            }
+            if (x != 'u')
+                return serr(s, s->i, "invalid escape '\\%c' in a %s", (x >= 0x21 && x < 0x7f) ? x : '?',
+                            what);
+            unsigned cp, lo;
+            if (hex4(s->t + s->i + 2, s->n - s->i - 2, &cp))
+                return serr(s, s->i, "invalid \\u escape in a %s (four hex digits expected)", what);
+            if (cp == 0)
+                return serr(s, s->i, "\\u0000 (NUL) is not allowed in a %s", what);
+            if (cp >= 0xDC00 && cp <= 0xDFFF)
+                return serr(s, s->i, "unpaired surrogate \\u%04X in a %s", cp, what);
+            if (cp >= 0xD800 && cp <= 0xDBFF) {
+                size_t j = s->i + 6;
+                if (j + 1 >= s->n || s->t[j] != '\\' || s->t[j + 1] != 'u' ||
+                    hex4(s->t + j + 2, s->n - j - 2, &lo) || lo < 0xDC00 || lo > 0xDFFF)
+                    return serr(s, s->i, "unpaired surrogate \\u%04X in a %s", cp, what);
+                s->i += 12;
+            } else {
+                s->i += 6;
+            }
+            continue;
+        }
+        if (c < 0x20) {
+            if (c == '\n' || c == '\r')
+                return serr(s, s->i, "%s not closed before the end of the line", what);
+            return serr(s, s->i, "unescaped control character 0x%02X in a %s", c, what);
+        }
+        int k = utf8_len((const unsigned char *)s->t + s->i, s->n - s->i);
+        if (!k)
+            return serr(s, start, "invalid UTF-8 in a %s (byte 0x%02X at byte %zu of it)", what, c,
+                        s->i - start);
+        s->i += (size_t)k;
+    }
+}
+
+static int is_digit(char c) { return c >= '0' && c <= '9'; }
+
+/* RFC 8259 number grammar; cJSON is laxer (it takes 01, 1., .5), so we check first. */
+static enum hl_status scan_number(struct scan *s)
+{
+    size_t st = s->i, j = s->i;
+    const char *t = s->t;
+    size_t n = s->n;
+    if (j < n && t[j] == '-')
+        j++;
+    if (j >= n || !is_digit(t[j]))
+        goto bad;
+    if (t[j] == '0') {
+        j++;
+    } else {
+        while (j < n && is_digit(t[j]))
+            j++;
+    }
+    if (j < n && t[j] == '.') {
+        j++;
+        if (j >= n || !is_digit(t[j]))
+            goto bad;
+        while (j < n && is_digit(t[j]))
+            j++;
+    }
+    if (j < n && (t[j] == 'e' || t[j] == 'E')) {
+        j++;
+        if (j < n && (t[j] == '+' || t[j] == '-'))
+            j++;
+        if (j >= n || !is_digit(t[j]))
+            goto bad;
+        while (j < n && is_digit(t[j]))
+            j++;
+    }
+    if (j < n && (is_digit(t[j]) || t[j] == '.' || t[j] == 'e' || t[j] == 'E' || t[j] == '+' ||
+                  t[j] == '-' || (t[j] >= 'a' && t[j] <= 'z') || (t[j] >= 'A' && t[j] <= 'Z')))
+        goto bad;
+    if (j - st > MAX_NUMBER_CHARS)
+        return serr(s, st, "number too long (more than %d characters)", MAX_NUMBER_CHARS);
+    s->i = j;
+    return HL_OK;
+bad:
+    return serr(s, st, "invalid number (JSON numbers look like 12, -0.5 or 1.5e3)");
+}
+
+static enum hl_status record(struct scan *s, int kline, int kcol)
+{
+    if (s->nv == s->cap) {
+        size_t nc = s->cap ? s->cap * 2 : 64;
+        struct vpos *nvp = hl_realloc(s->v, nc * sizeof *nvp);
+        if (!nvp)
+            return hl_err_set(s->e, HL_ERR_NOMEM, "out of memory reading the %s", s->doc);
+        s->v = nvp;
+        s->cap = nc;
+    }
+    struct vpos *p = &s->v[s->nv++];
+    p->off = s->i;
+    p->line = s->line;
+    p->col = (int)(s->i - s->lstart + 1);
+    p->kline = kline;
+    p->kcol = kcol;
+    return HL_OK;
+}
+
+static enum hl_status scan_value(struct scan *s, int kline, int kcol);
+
+static enum hl_status scan_container(struct scan *s, int is_obj)
+{
+    size_t open_vi = s->nv - 1;
+    char close = is_obj ? '}' : ']';
+    if (s->depth >= MAX_DEPTH)
+        return serr(s, s->i, "nesting deeper than %d levels", MAX_DEPTH);
+    struct frame *f = &s->fr[s->depth++];
+    memset(f, 0, sizeof *f);
+    f->is_obj = is_obj;
+    s->i++;
+    skip_ws(s);
+    if (s->i < s->n && s->t[s->i] == close) {
+        s->i++;
+        s->depth--;
+        return HL_OK;
+    }
+    for (long idx = 0;; idx++) {
+        enum hl_status st;
+        int kl = 0, kc = 0;
+        if (s->i >= s->n)
+            goto eof;
+        if (is_obj) {
+            if (s->t[s->i] != '"') {
+                char b[24];
+                if (s->t[s->i] == '}' && idx > 0)
+                    return serr(s, s->i, "trailing comma before '}'");
+                return serr(s, s->i, "expected a key in double quotes, found %s",
+                            describe_byte((unsigned char)s->t[s->i], b, sizeof b));
+            }
+            size_t ks = s->i;
+            kl = s->line;
+            kc = (int)(s->i - s->lstart + 1);
+            f->has = 0;
+            if ((st = scan_string(s, 1)))
+                return st;
+            f->key_off = ks + 1;
+            f->key_len = s->i - ks - 2;
+            f->has = 1;
+            skip_ws(s);
+            if (s->i >= s->n)
+                goto eof;
+            if (s->t[s->i] != ':') {
+                char b[24];
+                return serr(s, s->i, "expected ':' after the key, found %s",
+                            describe_byte((unsigned char)s->t[s->i], b, sizeof b));
+            }
+            s->i++;
+            skip_ws(s);
+        } else {
+            f->index = idx;
+            f->has = 1;
+            if (s->t[s->i] == ']')
+                return serr(s, s->i, "trailing comma before ']'");
+        }
+        if ((st = scan_value(s, kl, kc)))
+            return st;
+        skip_ws(s);
+        if (s->i >= s->n)
+            goto eof;
+        if (s->t[s->i] == ',') {
+            s->i++;
+            skip_ws(s);
+            continue;
+        }
+        if (s->t[s->i] == close) {
+            s->i++;
+            s->depth--;
+            return HL_OK;
+        }
+        char b[24];
+        return serr(s, s->i, "expected ',' or '%c', found %s", close,
+                    describe_byte((unsigned char)s->t[s->i], b, sizeof b));
+    }
+eof:
+    return serr(s, s->n, "unexpected end of file (the %s opened at %d:%d is not closed)",
+                is_obj ? "object" : "array", s->v[open_vi].line, s->v[open_vi].col);
+}
+
+static enum hl_status scan_value(struct scan *s, int kline, int kcol)
+{
+    enum hl_status st;
+    if (s->i >= s->n)
+        return serr(s, s->n, "unexpected end of file (a value is missing)");
+    if ((st = record(s, kline, kcol)))
+        return st;
+    char c = s->t[s->i];
+    switch (c) {
+    case '{': return scan_container(s, 1);
+    case '[': return scan_container(s, 0);
+    case '"': return scan_string(s, 0);
+    case 't': case 'f': case 'n': {
+        const char *w = c == 't' ? "true" : c == 'f' ? "false" : "null";
+        size_t L = strlen(w);
+        if (s->n - s->i >= L && memcmp(s->t + s->i, w, L) == 0) {
+            s->i += L;
+            return HL_OK;
+        }
+        return serr(s, s->i, "unexpected word (strings need double quotes)");
+    }
+    default:
+        if (c == '-' || is_digit(c))
+            return scan_number(s);
+        if ((c >= 'a' && c <= 'z') || (c >= 'A' && c <= 'Z'))
+            return serr(s, s->i, "unexpected word (strings need double quotes)");
+        {
+            char b[24];
+            return serr(s, s->i, "expected a value, found %s%s",
+                        describe_byte((unsigned char)c, b, sizeof b),
+                        c == '\'' ? " (strings need double quotes)" : "");
+        }
+    }
+}
+
+/* Scan the whole text; on success *skip is the byte-order-mark length. */
+static enum hl_status scan_all(struct scan *s, size_t *skip)
+{
+    s->line = 1;
+    s->lstart = 0;
+    *skip = 0;
+    if (s->n >= 3 && memcmp(s->t, "\xEF\xBB\xBF", 3) == 0)
+        *skip = s->i = 3; /* RFC 8259 section 8.1 lets a parser ignore a byte order mark */
+    skip_ws(s);
+    if (s->i >= s->n)
+        return serr(s, s->n, "unexpected end of file (the %s is empty)", s->doc);
+    enum hl_status st = scan_value(s, 0, 0);
+    if (st)
+        return st;
+    skip_ws(s);
+    if (s->i < s->n)
+        return serr(s, s->i, "trailing characters after the %s", s->doc);
+    return HL_OK;
+}
+
+/* ------------------------------------------------------------------ */
+/* Pass 2: cJSON tree with positions, then validation                   */
+/* ------------------------------------------------------------------ */
+
+static int assign_index(cJSON *node, size_t *k, size_t nv)
+{
+    for (; node; node = node->next) {
+        if (*k >= nv)
+            return -1;
+        node->valueint = (int)(*k)++;
+        if (node->child && assign_index(node->child, k, nv))
+            return -1;
+    }
+    return 0;
+}
+
+struct doc {
+    struct vpos *v; size_t nv;
+    cJSON *root;
+};
+
+static void doc_free(struct doc *d)
+{
+    hl_free(d->v);
+    cJSON_Delete(d->root);
+    memset(d, 0, sizeof *d);
+}
+
+static enum hl_status doc_parse(const char *text, size_t len, const char *prefix, const char *docname,
+                                struct doc *d, struct hl_err *e)
+{
+    memset(d, 0, sizeof *d);
+    if (len > MAX_FILE)
+        return hl_err_at(e, HL_ERR_INPUT, 1, 1, prefix[0] ? prefix : "$",
+                         "the %s is larger than %u bytes", docname, MAX_FILE);
+    struct scan s;
+    memset(&s, 0, sizeof s);
+    s.t = text;
+    s.n = len;
+    s.prefix = prefix;
+    s.doc = docname;
+    s.e = e;
+    size_t skip;
+    enum hl_status st = scan_all(&s, &skip);
+    if (st) {
+        hl_free(s.v);
+        return st;
+    }
+    char *copy = hl_malloc(len + 1);
+    if (!copy) {
+        hl_free(s.v);
+        return hl_err_set(e, HL_ERR_NOMEM, "out of memory reading the %s", docname);
+    }
+    memcpy(copy, text, len);
+    copy[len] = '\0';
+    const char *end = NULL;
+    d->root = cJSON_ParseWithOpts(copy + skip, &end, 1);
+    hl_free(copy);
+    d->v = s.v;
+    d->nv = s.nv;
+    if (!d->root) {
+        /* The scanner accepted the text and is stricter than cJSON, so a refusal here
+         * is an allocation failure inside cJSON. */
+        doc_free(d);
+        return hl_err_set(e, HL_ERR_NOMEM, "out of memory reading the %s", docname);
+    }
+    size_t k = 0;
+    if (assign_index(d->root, &k, d->nv) || k != d->nv) {
+        doc_free(d);
+        return hl_err_set(e, HL_ERR_INTERNAL, "position table out of step with the JSON tree");
+    }
+    return HL_OK;
+}
+
+struct vctx {
+    const struct doc *d;
+    const char *text;
+    const char *prefix;
+    char path[256];
+    size_t plen;
+    struct hl_err *e;
+};
+
+static size_t push_key(struct vctx *c, const char *k)
+{
+    size_t old = c->plen;
+    size_t n = c->plen;
+    if (n + 1 < sizeof c->path)
+        c->path[n++] = '.';
+    if (k[0])
+        put_clean(c->path, sizeof c->path, &n, k, strlen(k));
+    else
+        put_clean(c->path, sizeof c->path, &n, "\"\"", 2);
+    c->plen = n;
+    return old;
+}
+
+static size_t push_index(struct vctx *c, long i)
+{
+    size_t old = c->plen;
+    int w = snprintf(c->path + c->plen, sizeof c->path - c->plen, "[%ld]", i);
+    if (w > 0)
+        c->plen = c->plen + (size_t)w < sizeof c->path ? c->plen + (size_t)w : sizeof c->path - 1;
+    return old;
+}
+
+static void pop(struct vctx *c, size_t old)
+{
+    c->plen = old;
+    c->path[old] = '\0';
+}
+
+static const struct vpos *vp(const struct vctx *c, const cJSON *n)
+{
+    if (!n || n->valueint < 0 || (size_t)n->valueint >= c->d->nv)
+        return NULL;
+    return &c->d->v[n->valueint];
+}
+
+static struct camp_pos pos_of(const struct vctx *c, const cJSON *n)
+{
+    const struct vpos *p = vp(c, n);
+    struct camp_pos r = {p ? p->line : 0, p ? p->col : 0};
+    return r;
+}
+
+static enum hl_status verr(struct vctx *c, const cJSON *n, int at_key, const char *fmt, ...)
+    __attribute__((format(printf, 4, 5)));
+static enum hl_status verr(struct vctx *c, const cJSON *n, int at_key, const char *fmt, ...)
+{
+    char msg[480], field[160];
+    va_list ap;
+    va_start(ap, fmt);
+    vsnprintf(msg, sizeof msg, fmt, ap);
+    va_end(ap);
+    finish_field(field, sizeof field, c->prefix, c->path);
+    const struct vpos *p = vp(c, n);
+    int line = 0, col = 0;
+    if (p) {
+        line = at_key && p->kline ? p->kline : p->line;
+        col = at_key && p->kline ? p->kcol : p->col;
+    }
+    return hl_err_at(c->e, HL_ERR_INPUT, line, col, field, "%s", msg);
+}
+
+static const char *tname(const cJSON *n)
+{
+    if (cJSON_IsObject(n)) return "an object";
+    if (cJSON_IsArray(n)) return "an array";
+    if (cJSON_IsString(n)) return "a string";
+    if (cJSON_IsNumber(n)) return "a number";
+    if (cJSON_IsBool(n)) return "a boolean";
+    if (cJSON_IsNull(n)) return "null";
+    return "an unknown value";
+}
+
+/* Levenshtein distance of two short byte strings (keys, ids), case-folded if fold. */
+static int edit_distance(const char *a, const char *b, int fold)
+{
+    int la = (int)strlen(a), lb = (int)strlen(b);
+    if (la > 64 || lb > 64)
+        return 1000;
+    int row[65];
+    for (int j = 0; j <= lb; j++)
+        row[j] = j;
+    for (int i = 1; i <= la; i++) {
+        int diag = row[0];
+        row[0] = i;
+        for (int j = 1; j <= lb; j++) {
+            char x = a[i - 1], y = b[j - 1];
+            if (fold) {
+                if (x >= 'A' && x <= 'Z') x = (char)(x - 'A' + 'a');
+                if (y >= 'A' && y <= 'Z') y = (char)(y - 'A' + 'a');
+            }
+            int best = diag + (x != y);
+            if (row[j] + 1 < best) best = row[j] + 1;
+            if (row[j - 1] + 1 < best) best = row[j - 1] + 1;
+            diag = row[j];
+            row[j] = best;
+        }
+    }
+    return row[lb];
+}
+
+/* Nearest candidate within a distance that still looks like a typo, else NULL. */
+static const char *nearest(const char *word, const char *const *cands, int n, int fold)
+{
+    const char *best = NULL;
+    int bd = 1000;
+    for (int k = 0; k < n; k++) {
+        int d = edit_distance(word, cands[k], fold);
+        size_t lw = strlen(word);
+        if (lw >= 4 && strncmp(word, cands[k], lw) == 0)
+            d = 1; /* a cut-off key ("overhalogenation") still points at its full name */
+        if (d < bd) {
+            bd = d;
+            best = cands[k];
+        }
+    }
+    int len = (int)strlen(word);
+    int limit = len <= 4 ? 1 : len <= 8 ? 2 : 3;
+    return bd <= limit ? best : NULL;
+}
+
+/* Collect the members of obj into slot[] by key; unknown and duplicate keys are errors. */
+static enum hl_status members(struct vctx *c, const cJSON *obj, const char *const *names, int n,
+                              const cJSON **slot)
+{
+    if (!cJSON_IsObject(obj))
+        return verr(c, obj, 0, "must be an object (got %s)", tname(obj));
+    for (int k = 0; k < n; k++)
+        slot[k] = NULL;
+    for (const cJSON *m = obj->child; m; m = m->next) {
+        int k = 0;
+        while (k < n && strcmp(names[k], m->string) != 0)
+            k++;
+        if (k == n) {
+            push_key(c, m->string);
+            const char *near = nearest(m->string, names, n, 0);
+            if (near)
+                return verr(c, m, 1, "unknown key (did you mean '%s'?)", near);
+            char list[400];
+            size_t L = 0;
+            list[0] = '\0';
+            for (int j = 0; j < n && L + 1 < sizeof list; j++) {
+                int w = snprintf(list + L, sizeof list - L, "%s%s", j ? ", " : "", names[j]);
+                if (w > 0)
+                    L = L + (size_t)w < sizeof list ? L + (size_t)w : sizeof list - 1;
+            }
+            return verr(c, m, 1, "unknown key (known keys here: %s)", list);
+        }
+        if (slot[k]) {
+            const struct vpos *p = vp(c, slot[k]);
+            push_key(c, m->string);
+            return verr(c, m, 1, "duplicate key (first given at %d:%d)", p ? p->kline : 0,
+                        p ? p->kcol : 0);
+        }
+        slot[k] = m;
+    }
+    return HL_OK;
+}
+
+static enum hl_status missing(struct vctx *c, const cJSON *obj, const char *key, const char *what)
+{
+    push_key(c, key);
+    return verr(c, obj, 0, "missing%s%s", what ? ": " : " (required)", what ? what : "");
+}
+
+struct rng { double lo, hi; int lo_open, hi_open; };
+
+/* Raw text of a number value, for messages (1e400 is shown as written, not as inf). */
+static void raw_number(const struct vctx *c, const cJSON *n, char *buf, size_t cap)
+{
+    const struct vpos *p = vp(c, n);
+    size_t k = 0;
+    if (p)
+        for (const char *s = c->text + p->off; k + 1 < cap && *s && strchr("+-.0123456789eE", *s); s++)
+            buf[k++] = *s;
+    buf[k] = '\0';
+}
+
+static enum hl_status get_num(struct vctx *c, const cJSON *m, struct rng r, double *out)
+{
+    size_t old = push_key(c, m->string);
+    if (!cJSON_IsNumber(m))
+        return verr(c, m, 0, "must be a number (got %s)", tname(m));
+    double x = m->valuedouble;
+    if (!isfinite(x)) {
+        char raw[72];
+        raw_number(c, m, raw, sizeof raw);
+        return verr(c, m, 0, "must be a finite number (got %s)", raw);
+    }
+    if (r.lo_open ? !(x > r.lo) : !(x >= r.lo))
+        return verr(c, m, 0, "must be %s %.15g (got %.15g)", r.lo_open ? ">" : ">=", r.lo, x);
+    if (r.hi_open ? !(x < r.hi) : !(x <= r.hi))
+        return verr(c, m, 0, "must be %s %.15g (got %.15g)", r.hi_open ? "<" : "<=", r.hi, x);
+    *out = x;
+    pop(c, old);
+    return HL_OK;
+}
+
+static enum hl_status get_int(struct vctx *c, const cJSON *m, long lo, long hi, long *out)
+{
+    double x;
+    struct rng r = {(double)lo, (double)hi, 0, 0};
+    enum hl_status st = get_num(c, m, r, &x);
+    if (st)
+        return st;
+    if (x != floor(x)) {
+        push_key(c, m->string);
+        return verr(c, m, 0, "must be a whole number (got %.15g)", x);
+    }
+    *out = (long)x;
+    return HL_OK;
+}
+
+enum { T_NONEMPTY = 1, T_TEXT = 2 };
+
+/* A string; T_TEXT refuses control characters (it reaches a workbook cell). */
+static enum hl_status get_str(struct vctx *c, const cJSON *m, int flags, size_t maxlen, const char **out)
+{
+    size_t old = push_key(c, m->string);
+    if (!cJSON_IsString(m) || !m->valuestring)
+        return verr(c, m, 0, "must be a string (got %s)", tname(m));
+    const unsigned char *s = (const unsigned char *)m->valuestring;
+    size_t len = strlen(m->valuestring);
+    if (len > maxlen)
+        return verr(c, m, 0, "too long (%zu bytes; at most %zu)", len, maxlen);
+    if ((flags & T_NONEMPTY) && len == 0)
+        return verr(c, m, 0, "must not be empty");
+    if (flags & T_TEXT)
+        for (size_t j = 0; j < len; j++) {
+            unsigned cp = 0;
+            if (s[j] < 0x20 || s[j] == 0x7f)
+                cp = s[j];
+            else if (s[j] == 0xC2 && j + 1 < len && s[j + 1] >= 0x80 && s[j + 1] <= 0x9F)
+                cp = s[j + 1];
+            else
+                continue;
+            return verr(c, m, 0, "contains the control character U+%04X at byte %zu "
+                        "(not allowed in text that reaches the workbook)", cp, j + 1);
+        }
+    *out = m->valuestring;
+    pop(c, old);
+    return HL_OK;
+}
+
+static enum hl_status dup_str(struct vctx *c, const cJSON *m, int flags, size_t maxlen, char **out)
+{
+    const char *s;
+    enum hl_status st = get_str(c, m, flags, maxlen, &s);
+    if (st)
+        return st;
+    char *d = hl_strdup(s);
+    if (!d)
+        return hl_err_set(c->e, HL_ERR_NOMEM, "out of memory reading the campaign");
+    hl_free(*out);
+    *out = d;
+    return HL_OK;
+}
+
+/* Short printable quote of a user string for messages. */
+static void quote(const char *s, char *buf, size_t cap)
+{
+    size_t k = 0, n = strlen(s);
+    size_t show = n > 40 ? 40 : n;
+    put_clean(buf, cap, &k, s, show);
+    if (n > show && k + 4 < cap) {
+        memcpy(buf + k, "...", 4);
+    }
+}
+
+static enum hl_status get_enum(struct vctx *c, const cJSON *m, const char *const *names, int n, int *out)
+{
+    const char *s;
+    enum hl_status st = get_str(c, m, 0, MAX_TEXT, &s);
+    if (st)
+        return st;
+    for (int k = 0; k < n; k++)
+        if (strcmp(s, names[k]) == 0) {
+            *out = k;
+            return HL_OK;
+        }
+    char q[64];
+    quote(s, q, sizeof q);
+    push_key(c, m->string);
+    if (n == 2)
+        return verr(c, m, 0, "must be \"%s\" or \"%s\" (got \"%s\")", names[0], names[1], q);
+    return verr(c, m, 0, "unknown value \"%s\"", q);
+}
+
+static enum hl_status get_date(struct vctx *c, const cJSON *m, int64_t *out)
+{
+    const char *s;
+    enum hl_status st = get_str(c, m, T_TEXT, 64, &s);
+    if (st)
+        return st;
+    int bad = 0;
+    if (isodate_parse(s, out, &bad) == 0)
+        return HL_OK;
+    char q[64];
+    quote(s, q, sizeof q);
+    push_key(c, m->string);
+    return verr(c, m, 0, "\"%s\" is not a valid ISO 8601 date (YYYY-MM-DD or YYYY-MM-DDTHH:MM); "
+                "wrong at character %d", q, bad + 1);
+}
+
+/* Reagent by its campaign spelling; unknown names get the nearest known one. */
+static enum hl_status get_reagent(struct vctx *c, const cJSON *m, int allow_naoh, int *out)
+{
+    const char *s;
+    enum hl_status st = get_str(c, m, T_TEXT, MAX_TEXT, &s);
+    if (st)
+        return st;
+    int id = reagent_lookup(s);
+    char q[64];
+    quote(s, q, sizeof q);
+    if (id >= 0 && id < RG_COUNT && (allow_naoh || id < RG_CHARGEABLE)) {
+        *out = id;
+        return HL_OK;
+    }
+    push_key(c, m->string);
+    if (id >= 0)
+        return verr(c, m, 0, "\"%s\" cannot be charged to a reactor (it is the scrubber make-up)", q);
+    const char *names[RG_COUNT];
+    int nn = 0;
+    char list[200];
+    size_t L = 0;
+    list[0] = '\0';
+    for (int k = 0; k < RG_COUNT; k++) {
+        const struct reagent_info *ri = reagent_get(k);
+        if (!ri || (!allow_naoh && k >= RG_CHARGEABLE))
+            continue;
+        names[nn++] = ri->name;
+        int w = snprintf(list + L, sizeof list - L, "%s%s", L ? ", " : "", ri->name);
+        if (w > 0)
+            L = L + (size_t)w < sizeof list ? L + (size_t)w : sizeof list - 1;
+    }
+    const char *near = nearest(s, names, nn, 1);
+    if (near)
+        return verr(c, m, 0, "unknown reagent \"%s\" (did you mean \"%s\"?)", q, near);
+    return verr(c, m, 0, "unknown reagent \"%s\" (known: %s)", q, list);
+}
+
+static enum hl_status check_array(struct vctx *c, const cJSON *m, int nonempty)
+{
+    size_t old = push_key(c, m->string);
+    if (!cJSON_IsArray(m))
+        return verr(c, m, 0, "must be an array (got %s)", tname(m));
+    if (nonempty && !m->child)
+        return verr(c, m, 0, "must not be empty");
+    pop(c, old);
+    return HL_OK;
+}
+
+/* ---- string hash set (ids), open addressing, FNV-1a ---- */
+struct idset { const char **key; int *val; size_t cap, n; };
+
+static uint64_t fnv1a(const char *s)
+{
+    uint64_t h = 1469598103934665603ull;
+    for (; *s; s++)
+        h = (h ^ (unsigned char)*s) * 1099511628211ull;
+    return h;
+}
+
+static void idset_free(struct idset *h)
+{
+    hl_free(h->key);
+    hl_free(h->val);
+    memset(h, 0, sizeof *h);
+}
+
+static int idset_init(struct idset *h, size_t expect)
+{
+    size_t cap = 16;
+    while (cap < 2 * expect + 2)
+        cap *= 2;
+    h->key = hl_calloc(cap, sizeof *h->key);
+    h->val = hl_calloc(cap, sizeof *h->val);
+    h->cap = cap;
+    h->n = 0;
+    if (!h->key || !h->val) {
+        idset_free(h);
+        return -1;
+    }
+    return 0;
+}
+
+/* Value stored under key, or -1. */
+static int idset_find(const struct idset *h, const char *key)
+{
+    if (!h->cap)
+        return -1;
+    for (size_t i = (size_t)fnv1a(key) & (h->cap - 1);; i = (i + 1) & (h->cap - 1)) {
+        if (!h->key[i])
+            return -1;
+        if (strcmp(h->key[i], key) == 0)
+            return h->val[i];
+    }
+}
+
+/* Insert (the table was sized for all keys); returns the existing value or -1 if new. */
+static int idset_add(struct idset *h, const char *key, int val)
+{
+    for (size_t i = (size_t)fnv1a(key) & (h->cap - 1);; i = (i + 1) & (h->cap - 1)) {
+        if (!h->key[i]) {
+            h->key[i] = key;
+            h->val[i] = val;
+            h->n++;
+            return -1;
+        }
+        if (strcmp(h->key[i], key) == 0)
+            return h->val[i];
+    }
+}
+
+/* ------------------------------------------------------------------ */
+/* The schema                                                          */
+/* ------------------------------------------------------------------ */
+
+static const struct rng R_POS_KG = {0, 1e9, 1, 1};     /* (0, 1e9) kg */
+static const struct rng R_NONNEG_KG = {0, 1e9, 0, 1};  /* [0, 1e9) kg */
+static const struct rng R_FRAC_OPEN = {0, 1, 1, 1};    /* (0, 1) */
+static const struct rng R_TEMP_C = {-80, 400, 0, 0};   /* liquid-phase and gas-phase plant range */
+static const struct rng R_REACT = {0, 1e6, 1, 0};      /* relative rates */
+
+/* model block */
+enum { MK_RR, MK_OVERHAL, MK_RATIOS, MK_N };
+static const char *const model_keys[MK_N] = {"relative_reactivity", "overhalogenation_factor",
+                                             "rate_ratios"};
+enum { RR_PRIMARY, RR_SECONDARY, RR_TERTIARY, RR_ALLYLIC, RR_BENZYLIC, RR_REF, RR_N };
+static const char *const rr_keys[RR_N] = {"primary", "secondary", "tertiary", "allylic", "benzylic",
+                                          "ref_temp_c"};
+
+static enum hl_status parse_model(struct vctx *c, const cJSON *m, struct camp_model *out)
+{
+    const cJSON *k[MK_N];
+    size_t old = push_key(c, m->string);
+    enum hl_status st = members(c, m, model_keys, MK_N, k);
+    if (st)
+        return st;
+    memset(out, 0, sizeof *out);
+    if (k[MK_RR]) {
+        const cJSON *r[RR_N];
+        size_t o2 = push_key(c, k[MK_RR]->string);
+        if ((st = members(c, k[MK_RR], rr_keys, RR_N, r)))
+            return st;
+        static const unsigned bit[RR_N] = {CM_PRIMARY, CM_SECONDARY, CM_TERTIARY, CM_ALLYLIC,
+                                           CM_BENZYLIC, CM_REF_TEMP};
+        double *dst[RR_N] = {&out->primary, &out->secondary, &out->tertiary, &out->allylic,
+                             &out->benzylic, &out->ref_temp_c};
+        for (int j = 0; j < RR_N; j++) {
+            if (!r[j])
+                continue;
+            if ((st = get_num(c, r[j], j == RR_REF ? R_TEMP_C : R_REACT, dst[j])))
+                return st;
+            out->set_mask |= bit[j];
+        }
+        pop(c, o2);
+    }
+    if (k[MK_OVERHAL]) {
+        struct rng r = {0, 1000, 1, 0};
+        if ((st = get_num(c, k[MK_OVERHAL], r, &out->overhalogenation_factor)))
+            return st;
+        out->set_mask |= CM_OVERHAL;
+    }
+    if (k[MK_RATIOS]) {
+        const cJSON *a = k[MK_RATIOS];
+        if ((st = check_array(c, a, 1)))
+            return st;
+        size_t o2 = push_key(c, a->string);
+        int n = 0;
+        for (const cJSON *x = a->child; x; x = x->next, n++) {
+            size_t o3 = push_index(c, n);
+            if (n >= CAMP_MAX_RATIOS)
+                return verr(c, x, 0, "too many rate ratios (at most %d)", CAMP_MAX_RATIOS);
+            if (!cJSON_IsNumber(x))
+                return verr(c, x, 0, "must be a number (got %s)", tname(x));
+            double v = x->valuedouble;
+            if (!isfinite(v)) {
+                char raw[72];
+                raw_number(c, x, raw, sizeof raw);
+                return verr(c, x, 0, "must be a finite number (got %s)", raw);
+            }
+            if (!(v > 0) || v > 1e6)
+                return verr(c, x, 0, "must be > 0 and <= 1e6 (got %.15g)", v);
+            if (n == 0 && v != 1)
+                return verr(c, x, 0, "must be 1: the ratios are relative to step 0 (got %.15g)", v);
+            out->rate_ratios[n] = v;
+            pop(c, o3);
+        }
+        out->nratios = n;
+        out->set_mask |= CM_RATIOS;
+        pop(c, o2);
+    }
+    pop(c, old);
+    return HL_OK;
+}
+
+/* Campaign-level block under the run's own, key by key. */
+static void merge_model(struct camp_model *run, const struct camp_model *camp)
+{
+    struct camp_model m = *camp;
+    unsigned s = run->set_mask;
+    if (s & CM_PRIMARY) m.primary = run->primary;
+    if (s & CM_SECONDARY) m.secondary = run->secondary;
+    if (s & CM_TERTIARY) m.tertiary = run->tertiary;
+    if (s & CM_ALLYLIC) m.allylic = run->allylic;
+    if (s & CM_BENZYLIC) m.benzylic = run->benzylic;
+    if (s & CM_REF_TEMP) m.ref_temp_c = run->ref_temp_c;
+    if (s & CM_OVERHAL) m.overhalogenation_factor = run->overhalogenation_factor;
+    if (s & CM_RATIOS) {
+        memcpy(m.rate_ratios, run->rate_ratios, sizeof m.rate_ratios);
+        m.nratios = run->nratios;
+    }
+    m.set_mask = camp->set_mask | s;
+    *run = m;
+}
+
+/* scrubbers */
+enum { SK_ID, SK_LIQUOR, SK_NAOH, SK_LIQKG, SK_MIN, SK_MAXACID, SK_RATED, SK_MAKEUP, SK_CP, SK_COLUMN,
+       SK_NOTE, SK_N };
+static const char *const scrub_keys[SK_N] = {
+    "id", "liquor", "naoh_wt_pct", "liquor_kg", "min_naoh_wt_pct", "max_acid_wt_pct",
+    "rated_acid_kmol_h", "makeup_naoh_wt_pct", "liquor_cp_kj_kg_k", "column", "note"};
+enum { CK_FP, CK_HTU, CK_REMOVAL, CK_FLOOD, CK_CARRIER, CK_LIQ, CK_GAST, CK_N };
+static const char *const col_keys[CK_N] = {"packing_factor_1_m", "htu_m", "removal_fraction",
+                                           "flood_fraction", "carrier_kmol_h", "liquor_kg_h",
+                                           "gas_temp_c"};
+static const char *const liquor_names[2] = {"naoh", "water"};
+
+static enum hl_status parse_column(struct vctx *c, const cJSON *m, struct camp_column *col)
+{
+    const cJSON *k[CK_N];
+    size_t old = push_key(c, m->string);
+    enum hl_status st = members(c, m, col_keys, CK_N, k);
+    if (st)
+        return st;
+    col->present = 1;
+    col->pos = pos_of(c, m);
+    col->flood_fraction = 0.7; /* common practice: design at 60-80 % of flooding */
+    col->gas_temp_c = 25;
+    static const int required[] = {CK_FP, CK_HTU, CK_REMOVAL, CK_CARRIER, CK_LIQ};
+    for (size_t j = 0; j < sizeof required / sizeof required[0]; j++)
+        if (!k[required[j]])
+            return missing(c, m, col_keys[required[j]], NULL);
+    const struct rng rfp = {0, 1e4, 1, 0}, rhtu = {0, 20, 1, 0}, rcar = {0, 1e6, 1, 0},
+                     rgas = {-40, 200, 0, 0};
+    if ((st = get_num(c, k[CK_FP], rfp, &col->packing_factor_1_m)) ||
+        (st = get_num(c, k[CK_HTU], rhtu, &col->htu_m)) ||
+        (st = get_num(c, k[CK_REMOVAL], R_FRAC_OPEN, &col->removal_fraction)) ||
+        (k[CK_FLOOD] && (st = get_num(c, k[CK_FLOOD], R_FRAC_OPEN, &col->flood_fraction))) ||
+        (st = get_num(c, k[CK_CARRIER], rcar, &col->carrier_kmol_h)) ||
+        (st = get_num(c, k[CK_LIQ], R_POS_KG, &col->liquor_kg_h)) ||
+        (k[CK_GAST] && (st = get_num(c, k[CK_GAST], rgas, &col->gas_temp_c))))
+        return st;
+    pop(c, old);
+    return HL_OK;
+}
+
+static enum hl_status parse_scrubber(struct vctx *c, const cJSON *o, struct camp_scrubber *s)
+{
+    const cJSON *k[SK_N];
+    enum hl_status st = members(c, o, scrub_keys, SK_N, k);
+    if (st)
+        return st;
+    s->pos = pos_of(c, o);
+    s->liquor = CAMP_LIQUOR_NAOH;
+    s->min_naoh_wt_pct = 2;      /* common practice: keep a few % free caustic */
+    s->max_acid_wt_pct = 20;     /* near the HCl-water azeotrope, 20.2 wt% at 1 atm (from memory) */
+    s->makeup_naoh_wt_pct = 50;  /* the usual commercial caustic strength (common practice) */
+    s->liquor_cp_kj_kg_k = 0;
+    if (!k[SK_ID])
+        return missing(c, o, "id", NULL);
+    if ((st = dup_str(c, k[SK_ID], T_TEXT | T_NONEMPTY, MAX_ID, &s->id)))
+        return st;
+    int liq = 0;
+    if (k[SK_LIQUOR] && (st = get_enum(c, k[SK_LIQUOR], liquor_names, 2, &liq)))
+        return st;
+    s->liquor = liq ? CAMP_LIQUOR_WATER : CAMP_LIQUOR_NAOH;
+    if (s->liquor == CAMP_LIQUOR_NAOH) {
+        if (!k[SK_NAOH])
+            return missing(c, o, "naoh_wt_pct", "a caustic scrubber needs its fresh liquor strength");
+        if (k[SK_MAXACID]) {
+            push_key(c, "max_acid_wt_pct");
+            return verr(c, k[SK_MAXACID], 1, "applies to a \"water\" liquor only");
+        }
+    } else {
+        if (k[SK_NAOH] || k[SK_MIN]) {
+            const cJSON *x = k[SK_NAOH] ? k[SK_NAOH] : k[SK_MIN];
+            push_key(c, x->string);
+            return verr(c, x, 1, "applies to a \"naoh\" liquor only");
+        }
+    }
+    const struct rng rwt = {0, 50, 1, 0}, rmin = {0, 50, 0, 1}, racid = {0, 60, 1, 0},
+                     rrate = {0, 1e6, 1, 0}, rmk = {0, 100, 1, 0}, rcp = {0.5, 10, 0, 0};
+    if ((k[SK_NAOH] && (st = get_num(c, k[SK_NAOH], rwt, &s->naoh_wt_pct))) ||
+        (!k[SK_LIQKG] && (st = missing(c, o, "liquor_kg", NULL))) ||
+        (st = get_num(c, k[SK_LIQKG], R_POS_KG, &s->liquor_kg)) ||
+        (k[SK_MIN] && (st = get_num(c, k[SK_MIN], rmin, &s->min_naoh_wt_pct))) ||
+        (k[SK_MAXACID] && (st = get_num(c, k[SK_MAXACID], racid, &s->max_acid_wt_pct))) ||
+        (!k[SK_RATED] && (st = missing(c, o, "rated_acid_kmol_h", NULL))) ||
+        (st = get_num(c, k[SK_RATED], rrate, &s->rated_acid_kmol_h)) ||
+        (k[SK_MAKEUP] && (st = get_num(c, k[SK_MAKEUP], rmk, &s->makeup_naoh_wt_pct))) ||
+        (k[SK_CP] && (st = get_num(c, k[SK_CP], rcp, &s->liquor_cp_kj_kg_k))))
+        return st;
+    if (s->liquor == CAMP_LIQUOR_NAOH) {
+        if (s->min_naoh_wt_pct >= s->naoh_wt_pct) {
+            const cJSON *x = k[SK_MIN] ? k[SK_MIN] : k[SK_NAOH];
+            push_key(c, x->string);
+            return verr(c, x, 0, k[SK_MIN] ? "must be < naoh_wt_pct (%.15g)"
+                                            : "must be > min_naoh_wt_pct (%.15g, the default)",
+                        k[SK_MIN] ? s->naoh_wt_pct : s->min_naoh_wt_pct);
+        }
+        if (s->makeup_naoh_wt_pct < s->naoh_wt_pct) {
+            const cJSON *x = k[SK_MAKEUP] ? k[SK_MAKEUP] : k[SK_NAOH];
+            push_key(c, x->string);
+            return verr(c, x, 0, "the make-up caustic (%.15g wt%%) must be at least as strong as the "
+                        "liquor (%.15g wt%%)", s->makeup_naoh_wt_pct, s->naoh_wt_pct);
+        }
+    }
+    if (k[SK_COLUMN] && (st = parse_column(c, k[SK_COLUMN], &s->column)))
+        return st;
+    const char *note;
+    if (k[SK_NOTE] && (st = get_str(c, k[SK_NOTE], 0, MAX_TEXT, &note)))
+        return st;
+    return HL_OK;
+}
+
+/* stock */
+enum { TK_REAGENT, TK_ONHAND, TK_SAFETY, TK_LEAD, TK_NOTE, TK_N };
+static const char *const stock_keys[TK_N] = {"reagent", "on_hand_kg", "safety_kg", "lead_days", "note"};
+
+static enum hl_status parse_stock(struct vctx *c, const cJSON *o, struct camp_stock *s)
+{
+    const cJSON *k[TK_N];
+    enum hl_status st = members(c, o, stock_keys, TK_N, k);
+    if (st)
+        return st;
+    s->pos = pos_of(c, o);
+    const struct rng rlead = {0, 3650, 0, 0};
+    const char *note;
+    if ((!k[TK_REAGENT] && (st = missing(c, o, "reagent", NULL))) ||
+        (st = get_reagent(c, k[TK_REAGENT], 1, &s->reagent)) ||
+        (!k[TK_ONHAND] && (st = missing(c, o, "on_hand_kg", NULL))) ||
+        (st = get_num(c, k[TK_ONHAND], R_NONNEG_KG, &s->on_hand_kg)) ||
+        (k[TK_SAFETY] && (st = get_num(c, k[TK_SAFETY], R_NONNEG_KG, &s->safety_kg))) ||
+        (k[TK_LEAD] && (st = get_num(c, k[TK_LEAD], rlead, &s->lead_days))) ||
+        (k[TK_NOTE] && (st = get_str(c, k[TK_NOTE], 0, MAX_TEXT, &note))))
+        return st;
+    return HL_OK;
+}
+
+/* containers (campaign and catalog) */
+enum { NK_REAGENT, NK_NAME, NK_NET, NK_HEEL, NK_NOTE, NK_N };
+static const char *const cont_keys[NK_N] = {"reagent", "name", "net_kg", "heel_kg", "note"};
+
+static enum hl_status parse_container(struct vctx *c, const cJSON *o, struct camp_container *ct)
+{
+    const cJSON *k[NK_N];
+    enum hl_status st = members(c, o, cont_keys, NK_N, k);
+    if (st)
+        return st;
+    ct->pos = pos_of(c, o);
+    const struct rng rnet = {0, 1e6, 1, 0};
+    const char *note;
+    if ((!k[NK_REAGENT] && (st = missing(c, o, "reagent", NULL))) ||
+        (st = get_reagent(c, k[NK_REAGENT], 1, &ct->reagent)) ||
+        (!k[NK_NAME] && (st = missing(c, o, "name", NULL))) ||
+        (st = dup_str(c, k[NK_NAME], T_TEXT | T_NONEMPTY, MAX_TEXT, &ct->name)) ||
+        (!k[NK_NET] && (st = missing(c, o, "net_kg", NULL))) ||
+        (st = get_num(c, k[NK_NET], rnet, &ct->net_kg)) ||
+        (k[NK_HEEL] && (st = get_num(c, k[NK_HEEL], R_NONNEG_KG, &ct->heel_kg))) ||
+        (k[NK_NOTE] && (st = get_str(c, k[NK_NOTE], 0, MAX_TEXT, &note))))
+        return st;
+    if (ct->heel_kg >= ct->net_kg) {
+        push_key(c, "heel_kg");
+        return verr(c, k[NK_HEEL], 0, "must be < net_kg (%.15g), or nothing is usable (got %.15g)",
+                    ct->net_kg, ct->heel_kg);
+    }
+    return HL_OK;
+}
+
+/* runs */
+enum { RK_ID, RK_START, RK_REACTOR, RK_SCRUB, RK_SUBSTRATE, RK_PRODUCT, RK_SUBKG, RK_REAGENT, RK_EQ,
+       RK_KG, RK_CONV, RK_TEMP, RK_FEED, RK_PEAK, RK_VENT, RK_MODE, RK_REPEAT, RK_MODEL, RK_NOTE, RK_N };
+static const char *const run_keys[RK_N] = {
+    "id", "start", "reactor", "scrubber", "substrate", "product_smiles", "substrate_kg", "reagent",
+    "reagent_eq", "reagent_kg", "halogen_conversion", "temp_c", "feed_h", "peak_factor",
+    "vent_retained_fraction", "reactor_mode", "repeat", "model", "note"};
+enum { UK_NAME, UK_SMILES, UK_FORMULA, UK_N };
+static const char *const sub_keys[UK_N] = {"name", "smiles", "formula"};
+enum { PK_COUNT, PK_EVERY, PK_N };
+static const char *const rep_keys[PK_N] = {"count", "every_days"};
+static const char *const mode_names[2] = {"batch", "cstr"};
+
+static void run_free(struct camp_run *r)
+{
+    hl_free(r->id);
+    hl_free(r->reactor);
+    hl_free(r->substrate_name);
+    hl_free(r->smiles);
+    hl_free(r->formula);
+    hl_free(r->product_smiles);
+    memset(r, 0, sizeof *r);
+}
+
+static enum hl_status parse_substrate(struct vctx *c, const cJSON *m, struct camp_run *r)
+{
+    const cJSON *k[UK_N];
+    size_t old = push_key(c, m->string);
+    enum hl_status st = members(c, m, sub_keys, UK_N, k);
+    if (st)
+        return st;
+    if (k[UK_NAME] && (st = dup_str(c, k[UK_NAME], T_TEXT | T_NONEMPTY, MAX_TEXT, &r->substrate_name)))
+        return st;
+    if (!k[UK_SMILES] && !k[UK_FORMULA])
+        return missing(c, m, "smiles", "give the substrate's smiles (or its formula)");
+    if (k[UK_SMILES] && k[UK_FORMULA]) {
+        push_key(c, "formula");
+        return verr(c, k[UK_FORMULA], 1, "give smiles or formula, not both");
+    }
+    if (k[UK_SMILES]) {
+        if ((st = dup_str(c, k[UK_SMILES], T_TEXT | T_NONEMPTY, MAX_TEXT, &r->smiles)))
+            return st;
+        r->pos_smiles = pos_of(c, k[UK_SMILES]);
+    } else {
+        if ((st = dup_str(c, k[UK_FORMULA], T_TEXT | T_NONEMPTY, MAX_TEXT, &r->formula)))
+            return st;
+        r->pos_formula = pos_of(c, k[UK_FORMULA]);
+    }
+    pop(c, old);
+    return HL_OK;
+}
+
+struct reader {
+    struct vctx c;
+    struct campaign *camp;
+    struct camp_model model;   /* campaign-level */
+    struct idset scrub_ids;
+    size_t runs_cap;
+};
+
+static enum hl_status parse_run(struct reader *rd, const cJSON *o, int idx, struct camp_run *r,
+                                long *count, double *every_days)
+{
+    struct vctx *c = &rd->c;
+    const cJSON *k[RK_N];
+    enum hl_status st = members(c, o, run_keys, RK_N, k);
+    if (st)
+        return st;
+    r->src_index = idx;
+    r->scrubber = -1;
+    r->halogen_conversion = 1;
+    r->temp_c = 25;
+    r->feed_h = 1;
+    r->peak_factor = 1;
+    r->vent_retained_fraction = 0;
+    r->mode = CAMP_BATCH;
+    r->pos = pos_of(c, o);
+    *count = 0;
+    if (!k[RK_ID])
+        return missing(c, o, "id", NULL);
+    if ((st = dup_str(c, k[RK_ID], T_TEXT | T_NONEMPTY, MAX_ID, &r->id)))
+        return st;
+    r->pos_id = pos_of(c, k[RK_ID]);
+    if (!k[RK_START])
+        return missing(c, o, "start", NULL);
+    if ((st = get_date(c, k[RK_START], &r->start_min)))
+        return st;
+    r->pos_start = pos_of(c, k[RK_START]);
+    if (k[RK_REACTOR] && (st = dup_str(c, k[RK_REACTOR], T_TEXT | T_NONEMPTY, MAX_ID, &r->reactor)))
+        return st;
+    if (k[RK_SCRUB]) {
+        const char *sid;
+        if ((st = get_str(c, k[RK_SCRUB], T_TEXT | T_NONEMPTY, MAX_ID, &sid)))
+            return st;
+        r->scrubber = idset_find(&rd->scrub_ids, sid);
+        if (r->scrubber < 0) {
+            char q[64];
+            quote(sid, q, sizeof q);
+            push_key(c, "scrubber");
+            /* suggestion only on this error path: a scan of the (few) scrubber ids */
+            const char *best = NULL;
+            int bd = 1000;
+            for (int j = 0; j < rd->camp->nscrubbers; j++) {
+                int d = edit_distance(sid, rd->camp->scrubbers[j].id, 1);
+                if (d < bd) { bd = d; best = rd->camp->scrubbers[j].id; }
+            }
+            if (!rd->camp->nscrubbers)
+                return verr(c, k[RK_SCRUB], 0, "unknown scrubber \"%s\" (the campaign lists no scrubbers)", q);
+            if (best && bd <= 2)
+                return verr(c, k[RK_SCRUB], 0, "unknown scrubber \"%s\" (did you mean \"%s\"?)", q, best);
+            return verr(c, k[RK_SCRUB], 0, "unknown scrubber \"%s\"", q);
+        }
+    }
+    if (!k[RK_SUBSTRATE])
+        return missing(c, o, "substrate", NULL);
+    if ((st = parse_substrate(c, k[RK_SUBSTRATE], r)))
+        return st;
+    if (k[RK_PRODUCT]) {
+        if ((st = dup_str(c, k[RK_PRODUCT], T_TEXT | T_NONEMPTY, MAX_TEXT, &r->product_smiles)))
+            return st;
+        r->pos_product_smiles = pos_of(c, k[RK_PRODUCT]);
+    }
+    if (!k[RK_SUBKG])
+        return missing(c, o, "substrate_kg", NULL);
+    if ((st = get_num(c, k[RK_SUBKG], R_POS_KG, &r->substrate_kg)))
+        return st;
+    if (!k[RK_REAGENT])
+        return missing(c, o, "reagent", NULL);
+    if ((st = get_reagent(c, k[RK_REAGENT], 0, &r->reagent)))
+        return st;
+    r->pos_reagent = pos_of(c, k[RK_REAGENT]);
+    if (!k[RK_EQ] && !k[RK_KG])
+        return missing(c, o, "reagent_eq", "give reagent_eq (mol per mol substrate) or reagent_kg");
+    if (k[RK_EQ] && k[RK_KG]) {
+        const cJSON *later = vp(c, k[RK_EQ])->off > vp(c, k[RK_KG])->off ? k[RK_EQ] : k[RK_KG];
+        push_key(c, later->string);
+        return verr(c, later, 1, "give reagent_eq or reagent_kg, not both");
+    }
+    const struct rng req = {0, 1000, 1, 0}, rconv = {0, 1, 1, 0}, rfeed = {0, 8760, 1, 0},
+                     rpeak = {1, 1000, 0, 0}, rvent = {0, 1, 0, 1};
+    if (k[RK_EQ]) {
+        if ((st = get_num(c, k[RK_EQ], req, &r->reagent_eq)))
+            return st;
+        r->pos_amount = pos_of(c, k[RK_EQ]);
+    } else {
+        if ((st = get_num(c, k[RK_KG], R_POS_KG, &r->reagent_kg)))
+            return st;
+        r->amount_is_kg = 1;
+        r->pos_amount = pos_of(c, k[RK_KG]);
+    }
+    int mode = 0;
+    if ((k[RK_CONV] && (st = get_num(c, k[RK_CONV], rconv, &r->halogen_conversion))) ||
+        (k[RK_TEMP] && (st = get_num(c, k[RK_TEMP], R_TEMP_C, &r->temp_c))) ||
+        (k[RK_FEED] && (st = get_num(c, k[RK_FEED], rfeed, &r->feed_h))) ||
+        (k[RK_PEAK] && (st = get_num(c, k[RK_PEAK], rpeak, &r->peak_factor))) ||
+        (k[RK_VENT] && (st = get_num(c, k[RK_VENT], rvent, &r->vent_retained_fraction))) ||
+        (k[RK_MODE] && (st = get_enum(c, k[RK_MODE], mode_names, 2, &mode))))
+        return st;
+    r->mode = mode ? CAMP_CSTR : CAMP_BATCH;
+    if (k[RK_REPEAT]) {
+        const cJSON *p[PK_N];
+        size_t old = push_key(c, "repeat");
+        if ((st = members(c, k[RK_REPEAT], rep_keys, PK_N, p)))
+            return st;
+        const struct rng revery = {0, 3650, 1, 0};
+        if ((!p[PK_COUNT] && (st = missing(c, k[RK_REPEAT], "count", NULL))) ||
+            (st = get_int(c, p[PK_COUNT], 1, 10000, count)) ||
+            (!p[PK_EVERY] && (st = missing(c, k[RK_REPEAT], "every_days", NULL))) ||
+            (st = get_num(c, p[PK_EVERY], revery, every_days)))
+            return st;
+        size_t total = (size_t)rd->camp->nruns + (size_t)*count;
+        if (total > MAX_RUNS) {
+            push_key(c, "count");
+            return verr(c, p[PK_COUNT], 0, "the campaign would hold more than %d runs", MAX_RUNS);
+        }
+        pop(c, old);
+    }
+    if (k[RK_MODEL] && (st = parse_model(c, k[RK_MODEL], &r->model)))
+        return st;
+    merge_model(&r->model, &rd->model);
+    const char *note;
+    if (k[RK_NOTE] && (st = get_str(c, k[RK_NOTE], 0, MAX_TEXT, &note)))
+        return st;
+    return HL_OK;
+}
+
+static enum hl_status grow_runs(struct reader *rd, size_t need)
+{
+    struct campaign *cp = rd->camp;
+    if (need <= rd->runs_cap)
+        return HL_OK;
+    size_t cap = rd->runs_cap ? rd->runs_cap : 16;
+    while (cap < need)
+        cap *= 2;
+    struct camp_run *n = hl_realloc(cp->runs, cap * sizeof *n);
+    if (!n)
+        return hl_err_set(rd->c.e, HL_ERR_NOMEM, "out of memory reading the campaign");
+    cp->runs = n;
+    rd->runs_cap = cap;
+    return HL_OK;
+}
+
+static int copy_str(char **dst, const char *src)
+{
+    *dst = NULL;
+    if (!src)
+        return 0;
+    *dst = hl_strdup(src);
+    return *dst ? 0 : -1;
+}
+
+/* Repeat k (1-based) of template t into out. */
+static enum hl_status expand_one(struct reader *rd, const struct camp_run *t, long k, double every_days,
+                                 struct camp_run *out)
+{
+    *out = *t;
+    out->id = out->reactor = out->substrate_name = out->smiles = out->formula = out->product_smiles = NULL;
+    size_t n = strlen(t->id) + 24;
+    out->id = hl_malloc(n);
+    if (!out->id || copy_str(&out->reactor, t->reactor) || copy_str(&out->substrate_name, t->substrate_name) ||
+        copy_str(&out->smiles, t->smiles) || copy_str(&out->formula, t->formula) ||
+        copy_str(&out->product_smiles, t->product_smiles)) {
+        run_free(out);
+        return hl_err_set(rd->c.e, HL_ERR_NOMEM, "out of memory reading the campaign");
+    }
+    snprintf(out->id, n, "%s-%ld", t->id, k);
+    out->repeat_no = (int)k;
+    out->start_min = t->start_min + llround((double)(k - 1) * every_days * 1440.0);
+    return HL_OK;
+}
+
+static enum hl_status parse_runs(struct reader *rd, const cJSON *arr)
+{
+    struct vctx *c = &rd->c;
+    struct campaign *cp = rd->camp;
+    enum hl_status st;
+    size_t old = push_key(c, "runs");
+    int idx = 0;
+    for (const cJSON *o = arr->child; o; o = o->next, idx++) {
+        struct camp_run t;
+        long count = 0;
+        double every = 0;
+        memset(&t, 0, sizeof t);
+        size_t o2 = push_index(c, idx);
+        st = parse_run(rd, o, idx, &t, &count, &every);
+        if (!st)
+            st = grow_runs(rd, (size_t)cp->nruns + (size_t)(count ? count : 1));
+        if (st) {
+            run_free(&t);
+            return st;
+        }
+        if (!count) {
+            cp->runs[cp->nruns++] = t;
+        } else {
+            for (long k = 1; k <= count; k++) {
+                if ((st = expand_one(rd, &t, k, every, &cp->runs[cp->nruns]))) {
+                    run_free(&t);
+                    return st;
+                }
+                cp->nruns++;
+            }
+            run_free(&t);
+        }
+        pop(c, o2);
+    }
+    /* duplicate ids, also those made by repeat: one hash pass over all runs */
+    struct idset ids;
+    if (idset_init(&ids, (size_t)cp->nruns))
+        return hl_err_set(c->e, HL_ERR_NOMEM, "out of memory reading the campaign");
+    for (int j = 0; j < cp->nruns; j++) {
+        const struct camp_run *r = &cp->runs[j];
+        int prev = idset_add(&ids, r->id, j);
+        if (prev < 0)
+            continue;
+        const struct camp_run *p = &cp->runs[prev];
+        char q[64];
+        quote(r->id, q, sizeof q);
+        idset_free(&ids);
+        char field[160];
+        snprintf(field, sizeof field, "runs[%d].id", r->src_index);
+        if (r->repeat_no)
+            return hl_err_at(c->e, HL_ERR_INPUT, r->pos_id.line, r->pos_id.col, field,
+                             "repeat makes run id \"%s\", already used by runs[%d] (id at %d:%d)", q,
+                             p->src_index, p->pos_id.line, p->pos_id.col);
+        return hl_err_at(c->e, HL_ERR_INPUT, r->pos_id.line, r->pos_id.col, field,
+                         "run id \"%s\" is already used by runs[%d]%s (id at %d:%d)", q, p->src_index,
+                         p->repeat_no ? ", made by its repeat" : "", p->pos_id.line, p->pos_id.col);
+    }
+    idset_free(&ids);
+    pop(c, old);
+    return HL_OK;
+}
+
+/* top level */
+enum { GK_FORMAT, GK_TITLE, GK_SITE, GK_ISSUED, GK_MODEL, GK_SCRUB, GK_STOCK, GK_CONT, GK_RUNS, GK_NOTE,
+       GK_N };
+static const char *const top_keys[GK_N] = {"format", "title", "site", "issued", "model", "scrubbers",
+                                           "stock", "containers", "runs", "note"};
+enum { AK_FORMAT, AK_NOTE, AK_CONT, AK_N };
+static const char *const cat_keys[AK_N] = {"format", "note", "containers"};
+
+static enum hl_status check_format(struct vctx *c, const cJSON *obj, const cJSON *m, const char *want)
+{
+    if (!m)
+        return missing(c, obj, "format", NULL);
+    const char *s;
+    enum hl_status st = get_str(c, m, 0, MAX_TEXT, &s);
+    if (st)
+        return st;
+    if (strcmp(s, want) == 0)
+        return HL_OK;
+    char q[64];
+    quote(s, q, sizeof q);
+    push_key(c, "format");
+    return verr(c, m, 0, "must be \"%s\" (got \"%s\")", want, q);
+}
+
+static enum hl_status parse_containers(struct vctx *c, const cJSON *arr, struct campaign *cp,
+                                       int from_catalog, const unsigned char *skip_reagent)
+{
+    enum hl_status st;
+    size_t old = push_key(c, "containers");
+    int n = cJSON_GetArraySize(arr), idx = 0;
+    struct camp_container *nc = hl_realloc(cp->containers, ((size_t)cp->ncontainers + (size_t)n + 1) * sizeof *nc);
+    if (!nc)
+        return hl_err_set(c->e, HL_ERR_NOMEM, "out of memory reading the campaign");
+    cp->containers = nc;
+    for (const cJSON *o = arr->child; o; o = o->next, idx++) {
+        struct camp_container ct;
+        memset(&ct, 0, sizeof ct);
+        size_t o2 = push_index(c, idx);
+        if ((st = parse_container(c, o, &ct))) {
+            hl_free(ct.name);
+            return st;
+        }
+        pop(c, o2);
+        if (skip_reagent && skip_reagent[ct.reagent]) {
+            hl_free(ct.name);
+            continue;
+        }
+        ct.from_catalog = from_catalog;
+        cp->containers[cp->ncontainers++] = ct;
+    }
+    pop(c, old);
+    return HL_OK;
+}
+
+static enum hl_status parse_catalog(struct campaign *cp, const char *text, struct hl_err *e)
+{
+    unsigned char have[RG_COUNT] = {0};
+    for (int j = 0; j < cp->ncontainers; j++)
+        have[cp->containers[j].reagent] = 1;
+    struct doc d;
+    enum hl_status st = doc_parse(text, strlen(text), "catalog", "catalog", &d, e);
+    if (st)
+        return st;
+    struct vctx c;
+    memset(&c, 0, sizeof c);
+    c.d = &d;
+    c.text = text + 0;
+    c.prefix = "catalog";
+    c.e = e;
+    const cJSON *k[AK_N];
+    const char *note;
+    if ((st = members(&c, d.root, cat_keys, AK_N, k)) ||
+        (st = check_format(&c, d.root, k[AK_FORMAT], "haloledger-catalog/1")) ||
+        (k[AK_NOTE] && (st = get_str(&c, k[AK_NOTE], 0, MAX_TEXT, &note))) ||
+        (!k[AK_CONT] && (st = missing(&c, d.root, "containers", NULL))) ||
+        (st = check_array(&c, k[AK_CONT], 0)) ||
+        (st = parse_containers(&c, k[AK_CONT], cp, 1, have))) {
+        doc_free(&d);
+        return st;
+    }
+    doc_free(&d);
+    return st;
+}
+
+static enum hl_status parse_top(struct reader *rd, const cJSON *root)
+{
+    struct vctx *c = &rd->c;
+    struct campaign *cp = rd->camp;
+    const cJSON *k[GK_N];
+    enum hl_status st = members(c, root, top_keys, GK_N, k);
+    if (st)
+        return st;
+    if ((st = check_format(c, root, k[GK_FORMAT], "haloledger-campaign/1")))
+        return st;
+    const char *note;
+    if ((k[GK_TITLE] && (st = dup_str(c, k[GK_TITLE], T_TEXT, MAX_TEXT, &cp->title))) ||
+        (k[GK_SITE] && (st = dup_str(c, k[GK_SITE], T_TEXT, MAX_TEXT, &cp->site))) ||
+        (k[GK_ISSUED] && (st = get_date(c, k[GK_ISSUED], &cp->issued_min))) ||
+        (k[GK_NOTE] && (st = get_str(c, k[GK_NOTE], 0, MAX_TEXT, &note))) ||
+        (k[GK_MODEL] && (st = parse_model(c, k[GK_MODEL], &rd->model))))
+        return st;
+    if (k[GK_SCRUB]) {
+        const cJSON *a = k[GK_SCRUB];
+        if ((st = check_array(c, a, 0)))
+            return st;
+        int n = cJSON_GetArraySize(a);
+        cp->scrubbers = hl_calloc((size_t)n + 1, sizeof *cp->scrubbers);
+        if (!cp->scrubbers || idset_init(&rd->scrub_ids, (size_t)n))
+            return hl_err_set(c->e, HL_ERR_NOMEM, "out of memory reading the campaign");
+        size_t old = push_key(c, "scrubbers");
+        int idx = 0;
+        for (const cJSON *o = a->child; o; o = o->next, idx++) {
+            size_t o2 = push_index(c, idx);
+            struct camp_scrubber *s = &cp->scrubbers[idx];
+            cp->nscrubbers = idx + 1; /* so camp_free sees a half-read entry */
+            if ((st = parse_scrubber(c, o, s)))
+                return st;
+            int prev = idset_add(&rd->scrub_ids, s->id, idx);
+            if (prev >= 0) {
+                const cJSON *idn = cJSON_GetObjectItemCaseSensitive(o, "id");
+                push_key(c, "id");
+                return verr(c, idn, 0, "duplicate scrubber id (first at %d:%d)",
+                            cp->scrubbers[prev].pos.line, cp->scrubbers[prev].pos.col);
+            }
+            pop(c, o2);
+        }
+        pop(c, old);
+    }
+    if (k[GK_STOCK]) {
+        const cJSON *a = k[GK_STOCK];
+        if ((st = check_array(c, a, 0)))
+            return st;
+        int n = cJSON_GetArraySize(a);
+        cp->stock = hl_calloc((size_t)n + 1, sizeof *cp->stock);
+        if (!cp->stock)
+            return hl_err_set(c->e, HL_ERR_NOMEM, "out of memory reading the campaign");
+        int first[RG_COUNT];
+        for (int j = 0; j < RG_COUNT; j++)
+            first[j] = -1;
+        size_t old = push_key(c, "stock");
+        int idx = 0;
+        for (const cJSON *o = a->child; o; o = o->next, idx++) {
+            size_t o2 = push_index(c, idx);
+            struct camp_stock *s = &cp->stock[idx];
+            if ((st = parse_stock(c, o, s)))
+                return st;
+            cp->nstock = idx + 1;
+            if (first[s->reagent] >= 0) {
+                const cJSON *rn = cJSON_GetObjectItemCaseSensitive(o, "reagent");
+                push_key(c, "reagent");
+                return verr(c, rn, 0, "a second stock entry for %s (first at %d:%d)",
+                            reagent_get(s->reagent) ? reagent_get(s->reagent)->name : "?",
+                            cp->stock[first[s->reagent]].pos.line, cp->stock[first[s->reagent]].pos.col);
+            }
+            first[s->reagent] = idx;
+            pop(c, o2);
+        }
+        pop(c, old);
+    }
+    if (k[GK_CONT]) {
+        if ((st = check_array(c, k[GK_CONT], 0)) || (st = parse_containers(c, k[GK_CONT], cp, 0, NULL)))
+            return st;
+    }
+    if (!k[GK_RUNS])
+        return missing(c, root, "runs", NULL);
+    if ((st = check_array(c, k[GK_RUNS], 1)))
+        return st;
+    return parse_runs(rd, k[GK_RUNS]);
+}
+
+enum hl_status camp_parse(const char *text, size_t len, const char *path, const char *catalog_text,
+                          struct campaign **out, struct hl_err *e)
+{
+    hl_err_clear(e);
+    *out = NULL;
+    struct reader rd;
+    memset(&rd, 0, sizeof rd);
+    struct campaign *cp = hl_calloc(1, sizeof *cp);
+    if (!cp)
+        return hl_err_set(e, HL_ERR_NOMEM, "out of memory reading the campaign");
+    cp->issued_min = -1;
+    if (path && !(cp->file = hl_strdup(path))) {
+        hl_free(cp);
+        return hl_err_set(e, HL_ERR_NOMEM, "out of memory reading the campaign");
+    }
+    struct doc d;
+    enum hl_status st = doc_parse(text, len, "", "campaign", &d, e);
+    if (!st) {
+        rd.camp = cp;
+        rd.c.d = &d;
+        rd.c.text = text;
+        rd.c.prefix = "";
+        rd.c.e = e;
+        st = parse_top(&rd, d.root);
+        idset_free(&rd.scrub_ids);
+        doc_free(&d);
+    }
+    if (!st && catalog_text)
+        st = parse_catalog(cp, catalog_text, e);
+    if (st) {
+        camp_free(cp);
+        if (e)
+            e->status = st;
+        return st;
+    }
+    *out = cp;
+    return HL_OK;
+}
+
+enum hl_status camp_load(const char *path, const char *catalog_text, struct campaign **out,
+                         struct hl_err *e)
+{
+    hl_err_clear(e);
+    *out = NULL;
+    FILE *f = fopen(path, "rb");
+    if (!f)
+        return hl_err_set(e, HL_ERR_IO, "cannot open %s: %s", path, strerror(errno));
+    size_t cap = 1 << 16, n = 0;
+    char *buf = hl_malloc(cap);
+    if (!buf) {
+        fclose(f);
+        return hl_err_set(e, HL_ERR_NOMEM, "out of memory reading %s", path);
+    }
+    for (;;) {
+        if (n == cap) {
+            if (cap > MAX_FILE) {
+                hl_free(buf);
+                fclose(f);
+                return hl_err_at(e, HL_ERR_INPUT, 1, 1, "$", "the campaign is larger than %u bytes",
+                                 MAX_FILE);
+            }
+            char *nb = hl_realloc(buf, cap * 2);
+            if (!nb) {
+                hl_free(buf);
+                fclose(f);
+                return hl_err_set(e, HL_ERR_NOMEM, "out of memory reading %s", path);
+            }
+            buf = nb;
+            cap *= 2;
+        }
+        size_t got = fread(buf + n, 1, cap - n, f);
+        n += got;
+        if (got == 0)
+            break;
+    }
+    int bad = ferror(f);
+    int err = errno;
+    fclose(f);
+    if (bad) {
+        hl_free(buf);
+        return hl_err_set(e, HL_ERR_IO, "cannot read %s: %s", path, strerror(err));
+    }
+    enum hl_status st = camp_parse(buf, n, path, catalog_text, out, e);
+    hl_free(buf);
+    return st;
+}
+
+void camp_free(struct campaign *c)
+{
+    if (!c)
+        return;
+    for (int i = 0; i < c->nscrubbers; i++)
+        hl_free(c->scrubbers[i].id);
+    hl_free(c->scrubbers);
+    hl_free(c->stock);
+    for (int i = 0; i < c->ncontainers; i++)
+        hl_free(c->containers[i].name);
+    hl_free(c->containers);
+    for (int i = 0; i < c->nruns; i++)
+        run_free(&c->runs[i]);
+    hl_free(c->runs);
+    hl_free(c->title);
+    hl_free(c->site);
+    hl_free(c->file);
+    hl_free(c);
+}
