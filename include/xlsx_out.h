@@ -15,5 +15,9 @@
 
 /* Write the workbook to path atomically. HL_ERR_IO with a message on failure. */
 enum hl_status xlsx_out_write(const struct ledger *l, const char *path, struct hl_err *e);
+/* Same, choosing libxlsxwriter's streaming (constant_memory) mode: stream 1 = on,
+ * 0 = off, -1 = automatic (on above about 1e6 cells, some 6000 runs).  Same content either way. */
+enum hl_status xlsx_out_write_opt(const struct ledger *l, const char *path, int stream,
+                                  struct hl_err *e);
 
 #endif
