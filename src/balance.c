@@ -26,6 +26,24 @@ static enum hl_status parse_known(const char *text, struct formula *f, struct hl
     return HL_OK;
 }
 
+/* Degree of unsaturation (rings + pi bonds) = C - (H + X)/2 + N/2 + 1 for C, H, N, O, S and
+ * halogens at their normal valences (rings-plus-double-bonds count, common practice); a
+ * closed-shell molecule has a whole, non-negative value. Other elements: not judged. */
+static int closed_shell(const struct formula *f)
+{
+    static const int judged[] = {EL_C, EL_H, EL_N, EL_O, EL_S, EL_F, EL_Cl, EL_Br, EL_I};
+    long known = 0, all = 0;
+    for (size_t i = 0; i < sizeof judged / sizeof judged[0]; i++)
+        known += f->n[judged[i]];
+    for (int el = 0; el < EL_COUNT; el++)
+        all += f->n[el];
+    if (known != all)
+        return 1;
+    long twice = 2 * f->n[EL_C] - f->n[EL_H] - f->n[EL_F] - f->n[EL_Cl] - f->n[EL_Br] -
+                 f->n[EL_I] + f->n[EL_N] + 2;
+    return twice >= 0 && twice % 2 == 0;
+}
+
 /* Substrate without SMILES: every H alike, one monohalide, no structures. */
 static enum hl_status substrate_from_formula(const struct bal_in *in, struct sel_result *s,
                                              struct hl_err *e)
@@ -45,6 +63,10 @@ static enum hl_status substrate_from_formula(const struct bal_in *in, struct sel
     }
     if (s->substrate.n[EL_C] < 1)
         return hl_err_at(e, HL_ERR_INPUT, 0, 0, "formula", "substrate %s has no carbon", in->formula);
+    if (!closed_shell(&s->substrate))
+        return hl_err_at(e, HL_ERR_INPUT, 0, 1, "formula",
+                         "%s is not a possible molecule: its degree of unsaturation "
+                         "C - (H + X)/2 + N/2 + 1 is negative or not a whole number", in->formula);
     long h = s->substrate.n[EL_H];
     if (h < 1)
         return hl_err_at(e, HL_ERR_INPUT, 0, 0, "formula",

@@ -475,7 +475,7 @@ static enum hl_status collect_assumptions(struct ledger *l, struct hl_err *e)
     for (int i = 0; i < l->nruns; i++) {
         const struct sel_result *s = &l->runs[i].bal.sel;
         for (int j = 0; j < s->nused; j++)
-            if ((st = assume(l, e, s->used[j].what, 1, s->used[j].value, "per H, relative",
+            if ((st = assume(l, e, s->used[j].what, 1, s->used[j].value, s->used[j].unit,
                              s->used[j].origin)))
                 return st;
     }

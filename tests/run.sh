@@ -3,7 +3,8 @@
 # BUILD selects the build folder; HL_WRAP (e.g. valgrind ...) prefixes every binary run.
 # Exits non-zero when any test fails.
 BUILD=${BUILD:-build}
-export HALOLEDGER="$(pwd)/$BUILD/haloledger"
+case "$BUILD" in /*) ABS_BUILD=$BUILD ;; *) ABS_BUILD="$(pwd)/$BUILD" ;; esac
+export HALOLEDGER="$ABS_BUILD/haloledger"
 export HL_WRAP="${HL_WRAP:-}"
 export HL_ROOT="$(pwd)"
 export PYTHON=/usr/bin/python3
