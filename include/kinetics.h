@@ -44,4 +44,13 @@ enum hl_status kin_solve_extent(enum kin_mode mode, const double *k, int nsteps,
 int kin_step_constants(int h0, double mean_r, double phi, const double *ratios,
                        int nratios, double *k);
 
+/* Step constants from the substrate's sites when no ratios are given: c_j starts at the
+ * n_h[j] abstractable H of class j (per-H reactivity r[j] > 0); k[n] = phi^n sum_j c_j r_j,
+ * then one H is removed, split over the classes in proportion to c_j r_j (the expected
+ * share each class loses to the next abstraction; a class never goes below 0). With all
+ * r alike this is exactly the design's H-count rule. nsteps = round(sum n_h), capped at
+ * KIN_MAX_STEPS; returns it, or -1 on bad input. nclass <= 16. */
+int kin_step_constants_sites(const double *n_h, const double *r, int nclass, double phi,
+                             double *k);
+
 #endif

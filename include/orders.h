@@ -7,8 +7,8 @@
  * start + usable content ordered - demand.  Items are enum reagent_id values;
  * RG_NAOH is the caustic make-up for scrubber changeouts.
  *
- * Choices (see orders.c): of several containers for an item the one wasting the
- * least usable excess wins, a tie goes to fewer containers, then catalog order;
+ * Choices (see orders.c): of several containers for an item the one needing the
+ * fewest containers wins, a tie goes to the least usable excess, then list order;
  * without a container the amount is taken as bought in bulk (flag no_container);
  * fractional lead days round up (earlier order-by); `late` needs something to order.
  */

@@ -52,6 +52,8 @@ struct sel_result {
     int wanted;                    /* index into iso: product_smiles match, else largest share */
     int h0;                        /* steps the chain can take: abstractable H (HBr: C=C count) */
     double mean_r;                 /* sum n r / sum n over abstractable H at temp */
+    double class_h[SITE_CLASS_COUNT]; /* abstractable H per site class (HBr: C=C count in [0]) */
+    double class_r[SITE_CLASS_COUNT]; /* per-H reactivity of each class at temp (HBr: 1) */
     double rate_ratios[KIN_MAX_STEPS]; int nratios; /* published per-step ratios (methane+Cl2), 0 = none */
     char *over_smiles[KIN_MAX_STEPS + 1]; /* degree-d structure where unambiguous, else NULL; owned */
     struct sel_used *used; int nused;

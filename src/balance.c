@@ -74,6 +74,8 @@ static enum hl_status substrate_from_formula(const struct bal_in *in, struct sel
     s->molar_mass_g_mol = formula_molar_mass_g_mol(&s->substrate);
     s->h0 = h > KIN_MAX_STEPS ? KIN_MAX_STEPS : (int)h;
     s->mean_r = 1.0;
+    s->class_h[SITE_PRIMARY] = (double)s->h0;
+    s->class_r[SITE_PRIMARY] = 1.0;
     s->iso = hl_calloc(1, sizeof *s->iso);
     if (!s->iso)
         return hl_err_set(e, HL_ERR_NOMEM, "out of memory");
@@ -189,7 +191,8 @@ static enum hl_status compute(const struct bal_in *in, struct bal_out *o, struct
     double phi = in->has_phi ? in->phi : 1.0;
     const double *ratios = in->nratios ? in->ratios : (s->nratios ? s->rate_ratios : NULL);
     int nratios = in->nratios ? in->nratios : s->nratios;
-    int nsteps = kin_step_constants(s->h0, s->mean_r, phi, ratios, nratios, k);
+    int nsteps = ratios ? kin_step_constants(s->h0, s->mean_r, phi, ratios, nratios, k)
+                        : kin_step_constants_sites(s->class_h, s->class_r, SITE_CLASS_COUNT, phi, k);
     if (nsteps < 1)
         return hl_err_at(e, HL_ERR_INPUT, 0, 0, "model", "rate constants are not usable");
 

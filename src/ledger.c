@@ -466,10 +466,12 @@ static enum hl_status collect_assumptions(struct ledger *l, struct hl_err *e)
                      "CIAAW 2021 standard atomic weights (abridged values)")) ||
         (st = assume(l, e, "Temperature scaling of per-H reactivity", 0, 0, NULL,
                      "r(T) = r(Tref)^(Tref/T) in kelvin: equal pre-exponential factors for all "
-                     "site classes (design section 4)")) ||
+                     "site classes, so only the activation energies differ")) ||
         (st = assume(l, e, "Later halogenation steps", 0, 0, NULL,
-                     "k_n = H left on A_n x mean per-H reactivity x overhalogenation_factor^n, "
-                     "unless rate_ratios are given (design section 4)")))
+                     "k_n = overhalogenation_factor^n x sum over site classes of (H left) x "
+                     "(per-H reactivity); each step removes one H split over the classes as the "
+                     "first-step isomer shares are (expected-value depletion; with all H alike "
+                     "this is the plain H-count rule). Replaced by rate_ratios where given")))
         return st;
     char what[160];
     for (int i = 0; i < l->nruns; i++) {
@@ -488,7 +490,7 @@ static enum hl_status collect_assumptions(struct ledger *l, struct hl_err *e)
     for (int v = 0; v < VS_COUNT; v++) {
         snprintf(what, sizeof what, "NaOH used per mol of %s", vent_name(v));
         if ((st = assume(l, e, what, 1, scrub_naoh_per_mol(v), "mol/mol",
-                         "liquor reaction stoichiometry (design section 4)")))
+                         "liquor reactions: HX + NaOH -> NaX + H2O; X2 + 2 NaOH -> NaX + NaOX + H2O; SO2 + 2 NaOH -> Na2SO3 + H2O")))
             return st;
     }
     return HL_OK;

@@ -2,9 +2,11 @@
  * orders.c - monthly demand, stock carried over, whole containers, order-by dates.
  *
  * Choices where design section 4 is silent (also in orders.h):
- * - Several containers for one item: the one that leaves the least usable excess
- *   (containers x (net - heel) - to order); on a tie the fewer containers, then the
- *   first in the catalog.
+ * - Several containers for one item: the one needing the fewest containers, since
+ *   every container change-over is a hazardous connect/disconnect (common practice
+ *   to keep them few); on a tie the least usable excess (containers x (net - heel)
+ *   - to order), then the first listed. So 4 685 kg of Cl2 is 6 ton containers, not
+ *   71 cylinders, while 50 kg is one cylinder, not one ton container.
  * - No container defined for an item with demand: the amount to order is taken as
  *   bought in bulk (ordered usable = to order), containers = 0 and the line is flagged.
  * - Lead time: order-by = midnight of the first-use day minus lead_days rounded up
@@ -147,7 +149,7 @@ enum hl_status ord_plan(const struct ord_demand *d, int nd,
             if (waste < 0)
                 waste = 0; /* within the round-off guard */
             double tol = REL_EPS * (usable > 1 ? usable : 1);
-            if (best < 0 || waste < best_waste - tol || (fabs(waste - best_waste) <= tol && n < best_n)) {
+            if (best < 0 || n < best_n || (n == best_n && waste < best_waste - tol)) {
                 best = j;
                 best_n = n;
                 best_waste = waste;

@@ -276,6 +276,8 @@ static enum hl_status substitution(struct work *w, int reagent, const double *r_
             size += w->sym[b] == s;
         int n_h = size * m->atoms[a].hcount;
         o->h0 += n_h;
+        o->class_h[cls] += n_h;
+        o->class_r[cls] = r_t[cls];
         double wt = n_h * r_t[cls];
         int pb[MAX_PARTNERS], pc[MAX_PARTNERS], np = 0;
         /* the radical is delocalised whenever a C=C is adjacent, also when the benzylic
@@ -303,6 +305,8 @@ static enum hl_status hbr_addition(struct work *w, struct sel_result *o, struct 
         if (!sites_is_cc_double(m, bd))
             continue;
         o->h0++;
+        o->class_h[0] += 1;
+        o->class_r[0] = 1.0;
         int ends[2], ne = sites_hbr_br_ends(m, bd, ends);
         for (int k = 0; k < ne && !st; k++) {
             struct smi_mol p;

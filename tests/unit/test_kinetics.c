@@ -465,9 +465,46 @@ static void timing(void)
         }
 }
 
+/* Site-depletion step constants. Analytic checks: with all r alike the rule must equal
+ * the H-count rule (N - n) r phi^n; the removals add to one H per step; and a hand
+ * computation for two classes (2 H at r = 100, 3 H at r = 1):
+ *   k0 = 2(100) + 3 = 203; the step removes 200/203 of an H from class 1 and 3/203 from
+ *   class 2, so k1 = (2 - 200/203) 100 + (3 - 3/203) = 104.46305418719...        */
+static void site_depletion(void)
+{
+    double k[KIN_MAX_STEPS], kr[KIN_MAX_STEPS];
+    double n1[3] = {6, 3, 1}, r1[3] = {2.5, 2.5, 2.5};
+    int n = kin_step_constants_sites(n1, r1, 3, 0.7, k);
+    CU_ASSERT_EQUAL(n, 10);
+    CU_ASSERT_EQUAL(kin_step_constants(10, 2.5, 0.7, NULL, 0, kr), 10);
+    for (int i = 0; i < n; i++)
+        ASSERT_REL(k[i], kr[i], 1e-12);
+    double n2[2] = {2, 3}, r2[2] = {100, 1};
+    CU_ASSERT_EQUAL(kin_step_constants_sites(n2, r2, 2, 1.0, k), 5);
+    ASSERT_REL(k[0], 203.0, 1e-15);
+    ASSERT_REL(k[1], (2 - 200.0 / 203) * 100 + (3 - 3.0 / 203), 1e-13);
+    /* the last step acts on exactly one H left: k4 between the smallest and largest r */
+    CU_ASSERT(k[4] >= 1.0 - 1e-12 && k[4] <= 100.0 + 1e-12);
+    for (int i = 1; i < 5; i++)
+        CU_ASSERT(k[i] < k[i - 1]); /* fewer and less reactive H at every step */
+    /* extreme contrast: the first two H come from the reactive class, so A1 keeps one
+     * reactive H (k1 ~ 1e6) and A2 is left with the slow ones (k2 ~ 1e-5 of k1) */
+    double n3[2] = {2, 3}, r3[2] = {1e6, 1};
+    CU_ASSERT_EQUAL(kin_step_constants_sites(n3, r3, 2, 1.0, k), 5);
+    ASSERT_REL(k[1], 1e6 + 3, 1e-5);
+    CU_ASSERT(k[2] < 1e-5 * k[1] && k[2] > 3.0);
+    /* bad input */
+    double bad_r[2] = {0, 1};
+    CU_ASSERT_EQUAL(kin_step_constants_sites(n2, bad_r, 2, 1.0, k), -1);
+    double none[2] = {0, 0};
+    CU_ASSERT_EQUAL(kin_step_constants_sites(none, r2, 2, 1.0, k), -1);
+    CU_ASSERT_EQUAL(kin_step_constants_sites(n2, r2, 2, 0.0, k), -1);
+}
+
 int main(void)
 {
     static const struct cu_case cases[] = {
+        {"site depletion", site_depletion},
         {"binomial limit", binomial_limit},
         {"weight sum bound", weight_sum_bound},
         {"two-step Levenspiel", two_step_levenspiel},

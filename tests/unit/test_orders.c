@@ -151,20 +151,27 @@ static void no_container(void)
 
 static void container_choice(void)
 {
-    /* 350 kg: one ton container (898 usable) wastes 548 kg; six 68 kg cylinders with a
-     * 0.5 kg heel (67.5 usable, 405 kg) waste 55 kg -> cylinders */
+    /* 350 kg: one ton container (898 usable) against six 68 kg cylinders with a 0.5 kg
+     * heel (67.5 usable): fewer container change-overs win -> one ton container */
     struct ord_container c[] = {ton, {RG_CL2, "cylinder", 68, 0.5}, {RG_CL2, "half", 449, 0},
                                 {RG_CL2, "quarter", 224.5, 0}};
     struct ord_demand d = {RG_CL2, t("2027-03-02"), 350};
     struct ord_line *o;
     int n;
     CU_ASSERT_EQUAL(plan(&d, 1, NULL, 0, c, 2, -1, &o, &n), HL_OK);
-    CU_ASSERT_STRING_EQUAL(o[0].container, "cylinder");
-    CU_ASSERT_EQUAL(o[0].containers, 6);
-    ASSERT_REL(o[0].ordered_usable_kg, 405, 1e-12);
+    CU_ASSERT_STRING_EQUAL(o[0].container, "ton container");
+    CU_ASSERT_EQUAL(o[0].containers, 1);
+    ASSERT_REL(o[0].ordered_usable_kg, 898, 1e-12);
     hl_free(o);
-    /* 898 kg: half 449 (2, no waste) or quarter 224.5 (4, no waste): a tie on waste
-     * goes to fewer containers; with the ton (1, no waste) in the list, the ton */
+    /* 50 kg: one ton container or one cylinder: same count, the cylinder wastes less */
+    d.kg = 50;
+    CU_ASSERT_EQUAL(plan(&d, 1, NULL, 0, c, 2, -1, &o, &n), HL_OK);
+    CU_ASSERT_STRING_EQUAL(o[0].container, "cylinder");
+    CU_ASSERT_EQUAL(o[0].containers, 1);
+    ASSERT_REL(o[0].ordered_usable_kg, 67.5, 1e-12);
+    hl_free(o);
+    /* 898 kg: half 449 (2) or quarter 224.5 (4): fewer containers; with the ton (1) in
+     * the list, the ton */
     d.kg = 898;
     CU_ASSERT_EQUAL(plan(&d, 1, NULL, 0, c + 2, 2, -1, &o, &n), HL_OK);
     CU_ASSERT_STRING_EQUAL(o[0].container, "half");
@@ -174,6 +181,12 @@ static void container_choice(void)
     CU_ASSERT_EQUAL(plan(&d, 1, NULL, 0, c2, 3, -1, &o, &n), HL_OK);
     CU_ASSERT_STRING_EQUAL(o[0].container, "ton container");
     CU_ASSERT_EQUAL(o[0].containers, 1);
+    hl_free(o);
+    /* equal count and equal excess: the first listed */
+    struct ord_container c3[] = {{RG_CL2, "drum A", 100, 0}, {RG_CL2, "drum B", 100, 0}};
+    d.kg = 150;
+    CU_ASSERT_EQUAL(plan(&d, 1, NULL, 0, c3, 2, -1, &o, &n), HL_OK);
+    CU_ASSERT_STRING_EQUAL(o[0].container, "drum A");
     hl_free(o);
 }
 
