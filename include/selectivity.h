@@ -27,6 +27,9 @@ struct sel_reactivity {
     double ref_temp_c;
     unsigned set_mask; /* user override: bit c set when r[c] given; bit SITE_CLASS_COUNT for ref_temp_c */
 };
+/* set_mask bit: the campaign gives its own rate_ratios, so published per-step ratios
+ * (methane + Cl2) are neither looked up nor listed as used. */
+#define SEL_OWN_RATIOS (1u << (SITE_CLASS_COUNT + 1))
 
 struct sel_isomer {
     char *smiles;            /* product structure, owned; never NULL */

@@ -173,9 +173,12 @@ static enum hl_status compute(const struct bal_in *in, struct bal_out *o, struct
     if (!ri || in->reagent >= RG_CHARGEABLE)
         return hl_err_at(e, HL_ERR_INPUT, 0, 0, "reagent", "not a reactor reagent");
     enum hl_status st;
+    struct sel_reactivity user = in->user;
+    if (in->nratios > 0)
+        user.set_mask |= SEL_OWN_RATIOS;
     if (in->smiles)
         st = sel_predict(in->smiles, in->product_smiles, in->reagent, in->temp_c,
-                         in->user.set_mask ? &in->user : NULL, &o->sel, e);
+                         user.set_mask ? &user : NULL, &o->sel, e);
     else
         st = substrate_from_formula(in, &o->sel, e);
     if (st)

@@ -137,6 +137,34 @@ static enum hl_status blame_run(const struct campaign *c, const struct camp_run 
     return hl_err_at(e, HL_ERR_INPUT, pos.line, col, field, "%s", msg);
 }
 
+/* Every value a run's balance used: the selectivity values, then the degree-model
+ * parameters (campaign model or the default). */
+static enum hl_status run_assumptions(struct ledger *l, const struct bal_in *in,
+                                      const struct bal_out *b, struct hl_err *e)
+{
+    enum hl_status st = HL_OK;
+    const char *rg = reagent_get(in->reagent)->name;
+    char what[160];
+    for (int j = 0; j < b->sel.nused && !st; j++)
+        st = assume(l, e, b->sel.used[j].what, 1, b->sel.used[j].value, b->sel.used[j].unit,
+                    b->sel.used[j].origin);
+    if (st)
+        return st;
+    if (in->nratios > 0) {
+        for (int i = 0; i < in->nratios && !st; i++) {
+            snprintf(what, sizeof what, "%s rate_ratios[%d]: step %d -> %d relative to step 0", rg,
+                     i, i, i + 1);
+            st = assume(l, e, what, 1, in->ratios[i], "ratio of rate constants", "campaign model");
+        }
+        return st;
+    }
+    snprintf(what, sizeof what, "%s overhalogenation_factor", rg);
+    return assume(l, e, what, 1, in->has_phi ? in->phi : 1.0, "per added halogen",
+                  in->has_phi ? "campaign model"
+                              : "default: a halogen already placed neither speeds nor slows the "
+                                "next abstraction (set model.overhalogenation_factor)");
+}
+
 static int by_start(const void *a, const void *b)
 {
     const struct camp_run *x = *(const struct camp_run *const *)a, *y = *(const struct camp_run *const *)b;
@@ -193,6 +221,8 @@ static enum hl_status balance_runs(const struct campaign *c, struct ledger *l, s
             st = blame_run(c, r, e);
         else if (st == HL_OK && lr->bal.warning[0])
             st = warn(l, e, lr->id, "%s", lr->bal.warning);
+        if (!st)
+            st = run_assumptions(l, &in, &lr->bal, e);
     }
     hl_free(sorted);
     return st;
@@ -416,9 +446,19 @@ static enum hl_status collect_warnings(struct ledger *l, struct hl_err *e)
             gas += r->bal.vent_mol[v];
         if (r->scrubber_index < 0 && gas > 0)
             st = warn(l, e, r->id, "vents %.1f mol of gas but names no scrubber", gas);
+        else if (r->scrub.breakthrough_mol > 0)
+            st = warn(l, e, r->id,
+                      "scrubber %s runs out of NaOH during this run: %.1f mol of gas pass "
+                      "unneutralised; plan a changeout or move the run",
+                      r->scrubber, r->scrub.breakthrough_mol);
         else if (r->scrub.exhausted)
-            st = warn(l, e, r->id, "scrubber %s liquor would run out of NaOH during this run",
-                      r->scrubber);
+            st = warn(l, e, r->id,
+                      "scrubber %s liquor falls below the minimum NaOH strength during this run "
+                      "(%.2f wt%% after it); overlapping runs leave no time for a changeout",
+                      r->scrubber, r->scrub.naoh_wt_pct_after);
+        if (!st && r->scrub.unabsorbed)
+            st = warn(l, e, r->id, "scrubber %s has a water liquor: %.1f mol of Cl2/Br2/SO2/HBr "
+                      "pass it unabsorbed", r->scrubber, r->scrub.unabsorbed_mol);
     }
     for (int u = 0; u < l->nscrubbers && !st; u++) {
         const struct ledger_scrubber *s = &l->scrubbers[u];
@@ -474,13 +514,6 @@ static enum hl_status collect_assumptions(struct ledger *l, struct hl_err *e)
                      "this is the plain H-count rule). Replaced by rate_ratios where given")))
         return st;
     char what[160];
-    for (int i = 0; i < l->nruns; i++) {
-        const struct sel_result *s = &l->runs[i].bal.sel;
-        for (int j = 0; j < s->nused; j++)
-            if ((st = assume(l, e, s->used[j].what, 1, s->used[j].value, s->used[j].unit,
-                             s->used[j].origin)))
-                return st;
-    }
     for (int v = 0; v < VS_COUNT; v++) {
         snprintf(what, sizeof what, "Heat of absorption of %s in caustic liquor", vent_name(v));
         if ((st = assume(l, e, what, 1, scrub_heat_kj_per_mol(v, 0), "kJ/mol",
@@ -519,11 +552,12 @@ enum hl_status ledger_build(const struct campaign *c, const struct ledger_opts *
     if (!l)
         return nomem(e);
     enum hl_status st;
-    if ((st = copy_identity(c, o, l, e)) || (st = balance_runs(c, l, e)))
+    if ((st = copy_identity(c, o, l, e)) || (st = collect_assumptions(l, e)) ||
+        (st = balance_runs(c, l, e)))
         goto fail;
     if ((st = run_scrubbers(c, l, e)) || (st = plan_orders(c, l, e)) ||
         (st = own_container_names(l, e)) || (st = build_months(l, e)) ||
-        (st = collect_warnings(l, e)) || (st = collect_assumptions(l, e)))
+        (st = collect_warnings(l, e)))
         goto fail;
     collect_cautions(l);
     *out = l;

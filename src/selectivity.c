@@ -537,7 +537,7 @@ static enum hl_status predict(const char *smiles, const char *product_smiles, in
     }
     /* methane + Cl2: published per-step ratios */
     if (reagent == RG_CL2 && m->natoms == 1 && m->atoms[0].el == EL_C && m->atoms[0].hcount == 4 &&
-        !m->atoms[0].charge) {
+        !m->atoms[0].charge && !(user && (user->set_mask & SEL_OWN_RATIOS))) {
         double t_k = temp_c + 273.15, k0 = bsk_k(0, t_k);
         int out = -1;
         o->nratios = 4;
