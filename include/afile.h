@@ -1,5 +1,5 @@
 /*
- * afile.h - atomic output files.
+ * afile.h - whole-file input and atomic output.
  *
  * An output is first written under a temporary name in the target folder
  * (same file system, so rename(2) is atomic) and renamed over the target only
@@ -12,7 +12,17 @@
 #include <stddef.h>
 #include "hlerr.h"
 
-/* Temporary name next to path: "DIR/.NAME.tmp-PID-N". *tmp owned by caller (hl_free). */
+/* Read the whole file at path into *buf (NUL-terminated, hl_free) and its length into
+ * *len (may be NULL). Missing file: HL_ERR_INPUT; other failures HL_ERR_IO/_NOMEM. */
+enum hl_status afile_read(const char *path, char **buf, size_t *len, struct hl_err *e);
+
+/* Refuse a target that exists and is not a regular file (a device, folder or fifo:
+ * renaming over /dev/full as root would replace the device). */
+enum hl_status afile_check_target(const char *path, struct hl_err *e);
+
+/* Create an empty temporary file next to path, "DIR/.NAME.tmp-PID-N", exclusively
+ * (O_EXCL; N counts up past names in use) with the usual 0666-minus-umask mode, and
+ * return its name in *tmp (hl_free). Errors name path, not the temporary. */
 enum hl_status afile_tmpname(const char *path, char **tmp, struct hl_err *e);
 /* Directory part of path ("." when none); *dir owned by caller (hl_free). */
 enum hl_status afile_dirname(const char *path, char **dir, struct hl_err *e);

@@ -13,6 +13,7 @@
  * whitespace), so no position ever costs a rescan.
  */
 #include "campaign.h"
+#include "afile.h"
 
 #include <cjson/cJSON.h>
 #include <errno.h>
@@ -1711,45 +1712,16 @@ enum hl_status camp_load(const char *path, const char *catalog_text, struct camp
 {
     hl_err_clear(e);
     *out = NULL;
-    FILE *f = fopen(path, "rb");
-    if (!f)
-        return hl_err_set(e, HL_ERR_IO, "cannot open %s: %s", path, strerror(errno));
-    size_t cap = 1 << 16, n = 0;
-    char *buf = hl_malloc(cap);
-    if (!buf) {
-        fclose(f);
-        return hl_err_set(e, HL_ERR_NOMEM, "out of memory reading %s", path);
-    }
-    for (;;) {
-        if (n == cap) {
-            if (cap > MAX_FILE) {
-                hl_free(buf);
-                fclose(f);
-                return hl_err_at(e, HL_ERR_INPUT, 1, 1, "$", "the campaign is larger than %u bytes",
-                                 MAX_FILE);
-            }
-            char *nb = hl_realloc(buf, cap * 2);
-            if (!nb) {
-                hl_free(buf);
-                fclose(f);
-                return hl_err_set(e, HL_ERR_NOMEM, "out of memory reading %s", path);
-            }
-            buf = nb;
-            cap *= 2;
-        }
-        size_t got = fread(buf + n, 1, cap - n, f);
-        n += got;
-        if (got == 0)
-            break;
-    }
-    int bad = ferror(f);
-    int err = errno;
-    fclose(f);
-    if (bad) {
+    char *buf;
+    size_t n;
+    enum hl_status st = afile_read(path, &buf, &n, e);
+    if (st)
+        return st;
+    if (n > MAX_FILE) {
         hl_free(buf);
-        return hl_err_set(e, HL_ERR_IO, "cannot read %s: %s", path, strerror(err));
+        return hl_err_at(e, HL_ERR_INPUT, 1, 1, "$", "the campaign is larger than %u bytes", MAX_FILE);
     }
-    enum hl_status st = camp_parse(buf, n, path, catalog_text, out, e);
+    st = camp_parse(buf, n, path, catalog_text, out, e);
     hl_free(buf);
     return st;
 }

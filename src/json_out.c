@@ -29,8 +29,8 @@
 /* Public key spellings of the vent species and salts: fixed here, not taken from
  * display names elsewhere, because pipelines depend on them. */
 static const char *const jo_vent_key[VS_COUNT] = {"HCl", "HBr", "Cl2", "Br2", "SO2"};
-static const char *const jo_salt_key[SALT_COUNT] = {"NaCl", "NaBr", "NaOCl", "NaOBr", "Na2SO3"};
-_Static_assert(VS_COUNT == 5 && SALT_COUNT == 5, "update the key tables of json_out.c");
+static const char *const jo_salt_key[SALT_COUNT] = {"NaCl", "NaBr", "NaOCl", "NaOBr", "Na2SO3", "Na2SO4"};
+_Static_assert(VS_COUNT == 5 && SALT_COUNT == 6, "update the key tables of json_out.c");
 
 struct jo {
     char *buf; size_t len, cap;       /* the document being assembled */
@@ -664,12 +664,11 @@ enum hl_status json_out_render(const struct ledger *l, char **text, struct hl_er
 
 enum hl_status json_out_write(const struct ledger *l, const char *path, struct hl_err *e)
 {
-    struct stat sb;
-    /* Never rename over a device, directory or fifo (e.g. /dev/full as root). */
-    if (stat(path, &sb) == 0 && !S_ISREG(sb.st_mode))
-        return hl_err_set(e, HL_ERR_IO, "cannot write %s: not a regular file", path);
+    enum hl_status st = afile_check_target(path, e);
+    if (st)
+        return st;
     char *text;
-    enum hl_status st = json_out_render(l, &text, e);
+    st = json_out_render(l, &text, e);
     if (st)
         return st;
     st = afile_write(path, text, strlen(text), e);

@@ -8,6 +8,7 @@
  * failure, 2 bad usage or bad input, 3 with --strict when the ledger carries
  * warnings.  Nothing is written unless the whole campaign computed cleanly.
  */
+#include "afile.h"
 #include "campaign.h"
 #include "hlmem.h"
 #include "isodate.h"
@@ -22,6 +23,7 @@
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
+#include <unistd.h>
 #include <xlsxwriter.h>
 
 #define HALOLEDGER_VERSION "0.1.0"
@@ -82,44 +84,6 @@ static int usage_error(const char *fmt, const char *arg)
     fprintf(stderr, fmt, arg);
     fprintf(stderr, "\nTry 'haloledger --help'.\n");
     return EXIT_INPUT;
-}
-
-/* Whole file into a NUL-terminated buffer (hl_free). */
-static char *read_file(const char *path, struct hl_err *e)
-{
-    FILE *f = fopen(path, "rb");
-    if (!f) {
-        hl_err_set(e, errno == ENOENT ? HL_ERR_INPUT : HL_ERR_IO, "cannot open: %s", strerror(errno));
-        return NULL;
-    }
-    size_t cap = 1 << 16, n = 0;
-    char *buf = hl_malloc(cap);
-    while (buf) {
-        n += fread(buf + n, 1, cap - n - 1, f);
-        if (n < cap - 1)
-            break;
-        char *bigger = hl_realloc(buf, cap * 2);
-        if (!bigger) {
-            hl_free(buf);
-            buf = NULL;
-            break;
-        }
-        buf = bigger;
-        cap *= 2;
-    }
-    int bad = ferror(f);
-    fclose(f);
-    if (!buf) {
-        hl_err_set(e, HL_ERR_NOMEM, "out of memory");
-        return NULL;
-    }
-    if (bad) {
-        hl_free(buf);
-        hl_err_set(e, HL_ERR_IO, "read error");
-        return NULL;
-    }
-    buf[n] = '\0';
-    return buf;
 }
 
 static int64_t source_date_minutes(void)
@@ -185,6 +149,50 @@ static int has_ext(const char *path, const char *ext)
     return n > k && !strcmp(path + n - k, ext);
 }
 
+/* Write every output or none: each is rendered to a staged file next to its target,
+ * and only when all are complete are they renamed into place. A failure removes the
+ * staged files and leaves every existing target as it was. */
+static int write_outputs(const struct ledger *l, const char *const *outputs, int nout)
+{
+    char *staged[MAX_OUTPUTS] = {NULL};
+    struct hl_err e;
+    enum hl_status st = HL_OK;
+    int i, failed = -1;
+    for (i = 0; i < nout && !st; i++) {
+        hl_err_clear(&e);
+        if ((st = afile_check_target(outputs[i], &e)) || (st = afile_tmpname(outputs[i], &staged[i], &e)))
+            break;
+        st = has_ext(outputs[i], ".xlsx") ? xlsx_out_write(l, staged[i], &e)
+                                          : json_out_write(l, staged[i], &e);
+    }
+    if (st)
+        failed = i < nout ? i : nout - 1;
+    for (i = 0; i < nout && !st; i++)
+        if ((st = afile_commit(staged[i], outputs[i], &e)))
+            failed = i;
+    char *staged_name = st && staged[failed] ? hl_strdup(staged[failed]) : NULL;
+    for (i = 0; i < nout; i++) {
+        if (st && staged[i])
+            unlink(staged[i]);
+        else if (!st)
+            printf("wrote %s\n", outputs[i]);
+        hl_free(staged[i]);
+    }
+    if (st) {
+        /* the writers' messages name the staged file: show the output the user asked for */
+        char *at = staged_name ? strstr(e.msg, staged_name) : NULL;
+        if (at)
+            fprintf(stderr, "haloledger: %.*s%s%s\n", (int)(at - e.msg), e.msg, outputs[failed],
+                    at + strlen(staged_name));
+        else
+            fprintf(stderr, "haloledger: %s\n", e.msg);
+        hl_free(staged_name);
+        return exit_for(st);
+    }
+    return EXIT_OK;
+}
+
+
 int main(int argc, char **argv)
 {
     static const struct option opts[] = {
@@ -245,13 +253,14 @@ int main(int argc, char **argv)
 
     struct hl_err e;
     hl_err_clear(&e);
+    enum hl_status st;
     char *catalog = NULL;
-    if (catalog_path && !(catalog = read_file(catalog_path, &e))) {
+    if (catalog_path && (st = afile_read(catalog_path, &catalog, NULL, &e))) {
         print_err(catalog_path, &e);
-        return exit_for(e.status);
+        return exit_for(st);
     }
     struct campaign *c = NULL;
-    enum hl_status st = camp_load(campaign_path, catalog ? catalog : catalog_default_json, &c, &e);
+    st = camp_load(campaign_path, catalog ? catalog : catalog_default_json, &c, &e);
     hl_free(catalog);
     if (st) {
         print_err(campaign_path, &e);
@@ -274,17 +283,8 @@ int main(int argc, char **argv)
     int rc = EXIT_OK;
     if (!report)
         print_summary(l);
-    for (int i = 0; i < nout && rc == EXIT_OK; i++) {
-        hl_err_clear(&e);
-        st = has_ext(outputs[i], ".xlsx") ? xlsx_out_write(l, outputs[i], &e)
-                                          : json_out_write(l, outputs[i], &e);
-        if (st) {
-            print_err(outputs[i], &e);
-            rc = exit_for(st);
-        } else {
-            printf("wrote %s\n", outputs[i]);
-        }
-    }
+    else
+        rc = write_outputs(l, outputs, nout);
     if (rc == EXIT_OK && strict && l->nwarnings > 0)
         rc = EXIT_WARNINGS;
     ledger_free(l);

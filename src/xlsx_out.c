@@ -52,7 +52,7 @@ static const char *const xo_numfmt[XK_COUNT] = {
     "0.00", "0.000", "0.0", "#,##0", "0.0E+00", "0.00", "0.00", NULL};
 static const int xo_decimals[XK_COUNT] = {0, 0, 0, 0, 1, 2, 1, 2, 2, 3, 1, 0, 0, 2, 2, 4};
 
-static const char *const xo_salt[SALT_COUNT] = {"NaCl", "NaBr", "NaOCl", "NaOBr", "Na2SO3"};
+static const char *const xo_salt[SALT_COUNT] = {"NaCl", "NaBr", "NaOCl", "NaOBr", "Na2SO3", "Na2SO4"};
 
 struct xcol { char head[96]; enum xk kind; int total; };
 
@@ -1324,30 +1324,20 @@ static double xo_cells(const struct ledger *l)
 enum hl_status xlsx_out_write_opt(const struct ledger *l, const char *path, int stream,
                                   struct hl_err *e)
 {
-    struct stat sb;
-    /* Never rename over a device, directory or fifo (e.g. /dev/full as root). */
-    if (stat(path, &sb) == 0 && !S_ISREG(sb.st_mode))
-        return hl_err_set(e, HL_ERR_IO, "cannot write %s: not a regular file", path);
+    enum hl_status st = afile_check_target(path, e);
+    if (st)
+        return st;
     char *tmp = NULL, *dir = NULL;
-    enum hl_status st = afile_tmpname(path, &tmp, e);
+    st = afile_tmpname(path, &tmp, e); /* creates the file: an unwritable folder fails here */
     if (st == HL_OK)
         st = afile_dirname(path, &dir, e);
     if (st != HL_OK) {
+        if (tmp)
+            unlink(tmp);
         hl_free(tmp);
         return st;
     }
-    /* Create the temporary ourselves: an unwritable folder gives a clear message
-     * instead of the library's own stderr lines at workbook_close. */
-    int fd = open(tmp, O_WRONLY | O_CREAT | O_EXCL | O_CLOEXEC, 0666);
-    if (fd < 0) {
-        st = hl_err_set(e, HL_ERR_IO, "cannot write %s: cannot create a file in %s: %s", path,
-                        dir, strerror(errno));
-        hl_free(tmp);
-        hl_free(dir);
-        return st;
-    }
-    close(fd);
-
+    int fd;
     struct xw *w = hl_calloc(1, sizeof *w);
     if (!w) {
         unlink(tmp);
