@@ -75,6 +75,8 @@ struct bal_out {
  * caller: bal_free. */
 enum hl_status bal_compute(const struct bal_in *in, struct bal_out *out, struct hl_err *e);
 
+/* Free what bal_compute allocated (products, their structures, the selectivity
+ * result) and zero *out; safe on a zeroed or already freed result. */
 void bal_free(struct bal_out *out);
 
 #endif

@@ -66,7 +66,7 @@ struct camp_model {
     double rate_ratios[CAMP_MAX_RATIOS]; int nratios;
 };
 
-/* Optional packed-column data of a scrubber (issue: column check). */
+/* Optional packed-column data of a scrubber, for the column check. */
 struct camp_column {
     int present;
     double packing_factor_1_m;  /* Fp, 1/m */

@@ -72,6 +72,7 @@ struct ledger_opts {
 enum hl_status ledger_build(const struct campaign *c, const struct ledger_opts *o,
                             struct ledger **out, struct hl_err *e);
 
+/* Free a ledger and every string and table it owns; NULL is fine. */
 void ledger_free(struct ledger *l);
 
 /* Text of a role ("wanted", "isomer", "overhalogenated", "unreacted"). */

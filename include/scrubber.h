@@ -5,10 +5,13 @@
  *   HCl + NaOH -> NaCl + H2O          HBr + NaOH -> NaBr + H2O
  *   Cl2 + 2 NaOH -> NaCl + NaOCl + H2O Br2 + 2 NaOH -> NaBr + NaOBr + H2O
  *   SO2 + 2 NaOH -> Na2SO3 + H2O
+ * and in the liquor, sulfite never coexists with hypohalite (stronger oxidant first):
+ *   Na2SO3 + NaOCl -> Na2SO4 + NaCl    Na2SO3 + NaOBr -> Na2SO4 + NaBr
  * Heats from standard enthalpies of formation (NBS tables, see scrubber.c).
  * Runs are processed in start order; each scrubber's liquor is tracked run by
  * run with changeouts, and its acid-gas load is binned hour by hour with a
- * difference array, so the cost is linear in runs plus hours.
+ * difference array, so the cost is linear in runs plus hours.  The instantaneous
+ * peak comes from one sweep over sorted start/end events (n log n).
  */
 #ifndef SCRUBBER_H
 #define SCRUBBER_H
@@ -18,7 +21,7 @@
 #include "reagents.h"
 
 /* Salts / products in the liquor. */
-enum scrub_salt { SALT_NACL, SALT_NABR, SALT_NAOCL, SALT_NAOBR, SALT_NA2SO3, SALT_COUNT };
+enum scrub_salt { SALT_NACL, SALT_NABR, SALT_NAOCL, SALT_NAOBR, SALT_NA2SO3, SALT_NA2SO4, SALT_COUNT };
 
 struct scrub_unit_in {
     const char *id;
@@ -28,6 +31,10 @@ struct scrub_unit_in {
     int has_column;
     double packing_factor_1_m, htu_m, removal_fraction, flood_fraction;
     double carrier_kmol_h, liquor_kg_h, gas_temp_c;
+    /* additions (0 = default): */
+    double fresh_liquor_temp_c; /* liquor at the first fill and every fresh charge; 0 -> 25 C */
+    double max_liquor_temp_c;   /* hottest liquor allowed (caustic: hypochlorite turns to
+                                 * chlorate and absorbs Cl2 worse above it); 0 -> 40 C */
 };
 
 struct scrub_run_in {
@@ -52,6 +59,13 @@ struct scrub_run_out {
     int unabsorbed;             /* water liquor: gas other than HCl passed through (warning) */
     double unabsorbed_mol;      /* that gas [mol] */
     double breakthrough_mol;    /* caustic ran out: gas left unneutralised [mol] */
+    /* salt_kg is the net change of each salt in the liquor during the run: with the
+     * sulfite/hypohalite reaction a salt already in the liquor can be used up (< 0). */
+    double liquor_temp_c_after; /* adiabatic liquor temperature after the run (no cooling
+                                 * since the last fresh charge) [C] */
+    double heat_kw;             /* heat_kj / vent window (feed_h / peak_factor) [kW] */
+    int too_hot;                /* liquor_temp_c_after > max_liquor_temp_c: cooling needed */
+    double sulfite_oxidised_mol; /* Na2SO3 turned to Na2SO4 by hypohalite in this run [mol] */
 };
 
 /* One liquor batch sent to waste (at a changeout, and the last one at campaign end). */
@@ -71,10 +85,17 @@ struct scrub_column_check {
 };
 
 struct scrub_unit_out {
-    double peak_acid_kmol_h;
+    double peak_acid_kmol_h;    /* highest clock-hour mean load [kmol/h] */
     int64_t peak_at_min;        /* start of the peak hour */
     int *peak_runs; int npeak_runs; /* run indices active in the peak hour, owned */
-    int overloaded;
+    int overloaded;             /* peak_instant_kmol_h > rated_acid_kmol_h (a rating is an
+                                 * instantaneous limit); 0 when no rating is given */
+    /* additions: */
+    double peak_instant_kmol_h; /* highest sum of the rates of runs venting at once [kmol/h] */
+    int64_t peak_instant_at_min; /* when it begins (earliest on a tie) */
+    int *peak_instant_runs; int npeak_instant_runs; /* run indices venting then, owned */
+    double max_liquor_temp_c;   /* hottest adiabatic liquor temperature of the campaign [C] */
+    int too_hot_runs;           /* runs with too_hot set */
     int changeouts;
     double naoh_kg;             /* consumed over the campaign */
     double makeup_kg;           /* purchased caustic solution for the changeouts [kg of makeup_naoh_wt_pct] */
@@ -92,6 +113,12 @@ double scrub_naoh_per_mol(int vent_species);
 double scrub_liquor_cp_kj_kg_k(double naoh_wt_pct);
 
 /* Run the whole campaign. order[0..nruns-1] lists run indices by start time.
+ * A vent window is [start, start + feed_h / peak_factor); a window ending at the very
+ * minute another starts does not overlap it.  Runs on a unit whose windows chain into
+ * each other form a group: the changeout decision is taken at the group's first run
+ * with the group's total NaOH need (the unit is never idle inside a group); a run that
+ * even then takes the liquor past its limit is flagged exhausted.  The packed-column
+ * check uses the instantaneous peak (flooding is an instantaneous limit).
  * run_out[nruns] and unit_out[nunits] are filled; free unit_out with
  * scrub_unit_out_free. Errors only for allocation or bad arguments.
  * Defaults: peak_factor <= 0 -> 1, makeup_naoh_wt_pct <= 0 -> 50, water liquor
@@ -102,6 +129,10 @@ enum hl_status scrub_campaign(const struct scrub_unit_in *units, int nunits,
                               const struct scrub_run_in *runs, int nruns, const int *order,
                               struct scrub_run_out *run_out, struct scrub_unit_out *unit_out,
                               struct hl_err *e);
+
+/* Heat released [kJ] per mol Na2SO3 oxidised in the liquor by SALT_NAOCL or
+ * SALT_NAOBR (Na2SO3 + NaOX -> Na2SO4 + NaX); 0 for any other salt. */
+double scrub_sulfite_redox_kj_per_mol(int hypohalite_salt);
 
 /* NTU for a fast irreversible reaction under gas-film control: ln(y_in/y_out). */
 double scrub_ntu(double y_in, double y_out);

@@ -14,12 +14,8 @@
 #include "formula.h"
 #include "hlerr.h"
 #include "kinetics.h"
+#include "sites.h" /* enum site_class */
 
-enum site_class {
-    SITE_PRIMARY, SITE_SECONDARY, SITE_TERTIARY, SITE_BENZYLIC, SITE_ALLYLIC,
-    SITE_VINYL_ARYL, /* unreactive to radical substitution */
-    SITE_CLASS_COUNT
-};
 
 /* Per-H relative reactivities (primary = 1 by convention) at ref_temp_c. */
 struct sel_reactivity {

@@ -14,8 +14,15 @@
 #define SITES_H
 
 #include "hlerr.h"
-#include "selectivity.h"
 #include "smiles.h"
+
+/* Class of a C-H for radical abstraction. */
+enum site_class {
+    SITE_PRIMARY, SITE_SECONDARY, SITE_TERTIARY, SITE_BENZYLIC, SITE_ALLYLIC,
+    SITE_VINYL_ARYL, /* unreactive to radical substitution */
+    SITE_CLASS_COUNT
+};
+
 
 /* Symmetry class of every atom into cls[m->natoms] (ids 0..*nclass-1, equal id =
  * topologically equivalent). HL_ERR_NOMEM only. */

@@ -301,6 +301,15 @@ static enum hl_status compute(const struct bal_in *in, struct bal_out *o, struct
     hl_free(pf);
     if (!st && !o->warning[0] && s->warning[0])
         snprintf(o->warning, sizeof o->warning, "%s", s->warning);
+    /* SO2Cl2 boils at about 69 C (from memory): above that, unreacted reagent the ledger
+     * keeps in the mass can leave with the vent gas and hydrolyse in the scrubber. */
+    if (!st && in->reagent == RG_SO2CL2 && in->temp_c >= 69.0 && o->reagent_left_kg > 0 &&
+        !o->warning[0])
+        snprintf(o->warning, sizeof o->warning,
+                 "%.1f kg of unreacted SO2Cl2 at %.0f C, above its boiling point (about 69 C): "
+                 "it may leave with the vent gas (SO2Cl2 + 4 NaOH -> Na2SO4 + 2 NaCl + 2 H2O in "
+                 "caustic); the ledger keeps it in the reaction mass",
+                 o->reagent_left_kg, in->temp_c);
     return st;
 }
 

@@ -1,7 +1,7 @@
 /*
  * hlmem.c - counting allocation wrapper (see hlmem.h).
  *
- * Why a wrapper: issue-level requirement that every allocation failure be
+ * Why a wrapper: every allocation failure must be
  * reachable from a test.  hl_mem_fail_at(n) arms a countdown; the n-th call
  * after it returns NULL exactly once.  Not thread-safe (haloledger is single
  * threaded).

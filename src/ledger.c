@@ -32,6 +32,11 @@ const char *ledger_role_name(enum bal_role r)
 
 static enum hl_status nomem(struct hl_err *e) { return hl_err_set(e, HL_ERR_NOMEM, "out of memory"); }
 
+/* Lists grow by doubling (capacity 8, 16, 32 ...), so n appends cost O(n): the capacity
+ * is implied by the count, and a new block is due when the count reaches it. */
+static int grow_due(int n) { return n == 0 || (n >= 8 && (n & (n - 1)) == 0); }
+static size_t grown(int n) { return n == 0 ? 8 : 2 * (size_t)n; }
+
 static enum hl_status warn(struct ledger *l, struct hl_err *e, const char *run, const char *fmt, ...)
     __attribute__((format(printf, 4, 5)));
 
@@ -42,10 +47,13 @@ static enum hl_status warn(struct ledger *l, struct hl_err *e, const char *run, 
     va_start(ap, fmt);
     vsnprintf(buf, sizeof buf, fmt, ap);
     va_end(ap);
-    struct ledger_warning *w = hl_realloc(l->warnings, (size_t)(l->nwarnings + 1) * sizeof *w);
-    if (!w)
-        return nomem(e);
-    l->warnings = w;
+    struct ledger_warning *w = l->warnings;
+    if (grow_due(l->nwarnings)) {
+        w = hl_realloc(l->warnings, grown(l->nwarnings) * sizeof *w);
+        if (!w)
+            return nomem(e);
+        l->warnings = w;
+    }
     w += l->nwarnings;
     w->run = hl_strdup(run);
     w->message = hl_strdup(buf);
@@ -67,10 +75,13 @@ static enum hl_status assume(struct ledger *l, struct hl_err *e, const char *wha
         if (!strcmp(l->assumptions[i].what, what) &&
             (!has_value || l->assumptions[i].value == value))
             return HL_OK;
-    struct ledger_assumption *a = hl_realloc(l->assumptions, (size_t)(l->nassumptions + 1) * sizeof *a);
-    if (!a)
-        return nomem(e);
-    l->assumptions = a;
+    struct ledger_assumption *a = l->assumptions;
+    if (grow_due(l->nassumptions)) {
+        a = hl_realloc(l->assumptions, grown(l->nassumptions) * sizeof *a);
+        if (!a)
+            return nomem(e);
+        l->assumptions = a;
+    }
     a += l->nassumptions;
     a->what = hl_strdup(what);
     a->unit = hl_strdup(unit ? unit : "");
@@ -177,8 +188,14 @@ static enum hl_status balance_runs(const struct campaign *c, struct ledger *l, s
 {
     const struct camp_run **sorted = hl_malloc((size_t)(c->nruns ? c->nruns : 1) * sizeof *sorted);
     l->runs = hl_calloc((size_t)(c->nruns ? c->nruns : 1), sizeof *l->runs);
-    if (!sorted || !l->runs) {
+    int nsrc = 1;
+    for (int i = 0; i < c->nruns; i++)
+        if (c->runs[i].src_index >= nsrc)
+            nsrc = c->runs[i].src_index + 1;
+    char *listed = hl_calloc((size_t)nsrc, 1);
+    if (!sorted || !l->runs || !listed) {
         hl_free(sorted);
+        hl_free(listed);
         return nomem(e);
     }
     for (int i = 0; i < c->nruns; i++)
@@ -221,10 +238,15 @@ static enum hl_status balance_runs(const struct campaign *c, struct ledger *l, s
             st = blame_run(c, r, e);
         else if (st == HL_OK && lr->bal.warning[0])
             st = warn(l, e, lr->id, "%s", lr->bal.warning);
-        if (!st)
+        /* repeats of one entry use the same values: list them once */
+        if (!st && !listed[r->src_index]) {
+            listed[r->src_index] = 1;
             st = run_assumptions(l, &in, &lr->bal, e);
+        }
+        sel_free(&lr->bal.sel); /* the products hold what the writers need */
     }
     hl_free(sorted);
+    hl_free(listed);
     return st;
 }
 
@@ -419,12 +441,8 @@ static enum hl_status build_months(struct ledger *l, struct hl_err *e)
         m->reagent_left_kg += b->reagent_left_kg;
     }
     for (int i = 0; i < l->norders; i++)
-        if (l->orders[i].item == RG_NAOH) {
-            /* caustic bought for changeouts, by month of need */
-            for (int j = 0; j < l->nmonths; j++)
-                if (l->months[j].month_index == l->orders[i].month_index)
-                    l->months[j].reagents_kg[RG_NAOH] += l->orders[i].demand_kg;
-        }
+        if (l->orders[i].item == RG_NAOH) /* caustic bought for changeouts, by month of need */
+            month_of(l, l->orders[i].first_use_min)->reagents_kg[RG_NAOH] += l->orders[i].demand_kg;
     for (int u = 0; u < l->nscrubbers; u++)
         for (int j = 0; j < l->scrubbers[u].out.nspent; j++) {
             const struct scrub_spent *sp = &l->scrubbers[u].out.spent[j];

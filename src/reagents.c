@@ -131,7 +131,11 @@ static const struct caution_info cautions[CA_COUNT] = {
         "Toxic, corrosive gas, heavier than air, that pools in low places; attacks eyes and "
         "airways, with lung oedema that can appear hours after a heavy exposure. A strong "
         "oxidiser that supports burning. Stored as a liquid under pressure, so a small liquid "
-        "leak gives a large gas release.",
+        "leak gives a large gas release. In radical chlorination, chlorine fed while initiation "
+        "(light, heat, initiator) has stalled accumulates and can then react all at once: a "
+        "runaway with a surge of HCl to the vent; feed only against proven consumption. "
+        "Chlorine with hydrocarbon vapour in a headspace or vent line can form explosive "
+        "mixtures (common practice).",
         "Ammonia and amines (explosive nitrogen chlorides), hydrogen, hydrocarbons and other "
         "organics (violent or explosive reaction, especially in light), finely divided metals; "
         "dry chlorine ignites titanium; wet chlorine corrodes steel. Hypochlorite liquor mixed "
@@ -148,7 +152,8 @@ static const struct caution_info cautions[CA_COUNT] = {
              "3 ppm", "TWA 0.1 ppm, STEL 0.2 ppm"),
         "Very toxic, dense fuming liquid whose vapour is much heavier than air; deep, slow-"
         "healing burns to skin and eyes (sometimes delayed); attacks the airways. Strong "
-        "oxidiser.",
+        "oxidiser. Bromine dosed while the radical chain has stalled accumulates and can react "
+        "all at once, with a surge of HBr to the vent (common practice).",
         "Aluminium and several other metals (violent), alkali metals, ammonia, reducing agents, "
         "organic matter and hydrocarbons; moisture makes it corrosive to most metals. "
         "Hypobromite liquor mixed with acid gives bromine back.",
@@ -176,7 +181,10 @@ static const struct caution_info cautions[CA_COUNT] = {
         "Hydrogen bromide (HBr)", "10035-10-6",
         LIM4("C 3 ppm (10 mg/m3)", "TWA 3 ppm (10 mg/m3)", "30 ppm", "C 2 ppm"),
         "Corrosive gas, stored liquefied under pressure; fumes in moist air and burns eyes, "
-        "skin and airways. Its aqueous acid corrodes most metals with hydrogen evolution.",
+        "skin and airways. Its aqueous acid corrodes most metals with hydrogen evolution. The "
+        "radical (anti-Markovnikov) addition runs on peroxide or other radical initiators, "
+        "which are themselves heat- and shock-sensitive; the addition is exothermic, and HBr "
+        "fed while initiation has stalled accumulates (common practice).",
         "Bases and caustic (strong heat), oxidisers (bromine formed), hypochlorite liquor, "
         "reactive metals, cyanides and sulfides.",
         "Closed transfer; goggles and face shield, acid-resistant gloves and clothing; "
@@ -224,18 +232,20 @@ static const struct caution_info cautions[CA_COUNT] = {
         "check solvent compatibility.",
     },
     [CA_NAOCL] = {
-        "Sodium hypochlorite liquor (NaOCl, spent scrubber liquor)", "7681-52-9",
+        "Hypochlorite / hypobromite liquor (NaOCl, NaOBr: spent scrubber liquor)", "7681-52-9",
         LIM_NONE,
         "Corrosive, alkaline, oxidising liquor. Acidified, it releases chlorine gas (see the "
         "Cl2 limits). Decomposes with heat, light and traces of nickel, copper or cobalt, "
-        "giving oxygen and chlorate.",
+        "giving oxygen and chlorate; a hot liquor (above about 40 C, common practice) turns to "
+        "chlorate faster and absorbs chlorine worse. Bromine on caustic gives hypobromite, "
+        "which behaves alike and releases bromine with acid.",
         "Acids of any kind - chlorine is released: never route acid drains or acid gas into a "
         "hypochlorite tank, and keep the scrubber from running out of caustic. Ammonia and "
         "amines (chloramines), organic matter and reducers, nickel, copper and cobalt.",
         "Goggles and face shield, alkali-resistant gloves and apron; vented, labelled tanks; "
         "segregate from acids in storage and in drains.",
-        "NaOCl liquor: oxidising alkali - with acid it releases chlorine; keep acids and "
-        "ammonia away.",
+        "NaOCl/NaOBr liquor: oxidising alkali - with acid it releases Cl2/Br2; keep acids and "
+        "ammonia away, keep it cool.",
     },
     [CA_NAOH] = {
         "Sodium hydroxide (caustic soda, NaOH)", "1310-73-2",

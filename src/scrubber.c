@@ -11,6 +11,7 @@
 #include "scrubber.h"
 
 #include <math.h>
+#include <stdlib.h>
 #include <string.h>
 
 #include "hlmem.h"
@@ -37,9 +38,10 @@ static const double gas_mm[VS_COUNT] = {
 static const double salt_mm[SALT_COUNT] = {
     [SALT_NACL] = W_NA + W_CL,         [SALT_NABR] = W_NA + W_BR,
     [SALT_NAOCL] = W_NA + W_O + W_CL,  [SALT_NAOBR] = W_NA + W_O + W_BR,
-    [SALT_NA2SO3] = 2 * W_NA + W_S + 3 * W_O};
+    [SALT_NA2SO3] = 2 * W_NA + W_S + 3 * W_O, [SALT_NA2SO4] = 2 * W_NA + W_S + 4 * W_O};
 
-static const char *const salt_names[SALT_COUNT] = {"NaCl", "NaBr", "NaOCl", "NaOBr", "Na2SO3"};
+static const char *const salt_names[SALT_COUNT] = {"NaCl", "NaBr", "NaOCl", "NaOBr", "Na2SO3",
+                                                   "Na2SO4"};
 
 /* ---- standard enthalpies of formation at 298.15 K, 1 bar [kJ/mol] ----
  * NBS = Wagman et al., "The NBS tables of chemical thermodynamic properties",
@@ -51,9 +53,10 @@ static const char *const salt_names[SALT_COUNT] = {"NaCl", "NaBr", "NaOCl", "NaO
  * ion values recalled without the table in hand are marked "from memory". */
 enum tsp {
     T_H2O, T_HCL_G, T_HCL_AQ, T_HBR_G, T_CL2_G, T_BR2_G, T_SO2_G, T_NAOH_AQ,
-    T_NACL_AQ, T_NABR_AQ, T_NAOCL_AQ, T_NAOBR_AQ, T_NA2SO3_AQ, T_COUNT
+    T_NACL_AQ, T_NABR_AQ, T_NAOCL_AQ, T_NAOBR_AQ, T_NA2SO3_AQ, T_NA2SO4_AQ, T_COUNT
 };
-/* ion values (NBS 1982): Na+(aq) -240.12; ClO-(aq) -107.1, BrO-(aq) -94.1, SO3^2-(aq) -635.5 */
+/* ion values (NBS 1982): Na+(aq) -240.12; ClO-(aq) -107.1, BrO-(aq) -94.1, SO3^2-(aq) -635.5,
+ * SO4^2-(aq) -909.27 (from memory; the CODATA 1989 key value is -909.34, from memory) */
 #define DFH_NA_ION (-240.12)
 static const struct scrub_dfh dfh[T_COUNT] = {
     [T_H2O] = {"H2O(l)", -285.830, "NBS 1982 (CODATA 1989 -285.830)"},
@@ -72,6 +75,9 @@ static const struct scrub_dfh dfh[T_COUNT] = {
                     "Na+(aq) -240.12 (NBS 1982) + BrO-(aq) -94.1 (NBS 1982, from memory)"},
     [T_NA2SO3_AQ] = {"Na2SO3(aq)", 2 * DFH_NA_ION - 635.5,
                      "2 Na+(aq) (NBS 1982) + SO3^2-(aq) -635.5 (NBS 1982, from memory)"},
+    [T_NA2SO4_AQ] = {"Na2SO4(aq)", 2 * DFH_NA_ION - 909.27,
+                     "2 Na+(aq) (NBS 1982) + SO4^2-(aq) -909.27 (NBS 1982, from memory); the "
+                     "NBS entry Na2SO4(aq) -1389.51 is the same sum (from memory)"},
 };
 
 const struct scrub_dfh *scrub_dfh_get(int i)
@@ -93,7 +99,7 @@ static const struct rxn rxns[VS_COUNT] = {
     [VS_SO2] = {T_SO2_G, 2, {SALT_NA2SO3, -1}, {1, 0}},
 };
 static const int salt_tsp[SALT_COUNT] = {T_NACL_AQ, T_NABR_AQ, T_NAOCL_AQ, T_NAOBR_AQ,
-                                         T_NA2SO3_AQ};
+                                         T_NA2SO3_AQ, T_NA2SO4_AQ};
 
 double scrub_heat_kj_per_mol(int vs, int water_liquor)
 {
@@ -108,6 +114,19 @@ double scrub_heat_kj_per_mol(int vs, int water_liquor)
     for (int k = 0; k < 2; k++)
         if (r->salt[k] >= 0)
             h += r->nsalt[k] * dfh[salt_tsp[r->salt[k]]].dfh_kj_mol;
+    return -h; /* released */
+}
+
+/* Sulfite and hypohalite cannot coexist in the liquor: SO3^2- + OX^- -> SO4^2- + X^-
+ * (fast in alkaline solution; the same reaction that dechlorinates water with sulfite).
+ * Na+ is a spectator, so the heat is that of the ions. */
+double scrub_sulfite_redox_kj_per_mol(int salt)
+{
+    int halide = salt == SALT_NAOCL ? SALT_NACL : salt == SALT_NAOBR ? SALT_NABR : -1;
+    if (halide < 0)
+        return 0;
+    double h = dfh[T_NA2SO4_AQ].dfh_kj_mol + dfh[salt_tsp[halide]].dfh_kj_mol -
+               dfh[T_NA2SO3_AQ].dfh_kj_mol - dfh[salt_tsp[salt]].dfh_kj_mol;
     return -h; /* released */
 }
 
@@ -259,12 +278,19 @@ static void column_check(const struct scrub_unit_in *u, double peak_kmol_h, doub
 #define MAX_HOURS (20L * 366 * 24) /* a load profile longer than 20 years is a bad input */
 #define DEFAULT_MAX_ACID_WT_PCT 20.0 /* same default as campaign.c (HCl-water azeotrope, from memory) */
 #define DEFAULT_MAKEUP_WT_PCT 50.0   /* purchased caustic soda 50 %: common practice */
+#define DEFAULT_FRESH_TEMP_C 25.0    /* liquor charged at about room temperature: common practice */
+/* Hypochlorite liquor is kept below about 40 C: above it hypochlorite disproportionates to
+ * chlorate faster and the liquor absorbs Cl2 worse (common practice; hot water also holds
+ * less HCl, so the same default serves a water liquor). */
+#define DEFAULT_MAX_TEMP_C 40.0
 
 struct liq {
     double naoh, water, hcl, salt[SALT_COUNT]; /* kg in the unit */
+    double temp_c;           /* adiabatic liquor temperature: no cooling since the last fill */
     int dirty;               /* something absorbed since the last fill */
     int used;                /* any run on this unit */
-    double busy_until_min;   /* end of the latest vent window so far */
+    double group_busy_min;   /* end of the latest vent window of the current group */
+    int group;               /* current group while grouping, then the last group seen */
     int64_t first_min;       /* earliest run start */
     double last_end_min;     /* latest vent-window end */
     double gas_mol, gas_g;   /* totals, for the column's mean acid molar mass */
@@ -280,12 +306,18 @@ static double liq_mass(const struct liq *q)
     return m;
 }
 
+static double fresh_temp_c(const struct scrub_unit_in *u)
+{
+    return u->fresh_liquor_temp_c != 0 ? u->fresh_liquor_temp_c : DEFAULT_FRESH_TEMP_C;
+}
+
 static void fill(const struct scrub_unit_in *u, struct liq *q)
 {
     q->naoh = u->water_liquor ? 0 : u->liquor_kg * u->naoh_wt_pct / 100.0;
     q->water = u->liquor_kg - q->naoh;
     q->hcl = 0;
     memset(q->salt, 0, sizeof q->salt);
+    q->temp_c = fresh_temp_c(u);
     q->dirty = 0;
 }
 
@@ -312,7 +344,9 @@ static enum hl_status push_spent(struct scrub_unit_out *o, struct liq *q, int64_
 }
 
 /* Would absorbing vent (mol) break the liquor limit? Caustic: NaOH wt% below the
- * minimum (or NaOH short); water: HCl wt% above the maximum. */
+ * minimum (or NaOH short); water: HCl wt% above the maximum.  Both strengths move
+ * one way only as gas is absorbed, so the test on a group's total holds for every
+ * run of the group. */
 static int over_limit(const struct scrub_unit_in *u, const struct liq *q, const double *vent)
 {
     double gas_kg = 0, naoh_kg = 0;
@@ -331,6 +365,36 @@ static int over_limit(const struct scrub_unit_in *u, const struct liq *q, const 
         return 0;
     double left = q->naoh - naoh_kg;
     return left < 0 || left / (liq_mass(q) + gas_kg) * 100.0 < u->min_naoh_wt_pct;
+}
+
+/* Sulfite meets hypohalite in the liquor: Na2SO3 + NaOX -> Na2SO4 + NaX, whichever is
+ * in excess remains.  Hypochlorite goes first, being the stronger oxidant (standard
+ * potentials in base ClO-/Cl- +0.89 V, BrO-/Br- +0.76 V, from memory).  No NaOH is used
+ * and the mass is unchanged (same atoms).  Amounts in kmol = kg / (g/mol). */
+static void sulfite_redox(struct liq *q, struct scrub_run_out *r)
+{
+    static const int hypo[2] = {SALT_NAOCL, SALT_NAOBR}, halide[2] = {SALT_NACL, SALT_NABR};
+    for (int k = 0; k < 2; k++) {
+        double so3 = q->salt[SALT_NA2SO3] / salt_mm[SALT_NA2SO3];
+        double ox = q->salt[hypo[k]] / salt_mm[hypo[k]];
+        double n = so3 < ox ? so3 : ox;
+        if (!(n > 0))
+            continue;
+        double d_so3 = -n * salt_mm[SALT_NA2SO3], d_ox = -n * salt_mm[hypo[k]];
+        /* the limiting one is used up exactly (no round-off residue left behind) */
+        if (so3 <= ox)
+            d_so3 = -q->salt[SALT_NA2SO3];
+        else
+            d_ox = -q->salt[hypo[k]];
+        const int sp[4] = {SALT_NA2SO3, hypo[k], SALT_NA2SO4, halide[k]};
+        const double d[4] = {d_so3, d_ox, n * salt_mm[SALT_NA2SO4], n * salt_mm[halide[k]]};
+        for (int j = 0; j < 4; j++) {
+            q->salt[sp[j]] += d[j];
+            r->salt_kg[sp[j]] += d[j];
+        }
+        r->heat_kj += n * 1000.0 * scrub_sulfite_redox_kj_per_mol(hypo[k]);
+        r->sulfite_oxidised_mol += n * 1000.0;
+    }
 }
 
 /* Absorb one run's vent into the liquor and fill the run's liquor figures. */
@@ -376,22 +440,27 @@ static void absorb(const struct scrub_unit_in *u, struct liq *q, const double *v
         }
         if (q->naoh < 0)
             q->naoh = 0; /* round-off only: f caps the use at what is there */
+        sulfite_redox(q, r);
     }
     double mass = liq_mass(q);
     if (mass > mass_before)
         q->dirty = 1;
     /* The heat warms the whole liquor after absorption; cp at the strength the run
-     * starts with (an input cp overrides the built-in tables). */
+     * starts with (an input cp overrides the built-in tables).  No cooling: the rises
+     * add up until the next fresh charge (pessimistic). */
     double cp = u->liquor_cp_kj_kg_k > 0 ? u->liquor_cp_kj_kg_k
                 : u->water_liquor ? scrub_hcl_acid_cp_kj_kg_k(wt_before)
                                   : scrub_liquor_cp_kj_kg_k(wt_before);
     r->temp_rise_k = mass > 0 ? r->heat_kj / (mass * cp) : 0;
+    q->temp_c += r->temp_rise_k;
+    r->liquor_temp_c_after = q->temp_c;
+    double max_t = u->max_liquor_temp_c != 0 ? u->max_liquor_temp_c : DEFAULT_MAX_TEMP_C;
+    r->too_hot = q->temp_c > max_t;
     r->naoh_left_kg = q->naoh;
     r->liquor_kg_after = mass;
     r->naoh_wt_pct_after = mass > 0 ? q->naoh / mass * 100.0 : 0;
     r->acid_wt_pct_after = u->water_liquor && mass > 0 ? q->hcl / mass * 100.0 : 0;
 }
-
 static enum hl_status check_inputs(const struct scrub_unit_in *units, int nunits,
                                    const struct scrub_run_in *runs, int nruns, const int *order,
                                    char *seen, struct hl_err *e)
@@ -406,6 +475,11 @@ static enum hl_status check_inputs(const struct scrub_unit_in *units, int nunits
             return hl_err_set(e, HL_ERR_INPUT,
                               "scrubber %s: need 0 < naoh_wt_pct < 100 and 0 <= min_naoh_wt_pct < "
                               "naoh_wt_pct", id);
+        if (!isfinite(u->fresh_liquor_temp_c) || !(u->fresh_liquor_temp_c > -273.15) ||
+            !isfinite(u->max_liquor_temp_c))
+            return hl_err_set(e, HL_ERR_INPUT,
+                              "scrubber %s: liquor temperatures must be finite and above -273.15 C",
+                              id);
         if (u->water_liquor && !(u->max_acid_wt_pct < 100))
             return hl_err_set(e, HL_ERR_INPUT, "scrubber %s: max_acid_wt_pct must be < 100", id);
         if (u->has_column &&
@@ -439,6 +513,16 @@ static enum hl_status check_inputs(const struct scrub_unit_in *units, int nunits
 
 static double pf_of(const struct scrub_run_in *r) { return r->peak_factor > 0 ? r->peak_factor : 1.0; }
 
+/* End of a run's vent window [min].  feed_h / peak_factor x 60 is rarely an exact binary
+ * number (2 h / 1.5 = 80 min), so an end within 1e-6 min of a whole minute is that minute:
+ * "ends at 08:50" and "starts at 08:50" must compare equal (no overlap). */
+static double vent_end_min(const struct scrub_run_in *r)
+{
+    double end = (double)r->start_min + r->feed_h / pf_of(r) * 60.0;
+    double whole = round(end);
+    return fabs(end - whole) < 1e-6 ? whole : end;
+}
+
 static int64_t floor_div(int64_t a, int64_t b) { return a / b - ((a % b != 0) && ((a < 0) != (b < 0))); }
 
 void scrub_unit_out_free(struct scrub_unit_out *u, int nunits)
@@ -447,13 +531,113 @@ void scrub_unit_out_free(struct scrub_unit_out *u, int nunits)
         return;
     for (int i = 0; i < nunits; i++) {
         hl_free(u[i].peak_runs);
+        hl_free(u[i].peak_instant_runs);
         hl_free(u[i].hourly_kmol_h);
         hl_free(u[i].spent);
-        u[i].peak_runs = NULL;
+        u[i].peak_runs = u[i].peak_instant_runs = NULL;
         u[i].hourly_kmol_h = NULL;
         u[i].spent = NULL;
-        u[i].npeak_runs = u[i].nhours = u[i].nspent = 0;
+        u[i].npeak_runs = u[i].npeak_instant_runs = u[i].nhours = u[i].nspent = 0;
     }
+}
+
+/* One vent-window edge for the instantaneous peak sweep. */
+struct edge {
+    int unit;
+    int start;      /* 1 = window opens, 0 = closes */
+    double t_min;
+    double rate;    /* kmol/h */
+    int run;
+};
+
+static int edge_cmp(const void *pa, const void *pb)
+{
+    const struct edge *a = pa, *b = pb;
+    if (a->unit != b->unit)
+        return a->unit < b->unit ? -1 : 1;
+    if (a->t_min != b->t_min)
+        return a->t_min < b->t_min ? -1 : 1;
+    if (a->start != b->start)
+        return a->start < b->start ? -1 : 1;
+    return (a->run > b->run) - (a->run < b->run);
+}
+
+/* Instantaneous peak per unit: the load is a step function that changes only at window
+ * edges, so its maximum is reached just after some group of edges at one time.  The load
+ * is read only after every edge at that time is applied, so a window closing at the
+ * minute another opens never adds to it.  One sort of the 2n edges, one sweep
+ * (Neumaier-compensated running sum, reset when the unit falls idle), then one pass over
+ * the runs for the ones venting at the peak, whose rates are summed afresh so the figure
+ * carries no sweep round-off. */
+static enum hl_status instant_peaks(const struct scrub_run_in *runs, int nruns, const int *order,
+                                    const struct scrub_run_out *run_out, int nunits,
+                                    struct scrub_unit_out *unit_out, struct hl_err *e)
+{
+    struct edge *ev = hl_malloc((size_t)(2 * nruns + 1) * sizeof *ev);
+    if (!ev)
+        return hl_err_set(e, HL_ERR_NOMEM, "out of memory in the scrubber model");
+    int ne = 0;
+    for (int i = 0; i < nruns; i++) {
+        const struct scrub_run_in *r = &runs[i];
+        double rate = run_out[i].acid_kmol_h;
+        if (r->unit < 0 || !(rate > 0))
+            continue;
+        ev[ne++] = (struct edge){r->unit, 1, (double)r->start_min, rate, i};
+        ev[ne++] = (struct edge){r->unit, 0, vent_end_min(r), rate, i};
+    }
+    qsort(ev, (size_t)ne, sizeof *ev, edge_cmp);
+    for (int k = 0; k < ne;) {
+        int u = ev[k].unit, active = 0;
+        double sum = 0, comp = 0, best = 0, at = 0;
+        for (; k < ne && ev[k].unit == u;) {
+            double t_now = ev[k].t_min;
+            for (; k < ne && ev[k].unit == u && ev[k].t_min == t_now; k++) {
+                double x = ev[k].start ? ev[k].rate : -ev[k].rate, s = sum + x;
+                comp += fabs(sum) >= fabs(x) ? (sum - s) + x : (x - s) + sum;
+                sum = s;
+                active += ev[k].start ? 1 : -1;
+            }
+            if (active == 0)
+                sum = comp = 0;
+            /* earliest time wins a tie, including ties broken only by round-off */
+            if (sum + comp > best * (1 + 1e-12) + 1e-300) {
+                best = sum + comp;
+                at = t_now;
+            }
+        }
+        unit_out[u].peak_instant_at_min = (int64_t)at; /* maxima begin at a start: whole minutes */
+        unit_out[u].peak_instant_kmol_h = best;
+    }
+    hl_free(ev);
+
+    /* runs venting at each unit's peak instant [at, at + 0): start <= at < end */
+    for (int pass = 0; pass < 2; pass++) {
+        for (int u = 0; u < nunits; u++) {
+            if (pass == 1 && unit_out[u].npeak_instant_runs &&
+                !(unit_out[u].peak_instant_runs =
+                      hl_malloc((size_t)unit_out[u].npeak_instant_runs * sizeof(int))))
+                return hl_err_set(e, HL_ERR_NOMEM, "out of memory in the scrubber model");
+            unit_out[u].npeak_instant_runs = 0;
+            if (pass == 1)
+                unit_out[u].peak_instant_kmol_h = 0;
+        }
+        for (int k = 0; k < nruns; k++) {
+            int i = order[k];
+            const struct scrub_run_in *r = &runs[i];
+            if (r->unit < 0 || !(run_out[i].acid_kmol_h > 0))
+                continue;
+            struct scrub_unit_out *o = &unit_out[r->unit];
+            double at = (double)o->peak_instant_at_min;
+            if (!((double)r->start_min <= at && vent_end_min(r) > at))
+                continue;
+            if (pass == 1) {
+                o->peak_instant_runs[o->npeak_instant_runs] = i;
+                o->peak_instant_kmol_h += run_out[i].acid_kmol_h;
+            }
+            o->npeak_instant_runs++;
+        }
+    }
+    return HL_OK;
 }
 
 enum hl_status scrub_campaign(const struct scrub_unit_in *units, int nunits,
@@ -473,7 +657,9 @@ enum hl_status scrub_campaign(const struct scrub_unit_in *units, int nunits,
     char *seen = hl_calloc((size_t)(nruns ? nruns : 1), 1);
     struct liq *q = hl_calloc((size_t)(nunits ? nunits : 1), sizeof *q);
     double **diff = hl_calloc((size_t)(nunits ? nunits : 1), sizeof *diff);
-    if (!seen || !q || !diff) {
+    int *grp = hl_malloc((size_t)(nruns ? nruns : 1) * sizeof *grp);
+    double *gvent = hl_calloc((size_t)(nruns ? nruns : 1) * VS_COUNT, sizeof *gvent);
+    if (!seen || !q || !diff || !grp || !gvent) {
         st = hl_err_set(e, HL_ERR_NOMEM, "out of memory in the scrubber model");
         goto out;
     }
@@ -503,6 +689,8 @@ enum hl_status scrub_campaign(const struct scrub_unit_in *units, int nunits,
     }
     for (int u = 0; u < nunits; u++) {
         struct scrub_unit_out *o = &unit_out[u];
+        q[u].group = -1;
+        q[u].group_busy_min = -HUGE_VAL;
         if (!q[u].used)
             continue;
         o->hour0_min = floor_div(q[u].first_min, 60) * 60;
@@ -521,8 +709,32 @@ enum hl_status scrub_campaign(const struct scrub_unit_in *units, int nunits,
             goto out;
         }
         fill(&units[u], &q[u]);
-        q[u].busy_until_min = -HUGE_VAL;
+        o->max_liquor_temp_c = q[u].temp_c;
     }
+
+    /* Pass 1b, in start order: groups of runs whose vent windows chain into each other on
+     * a unit (a run joins the group when it starts before the group's latest end), and
+     * each group's total vent, so the changeout is decided once for the whole group. */
+    int ngroups = 0;
+    for (int k = 0; k < nruns; k++) {
+        int i = order[k];
+        const struct scrub_run_in *r = &runs[i];
+        if (r->unit < 0)
+            continue;
+        struct liq *l = &q[r->unit];
+        double end = vent_end_min(r);
+        if (l->group < 0 || (double)r->start_min >= l->group_busy_min) {
+            l->group = ngroups++;
+            l->group_busy_min = end;
+        } else if (end > l->group_busy_min) {
+            l->group_busy_min = end;
+        }
+        grp[i] = l->group;
+        for (int v = 0; v < VS_COUNT; v++)
+            gvent[(size_t)l->group * VS_COUNT + (size_t)v] += r->vent_mol[v];
+    }
+    for (int u = 0; u < nunits; u++)
+        q[u].group = -1;
 
     /* Pass 2, in start order: liquor run by run, and each run's vent into the bins.
      * The vent leaves at rate = amount / feed_h x peak_factor over [start, start +
@@ -560,10 +772,12 @@ enum hl_status scrub_campaign(const struct scrub_unit_in *units, int nunits,
             }
         }
 
-        if (over_limit(u, l, r->vent_mol)) {
-            /* A changeout needs the unit idle (no other run venting into it) and is
-             * pointless on fresh liquor; otherwise the run is flagged. */
-            if (l->dirty && (double)r->start_min >= l->busy_until_min) {
+        /* At a group's first run the unit is idle: charge fresh liquor when the liquor in
+         * the unit cannot carry the whole group (pointless on fresh liquor).  Inside a
+         * group no changeout is possible; a run past the limit is flagged. */
+        if (grp[i] != l->group) {
+            l->group = grp[i];
+            if (l->dirty && over_limit(u, l, &gvent[(size_t)grp[i] * VS_COUNT])) {
                 if ((st = push_spent(o, l, r->start_min, 0))) {
                     hl_err_set(e, st, "out of memory in the scrubber model");
                     goto out;
@@ -572,15 +786,16 @@ enum hl_status scrub_campaign(const struct scrub_unit_in *units, int nunits,
                 o->changeouts++;
                 ro->changeout_before = 1;
             }
-            if (over_limit(u, l, r->vent_mol))
-                ro->exhausted = 1;
         }
+        if (over_limit(u, l, r->vent_mol))
+            ro->exhausted = 1;
         absorb(u, l, r->vent_mol, ro);
+        ro->heat_kw = ro->heat_kj / (r->feed_h / pf_of(r) * 3600.0);
         o->naoh_kg += ro->naoh_kg;
         o->heat_kj += ro->heat_kj;
-        double end = (double)r->start_min + r->feed_h / pf_of(r) * 60.0;
-        if (end > l->busy_until_min)
-            l->busy_until_min = end;
+        if (ro->liquor_temp_c_after > o->max_liquor_temp_c)
+            o->max_liquor_temp_c = ro->liquor_temp_c_after;
+        o->too_hot_runs += ro->too_hot;
     }
 
     /* Per unit: the profile, its peak, the final liquor and the caustic make-up. */
@@ -604,8 +819,6 @@ enum hl_status scrub_campaign(const struct scrub_unit_in *units, int nunits,
         }
         o->peak_acid_kmol_h = best > 0 ? best : 0;
         o->peak_at_min = o->hour0_min + (int64_t)at * 60;
-        o->overloaded = ui->rated_acid_kmol_h > 0 &&
-                        o->peak_acid_kmol_h > ui->rated_acid_kmol_h * (1 + 1e-12);
         if ((st = push_spent(o, &q[u], (int64_t)ceil(q[u].last_end_min - 1e-9), 1))) {
             hl_err_set(e, st, "out of memory in the scrubber model");
             goto out;
@@ -646,11 +859,18 @@ enum hl_status scrub_campaign(const struct scrub_unit_in *units, int nunits,
             }
     }
 
-    for (int u = 0; u < nunits; u++)
+    if ((st = instant_peaks(runs, nruns, order, run_out, nunits, unit_out, e)))
+        goto out;
+    for (int u = 0; u < nunits; u++) {
+        struct scrub_unit_out *o = &unit_out[u];
+        /* a rating is an instantaneous limit: held against the instantaneous peak */
+        o->overloaded = units[u].rated_acid_kmol_h > 0 &&
+                        o->peak_instant_kmol_h > units[u].rated_acid_kmol_h * (1 + 1e-12);
         if (units[u].has_column) {
             double mm = q[u].gas_mol > 0 ? q[u].gas_g / q[u].gas_mol : gas_mm[VS_HCL];
-            column_check(&units[u], unit_out[u].peak_acid_kmol_h, mm, &unit_out[u].column);
+            column_check(&units[u], o->peak_instant_kmol_h, mm, &o->column);
         }
+    }
 
 out:
     if (st && nunits && unit_out) {
@@ -661,6 +881,8 @@ out:
         for (int u = 0; u < nunits; u++)
             hl_free(diff[u]);
     hl_free(diff);
+    hl_free(gvent);
+    hl_free(grp);
     hl_free(q);
     hl_free(seen);
     return st;

@@ -9,7 +9,7 @@
  * the same code works in libxlsxwriter's constant_memory mode, which a very
  * large ledger needs (a cell costs ~100 bytes in the default mode).
  *
- * Robustness (library-notes.md): user text only through
+ * Robustness (libxlsxwriter 1.1.4 pitfalls, docs/library-notes.md): user text only through
  * worksheet_write_string (never a formula), checked as UTF-8, control
  * characters replaced, held to 32767 bytes; numbers checked finite before
  * they reach %.16G; chart series point at plain number cells; the creation

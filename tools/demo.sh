@@ -5,7 +5,10 @@ bin=$1
 mkdir -p out/demo
 for c in campaigns/*.json; do
     name=$(basename "$c" .json)
-    "$bin" report "$c" --today 2027-02-20 -o "out/demo/$name.xlsx" -o "out/demo/$name.json" 2>"out/demo/$name.warnings.txt" || {
+    # the March campaign is shown as seen on 2027-02-20, so its late order is flagged
+    today=""
+    [ "$name" = harrowmere-march ] && today="--today 2027-02-20"
+    "$bin" report "$c" $today -o "out/demo/$name.xlsx" -o "out/demo/$name.json" 2>"out/demo/$name.warnings.txt" || {
         cat "out/demo/$name.warnings.txt" >&2; exit 1; }
 done
 echo "demo ledgers written to $(pwd)/out/demo/:"
