@@ -703,11 +703,11 @@ static void xo_runs(struct xw *w)
     xb_col(&b, XK_KG, 1, "Succinimide formed [kg]");
     for (int s = 0; s < VS_COUNT; s++)
         xb_col(&b, XK_KG, 1, "%s to scrubber [kg]", xo_vent(s));
-    xb_col(&b, XK_RATE, 0, "Acid gas rate [kmol/h]");
+    xb_col(&b, XK_RATE, 0, "Vent gas to scrubber [kmol/h]");
     xb_col(&b, XK_KG, 1, "NaOH used [kg]");
     xb_col(&b, XK_HEAT, 1, "Heat to liquor [kJ]");
-    xb_col(&b, XK_TEMP, 0, "Temperature rise [K]");
-    xb_col(&b, XK_TEXT, 0, "Changeout before");
+    xb_col(&b, XK_TEMP, 0, "Liquor temperature rise [K]");
+    xb_col(&b, XK_TEXT, 0, "Liquor changed before run");
     xb_col(&b, XK_SCI, 0, "Element balance error [relative]");
     xb_col(&b, XK_TEXT, 0, "Note");
     xb_place(&b, 1);
@@ -732,7 +732,7 @@ static void row_product(struct xw *w, struct xblock *b, lxw_row_t row, int i)
     int k = 0;
     xb_text(w, b, row, k++, r->id);
     xb_text(w, b, row, k++, xo_item(r->reagent));
-    xb_text(w, b, row, k++, p->smiles ? p->smiles : "(structure not resolved)");
+    xb_text(w, b, row, k++, p->smiles); /* blank: no unambiguous structure */
     xb_text(w, b, row, k++, p->formula);
     xb_num(w, b, row, k++, p->degree);
     xb_text(w, b, row, k++, ledger_role_name(p->role));
@@ -759,7 +759,7 @@ static void xo_products(struct xw *w)
     xb_col(&b, XK_GMOL, 0, "Molar mass [g/mol]");
     xb_col(&b, XK_MOL, 1, "Amount [mol]");
     xb_col(&b, XK_KG, 1, "Mass [kg]");
-    xb_col(&b, XK_MOLFRAC, 0, "Share [mol/mol substrate charged]");
+    xb_col(&b, XK_MOLFRAC, 0, "Share of substrate charged [mol %%]");
     xb_place(&b, 1);
     xo_blocks(w, &b, 1);
 }
@@ -900,7 +900,7 @@ static void xo_scrubber(struct xw *w)
     xb_col(a, XK_TEXT, 0, "Run");
     xb_col(a, XK_DATE, 0, "Start (plant time)");
     xb_col(a, XK_TEXT, 0, "Fresh liquor before run");
-    xb_col(a, XK_RATE, 0, "Acid gas rate [kmol/h]");
+    xb_col(a, XK_RATE, 0, "Vent gas to scrubber [kmol/h]");
     xb_col(a, XK_KG, 1, "NaOH used [kg]");
     xb_col(a, XK_KG, 0, "NaOH left [kg]");
     xb_col(a, XK_KG, 0, "Liquor after run [kg]");
@@ -910,7 +910,7 @@ static void xo_scrubber(struct xw *w)
     xb_col(a, XK_KG, 0, "Water formed [kg]");
     xb_col(a, XK_PCT, 0, "HCl in water liquor [wt%%]");
     xb_col(a, XK_HEAT, 1, "Heat released [kJ]");
-    xb_col(a, XK_TEMP, 0, "Temperature rise [K]");
+    xb_col(a, XK_TEMP, 0, "Liquor temperature rise [K]");
     xb_col(a, XK_TEXT, 0, "Liquor exhausted");
     struct xblock *u = &b[1];
     xb_col(u, XK_TEXT, 0, "Scrubber");
@@ -975,22 +975,21 @@ static void xo_orders(struct xw *w)
     struct xblock b = {.fn = row_order, .nrows = w->l->norders, .empty_note = "Nothing to order."};
     xb_col(&b, XK_TEXT, 0, "Month");
     xb_col(&b, XK_TEXT, 0, "Item");
-    xb_col(&b, XK_KG, 1, "Demand [kg]");
+    /* no totals row: the lines mix reagents and caustic, whose sum means nothing */
+    xb_col(&b, XK_KG, 0, "Demand [kg]");
     xb_col(&b, XK_KG, 0, "Stock at month start [kg]");
     xb_col(&b, XK_KG, 0, "Safety stock [kg]");
-    xb_col(&b, XK_KG, 1, "To order [kg]");
+    xb_col(&b, XK_KG, 0, "To order [kg]");
     xb_col(&b, XK_TEXT, 0, "Container");
     xb_col(&b, XK_KG, 0, "Container net [kg]");
     xb_col(&b, XK_KG, 0, "Heel left in container [kg]");
-    xb_col(&b, XK_INT, 1, "Containers [count]");
-    xb_col(&b, XK_KG, 1, "Usable content ordered [kg]");
+    xb_col(&b, XK_INT, 0, "Containers [count]");
+    xb_col(&b, XK_KG, 0, "Usable content ordered [kg]");
     xb_col(&b, XK_KG, 0, "Stock at month end [kg]");
     xb_col(&b, XK_DATE, 0, "First use (plant time)");
     xb_col(&b, XK_DAY, 0, "Order by (date)");
     xb_col(&b, XK_TEXT, 0, "Late");
     xb_col(&b, XK_TEXT, 0, "Note");
-    b.notes[0] = "Totals add all items together (reagents and caustic make-up).";
-    b.nnotes = 1;
     xb_place(&b, 1);
     xo_blocks(w, &b, 1);
 }

@@ -249,7 +249,7 @@ def check_numbers(tag, wb, led):
              "Reagent charged [mol]": lambda r: r["reagent_charged"]["mol"],
              "HCl formed [kg]": lambda r: r["byproducts"]["HCl_kg"],
              "Succinimide formed [kg]": lambda r: r["byproducts"]["succinimide_kg"],
-             "Acid gas rate [kmol/h]": lambda r: r["vent"]["acid_kmol_h"],
+             "Vent gas to scrubber [kmol/h]": lambda r: r["vent"]["acid_kmol_h"],
              "NaOH used [kg]": lambda r: r["scrubber"]["naoh_kg"],
              "Heat to liquor [kJ]": lambda r: r["scrubber"]["heat_kj"],
              "HCl to scrubber [kg]": lambda r: r["vent"]["HCl_mol"] * M_HCL / 1e3}
@@ -304,7 +304,7 @@ def check_numbers(tag, wb, led):
                   and (p["smiles"] is None or x[h["Structure (SMILES)"] - 1] == p["smiles"])
                   and all(same(x[h[k] - 1], p[j], 1e-12) or x[h[k] - 1] == p[j] == 0 for k, j in
                           (("Amount [mol]", "mol"), ("Mass [kg]", "kg"),
-                           ("Share [mol/mol substrate charged]", "mol_fraction"))))
+                           ("Share of substrate charged [mol %]", "mol_fraction"))))
             check(ok, f"{tag}: Products row {x[:6]} differs from JSON {rid} {p}")
     # Orders
     ws = wb["Orders"]
