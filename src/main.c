@@ -110,18 +110,22 @@ static void print_summary(const struct ledger *l)
         double acid = 0;
         for (int v = 0; v < VS_COUNT; v++)
             acid += m->vent_kg[v];
-        printf("  %s  runs %d  product %.1f kg  isomers %.1f kg  over-halogenated %.1f kg"
-               "  to scrubber %.1f kg  NaOH %.1f kg  changeouts %d\n",
+        printf("  %s  runs %d  wanted product %.1f kg  isomers %.1f kg  over-halogenated %.1f kg"
+               "  gas to scrubber %.1f kg  NaOH consumed %.1f kg  changeouts %d\n",
                month, m->runs, m->product_kg, m->isomer_kg, m->overhal_kg, acid, m->naoh_kg,
                m->changeouts);
         for (int r = 0; r < RG_COUNT; r++)
-            if (m->reagents_kg[r] > 0)
-                printf("           %-7s %.1f kg\n", reagent_get(r)->name, m->reagents_kg[r]);
+            if (m->reagents_kg[r] > 0 && r != RG_NAOH)
+                printf("           %-7s %.1f kg charged\n", reagent_get(r)->name, m->reagents_kg[r]);
+        if (m->reagents_kg[RG_NAOH] > 0)
+            printf("           caustic make-up bought for changeouts %.1f kg (as purchased solution)\n",
+                   m->reagents_kg[RG_NAOH]);
     }
     for (int i = 0; i < l->nscrubbers; i++) {
         const struct ledger_scrubber *s = &l->scrubbers[i];
         isodate_format(s->out.peak_at_min, 0, when, sizeof when);
-        printf("  scrubber %s: peak %.3f kmol/h at %s (rated %.3f)%s, %d changeouts, NaOH %.1f kg\n",
+        printf("  scrubber %s: hourly peak %.3f kmol/h in the hour from %s (rated %.3f)%s, "
+               "%d changeouts, NaOH consumed %.1f kg\n",
                s->id, s->out.peak_acid_kmol_h, when, s->rated_acid_kmol_h,
                s->out.overloaded ? " OVERLOADED" : "", s->out.changeouts, s->out.naoh_kg);
     }
