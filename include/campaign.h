@@ -20,7 +20,8 @@
  *             liquor_kg R; min_naoh_wt_pct [0, naoh_wt_pct) = 2 (naoh only);
  *             max_acid_wt_pct (0,60] = 20 (water only); rated_acid_kmol_h (0,1e6] R;
  *             makeup_naoh_wt_pct (0,100] = 50, >= naoh_wt_pct; liquor_cp_kj_kg_k [0.5,10]
- *             (absent = 0 = built-in); column {packing_factor_1_m (0,1e4] R, htu_m (0,20] R,
+ *             (absent = 0 = built-in); fresh_liquor_temp_c [-20,80] = 25;
+ *             max_liquor_temp_c (0,150] = 40; column {packing_factor_1_m (0,1e4] R, htu_m (0,20] R,
  *             removal_fraction (0,1) R, flood_fraction (0,1) = 0.7, carrier_kmol_h (0,1e6] R,
  *             liquor_kg_h R, gas_temp_c [-40,200] = 25}.
  *  stock:     reagent R (incl. "NaOH"; one entry per reagent); on_hand_kg [0,1e9) R;
@@ -89,6 +90,8 @@ struct camp_scrubber {
     double rated_acid_kmol_h;
     double makeup_naoh_wt_pct;  /* strength of purchased caustic, default 50 */
     double liquor_cp_kj_kg_k;   /* 0 = the built-in correlation */
+    double fresh_liquor_temp_c; /* fresh liquor and idle-unit temperature, default 25 */
+    double max_liquor_temp_c;   /* warn above it (no cooling modelled), default 40 */
     struct camp_column column;
     struct camp_pos pos;
 };

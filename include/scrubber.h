@@ -31,7 +31,7 @@ struct scrub_unit_in {
     int has_column;
     double packing_factor_1_m, htu_m, removal_fraction, flood_fraction;
     double carrier_kmol_h, liquor_kg_h, gas_temp_c;
-    /* additions (0 = default): */
+    /* 0 = default: */
     double fresh_liquor_temp_c; /* liquor at the first fill and every fresh charge; 0 -> 25 C */
     double max_liquor_temp_c;   /* hottest liquor allowed (caustic: hypochlorite turns to
                                  * chlorate and absorbs Cl2 worse above it); 0 -> 40 C */
@@ -55,14 +55,16 @@ struct scrub_run_out {
     double salt_kg[SALT_COUNT];
     double water_formed_kg;
     double acid_wt_pct_after;   /* water liquor: HCl wt% after the run */
-    /* additions: */
     int unabsorbed;             /* water liquor: gas other than HCl passed through (warning) */
     double unabsorbed_mol;      /* that gas [mol] */
     double breakthrough_mol;    /* caustic ran out: gas left unneutralised [mol] */
     /* salt_kg is the net change of each salt in the liquor during the run: with the
      * sulfite/hypohalite reaction a salt already in the liquor can be used up (< 0). */
-    double liquor_temp_c_after; /* adiabatic liquor temperature after the run (no cooling
-                                 * since the last fresh charge) [C] */
+    double liquor_temp_c_after; /* adiabatic liquor temperature after the run: heat piles up
+                                 * within a group of overlapping runs, the idle unit is back
+                                 * at fresh_liquor_temp_c before the next group; no cooler is
+                                 * modelled, so past about 100 C it only says the heat
+                                 * would boil the liquor [C] */
     double heat_kw;             /* heat_kj / vent window (feed_h / peak_factor) [kW] */
     int too_hot;                /* liquor_temp_c_after > max_liquor_temp_c: cooling needed */
     double sulfite_oxidised_mol; /* Na2SO3 turned to Na2SO4 by hypohalite in this run [mol] */
@@ -79,7 +81,6 @@ struct scrub_column_check {
     int present;
     double gas_kmol_h, y_in, y_out, ntu, height_m, diameter_m, flood_velocity_m_s;
     double flow_parameter;      /* (L/G) sqrt(rho_g/rho_l) */
-    /* additions: */
     double gas_density_kg_m3, liquid_density_kg_m3, design_velocity_m_s;
     int outside_fit;            /* flow parameter outside the fit range 0.01..10 (clamped) */
 };
@@ -90,7 +91,6 @@ struct scrub_unit_out {
     int *peak_runs; int npeak_runs; /* run indices active in the peak hour, owned */
     int overloaded;             /* peak_instant_kmol_h > rated_acid_kmol_h (a rating is an
                                  * instantaneous limit); 0 when no rating is given */
-    /* additions: */
     double peak_instant_kmol_h; /* highest sum of the rates of runs venting at once [kmol/h] */
     int64_t peak_instant_at_min; /* when it begins (earliest on a tie) */
     int *peak_instant_runs; int npeak_instant_runs; /* run indices venting then, owned */
@@ -137,9 +137,10 @@ double scrub_sulfite_redox_kj_per_mol(int hypohalite_salt);
 /* NTU for a fast irreversible reaction under gas-film control: ln(y_in/y_out). */
 double scrub_ntu(double y_in, double y_out);
 
+/* Free what scrub_campaign allocated in unit_out[0..nunits-1] and zero it. */
 void scrub_unit_out_free(struct scrub_unit_out *u, int nunits);
 
-/* ---- additions ---- */
+/* ---- property tables and correlations (also shown on the Assumptions sheet) ---- */
 
 /* Standard enthalpy of formation used by the heats, with its source (Assumptions sheet). */
 struct scrub_dfh { const char *species; double dfh_kj_mol; const char *source; };

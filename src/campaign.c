@@ -1043,10 +1043,11 @@ static void merge_model(struct camp_model *run, const struct camp_model *camp)
 
 /* scrubbers */
 enum { SK_ID, SK_LIQUOR, SK_NAOH, SK_LIQKG, SK_MIN, SK_MAXACID, SK_RATED, SK_MAKEUP, SK_CP, SK_COLUMN,
-       SK_NOTE, SK_N };
+       SK_NOTE, SK_FRESHT, SK_MAXT, SK_N };
 static const char *const scrub_keys[SK_N] = {
     "id", "liquor", "naoh_wt_pct", "liquor_kg", "min_naoh_wt_pct", "max_acid_wt_pct",
-    "rated_acid_kmol_h", "makeup_naoh_wt_pct", "liquor_cp_kj_kg_k", "column", "note"};
+    "rated_acid_kmol_h", "makeup_naoh_wt_pct", "liquor_cp_kj_kg_k", "column", "note",
+    "fresh_liquor_temp_c", "max_liquor_temp_c"};
 enum { CK_FP, CK_HTU, CK_REMOVAL, CK_FLOOD, CK_CARRIER, CK_LIQ, CK_GAST, CK_N };
 static const char *const col_keys[CK_N] = {"packing_factor_1_m", "htu_m", "removal_fraction",
                                            "flood_fraction", "carrier_kmol_h", "liquor_kg_h",
@@ -1094,6 +1095,8 @@ static enum hl_status parse_scrubber(struct vctx *c, const cJSON *o, struct camp
     s->max_acid_wt_pct = 20;     /* near the HCl-water azeotrope, 20.2 wt% at 1 atm (from memory) */
     s->makeup_naoh_wt_pct = 50;  /* the usual commercial caustic strength (common practice) */
     s->liquor_cp_kj_kg_k = 0;
+    s->fresh_liquor_temp_c = 25; /* ambient (common practice) */
+    s->max_liquor_temp_c = 40;   /* hypochlorite liquor kept below about 40 C (common practice) */
     if (!k[SK_ID])
         return missing(c, o, "id", NULL);
     if ((st = dup_str(c, k[SK_ID], T_TEXT | T_NONEMPTY, MAX_ID, &s->id)))
@@ -1117,7 +1120,8 @@ static enum hl_status parse_scrubber(struct vctx *c, const cJSON *o, struct camp
         }
     }
     const struct rng rwt = {0, 50, 1, 0}, rmin = {0, 50, 0, 1}, racid = {0, 60, 1, 0},
-                     rrate = {0, 1e6, 1, 0}, rmk = {0, 100, 1, 0}, rcp = {0.5, 10, 0, 0};
+                     rrate = {0, 1e6, 1, 0}, rmk = {0, 100, 1, 0}, rcp = {0.5, 10, 0, 0},
+                     rfresh = {-20, 80, 0, 0}, rmaxt = {0, 150, 1, 0};
     if ((k[SK_NAOH] && (st = get_num(c, k[SK_NAOH], rwt, &s->naoh_wt_pct))) ||
         (!k[SK_LIQKG] && (st = missing(c, o, "liquor_kg", NULL))) ||
         (st = get_num(c, k[SK_LIQKG], R_POS_KG, &s->liquor_kg)) ||
@@ -1126,7 +1130,9 @@ static enum hl_status parse_scrubber(struct vctx *c, const cJSON *o, struct camp
         (!k[SK_RATED] && (st = missing(c, o, "rated_acid_kmol_h", NULL))) ||
         (st = get_num(c, k[SK_RATED], rrate, &s->rated_acid_kmol_h)) ||
         (k[SK_MAKEUP] && (st = get_num(c, k[SK_MAKEUP], rmk, &s->makeup_naoh_wt_pct))) ||
-        (k[SK_CP] && (st = get_num(c, k[SK_CP], rcp, &s->liquor_cp_kj_kg_k))))
+        (k[SK_CP] && (st = get_num(c, k[SK_CP], rcp, &s->liquor_cp_kj_kg_k))) ||
+        (k[SK_FRESHT] && (st = get_num(c, k[SK_FRESHT], rfresh, &s->fresh_liquor_temp_c))) ||
+        (k[SK_MAXT] && (st = get_num(c, k[SK_MAXT], rmaxt, &s->max_liquor_temp_c))))
         return st;
     if (s->liquor == CAMP_LIQUOR_NAOH) {
         if (s->min_naoh_wt_pct >= s->naoh_wt_pct) {

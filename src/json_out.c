@@ -396,6 +396,12 @@ static cJSON *jo_run(struct jo *w, const struct ledger *l, int i)
         jo_num(w, salts, jo_salt_key[k], s->salt_kg[k]);
     jo_num(w, sc, "water_formed_kg", s->water_formed_kg);
     jo_num(w, sc, "acid_wt_pct_after", s->acid_wt_pct_after);
+    jo_num(w, sc, "liquor_temp_c_after", s->liquor_temp_c_after);
+    jo_num(w, sc, "heat_kw", s->heat_kw);
+    jo_bool(w, sc, "too_hot", s->too_hot);
+    jo_num(w, sc, "sulfite_oxidised_mol", s->sulfite_oxidised_mol);
+    jo_num(w, sc, "breakthrough_mol", s->breakthrough_mol);
+    jo_num(w, sc, "unabsorbed_mol", s->unabsorbed_mol);
 
     cJSON *eb = jo_obj(w, o, "element_balance");
     jo_num(w, eb, "max_rel_error", b->max_rel_error);
@@ -495,6 +501,22 @@ static cJSON *jo_scrubber(struct jo *w, const struct ledger *l, int i)
         }
         jo_arr_str(w, pr, l->runs[ri].id);
     }
+    jo_num(w, o, "peak_instant_kmol_h", s->peak_instant_kmol_h);
+    if (s->npeak_instant_runs > 0)
+        jo_date(w, o, "peak_instant_at", s->peak_instant_at_min, 0);
+    else
+        jo_null(w, o, "peak_instant_at");
+    cJSON *pi = jo_arr(w, o, "peak_instant_runs");
+    for (int k = 0; k < s->npeak_instant_runs && pi; k++) {
+        int ri = s->peak_instant_runs[k];
+        if (ri < 0 || ri >= l->nruns) {
+            jo_badkey(w, o, "peak_instant_runs", "run index out of range");
+            break;
+        }
+        jo_arr_str(w, pi, l->runs[ri].id);
+    }
+    jo_num(w, o, "max_liquor_temp_c", s->max_liquor_temp_c);
+    jo_num(w, o, "too_hot_runs", s->too_hot_runs);
     cJSON *h = jo_obj(w, o, "hourly");
     if (s->nhours > 0)
         jo_date(w, h, "start", s->hour0_min, 0);

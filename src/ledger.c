@@ -282,7 +282,9 @@ static enum hl_status run_scrubbers(const struct campaign *c, struct ledger *l, 
             .packing_factor_1_m = s->column.packing_factor_1_m, .htu_m = s->column.htu_m,
             .removal_fraction = s->column.removal_fraction, .flood_fraction = s->column.flood_fraction,
             .carrier_kmol_h = s->column.carrier_kmol_h, .liquor_kg_h = s->column.liquor_kg_h,
-            .gas_temp_c = s->column.gas_temp_c};
+            .gas_temp_c = s->column.gas_temp_c,
+            .fresh_liquor_temp_c = s->fresh_liquor_temp_c,
+            .max_liquor_temp_c = s->max_liquor_temp_c};
     }
     for (int i = 0; i < nr; i++) {
         const struct ledger_run *lr = &l->runs[i];
@@ -365,8 +367,8 @@ static enum hl_status own_container_names(struct ledger *l, struct hl_err *e)
             continue;
         char *dup = hl_strdup(l->orders[i].container);
         if (!dup) {
-            for (int j = 0; j < i; j++)
-                hl_free((char *)l->orders[j].container);
+            /* the copies made so far are freed with the ledger; the rest are still
+             * borrowed from the campaign and must not be */
             for (int j = i; j < l->norders; j++)
                 l->orders[j].container = NULL;
             return nomem(e);
@@ -453,7 +455,8 @@ static enum hl_status build_months(struct ledger *l, struct hl_err *e)
 
 /* ---- warnings, cautions, assumptions ---- */
 
-static enum hl_status collect_warnings(struct ledger *l, struct hl_err *e)
+static enum hl_status collect_warnings(const struct campaign *c, struct ledger *l,
+                                       struct hl_err *e)
 {
     enum hl_status st = HL_OK;
     char when[20];
@@ -480,10 +483,44 @@ static enum hl_status collect_warnings(struct ledger *l, struct hl_err *e)
     }
     for (int u = 0; u < l->nscrubbers && !st; u++) {
         const struct ledger_scrubber *s = &l->scrubbers[u];
-        if (s->out.overloaded) {
-            isodate_format(s->out.peak_at_min, 0, when, sizeof when);
-            st = warn(l, e, NULL, "scrubber %s overloaded: peak %.3f kmol/h at %s exceeds rated %.3f kmol/h",
-                      s->id, s->out.peak_acid_kmol_h, when, s->rated_acid_kmol_h);
+        const struct scrub_unit_out *o = &s->out;
+        if (o->overloaded) {
+            isodate_format(o->peak_instant_at_min, 0, when, sizeof when);
+            char runs[200] = "";
+            for (int k = 0, n = 0; k < o->npeak_instant_runs; k++) {
+                const char *id = l->runs[o->peak_instant_runs[k]].id;
+                if (n + strlen(id) + 4 >= sizeof runs) {
+                    snprintf(runs + n, sizeof runs - (size_t)n, ", ...");
+                    break;
+                }
+                n += snprintf(runs + n, sizeof runs - (size_t)n, "%s%s", k ? ", " : "", id);
+            }
+            st = warn(l, e, NULL,
+                      "scrubber %s overloaded: %.3f kmol/h from %s (runs %s) exceeds the rated "
+                      "%.3f kmol/h (hourly mean peak %.3f kmol/h)",
+                      s->id, o->peak_instant_kmol_h, when, runs, s->rated_acid_kmol_h,
+                      o->peak_acid_kmol_h);
+        }
+        if (!st && o->too_hot_runs > 0) {
+            double duty = 0;
+            const char *hottest = NULL;
+            double hot_t = -HUGE_VAL;
+            for (int i = 0; i < l->nruns; i++)
+                if (l->runs[i].scrubber_index == u) {
+                    const struct scrub_run_out *ro = &l->runs[i].scrub;
+                    if (ro->heat_kw > duty)
+                        duty = ro->heat_kw;
+                    if (ro->liquor_temp_c_after > hot_t) {
+                        hot_t = ro->liquor_temp_c_after;
+                        hottest = l->runs[i].id;
+                    }
+                }
+            st = warn(l, e, NULL,
+                      "scrubber %s needs liquor cooling: without it the liquor would reach %.0f C "
+                      "in run %s (limit %.0f C, %d runs above it); the largest heat duty of a run "
+                      "is %.0f kW",
+                      s->id, hot_t, hottest ? hottest : "?", c->scrubbers[u].max_liquor_temp_c,
+                      o->too_hot_runs, duty);
         }
     }
     for (int i = 0; i < l->norders && !st; i++) {
@@ -534,10 +571,24 @@ static enum hl_status collect_assumptions(struct ledger *l, struct hl_err *e)
     char what[160];
     for (int v = 0; v < VS_COUNT; v++) {
         snprintf(what, sizeof what, "Heat of absorption of %s in caustic liquor", vent_name(v));
-        if ((st = assume(l, e, what, 1, scrub_heat_kj_per_mol(v, 0), "kJ/mol",
+        if ((st = assume(l, e, what, 1, scrub_heat_kj_per_mol(v, 0), "kJ/mol released",
                          "from standard enthalpies of formation (scrubber.c table)")))
             return st;
     }
+    if ((st = assume(l, e, "Heat of Na2SO3 + NaOCl -> Na2SO4 + NaCl in the liquor", 1,
+                     scrub_sulfite_redox_kj_per_mol(SALT_NAOCL), "kJ/mol released",
+                     "from standard enthalpies of formation (scrubber.c table)")) ||
+        (st = assume(l, e, "Heat of Na2SO3 + NaOBr -> Na2SO4 + NaBr in the liquor", 1,
+                     scrub_sulfite_redox_kj_per_mol(SALT_NAOBR), "kJ/mol released",
+                     "from standard enthalpies of formation (scrubber.c table)")) ||
+        (st = assume(l, e, "Liquor temperature", 0, 0, NULL,
+                     "adiabatic: heat piles up within a group of overlapping runs; an idle unit "
+                     "is back at fresh_liquor_temp_c (default 25 C) before the next group; no "
+                     "cooler is modelled (common practice assumption)")) ||
+        (st = assume(l, e, "Highest liquor temperature before a cooling warning", 1, 40, "C",
+                     "default of max_liquor_temp_c: hypochlorite liquor turns to chlorate faster "
+                     "and absorbs chlorine worse when hot (common practice)")))
+        return st;
     for (int v = 0; v < VS_COUNT; v++) {
         snprintf(what, sizeof what, "NaOH used per mol of %s", vent_name(v));
         if ((st = assume(l, e, what, 1, scrub_naoh_per_mol(v), "mol/mol",
@@ -575,7 +626,7 @@ enum hl_status ledger_build(const struct campaign *c, const struct ledger_opts *
         goto fail;
     if ((st = run_scrubbers(c, l, e)) || (st = plan_orders(c, l, e)) ||
         (st = own_container_names(l, e)) || (st = build_months(l, e)) ||
-        (st = collect_warnings(l, e)))
+        (st = collect_warnings(c, l, e)))
         goto fail;
     collect_cautions(l);
     *out = l;

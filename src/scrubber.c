@@ -777,6 +777,10 @@ enum hl_status scrub_campaign(const struct scrub_unit_in *units, int nunits,
          * group no changeout is possible; a run past the limit is flagged. */
         if (grp[i] != l->group) {
             l->group = grp[i];
+            /* between groups the unit stands idle (hours to days here): the liquor is taken
+             * back at the fresh-liquor temperature, so heat piles up only within a group of
+             * overlapping runs (common practice assumption; no cooler is modelled) */
+            l->temp_c = fresh_temp_c(u);
             if (l->dirty && over_limit(u, l, &gvent[(size_t)grp[i] * VS_COUNT])) {
                 if ((st = push_spent(o, l, r->start_min, 0))) {
                     hl_err_set(e, st, "out of memory in the scrubber model");

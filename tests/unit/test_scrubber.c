@@ -79,6 +79,24 @@ static void heats(void)
         CU_ASSERT(found);
     }
     CU_ASSERT_PTR_NULL(scrub_dfh_get(-1));
+    /* sulfite + hypohalite by hand, from ion values (NBS 1982; SO4^2- -909.27, SO3^2- -635.5,
+     * ClO- -107.1, BrO- -94.1 from memory; Cl- -167.159, Br- -121.55):
+     *   SO3^2- + ClO- -> SO4^2- + Cl-:  -909.27 - 167.159 + 635.5 + 107.1 = -333.83 kJ/mol
+     *   SO3^2- + BrO- -> SO4^2- + Br-:  -909.27 - 121.55 + 635.5 + 94.1  = -301.22 kJ/mol
+     * (the table's neutral NaCl(aq) -407.27 differs from Na+ + Cl- by 0.01) */
+    ASSERT_ABS(scrub_sulfite_redox_kj_per_mol(SALT_NAOCL), 333.83, 0.02);
+    ASSERT_ABS(scrub_sulfite_redox_kj_per_mol(SALT_NAOBR), 301.22, 0.02);
+    ASSERT_ABS(scrub_sulfite_redox_kj_per_mol(SALT_NACL), 0, 0);
+    ASSERT_ABS(scrub_sulfite_redox_kj_per_mol(SALT_COUNT), 0, 0);
+    int found = 0;
+    for (int i = 0; scrub_dfh_get(i); i++)
+        if (!strcmp(scrub_dfh_get(i)->species, "Na2SO4(aq)")) {
+            found = 1;
+            /* 2 Na+(aq) -240.12 + SO4^2-(aq) -909.27 = -1389.51 (NBS 1982) */
+            ASSERT_ABS(scrub_dfh_get(i)->dfh_kj_mol, -1389.51, 0.006);
+            CU_ASSERT_PTR_NOT_NULL(strstr(scrub_dfh_get(i)->source, "from memory"));
+        }
+    CU_ASSERT(found);
 }
 
 static void stoichiometry(void)
@@ -95,7 +113,14 @@ static void stoichiometry(void)
     ASSERT_REL(scrub_salt_molar_mass_g_mol(SALT_NAOCL), 74.439, 1e-9);
     ASSERT_REL(scrub_salt_molar_mass_g_mol(SALT_NAOBR), 118.893, 1e-9);
     ASSERT_REL(scrub_salt_molar_mass_g_mol(SALT_NA2SO3), 126.037, 1e-9);
+    ASSERT_REL(scrub_salt_molar_mass_g_mol(SALT_NA2SO4), 2 * A_NA + A_S + 4 * A_O, 1e-12);
+    ASSERT_REL(scrub_salt_molar_mass_g_mol(SALT_NA2SO4), 142.036, 1e-9);
     CU_ASSERT_STRING_EQUAL(scrub_salt_name(SALT_NAOCL), "NaOCl");
+    CU_ASSERT_STRING_EQUAL(scrub_salt_name(SALT_NA2SO4), "Na2SO4");
+    CU_ASSERT_PTR_NULL(scrub_salt_name(SALT_COUNT));
+    /* the redox keeps the atoms: Na2SO3 + NaOCl weighs what Na2SO4 + NaCl weighs */
+    ASSERT_REL(scrub_salt_molar_mass_g_mol(SALT_NA2SO3) + scrub_salt_molar_mass_g_mol(SALT_NAOCL),
+               scrub_salt_molar_mass_g_mol(SALT_NA2SO4) + scrub_salt_molar_mass_g_mol(SALT_NACL), 1e-14);
 }
 
 static void properties(void)
@@ -139,6 +164,15 @@ static void one_run_by_hand(void)
     /* adiabatic rise dT = Q / (m cp) by hand: 1.3068e6 / (6364.58 x 3.6) = 57.0 K */
     ASSERT_REL(ro.temp_rise_k, heat / ((6000 + gas) * 3.6), 1e-12);
     ASSERT_ABS(ro.temp_rise_k, 57.03, 0.05);
+    /* adiabatic liquor from the default 25 C fill; 82 C is past the default 40 C limit */
+    ASSERT_REL(ro.liquor_temp_c_after, 25 + ro.temp_rise_k, 1e-12);
+    CU_ASSERT_EQUAL(ro.too_hot, 1);
+    ASSERT_REL(uo.max_liquor_temp_c, ro.liquor_temp_c_after, 1e-12);
+    CU_ASSERT_EQUAL(uo.too_hot_runs, 1);
+    /* heat duty: 1.3068e6 kJ over the 5 h window = 72.6 kW */
+    ASSERT_REL(ro.heat_kw, heat / (5 * 3600.0), 1e-12);
+    ASSERT_ABS(ro.heat_kw, 72.60, 0.01);
+    ASSERT_ABS(ro.sulfite_oxidised_mol, 0, 0);
     ASSERT_ABS(ro.acid_kmol_h, 2.0, 1e-12); /* 10 kmol / 5 h */
     CU_ASSERT_EQUAL(ro.changeout_before, 0);
     CU_ASSERT_EQUAL(ro.exhausted, 0);
@@ -152,6 +186,21 @@ static void one_run_by_hand(void)
         ASSERT_REL(uo.spent[0].mass_kg, 6000 + gas, 1e-12);
     }
     scrub_unit_out_free(&uo, 1);
+    /* a liquor charged at 10 C and allowed to 70 C: 67 C is not too hot */
+    u.fresh_liquor_temp_c = 10;
+    u.max_liquor_temp_c = 70;
+    CU_ASSERT_EQUAL(go(&u, 1, &r, 1, &ro, &uo), HL_OK);
+    ASSERT_REL(ro.liquor_temp_c_after, 10 + heat / ((6000 + gas) * 3.6), 1e-12);
+    CU_ASSERT_EQUAL(ro.too_hot, 0);
+    CU_ASSERT_EQUAL(uo.too_hot_runs, 0);
+    scrub_unit_out_free(&uo, 1);
+    /* peak factor 2: the same heat over a 2.5 h window doubles the duty */
+    r.peak_factor = 2;
+    CU_ASSERT_EQUAL(go(&u, 1, &r, 1, &ro, &uo), HL_OK);
+    ASSERT_REL(ro.heat_kw, heat / (2.5 * 3600.0), 1e-12);
+    scrub_unit_out_free(&uo, 1);
+    r.peak_factor = 1;
+    u.fresh_liquor_temp_c = u.max_liquor_temp_c = 0;
     /* built-in cp: 18 % interpolated between 10 % and 20 % rows */
     u.liquor_cp_kj_kg_k = 0;
     CU_ASSERT_EQUAL(go(&u, 1, &r, 1, &ro, &uo), HL_OK);
@@ -170,13 +219,17 @@ static void all_salts(void)
     struct scrub_unit_out uo;
     CU_ASSERT_EQUAL(go(&u, 1, &r, 1, &ro, &uo), HL_OK);
     ASSERT_REL(ro.naoh_kg, 8 * MM_NAOH, 1e-12); /* 1+1+2+2+2 kmol */
-    ASSERT_REL(ro.salt_kg[SALT_NACL], 2 * (A_NA + A_CL), 1e-12); /* from HCl and Cl2 */
     ASSERT_REL(ro.salt_kg[SALT_NABR], 2 * (A_NA + A_BR), 1e-12);
-    ASSERT_REL(ro.salt_kg[SALT_NAOCL], 74.439, 1e-9);
     ASSERT_REL(ro.salt_kg[SALT_NAOBR], 118.893, 1e-9);
-    ASSERT_REL(ro.salt_kg[SALT_NA2SO3], 126.037, 1e-9);
+    /* the 1 kmol sulfite meets the 1 kmol hypochlorite (the stronger oxidant goes first):
+     * Na2SO3 + NaOCl -> Na2SO4 + NaCl, both used up, hypobromite left alone */
+    ASSERT_ABS(ro.salt_kg[SALT_NAOCL], 0, 1e-12);
+    ASSERT_ABS(ro.salt_kg[SALT_NA2SO3], 0, 1e-12);
+    ASSERT_REL(ro.salt_kg[SALT_NA2SO4], 142.036, 1e-9); /* 2 Na + S + 4 O, CIAAW 2021 */
+    ASSERT_REL(ro.salt_kg[SALT_NACL], 3 * (A_NA + A_CL), 1e-12);
+    ASSERT_REL(ro.sulfite_oxidised_mol, 1000, 1e-12);
     ASSERT_REL(ro.water_formed_kg, 5 * MM_H2O, 1e-12);
-    double heat = 0;
+    double heat = 1000 * scrub_sulfite_redox_kj_per_mol(SALT_NAOCL);
     for (int v = 0; v < VS_COUNT; v++)
         heat += 1000 * scrub_heat_kj_per_mol(v, 0);
     ASSERT_REL(ro.heat_kj, heat, 1e-12);
@@ -219,6 +272,13 @@ static void changeout_boundary(void)
         CU_ASSERT_EQUAL(uo.spent[1].final, 1);
         CU_ASSERT_EQUAL(uo.spent[1].at_min, t("2027-03-04T08:00"));
     }
+    /* the runs do not overlap: the idle unit is back at 25 C before each one, so each
+     * run's own rise counts (heat piles up only inside a group of overlapping runs) */
+    for (int i = 0; i < 3; i++)
+        ASSERT_REL(ro[i].liquor_temp_c_after, 25 + ro[i].temp_rise_k, 1e-12);
+    ASSERT_REL(uo.max_liquor_temp_c,
+               fmax(ro[0].liquor_temp_c_after,
+                    fmax(ro[1].liquor_temp_c_after, ro[2].liquor_temp_c_after)), 1e-12);
     /* make-up: one fresh charge of 100 kg NaOH bought as 50 % solution = 200 kg */
     ASSERT_REL(uo.makeup_kg, 200, 1e-12);
     ASSERT_REL(uo.naoh_kg, ro[0].naoh_kg + ro[1].naoh_kg + ro[2].naoh_kg, 1e-12);
@@ -293,6 +353,10 @@ static void peak_overlap(void)
     ASSERT_ABS(uo.peak_acid_kmol_h, 2.0, 1e-12);
     CU_ASSERT_EQUAL(uo.peak_at_min, t("2027-03-02T07:00"));
     CU_ASSERT_EQUAL(uo.npeak_runs, 2);
+    /* instantaneous: both vent 07:00-08:00, 2 kmol/h from 07:00 */
+    ASSERT_ABS(uo.peak_instant_kmol_h, 2.0, 1e-12);
+    CU_ASSERT_EQUAL(uo.peak_instant_at_min, t("2027-03-02T07:00"));
+    CU_ASSERT_EQUAL(uo.npeak_instant_runs, 2);
     CU_ASSERT_EQUAL(uo.overloaded, 0); /* equal to the rating is not over it */
     CU_ASSERT_EQUAL(uo.hour0_min, t("2027-03-02T06:00"));
     CU_ASSERT_EQUAL(uo.nhours, 3);
@@ -310,6 +374,8 @@ static void peak_overlap(void)
     CU_ASSERT_EQUAL(go(&u, 1, r, 2, ro, &uo), HL_OK);
     ASSERT_ABS(uo.peak_acid_kmol_h, 1.5, 1e-12);
     CU_ASSERT_EQUAL(uo.peak_at_min, t("2027-03-02T07:00"));
+    ASSERT_ABS(uo.peak_instant_kmol_h, 2.0, 1e-12);
+    CU_ASSERT_EQUAL(uo.peak_instant_at_min, t("2027-03-02T07:30"));
     CU_ASSERT_EQUAL(uo.overloaded, 1);
     CU_ASSERT_EQUAL(uo.nhours, 4);
     double sum = 0;
@@ -318,6 +384,23 @@ static void peak_overlap(void)
     ASSERT_ABS(sum, 4.0, 1e-12); /* amount conserved: 2 + 2 kmol */
     if (uo.nhours == 4)
         ASSERT_ABS(uo.hourly_kmol_h[3], 0.5, 1e-12);
+    scrub_unit_out_free(&uo, 1);
+    /* rated 1.6: the hourly peak 1.5 is under it, the 2 kmol/h for 30 min is not */
+    u.rated_acid_kmol_h = 1.6;
+    CU_ASSERT_EQUAL(go(&u, 1, r, 2, ro, &uo), HL_OK);
+    CU_ASSERT(uo.peak_acid_kmol_h < 1.6);
+    CU_ASSERT_EQUAL(uo.overloaded, 1);
+    scrub_unit_out_free(&uo, 1);
+    /* touching windows (B from 08:00, when A stops) never add: 1 kmol/h, earliest = A alone */
+    r[1].start_min = t("2027-03-02T08:00");
+    u.rated_acid_kmol_h = 1.0;
+    CU_ASSERT_EQUAL(go(&u, 1, r, 2, ro, &uo), HL_OK);
+    ASSERT_ABS(uo.peak_instant_kmol_h, 1.0, 1e-12);
+    CU_ASSERT_EQUAL(uo.peak_instant_at_min, t("2027-03-02T06:00"));
+    CU_ASSERT_EQUAL(uo.npeak_instant_runs, 1);
+    if (uo.npeak_instant_runs == 1)
+        CU_ASSERT_EQUAL(uo.peak_instant_runs[0], 0);
+    CU_ASSERT_EQUAL(uo.overloaded, 0);
     scrub_unit_out_free(&uo, 1);
 
     /* peak factor 2: 2 kmol at 2 kmol/h over 1 h from 06:30 -> 1 kmol in each of 06 and 07 */
@@ -350,6 +433,11 @@ static void peak_across_month(void)
     ASSERT_ABS(uo[0].peak_acid_kmol_h, 1.5, 1e-12);
     CU_ASSERT_EQUAL(uo[0].peak_at_min, t("2027-03-31T23:00"));
     CU_ASSERT_EQUAL(uo[0].npeak_runs, 2);
+    /* instantaneous: 1 + 0.5 from 23:00 on unit 0 */
+    ASSERT_ABS(uo[0].peak_instant_kmol_h, 1.5, 1e-12);
+    CU_ASSERT_EQUAL(uo[0].peak_instant_at_min, t("2027-03-31T23:00"));
+    ASSERT_ABS(uo[1].peak_instant_kmol_h, 2.25, 1e-12);
+    CU_ASSERT_EQUAL(uo[1].peak_instant_at_min, t("2027-04-01T00:00"));
     ASSERT_ABS(uo[1].peak_acid_kmol_h, 2.25, 1e-12);
     CU_ASSERT_EQUAL(uo[1].npeak_runs, 1);
     if (uo[1].npeak_runs == 1)
@@ -381,6 +469,13 @@ static void many_runs_linear(void)
     ASSERT_ABS(uo.peak_acid_kmol_h, 2.0, 1e-9);
     CU_ASSERT_EQUAL(uo.nhours, 2 * N + 2);
     CU_ASSERT_EQUAL(uo.npeak_runs, 2);
+    /* instantaneous: 2 kmol/h from the second start on; every later edge pair is an end and
+     * a start at one minute (no overlap), so the earliest instant, runs 0 and 1, holds */
+    ASSERT_ABS(uo.peak_instant_kmol_h, 2.0, 1e-12);
+    CU_ASSERT_EQUAL(uo.peak_instant_at_min, t0 + 120);
+    CU_ASSERT_EQUAL(uo.npeak_instant_runs, 2);
+    if (uo.npeak_instant_runs == 2)
+        CU_ASSERT(uo.peak_instant_runs[0] == 0 && uo.peak_instant_runs[1] == 1);
     int steady = 1;
     for (int h = 2; h < uo.nhours - 2; h++)
         steady &= fabs(uo.hourly_kmol_h[h] - 2.0) < 1e-9;
@@ -404,6 +499,8 @@ static void water_liquor(void)
     ASSERT_REL(ro[0].heat_kj, 2000 * 74.852, 1e-4); /* NBS 1982: -167.159 - (-92.307) */
     /* rise with the hydrochloric-acid cp of fresh water (4.18) */
     ASSERT_REL(ro[0].temp_rise_k, ro[0].heat_kj / ((1000 + kg) * 4.18), 1e-12);
+    ASSERT_REL(ro[0].liquor_temp_c_after, 25 + ro[0].temp_rise_k, 1e-12);
+    ASSERT_REL(ro[0].heat_kw, ro[0].heat_kj / 7200, 1e-12);
     ASSERT_ABS(ro[0].naoh_kg, 0, 0);
     CU_ASSERT_EQUAL(ro[0].unabsorbed, 0);
     CU_ASSERT_EQUAL(ro[1].unabsorbed, 1);
@@ -503,6 +600,12 @@ static void bad_inputs(void)
     r[0].unit = 3;
     CU_ASSERT_EQUAL(go(&u, 1, r, 2, ro, &uo), HL_ERR_INPUT);
     r[0].unit = 0;
+    u.fresh_liquor_temp_c = -300; /* below absolute zero */
+    CU_ASSERT_EQUAL(go(&u, 1, r, 2, ro, &uo), HL_ERR_INPUT);
+    u.fresh_liquor_temp_c = 0;
+    u.max_liquor_temp_c = NAN;
+    CU_ASSERT_EQUAL(go(&u, 1, r, 2, ro, &uo), HL_ERR_INPUT);
+    u.max_liquor_temp_c = 0;
     u.min_naoh_wt_pct = 20;
     CU_ASSERT_EQUAL(go(&u, 1, r, 2, ro, &uo), HL_ERR_INPUT);
 }
@@ -539,11 +642,228 @@ static void alloc_failures(void)
         } else {
             failures++;
             CU_ASSERT_EQUAL(st, HL_ERR_NOMEM);
-            CU_ASSERT(uo[0].spent == NULL && uo[1].hourly_kmol_h == NULL && uo[0].peak_runs == NULL);
+            CU_ASSERT(uo[0].spent == NULL && uo[1].hourly_kmol_h == NULL && uo[0].peak_runs == NULL &&
+                      uo[0].peak_instant_runs == NULL && uo[1].peak_instant_runs == NULL);
         }
     }
     CU_ASSERT(ok);
     CU_ASSERT(failures >= 5);
+}
+
+static void instant_peak_sweep(void)
+{
+    /* the small-scrubber-stress demo by hand: MB vents 2.0790 kmol over 3 h from 06:00
+     * (0.693 kmol/h), PR 1.3604 kmol over feed 2 h at peak factor 1.5, i.e. 1.0203 kmol/h
+     * over 80 min, 07:30-08:50.  Instantaneous peak 0.693 + 1.0203 = 1.7133 kmol/h from
+     * 07:30; hourly bins 06 0.693, 07 0.693 + 0.5 x 1.0203, 08 0.693 + 50/60 x 1.0203 =
+     * 1.5433 (the hourly peak understates it).  A third run starts at 08:50 exactly, when
+     * PR stops: it adds to MB only (0.693 + 0.9 < 1.7133).  A fourth starts at 10:00 with
+     * a 0.34 h / 1.2 window of 17.000000000000004 min (not a binary whole number): it ends
+     * at 10:17 and touches the fifth, starting 10:17, which must not add to it. */
+    struct scrub_unit_in u = caustic(1e6, 18, 2);
+    u.rated_acid_kmol_h = 1.6;
+    struct scrub_run_in r[5] = {run_at("2027-05-03T06:00", 3, VS_HCL, 2079.0),
+                                run_at("2027-05-03T07:30", 2, VS_HCL, 1360.4),
+                                run_at("2027-05-03T08:50", 1, VS_HCL, 900.0),
+                                run_at("2027-05-03T10:00", 0.34, VS_HCL, 1200.0 * 0.34 / 1.2),
+                                run_at("2027-05-03T10:17", 1, VS_HCL, 1200.0)};
+    r[1].peak_factor = 1.5;
+    r[3].peak_factor = 1.2;
+    struct scrub_run_out ro[5];
+    struct scrub_unit_out uo;
+    CU_ASSERT_EQUAL(go(&u, 1, r, 5, ro, &uo), HL_OK);
+    ASSERT_REL(ro[1].acid_kmol_h, 1.3604 / 2 * 1.5, 1e-12);
+    ASSERT_REL(uo.peak_instant_kmol_h, 0.693 + 1.0203, 1e-12);
+    CU_ASSERT_EQUAL(uo.peak_instant_at_min, t("2027-05-03T07:30"));
+    CU_ASSERT_EQUAL(uo.npeak_instant_runs, 2);
+    if (uo.npeak_instant_runs == 2)
+        CU_ASSERT(uo.peak_instant_runs[0] == 0 && uo.peak_instant_runs[1] == 1);
+    /* the 08:00 hour also holds the third run's first 10 min: + 10/60 x 0.9 */
+    ASSERT_REL(uo.peak_acid_kmol_h, 0.693 + 50.0 / 60 * 1.0203 + 10.0 / 60 * 0.9, 1e-12);
+    CU_ASSERT_EQUAL(uo.peak_at_min, t("2027-05-03T08:00"));
+    CU_ASSERT_EQUAL(uo.overloaded, 1); /* 1.7133 > 1.6 although the hourly 1.5433 is not */
+    scrub_unit_out_free(&uo, 1);
+    /* runs 4 and 5 alone at 1.2 kmol/h each: a touching pair never sums to 2.4.  Near
+     * minute 0 the 17.000000000000004 survives the addition, so this checks that the end
+     * is read as the whole minute 17 (also for the grouping: no overlap, so the fresh
+     * liquor is not needed at once) */
+    r[3].start_min = 0;
+    r[4].start_min = 17;
+    CU_ASSERT_EQUAL(go(&u, 1, r + 3, 2, ro, &uo), HL_OK);
+    ASSERT_REL(uo.peak_instant_kmol_h, 1.2, 1e-12);
+    CU_ASSERT_EQUAL(uo.peak_instant_at_min, 0);
+    CU_ASSERT_EQUAL(uo.npeak_instant_runs, 1);
+    scrub_unit_out_free(&uo, 1);
+    /* two starts at one minute count together; a unit with no gas has no peak */
+    struct scrub_run_in s[3] = {run_at("2027-05-03T06:00", 2, VS_HCL, 1000),
+                                run_at("2027-05-03T06:00", 1, VS_CL2, 1500),
+                                run_at("2027-05-03T06:00", 1, VS_HCL, 0)};
+    s[2].unit = 1;
+    struct scrub_unit_in uu[2] = {caustic(1e6, 18, 2), caustic(1e6, 18, 2)};
+    struct scrub_unit_out uo2[2];
+    CU_ASSERT_EQUAL(go(uu, 2, s, 3, ro, uo2), HL_OK);
+    ASSERT_REL(uo2[0].peak_instant_kmol_h, 0.5 + 1.5, 1e-12);
+    CU_ASSERT_EQUAL(uo2[0].npeak_instant_runs, 2);
+    ASSERT_ABS(uo2[1].peak_instant_kmol_h, 0, 0);
+    CU_ASSERT_EQUAL(uo2[1].npeak_instant_runs, 0);
+    CU_ASSERT_PTR_NULL(uo2[1].peak_instant_runs);
+    scrub_unit_out_free(uo2, 2);
+}
+
+static void group_changeout(void)
+{
+    /* 1000 kg of 10 % NaOH, min 2 %; n = HCl moles that take fresh liquor exactly to 2 %.
+     * Day 1: A uses 0.5 n.  Day 2: B 06:00-08:00, C 07:00-09:00, D 08:30-10:00 chain into
+     * one group (D overlaps C only) of 0.6 n: 0.5 + 0.6 > 1, so the changeout comes before
+     * B, although B + C alone (0.9 n) would fit - only the chain through D needs it.
+     * E starts 10:00, when D stops: a group of its own; 0.6 + 0.5 > 1: changeout again. */
+    struct scrub_unit_in u = caustic(1000, 10, 2);
+    double n = hcl_to_min(1000, 10, 2);
+    struct scrub_run_in r[5] = {run_at("2027-03-02T06:00", 2, VS_HCL, 0.5 * n),
+                                run_at("2027-03-03T06:00", 2, VS_HCL, 0.2 * n),
+                                run_at("2027-03-03T07:00", 2, VS_HCL, 0.2 * n),
+                                run_at("2027-03-03T08:30", 1.5, VS_HCL, 0.2 * n),
+                                run_at("2027-03-03T10:00", 1, VS_HCL, 0.5 * n)};
+    struct scrub_run_out ro[5];
+    struct scrub_unit_out uo;
+    CU_ASSERT_EQUAL(go(&u, 1, r, 5, ro, &uo), HL_OK);
+    int want_co[5] = {0, 1, 0, 0, 1};
+    for (int i = 0; i < 5; i++) {
+        CU_ASSERT_EQUAL(ro[i].changeout_before, want_co[i]);
+        CU_ASSERT_EQUAL(ro[i].exhausted, 0);
+        CU_ASSERT(ro[i].naoh_wt_pct_after > 2);
+    }
+    CU_ASSERT_EQUAL(uo.changeouts, 2);
+    /* B, C, D on one fresh charge: NaOH left = 100 kg - 0.6 n x M(NaOH) */
+    ASSERT_REL(ro[3].naoh_left_kg, 100 - 0.6 * n * MM_NAOH / 1000, 1e-12);
+    CU_ASSERT_EQUAL(uo.nspent, 3);
+    if (uo.nspent == 3)
+        CU_ASSERT_EQUAL(uo.spent[0].at_min, r[1].start_min);
+    scrub_unit_out_free(&uo, 1);
+
+    /* without D the day-2 group B + C fits the dirty liquor: no changeout before B */
+    struct scrub_run_in r3[3] = {r[0], r[1], r[2]};
+    CU_ASSERT_EQUAL(go(&u, 1, r3, 3, ro, &uo), HL_OK);
+    CU_ASSERT_EQUAL(ro[1].changeout_before, 0);
+    CU_ASSERT_EQUAL(uo.changeouts, 0);
+    scrub_unit_out_free(&uo, 1);
+
+    /* two runs at the same minute (the TC-5 / EB-2 case): one run ahead, the first fits
+     * (0.5 + 0.3) and the second would take the liquor below 2 % with no chance to change;
+     * as a group (0.5 + 0.6) the changeout comes first and both fit */
+    struct scrub_run_in s[3] = {run_at("2027-03-02T06:00", 2, VS_HCL, 0.5 * n),
+                                run_at("2027-03-03T06:00", 6, VS_HCL, 0.3 * n),
+                                run_at("2027-03-03T06:00", 8, VS_HCL, 0.3 * n)};
+    CU_ASSERT_EQUAL(go(&u, 1, s, 3, ro, &uo), HL_OK);
+    CU_ASSERT(ro[1].changeout_before == 1 && ro[2].changeout_before == 0);
+    CU_ASSERT(ro[1].exhausted == 0 && ro[2].exhausted == 0);
+    CU_ASSERT(ro[2].naoh_wt_pct_after > 2);
+    scrub_unit_out_free(&uo, 1);
+
+    /* a group that even fresh liquor cannot carry: changeout, then the run that crosses
+     * the limit is flagged, as for a single run */
+    s[1].vent_mol[VS_HCL] = s[2].vent_mol[VS_HCL] = 0.7 * n;
+    CU_ASSERT_EQUAL(go(&u, 1, s, 3, ro, &uo), HL_OK);
+    CU_ASSERT(ro[1].changeout_before == 1 && ro[1].exhausted == 0);
+    CU_ASSERT(ro[2].changeout_before == 0 && ro[2].exhausted == 1);
+    CU_ASSERT_EQUAL(uo.changeouts, 1);
+    scrub_unit_out_free(&uo, 1);
+}
+
+/* Sodium, sulfur and halogen atoms in a salt vector [kmol]: element balance checks. */
+static void atoms(const double *salt_kg, double *na, double *s, double *cl, double *br)
+{
+    double m[SALT_COUNT];
+    for (int k = 0; k < SALT_COUNT; k++)
+        m[k] = salt_kg[k] / scrub_salt_molar_mass_g_mol(k);
+    *na = m[SALT_NACL] + m[SALT_NABR] + m[SALT_NAOCL] + m[SALT_NAOBR] + 2 * m[SALT_NA2SO3] +
+          2 * m[SALT_NA2SO4];
+    *s = m[SALT_NA2SO3] + m[SALT_NA2SO4];
+    *cl = m[SALT_NACL] + m[SALT_NAOCL];
+    *br = m[SALT_NABR] + m[SALT_NAOBR];
+}
+
+static void sulfite_meets_hypochlorite(void)
+{
+    struct scrub_unit_in u = caustic(10000, 20, 1);
+    struct scrub_run_out ro[3];
+    struct scrub_unit_out uo;
+    /* sulfite in excess: 1000 mol SO2, then 400 mol Cl2 -> 400 NaOCl, all reduced by the
+     * sulfite: 600 mol Na2SO3 left, 400 Na2SO4, NaCl 400 + 400 */
+    struct scrub_run_in a[2] = {run_at("2027-03-02T06:00", 2, VS_SO2, 1000),
+                                run_at("2027-03-03T06:00", 2, VS_CL2, 400)};
+    CU_ASSERT_EQUAL(go(&u, 1, a, 2, ro, &uo), HL_OK);
+    ASSERT_ABS(ro[0].sulfite_oxidised_mol, 0, 0);
+    ASSERT_REL(ro[1].sulfite_oxidised_mol, 400, 1e-12);
+    ASSERT_ABS(ro[1].salt_kg[SALT_NAOCL], 0, 1e-12); /* formed and used within the run */
+    ASSERT_REL(ro[1].salt_kg[SALT_NA2SO3], -400 * 126.037 / 1000, 1e-9);
+    ASSERT_REL(ro[1].salt_kg[SALT_NA2SO4], 400 * 142.036 / 1000, 1e-9);
+    ASSERT_REL(ro[1].salt_kg[SALT_NACL], 800 * (A_NA + A_CL) / 1000, 1e-12);
+    ASSERT_REL(ro[1].naoh_kg, 800 * MM_NAOH / 1000, 1e-12); /* the redox takes no NaOH */
+    ASSERT_REL(ro[1].heat_kj, 400 * (scrub_heat_kj_per_mol(VS_CL2, 0) +
+                                     scrub_sulfite_redox_kj_per_mol(SALT_NAOCL)), 1e-12);
+    /* by hand: 400 x (100.1 + 333.8) = 173.6 MJ */
+    ASSERT_ABS(ro[1].heat_kj, 173560, 100);
+    if (uo.nspent == 1) {
+        const double *sk = uo.spent[0].salt_kg;
+        ASSERT_REL(sk[SALT_NA2SO3], 600 * 126.037 / 1000, 1e-9);
+        ASSERT_ABS(sk[SALT_NAOCL], 0, 0);
+        double na, su, cl, br;
+        atoms(sk, &na, &su, &cl, &br);
+        /* every Na of the NaOH used sits in a salt; S = SO2, Cl = 2 Cl2 absorbed */
+        ASSERT_REL(na, (ro[0].naoh_kg + ro[1].naoh_kg) / MM_NAOH, 1e-12);
+        ASSERT_REL(su, 1.0, 1e-12);
+        ASSERT_REL(cl, 0.8, 1e-12);
+        /* mass: the liquor gains exactly the gas absorbed */
+        ASSERT_REL(uo.spent[0].mass_kg, 10000 + (64.058 * 1000 + 70.90 * 400) / 1000, 1e-12);
+    }
+    CU_ASSERT_EQUAL(uo.nspent, 1);
+    scrub_unit_out_free(&uo, 1);
+
+    /* hypochlorite in excess: 1000 mol Cl2, then 300 mol SO2: 700 NaOCl left, the run's net
+     * NaOCl change is -300 mol (used from the liquor already there) */
+    struct scrub_run_in b[2] = {run_at("2027-03-02T06:00", 2, VS_CL2, 1000),
+                                run_at("2027-03-03T06:00", 2, VS_SO2, 300)};
+    CU_ASSERT_EQUAL(go(&u, 1, b, 2, ro, &uo), HL_OK);
+    ASSERT_REL(ro[1].salt_kg[SALT_NAOCL], -300 * 74.439 / 1000, 1e-9);
+    ASSERT_ABS(ro[1].salt_kg[SALT_NA2SO3], 0, 1e-12);
+    ASSERT_REL(ro[1].salt_kg[SALT_NA2SO4], 300 * 142.036 / 1000, 1e-9);
+    if (uo.nspent == 1) {
+        ASSERT_REL(uo.spent[0].salt_kg[SALT_NAOCL], 700 * 74.439 / 1000, 1e-9);
+        ASSERT_ABS(uo.spent[0].salt_kg[SALT_NA2SO3], 0, 0);
+    }
+    scrub_unit_out_free(&uo, 1);
+
+    /* both hypohalites: 200 mol NaOCl and 500 NaOBr, then 600 mol SO2: hypochlorite goes
+     * first (200), hypobromite takes the other 400, 100 mol NaOBr remain */
+    struct scrub_run_in c[2] = {run_at("2027-03-02T06:00", 2, VS_CL2, 200),
+                                run_at("2027-03-03T06:00", 2, VS_SO2, 600)};
+    c[0].vent_mol[VS_BR2] = 500;
+    CU_ASSERT_EQUAL(go(&u, 1, c, 2, ro, &uo), HL_OK);
+    ASSERT_REL(ro[1].sulfite_oxidised_mol, 600, 1e-12);
+    ASSERT_REL(ro[1].heat_kj, 600 * scrub_heat_kj_per_mol(VS_SO2, 0) +
+                              200 * scrub_sulfite_redox_kj_per_mol(SALT_NAOCL) +
+                              400 * scrub_sulfite_redox_kj_per_mol(SALT_NAOBR), 1e-12);
+    if (uo.nspent == 1) {
+        const double *sk = uo.spent[0].salt_kg;
+        ASSERT_ABS(sk[SALT_NAOCL], 0, 0);
+        ASSERT_REL(sk[SALT_NAOBR], 100 * 118.893 / 1000, 1e-9);
+        ASSERT_ABS(sk[SALT_NA2SO3], 0, 0);
+        ASSERT_REL(sk[SALT_NA2SO4], 600 * 142.036 / 1000, 1e-9);
+        double na, su, cl, br;
+        atoms(sk, &na, &su, &cl, &br);
+        ASSERT_REL(na, (ro[0].naoh_kg + ro[1].naoh_kg) / MM_NAOH, 1e-12);
+        ASSERT_REL(su, 0.6, 1e-12);
+        ASSERT_REL(cl, 0.4, 1e-12);
+        ASSERT_REL(br, 1.0, 1e-12);
+    }
+    scrub_unit_out_free(&uo, 1);
+
+    /* a water liquor absorbs no SO2: nothing to react */
+    struct scrub_unit_in w = {.id = "W", .water_liquor = 1, .liquor_kg = 1000, .max_acid_wt_pct = 30};
+    CU_ASSERT_EQUAL(go(&w, 1, a, 2, ro, &uo), HL_OK);
+    ASSERT_ABS(ro[1].sulfite_oxidised_mol, 0, 0);
+    scrub_unit_out_free(&uo, 1);
 }
 
 int main(void)
@@ -559,6 +879,9 @@ int main(void)
         {"overlap exhausts", overlap_exhausts},
         {"peak of overlapping runs", peak_overlap},
         {"peak across months", peak_across_month},
+        {"instantaneous peak sweep", instant_peak_sweep},
+        {"changeout for a group", group_changeout},
+        {"sulfite meets hypochlorite", sulfite_meets_hypochlorite},
         {"many runs linear", many_runs_linear},
         {"water liquor", water_liquor},
         {"NTU", ntu_values},
