@@ -792,7 +792,34 @@ static void row_liquor(struct xw *w, struct xblock *b, lxw_row_t row, int i)
     xb_num(w, b, row, k++, s->acid_wt_pct_after);
     xb_num(w, b, row, k++, s->heat_kj);
     xb_num(w, b, row, k++, s->temp_rise_k);
+    xb_num(w, b, row, k++, s->liquor_temp_c_after);
+    xb_num(w, b, row, k++, s->heat_kw);
+    xb_flag(w, b, row, k++, s->too_hot);
+    xb_num(w, b, row, k++, s->sulfite_oxidised_mol);
+    xb_num(w, b, row, k++, s->breakthrough_mol);
     xb_flag(w, b, row, k++, s->exhausted);
+}
+
+/* Run ids joined with ", " into buf; a long list is cut with an ellipsis. */
+static void xo_join_ids(const struct ledger *l, const int *runs, int n, char *buf, size_t cap)
+{
+    size_t used = 0;
+    buf[0] = '\0';
+    for (int j = 0; j < n; j++) {
+        int ri = runs[j];
+        const char *id = ri >= 0 && ri < l->nruns && l->runs[ri].id ? l->runs[ri].id : "?";
+        size_t len = strlen(id);
+        if (used + len + 6 >= cap) {
+            memcpy(buf + used, "...", 4);
+            return;
+        }
+        if (used) {
+            memcpy(buf + used, ", ", 2);
+            used += 2;
+        }
+        memcpy(buf + used, id, len + 1);
+        used += len;
+    }
 }
 
 static void row_unit(struct xw *w, struct xblock *b, lxw_row_t row, int i)
@@ -807,31 +834,21 @@ static void row_unit(struct xw *w, struct xblock *b, lxw_row_t row, int i)
     if (s->nhours > 0)
         xb_date(w, b, row, k, s->peak_at_min);
     k++;
-    /* run ids of the peak hour, joined; a long list is cut with an ellipsis */
     char ids[400];
-    size_t n = 0;
-    ids[0] = '\0';
-    for (int j = 0; j < s->npeak_runs; j++) {
-        int ri = s->peak_runs[j];
-        const char *id = ri >= 0 && ri < l->nruns && l->runs[ri].id ? l->runs[ri].id : "?";
-        size_t len = strlen(id);
-        if (n + len + 6 >= sizeof ids) {
-            memcpy(ids + n, "...", 4);
-            break;
-        }
-        if (n) {
-            memcpy(ids + n, ", ", 2);
-            n += 2;
-        }
-        memcpy(ids + n, id, len + 1);
-        n += len;
-    }
+    xo_join_ids(l, s->peak_runs, s->npeak_runs, ids, sizeof ids);
+    xb_text(w, b, row, k++, ids);
+    xb_num(w, b, row, k++, s->peak_instant_kmol_h);
+    if (s->npeak_instant_runs > 0)
+        xb_date(w, b, row, k, s->peak_instant_at_min);
+    k++;
+    xo_join_ids(l, s->peak_instant_runs, s->npeak_instant_runs, ids, sizeof ids);
     xb_text(w, b, row, k++, ids);
     xb_flag(w, b, row, k++, s->overloaded);
     xb_num(w, b, row, k++, s->changeouts);
     xb_num(w, b, row, k++, s->naoh_kg);
     xb_num(w, b, row, k++, s->makeup_kg);
     xb_num(w, b, row, k++, s->heat_kj);
+    xb_num(w, b, row, k++, s->max_liquor_temp_c);
 }
 
 static void row_column(struct xw *w, struct xblock *b, lxw_row_t row, int i)
@@ -906,23 +923,32 @@ static void xo_scrubber(struct xw *w)
     xb_col(a, XK_KG, 0, "Liquor after run [kg]");
     xb_col(a, XK_PCT, 0, "NaOH after run [wt%%]");
     for (int q = 0; q < SALT_COUNT; q++)
-        xb_col(a, XK_KG, 0, "%s formed [kg]", xo_salt[q]);
+        xb_col(a, XK_KG, 0, "%s net change [kg]", xo_salt[q]);
     xb_col(a, XK_KG, 0, "Water formed [kg]");
     xb_col(a, XK_PCT, 0, "HCl in water liquor [wt%%]");
     xb_col(a, XK_HEAT, 1, "Heat released [kJ]");
     xb_col(a, XK_TEMP, 0, "Liquor temperature rise [K]");
-    xb_col(a, XK_TEXT, 0, "Liquor exhausted");
+    xb_col(a, XK_TEMP, 0, "Liquor temperature after run, no cooling [°C]");
+    xb_col(a, XK_RATE, 0, "Heat duty over the vent window [kW]");
+    xb_col(a, XK_TEXT, 0, "Cooling needed");
+    xb_col(a, XK_MOL, 0, "Sulfite oxidised by hypohalite [mol]");
+    xb_col(a, XK_MOL, 0, "Gas left unneutralised [mol]");
+    xb_col(a, XK_TEXT, 0, "Below minimum NaOH");
     struct xblock *u = &b[1];
     xb_col(u, XK_TEXT, 0, "Scrubber");
     xb_col(u, XK_RATE, 0, "Rated capacity [kmol/h]");
-    xb_col(u, XK_RATE, 0, "Peak acid gas [kmol/h]");
+    xb_col(u, XK_RATE, 0, "Peak hourly mean load [kmol/h]");
     xb_col(u, XK_DATE, 0, "Peak hour start (plant time)");
     xb_col(u, XK_TEXT, 0, "Runs in the peak hour");
-    xb_col(u, XK_TEXT, 0, "Overloaded");
+    xb_col(u, XK_RATE, 0, "Peak instantaneous load [kmol/h]");
+    xb_col(u, XK_DATE, 0, "Instantaneous peak from (plant time)");
+    xb_col(u, XK_TEXT, 0, "Runs venting at the instantaneous peak");
+    xb_col(u, XK_TEXT, 0, "Overloaded (instantaneous peak over rating)");
     xb_col(u, XK_INT, 1, "Changeouts [count]");
     xb_col(u, XK_KG, 1, "NaOH consumed [kg]");
     xb_col(u, XK_KG, 1, "Caustic make-up [kg]");
     xb_col(u, XK_HEAT, 1, "Heat released [kJ]");
+    xb_col(u, XK_TEMP, 0, "Hottest liquor, no cooling [°C]");
     struct xblock *c = &b[2];
     xb_col(c, XK_TEXT, 0, "Column check");
     xb_col(c, XK_RATE, 0, "Gas flow [kmol/h]");

@@ -273,8 +273,8 @@ def check_numbers(tag, wb, led):
             check(ws.cell(r, h["Fresh liquor before run"]).value == ("yes" if jr["changeout_before"] else "no"),
                   f"{tag} Scrubber {rid} changeout flag")
     check(seen == sum(1 for r in led["runs"] if r.get("scrubber_id")), f"{tag}: Scrubber sheet lists {seen} runs")
-    # scrubber summary block: the row-1 block that holds "Peak acid gas [kmol/h]"
-    blk = [b for b in blocks(ws) if any(ws.cell(1, c).value == "Peak acid gas [kmol/h]" for c in range(b[0], b[1] + 1))]
+    # scrubber summary block: the row-1 block that holds "Peak hourly mean load [kmol/h]"
+    blk = [b for b in blocks(ws) if any(ws.cell(1, c).value == "Peak hourly mean load [kmol/h]" for c in range(b[0], b[1] + 1))]
     if check(blk, f"{tag}: Scrubber sheet has no peak block"):
         b0, b1 = blk[0]
         hb = {ws.cell(1, c).value: c for c in range(b0, b1 + 1)}
@@ -283,11 +283,13 @@ def check_numbers(tag, wb, led):
             if not check(rows, f"{tag}: Scrubber summary row for {s['id']} missing"):
                 continue
             r = rows[0]
-            for head, v in (("Peak acid gas [kmol/h]", s["peak_acid_kmol_h"]), ("Changeouts [count]", s["changeouts"]),
-                            ("NaOH consumed [kg]", s["naoh_kg"]), ("Rated capacity [kmol/h]", s["rated_acid_kmol_h"])):
+            for head, v in (("Peak hourly mean load [kmol/h]", s["peak_acid_kmol_h"]), ("Changeouts [count]", s["changeouts"]),
+                            ("NaOH consumed [kg]", s["naoh_kg"]), ("Rated capacity [kmol/h]", s["rated_acid_kmol_h"]),
+                            ("Peak instantaneous load [kmol/h]", s["peak_instant_kmol_h"]),
+                            ("Hottest liquor, no cooling [°C]", s["max_liquor_temp_c"])):
                 g = ws.cell(r, hb[head]).value if head in hb else None
                 check(same(g, v) or g == v == 0, f"{tag} Scrubber {s['id']} {head}: {g!r} vs JSON {v!r}")
-            g = ws.cell(r, hb.get("Overloaded", b0)).value
+            g = ws.cell(r, hb.get("Overloaded (instantaneous peak over rating)", b0)).value
             check(g == ("yes" if s["overloaded"] else "no"), f"{tag} Scrubber {s['id']} Overloaded {g!r}")
             g = ws.cell(r, hb.get("Peak hour start (plant time)", b0)).value
             check(isinstance(g, dt.datetime) and g.strftime("%Y-%m-%dT%H:%M") == s["peak_at"],
