@@ -12,7 +12,7 @@
 
 #include <stdint.h>
 #include "balance.h"
-#include "campaign.h"
+struct campaign; /* campaign.h: only ledger_build reads it; writers never see it */
 #include "orders.h"
 #include "reagents.h"
 #include "scrubber.h"

@@ -8,6 +8,7 @@
  * cost is O(n log n) in runs (design section 7).
  */
 #include "ledger.h"
+#include "campaign.h"
 #include "hlmem.h"
 #include "isodate.h"
 
