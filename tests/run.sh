@@ -21,6 +21,7 @@ for t in "$BUILD"/test_*; do
 done
 for t in tests/e2e/*.sh tests/e2e/*.py; do
     [ -f "$t" ] || continue
+    case "${t##*/}" in _*) continue ;; esac # shared modules, not tests
     total=$((total + 1))
     case "$t" in *.py) runner=$PYTHON ;; *) runner=sh ;; esac
     log="$BUILD/e2e-$(basename "$t").log"

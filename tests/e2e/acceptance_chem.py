@@ -26,33 +26,22 @@ Env: HALOLEDGER, HL_ROOT, BUILD, HL_WRAP (optional prefix such as valgrind).
 import json
 import math
 import os
-import shlex
 import subprocess
 import sys
 import tempfile
 import time
+
+from _hl import BIN, CIAAW, WRAP, Tally
 
 from rdkit import Chem, RDLogger
 from rdkit.Chem import Descriptors, rdMolDescriptors
 
 RDLogger.DisableLog("rdApp.*")
 T0 = time.time()
-BIN = os.environ.get("HALOLEDGER") or os.path.join(
-    os.environ.get("HL_ROOT", "."), os.environ.get("BUILD", "build"), "haloledger")
-WRAP = shlex.split(os.environ.get("HL_WRAP", ""))
-# CIAAW 2021 standard atomic weights, abridged (conventional) values
-CIAAW = {"H": 1.008, "C": 12.011, "N": 14.007, "O": 15.999, "S": 32.06, "Cl": 35.45, "Br": 79.904}
 
-checks = 0
-fails = []
-
-
-def check(cond, what):
-    global checks
-    checks += 1
-    if not cond:
-        fails.append(what)
-    return cond
+TALLY = Tally()
+check = TALLY.check
+fails = TALLY.fails
 
 
 def canon(smi):
@@ -411,7 +400,7 @@ def main():
     dt = time.time() - T0
     for f in fails:
         print("FAIL:", f)
-    print(f"acceptance_chem: {checks - len(fails)}/{checks} checks passed in {dt:.1f} s")
+    print(f"acceptance_chem: {TALLY.n - len(fails)}/{TALLY.n} checks passed in {dt:.1f} s")
     return 1 if fails else 0
 
 

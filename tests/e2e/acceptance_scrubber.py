@@ -38,34 +38,25 @@ import json
 import math
 import os
 import re
-import shlex
 import subprocess
 import sys
 import tempfile
 import time
 
+from _hl import BIN, CIAAW, WRAP, Tally
+
 T0 = time.time()
 ROOT = os.environ.get("HL_ROOT", os.path.dirname(os.path.dirname(os.path.dirname(os.path.abspath(__file__)))))
-BIN = os.environ.get("HALOLEDGER") or os.path.join(ROOT, os.environ.get("BUILD", "build"), "haloledger")
-WRAP = shlex.split(os.environ.get("HL_WRAP", ""))
-# CIAAW 2021 standard atomic weights, abridged
-W = {"H": 1.008, "C": 12.011, "N": 14.007, "O": 15.999, "Na": 22.990, "S": 32.06, "Cl": 35.45, "Br": 79.904}
+W = CIAAW  # CIAAW 2021 standard atomic weights, abridged
 M_NAOH = W["Na"] + W["O"] + W["H"]                     # 39.997 g/mol
 GAS_M = {"HCl": W["H"] + W["Cl"], "HBr": W["H"] + W["Br"], "Cl2": 2 * W["Cl"], "Br2": 2 * W["Br"],
          "SO2": W["S"] + 2 * W["O"]}
 NAOH_PER = {"HCl": 1, "HBr": 1, "Cl2": 2, "Br2": 2, "SO2": 2}   # design section 4 liquor reactions
 HEAT = {"HCl": 130.7, "Cl2": 100.1}                              # kJ/mol released, see docstring
 
-checks = 0
-fails = []
-
-
-def check(cond, what):
-    global checks
-    checks += 1
-    if not cond:
-        fails.append(what)
-    return cond
+TALLY = Tally()
+check = TALLY.check
+fails = TALLY.fails
 
 
 def rel(a, b, tol, what):
@@ -575,7 +566,7 @@ def main():
             check_cautions("all reagents", allp, led, ["Cl2", "Br2", "HCl", "HBr", "SO2", "SO2Cl2", "NBS", "NaOCl"])
     for f in fails:
         print("FAIL:", f)
-    print(f"acceptance_scrubber: {checks - len(fails)}/{checks} checks passed in {time.time() - T0:.1f} s")
+    print(f"acceptance_scrubber: {TALLY.n - len(fails)}/{TALLY.n} checks passed in {time.time() - T0:.1f} s")
     return 1 if fails else 0
 
 

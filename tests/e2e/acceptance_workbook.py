@@ -27,11 +27,12 @@ import json
 import math
 import os
 import re
-import shlex
 import subprocess
 import sys
 import tempfile
 import time
+
+from _hl import BIN, WRAP, Tally
 import zipfile
 
 import openpyxl
@@ -39,22 +40,13 @@ from openpyxl.utils import column_index_from_string, get_column_letter
 
 T0 = time.time()
 ROOT = os.environ.get("HL_ROOT", os.path.dirname(os.path.dirname(os.path.dirname(os.path.abspath(__file__)))))
-BIN = os.environ.get("HALOLEDGER") or os.path.join(ROOT, os.environ.get("BUILD", "build"), "haloledger")
-WRAP = shlex.split(os.environ.get("HL_WRAP", ""))
 SHEETS = ["Summary", "Runs", "Products", "Scrubber", "Orders", "Waste", "Monthly", "Cautions", "Assumptions"]
 UNIT = re.compile(r"\[[^\]]+\]")
 M_HCL = 1.008 + 35.45          # CIAAW 2021 abridged
 
-checks = 0
-fails = []
-
-
-def check(cond, what):
-    global checks
-    checks += 1
-    if not cond:
-        fails.append(what)
-    return cond
+TALLY = Tally()
+check = TALLY.check
+fails = TALLY.fails
 
 
 def num(v):
@@ -409,7 +401,7 @@ def main():
                     check(f1.read() == f2.read(), f"{tag}{ext}: second report differs byte-wise")
     for f in fails:
         print("FAIL:", f)
-    print(f"acceptance_workbook: {checks - len(fails)}/{checks} checks passed ({len(camps)} campaigns, "
+    print(f"acceptance_workbook: {TALLY.n - len(fails)}/{TALLY.n} checks passed ({len(camps)} campaigns, "
           f"{nform} total formulas, {ncharts} charts) in {time.time() - T0:.1f} s")
     return 1 if fails else 0
 
