@@ -621,7 +621,16 @@ static enum hl_status finish(struct parser *P, struct hl_err *e)
         }
     }
     aromatize_kekule(m);
-    return fold_hydrogens(m, e);
+    if ((st = fold_hydrogens(m, e)))
+        return st;
+    /* explicit [H] atoms were bonds until folded into H counts: check carbon again, or
+     * c1ccccc1([H])[H] would pass as an aromatic carbon with two hydrogens */
+    for (int a = 0; a < m->natoms; a++) {
+        const struct smi_atom *at = &m->atoms[a];
+        if (at->el == EL_C && bond_sum(m, a) + at->hcount + (at->aromatic ? 1 : 0) > 4)
+            return bad(e, at->col, "too many bonds on carbon (valence above 4)%s", NULL);
+    }
+    return HL_OK;
 }
 
 enum hl_status smiles_parse(const char *text, struct smi_mol *m, struct hl_err *e)

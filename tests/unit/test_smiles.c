@@ -195,6 +195,8 @@ static void malformed(void)
         {"Q", 1},             {"ClC(Cl)(Cl)(Cl)Cl", 3}, {"FF(F)", 2},    {"C1CCCCC1:C", 9},
         {"[C@TH3]", 3},       {"[13]", 4},          {"C/C=C/", 6},       {"C(C)(", 5},
         {"C1C1", 4},          {"[CH5]", 1},         {"1CC", 1},          {"C(1)C", 3},
+        /* found by fuzzing: explicit [H] atoms counted as bonds before they are folded */
+        {"c1ccccc1([H])[H]", 7}, {"C1Cc1(C)[H]", 4}, {"c1nc=1[H]", 4},
     };
     int n = (int)(sizeof t / sizeof t[0]);
     CU_ASSERT(n >= 30);
