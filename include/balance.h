@@ -75,6 +75,11 @@ struct bal_out {
  * caller: bal_free. */
 enum hl_status bal_compute(const struct bal_in *in, struct bal_out *out, struct hl_err *e);
 
+/* Deep copy of a computed balance for an identical run (a repeat): products and their
+ * structures are duplicated; the selectivity detail (sel) is not carried over (zeroed).
+ * dst is owned by the caller (bal_free); on HL_ERR_NOMEM dst is left empty. */
+enum hl_status bal_copy(struct bal_out *dst, const struct bal_out *src, struct hl_err *e);
+
 /* Free what bal_compute allocated (products, their structures, the selectivity
  * result) and zero *out; safe on a zeroed or already freed result. */
 void bal_free(struct bal_out *out);

@@ -322,6 +322,27 @@ enum hl_status bal_compute(const struct bal_in *in, struct bal_out *o, struct hl
     return st;
 }
 
+enum hl_status bal_copy(struct bal_out *dst, const struct bal_out *src, struct hl_err *e)
+{
+    *dst = *src;
+    memset(&dst->sel, 0, sizeof dst->sel);
+    dst->products = hl_calloc((size_t)(src->nproducts ? src->nproducts : 1), sizeof *dst->products);
+    dst->nproducts = 0;
+    if (!dst->products)
+        goto nomem;
+    for (int i = 0; i < src->nproducts; i++) {
+        dst->products[i] = src->products[i];
+        dst->products[i].smiles = NULL;
+        dst->nproducts = i + 1;
+        if (src->products[i].smiles && !(dst->products[i].smiles = hl_strdup(src->products[i].smiles)))
+            goto nomem;
+    }
+    return HL_OK;
+nomem:
+    bal_free(dst);
+    return hl_err_set(e, HL_ERR_NOMEM, "out of memory");
+}
+
 void bal_free(struct bal_out *o)
 {
     if (!o)

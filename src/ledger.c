@@ -193,12 +193,16 @@ static enum hl_status balance_runs(const struct campaign *c, struct ledger *l, s
     for (int i = 0; i < c->nruns; i++)
         if (c->runs[i].src_index >= nsrc)
             nsrc = c->runs[i].src_index + 1;
-    char *listed = hl_calloc((size_t)nsrc, 1);
-    if (!sorted || !l->runs || !listed) {
+    /* first[s] = ledger index of the first run of campaign entry s: its repeats are the
+     * same batch at another time, so their balance is copied rather than recomputed */
+    int *first = hl_malloc((size_t)nsrc * sizeof *first);
+    if (!sorted || !l->runs || !first) {
         hl_free(sorted);
-        hl_free(listed);
+        hl_free(first);
         return nomem(e);
     }
+    for (int s = 0; s < nsrc; s++)
+        first[s] = -1;
     for (int i = 0; i < c->nruns; i++)
         sorted[i] = &c->runs[i];
     qsort(sorted, (size_t)c->nruns, sizeof *sorted, by_start);
@@ -234,20 +238,24 @@ static enum hl_status balance_runs(const struct campaign *c, struct ledger *l, s
             .vent_retained_fraction = r->vent_retained_fraction};
         model_to_input(&r->model, &in);
         hl_err_clear(e);
-        st = bal_compute(&in, &lr->bal, e);
-        if (st == HL_ERR_INPUT)
-            st = blame_run(c, r, e);
-        else if (st == HL_OK && lr->bal.warning[0])
-            st = warn(l, e, lr->id, "%s", lr->bal.warning);
-        /* repeats of one entry use the same values: list them once */
-        if (!st && !listed[r->src_index]) {
-            listed[r->src_index] = 1;
-            st = run_assumptions(l, &in, &lr->bal, e);
+        int twin = first[r->src_index];
+        if (twin >= 0) {
+            st = bal_copy(&lr->bal, &l->runs[twin].bal, e);
+        } else {
+            st = bal_compute(&in, &lr->bal, e);
+            if (st == HL_ERR_INPUT)
+                st = blame_run(c, r, e);
+            if (!st) {
+                first[r->src_index] = i;
+                st = run_assumptions(l, &in, &lr->bal, e);
+            }
+            sel_free(&lr->bal.sel); /* the products hold what the writers need */
         }
-        sel_free(&lr->bal.sel); /* the products hold what the writers need */
+        if (!st && lr->bal.warning[0])
+            st = warn(l, e, lr->id, "%s", lr->bal.warning);
     }
     hl_free(sorted);
-    hl_free(listed);
+    hl_free(first);
     return st;
 }
 
