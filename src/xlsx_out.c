@@ -584,10 +584,17 @@ static lxw_row_t xo_summary_rows(struct xw *w)
         char note[200], at[24] = "-";
         if (s->out.nhours > 0)
             isodate_format(s->out.peak_at_min, 0, at, sizeof at);
-        snprintf(note, sizeof note, "hour from %s; rated %.3g kmol/h%s", at,
-                 s->rated_acid_kmol_h, s->out.overloaded ? "; OVER THE RATED CAPACITY" : "");
-        snprintf(item, sizeof item, "Peak acid gas at %.60s [kmol/h]", s->id ? s->id : "?");
+        snprintf(note, sizeof note, "mean over the hour from %s", at);
+        snprintf(item, sizeof item, "Peak hourly load at %.60s [kmol/h]", s->id ? s->id : "?");
         kv_num(&k, item, XK_RATE, s->out.peak_acid_kmol_h, note);
+        if (s->out.npeak_instant_runs > 0)
+            isodate_format(s->out.peak_instant_at_min, 0, at, sizeof at);
+        snprintf(note, sizeof note, "from %s; rated %.3g kmol/h%s", at, s->rated_acid_kmol_h,
+                 s->out.overloaded ? "; OVER THE RATED CAPACITY" : "");
+        snprintf(item, sizeof item, "Peak instantaneous load at %.60s [kmol/h]", s->id ? s->id : "?");
+        kv_num(&k, item, XK_RATE, s->out.peak_instant_kmol_h, note);
+        snprintf(item, sizeof item, "Hottest liquor at %.60s [°C]", s->id ? s->id : "?");
+        kv_num(&k, item, XK_TEMP, s->out.max_liquor_temp_c, s->out.too_hot_runs ? "cooling needed (no cooler modelled)" : "adiabatic, no cooler modelled");
     }
     kv_num(&k, "Scrubber overloads [count]", XK_INT, overloads, NULL);
     kv_num(&k, "Late orders [count]", XK_INT, late, late ? "order-by date already passed" : NULL);

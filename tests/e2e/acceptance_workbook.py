@@ -338,8 +338,10 @@ def check_numbers(tag, wb, led):
     check(abs(tot_hcl - tot_hcl_runs) <= 1e-9 * max(tot_hcl, 1), f"{tag}: months HCl {tot_hcl} vs runs {tot_hcl_runs}")
     check(lab.get("Runs [count]") == len(led["runs"]), f"{tag}: Summary runs count")
     for s in led["scrubbers"]:
-        k = f"Peak acid gas at {s['id']} [kmol/h]"
-        check(same(lab.get(k), s["peak_acid_kmol_h"]), f"{tag}: Summary {k} {lab.get(k)!r} vs {s['peak_acid_kmol_h']}")
+        for k, v in ((f"Peak hourly load at {s['id']} [kmol/h]", s["peak_acid_kmol_h"]),
+                     (f"Peak instantaneous load at {s['id']} [kmol/h]", s["peak_instant_kmol_h"]),
+                     (f"Hottest liquor at {s['id']} [°C]", s["max_liquor_temp_c"])):
+            check(same(lab.get(k), v), f"{tag}: Summary {k} {lab.get(k)!r} vs {v}")
     tot_naoh = sum(s["naoh_kg"] for s in led["scrubbers"])
     check(same(lab.get("NaOH consumed in scrubbers [kg]"), tot_naoh, 1e-12), f"{tag}: Summary NaOH {lab.get('NaOH consumed in scrubbers [kg]')} vs {tot_naoh}")
     check(lab.get("Warnings [count]") == len(led["warnings"]), f"{tag}: Summary warnings count {lab.get('Warnings [count]')} vs {len(led['warnings'])}")
