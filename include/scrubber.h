@@ -32,7 +32,9 @@ struct scrub_unit_in {
     double packing_factor_1_m, htu_m, removal_fraction, flood_fraction;
     double carrier_kmol_h, liquor_kg_h, gas_temp_c;
     /* 0 = default: */
-    double fresh_liquor_temp_c; /* liquor at the first fill and every fresh charge; 0 -> 25 C */
+    double fresh_liquor_temp_c; /* liquor at the first fill and every fresh charge; 0 -> 25 C
+                                 * unless fresh_temp_given (then 0 C is 0 C) */
+    int fresh_temp_given;
     double max_liquor_temp_c;   /* hottest liquor allowed (caustic: hypochlorite turns to
                                  * chlorate and absorbs Cl2 worse above it); 0 -> 40 C */
 };

@@ -72,9 +72,11 @@ static enum hl_status substrate_from_formula(const struct bal_in *in, struct sel
         return hl_err_at(e, HL_ERR_INPUT, 0, 0, "formula",
                          "substrate %s has no hydrogen to substitute", in->formula);
     s->molar_mass_g_mol = formula_molar_mass_g_mol(&s->substrate);
-    s->h0 = h > KIN_MAX_STEPS ? KIN_MAX_STEPS : (int)h;
+    /* the true H count: the step constants fall as (H - n); kin_step_constants* cap the
+     * chain at KIN_MAX_STEPS themselves */
+    s->h0 = (int)h;
     s->mean_r = 1.0;
-    s->class_h[SITE_PRIMARY] = (double)s->h0;
+    s->class_h[SITE_PRIMARY] = (double)h;
     s->class_r[SITE_PRIMARY] = 1.0;
     s->iso = hl_calloc(1, sizeof *s->iso);
     if (!s->iso)

@@ -380,6 +380,11 @@ enum hl_status kin_solve_extent(enum kin_mode mode, const double *k, int nsteps,
     return HL_OK;
 }
 
+/* A small overhalogenation factor makes phi^n underflow the accepted range on long
+ * chains; those steps are never reached at any attainable extent, so they are held at
+ * the floor instead of refusing the run. */
+static double floor_k(double k) { return k > 0 && k < KIN_K_MIN ? KIN_K_MIN : k; }
+
 int kin_step_constants(int h0, double mean_r, double phi, const double *ratios, int nratios,
                        double *k)
 {
@@ -398,7 +403,7 @@ int kin_step_constants(int h0, double mean_r, double phi, const double *ratios, 
         if (!(mean_r > 0.0) || isinf(mean_r) || !(phi > 0.0) || isinf(phi))
             return -1;
         for (int i = 0; i < n; i++)
-            k[i] = (double)(h0 - i) * mean_r * pow(phi, i);
+            k[i] = floor_k((double)(h0 - i) * mean_r * pow(phi, i));
     }
     for (int i = 0; i < n; i++)
         if (!(k[i] >= KIN_K_MIN && k[i] <= KIN_K_MAX))
@@ -433,7 +438,7 @@ int kin_step_constants_sites(const double *n_h, const double *r, int nclass, dou
         double rate = 0;
         for (int j = 0; j < nclass; j++)
             rate += c[j] * r[j];
-        k[i] = rate * pow(phi, i);
+        k[i] = floor_k(rate * pow(phi, i));
         if (!(k[i] >= KIN_K_MIN && k[i] <= KIN_K_MAX))
             return -1;
         /* remove one H: classes whose proportional share exceeds what they hold are

@@ -292,7 +292,7 @@ static enum hl_status run_scrubbers(const struct campaign *c, struct ledger *l, 
             .removal_fraction = s->column.removal_fraction, .flood_fraction = s->column.flood_fraction,
             .carrier_kmol_h = s->column.carrier_kmol_h, .liquor_kg_h = s->column.liquor_kg_h,
             .gas_temp_c = s->column.gas_temp_c,
-            .fresh_liquor_temp_c = s->fresh_liquor_temp_c,
+            .fresh_liquor_temp_c = s->fresh_liquor_temp_c, .fresh_temp_given = 1,
             .max_liquor_temp_c = s->max_liquor_temp_c};
     }
     for (int i = 0; i < nr; i++) {

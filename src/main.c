@@ -162,15 +162,17 @@ static int write_outputs(const struct ledger *l, const char *const *outputs, int
     struct hl_err e;
     enum hl_status st = HL_OK;
     int i, failed = -1;
-    for (i = 0; i < nout && !st; i++) {
+    for (i = 0; i < nout; i++) {
         hl_err_clear(&e);
-        if ((st = afile_check_target(outputs[i], &e)) || (st = afile_tmpname(outputs[i], &staged[i], &e)))
+        if (!(st = afile_check_target(outputs[i], &e)) &&
+            !(st = afile_tmpname(outputs[i], &staged[i], &e)))
+            st = has_ext(outputs[i], ".xlsx") ? xlsx_out_write(l, staged[i], &e)
+                                              : json_out_write(l, staged[i], &e);
+        if (st) {
+            failed = i;
             break;
-        st = has_ext(outputs[i], ".xlsx") ? xlsx_out_write(l, staged[i], &e)
-                                          : json_out_write(l, staged[i], &e);
+        }
     }
-    if (st)
-        failed = i < nout ? i : nout - 1;
     for (i = 0; i < nout && !st; i++)
         if ((st = afile_commit(staged[i], outputs[i], &e)))
             failed = i;

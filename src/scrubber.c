@@ -308,7 +308,8 @@ static double liq_mass(const struct liq *q)
 
 static double fresh_temp_c(const struct scrub_unit_in *u)
 {
-    return u->fresh_liquor_temp_c != 0 ? u->fresh_liquor_temp_c : DEFAULT_FRESH_TEMP_C;
+    return u->fresh_temp_given || u->fresh_liquor_temp_c != 0 ? u->fresh_liquor_temp_c
+                                                              : DEFAULT_FRESH_TEMP_C;
 }
 
 static void fill(const struct scrub_unit_in *u, struct liq *q)

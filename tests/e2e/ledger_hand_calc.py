@@ -28,7 +28,8 @@ CAMPAIGN = {
     "title": "hand calculation",
     "site": "test bench",
     "scrubbers": [{"id": "S1", "liquor": "naoh", "naoh_wt_pct": 20, "liquor_kg": 5000,
-                   "min_naoh_wt_pct": 2, "rated_acid_kmol_h": 5}],
+                   "min_naoh_wt_pct": 2, "rated_acid_kmol_h": 5, "fresh_liquor_temp_c": 0,
+                   "max_liquor_temp_c": 150}],
     "stock": [{"reagent": "Cl2", "on_hand_kg": 0, "safety_kg": 0, "lead_days": 10}],
     "containers": [{"reagent": "Cl2", "name": "test drum", "net_kg": 50, "heel_kg": 5}],
     "runs": [
@@ -40,6 +41,11 @@ CAMPAIGN = {
          "substrate": {"name": "2-methylpropane", "smiles": "CC(C)C"}, "substrate_kg": 58.122,
          "reagent": "Cl2", "reagent_eq": 0.01, "halogen_conversion": 1.0, "temp_c": 25,
          "feed_h": 1},
+        # more H than the 64-step chain: the step constants still fall as (82 - n)
+        {"id": "T-1", "start": "2027-03-08T06:00", "reactor": "R1",
+         "substrate": {"name": "tetracontane", "formula": "C40H82"}, "substrate_kg": 100,
+         "reagent": "Cl2", "reagent_eq": 20, "halogen_conversion": 1.0, "temp_c": 25,
+         "feed_h": 8},
     ],
 }
 
@@ -96,16 +102,51 @@ if "I-1" in runs:
         close(shares[1], 9 / 14, 1e-9, "isobutyl chloride share")
     check(runs["I-1"]["element_balance"]["max_rel_error"] <= 1e-9, "element closure I-1")
 
+if "T-1" in runs:
+    # binomial with N = 82 H, p = 20/82 (all H alike, phi = 1): the peak degree to 1e-9,
+    # degree 0 (1e-10 of the moles) to the solver's absolute accuracy
+    N, p_ = 82, 20 / 82
+    by_deg = {}
+    for pr in runs["T-1"]["products"]:
+        by_deg[pr["degree"]] = by_deg.get(pr["degree"], 0) + pr["mol_fraction"]
+    close(by_deg.get(20, 0), math.comb(N, 20) * p_**20 * (1 - p_) ** 62, 1e-9, "C40H82 degree 20")
+    close(by_deg.get(0, 0), (1 - p_) ** N, 1e-4, "C40H82 degree 0")
+if "P-1" in runs:
+    # fresh liquor at 0 C (given, not the 25 C default): the first run starts from 0 C
+    sc = runs["P-1"]["scrubber"]
+    close(sc["liquor_temp_c_after"], sc["temp_rise_k"], 1e-12, "liquor from a 0 C fresh charge")
+
 # orders: demand of both runs; 45 kg usable per drum; order-by = first use - 10 days
 cl2 = [o for o in L["orders"] if o["reagent"] == "Cl2"]
 check(len(cl2) == 1, "one Cl2 order line")
 if cl2 and "P-1" in runs and "I-1" in runs:
     o = cl2[0]
-    demand = runs["P-1"]["reagent_charged"]["kg"] + runs["I-1"]["reagent_charged"]["kg"]
+    demand = sum(runs[k]["reagent_charged"]["kg"] for k in ("P-1", "I-1", "T-1") if k in runs)
     close(o["demand_kg"], demand, 1e-9, "Cl2 demand")
     check(o["containers"] == math.ceil(demand / 45.0), f"containers {o['containers']}")
     check(o["order_by"].startswith("2027-02-20"), f"order_by {o['order_by']}")
     check(o["container"] == "test drum", "container name")
+
+# a writer that fails (file-size limit, as a full disk does) on the first of two outputs:
+# the message names that output, not its staged temporary, and nothing is left behind
+import resource, signal
+
+
+def small_files():
+    signal.signal(signal.SIGXFSZ, signal.SIG_IGN)
+    resource.setrlimit(resource.RLIMIT_FSIZE, (4096, 4096))
+
+
+with tempfile.TemporaryDirectory() as d:
+    camp = os.path.join(d, "hand.json")
+    with open(camp, "w") as f:
+        json.dump(CAMPAIGN, f)
+    a, b = os.path.join(d, "first.json"), os.path.join(d, "second.xlsx")
+    p = subprocess.run([BIN, "report", camp, "-o", a, "-o", b], capture_output=True, text=True,
+                       preexec_fn=small_files)
+    check(p.returncode == 1, f"file-size limit: exit {p.returncode}")
+    check(a in p.stderr and ".tmp" not in p.stderr, f"file-size limit message: {p.stderr.strip()}")
+    check(sorted(os.listdir(d)) == ["hand.json"], f"left behind: {sorted(os.listdir(d))}")
 
 if fails:
     print("\n".join(fails))

@@ -423,7 +423,11 @@ static void step_constants(void)
     CU_ASSERT_EQUAL(kin_step_constants(3, 0.0, 1.0, NULL, 0, k), -1);
     CU_ASSERT_EQUAL(kin_step_constants(3, 1.0, -1.0, NULL, 0, k), -1);
     CU_ASSERT_EQUAL(kin_step_constants(3, 1.0, NAN, NULL, 0, k), -1);
-    CU_ASSERT_EQUAL(kin_step_constants(3, 1.0, 1e-150, NULL, 0, k), -1); /* k underflows range */
+    /* phi^n under the accepted range: held at the floor (never-reached steps), not refused */
+    CU_ASSERT_EQUAL(kin_step_constants(3, 1.0, 1e-150, NULL, 0, k), 3);
+    ASSERT_REL(k[0], 3.0, 1e-15);
+    ASSERT_REL(k[1], 2e-150, 1e-12);
+    ASSERT_REL(k[2], 1e-200, 1e-12);
     static const double bad[] = {1.0, -4.7};
     CU_ASSERT_EQUAL(kin_step_constants(3, 1.0, 1.0, bad, 2, k), -1);
     CU_ASSERT_EQUAL(kin_step_constants(3, 1.0, 1.0, NULL, 2, k), -1);
@@ -499,6 +503,10 @@ static void site_depletion(void)
     double none[2] = {0, 0};
     CU_ASSERT_EQUAL(kin_step_constants_sites(none, r2, 2, 1.0, k), -1);
     CU_ASSERT_EQUAL(kin_step_constants_sites(n2, r2, 2, 0.0, k), -1);
+    /* a small phi on a long chain: the far steps sit at the floor instead of failing */
+    double n4[1] = {30}, r4[1] = {1};
+    CU_ASSERT_EQUAL(kin_step_constants_sites(n4, r4, 1, 1e-9, k), 30);
+    ASSERT_REL(k[29], 1e-200, 1e-12);
 }
 
 int main(void)
