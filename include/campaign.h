@@ -110,6 +110,9 @@ struct camp_container {
     struct camp_pos pos;
 };
 
+#define CAMP_DEFAULT_FEED_H 1u /* feed_h not given: 1 h (sets the vent rate and peak) */
+#define CAMP_DEFAULT_TEMP 2u   /* temp_c not given: 25 C (sets isomer shares) */
+
 struct camp_run {
     char *id;                   /* with -1, -2 ... suffix when expanded from repeat */
     int src_index;              /* index in the file's runs[] */
@@ -129,6 +132,7 @@ struct camp_run {
     double peak_factor;         /* default 1 */
     double vent_retained_fraction; /* default 0 */
     enum camp_mode mode;
+    unsigned defaulted;         /* CAMP_DEFAULT_* bits: safety-relevant values not given */
     struct camp_model model;    /* campaign-level block merged under the run's own */
     struct camp_pos pos, pos_smiles, pos_formula, pos_product_smiles, pos_reagent, pos_amount;
     struct camp_pos pos_id, pos_start; /* of the id and start values (shared by repeat copies) */

@@ -1362,6 +1362,7 @@ static enum hl_status parse_run(struct reader *rd, const cJSON *o, int idx, stru
         r->pos_amount = pos_of(c, k[RK_KG]);
     }
     int mode = 0;
+    r->defaulted = (k[RK_FEED] ? 0u : CAMP_DEFAULT_FEED_H) | (k[RK_TEMP] ? 0u : CAMP_DEFAULT_TEMP);
     if ((k[RK_CONV] && (st = get_num(c, k[RK_CONV], rconv, &r->halogen_conversion))) ||
         (k[RK_TEMP] && (st = get_num(c, k[RK_TEMP], R_TEMP_C, &r->temp_c))) ||
         (k[RK_FEED] && (st = get_num(c, k[RK_FEED], rfeed, &r->feed_h))) ||

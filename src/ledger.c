@@ -177,6 +177,24 @@ static enum hl_status run_assumptions(struct ledger *l, const struct bal_in *in,
                                 "next abstraction (set model.overhalogenation_factor)");
 }
 
+/* Values that move safety figures should not pass unnoticed when left to a default:
+ * once per campaign entry, and only where they matter for this run. */
+static enum hl_status warn_defaults(struct ledger *l, const struct camp_run *r,
+                                    const struct bal_out *b, struct hl_err *e)
+{
+    double gas = 0;
+    for (int v = 0; v < VS_COUNT; v++)
+        gas += b->vent_mol[v];
+    enum hl_status st = HL_OK;
+    if ((r->defaulted & CAMP_DEFAULT_FEED_H) && gas > 0)
+        st = warn(l, e, r->id, "feed_h not given: %.3g h assumed; the vent rate and the scrubber "
+                  "peak depend on it", r->feed_h);
+    if (!st && (r->defaulted & CAMP_DEFAULT_TEMP) && r->smiles)
+        st = warn(l, e, r->id, "temp_c not given: %.3g C assumed; the isomer shares depend on it",
+                  r->temp_c);
+    return st;
+}
+
 static int by_start(const void *a, const void *b)
 {
     const struct camp_run *x = *(const struct camp_run *const *)a, *y = *(const struct camp_run *const *)b;
@@ -249,6 +267,8 @@ static enum hl_status balance_runs(const struct campaign *c, struct ledger *l, s
                 first[r->src_index] = i;
                 st = run_assumptions(l, &in, &lr->bal, e);
             }
+            if (!st)
+                st = warn_defaults(l, r, &lr->bal, e);
             sel_free(&lr->bal.sel); /* the products hold what the writers need */
         }
         if (!st && lr->bal.warning[0])

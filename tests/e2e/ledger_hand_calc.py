@@ -39,8 +39,7 @@ CAMPAIGN = {
          "feed_h": 4},
         {"id": "I-1", "start": "2027-03-05T06:00", "reactor": "R1", "scrubber": "S1",
          "substrate": {"name": "2-methylpropane", "smiles": "CC(C)C"}, "substrate_kg": 58.122,
-         "reagent": "Cl2", "reagent_eq": 0.01, "halogen_conversion": 1.0, "temp_c": 25,
-         "feed_h": 1},
+         "reagent": "Cl2", "reagent_eq": 0.01, "halogen_conversion": 1.0},
         # more H than the 64-step chain: the step constants still fall as (82 - n)
         {"id": "T-1", "start": "2027-03-08T06:00", "reactor": "R1",
          "substrate": {"name": "tetracontane", "formula": "C40H82"}, "substrate_kg": 100,
@@ -111,6 +110,12 @@ if "T-1" in runs:
         by_deg[pr["degree"]] = by_deg.get(pr["degree"], 0) + pr["mol_fraction"]
     close(by_deg.get(20, 0), math.comb(N, 20) * p_**20 * (1 - p_) ** 62, 1e-9, "C40H82 degree 20")
     close(by_deg.get(0, 0), (1 - p_) ** N, 1e-4, "C40H82 degree 0")
+# I-1 leaves temp_c and feed_h to their defaults (25 C, 1 h): both are named in a warning;
+# P-1 gives them, so it gets neither
+defaulted = [(w["run"], w["message"]) for w in L.get("warnings", []) if "not given" in w["message"]]
+check(("I-1" in {r for r, m in defaulted if m.startswith("temp_c")}) and
+      ("I-1" in {r for r, m in defaulted if m.startswith("feed_h")}), f"default warnings {defaulted}")
+check(not any(r == "P-1" for r, m in defaulted), f"P-1 gave its values: {defaulted}")
 if "P-1" in runs:
     # fresh liquor at 0 C (given, not the 25 C default): the first run starts from 0 C
     sc = runs["P-1"]["scrubber"]
