@@ -79,7 +79,7 @@ struct xw {
     const char *sheet;
     enum hl_status st;
     struct hl_err *e;
-    lxw_format *fmt[XK_COUNT][2], *head, *title, *wrap, *bold, *note;
+    lxw_format *fmt[XK_COUNT][2], *head, *title, *wrap, *bold, *note, *top, *bold_top;
     double width[XO_MAXCOL];
     int maxcol;
     struct xblock *blk;        /* block whose row is being written (for sums) */
@@ -190,6 +190,10 @@ static void xo_text(struct xw *w, lxw_row_t row, lxw_col_t col, const char *s, l
         return;
     int chars;
     const char *t = xo_clean(w, s, &chars);
+    /* a long unformatted text (a warning, a note) wraps in its capped column instead of
+     * running across the neighbours, on screen and on paper */
+    if (!f && chars > 60)
+        f = w->wrap;
     /* worksheet_write_string never makes a formula, whatever the first character */
     xo_check(w, worksheet_write_string(w->ws, row, col, t, f), row, col);
     if (f != w->wrap && f != w->head)
@@ -351,6 +355,11 @@ static int xo_sheet(struct xw *w, const char *name)
     w->maxcol = 0;
     /* header row: three wrapped lines; set before any cell (constant_memory order) */
     xo_check(w, worksheet_set_row(w->ws, 0, 46, NULL), 0, 0);
+    /* printed: landscape A4, all columns on one page width, the header row on every page */
+    worksheet_set_landscape(w->ws);
+    worksheet_set_paper(w->ws, 9);
+    worksheet_fit_to_pages(w->ws, 1, 0);
+    xo_check(w, worksheet_repeat_rows(w->ws, 0, 0), 0, 0);
     return w->st == HL_OK;
 }
 
@@ -604,13 +613,18 @@ static lxw_row_t xo_summary_rows(struct xw *w)
     if (l->nwarnings == 0)
         xo_text(w, k.row++, 0, "(none)", w->note);
     for (int i = 0; i < l->nwarnings && w->st == HL_OK; i++) {
-        xo_text(w, k.row, 0, "Warning", NULL);
-        xo_text(w, k.row, 1, l->warnings[i].run ? l->warnings[i].run : "campaign", NULL);
-        xo_text(w, k.row, 2, l->warnings[i].message, NULL);
+        /* the message wraps in its 62-wide column: give the row one line per ~50 chars */
+        size_t len = strlen(l->warnings[i].message);
+        if (!w->dry && len > 60)
+            xo_check(w, worksheet_set_row(w->ws, k.row, 13.0 * (double)((len + 49) / 50), NULL),
+                     k.row, 0);
+        xo_text(w, k.row, 0, "Warning", w->top);
+        xo_text(w, k.row, 1, l->warnings[i].run ? l->warnings[i].run : "campaign", w->top);
+        xo_text(w, k.row, 2, l->warnings[i].message, w->wrap);
         k.row++;
     }
     k.row++;
-    xo_text(w, k.row, 0, "Safety notice", w->bold);
+    xo_text(w, k.row, 0, "Safety notice", w->bold_top);
     if (!w->dry)
         xo_check(w, worksheet_set_row(w->ws, k.row, 105, NULL), k.row, 0);
     xo_text(w, k.row, 1, xo_safety, w->wrap);
@@ -1211,9 +1225,11 @@ static void xo_monthly(struct xw *w)
         rg[nr++] = MC_REAGENT;
     int caustic[2] = {MC_NAOH, MC_REAGENT + RG_NAOH};
     lxw_row_t at = (lxw_row_t)(b.nrows + 3);
+    /* stacked, not side by side: the month columns are narrow, so charts placed a few
+     * columns apart would cover each other (each is about 18 rows tall at this scale) */
     xo_chart(w, &b, LXW_CHART_COLUMN, "Acid gas to the scrubbers", acid, na, at, 0);
-    xo_chart(w, &b, LXW_CHART_COLUMN, "Halogen reagents charged", rg, nr, at, 6);
-    xo_chart(w, &b, LXW_CHART_LINE, "Caustic: consumed and bought", caustic, 2, at, 12);
+    xo_chart(w, &b, LXW_CHART_COLUMN, "Halogen reagents charged", rg, nr, at + 19, 0);
+    xo_chart(w, &b, LXW_CHART_LINE, "Caustic: consumed and bought", caustic, 2, at + 38, 0);
 }
 
 /* --- Cautions ------------------------------------------------------------ */
@@ -1328,6 +1344,7 @@ static int xo_formats(struct xw *w)
         }
     if (!(w->head = workbook_add_format(w->wb)) || !(w->title = workbook_add_format(w->wb)) ||
         !(w->wrap = workbook_add_format(w->wb)) || !(w->bold = workbook_add_format(w->wb)) ||
+        !(w->top = workbook_add_format(w->wb)) || !(w->bold_top = workbook_add_format(w->wb)) ||
         !(w->note = workbook_add_format(w->wb)))
         return 0;
     format_set_bold(w->head);
@@ -1338,6 +1355,9 @@ static int xo_formats(struct xw *w)
     format_set_font_size(w->title, 13);
     format_set_text_wrap(w->wrap);
     format_set_align(w->wrap, LXW_ALIGN_VERTICAL_TOP);
+    format_set_align(w->top, LXW_ALIGN_VERTICAL_TOP);
+    format_set_bold(w->bold_top);
+    format_set_align(w->bold_top, LXW_ALIGN_VERTICAL_TOP);
     format_set_bold(w->bold);
     format_set_italic(w->note);
     return 1;
