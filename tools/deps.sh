@@ -3,8 +3,9 @@
 # Uses apt-get as root, else sudo; otherwise prints the exact command to run.
 # build: pkg-config gcc make and the three -dev libraries; tests: Debian's python3 with RDKit and
 # openpyxl (reference readers), valgrind (allocation-failure walk), clang + libFuzzer runtime
-# (fuzz targets and their regression run)
-PKGS="pkg-config gcc make libxlsxwriter-dev libcjson-dev libcunit1-dev python3 python3-rdkit python3-openpyxl valgrind clang-14 libclang-rt-14-dev"
+# (fuzz targets and their regression run), LibreOffice Calc (cached formula values against a
+# real recalculation)
+PKGS="pkg-config gcc make libxlsxwriter-dev libcjson-dev libcunit1-dev python3 python3-rdkit python3-openpyxl valgrind clang-14 libclang-rt-14-dev libreoffice-calc-nogui"
 missing=""
 for p in $PKGS; do
     dpkg-query -W -f='${Status}' "$p" 2>/dev/null | grep -q "install ok installed" || missing="$missing $p"
