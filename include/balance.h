@@ -55,6 +55,8 @@ struct bal_out {
     double reagent_reacted_mol, reagent_unreacted_mol;
     double halogen_reacted_mol;          /* C-X bonds formed */
     int capped;                          /* reaction limited by what the substrate can take */
+    int isomers_resolved;                /* 1 with a SMILES substrate; 0: formula only, every
+                                          * monohalide is one "wanted" product */
     double mean_degree;                  /* halogen per mole of substrate */
     struct bal_product *products; int nproducts; /* degree 0 first, then wanted, isomers, higher degrees */
     double hx_kg[2];                     /* [0] HCl, [1] HBr formed */

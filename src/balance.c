@@ -186,6 +186,7 @@ static enum hl_status compute(const struct bal_in *in, struct bal_out *o, struct
     if (st)
         return st;
     struct sel_result *s = &o->sel;
+    o->isomers_resolved = in->smiles != NULL;
     formula_hill(&s->substrate, o->substrate_formula, sizeof o->substrate_formula);
     o->substrate_molar_mass_g_mol = s->molar_mass_g_mol;
     o->substrate_mol = in->substrate_kg * 1000.0 / s->molar_mass_g_mol;

@@ -412,6 +412,7 @@ static cJSON *jo_run(struct jo *w, const struct ledger *l, int i)
         jo_num(w, eo, "in_mol", b->el_in_mol[k]);
         jo_num(w, eo, "out_mol", b->el_out_mol[k]);
     }
+    jo_bool(w, o, "isomers_resolved", b->isomers_resolved);
     if (b->warning[0])
         jo_str(w, o, "warning", b->warning);
     jo_pop(w, mark);

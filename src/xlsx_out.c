@@ -690,7 +690,11 @@ static void row_run(struct xw *w, struct xblock *b, lxw_row_t row, int i)
     xb_num(w, b, row, k++, r->scrub.temp_rise_k);
     xb_flag(w, b, row, k++, r->scrub.changeout_before);
     xb_num(w, b, row, k++, o->max_rel_error);
-    xb_text(w, b, row, k++, o->warning);
+    xb_text(w, b, row, k++,
+            o->warning[0] ? o->warning
+            : o->isomers_resolved ? NULL
+                                  : "formula substrate: isomers not resolved, every monohalide "
+                                    "counted as the wanted product");
 }
 
 static void xo_runs(struct xw *w)

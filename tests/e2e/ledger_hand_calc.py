@@ -116,6 +116,9 @@ defaulted = [(w["run"], w["message"]) for w in L.get("warnings", []) if "not giv
 check(("I-1" in {r for r, m in defaulted if m.startswith("temp_c")}) and
       ("I-1" in {r for r, m in defaulted if m.startswith("feed_h")}), f"default warnings {defaulted}")
 check(not any(r == "P-1" for r, m in defaulted), f"P-1 gave its values: {defaulted}")
+# a formula substrate cannot resolve isomers; a SMILES one does
+check(runs.get("P-1", {}).get("isomers_resolved") is False, "P-1 (formula) isomers_resolved false")
+check(runs.get("I-1", {}).get("isomers_resolved") is True, "I-1 (SMILES) isomers_resolved true")
 if "P-1" in runs:
     # fresh liquor at 0 C (given, not the 25 C default): the first run starts from 0 C
     sc = runs["P-1"]["scrubber"]
