@@ -567,11 +567,11 @@ static int edge_cmp(const void *pa, const void *pb)
  * edges, so its maximum is reached just after some group of edges at one time.  The load
  * is read only after every edge at that time is applied, so a window closing at the
  * minute another opens never adds to it.  One sort of the 2n edges, one sweep
- * (Neumaier-compensated running sum, reset when the unit falls idle), then one pass over
- * the runs for the ones venting at the peak, whose rates are summed afresh so the figure
- * carries no sweep round-off. */
-static enum hl_status instant_peaks(const struct scrub_run_in *runs, int nruns, const int *order,
-                                    const struct scrub_run_out *run_out, int nunits,
+ * (Neumaier-compensated running sum, reset when the unit falls idle); runs_at_peak then
+ * finds the runs venting at the peak and sums their rates afresh, so the figure carries
+ * no sweep round-off. */
+static enum hl_status instant_peaks(const struct scrub_run_in *runs, int nruns,
+                                    const struct scrub_run_out *run_out,
                                     struct scrub_unit_out *unit_out, struct hl_err *e)
 {
     struct edge *ev = hl_malloc((size_t)(2 * nruns + 1) * sizeof *ev);
@@ -611,16 +611,28 @@ static enum hl_status instant_peaks(const struct scrub_run_in *runs, int nruns, 
     }
     hl_free(ev);
 
-    /* runs venting at each unit's peak instant [at, at + 0): start <= at < end */
+    return HL_OK;
+}
+
+/* The runs of each unit that make its peak: for the hourly peak those whose vent window
+ * overlaps the peak clock hour [at, at + 60 min) by a positive length, for the
+ * instantaneous peak those venting at its instant (start <= at < end), whose rates are
+ * summed again into peak_instant_kmol_h. Two passes over the runs (count, then fill):
+ * linear in runs. */
+static enum hl_status runs_at_peak(const struct scrub_run_in *runs, int nruns, const int *order,
+                                   const struct scrub_run_out *run_out, int nunits,
+                                   struct scrub_unit_out *unit_out, int hourly, struct hl_err *e)
+{
     for (int pass = 0; pass < 2; pass++) {
         for (int u = 0; u < nunits; u++) {
-            if (pass == 1 && unit_out[u].npeak_instant_runs &&
-                !(unit_out[u].peak_instant_runs =
-                      hl_malloc((size_t)unit_out[u].npeak_instant_runs * sizeof(int))))
+            struct scrub_unit_out *o = &unit_out[u];
+            int **list = hourly ? &o->peak_runs : &o->peak_instant_runs;
+            int *n = hourly ? &o->npeak_runs : &o->npeak_instant_runs;
+            if (pass == 1 && *n && !(*list = hl_malloc((size_t)*n * sizeof(int))))
                 return hl_err_set(e, HL_ERR_NOMEM, "out of memory in the scrubber model");
-            unit_out[u].npeak_instant_runs = 0;
-            if (pass == 1)
-                unit_out[u].peak_instant_kmol_h = 0;
+            *n = 0;
+            if (pass == 1 && !hourly)
+                o->peak_instant_kmol_h = 0;
         }
         for (int k = 0; k < nruns; k++) {
             int i = order[k];
@@ -628,14 +640,24 @@ static enum hl_status instant_peaks(const struct scrub_run_in *runs, int nruns, 
             if (r->unit < 0 || !(run_out[i].acid_kmol_h > 0))
                 continue;
             struct scrub_unit_out *o = &unit_out[r->unit];
-            double at = (double)o->peak_instant_at_min;
-            if (!((double)r->start_min <= at && vent_end_min(r) > at))
-                continue;
-            if (pass == 1) {
-                o->peak_instant_runs[o->npeak_instant_runs] = i;
-                o->peak_instant_kmol_h += run_out[i].acid_kmol_h;
+            double a = (double)r->start_min, b = vent_end_min(r);
+            int hit;
+            if (hourly) {
+                double p0 = (double)o->peak_at_min, p1 = p0 + 60.0;
+                hit = o->peak_acid_kmol_h > 0 && (b < p1 ? b : p1) - (a > p0 ? a : p0) > 0;
+            } else {
+                double at = (double)o->peak_instant_at_min;
+                hit = a <= at && b > at;
             }
-            o->npeak_instant_runs++;
+            if (!hit)
+                continue;
+            int *n = hourly ? &o->npeak_runs : &o->npeak_instant_runs;
+            if (pass == 1) {
+                (hourly ? o->peak_runs : o->peak_instant_runs)[*n] = i;
+                if (!hourly)
+                    o->peak_instant_kmol_h += run_out[i].acid_kmol_h;
+            }
+            (*n)++;
         }
     }
     return HL_OK;
@@ -835,36 +857,9 @@ enum hl_status scrub_campaign(const struct scrub_unit_in *units, int nunits,
         }
     }
 
-    /* Runs active in each unit's peak hour: one sweep over the runs. */
-    for (int pass = 0; pass < 2; pass++) {
-        for (int k = 0; k < nruns; k++) {
-            int i = order[k];
-            const struct scrub_run_in *r = &runs[i];
-            if (r->unit < 0 || !(run_out[i].acid_kmol_h > 0))
-                continue;
-            struct scrub_unit_out *o = &unit_out[r->unit];
-            if (!(o->peak_acid_kmol_h > 0))
-                continue;
-            double a = (double)r->start_min, b = a + r->feed_h / pf_of(r) * 60.0;
-            double p0 = (double)o->peak_at_min, p1 = p0 + 60.0;
-            if ((b < p1 ? b : p1) - (a > p0 ? a : p0) <= 0)
-                continue;
-            if (pass == 1)
-                o->peak_runs[o->npeak_runs] = i;
-            o->npeak_runs++;
-        }
-        if (pass == 0)
-            for (int u = 0; u < nunits; u++) {
-                struct scrub_unit_out *o = &unit_out[u];
-                if (o->npeak_runs && !(o->peak_runs = hl_malloc((size_t)o->npeak_runs * sizeof(int)))) {
-                    st = hl_err_set(e, HL_ERR_NOMEM, "out of memory in the scrubber model");
-                    goto out;
-                }
-                o->npeak_runs = 0;
-            }
-    }
-
-    if ((st = instant_peaks(runs, nruns, order, run_out, nunits, unit_out, e)))
+    if ((st = instant_peaks(runs, nruns, run_out, unit_out, e)) ||
+        (st = runs_at_peak(runs, nruns, order, run_out, nunits, unit_out, 1, e)) ||
+        (st = runs_at_peak(runs, nruns, order, run_out, nunits, unit_out, 0, e)))
         goto out;
     for (int u = 0; u < nunits; u++) {
         struct scrub_unit_out *o = &unit_out[u];
