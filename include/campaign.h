@@ -8,8 +8,9 @@
  * and its line:column.  `repeat` entries are expanded here, so models see one
  * struct camp_run per batch.  Every position the models may still need to
  * blame (SMILES, formula, reagent) is kept in the run; a string's position is
- * that of its opening quote, so character k (1-based) of a SMILES without
- * escapes sits at column pos_smiles.col + k.
+ * that of its opening quote; camp_string_col() gives the column of character k
+ * (1-based) of a SMILES, formula or product_smiles, escapes counted at their raw
+ * length (without escapes it is pos_smiles.col + k).
  *
  * Required (R) keys, defaults (=) and accepted ranges.  The top level and each
  * scrubbers/stock/containers/runs entry may also carry a free-text "note".  Text is UTF-8 without control characters, at most
@@ -49,6 +50,17 @@
 #include "hlerr.h"
 
 struct camp_pos { int line, col; }; /* 1-based position of a value; col points at its first byte */
+
+/* Where a string value's escapes sit, so a column inside the decoded text maps back
+ * to the file: an escape starting at decoded byte `at` (0-based) gives dec_len
+ * decoded bytes from raw_len file bytes (an escaped backslash 1 from 2, \u0043 1 from 6,
+ * a surrogate pair 4 from 12). */
+struct camp_esc { int at; unsigned char dec_len, raw_len; };
+struct camp_strpos {
+    struct camp_pos pos;        /* the opening quote */
+    int nesc;                   /* escapes in the string, in order */
+    struct camp_esc *esc;       /* nesc entries (NULL when none); owned by the campaign */
+};
 
 enum camp_liquor { CAMP_LIQUOR_NAOH, CAMP_LIQUOR_WATER };
 enum camp_mode { CAMP_BATCH, CAMP_CSTR };
@@ -136,6 +148,9 @@ struct camp_run {
     struct camp_model model;    /* campaign-level block merged under the run's own */
     struct camp_pos pos, pos_smiles, pos_formula, pos_product_smiles, pos_reagent, pos_amount;
     struct camp_pos pos_id, pos_start; /* of the id and start values (shared by repeat copies) */
+    /* escape maps of smiles, formula and product_smiles (pos as the pos_* above) */
+    struct camp_strpos sp_smiles, sp_formula, sp_product_smiles;
+    int own_model;              /* 1 if the run has a model block of its own */
 };
 
 struct campaign {
@@ -146,6 +161,8 @@ struct campaign {
     struct camp_stock *stock; int nstock;
     struct camp_container *containers; int ncontainers; /* campaign entries, then catalog ones not overridden */
     struct camp_run *runs; int nruns;                   /* expanded, file order */
+    int has_model;              /* 1 if a campaign-level model block is given */
+    struct camp_pos pos_model;  /* of that block's opening brace */
 };
 
 /* Read and validate the campaign at path. catalog_text (may be NULL) is the default
@@ -159,6 +176,11 @@ enum hl_status camp_load(const char *path, const char *catalog_text,
 enum hl_status camp_parse(const char *text, size_t len, const char *path,
                           const char *catalog_text, struct campaign **out,
                           struct hl_err *e);
+
+/* File column (1-based) of decoded byte k (1-based) of a string read by the campaign
+ * reader: escapes before it count with their raw length; a byte inside an escape maps
+ * to its backslash. k <= 0 gives the opening quote. The line is always p->pos.line. */
+int camp_string_col(const struct camp_strpos *p, int k);
 
 /* Free a campaign; NULL is fine. */
 void camp_free(struct campaign *c);

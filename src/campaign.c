@@ -10,7 +10,8 @@
  * scanner saw; the index is stored in the node's valueint, which this reader
  * never reads otherwise (numbers come from valuedouble: valueint saturates).
  * Line and column are counted while scanning (newlines can only occur in
- * whitespace), so no position ever costs a rescan.
+ * whitespace), so no position ever costs a rescan; only the strings the models
+ * may blame (SMILES, formula) are walked once more, to map their escapes.
  */
 #include "campaign.h"
 #include "afile.h"
@@ -565,6 +566,70 @@ static struct camp_pos pos_of(const struct vctx *c, const cJSON *n)
     const struct vpos *p = vp(c, n);
     struct camp_pos r = {p ? p->line : 0, p ? p->col : 0};
     return r;
+}
+
+/* Escape map of the string value n (see struct camp_strpos).  The scanner has
+ * checked the string, so the raw text can be walked without bounds doubts up to its
+ * closing quote; only the three strings the models blame are mapped, once each. */
+static enum hl_status esc_map(struct vctx *c, const cJSON *n, struct camp_strpos *sp)
+{
+    const struct vpos *p = vp(c, n);
+    sp->pos = pos_of(c, n);
+    sp->nesc = 0;
+    sp->esc = NULL;
+    if (!p)
+        return HL_OK;
+    for (int pass = 0; pass < 2; pass++) {
+        /* pass 0 counts, pass 1 fills an array of exactly that size */
+        int k = 0, dec = 0;
+        const char *t = c->text + p->off + 1;
+        while (*t != '"') {
+            if (*t != '\\') {
+                t++;
+                dec++;
+                continue;
+            }
+            int raw = 2, d = 1;
+            if (t[1] == 'u') {
+                unsigned cp = 0;
+                hex4(t + 2, 4, &cp);
+                raw = 6;
+                d = cp < 0x80 ? 1 : cp < 0x800 ? 2 : 3;
+                if (cp >= 0xD800 && cp <= 0xDBFF) { /* a pair: one 4-byte character */
+                    raw = 12;
+                    d = 4;
+                }
+            }
+            if (pass)
+                sp->esc[k] = (struct camp_esc){dec, (unsigned char)d, (unsigned char)raw};
+            k++;
+            dec += d;
+            t += raw;
+        }
+        if (pass || !k)
+            break;
+        sp->esc = hl_malloc((size_t)k * sizeof *sp->esc);
+        if (!sp->esc)
+            return hl_err_set(c->e, HL_ERR_NOMEM, "out of memory reading the campaign");
+        sp->nesc = k;
+    }
+    return HL_OK;
+}
+
+int camp_string_col(const struct camp_strpos *p, int k)
+{
+    if (k <= 0)
+        return p->pos.col;
+    int idx = k - 1, extra = 0; /* 0-based decoded byte; raw bytes beyond the decoded ones */
+    for (int j = 0; j < p->nesc; j++) {
+        const struct camp_esc *x = &p->esc[j];
+        if (idx < x->at)
+            break;
+        if (idx < x->at + x->dec_len)
+            return p->pos.col + 1 + x->at + extra; /* inside the escape: its backslash */
+        extra += x->raw_len - x->dec_len;
+    }
+    return p->pos.col + k + extra;
 }
 
 static enum hl_status verr(struct vctx *c, const cJSON *n, int at_key, const char *fmt, ...)
@@ -1232,6 +1297,9 @@ static void run_free(struct camp_run *r)
     hl_free(r->smiles);
     hl_free(r->formula);
     hl_free(r->product_smiles);
+    hl_free(r->sp_smiles.esc);
+    hl_free(r->sp_formula.esc);
+    hl_free(r->sp_product_smiles.esc);
     memset(r, 0, sizeof *r);
 }
 
@@ -1254,10 +1322,14 @@ static enum hl_status parse_substrate(struct vctx *c, const cJSON *m, struct cam
         if ((st = dup_str(c, k[UK_SMILES], T_TEXT | T_NONEMPTY, MAX_TEXT, &r->smiles)))
             return st;
         r->pos_smiles = pos_of(c, k[UK_SMILES]);
+        if ((st = esc_map(c, k[UK_SMILES], &r->sp_smiles)))
+            return st;
     } else {
         if ((st = dup_str(c, k[UK_FORMULA], T_TEXT | T_NONEMPTY, MAX_TEXT, &r->formula)))
             return st;
         r->pos_formula = pos_of(c, k[UK_FORMULA]);
+        if ((st = esc_map(c, k[UK_FORMULA], &r->sp_formula)))
+            return st;
     }
     pop(c, old);
     return HL_OK;
@@ -1332,6 +1404,8 @@ static enum hl_status parse_run(struct reader *rd, const cJSON *o, int idx, stru
         if ((st = dup_str(c, k[RK_PRODUCT], T_TEXT | T_NONEMPTY, MAX_TEXT, &r->product_smiles)))
             return st;
         r->pos_product_smiles = pos_of(c, k[RK_PRODUCT]);
+        if ((st = esc_map(c, k[RK_PRODUCT], &r->sp_product_smiles)))
+            return st;
     }
     if (!k[RK_SUBKG])
         return missing(c, o, "substrate_kg", NULL);
@@ -1391,6 +1465,7 @@ static enum hl_status parse_run(struct reader *rd, const cJSON *o, int idx, stru
     }
     if (k[RK_MODEL] && (st = parse_model(c, k[RK_MODEL], &r->model)))
         return st;
+    r->own_model = k[RK_MODEL] != NULL;
     merge_model(&r->model, &rd->model);
     const char *note;
     if (k[RK_NOTE] && (st = get_str(c, k[RK_NOTE], 0, MAX_TEXT, &note)))
@@ -1423,17 +1498,36 @@ static int copy_str(char **dst, const char *src)
     return *dst ? 0 : -1;
 }
 
+/* Own copy of an escape map (repeat copies are freed one by one). */
+static int copy_esc(struct camp_strpos *dst, const struct camp_strpos *src)
+{
+    *dst = *src;
+    dst->esc = NULL;
+    if (!src->nesc)
+        return 0;
+    dst->esc = hl_malloc((size_t)src->nesc * sizeof *dst->esc);
+    if (!dst->esc) {
+        dst->nesc = 0;
+        return -1;
+    }
+    memcpy(dst->esc, src->esc, (size_t)src->nesc * sizeof *dst->esc);
+    return 0;
+}
+
 /* Repeat k (1-based) of template t into out. */
 static enum hl_status expand_one(struct reader *rd, const struct camp_run *t, long k, double every_days,
                                  struct camp_run *out)
 {
     *out = *t;
     out->id = out->reactor = out->substrate_name = out->smiles = out->formula = out->product_smiles = NULL;
+    out->sp_smiles.esc = out->sp_formula.esc = out->sp_product_smiles.esc = NULL;
     size_t n = strlen(t->id) + 24;
     out->id = hl_malloc(n);
     if (!out->id || copy_str(&out->reactor, t->reactor) || copy_str(&out->substrate_name, t->substrate_name) ||
         copy_str(&out->smiles, t->smiles) || copy_str(&out->formula, t->formula) ||
-        copy_str(&out->product_smiles, t->product_smiles)) {
+        copy_str(&out->product_smiles, t->product_smiles) || copy_esc(&out->sp_smiles, &t->sp_smiles) ||
+        copy_esc(&out->sp_formula, &t->sp_formula) ||
+        copy_esc(&out->sp_product_smiles, &t->sp_product_smiles)) {
         run_free(out);
         return hl_err_set(rd->c.e, HL_ERR_NOMEM, "out of memory reading the campaign");
     }
@@ -1606,6 +1700,10 @@ static enum hl_status parse_top(struct reader *rd, const cJSON *root)
         (k[GK_NOTE] && (st = get_str(c, k[GK_NOTE], 0, MAX_TEXT, &note))) ||
         (k[GK_MODEL] && (st = parse_model(c, k[GK_MODEL], &rd->model))))
         return st;
+    if (k[GK_MODEL]) {
+        cp->has_model = 1;
+        cp->pos_model = pos_of(c, k[GK_MODEL]);
+    }
     if (k[GK_SCRUB]) {
         const cJSON *a = k[GK_SCRUB];
         if ((st = check_array(c, a, 0)))

@@ -130,22 +130,32 @@ static enum hl_status blame_run(const struct campaign *c, const struct camp_run 
         {"smiles", "substrate.smiles"}, {"product_smiles", "product_smiles"},
         {"formula", "substrate.formula"}, {"reagent", "reagent"}, {"model", "model"}};
     struct camp_pos pos = r->pos;
+    const struct camp_strpos *sp = NULL;
     const char *path = NULL;
     for (size_t i = 0; i < sizeof names / sizeof names[0]; i++)
         if (!strcmp(e->field, names[i].field))
             path = names[i].path;
-    if (path && !strcmp(e->field, "smiles")) pos = r->pos_smiles;
-    else if (path && !strcmp(e->field, "product_smiles")) pos = r->pos_product_smiles;
-    else if (path && !strcmp(e->field, "formula")) pos = r->pos_formula;
+    if (path && !strcmp(e->field, "smiles")) sp = &r->sp_smiles;
+    else if (path && !strcmp(e->field, "product_smiles")) sp = &r->sp_product_smiles;
+    else if (path && !strcmp(e->field, "formula")) sp = &r->sp_formula;
     else if (path && !strcmp(e->field, "reagent")) pos = r->pos_reagent;
-    int in_string = path && strcmp(e->field, "reagent") && strcmp(e->field, "model");
-    /* pos.col is the opening quote; character k (1-based) of the string sits k columns on. */
-    int col = (in_string && e->col > 0) ? pos.col + e->col : pos.col;
+    if (sp)
+        pos = sp->pos;
+    /* pos.col is the opening quote; escapes before character k take their raw bytes. */
+    int col = (sp && e->col > 0) ? camp_string_col(sp, e->col) : pos.col;
+    /* a run without a model block of its own ran on the campaign's: blame that one */
+    int camp_model = path && !strcmp(e->field, "model") && !r->own_model && c->has_model;
+    if (camp_model) {
+        pos = c->pos_model;
+        col = pos.col;
+    }
     char field[64], msg[sizeof e->msg];
-    snprintf(field, sizeof field, "runs[%d]%s%s", r->src_index, path ? "." : "", path ? path : "");
+    if (camp_model)
+        snprintf(field, sizeof field, "model");
+    else
+        snprintf(field, sizeof field, "runs[%d]%s%s", r->src_index, path ? "." : "", path ? path : "");
     /* the run id tells which repeat of an entry failed; keep the model's text whole */
     snprintf(msg, sizeof msg, "%.400s (run %.60s)", e->msg, r->id);
-    (void)c;
     return hl_err_at(e, HL_ERR_INPUT, pos.line, col, field, "%s", msg);
 }
 

@@ -423,6 +423,43 @@ chem('chem_hbr_no_alkene', '{"smiles": "CCC"}', 0, 'runs[0].substrate.smiles', r
 chem('chem_nbs_no_allylic', '{"smiles": "C(C)(C)(C)C"}', 0, 'runs[0].substrate.smiles', reagent='NBS')
 
 
+# Escapes inside the string take more file bytes than the characters they stand for:
+# here the @@ marker sits on the faulty character in the raw text, so the expected
+# column counts the raw bytes (an escaped backslash is 2, \u0043 is 6).
+def chem_at(name, new_substrate, field):
+    assert new_substrate.count('@@') == 1, name
+    NEEDS_MODELS.append(name)
+    CASES.append((name, SMALL.replace('{"smiles": "CCC"}', new_substrate).encode(), field, None))
+
+
+chem_at('smiles_escaped_backslash', r'{"smiles": "F/C=C\\F@@("}', 'runs[0].substrate.smiles')
+chem_at('smiles_unicode_escape', r'{"smiles": "C\u0043@@Q"}', 'runs[0].substrate.smiles')
+chem_at('smiles_escape_after_fault', r'{"smiles": "CC@@Q\u0043"}', 'runs[0].substrate.smiles')
+# a fault on a byte of a character written as an escape points at its backslash
+chem_at('smiles_fault_in_escape', r'{"smiles": "C@@\u00e9C"}', 'runs[0].substrate.smiles')
+chem_at('product_smiles_escaped_slash', r'{"smiles": "CCC"}, "product_smiles": "ClC\/C@@("',
+        'runs[0].product_smiles')
+chem_at('product_smiles_unicode_escape', r'{"smiles": "CCC"}, "product_smiles": "Cl\u0043C@@("',
+        'runs[0].product_smiles')
+chem_at('formula_unicode_escape', r'{"formula": "CH\u0032@@Xx"}', 'runs[0].substrate.formula')
+
+# Rate constants out of the kinetics range (above 1e200: phi^61 with reactivities
+# raised by the low temperature): a run without a model block of its own is blamed on
+# the campaign's model block, one with its own block on the run.
+MODEL_SUB = '{"smiles": "%s"}' % ('C' * 30)
+MODEL_BLOCK = ('{"overhalogenation_factor": 1000, "relative_reactivity": '
+               '{"primary": 1000000, "secondary": 1000000, "ref_temp_c": 400}}')
+NEEDS_MODELS.append('model_campaign_level')
+CASES.append(('model_campaign_level', SMALL.replace('"runs": [', '"model": @@%s,\n  "runs": [' % MODEL_BLOCK)
+              .replace('{"smiles": "CCC"}', MODEL_SUB).replace('"reagent_eq": 1,', '"reagent_eq": 1, "temp_c": -80,')
+              .encode(), 'model', 'rate constants are not usable'))
+NEEDS_MODELS.append('model_run_level')
+CASES.append(('model_run_level', SMALL.replace('{"id": "X-1"', '@@{"id": "X-1"')
+              .replace('{"smiles": "CCC"}', MODEL_SUB)
+              .replace('"reagent_eq": 1,', '"reagent_eq": 1, "temp_c": -80,\n     "model": %s,' % MODEL_BLOCK)
+              .encode(), 'runs[0].model', 'rate constants are not usable'))
+
+
 def main():
     for f in os.listdir(HERE):  # drop files of cases that no longer exist
         if f.endswith('.json') or f.endswith('.expect'):

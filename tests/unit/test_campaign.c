@@ -321,6 +321,133 @@ static void positions(void)
     CU_ASSERT_EQUAL(e.col, 12);
 }
 
+/* Column in T (1-based, bytes) of the first byte of the n-th (0-based) occurrence of
+ * needle after the anchor, counted on the raw text: the reference for camp_string_col. */
+static int raw_col(const char *t, const char *anchor, const char *needle, int n)
+{
+    const char *p = strstr(t, anchor);
+    if (!p)
+        return -1;
+    for (int j = 0; j <= n; j++) {
+        p = strstr(j ? p + 1 : p, needle);
+        if (!p)
+            return -1;
+    }
+    const char *ls = p;
+    while (ls > t && ls[-1] != '\n')
+        ls--;
+    return (int)(p - ls) + 1;
+}
+
+static void string_columns(void)
+{
+    /* decoded smiles: F / C = C \ F e-acute(2 bytes) U+1F600(4 bytes) C = 14 bytes */
+    static const char T[] =
+        "{\"format\": \"haloledger-campaign/1\", \"runs\": [\n"
+        "{\"id\": \"R\", \"start\": \"2027-01-01\", \"substrate_kg\": 1, \"reagent\": \"Cl2\",\n"
+        " \"reagent_eq\": 1, \"repeat\": {\"count\": 2, \"every_days\": 1}, \"product_smiles\": \"Cl\\/C\",\n"
+        " \"substrate\": {\"smiles\": \"F/C=C\\\\F\\u00e9\\uD83D\\uDE00C\"}}]}\n";
+    struct hl_err e;
+    struct campaign *c = NULL;
+    CU_ASSERT_EQUAL(camp_parse(T, strlen(T), "s.json", NULL, &c, &e), HL_OK);
+    if (!c)
+        return;
+    CU_ASSERT_EQUAL(c->nruns, 2);
+    CU_ASSERT_STRING_EQUAL(c->runs[0].smiles, "F/C=C\\F\xc3\xa9\xf0\x9f\x98\x80" "C");
+    const char *A = "\"smiles\"";
+    int q = raw_col(T, A, "\"F/", 0);        /* opening quote */
+    int bs2 = raw_col(T, A, "\\\\F", 0);     /* the escaped backslash (2 raw bytes) */
+    int f2 = raw_col(T, A, "F\\u", 0);       /* F after it */
+    int eac = raw_col(T, A, "\\u00e9", 0);   /* e-acute as \u00e9 */
+    int pair = raw_col(T, A, "\\uD83D", 0);  /* U+1F600 as a surrogate pair */
+    int last = raw_col(T, A, "C\"", 0);      /* the final C */
+    for (int r = 0; r < c->nruns; r++) { /* repeat copies carry their own map */
+        const struct camp_strpos *sp = &c->runs[r].sp_smiles;
+        CU_ASSERT_EQUAL(sp->pos.line, 4);
+        CU_ASSERT_EQUAL(sp->pos.col, q);
+        CU_ASSERT_EQUAL(sp->nesc, 3);
+        CU_ASSERT_EQUAL(camp_string_col(sp, 0), q);
+        CU_ASSERT_EQUAL(camp_string_col(sp, 1), q + 1);
+        CU_ASSERT_EQUAL(camp_string_col(sp, 5), q + 5);  /* before any escape: quote + k */
+        CU_ASSERT_EQUAL(camp_string_col(sp, 6), bs2);
+        CU_ASSERT_EQUAL(camp_string_col(sp, 7), f2);
+        CU_ASSERT_EQUAL(f2, q + 8);                      /* the backslash took two bytes */
+        CU_ASSERT_EQUAL(camp_string_col(sp, 8), eac);    /* both bytes of e-acute: the escape */
+        CU_ASSERT_EQUAL(camp_string_col(sp, 9), eac);
+        for (int k = 10; k <= 13; k++)
+            CU_ASSERT_EQUAL(camp_string_col(sp, k), pair);
+        CU_ASSERT_EQUAL(camp_string_col(sp, 14), last);
+        CU_ASSERT_EQUAL(camp_string_col(sp, 15), last + 1); /* one past: the closing quote */
+        const struct camp_strpos *pp = &c->runs[r].sp_product_smiles;
+        int pq = raw_col(T, "\"product_smiles\"", "\"Cl", 0);
+        CU_ASSERT_EQUAL(pp->pos.line, 3);
+        CU_ASSERT_EQUAL(pp->pos.col, pq);
+        CU_ASSERT_EQUAL(camp_string_col(pp, 2), pq + 2);
+        CU_ASSERT_EQUAL(camp_string_col(pp, 3), raw_col(T, "\"product_smiles\"", "\\/", 0));
+        CU_ASSERT_EQUAL(camp_string_col(pp, 4), pq + 5); /* C, l, backslash, slash, C */
+        CU_ASSERT_EQUAL(c->runs[r].sp_formula.nesc, 0);
+        CU_ASSERT_PTR_NULL(c->runs[r].sp_formula.esc);
+        CU_ASSERT_EQUAL(c->runs[r].own_model, 0);
+    }
+    CU_ASSERT_EQUAL(c->has_model, 0);
+    camp_free(c);
+
+    /* a map built by hand: no escapes, then one \u escape of 3 decoded bytes */
+    struct camp_strpos none = {{7, 20}, 0, NULL};
+    CU_ASSERT_EQUAL(camp_string_col(&none, 1), 21);
+    CU_ASSERT_EQUAL(camp_string_col(&none, 100), 120);
+    CU_ASSERT_EQUAL(camp_string_col(&none, -3), 20);
+    struct camp_esc one[1] = {{2, 3, 6}}; /* "ab\u20acd": euro sign at decoded bytes 3..5 */
+    struct camp_strpos euro = {{1, 10}, 1, one};
+    CU_ASSERT_EQUAL(camp_string_col(&euro, 2), 12);
+    CU_ASSERT_EQUAL(camp_string_col(&euro, 3), 13);
+    CU_ASSERT_EQUAL(camp_string_col(&euro, 5), 13);
+    CU_ASSERT_EQUAL(camp_string_col(&euro, 6), 19); /* d: 1 + 1 + 1 + 6 bytes after the quote */
+
+    /* every allocation of the maps and their repeat copies may fail cleanly */
+    int clean = 1;
+    long walked = 0;
+    for (long n = 1; n < 10000; n++) {
+        c = NULL;
+        hl_mem_fail_at(n);
+        enum hl_status st = camp_parse(T, strlen(T), "s.json", NULL, &c, &e);
+        hl_mem_fail_at(0);
+        if (st == HL_OK) {
+            camp_free(c);
+            break;
+        }
+        walked++;
+        if (st != HL_ERR_NOMEM || c)
+            clean = 0;
+    }
+    CU_ASSERT(clean);
+    CU_ASSERT(walked > 5);
+}
+
+static void campaign_model_position(void)
+{
+    static const char T[] =
+        "{\"format\": \"haloledger-campaign/1\",\n"
+        "  \"model\": {\"overhalogenation_factor\": 2}, \"runs\": [\n"
+        "{\"id\": \"A\", \"start\": \"2027-01-01\", \"substrate_kg\": 1, \"reagent\": \"Cl2\",\n"
+        " \"reagent_eq\": 1, \"substrate\": {\"smiles\": \"CC\"}},\n"
+        "{\"id\": \"B\", \"start\": \"2027-01-01\", \"substrate_kg\": 1, \"reagent\": \"Cl2\",\n"
+        " \"reagent_eq\": 1, \"substrate\": {\"formula\": \"C2H6\"}, \"model\": {}}]}\n";
+    struct hl_err e;
+    struct campaign *c = NULL;
+    CU_ASSERT_EQUAL(camp_parse(T, strlen(T), "m.json", NULL, &c, &e), HL_OK);
+    if (!c)
+        return;
+    CU_ASSERT_EQUAL(c->has_model, 1);
+    CU_ASSERT_EQUAL(c->pos_model.line, 2);
+    CU_ASSERT_EQUAL(c->pos_model.col, raw_col(T, "\"model\"", "{", 0));
+    CU_ASSERT_EQUAL(c->runs[0].own_model, 0);
+    CU_ASSERT_EQUAL(c->runs[1].own_model, 1);
+    CU_ASSERT_EQUAL(c->runs[1].sp_formula.pos.line, 6);
+    CU_ASSERT_EQUAL(c->runs[1].sp_formula.pos.col, raw_col(T, "\"formula\"", "\"C2H6", 0));
+    camp_free(c);
+}
+
 struct bad { const char *text; int line, col; const char *field, *msg_start; };
 
 static void errors(void)
@@ -420,6 +547,7 @@ int main(void)
     static const struct cu_case cases[] = {
         {"demo fields", demo_fields}, {"defaults", defaults}, {"repeat expansion", repeat_expansion},
         {"model merge", model_merge}, {"catalog merge", catalog_merge}, {"positions", positions},
-        {"errors", errors}, {"load file", load_file}, {"allocation failure", alloc_failure}};
+        {"errors", errors}, {"load file", load_file}, {"allocation failure", alloc_failure},
+        {"string columns", string_columns}, {"campaign model position", campaign_model_position}};
     return CU_RUN_ALL("campaign", cases);
 }
