@@ -48,7 +48,7 @@ for t in $TARGETS; do
     if [ ! -x $OUT/$t ] || [ tests/fuzz/$t.c -nt $OUT/$t ] || [ $OUT/libhalo.a -nt $OUT/$t ]; then
         # shellcheck disable=SC2086
         "$CLANG" -std=c11 -Wall -Wextra -Werror -D_POSIX_C_SOURCE=200809L -g -O1 \
-            -fsanitize=fuzzer $SAN -Iinclude tests/fuzz/$t.c $OUT/libhalo.a $LIBS -o $OUT/$t ||
+            -fsanitize=fuzzer $SAN -Iinclude -Itests/fuzz tests/fuzz/$t.c $OUT/libhalo.a $LIBS -o $OUT/$t ||
             { echo "fuzz: cannot link $t" >&2; exit 2; }
     fi
 done

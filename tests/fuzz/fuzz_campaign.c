@@ -13,6 +13,7 @@
 #include "campaign.h"
 #include "hlmem.h"
 
+#include "fuzz_input.h"
 #include <stdint.h>
 #include <stdlib.h>
 #include <string.h>
@@ -65,11 +66,9 @@ int LLVMFuzzerTestOneInput(const uint8_t *data, size_t size)
     camp_free(c);
 
     /* The input as catalog text: NUL-terminated by contract, so copy it. */
-    char *cat = hl_malloc(size + 1);
+    char *cat = fuzz_cstring(data, size);
     if (!cat)
         return 0;
-    memcpy(cat, data, size);
-    cat[size] = '\0';
     c = NULL;
     st = camp_parse(fixed_campaign, sizeof fixed_campaign - 1, "fixed.json", cat, &c, &e);
     check_result(st, c, &e);

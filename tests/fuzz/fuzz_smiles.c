@@ -15,17 +15,16 @@
 #include "sites.h"
 #include "smiles.h"
 
+#include "fuzz_input.h"
 #include <stdint.h>
 #include <stdlib.h>
 #include <string.h>
 
 int LLVMFuzzerTestOneInput(const uint8_t *data, size_t size)
 {
-    char *text = hl_malloc(size + 1);
+    char *text = fuzz_cstring(data, size);
     if (!text)
         return 0;
-    memcpy(text, data, size);
-    text[size] = '\0';
     size_t len = strlen(text);
 
     struct hl_err e;
