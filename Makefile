@@ -16,11 +16,15 @@ TOOL_SRC := $(wildcard tests/tools/tool_*.c)
 TOOL_BIN := $(patsubst tests/tools/%.c,$(BUILD)/%,$(TOOL_SRC))
 HEADERS  := $(wildcard include/*.h) $(wildcard tests/unit/*.h)
 
-.PHONY: all deps demo test unit sanitize valgrind fuzz clean
+.PHONY: all deps demo test unit sanitize valgrind fuzz clean print-link-flags
 all: $(BUILD)/haloledger
 
 deps:
 	@sh tools/deps.sh
+
+# Every -l flag of every link line (tests/e2e/link_deps.sh checks that make deps installs each).
+print-link-flags:
+	@echo $(LDLIBS_ALL) $(CUNIT_LIBS)
 
 $(BUILD)/obj/%.o: src/%.c $(HEADERS) | $(BUILD)/obj
 	$(CC) $(CFLAGS_ALL) -c $< -o $@

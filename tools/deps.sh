@@ -1,11 +1,22 @@
 #!/bin/sh
 # deps.sh - install what is missing of the Debian packages haloledger builds and tests with.
 # Uses apt-get as root, else sudo; otherwise prints the exact command to run.
-# build: pkg-config gcc make and the three -dev libraries; tests: Debian's python3 with RDKit and
-# openpyxl (reference readers), valgrind (allocation-failure walk), clang + libFuzzer runtime
-# (fuzz targets and their regression run), LibreOffice Calc (cached formula values against a
-# real recalculation)
-PKGS="pkg-config gcc make libxlsxwriter-dev libcjson-dev libcunit1-dev python3 python3-rdkit python3-openpyxl valgrind clang-14 libclang-rt-14-dev libreoffice-calc-nogui"
+# `sh tools/deps.sh --list` prints the package list, one a line, and installs nothing.
+#
+# build: pkg-config, gcc, make and the -dev libraries;
+#   libc6-dev: -lm and the C headers (gcc only recommends it, so --no-install-recommends drops it);
+#   zlib1g-dev: libxlsxwriter's pkg-config data puts -lz on the link line and libxlsxwriter-dev does
+#   not depend on zlib1g-dev, so without it `ld: cannot find -lz` (docs/library-notes.md). We keep
+#   the link line as the library's pkg-config file states it rather than filtering flags out of it.
+# tests: Debian's python3 with RDKit and openpyxl (reference readers), valgrind (allocation-failure
+#   walk), clang + libFuzzer runtime (fuzz targets and their regression run), LibreOffice Calc
+#   (cached formula values against a real recalculation).
+PKGS="pkg-config gcc libc6-dev make libxlsxwriter-dev zlib1g-dev libcjson-dev libcunit1-dev
+python3 python3-rdkit python3-openpyxl valgrind clang-14 libclang-rt-14-dev libreoffice-calc-nogui"
+if [ "${1:-}" = --list ]; then
+    printf '%s\n' $PKGS
+    exit 0
+fi
 missing=""
 for p in $PKGS; do
     dpkg-query -W -f='${Status}' "$p" 2>/dev/null | grep -q "install ok installed" || missing="$missing $p"
