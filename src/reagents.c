@@ -118,6 +118,15 @@ int vent_caution(int vs) { return (vs >= 0 && vs < VS_COUNT) ? vents[vs].caution
     {{"NIOSH REL", rel, SRC_NIOSH}, {"OSHA PEL", pel, SRC_OSHA}, {"IDLH", idlh, SRC_NIOSH},  \
      {"ACGIH TLV", tlv, SRC_ACGIH}},                                                         \
         4
+/* Same with the IDLH taken from a newer NIOSH IDLH value profile than the Pocket Guide. */
+#define LIM4_IDLH(rel, pel, idlh, idlh_src, tlv)                                             \
+    {{"NIOSH REL", rel, SRC_NIOSH}, {"OSHA PEL", pel, SRC_OSHA}, {"IDLH", idlh, idlh_src},   \
+     {"ACGIH TLV", tlv, SRC_ACGIH}},                                                         \
+        4
+/* NIOSH revised these two IDLH values in 2025 (HCl 50 -> 45 ppm, HBr 30 -> 35 ppm); the
+ * profiles' DHHS (NIOSH) publication numbers were not at hand, so only title and year. */
+#define SRC_IDLH_HCL "NIOSH IDLH Value Profile: Hydrogen Chloride, 2025"
+#define SRC_IDLH_HBR "NIOSH IDLH Value Profile: Hydrogen Bromide, 2025"
 #define LIM_NONE                                                                             \
     {{"NIOSH REL", NONE, SRC_NO_NIOSH}, {"OSHA PEL", NONE, SRC_NO_OSHA},                     \
      {"IDLH", NONE, SRC_NO_NIOSH}, {"ACGIH TLV", NONE, SRC_ACGIH}},                          \
@@ -166,7 +175,7 @@ static const struct caution_info cautions[CA_COUNT] = {
     },
     [CA_HCL] = {
         "Hydrogen chloride (HCl)", "7647-01-0",
-        LIM4("C 5 ppm (7 mg/m3)", "C 5 ppm (7 mg/m3)", "50 ppm", "C 2 ppm"),
+        LIM4_IDLH("C 5 ppm (7 mg/m3)", "C 5 ppm (7 mg/m3)", "45 ppm", SRC_IDLH_HCL, "C 2 ppm"),
         "Corrosive gas that fumes in moist air; burns eyes, skin and airways. With water it "
         "forms hydrochloric acid, which corrodes most metals and gives off hydrogen with them.",
         "Bases and caustic (strong heat), hypochlorite liquor (releases chlorine), oxidisers, "
@@ -174,12 +183,13 @@ static const struct caution_info cautions[CA_COUNT] = {
         "Goggles and face shield, acid-resistant gloves and clothing; acid-gas cartridge "
         "respirators only well below the IDLH, breathing apparatus above it; eyewash and "
         "shower near vent and scrubber equipment.",
-        "HCl: corrosive acid gas - NIOSH REL C 5 ppm, IDLH 50 ppm; never into hypochlorite "
+        "HCl: corrosive acid gas - NIOSH REL C 5 ppm, IDLH 45 ppm (2025); never into hypochlorite "
         "liquor.",
     },
     [CA_HBR] = {
         "Hydrogen bromide (HBr)", "10035-10-6",
-        LIM4("C 3 ppm (10 mg/m3)", "TWA 3 ppm (10 mg/m3)", "30 ppm", "C 2 ppm"),
+        LIM4_IDLH("C 3 ppm (10 mg/m3)", "TWA 3 ppm (10 mg/m3)", "35 ppm", SRC_IDLH_HBR,
+                  "C 2 ppm"),
         "Corrosive gas, stored liquefied under pressure; fumes in moist air and burns eyes, "
         "skin and airways. Its aqueous acid corrodes most metals with hydrogen evolution. The "
         "radical (anti-Markovnikov) addition runs on peroxide or other radical initiators, "
@@ -189,7 +199,7 @@ static const struct caution_info cautions[CA_COUNT] = {
         "reactive metals, cyanides and sulfides.",
         "Closed transfer; goggles and face shield, acid-resistant gloves and clothing; "
         "breathing apparatus for line breaking and emergencies.",
-        "HBr: corrosive acid gas - NIOSH REL C 3 ppm, IDLH 30 ppm; keep from oxidisers and "
+        "HBr: corrosive acid gas - NIOSH REL C 3 ppm, IDLH 35 ppm (2025); keep from oxidisers and "
         "hypochlorite liquor.",
     },
     [CA_SO2] = {

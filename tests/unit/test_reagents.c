@@ -230,6 +230,33 @@ static void cautions(void)
     CU_ASSERT_STRING_EQUAL(caution_get(CA_NBS)->limits[0].value, "none established");
 }
 
+/* IDLH of the acid gases against the NIOSH IDLH Value Profiles of 2025 (Hydrogen Chloride:
+ * 45 ppm, replacing 50 ppm; Hydrogen Bromide: 35 ppm, replacing 30 ppm): the table row, its
+ * source and the one-line caution `check` prints must all show the new figure. */
+static void idlh_2025(void)
+{
+    const struct { int ca; const char *value, *profile, *short_text; } want[] = {
+        {CA_HCL, "45 ppm", "Hydrogen Chloride", "IDLH 45 ppm"},
+        {CA_HBR, "35 ppm", "Hydrogen Bromide", "IDLH 35 ppm"}};
+    for (int i = 0; i < 2; i++) {
+        const struct caution_info *ci = caution_get(want[i].ca);
+        CU_ASSERT_PTR_NOT_NULL_FATAL(ci);
+        int found = 0;
+        for (int k = 0; k < ci->nlimits; k++) {
+            const struct exposure_limit *l = &ci->limits[k];
+            if (strcmp(l->kind, "IDLH"))
+                continue;
+            found++;
+            CU_ASSERT_STRING_EQUAL(l->value, want[i].value);
+            CU_ASSERT_PTR_NOT_NULL(strstr(l->source, "NIOSH IDLH Value Profile"));
+            CU_ASSERT_PTR_NOT_NULL(strstr(l->source, want[i].profile));
+            CU_ASSERT_PTR_NOT_NULL(strstr(l->source, "2025"));
+        }
+        CU_ASSERT_EQUAL(found, 1);
+        CU_ASSERT_PTR_NOT_NULL(strstr(ci->short_form, want[i].short_text));
+    }
+}
+
 static void deferral(void)
 {
     const char *d = caution_deferral();
@@ -247,7 +274,7 @@ int main(void)
         {"stoichiometry balances", stoichiometry_balances},
         {"unreacted and phase", unreacted_and_phase},
         {"lookups", lookups},
-        {"cautions", cautions},
+        {"cautions", cautions}, {"IDLH 2025 profiles", idlh_2025},
         {"deferral", deferral}};
     return CU_RUN_ALL("reagents", cases);
 }

@@ -346,6 +346,47 @@ static void chloromethanes(void)
     sel_free(&r);
 }
 
+/* Methane step ratios k_n / k_0 at 25 C (298.15 K), the per-molecule constants the
+ * degree distribution uses.
+ * (a) By hand from the abstract of Bryukov, Slagle & Knyazev, J. Phys. Chem. A 2002, 106,
+ *     10532, k = A T^n exp(-E/T) [cm3 molecule-1 s-1] at T = 298.15 K:
+ *     Cl + CH4    1.30e-19 x 298.15^2.69 x exp(-497/298.15) = 1.1123e-13
+ *     Cl + CH3Cl  4.00e-14 x 298.15^0.92 x exp(-795/298.15) = 5.2543e-13  -> 4.7238
+ *     Cl + CH2Cl2 1.48e-16 x 298.15^1.58 x exp(-360/298.15) = 3.5932e-13  -> 3.2304
+ *     Cl + CHCl3  1.19e-16 x 298.15^1.51 x exp(-571/298.15) = 9.5545e-14  -> 0.85897
+ * (b) Against an independent evaluation of the same reactions: NASA/JPL, Burkholder et
+ *     al., JPL Publication 19-5 (2019), k = A exp(-E/R / T), with its uncertainty factor
+ *     f(298) (k lies within k298/f .. k298 x f).  The JPL parameters below are from memory
+ *     (the publication was not at hand):
+ *     Cl + CH4 7.1e-12, 1270 K, f 1.05; Cl + CH3Cl 2.17e-11, 1130 K, f 1.2;
+ *     Cl + CH2Cl2 7.4e-12, 910 K, f 1.5; Cl + CHCl3 3.4e-12, 1030 K, f 1.3.
+ *     The ratio of two such constants lies within the product of their factors. */
+static void methane_ratios_298(void)
+{
+    struct sel_result r;
+    if (!predict("C", RG_CL2, 25, NULL, NULL, &r)) {
+        CU_FAIL("predict");
+        return;
+    }
+    CU_ASSERT_EQUAL(r.nratios, 4);
+    const double by_hand[4] = {1.0, 4.7238, 3.2304, 0.85897};
+    const double jpl_a[4] = {7.1e-12, 2.17e-11, 7.4e-12, 3.4e-12};
+    const double jpl_e_k[4] = {1270, 1130, 910, 1030};
+    const double jpl_f[4] = {1.05, 1.2, 1.5, 1.3};
+    double k0 = jpl_a[0] * exp(-jpl_e_k[0] / 298.15);
+    for (int n = 0; n < 4 && n < r.nratios; n++) {
+        ASSERT_REL(r.rate_ratios[n], by_hand[n], 1e-4);
+        double jpl = jpl_a[n] * exp(-jpl_e_k[n] / 298.15) / k0;
+        double f = n ? jpl_f[0] * jpl_f[n] : 1.0;
+        double off = fabs(log(r.rate_ratios[n] / jpl));
+        if (!(off <= log(f) + 1e-12))
+            printf("\n  step %d: ratio %.4g, JPL 19-5 %.4g, off by x%.3f > x%.3f", n,
+                   r.rate_ratios[n], jpl, exp(off), f);
+        CU_ASSERT(off <= log(f) + 1e-12);
+    }
+    sel_free(&r);
+}
+
 static void defaults_and_origins(void)
 {
     struct sel_reactivity d;
@@ -395,6 +436,7 @@ int main(void)
         {"textbook distributions", textbook}, {"2-methylbutane analytic", methylbutane_analytic},
         {"temperature scaling", temperature}, {"wanted isomer and errors", wanted_and_errors},
         {"NBS and HBr", nbs_hbr}, {"chloromethanes", chloromethanes},
+        {"methane ratios at 298 K", methane_ratios_298},
         {"defaults and origins", defaults_and_origins}, {"allocation failures", alloc_failures}};
     return CU_RUN_ALL("selectivity", cases);
 }
