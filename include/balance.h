@@ -65,6 +65,16 @@ struct bal_out {
     double retained_mol[VS_COUNT];       /* dissolved in the reaction mass */
     double reagent_left_kg;              /* unreacted reagent that stays in the mass (SO2Cl2, NBS) */
     double wanted_kg, isomer_kg, overhal_kg, unreacted_substrate_kg;
+    /* Run figures (issue 15.3), moles of this run. halogen_charged_mol counts halogen atoms
+     * charged: 2 per Cl2, Br2 or SO2Cl2, 1 per NBS or HBr (from the reagent formula);
+     * halogen_in_wanted_mol = wanted mol x degree (halogen this run put on the product). */
+    double wanted_mol, converted_mol;    /* substrate converted = charged - unreacted */
+    double halogen_charged_mol, halogen_in_wanted_mol;
+    double yield_pct;                    /* wanted / substrate charged x 100 */
+    double conversion_pct;               /* converted / substrate charged x 100 */
+    double selectivity_pct;              /* wanted / converted x 100; 0 when nothing converted */
+    int selectivity_defined;             /* 0: nothing converted, selectivity has no value */
+    double halogen_efficiency_pct;       /* halogen_in_wanted / halogen_charged x 100 */
     double el_in_mol[BAL_NEL], el_out_mol[BAL_NEL];
     double max_rel_error;
     struct sel_result sel;               /* the selectivity prediction (niso 0 for formula input) */

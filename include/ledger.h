@@ -24,8 +24,27 @@ struct ledger_run {
     double feed_h, temp_c, substrate_kg, peak_factor;
     int reagent;
     enum kin_mode mode;
-    struct bal_out bal;
+    struct bal_out bal;                  /* also yield, conversion, selectivity, halogen efficiency */
     struct scrub_run_out scrub;
+    /* the fresh charge before this run (0 without changeout_before): purchased caustic
+     * solution at its unit's makeup_naoh_wt_pct [kg of solution] and dilution water [kg] */
+    double changeout_caustic_solution_kg, changeout_water_kg;
+};
+
+/* One month's figures for one route: runs with the same substrate, reagent and wanted
+ * product (compared as text: SMILES, else formula). Sums are in moles, so the yields
+ * are mole-weighted over the runs: 100 x sum wanted / sum substrate charged. */
+struct ledger_month_product {
+    char *substrate_name;                /* of the first run, owned, may be NULL */
+    char *substrate;                     /* SMILES, else formula, owned */
+    char *wanted;                        /* wanted product SMILES, else formula, owned */
+    char wanted_formula[64];
+    int reagent;
+    int runs;
+    double substrate_kg, substrate_mol, converted_mol, wanted_mol, wanted_kg;
+    double halogen_charged_mol, halogen_in_wanted_mol;
+    double yield_pct, conversion_pct, selectivity_pct, halogen_efficiency_pct;
+    int selectivity_defined;             /* 0: nothing converted */
 };
 
 struct ledger_month {
@@ -34,14 +53,22 @@ struct ledger_month {
     double product_kg, isomer_kg, overhal_kg, unreacted_substrate_kg;
     double reagents_kg[RG_COUNT];        /* charged (NaOH: caustic make-up bought) */
     double vent_kg[VS_COUNT];
-    double naoh_kg;                      /* consumed in scrubbers */
+    double naoh_kg;                      /* consumed in scrubbers, as 100 % NaOH */
     int changeouts;
     double spent_liquor_kg, succinimide_kg, reagent_left_kg, retained_acid_kg;
+    /* Caustic for this month's changeouts: solution bought at each unit's makeup strength
+     * [kg of solution], the NaOH in it [kg as 100 %], dilution water for the fresh charges [kg] */
+    double caustic_solution_kg, caustic_solution_naoh_kg, dilution_water_kg;
+    struct ledger_month_product *products; int nproducts; /* owned, in order of first run */
 };
 
 struct ledger_scrubber {
     char *id;
     double rated_acid_kmol_h;
+    double makeup_naoh_wt_pct;           /* strength of the caustic bought [wt% NaOH]; 0 water liquor */
+    double changeout_caustic_solution_kg; /* per fresh charge [kg of solution at makeup strength] */
+    double changeout_water_kg;           /* dilution water per fresh charge [kg] */
+    double dilution_water_kg;            /* over all changeouts [kg] (out.makeup_kg is the solution) */
     struct scrub_unit_out out;
 };
 
@@ -59,6 +86,9 @@ struct ledger {
     struct ledger_warning *warnings; int nwarnings;
     struct ledger_assumption *assumptions; int nassumptions;
     unsigned cautions_mask;              /* bit enum caution_id set for every substance in play */
+    double caustic_order_wt_pct;         /* NaOH order lines are solution of this strength
+                                          * [wt% NaOH]; 0 when no caustic is bought or the
+                                          * units buy different strengths (warned) */
 };
 
 struct ledger_opts {

@@ -132,6 +132,13 @@ enum hl_status scrub_campaign(const struct scrub_unit_in *units, int nunits,
                               struct scrub_run_out *run_out, struct scrub_unit_out *unit_out,
                               struct hl_err *e);
 
+/* One fresh charge of liquor_kg made up from purchased caustic (issue 15.4): solution
+ * bought = liquor_kg x naoh_wt_pct / makeup_naoh_wt_pct [kg of makeup strength], dilution
+ * water = liquor_kg - solution [kg]. Water liquor: no caustic, all liquor_kg is water.
+ * makeup_naoh_wt_pct <= 0 -> 50. */
+void scrub_fresh_charge(double liquor_kg, double naoh_wt_pct, double makeup_naoh_wt_pct,
+                        int water_liquor, double *caustic_solution_kg, double *water_kg);
+
 /* Heat released [kJ] per mol Na2SO3 oxidised in the liquor by SALT_NAOCL or
  * SALT_NAOBR (Na2SO3 + NaOX -> Na2SO4 + NaX); 0 for any other salt. */
 double scrub_sulfite_redox_kj_per_mol(int hypohalite_salt);

@@ -169,6 +169,37 @@ static enum hl_status element_balance(const struct reagent_info *ri, struct bal_
     return HL_OK;
 }
 
+/* Yield, conversion, selectivity and halogen efficiency from the products (issue 15.3).
+ * Halogen atoms per mole of reagent come from its formula, so Cl2 counts 2 (one goes to
+ * HCl), SO2Cl2 2 (one to HCl), NBS and HBr 1: the efficiency is the share of the halogen
+ * bought that ends up in the wanted product. */
+static enum hl_status run_figures(const struct reagent_info *ri, struct bal_out *o, struct hl_err *e)
+{
+    struct formula rf;
+    enum hl_status st = parse_known(ri->formula, &rf, e);
+    if (st)
+        return st;
+    double unreacted = 0;
+    for (int i = 0; i < o->nproducts; i++) {
+        const struct bal_product *p = &o->products[i];
+        if (p->role == ROLE_WANTED) {
+            o->wanted_mol += p->mol;
+            o->halogen_in_wanted_mol += p->mol * p->degree;
+        } else if (p->role == ROLE_UNREACTED) {
+            unreacted += p->mol;
+        }
+    }
+    o->converted_mol = fmax(0.0, o->substrate_mol - unreacted);
+    o->halogen_charged_mol = o->reagent_mol * rf.n[ri->halogen_el];
+    o->yield_pct = o->substrate_mol > 0 ? 100.0 * o->wanted_mol / o->substrate_mol : 0.0;
+    o->conversion_pct = o->substrate_mol > 0 ? 100.0 * o->converted_mol / o->substrate_mol : 0.0;
+    o->selectivity_defined = o->converted_mol > 0;
+    o->selectivity_pct = o->selectivity_defined ? 100.0 * o->wanted_mol / o->converted_mol : 0.0;
+    o->halogen_efficiency_pct =
+        o->halogen_charged_mol > 0 ? 100.0 * o->halogen_in_wanted_mol / o->halogen_charged_mol : 0.0;
+    return HL_OK;
+}
+
 static enum hl_status compute(const struct bal_in *in, struct bal_out *o, struct hl_err *e)
 {
     const struct reagent_info *ri = reagent_get(in->reagent);
@@ -302,6 +333,8 @@ static enum hl_status compute(const struct bal_in *in, struct bal_out *o, struct
     }
     st = element_balance(ri, o, pf, formed, succ_mol, e);
     hl_free(pf);
+    if (!st)
+        st = run_figures(ri, o, e);
     if (!st && !o->warning[0] && s->warning[0])
         snprintf(o->warning, sizeof o->warning, "%s", s->warning);
     /* SO2Cl2 boils at about 69 C (from memory): above that, unreacted reagent the ledger

@@ -402,6 +402,8 @@ static cJSON *jo_run(struct jo *w, const struct ledger *l, int i)
     jo_num(w, sc, "sulfite_oxidised_mol", s->sulfite_oxidised_mol);
     jo_num(w, sc, "breakthrough_mol", s->breakthrough_mol);
     jo_num(w, sc, "unabsorbed_mol", s->unabsorbed_mol);
+    jo_num(w, sc, "caustic_solution_kg", r->changeout_caustic_solution_kg);
+    jo_num(w, sc, "dilution_water_kg", r->changeout_water_kg);
 
     cJSON *eb = jo_obj(w, o, "element_balance");
     jo_num(w, eb, "max_rel_error", b->max_rel_error);
@@ -413,10 +415,55 @@ static cJSON *jo_run(struct jo *w, const struct ledger *l, int i)
         jo_num(w, eo, "out_mol", b->el_out_mol[k]);
     }
     jo_bool(w, o, "isomers_resolved", b->isomers_resolved);
+    jo_num(w, o, "wanted_mol", b->wanted_mol);
+    jo_num(w, o, "converted_mol", b->converted_mol);
+    jo_num(w, o, "halogen_charged_mol", b->halogen_charged_mol);
+    jo_num(w, o, "halogen_in_wanted_mol", b->halogen_in_wanted_mol);
+    jo_num(w, o, "yield_pct", b->yield_pct);
+    jo_num(w, o, "conversion_pct", b->conversion_pct);
+    if (b->selectivity_defined)
+        jo_num(w, o, "selectivity_pct", b->selectivity_pct);
+    else
+        jo_null(w, o, "selectivity_pct"); /* nothing converted: no selectivity */
+    jo_num(w, o, "halogen_efficiency_pct", b->halogen_efficiency_pct);
     if (b->warning[0])
         jo_str(w, o, "warning", b->warning);
     jo_pop(w, mark);
     return o;
+}
+
+static void jo_month_products(struct jo *w, cJSON *o, const struct ledger_month *m)
+{
+    cJSON *pa = jo_arr(w, o, "products");
+    for (int j = 0; j < m->nproducts && pa && w->st == HL_OK; j++) {
+        const struct ledger_month_product *p = &m->products[j];
+        cJSON *po = cJSON_CreateObject();
+        if (!po || !cJSON_AddItemToArray(pa, po)) {
+            cJSON_Delete(po);
+            jo_nomem(w);
+            return;
+        }
+        jo_str(w, po, "substrate_name", p->substrate_name);
+        jo_str(w, po, "substrate", p->substrate);
+        jo_str(w, po, "reagent", jo_item_name(p->reagent));
+        jo_str(w, po, "wanted", p->wanted);
+        jo_str(w, po, "wanted_formula", p->wanted_formula);
+        jo_num(w, po, "runs", p->runs);
+        jo_num(w, po, "substrate_kg", p->substrate_kg);
+        jo_num(w, po, "substrate_mol", p->substrate_mol);
+        jo_num(w, po, "converted_mol", p->converted_mol);
+        jo_num(w, po, "wanted_mol", p->wanted_mol);
+        jo_num(w, po, "wanted_kg", p->wanted_kg);
+        jo_num(w, po, "halogen_charged_mol", p->halogen_charged_mol);
+        jo_num(w, po, "halogen_in_wanted_mol", p->halogen_in_wanted_mol);
+        jo_num(w, po, "yield_pct", p->yield_pct);
+        jo_num(w, po, "conversion_pct", p->conversion_pct);
+        if (p->selectivity_defined)
+            jo_num(w, po, "selectivity_pct", p->selectivity_pct);
+        else
+            jo_null(w, po, "selectivity_pct");
+        jo_num(w, po, "halogen_efficiency_pct", p->halogen_efficiency_pct);
+    }
 }
 
 static cJSON *jo_month(struct jo *w, const struct ledger_month *m, int i)
@@ -444,11 +491,15 @@ static cJSON *jo_month(struct jo *w, const struct ledger_month *m, int i)
     jo_num(w, wk, "succinimide", m->succinimide_kg);
     jo_num(w, wk, "reagent_left", m->reagent_left_kg);
     jo_num(w, wk, "retained_acid", m->retained_acid_kg);
+    jo_num(w, o, "caustic_solution_kg", m->caustic_solution_kg);
+    jo_num(w, o, "caustic_solution_naoh_kg", m->caustic_solution_naoh_kg);
+    jo_num(w, o, "dilution_water_kg", m->dilution_water_kg);
+    jo_month_products(w, o, m);
     jo_pop(w, mark);
     return o;
 }
 
-static cJSON *jo_order(struct jo *w, const struct ord_line *d, int i)
+static cJSON *jo_order(struct jo *w, const struct ledger *l, const struct ord_line *d, int i)
 {
     size_t mark = jo_push(w, "orders[%d]", i);
     cJSON *o = jo_obj(w, NULL, NULL);
@@ -471,6 +522,12 @@ static cJSON *jo_order(struct jo *w, const struct ord_line *d, int i)
     jo_date(w, o, "order_by", d->order_by_min, 1);
     jo_bool(w, o, "late", d->late);
     jo_bool(w, o, "no_container", d->no_container);
+    if (d->item == RG_NAOH) { /* caustic is bought as solution: say its strength */
+        if (l->caustic_order_wt_pct > 0)
+            jo_num(w, o, "naoh_wt_pct", l->caustic_order_wt_pct);
+        else
+            jo_null(w, o, "naoh_wt_pct"); /* units buy unlike strengths (warned) */
+    }
     jo_pop(w, mark);
     return o;
 }
@@ -492,6 +549,11 @@ static cJSON *jo_scrubber(struct jo *w, const struct ledger *l, int i)
     jo_num(w, o, "changeouts", s->changeouts);
     jo_num(w, o, "naoh_kg", s->naoh_kg);
     jo_num(w, o, "makeup_kg", s->makeup_kg);
+    jo_num(w, o, "makeup_naoh_wt_pct", u->makeup_naoh_wt_pct);
+    jo_num(w, o, "caustic_solution_kg", s->makeup_kg);
+    jo_num(w, o, "changeout_caustic_solution_kg", u->changeout_caustic_solution_kg);
+    jo_num(w, o, "changeout_water_kg", u->changeout_water_kg);
+    jo_num(w, o, "dilution_water_kg", u->dilution_water_kg);
     jo_num(w, o, "heat_kj", s->heat_kj);
     cJSON *pr = jo_arr(w, o, "peak_runs");
     for (int k = 0; k < s->npeak_runs && pr; k++) {
@@ -595,7 +657,7 @@ typedef cJSON *(*jo_build_fn)(struct jo *, const struct ledger *, int);
 
 static cJSON *jo_b_run(struct jo *w, const struct ledger *l, int i) { return jo_run(w, l, i); }
 static cJSON *jo_b_month(struct jo *w, const struct ledger *l, int i) { return jo_month(w, &l->months[i], i); }
-static cJSON *jo_b_order(struct jo *w, const struct ledger *l, int i) { return jo_order(w, &l->orders[i], i); }
+static cJSON *jo_b_order(struct jo *w, const struct ledger *l, int i) { return jo_order(w, l, &l->orders[i], i); }
 static cJSON *jo_b_scrub(struct jo *w, const struct ledger *l, int i) { return jo_scrubber(w, l, i); }
 static cJSON *jo_b_warn(struct jo *w, const struct ledger *l, int i)
 {

@@ -291,11 +291,6 @@ static enum hl_status balance_runs(const struct campaign *c, struct ledger *l, s
 
 /* ---- scrubbers ---- */
 
-static double fresh_naoh_kg(const struct camp_scrubber *s)
-{
-    return s->liquor == CAMP_LIQUOR_NAOH ? s->liquor_kg * s->naoh_wt_pct / 100.0 : 0.0;
-}
-
 static enum hl_status run_scrubbers(const struct campaign *c, struct ledger *l, struct hl_err *e)
 {
     int nu = c->nscrubbers, nr = l->nruns;
@@ -346,8 +341,24 @@ static enum hl_status run_scrubbers(const struct campaign *c, struct ledger *l, 
             goto out;
         }
     }
-    for (int i = 0; i < nr; i++)
-        l->runs[i].scrub = rout[i];
+    for (int u = 0; u < nu; u++) {
+        const struct camp_scrubber *cs = &c->scrubbers[u];
+        struct ledger_scrubber *ls = &l->scrubbers[u];
+        int water = cs->liquor == CAMP_LIQUOR_WATER;
+        ls->makeup_naoh_wt_pct = water ? 0.0 : cs->makeup_naoh_wt_pct;
+        scrub_fresh_charge(cs->liquor_kg, cs->naoh_wt_pct, cs->makeup_naoh_wt_pct, water,
+                           &ls->changeout_caustic_solution_kg, &ls->changeout_water_kg);
+        ls->dilution_water_kg = ls->out.changeouts * ls->changeout_water_kg;
+    }
+    for (int i = 0; i < nr; i++) {
+        struct ledger_run *lr = &l->runs[i];
+        lr->scrub = rout[i];
+        if (lr->scrub.changeout_before && lr->scrubber_index >= 0) {
+            const struct ledger_scrubber *ls = &l->scrubbers[lr->scrubber_index];
+            lr->changeout_caustic_solution_kg = ls->changeout_caustic_solution_kg;
+            lr->changeout_water_kg = ls->changeout_water_kg;
+        }
+    }
 out:
     if (uout && st)
         scrub_unit_out_free(uout, nu);
@@ -376,12 +387,8 @@ static enum hl_status plan_orders(const struct campaign *c, struct ledger *l, st
         const struct ledger_run *r = &l->runs[i];
         d[nd++] = (struct ord_demand){r->reagent, r->start_min, r->bal.reagent_kg};
         /* caustic make-up for a fresh charge, bought as purchased-strength solution */
-        if (r->scrub.changeout_before && r->scrubber_index >= 0) {
-            const struct camp_scrubber *u = &c->scrubbers[r->scrubber_index];
-            double kg = fresh_naoh_kg(u) / (u->makeup_naoh_wt_pct / 100.0);
-            if (kg > 0)
-                d[nd++] = (struct ord_demand){RG_NAOH, r->start_min, kg};
-        }
+        if (r->changeout_caustic_solution_kg > 0)
+            d[nd++] = (struct ord_demand){RG_NAOH, r->start_min, r->changeout_caustic_solution_kg};
     }
     for (int i = 0; i < c->nstock; i++)
         s[i] = (struct ord_stock){c->stock[i].reagent, c->stock[i].on_hand_kg,
@@ -439,6 +446,74 @@ static struct ledger_month *month_of(struct ledger *l, int64_t t)
     return NULL;
 }
 
+/* Identity of a run's wanted product: its SMILES, else its formula; NULL when the run
+ * lists none (no product carries the role). */
+static const struct bal_product *wanted_of(const struct bal_out *b)
+{
+    for (int i = 0; i < b->nproducts; i++)
+        if (b->products[i].role == ROLE_WANTED)
+            return &b->products[i];
+    return NULL;
+}
+
+static void month_product_figures(struct ledger_month_product *p)
+{
+    p->yield_pct = p->substrate_mol > 0 ? 100.0 * p->wanted_mol / p->substrate_mol : 0.0;
+    p->conversion_pct = p->substrate_mol > 0 ? 100.0 * p->converted_mol / p->substrate_mol : 0.0;
+    p->selectivity_defined = p->converted_mol > 0;
+    p->selectivity_pct = p->selectivity_defined ? 100.0 * p->wanted_mol / p->converted_mol : 0.0;
+    p->halogen_efficiency_pct =
+        p->halogen_charged_mol > 0 ? 100.0 * p->halogen_in_wanted_mol / p->halogen_charged_mol : 0.0;
+}
+
+/* Add a run to its month's route (substrate, reagent, wanted product). A month holds a
+ * handful of routes, so the scan is short; the cost stays linear in runs. */
+static enum hl_status month_product(struct ledger_month *m, const struct ledger_run *r,
+                                    struct hl_err *e)
+{
+    const struct bal_out *b = &r->bal;
+    const struct bal_product *w = wanted_of(b);
+    const char *sub = r->smiles ? r->smiles : b->substrate_formula;
+    const char *want = w ? (w->smiles ? w->smiles : w->formula) : "";
+    struct ledger_month_product *p = NULL;
+    for (int i = 0; i < m->nproducts && !p; i++)
+        if (m->products[i].reagent == r->reagent && !strcmp(m->products[i].substrate, sub) &&
+            !strcmp(m->products[i].wanted, want))
+            p = &m->products[i];
+    if (!p) {
+        if (grow_due(m->nproducts)) {
+            p = hl_realloc(m->products, grown(m->nproducts) * sizeof *p);
+            if (!p)
+                return nomem(e);
+            m->products = p;
+        }
+        p = &m->products[m->nproducts];
+        memset(p, 0, sizeof *p);
+        p->substrate_name = hl_strdup(r->substrate_name);
+        p->substrate = hl_strdup(sub);
+        p->wanted = hl_strdup(want);
+        if ((r->substrate_name && !p->substrate_name) || !p->substrate || !p->wanted) {
+            hl_free(p->substrate_name);
+            hl_free(p->substrate);
+            hl_free(p->wanted);
+            return nomem(e);
+        }
+        snprintf(p->wanted_formula, sizeof p->wanted_formula, "%s", w ? w->formula : "");
+        p->reagent = r->reagent;
+        m->nproducts++;
+    }
+    p->runs++;
+    p->substrate_kg += r->substrate_kg;
+    p->substrate_mol += b->substrate_mol;
+    p->converted_mol += b->converted_mol;
+    p->wanted_mol += b->wanted_mol;
+    p->wanted_kg += b->wanted_kg;
+    p->halogen_charged_mol += b->halogen_charged_mol;
+    p->halogen_in_wanted_mol += b->halogen_in_wanted_mol;
+    month_product_figures(p);
+    return HL_OK;
+}
+
 static enum hl_status build_months(struct ledger *l, struct hl_err *e)
 {
     int n = l->nruns;
@@ -462,6 +537,7 @@ static enum hl_status build_months(struct ledger *l, struct hl_err *e)
             l->months[l->nmonths++].month_index = keys[i];
     hl_free(keys);
 
+    enum hl_status st = HL_OK;
     for (int i = 0; i < l->nruns; i++) {
         const struct ledger_run *r = &l->runs[i];
         const struct bal_out *b = &r->bal;
@@ -478,6 +554,14 @@ static enum hl_status build_months(struct ledger *l, struct hl_err *e)
         }
         m->naoh_kg += r->scrub.naoh_kg;
         m->changeouts += r->scrub.changeout_before;
+        if (r->scrub.changeout_before && r->scrubber_index >= 0) {
+            m->caustic_solution_kg += r->changeout_caustic_solution_kg;
+            m->caustic_solution_naoh_kg += r->changeout_caustic_solution_kg *
+                                           l->scrubbers[r->scrubber_index].makeup_naoh_wt_pct / 100.0;
+            m->dilution_water_kg += r->changeout_water_kg;
+        }
+        if ((st = month_product(m, r, e)))
+            return st;
         m->succinimide_kg += b->succinimide_kg;
         m->reagent_left_kg += b->reagent_left_kg;
     }
@@ -562,6 +646,23 @@ static enum hl_status collect_warnings(const struct campaign *c, struct ledger *
                       o->too_hot_runs, duty);
         }
     }
+    /* NaOH order lines add the solution every unit buys: one strength or the sum mixes
+     * unlike things */
+    for (int u = 0; u < l->nscrubbers && !st; u++) {
+        const struct ledger_scrubber *s = &l->scrubbers[u];
+        if (s->out.changeouts == 0 || s->changeout_caustic_solution_kg <= 0)
+            continue;
+        if (l->caustic_order_wt_pct == 0) {
+            l->caustic_order_wt_pct = s->makeup_naoh_wt_pct;
+        } else if (l->caustic_order_wt_pct != s->makeup_naoh_wt_pct) {
+            l->caustic_order_wt_pct = -1;
+            st = warn(l, e, NULL, "scrubbers buy caustic of different strengths (%s: %.4g wt%%): "
+                      "the NaOH order lines add solutions of unlike strength; order each "
+                      "strength separately", s->id, s->makeup_naoh_wt_pct);
+        }
+    }
+    if (l->caustic_order_wt_pct < 0)
+        l->caustic_order_wt_pct = 0;
     for (int i = 0; i < l->norders && !st; i++) {
         const struct ord_line *o = &l->orders[i];
         const char *item = reagent_get(o->item)->name;
@@ -689,6 +790,14 @@ void ledger_free(struct ledger *l)
         bal_free(&r->bal);
     }
     hl_free(l->runs);
+    for (int i = 0; i < l->nmonths; i++) {
+        for (int j = 0; j < l->months[i].nproducts; j++) {
+            hl_free(l->months[i].products[j].substrate_name);
+            hl_free(l->months[i].products[j].substrate);
+            hl_free(l->months[i].products[j].wanted);
+        }
+        hl_free(l->months[i].products);
+    }
     hl_free(l->months);
     for (int i = 0; i < l->norders; i++)
         hl_free((char *)l->orders[i].container);

@@ -284,6 +284,16 @@ static void column_check(const struct scrub_unit_in *u, double peak_kmol_h, doub
  * less HCl, so the same default serves a water liquor). */
 #define DEFAULT_MAX_TEMP_C 40.0
 
+void scrub_fresh_charge(double liquor_kg, double naoh_wt_pct, double makeup_naoh_wt_pct,
+                        int water_liquor, double *caustic_solution_kg, double *water_kg)
+{
+    double mk = makeup_naoh_wt_pct > 0 ? makeup_naoh_wt_pct : DEFAULT_MAKEUP_WT_PCT;
+    /* NaOH is conserved on dilution: liquor_kg x w_fresh = solution x w_makeup */
+    double sol = water_liquor ? 0.0 : liquor_kg * naoh_wt_pct / mk;
+    *caustic_solution_kg = sol;
+    *water_kg = liquor_kg - sol;
+}
+
 struct liq {
     double naoh, water, hcl, salt[SALT_COUNT]; /* kg in the unit */
     double temp_c;           /* adiabatic liquor temperature: no cooling since the last fill */
@@ -851,10 +861,10 @@ enum hl_status scrub_campaign(const struct scrub_unit_in *units, int nunits,
             goto out;
         }
         /* The first fill is in place before the campaign: only changeouts buy caustic. */
-        if (!ui->water_liquor) {
-            double mk = ui->makeup_naoh_wt_pct > 0 ? ui->makeup_naoh_wt_pct : DEFAULT_MAKEUP_WT_PCT;
-            o->makeup_kg = o->changeouts * ui->liquor_kg * ui->naoh_wt_pct / 100.0 / (mk / 100.0);
-        }
+        double solution_kg, water_kg;
+        scrub_fresh_charge(ui->liquor_kg, ui->naoh_wt_pct, ui->makeup_naoh_wt_pct,
+                           ui->water_liquor, &solution_kg, &water_kg);
+        o->makeup_kg = o->changeouts * solution_kg;
     }
 
     if ((st = instant_peaks(runs, nruns, run_out, unit_out, e)) ||
