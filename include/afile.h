@@ -12,9 +12,20 @@
 #include <stddef.h>
 #include "hlerr.h"
 
+/* Largest input afile_read accepts: the campaign reader's own limit (campaign.c MAX_FILE). */
+#define AFILE_READ_MAX ((size_t)1 << 30)
+
 /* Read the whole file at path into *buf (NUL-terminated, hl_free) and its length into
- * *len (may be NULL). Missing file: HL_ERR_INPUT; other failures HL_ERR_IO/_NOMEM. */
+ * *len (may be NULL); at most AFILE_READ_MAX bytes. Missing file, a folder or a longer
+ * input: HL_ERR_INPUT; other failures HL_ERR_IO/_NOMEM. */
 enum hl_status afile_read(const char *path, char **buf, size_t *len, struct hl_err *e);
+/* Same with a cap of max bytes, applied while reading (pipes and devices included). */
+enum hl_status afile_read_max(const char *path, size_t max, char **buf, size_t *len,
+                              struct hl_err *e);
+
+/* 1 when a and b name one file: same device and inode if both exist (through symlinks
+ * and hard links), else the same name in the same real folder when neither exists. */
+int afile_same(const char *a, const char *b);
 
 /* Refuse a target that exists and is not a regular file (a device, folder or fifo:
  * renaming over /dev/full as root would replace the device). */

@@ -18,8 +18,13 @@ enum hl_status {
     HL_ERR_INTERNAL /* a model did not converge or an invariant broke: exit 1 */
 };
 
+/* Which input a position refers to: the campaign file, or the container catalog read
+ * alongside it (--catalog FILE or the built-in one), so main names the right file. */
+enum hl_doc { HL_DOC_CAMPAIGN = 0, HL_DOC_CATALOG };
+
 struct hl_err {
     enum hl_status status;
+    enum hl_doc doc;    /* HL_DOC_CAMPAIGN unless the fault lies in the catalog */
     int line, col;      /* 1-based position in the input file; 0 = unknown */
     char field[160];    /* JSON path of the offending value, "" if none */
     char msg[480];      /* human message, no trailing newline */

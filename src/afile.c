@@ -5,11 +5,14 @@
  * file under the final name on some file systems (ext4 delayed allocation),
  * which is the half-written state this module exists to prevent.
  */
+#define _XOPEN_SOURCE 700 /* realpath */
 #include "afile.h"
 #include "hlmem.h"
 
 #include <errno.h>
 #include <fcntl.h>
+#include <stdint.h>
+#include <stdlib.h>
 #include <stdio.h>
 #include <string.h>
 #include <sys/stat.h>
@@ -17,39 +20,116 @@
 
 enum hl_status afile_read(const char *path, char **buf, size_t *len, struct hl_err *e)
 {
+    return afile_read_max(path, AFILE_READ_MAX, buf, len, e);
+}
+
+/* The cap is applied while reading: a device or pipe that never ends (/dev/zero, a FIFO
+ * fed forever) is refused after max + 1 bytes instead of filling memory first. */
+enum hl_status afile_read_max(const char *path, size_t max, char **buf, size_t *len,
+                              struct hl_err *e)
+{
     *buf = NULL;
-    FILE *f = fopen(path, "rb");
-    if (!f)
+    int fd = open(path, O_RDONLY | O_CLOEXEC);
+    if (fd < 0)
         return hl_err_set(e, errno == ENOENT ? HL_ERR_INPUT : HL_ERR_IO, "cannot open: %s",
                           strerror(errno));
-    size_t cap = 1 << 16, n = 0;
+    struct stat sb;
+    if (fstat(fd, &sb) != 0) {
+        int err = errno;
+        close(fd);
+        return hl_err_set(e, HL_ERR_IO, "cannot read: %s", strerror(err));
+    }
+    if (S_ISDIR(sb.st_mode)) {
+        close(fd);
+        return hl_err_set(e, HL_ERR_INPUT, "is a folder, not a file");
+    }
+    if (S_ISREG(sb.st_mode) && (uintmax_t)sb.st_size > max) {
+        close(fd);
+        return hl_err_set(e, HL_ERR_INPUT, "larger than the limit of %zu bytes", max);
+    }
+    /* room for max + 1 bytes (to see that a stream is too long) and the NUL */
+    size_t limit = max + 2, cap = 1 << 16, n = 0;
+    if (S_ISREG(sb.st_mode) && (size_t)sb.st_size + 2 > cap)
+        cap = (size_t)sb.st_size + 2; /* one read for a regular file that does not grow */
+    if (cap > limit)
+        cap = limit;
     char *b = hl_malloc(cap);
+    int err = 0;
     while (b) {
-        n += fread(b + n, 1, cap - n - 1, f);
-        if (n < cap - 1)
-            break;
-        char *bigger = hl_realloc(b, cap * 2);
-        if (!bigger) {
-            hl_free(b);
-            b = NULL;
+        if (n + 1 == cap) {
+            if (cap == limit)
+                break; /* max + 1 bytes read: too long */
+            size_t want = cap > limit / 2 ? limit : cap * 2;
+            char *bigger = hl_realloc(b, want);
+            if (!bigger) {
+                hl_free(b);
+                b = NULL;
+                break;
+            }
+            b = bigger;
+            cap = want;
+        }
+        ssize_t got = read(fd, b + n, cap - 1 - n);
+        if (got < 0 && errno == EINTR)
+            continue;
+        if (got < 0) {
+            err = errno;
             break;
         }
-        b = bigger;
-        cap *= 2;
+        if (got == 0)
+            break;
+        n += (size_t)got;
     }
-    int bad = ferror(f), err = errno;
-    fclose(f);
+    close(fd);
     if (!b)
         return hl_err_set(e, HL_ERR_NOMEM, "out of memory");
-    if (bad) {
+    if (err || n > max) {
         hl_free(b);
-        return hl_err_set(e, HL_ERR_IO, "read error: %s", strerror(err));
+        return err ? hl_err_set(e, HL_ERR_IO, "read error: %s", strerror(err))
+                   : hl_err_set(e, HL_ERR_INPUT, "larger than the limit of %zu bytes", max);
     }
     b[n] = '\0';
     *buf = b;
     if (len)
         *len = n;
     return HL_OK;
+}
+
+/* Identity of a path that may not exist yet: the real folder and the last component.
+ * NULL when the folder cannot be resolved (or no memory). */
+static char *where_named(const char *path)
+{
+    const char *slash = strrchr(path, '/');
+    const char *base = slash ? slash + 1 : path;
+    char *dir = NULL;
+    if (afile_dirname(path, &dir, NULL) != HL_OK)
+        return NULL;
+    char *real = realpath(dir, NULL); /* malloc'd by libc */
+    hl_free(dir);
+    if (!real)
+        return NULL;
+    size_t n = strlen(real) + strlen(base) + 2;
+    char *out = hl_malloc(n);
+    if (out)
+        snprintf(out, n, "%s/%s", real, base);
+    free(real);
+    return out;
+}
+
+int afile_same(const char *a, const char *b)
+{
+    struct stat sa, sb;
+    int ha = stat(a, &sa) == 0, hb = stat(b, &sb) == 0;
+    if (ha && hb)
+        return sa.st_dev == sb.st_dev && sa.st_ino == sb.st_ino;
+    if (ha != hb)
+        return 0;
+    /* neither exists yet: the same name in the same real folder is the same file-to-be */
+    char *wa = where_named(a), *wb = where_named(b);
+    int same = wa && wb ? !strcmp(wa, wb) : !strcmp(a, b);
+    hl_free(wa);
+    hl_free(wb);
+    return same;
 }
 
 enum hl_status afile_check_target(const char *path, struct hl_err *e)

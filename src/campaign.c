@@ -1800,8 +1800,8 @@ enum hl_status camp_parse(const char *text, size_t len, const char *path, const 
         idset_free(&rd.scrub_ids);
         doc_free(&d);
     }
-    if (!st && catalog_text)
-        st = parse_catalog(cp, catalog_text, e);
+    if (!st && catalog_text && (st = parse_catalog(cp, catalog_text, e)) && e)
+        e->doc = HL_DOC_CATALOG; /* its line:column are the catalog's, not the campaign's */
     if (st) {
         camp_free(cp);
         if (e)

@@ -28,6 +28,9 @@
 
 #define HALOLEDGER_VERSION "0.1.0"
 #define MAX_OUTPUTS 4
+/* A catalog is a table of containers (templates/containers.json is about 2 kB); the cap
+ * refuses a device or endless pipe early instead of at the campaign's 1 GiB. */
+#define CATALOG_MAX_BYTES ((size_t)16 << 20)
 
 extern const char catalog_default_json[]; /* templates/containers.json, compiled in */
 
@@ -45,11 +48,14 @@ static const char usage_text[] =
     "\n"
     "Commands:\n"
     "  check     validate the campaign, run every model, print a per-month summary,\n"
-    "            warnings and handling cautions; writes nothing\n"
-    "  report    as check, then write the ledger: .xlsx workbook and/or .json ledger\n"
+    "            orders, scrubber peaks, warnings and handling cautions; writes nothing\n"
+    "  report    as check, then write the ledger: .xlsx workbook and/or .json ledger;\n"
+    "            prints the same summary as check once every file is written, then\n"
+    "            one 'wrote FILE' line per output\n"
     "\n"
     "Options:\n"
-    "  -o, --output FILE   output file; the extension (.xlsx or .json) picks the format\n"
+    "  -o, --output FILE   output file; the extension (.xlsx or .json) picks the format;\n"
+    "                      never the campaign or catalog itself, each file at most once\n"
     "      --today DATE    ISO 8601 date; orders whose order-by date has passed are flagged\n"
     "      --strict        exit 3 when the ledger carries warnings (overload, late order...)\n"
     "      --catalog FILE  container catalog to use instead of the built-in one\n"
@@ -71,6 +77,14 @@ static void print_err(const char *file, const struct hl_err *e)
         fprintf(stderr, "haloledger: %s: %s: %s\n", file, e->field, e->msg);
     else
         fprintf(stderr, "haloledger: %s: %s\n", file, e->msg);
+}
+
+/* The file a reader's error refers to: the campaign, or the catalog read with it. */
+static const char *err_file(const struct hl_err *e, const char *campaign, const char *catalog)
+{
+    if (e->doc != HL_DOC_CATALOG)
+        return campaign;
+    return catalog ? catalog : "built-in container catalog (templates/containers.json)";
 }
 
 static int exit_for(enum hl_status st)
@@ -180,8 +194,6 @@ static int write_outputs(const struct ledger *l, const char *const *outputs, int
     for (i = 0; i < nout; i++) {
         if (st && staged[i])
             unlink(staged[i]);
-        else if (!st)
-            printf("wrote %s\n", outputs[i]);
         hl_free(staged[i]);
     }
     if (st) {
@@ -199,7 +211,45 @@ static int write_outputs(const struct ledger *l, const char *const *outputs, int
 }
 
 
-int main(int argc, char **argv)
+/* Standard output and error are checked like any other output (a full disk or a closed
+ * pipe must not pass as success): exit 1 with a message when a byte was lost. */
+static int finish(int rc)
+{
+    if (fflush(stdout) != 0 || ferror(stdout)) {
+        int err = errno;
+        fprintf(stderr, "haloledger: cannot write standard output: %s\n",
+                err ? strerror(err) : "write error");
+        rc = EXIT_RUNTIME;
+    }
+    /* a warning or message that could not be shown is a failure too (nothing to tell it to) */
+    if ((fflush(stderr) != 0 || ferror(stderr)) && rc != EXIT_INPUT)
+        rc = EXIT_RUNTIME;
+    return rc;
+}
+
+/* Bad usage: an output that is an input, or two outputs that are one file. Writing
+ * over the campaign would destroy it, and one file written twice keeps only the last. */
+static int outputs_clash(const char *const *outputs, int nout, const char *campaign,
+                         const char *catalog)
+{
+    for (int i = 0; i < nout; i++) {
+        if (afile_same(outputs[i], campaign))
+            return usage_error("output '%s' is the campaign file itself; choose another name",
+                               outputs[i]);
+        if (catalog && afile_same(outputs[i], catalog))
+            return usage_error("output '%s' is the --catalog file itself; choose another name",
+                               outputs[i]);
+        for (int j = 0; j < i; j++)
+            if (afile_same(outputs[i], outputs[j])) {
+                fprintf(stderr, "haloledger: outputs '%s' and '%s' are the same file\n"
+                                "Try 'haloledger --help'.\n", outputs[j], outputs[i]);
+                return EXIT_INPUT;
+            }
+    }
+    return EXIT_OK;
+}
+
+static int run(int argc, char **argv)
 {
     static const struct option opts[] = {
         {"output", required_argument, NULL, 'o'}, {"today", required_argument, NULL, 't'},
@@ -249,6 +299,9 @@ int main(int argc, char **argv)
     for (int i = 0; i < nout; i++)
         if (!has_ext(outputs[i], ".xlsx") && !has_ext(outputs[i], ".json"))
             return usage_error("output '%s' must end in .xlsx or .json", outputs[i]);
+    int rc = outputs_clash(outputs, nout, campaign_path, catalog_path);
+    if (rc != EXIT_OK)
+        return rc;
 
     struct ledger_opts lo = {.today_min = -1, .created_min = source_date_minutes()};
     if (today_text) {
@@ -261,7 +314,7 @@ int main(int argc, char **argv)
     hl_err_clear(&e);
     enum hl_status st;
     char *catalog = NULL;
-    if (catalog_path && (st = afile_read(catalog_path, &catalog, NULL, &e))) {
+    if (catalog_path && (st = afile_read_max(catalog_path, CATALOG_MAX_BYTES, &catalog, NULL, &e))) {
         print_err(catalog_path, &e);
         return exit_for(st);
     }
@@ -269,14 +322,14 @@ int main(int argc, char **argv)
     st = camp_load(campaign_path, catalog ? catalog : catalog_default_json, &c, &e);
     hl_free(catalog);
     if (st) {
-        print_err(campaign_path, &e);
+        print_err(err_file(&e, campaign_path, catalog_path), &e);
         return exit_for(st);
     }
     struct ledger *l = NULL;
     st = ledger_build(c, &lo, &l, &e);
     camp_free(c);
     if (st) {
-        print_err(campaign_path, &e);
+        print_err(err_file(&e, campaign_path, catalog_path), &e);
         return exit_for(st);
     }
     for (int i = 0; i < l->nwarnings; i++) {
@@ -286,13 +339,22 @@ int main(int argc, char **argv)
         else
             fprintf(stderr, "haloledger: warning: %s\n", w->message);
     }
-    int rc = EXIT_OK;
-    if (!report)
-        print_summary(l);
-    else
+    /* report writes first and prints after: a reader that stops early (| head) cannot
+     * keep the ledger from being written */
+    if (report)
         rc = write_outputs(l, outputs, nout);
+    if (rc == EXIT_OK) {
+        print_summary(l);
+        for (int i = 0; i < nout; i++)
+            printf("wrote %s\n", outputs[i]);
+    }
     if (rc == EXIT_OK && strict && l->nwarnings > 0)
         rc = EXIT_WARNINGS;
     ledger_free(l);
     return rc;
+}
+
+int main(int argc, char **argv)
+{
+    return finish(run(argc, argv));
 }
