@@ -16,7 +16,8 @@
  * scrubbers/stock/containers/runs entry may also carry a free-text "note".  Text is UTF-8 without control characters, at most
  * 32767 bytes (ids: 1..100 bytes).  Masses in kg are in (0, 1e9) unless said.
  *  top:       format R = "haloledger-campaign/1"; title, site; issued (ISO date);
- *             model; scrubbers[], stock[], containers[] (may be empty); runs[] R, non-empty.
+ *             model; scrubbers[], stock[], containers[] (may be empty); runs[] R, non-empty;
+ *             report {paper "A4"|"Letter" = A4} (layout of the ledgers only).
  *  scrubbers: id R (unique); liquor "naoh"|"water" = naoh; naoh_wt_pct (0,50] R for naoh;
  *             liquor_kg R; min_naoh_wt_pct [0, naoh_wt_pct) = 2 (naoh only);
  *             max_acid_wt_pct (0,60] = 20 (water only); rated_acid_kmol_h (0,1e6] R;
@@ -153,10 +154,13 @@ struct camp_run {
     int own_model;              /* 1 if the run has a model block of its own */
 };
 
+enum camp_paper { CAMP_PAPER_A4, CAMP_PAPER_LETTER };
+
 struct campaign {
     char *file;                 /* path as given */
     char *title, *site;         /* may be NULL */
     int64_t issued_min;         /* optional "issued" date, -1 if absent */
+    enum camp_paper paper;      /* report.paper: the workbook's print paper */
     struct camp_scrubber *scrubbers; int nscrubbers;
     struct camp_stock *stock; int nstock;
     struct camp_container *containers; int ncontainers; /* campaign entries, then catalog ones not overridden */

@@ -79,6 +79,7 @@ struct ledger {
     char *title, *site, *file;
     int64_t created_min;                 /* document time: issued date, SOURCE_DATE_EPOCH, or 0 */
     int64_t today_min;                   /* --today, -1 if not given */
+    int paper_letter;                    /* campaign report.paper: 1 = US Letter, 0 = ISO A4 */
     struct ledger_run *runs; int nruns;  /* sorted by start, then file order */
     struct ledger_month *months; int nmonths;
     struct ord_line *orders; int norders;

@@ -1601,9 +1601,29 @@ static enum hl_status parse_runs(struct reader *rd, const cJSON *arr)
 
 /* top level */
 enum { GK_FORMAT, GK_TITLE, GK_SITE, GK_ISSUED, GK_MODEL, GK_SCRUB, GK_STOCK, GK_CONT, GK_RUNS, GK_NOTE,
-       GK_N };
+       GK_REPORT, GK_N };
 static const char *const top_keys[GK_N] = {"format", "title", "site", "issued", "model", "scrubbers",
-                                           "stock", "containers", "runs", "note"};
+                                           "stock", "containers", "runs", "note", "report"};
+/* report: how the ledgers are laid out (not what they compute) */
+enum { OK_PAPER, OK_NOTE, OK_N };
+static const char *const report_keys[OK_N] = {"paper", "note"};
+static const char *const paper_names[2] = {"A4", "Letter"};
+
+static enum hl_status parse_report(struct vctx *c, const cJSON *m, struct campaign *cp)
+{
+    const cJSON *k[OK_N];
+    const char *note;
+    int paper = 0;
+    size_t old = push_key(c, "report");
+    enum hl_status st;
+    if ((st = members(c, m, report_keys, OK_N, k)) ||
+        (k[OK_PAPER] && (st = get_enum(c, k[OK_PAPER], paper_names, 2, &paper))) ||
+        (k[OK_NOTE] && (st = get_str(c, k[OK_NOTE], 0, MAX_TEXT, &note))))
+        return st;
+    cp->paper = paper ? CAMP_PAPER_LETTER : CAMP_PAPER_A4;
+    pop(c, old);
+    return HL_OK;
+}
 enum { AK_FORMAT, AK_NOTE, AK_CONT, AK_N };
 static const char *const cat_keys[AK_N] = {"format", "note", "containers"};
 
@@ -1698,7 +1718,8 @@ static enum hl_status parse_top(struct reader *rd, const cJSON *root)
         (k[GK_SITE] && (st = dup_str(c, k[GK_SITE], T_TEXT, MAX_TEXT, &cp->site))) ||
         (k[GK_ISSUED] && (st = get_date(c, k[GK_ISSUED], &cp->issued_min))) ||
         (k[GK_NOTE] && (st = get_str(c, k[GK_NOTE], 0, MAX_TEXT, &note))) ||
-        (k[GK_MODEL] && (st = parse_model(c, k[GK_MODEL], &rd->model))))
+        (k[GK_MODEL] && (st = parse_model(c, k[GK_MODEL], &rd->model))) ||
+        (k[GK_REPORT] && (st = parse_report(c, k[GK_REPORT], cp))))
         return st;
     if (k[GK_MODEL]) {
         cp->has_model = 1;

@@ -743,6 +743,7 @@ static enum hl_status copy_identity(const struct campaign *c, const struct ledge
 {
     l->title = hl_strdup(c->title);
     l->site = hl_strdup(c->site);
+    l->paper_letter = c->paper == CAMP_PAPER_LETTER;
     l->file = hl_strdup(c->file);
     if ((c->title && !l->title) || (c->site && !l->site) || (c->file && !l->file))
         return nomem(e);

@@ -182,6 +182,7 @@ static void defaults(void)
     CU_ASSERT_PTR_NULL(c->title);
     CU_ASSERT_PTR_NULL(c->site);
     CU_ASSERT_EQUAL(c->issued_min, -1);
+    CU_ASSERT_EQUAL(c->paper, CAMP_PAPER_A4);
     const struct camp_scrubber *s = &c->scrubbers[0];
     CU_ASSERT_EQUAL(s->liquor, CAMP_LIQUOR_NAOH);
     ASSERT_REL(s->min_naoh_wt_pct, 2, 1e-15);
@@ -205,6 +206,26 @@ static void defaults(void)
     CU_ASSERT_EQUAL(r->model.set_mask, 0u);
     CU_ASSERT_PTR_NULL(r->substrate_name);
     camp_free(c);
+}
+
+/* report.paper picks the print paper; any other spelling is refused at its position */
+static void report_paper(void)
+{
+    static const char T[] =
+        "{\"format\": \"haloledger-campaign/1\", \"report\": {\"paper\": \"Letter\", \"note\": \"US site\"},\n"
+        " \"runs\": [{\"id\": \"A\", \"start\": \"2027-01-01\", \"substrate\": {\"smiles\": \"CC\"},\n"
+        "   \"substrate_kg\": 1, \"reagent\": \"Cl2\", \"reagent_eq\": 1}]}";
+    struct campaign *c = parse_ok(T, NULL);
+    if (c)
+        CU_ASSERT_EQUAL(c->paper, CAMP_PAPER_LETTER);
+    camp_free(c);
+    static const char B[] = "{\"format\": \"haloledger-campaign/1\", \"report\": {\"paper\": \"a4\"}}";
+    struct hl_err e;
+    c = NULL;
+    CU_ASSERT_EQUAL(camp_parse(B, strlen(B), "p.json", NULL, &c, &e), HL_ERR_INPUT);
+    CU_ASSERT_PTR_NULL(c);
+    CU_ASSERT_EQUAL(e.col, 57); /* the opening quote of "a4", counted by hand */
+    CU_ASSERT_PTR_NOT_NULL(strstr(e.field, "report.paper"));
 }
 
 static void repeat_expansion(void)
@@ -545,7 +566,7 @@ int main(void)
 {
     hl_mem_hook_cjson();
     static const struct cu_case cases[] = {
-        {"demo fields", demo_fields}, {"defaults", defaults}, {"repeat expansion", repeat_expansion},
+        {"demo fields", demo_fields}, {"defaults", defaults}, {"report paper", report_paper}, {"repeat expansion", repeat_expansion},
         {"model merge", model_merge}, {"catalog merge", catalog_merge}, {"positions", positions},
         {"errors", errors}, {"load file", load_file}, {"allocation failure", alloc_failure},
         {"string columns", string_columns}, {"campaign model position", campaign_model_position}};
