@@ -17,7 +17,9 @@
 #include "reagents.h"
 #include "selectivity.h"
 
-enum bal_role { ROLE_WANTED, ROLE_ISOMER, ROLE_OVERHAL, ROLE_UNREACTED };
+/* ROLE_OTHER is never made here: the ledger sums the over-halogenated products below
+ * its reporting threshold into one such row (ledger.h). */
+enum bal_role { ROLE_WANTED, ROLE_ISOMER, ROLE_OVERHAL, ROLE_UNREACTED, ROLE_OTHER };
 
 /* Elements the element balance closes over. */
 enum { BAL_NEL = 7 };

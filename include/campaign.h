@@ -17,7 +17,9 @@
  * 32767 bytes (ids: 1..100 bytes).  Masses in kg are in (0, 1e9) unless said.
  *  top:       format R = "haloledger-campaign/1"; title, site; issued (ISO date);
  *             model; scrubbers[], stock[], containers[] (may be empty); runs[] R, non-empty;
- *             report {paper "A4"|"Letter" = A4} (layout of the ledgers only).
+ *             report {paper "A4"|"Letter" = A4; min_mol_fraction [0,1) = 1e-4: over-halogenated
+ *             products below it are summed into one "other" row per run} (layout of the
+ *             ledgers only: every total is computed from all products).
  *  scrubbers: id R (unique); liquor "naoh"|"water" = naoh; naoh_wt_pct (0,50] R for naoh;
  *             liquor_kg R; min_naoh_wt_pct [0, naoh_wt_pct) = 2 (naoh only);
  *             max_acid_wt_pct (0,60] = 20 (water only); rated_acid_kmol_h (0,1e6] R;
@@ -161,6 +163,7 @@ struct campaign {
     char *title, *site;         /* may be NULL */
     int64_t issued_min;         /* optional "issued" date, -1 if absent */
     enum camp_paper paper;      /* report.paper: the workbook's print paper */
+    double report_min_mol_fraction; /* report.min_mol_fraction, -1 if absent (ledger default) */
     struct camp_scrubber *scrubbers; int nscrubbers;
     struct camp_stock *stock; int nstock;
     struct camp_container *containers; int ncontainers; /* campaign entries, then catalog ones not overridden */

@@ -24,11 +24,14 @@ struct ledger_run {
     double feed_h, temp_c, substrate_kg, peak_factor;
     int reagent;
     enum kin_mode mode;
-    struct bal_out bal;                  /* also yield, conversion, selectivity, halogen efficiency */
+    struct bal_out bal;                  /* also yield, conversion, selectivity, halogen efficiency;
+                                          * products: see ledger_build (reporting threshold) */
     struct scrub_run_out scrub;
     /* the fresh charge before this run (0 without changeout_before): purchased caustic
      * solution at its unit's makeup_naoh_wt_pct [kg of solution] and dilution water [kg] */
     double changeout_caustic_solution_kg, changeout_water_kg;
+    int other_rows;                      /* products summed into the ROLE_OTHER row, 0 = none */
+    double other_mean_degree;            /* mol-weighted mean degree of that row */
 };
 
 /* One month's figures for one route: runs with the same substrate, reagent and wanted
@@ -80,6 +83,7 @@ struct ledger {
     int64_t created_min;                 /* document time: issued date, SOURCE_DATE_EPOCH, or 0 */
     int64_t today_min;                   /* --today, -1 if not given */
     int paper_letter;                    /* campaign report.paper: 1 = US Letter, 0 = ISO A4 */
+    double report_min_mol_fraction;      /* reporting threshold in force, 0 = every product listed */
     struct ledger_run *runs; int nruns;  /* sorted by start, then file order */
     struct ledger_month *months; int nmonths;
     struct ord_line *orders; int norders;
@@ -94,19 +98,30 @@ struct ledger {
 
 struct ledger_opts {
     int64_t today_min;                   /* -1 = none */
+    int all_products;                    /* 1: list every product (--all-products) */
     int64_t created_min;                 /* -1 = derive (campaign issued date or SOURCE_DATE_EPOCH) */
 };
 
-/* Build the ledger of a validated campaign. Model input errors (a bad SMILES, NBS on a
- * substrate without allylic H) come back as HL_ERR_INPUT with e->line/col/field
- * pointing into the campaign file. *out owned by the caller (ledger_free). */
+/* Reporting threshold when the campaign gives none: over-halogenated products below
+ * this share of the substrate charged (mol/mol) are summed into one row per run. */
+#define LEDGER_DEFAULT_MIN_MOL_FRACTION 1e-4
+
+/* Build the ledger of a validated campaign. Each run's over-halogenated products below
+ * the reporting threshold are replaced by one ROLE_OTHER row (their mol, kg and
+ * mol_fraction summed; degree = the lowest degree summed) at the end of bal.products;
+ * every total and the element balance are taken before, over all products. Model input
+ * errors (a bad SMILES, NBS on a substrate without allylic H) come back as HL_ERR_INPUT
+ * with e->line/col/field pointing into the campaign file. *out owned by the caller (ledger_free). */
 enum hl_status ledger_build(const struct campaign *c, const struct ledger_opts *o,
                             struct ledger **out, struct hl_err *e);
 
 /* Free a ledger and every string and table it owns; NULL is fine. */
 void ledger_free(struct ledger *l);
 
-/* Text of a role ("wanted", "isomer", "overhalogenated", "unreacted"). */
+/* Row label of a ROLE_OTHER product, "other over-halogenated (degree >= N)", into buf. */
+void ledger_other_label(const struct bal_product *p, char *buf, size_t n);
+
+/* Text of a role ("wanted", "isomer", "overhalogenated", "unreacted", "other"). */
 const char *ledger_role_name(enum bal_role r);
 
 #endif

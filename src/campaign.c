@@ -1605,8 +1605,8 @@ enum { GK_FORMAT, GK_TITLE, GK_SITE, GK_ISSUED, GK_MODEL, GK_SCRUB, GK_STOCK, GK
 static const char *const top_keys[GK_N] = {"format", "title", "site", "issued", "model", "scrubbers",
                                            "stock", "containers", "runs", "note", "report"};
 /* report: how the ledgers are laid out (not what they compute) */
-enum { OK_PAPER, OK_NOTE, OK_N };
-static const char *const report_keys[OK_N] = {"paper", "note"};
+enum { OK_PAPER, OK_MINFRAC, OK_NOTE, OK_N };
+static const char *const report_keys[OK_N] = {"paper", "min_mol_fraction", "note"};
 static const char *const paper_names[2] = {"A4", "Letter"};
 
 static enum hl_status parse_report(struct vctx *c, const cJSON *m, struct campaign *cp)
@@ -1618,6 +1618,8 @@ static enum hl_status parse_report(struct vctx *c, const cJSON *m, struct campai
     enum hl_status st;
     if ((st = members(c, m, report_keys, OK_N, k)) ||
         (k[OK_PAPER] && (st = get_enum(c, k[OK_PAPER], paper_names, 2, &paper))) ||
+        (k[OK_MINFRAC] && (st = get_num(c, k[OK_MINFRAC], (struct rng){0, 1, 0, 1},
+                                        &cp->report_min_mol_fraction))) ||
         (k[OK_NOTE] && (st = get_str(c, k[OK_NOTE], 0, MAX_TEXT, &note))))
         return st;
     cp->paper = paper ? CAMP_PAPER_LETTER : CAMP_PAPER_A4;
@@ -1805,6 +1807,7 @@ enum hl_status camp_parse(const char *text, size_t len, const char *path, const 
     if (!cp)
         return hl_err_set(e, HL_ERR_NOMEM, "out of memory reading the campaign");
     cp->issued_min = -1;
+    cp->report_min_mol_fraction = -1;
     if (path && !(cp->file = hl_strdup(path))) {
         hl_free(cp);
         return hl_err_set(e, HL_ERR_NOMEM, "out of memory reading the campaign");

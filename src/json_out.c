@@ -353,13 +353,20 @@ static cJSON *jo_run(struct jo *w, const struct ledger *l, int i)
             break;
         }
         jo_str(w, po, "smiles", bp->smiles);
-        jo_str(w, po, "formula", bp->formula);
+        jo_str(w, po, "formula", bp->role == ROLE_OTHER ? NULL : bp->formula); /* a mixture */
         jo_num(w, po, "degree", bp->degree);
         jo_num(w, po, "molar_mass_g_mol", bp->molar_mass_g_mol);
         jo_num(w, po, "mol", bp->mol);
         jo_num(w, po, "kg", bp->kg);
         jo_num(w, po, "mol_fraction", bp->mol_fraction);
         jo_str(w, po, "role", ledger_role_name(bp->role));
+        if (bp->role == ROLE_OTHER) { /* the sum of the rows below the reporting threshold */
+            jo_num(w, po, "mean_degree", r->other_mean_degree);
+            jo_num(w, po, "rows_summed", r->other_rows);
+            char label[64];
+            ledger_other_label(bp, label, sizeof label);
+            jo_str(w, po, "label", label);
+        }
     }
 
     cJSON *by = jo_obj(w, o, "byproducts");

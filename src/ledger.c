@@ -25,8 +25,14 @@ const char *ledger_role_name(enum bal_role r)
     case ROLE_ISOMER: return "isomer";
     case ROLE_OVERHAL: return "overhalogenated";
     case ROLE_UNREACTED: return "unreacted";
+    case ROLE_OTHER: return "other";
     }
     return "?";
+}
+
+void ledger_other_label(const struct bal_product *p, char *buf, size_t n)
+{
+    snprintf(buf, n, "other over-halogenated (degree >= %d)", p->degree);
 }
 
 /* ---- growing lists of warnings and assumptions ---- */
@@ -205,6 +211,40 @@ static enum hl_status warn_defaults(struct ledger *l, const struct camp_run *r,
     return st;
 }
 
+/* Sum the over-halogenated products below min_frac into one ROLE_OTHER row at the end.
+ * Why only over-halogenated ones: a run has a handful of monohalides and one unreacted
+ * substrate, but a long tail of traces of high degree (down to 1e-14 mol/mol), which
+ * is what nobody reads. The sums keep the mass and element balances closed. */
+static void lump_products(struct ledger_run *lr, double min_frac)
+{
+    struct bal_out *b = &lr->bal;
+    struct bal_product other = {.smiles = NULL, .degree = 0, .role = ROLE_OTHER};
+    double degree_mol = 0;
+    int kept = 0, lumped = 0;
+    for (int p = 0; p < b->nproducts; p++) {
+        struct bal_product *bp = &b->products[p];
+        if (bp->role != ROLE_OVERHAL || !(bp->mol_fraction < min_frac)) {
+            b->products[kept++] = *bp;
+            continue;
+        }
+        if (lumped++ == 0 || bp->degree < other.degree)
+            other.degree = bp->degree;
+        other.mol += bp->mol;
+        other.kg += bp->kg;
+        other.mol_fraction += bp->mol_fraction;
+        degree_mol += bp->degree * bp->mol;
+        hl_free(bp->smiles);
+    }
+    if (lumped == 0)
+        return;
+    /* a mean over zero moles (every trace underflowed) falls back to the lowest degree */
+    other.molar_mass_g_mol = other.mol > 0 ? other.kg * 1000.0 / other.mol : 0.0;
+    lr->other_mean_degree = other.mol > 0 ? degree_mol / other.mol : other.degree;
+    lr->other_rows = lumped;
+    b->products[kept++] = other; /* kept < nproducts: at least one row was removed */
+    b->nproducts = kept;
+}
+
 static int by_start(const void *a, const void *b)
 {
     const struct camp_run *x = *(const struct camp_run *const *)a, *y = *(const struct camp_run *const *)b;
@@ -213,7 +253,8 @@ static int by_start(const void *a, const void *b)
     return (x > y) - (x < y); /* file order: runs[] is contiguous */
 }
 
-static enum hl_status balance_runs(const struct campaign *c, struct ledger *l, struct hl_err *e)
+static enum hl_status balance_runs(const struct campaign *c, struct ledger *l, double min_frac,
+                                   struct hl_err *e)
 {
     const struct camp_run **sorted = hl_malloc((size_t)(c->nruns ? c->nruns : 1) * sizeof *sorted);
     l->runs = hl_calloc((size_t)(c->nruns ? c->nruns : 1), sizeof *l->runs);
@@ -268,7 +309,9 @@ static enum hl_status balance_runs(const struct campaign *c, struct ledger *l, s
         hl_err_clear(e);
         int twin = first[r->src_index];
         if (twin >= 0) {
-            st = bal_copy(&lr->bal, &l->runs[twin].bal, e);
+            st = bal_copy(&lr->bal, &l->runs[twin].bal, e); /* already lumped */
+            lr->other_rows = l->runs[twin].other_rows;
+            lr->other_mean_degree = l->runs[twin].other_mean_degree;
         } else {
             st = bal_compute(&in, &lr->bal, e);
             if (st == HL_ERR_INPUT)
@@ -280,6 +323,8 @@ static enum hl_status balance_runs(const struct campaign *c, struct ledger *l, s
             if (!st)
                 st = warn_defaults(l, r, &lr->bal, e);
             sel_free(&lr->bal.sel); /* the products hold what the writers need */
+            if (!st && min_frac > 0)
+                lump_products(lr, min_frac);
         }
         if (!st && lr->bal.warning[0])
             st = warn(l, e, lr->id, "%s", lr->bal.warning);
@@ -738,6 +783,26 @@ static enum hl_status collect_assumptions(struct ledger *l, struct hl_err *e)
     return HL_OK;
 }
 
+/* The reporting threshold in force and its assumption row: --all-products, else the
+ * campaign's report.min_mol_fraction, else the default. */
+static enum hl_status report_threshold(const struct campaign *c, const struct ledger_opts *o,
+                                       struct ledger *l, struct hl_err *e)
+{
+    const char *what = "Reporting threshold: over-halogenated products below this share of the "
+                       "substrate charged are summed into one \"other\" row per run (all totals "
+                       "and balances use every product)";
+    if (o && o->all_products) {
+        l->report_min_mol_fraction = 0;
+        return assume(l, e, what, 1, 0, "mol/mol", "--all-products: every product listed");
+    }
+    int given = c->report_min_mol_fraction >= 0;
+    l->report_min_mol_fraction = given ? c->report_min_mol_fraction : LEDGER_DEFAULT_MIN_MOL_FRACTION;
+    return assume(l, e, what, 1, l->report_min_mol_fraction, "mol/mol",
+                  given ? "campaign report.min_mol_fraction"
+                        : "default: 1e-4 (0.01 %), a fifth of the 0.05 % impurity reporting "
+                          "threshold of ICH Q3A(R2) (from memory)");
+}
+
 static enum hl_status copy_identity(const struct campaign *c, const struct ledger_opts *o,
                                     struct ledger *l, struct hl_err *e)
 {
@@ -763,7 +828,7 @@ enum hl_status ledger_build(const struct campaign *c, const struct ledger_opts *
         return nomem(e);
     enum hl_status st;
     if ((st = copy_identity(c, o, l, e)) || (st = collect_assumptions(l, e)) ||
-        (st = balance_runs(c, l, e)))
+        (st = report_threshold(c, o, l, e)) || (st = balance_runs(c, l, l->report_min_mol_fraction, e)))
         goto fail;
     if ((st = run_scrubbers(c, l, e)) || (st = plan_orders(c, l, e)) ||
         (st = own_container_names(l, e)) || (st = build_months(l, e)) ||

@@ -39,7 +39,7 @@ enum { EXIT_OK = 0, EXIT_RUNTIME = 1, EXIT_INPUT = 2, EXIT_WARNINGS = 3 };
 static const char usage_text[] =
     "Usage: haloledger check CAMPAIGN [--today DATE] [--strict] [--catalog FILE]\n"
     "       haloledger report CAMPAIGN -o OUT.xlsx|OUT.json [-o ...] [--today DATE]\n"
-    "                         [--strict] [--catalog FILE]\n"
+    "                         [--strict] [--catalog FILE] [--all-products]\n"
     "       haloledger --help | --version\n"
     "\n"
     "Reads a campaign of free-radical halogenation batches (JSON, see README) and\n"
@@ -59,6 +59,8 @@ static const char usage_text[] =
     "      --today DATE    ISO 8601 date; orders whose order-by date has passed are flagged\n"
     "      --strict        exit 3 when the ledger carries warnings (overload, late order...)\n"
     "      --catalog FILE  container catalog to use instead of the built-in one\n"
+    "      --all-products  list every product; by default over-halogenated traces below\n"
+    "                      report.min_mol_fraction (1e-4) are summed into one row per run\n"
     "  -h, --help          this text\n"
     "  -V, --version       program and library versions\n"
     "\n"
@@ -255,9 +257,10 @@ static int run(int argc, char **argv)
         {"output", required_argument, NULL, 'o'}, {"today", required_argument, NULL, 't'},
         {"strict", no_argument, NULL, 's'},        {"catalog", required_argument, NULL, 'c'},
         {"help", no_argument, NULL, 'h'},          {"version", no_argument, NULL, 'V'},
+        {"all-products", no_argument, NULL, 'a'},
         {NULL, 0, NULL, 0}};
     const char *outputs[MAX_OUTPUTS];
-    int nout = 0, strict = 0, ch;
+    int nout = 0, strict = 0, all_products = 0, ch;
     const char *catalog_path = NULL, *today_text = NULL;
     hl_mem_hook_cjson();
     opterr = 0; /* our own messages, in our own format */
@@ -271,6 +274,7 @@ static int run(int argc, char **argv)
             break;
         case 't': today_text = optarg; break;
         case 's': strict = 1; break;
+        case 'a': all_products = 1; break;
         case 'c': catalog_path = optarg; break;
         case 'h': fputs(usage_text, stdout); return EXIT_OK;
         case 'V':
@@ -303,7 +307,8 @@ static int run(int argc, char **argv)
     if (rc != EXIT_OK)
         return rc;
 
-    struct ledger_opts lo = {.today_min = -1, .created_min = source_date_minutes()};
+    struct ledger_opts lo = {.today_min = -1, .created_min = source_date_minutes(),
+                             .all_products = all_products};
     if (today_text) {
         int bad;
         if (isodate_parse(today_text, &lo.today_min, &bad))

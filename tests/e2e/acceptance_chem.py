@@ -75,7 +75,8 @@ def report(tmp, name, camp, extra=()):
     out = os.path.join(tmp, name + "-ledger.json")
     with open(path, "w") as f:
         json.dump(camp, f, indent=1)
-    p = subprocess.run(WRAP + [BIN, "report", path, "-o", out] + list(extra),
+    # --all-products: every degree is a species checked here, traces included
+    p = subprocess.run(WRAP + [BIN, "report", path, "-o", out, "--all-products"] + list(extra),
                        capture_output=True, text=True)
     led = None
     if p.returncode == 0 and os.path.exists(out):
