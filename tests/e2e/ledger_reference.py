@@ -1,6 +1,6 @@
 #!/usr/bin/python3
 """ledger_reference.py - the JSON ledger is byte-identical to reference ledgers written by the
-writer it replaced (the cJSON-tree writer of commit 1f24181, files in tests/data/ledger-ref).
+writer it replaced (the cJSON-tree writer of commit 3a965eb, files in tests/data/ledger-ref).
 
 Each reference campaign is reported with --all-products (the old writer listed every product)
 and compared byte for byte after dropping the one line the new ledger adds on purpose: the
