@@ -14,33 +14,42 @@
  *
  * Required (R) keys, defaults (=) and accepted ranges.  The top level and each
  * scrubbers/stock/containers/runs entry may also carry a free-text "note".  Text is UTF-8 without control characters, at most
- * 32767 bytes (ids: 1..100 bytes).  Masses in kg are in (0, 1e9) unless said.
+ * 32767 bytes (ids: 1..100 bytes).  Every quantity the models divide by or scale with has a
+ * physical floor rather than 0 (the message says why), so no result overflows to inf.
  *  top:       format R = "haloledger-campaign/1"; title, site; issued (ISO date);
  *             model; scrubbers[], stock[], containers[] (may be empty); runs[] R, non-empty;
  *             report {paper "A4"|"Letter" = A4; min_mol_fraction [0,1) = 1e-4: over-halogenated
  *             products below it are summed into one "other" row per run} (layout of the
  *             ledgers only: every total is computed from all products).
- *  scrubbers: id R (unique); liquor "naoh"|"water" = naoh; naoh_wt_pct (0,50] R for naoh;
- *             liquor_kg R; min_naoh_wt_pct [0, naoh_wt_pct) = 2 (naoh only);
- *             max_acid_wt_pct (0,60] = 20 (water only); rated_acid_kmol_h (0,1e6] R;
+ *  scrubbers: id R (unique); liquor "naoh"|"water" = naoh; naoh_wt_pct [0.1,50] R for naoh;
+ *             liquor_kg [1, 1e9) R; min_naoh_wt_pct [0, naoh_wt_pct) = 2 (naoh only);
+ *             max_acid_wt_pct [0.1,60] = 20 (water only); rated_acid_kmol_h [1e-3,1e6] R;
  *             makeup_naoh_wt_pct (0,100] = 50, >= naoh_wt_pct; liquor_cp_kj_kg_k [0.5,10]
  *             (absent = 0 = built-in); fresh_liquor_temp_c [-20,80] = 25;
- *             max_liquor_temp_c (0,150] = 40; column {packing_factor_1_m (0,1e4] R, htu_m (0,20] R,
- *             removal_fraction (0,1) R, flood_fraction (0,1) = 0.7, carrier_kmol_h (0,1e6] R,
- *             liquor_kg_h R, gas_temp_c [-40,200] = 25}.
+ *             max_liquor_temp_c (0,150] = 40; column {packing_factor_1_m [1,1e4] R, htu_m [0.01,20] R,
+ *             removal_fraction [0.01,1) R, flood_fraction [0.1,1) = 0.7, carrier_kmol_h [1e-3,1e6] R,
+ *             liquor_kg_h [1, 1e9) R, gas_temp_c [-40,200] = 25}.
  *  stock:     reagent R (incl. "NaOH"; one entry per reagent); on_hand_kg [0,1e9) R;
  *             safety_kg [0,1e9) = 0; lead_days [0,3650] = 0.
- *  containers: reagent R; name R; net_kg (0,1e6] R; heel_kg [0, net_kg) = 0.
+ *  containers: reagent R; name R; net_kg [0.1,1e6] R; heel_kg [0, net_kg - 0.1] = 0.
  *  runs:      id R (unique after repeat expansion); start R (ISO date); reactor; scrubber
  *             (an id of scrubbers[]; absent = -1); substrate R {name; smiles | formula, one R};
- *             product_smiles; substrate_kg R; reagent R (Cl2 Br2 SO2Cl2 NBS HBr);
- *             reagent_eq (0,1000] | reagent_kg, exactly one R; halogen_conversion (0,1] = 1;
- *             temp_c [-80,400] = 25; feed_h (0,8760] = 1; peak_factor [1,1000] = 1;
- *             vent_retained_fraction [0,1) = 0; reactor_mode "batch"|"cstr" = batch;
- *             repeat {count 1..10000 R, every_days (0,3650] R}; model.
- *  model:     relative_reactivity {primary, secondary, tertiary, allylic, benzylic (0,1e6];
- *             ref_temp_c [-80,400]}; overhalogenation_factor (0,1000]; rate_ratios: 1..64
- *             numbers in (0,1e6], the first = 1 (step 0 is the reference).  All optional.
+ *             product_smiles; substrate_kg [1e-3, 1e9) R; reagent R (Cl2 Br2 SO2Cl2 NBS HBr);
+ *             reagent_eq [1e-6,1000] | reagent_kg [1e-3, 1e9), exactly one R;
+ *             halogen_conversion [1e-6,1] = 1; temp_c [-80,400] = 25; feed_h [1/60,8760] = 1;
+ *             peak_factor [1,1000] = 1; vent_retained_fraction [0,1) = 0;
+ *             reactor_mode "batch"|"cstr" = batch;
+ *             repeat {count 1..10000 R, every_days [1/1440,3650] R}; model.
+ *  model:     relative_reactivity {primary, secondary, tertiary, allylic, benzylic [1e-6,1e6];
+ *             ref_temp_c [-80,400]}; overhalogenation_factor [1e-3,1000]; rate_ratios: 1..64
+ *             numbers in [1e-6,1e6], the first = 1 (step 0 is the reference).  All optional.
+ *  dates:     years 0001-9999.  Every date the ledger shows stays in 0001-01-01..9999-12-31:
+ *             run starts (repeats included), ends of feeds (start + feed_h) and order-by dates
+ *             (first use - lead_days); a date outside is refused at the start, repeat,
+ *             feed_h or lead_days that moves it there.  All runs, from the hour of the earliest
+ *             start to the hour after the latest feed end, lie within 7320 days (20 years of
+ *             366 days: the scrubber's hourly profile), refused at the first run in file order
+ *             (its start, or its repeat's every_days) that breaks it.
  * At most 1e6 runs after expansion; nesting depth at most 64; numbers of at most 63
  * characters.  Field paths: "runs[3].reagent_eq" ("$" = the whole document);
  * catalog errors: "catalog.containers[2].net_kg" with line:column in the catalog text.
@@ -115,6 +124,7 @@ struct camp_stock {
     int reagent;                /* enum reagent_id (RG_NAOH for caustic) */
     double on_hand_kg, safety_kg, lead_days;
     struct camp_pos pos;
+    struct camp_pos pos_lead_days; /* of the lead_days value (= pos when not given) */
 };
 
 struct camp_container {
@@ -151,6 +161,9 @@ struct camp_run {
     struct camp_model model;    /* campaign-level block merged under the run's own */
     struct camp_pos pos, pos_smiles, pos_formula, pos_product_smiles, pos_reagent, pos_amount;
     struct camp_pos pos_id, pos_start; /* of the id and start values (shared by repeat copies) */
+    struct camp_pos pos_feed;   /* of the feed_h value (= pos when not given) */
+    struct camp_pos pos_repeat; /* of repeat.count and repeat.every_days (0:0 when no repeat) */
+    struct camp_pos pos_every;
     /* escape maps of smiles, formula and product_smiles (pos as the pos_* above) */
     struct camp_strpos sp_smiles, sp_formula, sp_product_smiles;
     int own_model;              /* 1 if the run has a model block of its own */

@@ -11,9 +11,15 @@
 #include <stdint.h>
 #include <stddef.h>
 
+/* The dates every output can write as YYYY-MM-DD: 0001-01-01T00:00 and 9999-12-31T23:59
+ * (minutes since the epoch; checked against Python's datetime). A computed date outside
+ * them (a repeat, an order-by date) is refused by the campaign reader. */
+#define ISODATE_MIN_MIN (-1035593280LL)
+#define ISODATE_MAX_MIN 4223371679LL
+
 /* Parse "YYYY-MM-DD" or "YYYY-MM-DDTHH:MM" (optional ":SS" = 00). Validates ranges
- * (month 1-12, day in month incl. leap years, hour 0-23, minute 0-59). Returns 0 on
- * success, else -1 and *bad_offset = byte offset of the first wrong character. */
+ * (year 0001-9999, month 1-12, day in month incl. leap years, hour 0-23, minute 0-59).
+ * Returns 0 on success, else -1 and *bad_offset = byte offset of the first wrong character. */
 int isodate_parse(const char *s, int64_t *minutes, int *bad_offset);
 
 /* Minutes since epoch from civil parts (no validation). */

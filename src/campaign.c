@@ -754,7 +754,10 @@ static enum hl_status missing(struct vctx *c, const cJSON *obj, const char *key,
     return verr(c, obj, 0, "missing%s%s", what ? ": " : " (required)", what ? what : "");
 }
 
-struct rng { double lo, hi; int lo_open, hi_open; };
+/* An accepted range.  Every lower bound of a quantity the models divide by or scale with
+ * is a physical floor, not 0 (issue 16.2: 1e-308 made "inf" downstream); `why` says what
+ * the floor stands for, and `lo_text` shows it where a decimal would read badly (1/60 h). */
+struct rng { double lo, hi; int lo_open, hi_open; const char *why, *lo_text; };
 
 /* Raw text of a number value, for messages (1e400 is shown as written, not as inf). */
 static void raw_number(const struct vctx *c, const cJSON *n, char *buf, size_t cap)
@@ -778,8 +781,15 @@ static enum hl_status get_num(struct vctx *c, const cJSON *m, struct rng r, doub
         raw_number(c, m, raw, sizeof raw);
         return verr(c, m, 0, "must be a finite number (got %s)", raw);
     }
-    if (r.lo_open ? !(x > r.lo) : !(x >= r.lo))
-        return verr(c, m, 0, "must be %s %.15g (got %.15g)", r.lo_open ? ">" : ">=", r.lo, x);
+    if (r.lo_open ? !(x > r.lo) : !(x >= r.lo)) {
+        char lo[40];
+        if (r.lo_text)
+            snprintf(lo, sizeof lo, "%s", r.lo_text);
+        else
+            snprintf(lo, sizeof lo, "%.15g", r.lo);
+        return verr(c, m, 0, "must be %s %s (got %.15g)%s%s", r.lo_open ? ">" : ">=", lo, x,
+                    r.why ? ": " : "", r.why ? r.why : "");
+    }
     if (r.hi_open ? !(x < r.hi) : !(x <= r.hi))
         return verr(c, m, 0, "must be %s %.15g (got %.15g)", r.hi_open ? "<" : "<=", r.hi, x);
     *out = x;
@@ -790,7 +800,7 @@ static enum hl_status get_num(struct vctx *c, const cJSON *m, struct rng r, doub
 static enum hl_status get_int(struct vctx *c, const cJSON *m, long lo, long hi, long *out)
 {
     double x;
-    struct rng r = {(double)lo, (double)hi, 0, 0};
+    struct rng r = {(double)lo, (double)hi, 0, 0, NULL, NULL};
     enum hl_status st = get_num(c, m, r, &x);
     if (st)
         return st;
@@ -1007,11 +1017,14 @@ static int idset_add(struct idset *h, const char *key, int val)
 /* The schema                                                          */
 /* ------------------------------------------------------------------ */
 
-static const struct rng R_POS_KG = {0, 1e9, 1, 1};     /* (0, 1e9) kg */
-static const struct rng R_NONNEG_KG = {0, 1e9, 0, 1};  /* [0, 1e9) kg */
-static const struct rng R_FRAC_OPEN = {0, 1, 1, 1};    /* (0, 1) */
-static const struct rng R_TEMP_C = {-80, 400, 0, 0};   /* liquid-phase and gas-phase plant range */
-static const struct rng R_REACT = {0, 1e6, 1, 0};      /* relative rates */
+/* Lower bounds (issue 16.2).  Each is far below any real value and far above the
+ * underflow that made the models print inf; the reason is given in the message. */
+static const struct rng R_CHARGE_KG = {1e-3, 1e9, 0, 1,  /* [1 g, 1e9) kg */
+    "a charge below a gram is not weighed in a plant (common practice): check the unit", NULL};
+static const struct rng R_NONNEG_KG = {0, 1e9, 0, 1, NULL, NULL};  /* [0, 1e9) kg */
+static const struct rng R_TEMP_C = {-80, 400, 0, 0, NULL, NULL};   /* liquid- and gas-phase plant range */
+static const struct rng R_REACT = {1e-6, 1e6, 0, 0,                /* relative rates */
+    "relative rates span at most 1e12 (from 1e-6 to 1e6)", NULL};
 
 /* model block */
 enum { MK_RR, MK_OVERHAL, MK_RATIOS, MK_N };
@@ -1048,7 +1061,8 @@ static enum hl_status parse_model(struct vctx *c, const cJSON *m, struct camp_mo
         pop(c, o2);
     }
     if (k[MK_OVERHAL]) {
-        struct rng r = {0, 1000, 1, 0};
+        struct rng r = {1e-3, 1000, 0, 0,
+            "a step 1000 times slower per added halogen is already no over-halogenation", NULL};
         if ((st = get_num(c, k[MK_OVERHAL], r, &out->overhalogenation_factor)))
             return st;
         out->set_mask |= CM_OVERHAL;
@@ -1071,8 +1085,8 @@ static enum hl_status parse_model(struct vctx *c, const cJSON *m, struct camp_mo
                 raw_number(c, x, raw, sizeof raw);
                 return verr(c, x, 0, "must be a finite number (got %s)", raw);
             }
-            if (!(v > 0) || v > 1e6)
-                return verr(c, x, 0, "must be > 0 and <= 1e6 (got %.15g)", v);
+            if (!(v >= 1e-6) || v > 1e6) /* as R_REACT: relative rates span at most 1e12 */
+                return verr(c, x, 0, "must be >= 1e-06 and <= 1e6 (got %.15g)", v);
             if (n == 0 && v != 1)
                 return verr(c, x, 0, "must be 1: the ratios are relative to step 0 (got %.15g)", v);
             out->rate_ratios[n] = v;
@@ -1134,14 +1148,23 @@ static enum hl_status parse_column(struct vctx *c, const cJSON *m, struct camp_c
     for (size_t j = 0; j < sizeof required / sizeof required[0]; j++)
         if (!k[required[j]])
             return missing(c, m, col_keys[required[j]], NULL);
-    const struct rng rfp = {0, 1e4, 1, 0}, rhtu = {0, 20, 1, 0}, rcar = {0, 1e6, 1, 0},
-                     rgas = {-40, 200, 0, 0};
+    /* Floors: the loosest random packings have Fp of about 30 1/m and HTU rarely falls below
+     * 0.1 m (from memory, Perry's Chemical Engineers' Handbook section 14); a column that removes
+     * under 1 % or runs below 10 % of flooding is no design point; the sweep gas carries the
+     * acid gas, a mole an hour is the least that could (common practice). */
+    const struct rng rfp = {1, 1e4, 0, 0, "no packing has a packing factor below 1 1/m", NULL},
+                     rhtu = {0.01, 20, 0, 0, "no packing has a transfer unit shorter than 1 cm", NULL},
+                     rrem = {0.01, 1, 0, 1, "a column removing under 1 % is no absorber", NULL},
+                     rflood = {0.1, 1, 0, 1, "below 10 % of flooding a column is far oversized", NULL},
+                     rcar = {1e-3, 1e6, 0, 0, "the sweep gas is at least a mole an hour", NULL},
+                     rliq = {1, 1e9, 0, 1, "a circulation below 1 kg/h wets no packing", NULL},
+                     rgas = {-40, 200, 0, 0, NULL, NULL};
     if ((st = get_num(c, k[CK_FP], rfp, &col->packing_factor_1_m)) ||
         (st = get_num(c, k[CK_HTU], rhtu, &col->htu_m)) ||
-        (st = get_num(c, k[CK_REMOVAL], R_FRAC_OPEN, &col->removal_fraction)) ||
-        (k[CK_FLOOD] && (st = get_num(c, k[CK_FLOOD], R_FRAC_OPEN, &col->flood_fraction))) ||
+        (st = get_num(c, k[CK_REMOVAL], rrem, &col->removal_fraction)) ||
+        (k[CK_FLOOD] && (st = get_num(c, k[CK_FLOOD], rflood, &col->flood_fraction))) ||
         (st = get_num(c, k[CK_CARRIER], rcar, &col->carrier_kmol_h)) ||
-        (st = get_num(c, k[CK_LIQ], R_POS_KG, &col->liquor_kg_h)) ||
+        (st = get_num(c, k[CK_LIQ], rliq, &col->liquor_kg_h)) ||
         (k[CK_GAST] && (st = get_num(c, k[CK_GAST], rgas, &col->gas_temp_c))))
         return st;
     pop(c, old);
@@ -1184,12 +1207,19 @@ static enum hl_status parse_scrubber(struct vctx *c, const cJSON *o, struct camp
             return verr(c, x, 1, "applies to a \"naoh\" liquor only");
         }
     }
-    const struct rng rwt = {0, 50, 1, 0}, rmin = {0, 50, 0, 1}, racid = {0, 60, 1, 0},
-                     rrate = {0, 1e6, 1, 0}, rmk = {0, 100, 1, 0}, rcp = {0.5, 10, 0, 0},
-                     rfresh = {-20, 80, 0, 0}, rmaxt = {0, 150, 1, 0};
+    /* Floors (common practice): a liquor under 0.1 wt% caustic or a water liquor allowed under
+     * 0.1 wt% acid absorbs next to nothing; a charge under 1 kg or a rating under a mole an
+     * hour is no plant scrubber. */
+    const struct rng rwt = {0.1, 50, 0, 0, "a liquor under 0.1 wt% NaOH is no caustic scrubber", NULL},
+                     rmin = {0, 50, 0, 1, NULL, NULL},
+                     racid = {0.1, 60, 0, 0, "a water liquor changed below 0.1 wt% acid absorbs nothing", NULL},
+                     rliqkg = {1, 1e9, 0, 1, "a liquor charge below 1 kg is no scrubber", NULL},
+                     rrate = {1e-3, 1e6, 0, 0, "a rating below a mole an hour is no plant scrubber", NULL},
+                     rmk = {0, 100, 1, 0, NULL, NULL}, rcp = {0.5, 10, 0, 0, NULL, NULL},
+                     rfresh = {-20, 80, 0, 0, NULL, NULL}, rmaxt = {0, 150, 1, 0, NULL, NULL};
     if ((k[SK_NAOH] && (st = get_num(c, k[SK_NAOH], rwt, &s->naoh_wt_pct))) ||
         (!k[SK_LIQKG] && (st = missing(c, o, "liquor_kg", NULL))) ||
-        (st = get_num(c, k[SK_LIQKG], R_POS_KG, &s->liquor_kg)) ||
+        (st = get_num(c, k[SK_LIQKG], rliqkg, &s->liquor_kg)) ||
         (k[SK_MIN] && (st = get_num(c, k[SK_MIN], rmin, &s->min_naoh_wt_pct))) ||
         (k[SK_MAXACID] && (st = get_num(c, k[SK_MAXACID], racid, &s->max_acid_wt_pct))) ||
         (!k[SK_RATED] && (st = missing(c, o, "rated_acid_kmol_h", NULL))) ||
@@ -1233,7 +1263,8 @@ static enum hl_status parse_stock(struct vctx *c, const cJSON *o, struct camp_st
     if (st)
         return st;
     s->pos = pos_of(c, o);
-    const struct rng rlead = {0, 3650, 0, 0};
+    const struct rng rlead = {0, 3650, 0, 0, NULL, NULL};
+    s->pos_lead_days = k[TK_LEAD] ? pos_of(c, k[TK_LEAD]) : s->pos;
     const char *note;
     if ((!k[TK_REAGENT] && (st = missing(c, o, "reagent", NULL))) ||
         (st = get_reagent(c, k[TK_REAGENT], 1, &s->reagent)) ||
@@ -1257,7 +1288,9 @@ static enum hl_status parse_container(struct vctx *c, const cJSON *o, struct cam
     if (st)
         return st;
     ct->pos = pos_of(c, o);
-    const struct rng rnet = {0, 1e6, 1, 0};
+    /* containers hold at least 100 g usable: laboratory bottles of NBS start there (common
+     * practice); smaller would only inflate the container counts */
+    const struct rng rnet = {0.1, 1e6, 0, 0, "no container holds less than 100 g", NULL};
     const char *note;
     if ((!k[NK_REAGENT] && (st = missing(c, o, "reagent", NULL))) ||
         (st = get_reagent(c, k[NK_REAGENT], 1, &ct->reagent)) ||
@@ -1268,10 +1301,10 @@ static enum hl_status parse_container(struct vctx *c, const cJSON *o, struct cam
         (k[NK_HEEL] && (st = get_num(c, k[NK_HEEL], R_NONNEG_KG, &ct->heel_kg))) ||
         (k[NK_NOTE] && (st = get_str(c, k[NK_NOTE], 0, MAX_TEXT, &note))))
         return st;
-    if (ct->heel_kg >= ct->net_kg) {
+    if (ct->net_kg - ct->heel_kg < 0.1) { /* the same 100 g floor for the usable content */
         push_key(c, "heel_kg");
-        return verr(c, k[NK_HEEL], 0, "must be < net_kg (%.15g), or nothing is usable (got %.15g)",
-                    ct->net_kg, ct->heel_kg);
+        return verr(c, k[NK_HEEL], 0, "must be < net_kg (%.15g) by at least 0.1 kg, the least a "
+                    "container holds usable (got %.15g)", ct->net_kg, ct->heel_kg);
     }
     return HL_OK;
 }
@@ -1409,7 +1442,7 @@ static enum hl_status parse_run(struct reader *rd, const cJSON *o, int idx, stru
     }
     if (!k[RK_SUBKG])
         return missing(c, o, "substrate_kg", NULL);
-    if ((st = get_num(c, k[RK_SUBKG], R_POS_KG, &r->substrate_kg)))
+    if ((st = get_num(c, k[RK_SUBKG], R_CHARGE_KG, &r->substrate_kg)))
         return st;
     if (!k[RK_REAGENT])
         return missing(c, o, "reagent", NULL);
@@ -1423,20 +1456,26 @@ static enum hl_status parse_run(struct reader *rd, const cJSON *o, int idx, stru
         push_key(c, later->string);
         return verr(c, later, 1, "give reagent_eq or reagent_kg, not both");
     }
-    const struct rng req = {0, 1000, 1, 0}, rconv = {0, 1, 1, 0}, rfeed = {0, 8760, 1, 0},
-                     rpeak = {1, 1000, 0, 0}, rvent = {0, 1, 0, 1};
+    /* Floors: a millionth of an equivalent charged or converted is below what any analysis
+     * sees (common practice); start times are kept to the minute, so a feed shorter than a
+     * minute has no time of its own (and 1e-308 h made the vent rate infinite). */
+    const struct rng req = {1e-6, 1000, 0, 0, "below a millionth of an equivalent nothing is charged", NULL},
+                     rconv = {1e-6, 1, 0, 0, "below a millionth nothing measurable reacts", NULL},
+                     rfeed = {1.0 / 60.0, 8760, 0, 0, "start times are kept to the minute", "1/60 (one minute)"},
+                     rpeak = {1, 1000, 0, 0, NULL, NULL}, rvent = {0, 1, 0, 1, NULL, NULL};
     if (k[RK_EQ]) {
         if ((st = get_num(c, k[RK_EQ], req, &r->reagent_eq)))
             return st;
         r->pos_amount = pos_of(c, k[RK_EQ]);
     } else {
-        if ((st = get_num(c, k[RK_KG], R_POS_KG, &r->reagent_kg)))
+        if ((st = get_num(c, k[RK_KG], R_CHARGE_KG, &r->reagent_kg)))
             return st;
         r->amount_is_kg = 1;
         r->pos_amount = pos_of(c, k[RK_KG]);
     }
     int mode = 0;
     r->defaulted = (k[RK_FEED] ? 0u : CAMP_DEFAULT_FEED_H) | (k[RK_TEMP] ? 0u : CAMP_DEFAULT_TEMP);
+    r->pos_feed = k[RK_FEED] ? pos_of(c, k[RK_FEED]) : r->pos;
     if ((k[RK_CONV] && (st = get_num(c, k[RK_CONV], rconv, &r->halogen_conversion))) ||
         (k[RK_TEMP] && (st = get_num(c, k[RK_TEMP], R_TEMP_C, &r->temp_c))) ||
         (k[RK_FEED] && (st = get_num(c, k[RK_FEED], rfeed, &r->feed_h))) ||
@@ -1450,12 +1489,15 @@ static enum hl_status parse_run(struct reader *rd, const cJSON *o, int idx, stru
         size_t old = push_key(c, "repeat");
         if ((st = members(c, k[RK_REPEAT], rep_keys, PK_N, p)))
             return st;
-        const struct rng revery = {0, 3650, 1, 0};
+        const struct rng revery = {1.0 / 1440.0, 3650, 0, 0, "start times are kept to the minute",
+                                   "1/1440 (one minute)"};
         if ((!p[PK_COUNT] && (st = missing(c, k[RK_REPEAT], "count", NULL))) ||
             (st = get_int(c, p[PK_COUNT], 1, 10000, count)) ||
             (!p[PK_EVERY] && (st = missing(c, k[RK_REPEAT], "every_days", NULL))) ||
             (st = get_num(c, p[PK_EVERY], revery, every_days)))
             return st;
+        r->pos_repeat = pos_of(c, p[PK_COUNT]);
+        r->pos_every = pos_of(c, p[PK_EVERY]);
         size_t total = (size_t)rd->camp->nruns + (size_t)*count;
         if (total > MAX_RUNS) {
             push_key(c, "count");
@@ -1537,6 +1579,109 @@ static enum hl_status expand_one(struct reader *rd, const struct camp_run *t, lo
     return HL_OK;
 }
 
+/* ---- dates and span (issues 16.5 and 16.8), one linear pass over the expanded runs ---- */
+
+#define SPAN_DAYS 7320 /* 20 years of 366 days: the longest campaign the models bin hour by hour */
+#define DAY_MIN 1440
+
+static int64_t floor_to(int64_t m, int64_t unit) { return (m / unit - (m % unit < 0)) * unit; }
+
+/* Where a computed date of run r is blamed: its start, or its repeat when a later copy moved it. */
+static enum hl_status run_date_err(struct vctx *c, const struct camp_run *r, const char *fmt, ...)
+    __attribute__((format(printf, 3, 4)));
+static enum hl_status run_date_err(struct vctx *c, const struct camp_run *r, const char *fmt, ...)
+{
+    char msg[400], field[160], idq[64];
+    va_list ap;
+    va_start(ap, fmt);
+    vsnprintf(msg, sizeof msg, fmt, ap);
+    va_end(ap);
+    quote(r->id, idq, sizeof idq);
+    struct camp_pos p = r->repeat_no > 1 ? r->pos_every : r->pos_start;
+    snprintf(field, sizeof field, "runs[%d].%s", r->src_index,
+             r->repeat_no > 1 ? "repeat.every_days" : "start");
+    if (r->repeat_no > 1)
+        return hl_err_at(c->e, HL_ERR_INPUT, p.line, p.col, field, "repeat %d (run \"%s\") %s",
+                         r->repeat_no, idq, msg);
+    return hl_err_at(c->e, HL_ERR_INPUT, p.line, p.col, field, "run \"%s\" %s", idq, msg);
+}
+
+/* Every date the ledger will show must lie in 0001-01-01 .. 9999-12-31: the run starts (also
+ * those made by repeat), the ends of their feeds and the order-by dates (first use minus the
+ * stock's lead time, rounded to whole days as orders.c does).  All runs, from the hour of the
+ * earliest start to the hour after the latest end of a feed, must fit in SPAN_DAYS: the
+ * scrubber keeps an hourly load profile over that span, so the limit is checked here, at the
+ * first run (in file order) that breaks it, before any model runs. */
+static enum hl_status check_dates(struct reader *rd)
+{
+    struct vctx *c = &rd->c;
+    const struct campaign *cp = rd->camp;
+    const struct camp_stock *lead[RG_COUNT] = {NULL};
+    for (int j = 0; j < cp->nstock; j++)
+        if (cp->stock[j].lead_days > 0)
+            lead[cp->stock[j].reagent] = &cp->stock[j];
+    int64_t lo = 0, hi = 0;
+    int lo_run = -1, hi_run = -1;
+    for (int i = 0; i < cp->nruns; i++) {
+        const struct camp_run *r = &cp->runs[i];
+        char when[24];
+        if (r->start_min < ISODATE_MIN_MIN || r->start_min > ISODATE_MAX_MIN)
+            return run_date_err(c, r, "would start after 9999-12-31, the last date a ledger can show");
+        int64_t end = r->start_min + (int64_t)ceil(r->feed_h * 60.0);
+        if (end > ISODATE_MAX_MIN) {
+            isodate_format(r->start_min, 0, when, sizeof when);
+            if (r->repeat_no > 1)
+                return run_date_err(c, r, "starts %s and its feed would end after 9999-12-31, the last "
+                                    "date a ledger can show", when);
+            char field[160];
+            snprintf(field, sizeof field, "runs[%d].feed_h", r->src_index);
+            return hl_err_at(c->e, HL_ERR_INPUT, r->pos_feed.line, r->pos_feed.col, field,
+                             "the feed of run starting %s would end after 9999-12-31, the last date a "
+                             "ledger can show", when);
+        }
+        /* order-by dates: the reagent, and caustic make-up on a caustic scrubber */
+        int items[2] = {r->reagent, -1};
+        if (r->scrubber >= 0 && cp->scrubbers[r->scrubber].liquor == CAMP_LIQUOR_NAOH)
+            items[1] = RG_NAOH;
+        for (int k = 0; k < 2; k++) {
+            const struct camp_stock *s = items[k] >= 0 ? lead[items[k]] : NULL;
+            if (!s)
+                continue;
+            int64_t by = floor_to(r->start_min, DAY_MIN) - (int64_t)ceil(s->lead_days - 1e-9) * DAY_MIN;
+            if (by >= ISODATE_MIN_MIN)
+                continue;
+            char field[160], idq[64];
+            int si = (int)(s - cp->stock);
+            snprintf(field, sizeof field, "stock[%d].lead_days", si);
+            quote(r->id, idq, sizeof idq);
+            isodate_format(r->start_min, 0, when, sizeof when);
+            return hl_err_at(c->e, HL_ERR_INPUT, s->pos_lead_days.line, s->pos_lead_days.col, field,
+                             "%.15g days before run \"%s\" (runs[%d], %s) falls before 0001-01-01, the "
+                             "first date a ledger can show", s->lead_days, idq, r->src_index, when);
+        }
+        int64_t a = floor_to(r->start_min, 60), b = -floor_to(-end, 60); /* whole hours */
+        if (lo_run < 0 || a < lo) {
+            lo = a;
+            lo_run = i;
+        }
+        if (hi_run < 0 || b > hi) {
+            hi = b;
+            hi_run = i;
+        }
+        if (hi - lo > (int64_t)SPAN_DAYS * DAY_MIN) {
+            const struct camp_run *o = &cp->runs[lo_run == i ? hi_run : lo_run];
+            char ow[24], oq[64];
+            isodate_format(o->start_min, 0, ow, sizeof ow);
+            isodate_format(r->start_min, 0, when, sizeof when);
+            quote(o->id, oq, sizeof oq);
+            return run_date_err(c, r, "starting %s would make the campaign span more than %d days "
+                                "(20 years): run \"%s\" (runs[%d]) starts %s; split the campaign",
+                                when, SPAN_DAYS, oq, o->src_index, ow);
+        }
+    }
+    return HL_OK;
+}
+
 static enum hl_status parse_runs(struct reader *rd, const cJSON *arr)
 {
     struct vctx *c = &rd->c;
@@ -1596,7 +1741,7 @@ static enum hl_status parse_runs(struct reader *rd, const cJSON *arr)
     }
     idset_free(&ids);
     pop(c, old);
-    return HL_OK;
+    return check_dates(rd);
 }
 
 /* top level */

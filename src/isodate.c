@@ -61,6 +61,7 @@ int isodate_parse(const char *s, int64_t *minutes, int *bad_offset)
     int i = 0, y, mo, d, h = 0, mi = 0, at;
 #define FAIL(off) do { if (bad_offset) *bad_offset = (off); return -1; } while (0)
     if ((y = digits(s, &i, 4)) < 0) FAIL(i);
+    if (y == 0) FAIL(0); /* year 0000 (1 BC) has no place in a plant schedule */
     if (s[i] != '-') FAIL(i);
     i++;
     at = i;

@@ -10,6 +10,7 @@ Cases in NEEDS_MODELS are refused by the chemistry (SMILES, formula, reagent
 fit), not by the reader; their messages belong to those modules, so only the
 position and field are pinned.  Run: /usr/bin/python3 tests/bad/gen_cases.py
 """
+import datetime
 import os
 import re
 import sys
@@ -198,34 +199,58 @@ edit('nonfinite_liquor_kg', '"liquor_kg": 6000', '"liquor_kg": @@6E+999', 'scrub
 
 # --- out of range ---
 R = [
-    ('range_substrate_kg_negative', '"substrate_kg": 800', '-1', 'runs[0].substrate_kg', 'must be > 0 (got -1)'),
-    ('range_substrate_kg_zero', '"substrate_kg": 800', '0', 'runs[0].substrate_kg', 'must be > 0 (got 0)'),
+    ('range_substrate_kg_negative', '"substrate_kg": 800', '-1', 'runs[0].substrate_kg', 'must be >= 0.001 (got -1)'),
+    ('range_substrate_kg_zero', '"substrate_kg": 800', '0', 'runs[0].substrate_kg', 'must be >= 0.001 (got 0)'),
     ('range_substrate_kg_huge', '"substrate_kg": 800', '2e9', 'runs[0].substrate_kg',
      'must be < 1000000000 (got 2000000000)'),
-    ('range_reagent_eq_zero', '"reagent_eq": 0.6', '0', 'runs[0].reagent_eq', 'must be > 0 (got 0)'),
-    ('range_reagent_eq_negative', '"reagent_eq": 0.6', '-1', 'runs[0].reagent_eq', 'must be > 0 (got -1)'),
-    ('range_reagent_kg_negative', '"reagent_kg": 250', '-250', 'runs[1].reagent_kg', 'must be > 0 (got -250)'),
+    ('range_reagent_eq_zero', '"reagent_eq": 0.6', '0', 'runs[0].reagent_eq', 'must be >= 1e-06 (got 0)'),
+    ('range_reagent_eq_negative', '"reagent_eq": 0.6', '-1', 'runs[0].reagent_eq', 'must be >= 1e-06 (got -1)'),
+    ('range_reagent_kg_negative', '"reagent_kg": 250', '-250', 'runs[1].reagent_kg', 'must be >= 0.001 (got -250)'),
     ('range_conversion_over_1', '"halogen_conversion": 0.97', '1.2', 'runs[0].halogen_conversion',
      'must be <= 1 (got 1.2)'),
-    ('range_conversion_zero', '"halogen_conversion": 0.97', '0', 'runs[0].halogen_conversion', 'must be > 0 (got 0)'),
+    ('range_conversion_zero', '"halogen_conversion": 0.97', '0', 'runs[0].halogen_conversion', 'must be >= 1e-06 (got 0)'),
     ('range_temp_low', '"temp_c": 40', '-100', 'runs[0].temp_c', 'must be >= -80 (got -100)'),
     ('range_temp_high', '"temp_c": 80', '450', 'runs[1].temp_c', 'must be <= 400 (got 450)'),
-    ('range_feed_zero', '"feed_h": 5', '0', 'runs[0].feed_h', 'must be > 0 (got 0)'),
+    ('range_feed_zero', '"feed_h": 5', '0', 'runs[0].feed_h', 'must be >= 1/60 (one minute) (got 0)'),
     ('range_naoh_wt_pct_high', '"naoh_wt_pct": 18', '65', 'scrubbers[0].naoh_wt_pct', 'must be <= 50 (got 65)'),
     ('range_min_naoh_above', '"min_naoh_wt_pct": 2', '20', 'scrubbers[0].min_naoh_wt_pct',
      'must be < naoh_wt_pct (18)'),
-    ('range_liquor_kg_negative', '"liquor_kg": 6000', '-6000', 'scrubbers[0].liquor_kg', 'must be > 0 (got -6000)'),
-    ('range_rated_zero', '"rated_acid_kmol_h": 2.0', '0', 'scrubbers[0].rated_acid_kmol_h', 'must be > 0 (got 0)'),
-    ('range_heel_ge_net', '"heel_kg": 9', '907', 'containers[0].heel_kg', 'must be < net_kg (907)'),
-    ('range_net_zero', '"net_kg": 907', '0', 'containers[0].net_kg', 'must be > 0 (got 0)'),
+    ('range_liquor_kg_negative', '"liquor_kg": 6000', '-6000', 'scrubbers[0].liquor_kg', 'must be >= 1 (got -6000)'),
+    ('range_rated_zero', '"rated_acid_kmol_h": 2.0', '0', 'scrubbers[0].rated_acid_kmol_h', 'must be >= 0.001 (got 0)'),
+    ('range_heel_ge_net', '"heel_kg": 9', '907', 'containers[0].heel_kg', 'must be < net_kg (907) by at least 0.1 kg'),
+    ('range_net_zero', '"net_kg": 907', '0', 'containers[0].net_kg', 'must be >= 0.1 (got 0)'),
     ('range_on_hand_negative', '"on_hand_kg": 450', '-1', 'stock[0].on_hand_kg', 'must be >= 0 (got -1)'),
     ('range_lead_days_high', '"lead_days": 10', '5000', 'stock[0].lead_days', 'must be <= 3650 (got 5000)'),
     ('range_repeat_count_zero', '"count": 4', '0', 'runs[0].repeat.count', 'must be >= 1 (got 0)'),
     ('range_repeat_count_fraction', '"count": 4', '2.5', 'runs[0].repeat.count', 'must be a whole number (got 2.5)'),
     ('range_repeat_count_big', '"count": 4', '20000', 'runs[0].repeat.count', 'must be <= 10000 (got 20000)'),
-    ('range_every_days_zero', '"every_days": 2', '0', 'runs[0].repeat.every_days', 'must be > 0 (got 0)'),
+    ('range_every_days_zero', '"every_days": 2', '0', 'runs[0].repeat.every_days',
+     'must be >= 1/1440 (one minute) (got 0)'),
     ('range_overhal_zero', '"overhalogenation_factor": 1.0', '0', 'model.overhalogenation_factor',
-     'must be > 0 (got 0)'),
+     'must be >= 0.001 (got 0)'),
+    # issue 16.2: tiny in-range numbers met a physical floor, not the models' underflow
+    ('floor_reagent_eq', '"reagent_eq": 0.6', '1e-300', 'runs[0].reagent_eq',
+     'must be >= 1e-06 (got 1e-300): below a millionth of an equivalent nothing is charged'),
+    ('floor_conversion', '"halogen_conversion": 0.97', '1e-300', 'runs[0].halogen_conversion',
+     'must be >= 1e-06 (got 1e-300): below a millionth nothing measurable reacts'),
+    ('floor_feed_h', '"feed_h": 5', '1e-308', 'runs[0].feed_h',
+     'must be >= 1/60 (one minute) (got 1e-308): start times are kept to the minute'),
+    ('floor_feed_h_59_s', '"feed_h": 5', '0.0166', 'runs[0].feed_h', 'must be >= 1/60 (one minute) (got 0.0166)'),
+    ('floor_substrate_kg', '"substrate_kg": 800', '1e-300', 'runs[0].substrate_kg',
+     'must be >= 0.001 (got 1e-300): a charge below a gram'),
+    ('floor_reagent_kg', '"reagent_kg": 250', '1e-300', 'runs[1].reagent_kg',
+     'must be >= 0.001 (got 1e-300): a charge below a gram'),
+    ('floor_liquor_kg', '"liquor_kg": 6000', '1e-300', 'scrubbers[0].liquor_kg',
+     'must be >= 1 (got 1e-300): a liquor charge below 1 kg is no scrubber'),
+    ('floor_naoh_wt_pct', '"naoh_wt_pct": 18', '1e-300', 'scrubbers[0].naoh_wt_pct', 'must be >= 0.1 (got 1e-300)'),
+    ('floor_rated', '"rated_acid_kmol_h": 2.0', '1e-308', 'scrubbers[0].rated_acid_kmol_h',
+     'must be >= 0.001 (got 1e-308)'),
+    ('floor_net_kg', '"net_kg": 907', '1e-300', 'containers[0].net_kg',
+     'must be >= 0.1 (got 1e-300): no container holds less than 100 g'),
+    ('floor_every_days', '"every_days": 2', '1e-300', 'runs[0].repeat.every_days',
+     'must be >= 1/1440 (one minute) (got 1e-300)'),
+    ('floor_overhal', '"overhalogenation_factor": 1.0', '1e-300', 'model.overhalogenation_factor',
+     'must be >= 0.001 (got 1e-300)'),
 ]
 for name, old, val, field, msg in R:
     key = old.split(':')[0]
@@ -236,13 +261,33 @@ edit('range_vent_retained_1', '"temp_c": 80}', '"temp_c": 80, "vent_retained_fra
      'runs[1].vent_retained_fraction', 'must be < 1 (got 1)')
 edit('range_reactivity_negative', '"model": {"overhalogenation_factor": 1.0}',
      '"model": {"relative_reactivity": {"tertiary": @@-5}}', 'model.relative_reactivity.tertiary',
-     'must be > 0 (got -5)')
+     'must be >= 1e-06 (got -5)')
 edit('range_ref_temp_low', '"temp_c": 80}', '"temp_c": 80,\n     "model": {"relative_reactivity": {"ref_temp_c": @@-300}}}',
      'runs[1].model.relative_reactivity.ref_temp_c', 'must be >= -80 (got -300)')
 edit('range_rate_ratio_first', '"model": {"overhalogenation_factor": 1.0}', '"model": {"rate_ratios": [@@2, 4]}',
      'model.rate_ratios[0]', 'must be 1: the ratios are relative to step 0 (got 2)')
 edit('range_rate_ratio_negative', '"model": {"overhalogenation_factor": 1.0}', '"model": {"rate_ratios": [1, @@-4]}',
-     'model.rate_ratios[1]', 'must be > 0 and <= 1e6 (got -4)')
+     'model.rate_ratios[1]', 'must be >= 1e-06 and <= 1e6 (got -4)')
+edit('floor_rate_ratio', '"model": {"overhalogenation_factor": 1.0}', '"model": {"rate_ratios": [1, @@1e-300]}',
+     'model.rate_ratios[1]', 'must be >= 1e-06 and <= 1e6 (got 1e-300)')
+edit('floor_reactivity', '"model": {"overhalogenation_factor": 1.0}',
+     '"model": {"relative_reactivity": {"primary": @@1e-300}}', 'model.relative_reactivity.primary',
+     'must be >= 1e-06 (got 1e-300): relative rates span at most 1e12')
+edit('floor_water_max_acid', '"liquor": "naoh", "naoh_wt_pct": 18, "liquor_kg": 6000,\n     "min_naoh_wt_pct": 2,',
+     '"liquor": "water", "liquor_kg": 6000, "max_acid_wt_pct": @@1e-300,', 'scrubbers[0].max_acid_wt_pct',
+     'must be >= 0.1 (got 1e-300)')
+COLUMN = ('"column": {"packing_factor_1_m": 200, "htu_m": 0.5, "removal_fraction": 0.999, '
+          '"flood_fraction": 0.7, "carrier_kmol_h": 5, "liquor_kg_h": 20000}')
+for cname, ckey, cval, cmsg in [
+        ('floor_packing_factor', 'packing_factor_1_m', '1e-308', 'must be >= 1 (got 1e-308): no packing'),
+        ('floor_htu', 'htu_m', '1e-308', 'must be >= 0.01 (got 1e-308)'),
+        ('floor_removal', 'removal_fraction', '1e-300', 'must be >= 0.01 (got 1e-300)'),
+        ('floor_flood_fraction', 'flood_fraction', '1e-308', 'must be >= 0.1 (got 1e-308)'),
+        ('floor_carrier', 'carrier_kmol_h', '1e-308', 'must be >= 0.001 (got 1e-308)'),
+        ('floor_column_liquor', 'liquor_kg_h', '1e-300', 'must be >= 1 (got 1e-300)')]:
+    col = re.sub('"%s": [0-9.]+' % ckey, '"%s": @@%s' % (ckey, cval), COLUMN)
+    edit(cname, '"rated_acid_kmol_h": 2.0}', '"rated_acid_kmol_h": 2.0, %s}' % col,
+         'scrubbers[0].column.' + ckey, cmsg)
 edit('range_rate_ratios_empty', '"model": {"overhalogenation_factor": 1.0}', '"model": {"rate_ratios": @@[]}',
      'model.rate_ratios', 'must not be empty')
 edit('range_rate_ratios_too_many', '"model": {"overhalogenation_factor": 1.0}',
@@ -305,6 +350,25 @@ edit('date_with_zone', '"start": "2027-03-02T06:00"', '"start": @@"2027-03-02T06
 edit('date_month_13', '"issued": "2027-02-20"', '"issued": @@"2027-13-01"', 'issued',
      '"2027-13-01" is not a valid ISO 8601 date')
 edit('date_empty', '"start": "2027-03-20"', '"start": @@""', 'runs[1].start', '"" is not a valid ISO 8601 date')
+
+# --- computed dates stay in 0001-9999 (issue 16.5), the campaign spans at most 7320 days (16.8) ---
+edit('date_year_0000', '"start": "2027-03-20"', '"start": @@"0000-03-20"', 'runs[1].start',
+     '"0000-03-20" is not a valid ISO 8601 date (YYYY-MM-DD or YYYY-MM-DDTHH:MM); wrong at character 1')
+edit('date_repeat_past_9999', '"start": "2027-03-02T06:00"', '"start": "9999-12-20T06:00"', 'runs[0].repeat.every_days',
+     'repeat 4 (run "C-101-4") would start after 9999-12-31, the last date a ledger can show')
+CASES[-1] = (CASES[-1][0], CASES[-1][1].replace(b'"every_days": 2}', b'"every_days": @@5}'), *CASES[-1][2:])
+edit('date_order_by_before_0001', '"start": "2027-03-02T06:00"', '"start": "0001-01-05T06:00"', 'stock[0].lead_days',
+     '10 days before run "C-101-1" (runs[0], 0001-01-05T06:00) falls before 0001-01-01')
+CASES[-1] = (CASES[-1][0], CASES[-1][1].replace(b'"lead_days": 10}', b'"lead_days": @@10}'), *CASES[-1][2:])
+edit('date_feed_past_9999', '"start": "2027-03-02T06:00"', '"start": "9999-12-31T20:00"', 'runs[0].feed_h',
+     'the feed of run starting 9999-12-31T20:00 would end after 9999-12-31')
+CASES[-1] = (CASES[-1][0], CASES[-1][1].replace(b'"feed_h": 5', b'"feed_h": @@5'), *CASES[-1][2:])
+edit('span_run_start', '"start": "2027-03-20"', '"start": @@"2047-03-20"', 'runs[1].start',
+     'run "B-7" starting 2047-03-20T00:00 would make the campaign span more than 7320 days (20 years): '
+     'run "C-101-1" (runs[0]) starts 2027-03-02T06:00')
+edit('span_repeat', '"every_days": 2}', '"every_days": @@3000}', 'runs[0].repeat.every_days',
+     'repeat 4 (run "C-101-4") starting %s would make the campaign span more than 7320 days'
+     % (datetime.datetime(2027, 3, 2, 6) + datetime.timedelta(days=3 * 3000)).strftime('%Y-%m-%dT%H:%M'))
 
 # --- invalid UTF-8 and control characters ---
 bedit('utf8_bad_byte', b'"Eastfield works"', b'@@"Eastfield \xff works"', 'site',

@@ -314,7 +314,7 @@ static void positions(void)
     CU_ASSERT_EQUAL(e.line, 4);
     CU_ASSERT_EQUAL(e.col, 35);
     CU_ASSERT_STRING_EQUAL(e.field, "runs[0].reagent_eq");
-    CU_ASSERT_STRING_EQUAL(e.msg, "must be > 0 (got -2)");
+    CU_ASSERT_STRING_EQUAL(e.msg, "must be >= 1e-06 (got -2): below a millionth of an equivalent nothing is charged");
     /* the same text with a good amount: check the recorded positions */
     char *g = hl_strdup(T);
     CU_ASSERT_PTR_NOT_NULL_FATAL(g);
