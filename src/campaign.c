@@ -833,6 +833,11 @@ static enum hl_status get_str(struct vctx *c, const cJSON *m, int flags, size_t 
                 cp = s[j];
             else if (s[j] == 0xC2 && j + 1 < len && s[j + 1] >= 0x80 && s[j + 1] <= 0x9F)
                 cp = s[j + 1];
+            else if (s[j] == 0xEF && j + 2 < len && s[j + 1] == 0xBF && s[j + 2] >= 0xBE)
+                /* U+FFFE, U+FFFF: outside XML 1.0's Char production (section 2.2), so a workbook
+                 * holding them is not well-formed; the scanner already refuses surrogates */
+                return verr(c, m, 0, "contains the noncharacter U+%04X at byte %zu (XML 1.0 forbids "
+                            "it, so no workbook can hold it)", 0xFFFEu + (s[j + 2] - 0xBEu), j + 1);
             else
                 continue;
             return verr(c, m, 0, "contains the control character U+%04X at byte %zu "

@@ -391,6 +391,13 @@ edit('ctrl_escaped_bell_reactor', '"reactor": "R-4"', '"reactor": @@"R\\u0007-4"
      'contains the control character U+0007 at byte 2')
 edit('ctrl_c1_in_name', '"ton container"', '@@"ton\\u0085container"', 'containers[0].name',
      'contains the control character U+0085 at byte 4')
+# XML 1.0 section 2.2 leaves U+FFFE and U+FFFF out of Char: a workbook holding them is not well-formed
+edit('nonchar_fffe_escaped_title', '"Line 2, March chlorinations"', '@@"Line 2\\uFFFE March"', 'title',
+     'contains the noncharacter U+FFFE at byte 7 (XML 1.0 forbids it')
+bedit('nonchar_ffff_raw_site', b'"Eastfield works"', b'@@"Eastfield \xef\xbf\xbf works"', 'site',
+      'contains the noncharacter U+FFFF at byte 11 (XML 1.0 forbids it')
+bedit('nonchar_ffff_raw_container', b'"ton container"', b'@@"ton \xef\xbf\xbf"', 'containers[0].name',
+      'contains the noncharacter U+FFFF at byte 5')
 edit('long_title', '"Line 2, March chlorinations"', '@@"' + 'L' * 40000 + '"', 'title',
      'too long (40000 bytes; at most 32767)')
 edit('long_run_id', '"id": "B-7"', '"id": @@"' + 'B' * 150 + '"', 'runs[1].id', 'too long (150 bytes; at most 100)')

@@ -512,6 +512,88 @@ static void errors(void)
     }
 }
 
+/* XML 1.0 (Fifth Edition) section 2.2, Char: #x9 | #xA | #xD | [#x20-#xD7FF] |
+ * [#xE000-#xFFFD] | [#x10000-#x10FFFF].  Text reaching the workbook must stay inside it
+ * (and the reader also refuses tab, newline, CR, DEL and the C1 controls there); every
+ * code point below U+0100 is tried, plus the edges of the planes.  Each is given once as a
+ * \u escape in the title and once as raw UTF-8 in a container name of the catalog. */
+static int xml_char_ok(unsigned cp)
+{
+    return (cp >= 0x20 && cp < 0x7f) || (cp >= 0xA0 && cp <= 0xD7FF) || (cp >= 0xE000 && cp <= 0xFFFD) ||
+           (cp >= 0x10000 && cp <= 0x10FFFF);
+}
+
+static size_t utf8_put(unsigned cp, char *o)
+{
+    if (cp < 0x80) { o[0] = (char)cp; return 1; }
+    if (cp < 0x800) { o[0] = (char)(0xC0 | cp >> 6); o[1] = (char)(0x80 | (cp & 63)); return 2; }
+    if (cp < 0x10000) {
+        o[0] = (char)(0xE0 | cp >> 12); o[1] = (char)(0x80 | ((cp >> 6) & 63)); o[2] = (char)(0x80 | (cp & 63));
+        return 3;
+    }
+    o[0] = (char)(0xF0 | cp >> 18); o[1] = (char)(0x80 | ((cp >> 12) & 63));
+    o[2] = (char)(0x80 | ((cp >> 6) & 63)); o[3] = (char)(0x80 | (cp & 63));
+    return 4;
+}
+
+static void xml_forbidden_text(void)
+{
+    static const unsigned edges[] = {0xD7FF, 0xE000, 0xFDD0, 0xFFFD, 0xFFFE, 0xFFFF, 0x10000, 0x1FFFE, 0x10FFFF};
+    int refused = 0, accepted = 0;
+    for (unsigned k = 0; k < 0x100 + sizeof edges / sizeof edges[0]; k++) {
+        unsigned cp = k < 0x100 ? k : edges[k - 0x100];
+        if (cp == 0 || cp == '"' || cp == '\\')
+            continue; /* NUL is refused by the scanner; quote and backslash need escapes */
+        int ok = xml_char_ok(cp);
+        char text[512], esc[16], raw[8], cat[400];
+        if (cp >= 0x10000) { /* a surrogate pair in JSON */
+            unsigned v = cp - 0x10000;
+            snprintf(esc, sizeof esc, "\\u%04X\\u%04X", 0xD800 + (v >> 10), 0xDC00 + (v & 0x3FF));
+        } else {
+            snprintf(esc, sizeof esc, "\\u%04X", cp);
+        }
+        snprintf(text, sizeof text, "{\"format\": \"haloledger-campaign/1\", \"title\": \"a%sb\", \"runs\": "
+                 "[{\"id\": \"X\", \"start\": \"2027-01-01\", \"substrate\": {\"smiles\": \"CC\"}, "
+                 "\"substrate_kg\": 1, \"reagent\": \"Cl2\", \"reagent_eq\": 1}]}", esc);
+        struct hl_err e;
+        struct campaign *c = NULL;
+        enum hl_status st = camp_parse(text, strlen(text), "x.json", NULL, &c, &e);
+        camp_free(c);
+        int good = ok ? st == HL_OK : st == HL_ERR_INPUT && !strcmp(e.field, "title") && e.line == 1 && e.col == 46; /* the title's opening quote */
+        if (!good)
+            printf("U+%04X as an escape: status %d (%s), expected %s\n", cp, st, e.msg, ok ? "accepted" : "refused");
+        CU_ASSERT(good);
+        raw[utf8_put(cp, raw)] = '\0';
+        snprintf(cat, sizeof cat, "{\"format\": \"haloledger-catalog/1\", \"containers\": [{\"reagent\": \"Cl2\", "
+                 "\"name\": \"a%sb\", \"net_kg\": 50}]}", raw);
+        c = NULL;
+        st = camp_parse(text, strlen(text) - 0, "x.json", cat, &c, &e);
+        camp_free(c);
+        if (ok) {
+            CU_ASSERT_EQUAL(st, HL_OK);
+            accepted++;
+        } else {
+            /* the title refuses it first when it is forbidden: parse the catalog under a plain title */
+            char plain[512];
+            snprintf(plain, sizeof plain, "%s", text);
+            char *t = strstr(plain, esc);
+            memmove(t, t + strlen(esc), strlen(t + strlen(esc)) + 1);
+            st = camp_parse(plain, strlen(plain), "x.json", cat, &c, &e);
+            camp_free(c);
+            /* at the name's opening quote (column 78), or at the character itself (80) where the
+             * JSON scanner refuses a raw control character */
+            good = st == HL_ERR_INPUT && !strcmp(e.field, "catalog.containers[0].name") &&
+                   (e.col == 78 || (cp < 0x20 && e.col == 80));
+            if (!good)
+                printf("U+%04X raw in the catalog: status %d %s:%d:%d %s\n", cp, st, e.field, e.line, e.col, e.msg);
+            CU_ASSERT(good);
+            refused++;
+        }
+    }
+    CU_ASSERT_EQUAL(refused, 31 + 1 + 32 + 2); /* C0 but NUL, DEL, C1, U+FFFE and U+FFFF */
+    CU_ASSERT(accepted > 150);
+}
+
 static void load_file(void)
 {
     struct hl_err e;
@@ -569,6 +651,7 @@ int main(void)
         {"demo fields", demo_fields}, {"defaults", defaults}, {"report paper", report_paper}, {"repeat expansion", repeat_expansion},
         {"model merge", model_merge}, {"catalog merge", catalog_merge}, {"positions", positions},
         {"errors", errors}, {"load file", load_file}, {"allocation failure", alloc_failure},
-        {"string columns", string_columns}, {"campaign model position", campaign_model_position}};
+        {"string columns", string_columns}, {"campaign model position", campaign_model_position},
+        {"XML forbidden text", xml_forbidden_text}};
     return CU_RUN_ALL("campaign", cases);
 }
