@@ -1768,7 +1768,7 @@ static enum hl_status parse_report(struct vctx *c, const cJSON *m, struct campai
     enum hl_status st;
     if ((st = members(c, m, report_keys, OK_N, k)) ||
         (k[OK_PAPER] && (st = get_enum(c, k[OK_PAPER], paper_names, 2, &paper))) ||
-        (k[OK_MINFRAC] && (st = get_num(c, k[OK_MINFRAC], (struct rng){0, 1, 0, 1},
+        (k[OK_MINFRAC] && (st = get_num(c, k[OK_MINFRAC], (struct rng){0, 1, 0, 1, NULL, NULL},
                                         &cp->report_min_mol_fraction))) ||
         (k[OK_NOTE] && (st = get_str(c, k[OK_NOTE], 0, MAX_TEXT, &note))))
         return st;
