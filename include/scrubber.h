@@ -96,6 +96,10 @@ struct scrub_unit_out {
     double peak_instant_kmol_h; /* highest sum of the rates of runs venting at once [kmol/h] */
     int64_t peak_instant_at_min; /* when it begins (earliest on a tie) */
     int *peak_instant_runs; int npeak_instant_runs; /* run indices venting then, owned */
+    double peak_heat_kw;        /* highest sum of the heat-release rates (heat_kw) of runs
+                                 * venting at once: the duty a cooler would need [kW] */
+    int64_t peak_heat_at_min;   /* when it begins (earliest on a tie) */
+    int *peak_heat_runs; int npeak_heat_runs; /* run indices venting then, owned */
     double max_liquor_temp_c;   /* hottest adiabatic liquor temperature of the campaign [C] */
     int too_hot_runs;           /* runs with too_hot set */
     int changeouts;

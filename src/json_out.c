@@ -585,6 +585,20 @@ static cJSON *jo_scrubber(struct jo *w, const struct ledger *l, int i)
         }
         jo_arr_str(w, pi, l->runs[ri].id);
     }
+    jo_num(w, o, "peak_heat_kw", s->peak_heat_kw);
+    if (s->npeak_heat_runs > 0)
+        jo_date(w, o, "peak_heat_at", s->peak_heat_at_min, 0);
+    else
+        jo_null(w, o, "peak_heat_at");
+    cJSON *ph = jo_arr(w, o, "peak_heat_runs");
+    for (int k = 0; k < s->npeak_heat_runs && ph; k++) {
+        int ri = s->peak_heat_runs[k];
+        if (ri < 0 || ri >= l->nruns) {
+            jo_badkey(w, o, "peak_heat_runs", "run index out of range");
+            break;
+        }
+        jo_arr_str(w, ph, l->runs[ri].id);
+    }
     jo_num(w, o, "max_liquor_temp_c", s->max_liquor_temp_c);
     jo_num(w, o, "too_hot_runs", s->too_hot_runs);
     cJSON *h = jo_obj(w, o, "hourly");

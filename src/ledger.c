@@ -73,6 +73,21 @@ static enum hl_status warn(struct ledger *l, struct hl_err *e, const char *run, 
     return HL_OK;
 }
 
+/* "A, B, C" from run indices into buf (", ..." when it would not fit). */
+static void join_run_ids(const struct ledger *l, const int *idx, int n, char *buf, size_t cap)
+{
+    size_t len = 0;
+    buf[0] = '\0';
+    for (int k = 0; k < n; k++) {
+        const char *id = l->runs[idx[k]].id;
+        if (len + strlen(id) + 6 >= cap) {
+            snprintf(buf + len, cap - len, "%s...", k ? ", " : "");
+            break;
+        }
+        len += (size_t)snprintf(buf + len, cap - len, "%s%s", k ? ", " : "", id);
+    }
+}
+
 /* Add an assumption unless one with the same text is listed (the list stays short:
  * a few dozen distinct values, so a scan is cheaper than a hash). */
 static enum hl_status assume(struct ledger *l, struct hl_err *e, const char *what, int has_value,
@@ -654,15 +669,8 @@ static enum hl_status collect_warnings(const struct campaign *c, struct ledger *
         const struct scrub_unit_out *o = &s->out;
         if (o->overloaded) {
             isodate_format(o->peak_instant_at_min, 0, when, sizeof when);
-            char runs[200] = "";
-            for (int k = 0, n = 0; k < o->npeak_instant_runs; k++) {
-                const char *id = l->runs[o->peak_instant_runs[k]].id;
-                if (n + strlen(id) + 4 >= sizeof runs) {
-                    snprintf(runs + n, sizeof runs - (size_t)n, ", ...");
-                    break;
-                }
-                n += snprintf(runs + n, sizeof runs - (size_t)n, "%s%s", k ? ", " : "", id);
-            }
+            char runs[200];
+            join_run_ids(l, o->peak_instant_runs, o->npeak_instant_runs, runs, sizeof runs);
             st = warn(l, e, NULL,
                       "scrubber %s overloaded: %.3f kmol/h from %s (runs %s) exceeds the rated "
                       "%.3f kmol/h (hourly mean peak %.3f kmol/h)",
@@ -670,25 +678,26 @@ static enum hl_status collect_warnings(const struct campaign *c, struct ledger *
                       o->peak_acid_kmol_h);
         }
         if (!st && o->too_hot_runs > 0) {
-            double duty = 0;
             const char *hottest = NULL;
             double hot_t = -HUGE_VAL;
             for (int i = 0; i < l->nruns; i++)
                 if (l->runs[i].scrubber_index == u) {
                     const struct scrub_run_out *ro = &l->runs[i].scrub;
-                    if (ro->heat_kw > duty)
-                        duty = ro->heat_kw;
                     if (ro->liquor_temp_c_after > hot_t) {
                         hot_t = ro->liquor_temp_c_after;
                         hottest = l->runs[i].id;
                     }
                 }
+            char when_heat[20], runs[200];
+            isodate_format(o->peak_heat_at_min, 0, when_heat, sizeof when_heat);
+            join_run_ids(l, o->peak_heat_runs, o->npeak_heat_runs, runs, sizeof runs);
+            /* the cooler duty is that of the runs heating the liquor together */
             st = warn(l, e, NULL,
                       "scrubber %s needs liquor cooling: without it the liquor would reach %.0f C "
-                      "in run %s (limit %.0f C, %d runs above it); the largest heat duty of a run "
-                      "is %.0f kW",
+                      "in run %s (limit %.0f C, %d runs above it); the heat release peaks at "
+                      "%.0f kW from %s (runs %s)",
                       s->id, hot_t, hottest ? hottest : "?", c->scrubbers[u].max_liquor_temp_c,
-                      o->too_hot_runs, duty);
+                      o->too_hot_runs, o->peak_heat_kw, when_heat, runs);
         }
     }
     /* NaOH order lines add the solution every unit buys: one strength or the sum mixes

@@ -144,6 +144,13 @@ static void print_summary(const struct ledger *l)
                "%d changeouts, NaOH consumed %.1f kg\n",
                s->id, s->out.peak_acid_kmol_h, when, s->rated_acid_kmol_h,
                s->out.overloaded ? " OVERLOADED" : "", s->out.changeouts, s->out.naoh_kg);
+        if (s->out.npeak_heat_runs > 0) {
+            isodate_format(s->out.peak_heat_at_min, 0, when, sizeof when);
+            printf("    peak heat release %.1f kW from %s (runs", s->out.peak_heat_kw, when);
+            for (int k = 0; k < s->out.npeak_heat_runs; k++)
+                printf("%s %s", k ? "," : "", l->runs[s->out.peak_heat_runs[k]].id);
+            printf(")\n");
+        }
     }
     for (int i = 0; i < l->norders; i++) {
         const struct ord_line *o = &l->orders[i];

@@ -543,6 +543,9 @@ void scrub_unit_out_free(struct scrub_unit_out *u, int nunits)
     for (int i = 0; i < nunits; i++) {
         hl_free(u[i].peak_runs);
         hl_free(u[i].peak_instant_runs);
+        hl_free(u[i].peak_heat_runs);
+        u[i].peak_heat_runs = NULL;
+        u[i].npeak_heat_runs = 0;
         hl_free(u[i].hourly_kmol_h);
         hl_free(u[i].spent);
         u[i].peak_runs = u[i].peak_instant_runs = NULL;
@@ -580,9 +583,17 @@ static int edge_cmp(const void *pa, const void *pb)
  * (Neumaier-compensated running sum, reset when the unit falls idle); runs_at_peak then
  * finds the runs venting at the peak and sums their rates afresh, so the figure carries
  * no sweep round-off. */
+/* What a sweep or a peak-run list is about: the gas load or the heat release. */
+enum peak_kind { PK_HOURLY, PK_INSTANT, PK_HEAT };
+
+static double rate_of(const struct scrub_run_out *ro, int heat)
+{
+    return heat ? ro->heat_kw : ro->acid_kmol_h;
+}
+
 static enum hl_status instant_peaks(const struct scrub_run_in *runs, int nruns,
                                     const struct scrub_run_out *run_out,
-                                    struct scrub_unit_out *unit_out, struct hl_err *e)
+                                    struct scrub_unit_out *unit_out, int heat, struct hl_err *e)
 {
     struct edge *ev = hl_malloc((size_t)(2 * nruns + 1) * sizeof *ev);
     if (!ev)
@@ -590,7 +601,7 @@ static enum hl_status instant_peaks(const struct scrub_run_in *runs, int nruns,
     int ne = 0;
     for (int i = 0; i < nruns; i++) {
         const struct scrub_run_in *r = &runs[i];
-        double rate = run_out[i].acid_kmol_h;
+        double rate = rate_of(&run_out[i], heat);
         if (r->unit < 0 || !(rate > 0))
             continue;
         ev[ne++] = (struct edge){r->unit, 1, (double)r->start_min, rate, i};
@@ -616,56 +627,69 @@ static enum hl_status instant_peaks(const struct scrub_run_in *runs, int nruns,
                 at = t_now;
             }
         }
-        unit_out[u].peak_instant_at_min = (int64_t)at; /* maxima begin at a start: whole minutes */
-        unit_out[u].peak_instant_kmol_h = best;
+        /* maxima begin at a start: whole minutes */
+        *(heat ? &unit_out[u].peak_heat_at_min : &unit_out[u].peak_instant_at_min) = (int64_t)at;
+        *(heat ? &unit_out[u].peak_heat_kw : &unit_out[u].peak_instant_kmol_h) = best;
     }
     hl_free(ev);
 
     return HL_OK;
 }
 
+/* The peak-run list of one kind and the figure summed afresh from it (NULL: none). */
+static int **peak_list(struct scrub_unit_out *o, enum peak_kind k, int **n, double **sum)
+{
+    *sum = k == PK_INSTANT ? &o->peak_instant_kmol_h : k == PK_HEAT ? &o->peak_heat_kw : NULL;
+    *n = k == PK_HOURLY ? &o->npeak_runs : k == PK_INSTANT ? &o->npeak_instant_runs
+                                                          : &o->npeak_heat_runs;
+    return k == PK_HOURLY ? &o->peak_runs : k == PK_INSTANT ? &o->peak_instant_runs
+                                                           : &o->peak_heat_runs;
+}
+
 /* The runs of each unit that make its peak: for the hourly peak those whose vent window
  * overlaps the peak clock hour [at, at + 60 min) by a positive length, for the
- * instantaneous peak those venting at its instant (start <= at < end), whose rates are
- * summed again into peak_instant_kmol_h. Two passes over the runs (count, then fill):
- * linear in runs. */
+ * instantaneous gas and heat peaks those venting at its instant (start <= at < end),
+ * whose rates are summed again into peak_instant_kmol_h / peak_heat_kw. Two passes over
+ * the runs (count, then fill): linear in runs. */
 static enum hl_status runs_at_peak(const struct scrub_run_in *runs, int nruns, const int *order,
                                    const struct scrub_run_out *run_out, int nunits,
-                                   struct scrub_unit_out *unit_out, int hourly, struct hl_err *e)
+                                   struct scrub_unit_out *unit_out, enum peak_kind kind,
+                                   struct hl_err *e)
 {
+    int *n;
+    double *sum;
     for (int pass = 0; pass < 2; pass++) {
         for (int u = 0; u < nunits; u++) {
-            struct scrub_unit_out *o = &unit_out[u];
-            int **list = hourly ? &o->peak_runs : &o->peak_instant_runs;
-            int *n = hourly ? &o->npeak_runs : &o->npeak_instant_runs;
+            int **list = peak_list(&unit_out[u], kind, &n, &sum);
             if (pass == 1 && *n && !(*list = hl_malloc((size_t)*n * sizeof(int))))
                 return hl_err_set(e, HL_ERR_NOMEM, "out of memory in the scrubber model");
             *n = 0;
-            if (pass == 1 && !hourly)
-                o->peak_instant_kmol_h = 0;
+            if (pass == 1 && sum)
+                *sum = 0;
         }
         for (int k = 0; k < nruns; k++) {
             int i = order[k];
             const struct scrub_run_in *r = &runs[i];
-            if (r->unit < 0 || !(run_out[i].acid_kmol_h > 0))
+            double rate = rate_of(&run_out[i], kind == PK_HEAT);
+            if (r->unit < 0 || !(rate > 0))
                 continue;
             struct scrub_unit_out *o = &unit_out[r->unit];
             double a = (double)r->start_min, b = vent_end_min(r);
             int hit;
-            if (hourly) {
+            if (kind == PK_HOURLY) {
                 double p0 = (double)o->peak_at_min, p1 = p0 + 60.0;
                 hit = o->peak_acid_kmol_h > 0 && (b < p1 ? b : p1) - (a > p0 ? a : p0) > 0;
             } else {
-                double at = (double)o->peak_instant_at_min;
+                double at = (double)(kind == PK_HEAT ? o->peak_heat_at_min : o->peak_instant_at_min);
                 hit = a <= at && b > at;
             }
             if (!hit)
                 continue;
-            int *n = hourly ? &o->npeak_runs : &o->npeak_instant_runs;
+            int **list = peak_list(o, kind, &n, &sum);
             if (pass == 1) {
-                (hourly ? o->peak_runs : o->peak_instant_runs)[*n] = i;
-                if (!hourly)
-                    o->peak_instant_kmol_h += run_out[i].acid_kmol_h;
+                (*list)[*n] = i;
+                if (sum)
+                    *sum += rate;
             }
             (*n)++;
         }
@@ -867,9 +891,11 @@ enum hl_status scrub_campaign(const struct scrub_unit_in *units, int nunits,
         o->makeup_kg = o->changeouts * solution_kg;
     }
 
-    if ((st = instant_peaks(runs, nruns, run_out, unit_out, e)) ||
-        (st = runs_at_peak(runs, nruns, order, run_out, nunits, unit_out, 1, e)) ||
-        (st = runs_at_peak(runs, nruns, order, run_out, nunits, unit_out, 0, e)))
+    if ((st = instant_peaks(runs, nruns, run_out, unit_out, 0, e)) ||
+        (st = instant_peaks(runs, nruns, run_out, unit_out, 1, e)) ||
+        (st = runs_at_peak(runs, nruns, order, run_out, nunits, unit_out, PK_HOURLY, e)) ||
+        (st = runs_at_peak(runs, nruns, order, run_out, nunits, unit_out, PK_INSTANT, e)) ||
+        (st = runs_at_peak(runs, nruns, order, run_out, nunits, unit_out, PK_HEAT, e)))
         goto out;
     for (int u = 0; u < nunits; u++) {
         struct scrub_unit_out *o = &unit_out[u];

@@ -426,6 +426,31 @@ def main():
             check(R["TC-5"]["changeout_before"] and not R["EB-2"]["changeout_before"] and
                   not R["EB-2"].get("exhausted") and R["EB-2"]["naoh_wt_pct_after"] >= 2,
                   f"harrowmere-march: TC-5 {R['TC-5']}, EB-2 {R['EB-2']}")
+            # combined heat release (issue 8 item 7): runs venting at once heat the liquor
+            # together; brute force at every window start, each run's duty = heat_kj / window
+            runs_h = [{"id": r["id"], "t0": parse_t(r["start"]), "feed_h": r["feed_h"],
+                       "peak_factor": r.get("peak_factor", 1.0), "kw": None, "kj": r["scrubber"]["heat_kj"]}
+                      for r in led_h["runs"]]
+            best, at, ids = 0.0, None, []
+            for t in sorted({q["t0"] for q in runs_h}):
+                on = [q for q in runs_h if window(q)[0] <= t < window(q)[1] and q["kj"] > 0]
+                kw = sum(q["kj"] / (q["feed_h"] / q["peak_factor"] * 3600) for q in on)
+                if kw > best * (1 + 1e-12):
+                    best, at, ids = kw, t, [q["id"] for q in on]
+            S = led_h["scrubbers"][0]
+            check(S.get("peak_heat_kw") is not None and abs(S["peak_heat_kw"] - best) <= 1e-9 * best and
+                  S.get("peak_heat_at") == at.strftime("%Y-%m-%dT%H:%M") and S.get("peak_heat_runs") == ids,
+                  f"harrowmere-march: peak heat {S.get('peak_heat_kw')} at {S.get('peak_heat_at')} "
+                  f"{S.get('peak_heat_runs')}, brute force {best} at {at} {ids}")
+            pair = sum(R[i]["heat_kj"] / (8 * 3600 if i == "EB-2" else 6 * 3600) for i in ("TC-5", "EB-2"))
+            check(60 < pair < 63 and S.get("peak_heat_kw", 0) >= pair,
+                  f"harrowmere-march: TC-5 + EB-2 together {pair:.1f} kW (about 61), peak {S.get('peak_heat_kw')}")
+            cool = [w["message"] for w in led_h["warnings"] if "cooling" in w["message"]]
+            check(len(cool) == 1 and f"{best:.0f} kW" in cool[0] and all(i in cool[0] for i in ids),
+                  f"harrowmere-march: cooling warning does not quote the combined peak {best:.0f} kW: {cool}")
+            pc = run(["check", hm])
+            check(f"peak heat release {best:.1f} kW" in pc.stdout,
+                  f"harrowmere-march: check prints no peak heat release line of {best:.1f} kW")
         led_o = check_campaign("overlap", overlap, tmp, expect_overload=True)
         if led_o:
             # the numbers a reader can check on paper (see the campaign's note)

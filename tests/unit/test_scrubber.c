@@ -866,6 +866,39 @@ static void sulfite_meets_hypochlorite(void)
     scrub_unit_out_free(&uo, 1);
 }
 
+/* Combined heat-release rate of overlapping runs (design section 4 heats).  By hand,
+ * HCl(g) + NaOH(aq) -> NaCl(aq) + H2O(l) from the NBS 1982 values: -407.27 - 285.830 +
+ * 92.307 + 470.114 = -130.679 kJ/mol.  A: 1000 mol over 2 h from 06:00 = 130679 kJ /
+ * 7200 s = 18.1499 kW; B: 2000 mol over 1 h from 07:00 = 72.5994 kW; both 07:00-08:00:
+ * 90.7493 kW.  C: 3000 mol over 6 h from 12:00 = 18.1499 kW, alone. */
+static void peak_heat(void)
+{
+    struct scrub_unit_in u = caustic(6000, 18, 2);
+    struct scrub_run_in r[3] = {run_at("2027-03-02T06:00", 2, VS_HCL, 1000),
+                                run_at("2027-03-02T07:00", 1, VS_HCL, 2000),
+                                run_at("2027-03-02T12:00", 6, VS_HCL, 3000)};
+    struct scrub_run_out ro[3];
+    struct scrub_unit_out uo;
+    CU_ASSERT_EQUAL_FATAL(go(&u, 1, r, 3, ro, &uo), HL_OK);
+    ASSERT_ABS(ro[0].heat_kw, 18.1499, 1e-4);
+    ASSERT_ABS(ro[1].heat_kw, 72.5994, 1e-4);
+    ASSERT_ABS(uo.peak_heat_kw, 90.7493, 1e-4);
+    CU_ASSERT_EQUAL(uo.peak_heat_at_min, t("2027-03-02T07:00"));
+    CU_ASSERT_EQUAL(uo.npeak_heat_runs, 2);
+    if (uo.npeak_heat_runs == 2)
+        CU_ASSERT(uo.peak_heat_runs[0] == 0 && uo.peak_heat_runs[1] == 1);
+    scrub_unit_out_free(&uo, 1);
+    /* B moved to 08:00, when A stops: no overlap, B alone is the peak */
+    r[1].start_min = t("2027-03-02T08:00");
+    CU_ASSERT_EQUAL_FATAL(go(&u, 1, r, 3, ro, &uo), HL_OK);
+    ASSERT_ABS(uo.peak_heat_kw, 72.5994, 1e-4);
+    CU_ASSERT_EQUAL(uo.peak_heat_at_min, t("2027-03-02T08:00"));
+    CU_ASSERT_EQUAL(uo.npeak_heat_runs, 1);
+    if (uo.npeak_heat_runs == 1)
+        CU_ASSERT_EQUAL(uo.peak_heat_runs[0], 1);
+    scrub_unit_out_free(&uo, 1);
+}
+
 int main(void)
 {
     static const struct cu_case cases[] = {
@@ -878,6 +911,7 @@ int main(void)
         {"exhausted single run", exhausted_single_run},
         {"overlap exhausts", overlap_exhausts},
         {"peak of overlapping runs", peak_overlap},
+        {"peak heat release", peak_heat},
         {"peak across months", peak_across_month},
         {"instantaneous peak sweep", instant_peak_sweep},
         {"changeout for a group", group_changeout},
