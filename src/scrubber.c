@@ -507,9 +507,19 @@ static enum hl_status check_inputs(const struct scrub_unit_in *units, int nunits
             return hl_err_set(e, HL_ERR_INPUT, "run %d: scrubber index %d out of range", i, r->unit);
         if (!(r->feed_h > 0) || !isfinite(r->feed_h) || !isfinite(r->peak_factor))
             return hl_err_set(e, HL_ERR_INPUT, "run %d: feed_h must be > 0", i);
-        for (int v = 0; v < VS_COUNT; v++)
+        double gas = 0;
+        for (int v = 0; v < VS_COUNT; v++) {
             if (!(r->vent_mol[v] >= 0) || !isfinite(r->vent_mol[v]))
                 return hl_err_set(e, HL_ERR_INPUT, "run %d: vent amounts must be >= 0", i);
+            gas += r->vent_mol[v];
+        }
+        /* a rate that overflows would hide the overload it stands for: refuse it */
+        double pf = r->peak_factor > 0 ? r->peak_factor : 1.0, window_s = r->feed_h / pf * 3600.0;
+        if (!isfinite(gas / 1000.0 / r->feed_h * pf) || !isfinite(window_s) || !(window_s > 0) ||
+            !isfinite(gas * 1000.0 / window_s)) /* heat_kw stays finite: < 1000 kJ/mol */
+            return hl_err_set(e, HL_ERR_INPUT,
+                              "run %d: vent rate is not a finite number (feed_h %g too short)", i,
+                              r->feed_h);
     }
     for (int k = 0; k < nruns; k++) {
         int i = order[k];
@@ -526,12 +536,16 @@ static double pf_of(const struct scrub_run_in *r) { return r->peak_factor > 0 ? 
 
 /* End of a run's vent window [min].  feed_h / peak_factor x 60 is rarely an exact binary
  * number (2 h / 1.5 = 80 min), so an end within 1e-6 min of a whole minute is that minute:
- * "ends at 08:50" and "starts at 08:50" must compare equal (no overlap). */
+ * "ends at 08:50" and "starts at 08:50" must compare equal (no overlap).  The snap never
+ * moves the end back to the start, and a window too short to show in a double still ends
+ * after its start: a safety check must not lose the load of the shortest vent. */
 static double vent_end_min(const struct scrub_run_in *r)
 {
-    double end = (double)r->start_min + r->feed_h / pf_of(r) * 60.0;
+    double start = (double)r->start_min, end = start + r->feed_h / pf_of(r) * 60.0;
     double whole = round(end);
-    return fabs(end - whole) < 1e-6 ? whole : end;
+    if (fabs(end - whole) < 1e-6 && whole > start)
+        end = whole;
+    return end > start ? end : nextafter(start, HUGE_VAL);
 }
 
 static int64_t floor_div(int64_t a, int64_t b) { return a / b - ((a % b != 0) && ((a < 0) != (b < 0))); }

@@ -493,6 +493,19 @@ def main():
         if led:
             check(led["scrubbers"][0]["peak_acid_kmol_h"] == 1.0, f"touching: peak {led['scrubbers'][0]['peak_acid_kmol_h']} != 1")
 
+        # issue 16 item 1: 2 kmol HCl over feed_h 1e-8 h is 2e8 kmol/h against 1.5: a safety
+        # check never fails open - refused as input (2) or flagged as an overload (3), never 0
+        c = json.loads(json.dumps(base))
+        c["runs"][3]["feed_h"] = 1e-8
+        path = os.path.join(tmp, "tiny-feed.json")
+        with open(path, "w") as f:
+            json.dump(c, f)
+        p = run(["check", "--strict", path])
+        check(p.returncode in (2, 3), f"tiny feed_h: check --strict exit {p.returncode}, want 2 or 3")
+        if p.returncode == 3:
+            check("overloaded" in p.stderr and "OV-D" in p.stderr,
+                  f"tiny feed_h: no overload warning naming OV-D: {p.stderr.strip()!r}")
+
         def half(c):            # B from 07:30: 07:00 hour holds 1 + 0.5 = 1.5 = rated, not over it,
             c["runs"][1]["start"] = "2027-03-10T07:30"   # but 07:30-08:00 runs at 2 > 1.5: overloaded
         led = variant("half-hour", half, True)

@@ -899,6 +899,40 @@ static void peak_heat(void)
     scrub_unit_out_free(&uo, 1);
 }
 
+/* Issue 16 item 1: 860 mol HCl over feed_h 1e-8 h is 860 / 1000 / 1e-8 = 8.6e7 kmol/h
+ * against a rating of 2: overloaded, whatever the window's length in minutes (6e-7 min is
+ * below the 1e-6 min snap; 6e-12 min is below the spacing of doubles near 2027 in
+ * minutes, about 3.7e-9).  The amount stays in the hourly bins: 0.86 kmol in one hour. */
+static void shortest_window(void)
+{
+    const double feeds[] = {1e-8, 1e-13};
+    for (int k = 0; k < 2; k++) {
+        struct scrub_unit_in u = caustic(6000, 18, 2);
+        u.rated_acid_kmol_h = 2.0;
+        struct scrub_run_in r[2] = {run_at("2027-03-02T06:00", feeds[k], VS_HCL, 860),
+                                    run_at("2027-03-02T06:00", 1, VS_HCL, 1000)};
+        struct scrub_run_out ro[2];
+        struct scrub_unit_out uo;
+        CU_ASSERT_EQUAL_FATAL(go(&u, 1, r, 2, ro, &uo), HL_OK);
+        ASSERT_REL(ro[0].acid_kmol_h, 0.86 / feeds[k], 1e-12);
+        /* both vent at 06:00: 8.6e7 (8.6e12) + 1 kmol/h */
+        ASSERT_REL(uo.peak_instant_kmol_h, 0.86 / feeds[k] + 1.0, 1e-12);
+        CU_ASSERT_EQUAL(uo.peak_instant_at_min, t("2027-03-02T06:00"));
+        CU_ASSERT_EQUAL(uo.npeak_instant_runs, 2);
+        CU_ASSERT_EQUAL(uo.overloaded, 1);
+        CU_ASSERT(uo.peak_heat_kw > 1e6);
+        CU_ASSERT_EQUAL(uo.nhours, 1);
+        ASSERT_REL(uo.peak_acid_kmol_h, 0.86 + 1.0, 1e-9);
+        scrub_unit_out_free(&uo, 1);
+    }
+    /* a rate too large for a double is refused, never read as "no load" */
+    struct scrub_unit_in u = caustic(6000, 18, 2);
+    struct scrub_run_in r = run_at("2027-03-02T06:00", 1e-308, VS_HCL, 860);
+    struct scrub_run_out ro;
+    struct scrub_unit_out uo;
+    CU_ASSERT_EQUAL(go(&u, 1, &r, 1, &ro, &uo), HL_ERR_INPUT);
+}
+
 int main(void)
 {
     static const struct cu_case cases[] = {
@@ -912,6 +946,7 @@ int main(void)
         {"overlap exhausts", overlap_exhausts},
         {"peak of overlapping runs", peak_overlap},
         {"peak heat release", peak_heat},
+        {"shortest vent window", shortest_window},
         {"peak across months", peak_across_month},
         {"instantaneous peak sweep", instant_peak_sweep},
         {"changeout for a group", group_changeout},
