@@ -16,7 +16,7 @@ TOOL_SRC := $(wildcard tests/tools/tool_*.c)
 TOOL_BIN := $(patsubst tests/tools/%.c,$(BUILD)/%,$(TOOL_SRC))
 HEADERS  := $(wildcard include/*.h) $(wildcard tests/unit/*.h)
 
-.PHONY: all deps demo test unit sanitize valgrind fuzz clean print-link-flags
+.PHONY: all deps demo test unit sanitize valgrind fuzz mutate clean print-link-flags
 all: $(BUILD)/haloledger
 
 deps:
@@ -71,6 +71,10 @@ sanitize: deps
 valgrind: deps
 	@$(MAKE) --no-print-directory all unit
 	@BUILD=$(BUILD) HL_WRAP="valgrind -q --leak-check=full --errors-for-leak-kinds=definite,indirect --error-exitcode=99" sh tests/run.sh
+
+# Seeded errors (tests/mutations.txt) against the suite, in a scratch copy; slow, not in `make test`.
+mutate: deps
+	@sh tools/mutate.sh
 
 FUZZ_SECONDS ?= 30
 fuzz:

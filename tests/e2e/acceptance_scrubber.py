@@ -253,13 +253,13 @@ def check_campaign(tag, camp_path, tmp, expect_overload):
         ipeak, iat, iruns = instant(mine)
         check(S["overloaded"] == (ipeak > sc["rated_acid_kmol_h"]) == expect_overload,
               f"{tag} {sc['id']} overloaded {S['overloaded']} (instantaneous peak {ipeak}, rated {sc['rated_acid_kmol_h']})")
-        if "peak_instant_kmol_h" in S:
+        if check("peak_instant_kmol_h" in S, f"{tag} key peak_instant_kmol_h missing from the ledger"):
             rel(S["peak_instant_kmol_h"], ipeak, 1e-12, f"{tag} {sc['id']} peak_instant_kmol_h")
             check(S.get("peak_instant_at") == iat.strftime("%Y-%m-%dT%H:%M"),
                   f"{tag} {sc['id']} peak_instant_at {S.get('peak_instant_at')} != {iat}")
-            if "peak_instant_runs" in S:
+            if check("peak_instant_runs" in S, f"{tag} key peak_instant_runs missing from the ledger"):
                 check(sorted(S["peak_instant_runs"]) == sorted(iruns), f"{tag} peak_instant_runs {S['peak_instant_runs']} != {iruns}")
-        if "hourly" in S:
+        if check("hourly" in S, f"{tag} key hourly missing from the ledger"):
             hp = S["hourly"]["kmol_h"]
             check(S["hourly"]["start"] == h0.strftime("%Y-%m-%dT%H:%M"), f"{tag} hourly.start {S['hourly']['start']}")
             check(all(abs(a - b) <= 1e-12 * max(1, abs(b)) for a, b in zip(hp, prof)) and
@@ -278,7 +278,7 @@ def check_campaign(tag, camp_path, tmp, expect_overload):
             co, use, heat, naoh_left, mass, short, out = track[q["id"]]
             r = R[q["id"]]["scrubber"]
             nco += co
-            if "liquor_temp_c_after" in r:
+            if check("liquor_temp_c_after" in r, f"{tag} key liquor_temp_c_after missing from the ledger"):
                 # adiabatic track: the rises add up within a group of overlapping runs; the
                 # idle unit (and every fresh charge) is back at 25 C before the next group
                 fresh = sc.get("fresh_liquor_temp_c") or 25.0
@@ -293,7 +293,7 @@ def check_campaign(tag, camp_path, tmp, expect_overload):
                     rel(r["heat_kw"], heat / (w[1] - w[0]).total_seconds(), 1e-3, f"{tag} {q['id']} heat_kw")
             check(r["changeout_before"] == co, f"{tag} {q['id']} changeout_before {r['changeout_before']}, hand {co}")
             rel(r["naoh_kg"], use, 1e-12, f"{tag} {q['id']} scrubber.naoh_kg")
-            if "exhausted" in r:
+            if check("exhausted" in r, f"{tag} key exhausted missing from the ledger"):
                 check(bool(r["exhausted"]) == short, f"{tag} {q['id']} exhausted {r['exhausted']}, hand {short}")
             if short:
                 check(any(w["run"] == q["id"] and sc["id"] in w["message"] for w in led["warnings"]),
@@ -302,18 +302,18 @@ def check_campaign(tag, camp_path, tmp, expect_overload):
                 check(r.get("naoh_left_kg") == 0, f"{tag} {q['id']} naoh_left_kg {r.get('naoh_left_kg')} after running out")
                 continue
             rel(r["heat_kj"], heat, 1e-3, f"{tag} {q['id']} scrubber.heat_kj (NBS-table heats)")
-            if "naoh_left_kg" in r:
+            if check("naoh_left_kg" in r, f"{tag} key naoh_left_kg missing from the ledger"):
                 rel(r["naoh_left_kg"], naoh_left, 1e-9, f"{tag} {q['id']} naoh_left_kg")
                 rel(r["liquor_kg_after"], mass, 1e-12, f"{tag} {q['id']} liquor_kg_after")
                 rel(r["naoh_wt_pct_after"], naoh_left / mass * 100, 1e-9, f"{tag} {q['id']} naoh_wt_pct_after")
                 check(r["naoh_wt_pct_after"] >= sc["min_naoh_wt_pct"] or r.get("exhausted"),
                       f"{tag} {q['id']} ends at {r['naoh_wt_pct_after']} wt% < min without a warning")
         check(S["changeouts"] == nco, f"{tag} {sc['id']} changeouts {S['changeouts']}, hand {nco}")
-        if "max_liquor_temp_c" in S and any("liquor_temp_c_after" in R[q["id"]]["scrubber"] for q in mine):
+        if check("max_liquor_temp_c" in S, f"{tag} key max_liquor_temp_c missing from the ledger"):
             rel(S["max_liquor_temp_c"], hottest, 1e-9, f"{tag} {sc['id']} max_liquor_temp_c")
         rel(S["naoh_kg"], sum(track[q["id"]][1] for q in mine), 1e-12, f"{tag} {sc['id']} naoh_kg")
         makeup_each = sc["liquor_kg"] * sc["naoh_wt_pct"] / sc.get("makeup_naoh_wt_pct", 50)
-        if "makeup_kg" in S:
+        if check("makeup_kg" in S, f"{tag} key makeup_kg missing from the ledger"):
             rel(S["makeup_kg"], nco * makeup_each, 1e-12, f"{tag} {sc['id']} makeup_kg")
     # ---- months: changeouts, NaOH
     months = {m["month"]: m for m in led["months"]}
@@ -413,7 +413,7 @@ def main():
             mb, pr = R["MB-1"]["vent"]["acid_kmol_h"], R["PR-1"]["vent"]["acid_kmol_h"]
             check(abs(mb - 0.693) < 5e-4 and abs(pr - 1.020) < 5e-4, f"stress: MB-1 {mb}, PR-1 {pr} kmol/h")
             check(abs(S["peak_acid_kmol_h"] - 1.543) < 5e-4, f"stress: hourly peak {S['peak_acid_kmol_h']} != 1.543")
-            if "peak_instant_kmol_h" in S:
+            if check("peak_instant_kmol_h" in S, f"main: key peak_instant_kmol_h missing from the ledger"):
                 check(abs(S["peak_instant_kmol_h"] - (mb + pr)) <= 1e-12 * (mb + pr) and
                       S.get("peak_instant_at") == "2027-05-03T07:30",
                       f"stress: instantaneous peak {S['peak_instant_kmol_h']} at {S.get('peak_instant_at')}")
@@ -466,7 +466,7 @@ def main():
             S = led_o["scrubbers"][0]
             check(abs(S["peak_acid_kmol_h"] - 2.0) <= 1e-12, f"overlap: peak {S['peak_acid_kmol_h']} != 2 kmol/h")
             check(S["peak_at"] == "2027-03-10T07:00", f"overlap: peak_at {S['peak_at']}")
-            if "peak_runs" in S:
+            if check("peak_runs" in S, f"main: key peak_runs missing from the ledger"):
                 check(sorted(S["peak_runs"]) == ["OV-A", "OV-B"], f"overlap: peak_runs {S['peak_runs']}")
             check(S["changeouts"] == 2, f"overlap: changeouts {S['changeouts']} != 2")
             R = {r["id"]: r for r in led_o["runs"]}
@@ -522,7 +522,7 @@ def main():
             S = led["scrubbers"][0]
             check(S["peak_acid_kmol_h"] == 1.5 and S["peak_at"] == "2027-03-10T07:00",
                   f"half-hour: peak {S['peak_acid_kmol_h']} at {S['peak_at']}")
-            if "peak_instant_kmol_h" in S:
+            if check("peak_instant_kmol_h" in S, f"main: key peak_instant_kmol_h missing from the ledger"):
                 check(S["peak_instant_kmol_h"] == 2.0 and S.get("peak_instant_at") == "2027-03-10T07:30",
                       f"half-hour: instantaneous peak {S['peak_instant_kmol_h']} at {S.get('peak_instant_at')}")
 

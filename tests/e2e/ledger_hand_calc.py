@@ -59,6 +59,9 @@ with tempfile.TemporaryDirectory() as d:
 
 check(L.get("format") == "haloledger-ledger/1", "format key")
 runs = {r["id"]: r for r in L["runs"]}
+# every run must be there: a missing one is a failure, not a set of checks that vanish
+for rid in ("P-1", "I-1", "T-1"):
+    check(rid in runs, f"run {rid} missing from the ledger")
 if "P-1" in runs:
     r = runs["P-1"]
     m_propane = 3 * W["C"] + 8 * W["H"]
