@@ -9,13 +9,20 @@
 #include "afile.h"
 #include "hlmem.h"
 
+#include <dirent.h>
 #include <errno.h>
+#include <limits.h>
+#include <signal.h>
 #include <fcntl.h>
 #include <stdint.h>
 #include <stdlib.h>
 #include <stdio.h>
 #include <string.h>
 #include <sys/stat.h>
+#ifdef __linux__
+#include <sys/prctl.h>
+#endif
+#include <sys/wait.h>
 #include <unistd.h>
 
 enum hl_status afile_read(const char *path, char **buf, size_t *len, struct hl_err *e)
@@ -154,22 +161,168 @@ enum hl_status afile_dirname(const char *path, char **dir, struct hl_err *e)
     return HL_OK;
 }
 
+/*
+ * Staged names.  A signal that ends the process (Ctrl-C, kill, a closed terminal) must not
+ * leave a staged file behind, so every name is kept in a fixed table that the handler can
+ * walk with async-signal-safe calls only (unlink, kill, waitpid, raise).  This is the one
+ * piece of process-wide state besides the allocation counter: a signal handler gets no
+ * arguments.  Names are entered before the file is created and removed after it is
+ * renamed or unlinked, with the handled signals blocked in between, so no file exists
+ * unrecorded.
+ */
+#define STAGED_MAX 32
+static char staged_name[STAGED_MAX][PATH_MAX];
+static volatile sig_atomic_t staged_used[STAGED_MAX];
+static volatile sig_atomic_t writer_pid; /* a child writing for us, 0 if none */
+static const int guarded[] = {SIGHUP, SIGINT, SIGQUIT, SIGTERM, SIGPIPE, SIGALRM, SIGUSR1, SIGUSR2};
+#define NGUARDED (int)(sizeof guarded / sizeof guarded[0])
+
+static void block_guarded(sigset_t *old)
+{
+    sigset_t set;
+    sigemptyset(&set);
+    for (int i = 0; i < NGUARDED; i++)
+        sigaddset(&set, guarded[i]);
+    sigprocmask(SIG_BLOCK, &set, old);
+}
+
+static void on_fatal_signal(int sig)
+{
+    pid_t child = (pid_t)writer_pid;
+    if (child > 0) { /* its own handler removes its files; wait so none is created after */
+        kill(child, SIGTERM);
+        waitpid(child, NULL, 0);
+    }
+    for (int i = 0; i < STAGED_MAX; i++)
+        if (staged_used[i])
+            unlink(staged_name[i]);
+    signal(sig, SIG_DFL);
+    raise(sig); /* delivered on return: the process ends by the same signal, as expected */
+}
+
+void afile_guard_signals(void)
+{
+    struct sigaction sa;
+    memset(&sa, 0, sizeof sa);
+    sa.sa_handler = on_fatal_signal;
+    sigemptyset(&sa.sa_mask);
+    for (int i = 0; i < NGUARDED; i++)
+        sigaddset(&sa.sa_mask, guarded[i]);
+    for (int i = 0; i < NGUARDED; i++) {
+        struct sigaction old;
+        /* a signal ignored by whoever started us (nohup, a shell's background job) stays so */
+        if (sigaction(guarded[i], NULL, &old) == 0 && old.sa_handler != SIG_IGN)
+            sigaction(guarded[i], &sa, NULL);
+    }
+    /* past RLIMIT_FSIZE a write then fails with EFBIG and is reported like a full disk */
+    signal(SIGXFSZ, SIG_IGN);
+}
+
+long afile_fork_writer(void)
+{
+    sigset_t old;
+    /* no signal between fork and the record of the child: the handler must know it */
+    block_guarded(&old);
+    pid_t pid = fork();
+    int err = errno;
+    if (pid == 0) {
+        for (int i = 0; i < STAGED_MAX; i++)
+            staged_used[i] = 0; /* the parent's files: the parent removes them */
+        writer_pid = 0;
+#ifdef __linux__
+        prctl(PR_SET_PDEATHSIG, SIGTERM); /* a parent killed outright takes the writer along */
+        if (getppid() == 1)
+            raise(SIGTERM);
+#endif
+    } else if (pid > 0) {
+        writer_pid = (sig_atomic_t)pid;
+    }
+    sigprocmask(SIG_SETMASK, &old, NULL);
+    errno = err;
+    return (long)pid;
+}
+
+void afile_writer_done(void)
+{
+    writer_pid = 0;
+}
+
+static void forget(const char *tmp)
+{
+    for (int i = 0; i < STAGED_MAX; i++)
+        if (staged_used[i] && !strcmp(staged_name[i], tmp))
+            staged_used[i] = 0;
+}
+
+void afile_discard(const char *tmp)
+{
+    sigset_t old;
+    block_guarded(&old);
+    unlink(tmp);
+    forget(tmp);
+    sigprocmask(SIG_SETMASK, &old, NULL);
+}
+
+void afile_discard_all(void)
+{
+    sigset_t old;
+    block_guarded(&old);
+    for (int i = 0; i < STAGED_MAX; i++)
+        if (staged_used[i]) {
+            unlink(staged_name[i]);
+            staged_used[i] = 0;
+        }
+    sigprocmask(SIG_SETMASK, &old, NULL);
+}
+
+/* Our pattern: ".NAME.hl.tmp-PID-N", NAME cut so the whole stays within NAME_MAX however
+ * long the target's name is (and however often a staged name is staged again). */
+#define TMP_TAG ".hl.tmp-"
+#define TMP_ROOM (1 + sizeof TMP_TAG - 1 + 20 + 1 + 10) /* '.', tag, pid, '-', N */
+
+/* Create the staged file exclusively, recorded in the table; -1 with errno on failure. */
+static int create_staged(const char *name)
+{
+    sigset_t old;
+    block_guarded(&old);
+    int slot = -1, fd = -1;
+    for (int i = 0; i < STAGED_MAX && slot < 0; i++)
+        if (!staged_used[i])
+            slot = i;
+    if (slot < 0 || strlen(name) >= PATH_MAX) {
+        sigprocmask(SIG_SETMASK, &old, NULL);
+        errno = slot < 0 ? EMFILE : ENAMETOOLONG;
+        return -1;
+    }
+    memcpy(staged_name[slot], name, strlen(name) + 1);
+    staged_used[slot] = 1;
+    fd = open(name, O_WRONLY | O_CREAT | O_EXCL | O_CLOEXEC, 0666);
+    int err = errno;
+    if (fd < 0)
+        staged_used[slot] = 0;
+    else
+        close(fd);
+    sigprocmask(SIG_SETMASK, &old, NULL);
+    errno = err;
+    return fd < 0 ? -1 : 0;
+}
+
 enum hl_status afile_tmpname(const char *path, char **tmp, struct hl_err *e)
 {
     const char *slash = strrchr(path, '/');
     size_t dirlen = slash ? (size_t)(slash - path + 1) : 0;
-    size_t n = strlen(path) + 48;
+    size_t baselen = strlen(path + dirlen);
+    if (baselen > NAME_MAX - TMP_ROOM)
+        baselen = NAME_MAX - TMP_ROOM;
+    size_t n = dirlen + TMP_ROOM + baselen + 1;
     *tmp = hl_malloc(n);
     if (!*tmp)
         return hl_err_set(e, HL_ERR_NOMEM, "out of memory");
     for (unsigned attempt = 0; attempt < 1000; attempt++) {
-        snprintf(*tmp, n, "%.*s.%s.tmp-%ld-%u", (int)dirlen, path, path + dirlen, (long)getpid(),
-                 attempt);
-        int fd = open(*tmp, O_WRONLY | O_CREAT | O_EXCL | O_CLOEXEC, 0666);
-        if (fd >= 0) {
-            close(fd);
+        snprintf(*tmp, n, "%.*s.%.*s" TMP_TAG "%ld-%u", (int)dirlen, path, (int)baselen,
+                 path + dirlen, (long)getpid(), attempt);
+        if (create_staged(*tmp) == 0)
             return HL_OK;
-        }
         if (errno != EEXIST)
             break;
     }
@@ -180,13 +333,67 @@ enum hl_status afile_tmpname(const char *path, char **tmp, struct hl_err *e)
                       strerror(err));
 }
 
+/* PID of a name of our pattern, or 0. The test is on the last ".tmp-PID-N", so the
+ * ".NAME.tmp-PID-N" names of earlier versions (before the ".hl" tag) are found too. */
+static long staged_pid(const char *name)
+{
+    static const char tag_end[] = ".tmp-";
+    if (name[0] != '.')
+        return 0;
+    const char *tag = NULL;
+    for (const char *p = strstr(name, tag_end); p; p = strstr(p + 1, tag_end))
+        tag = p;
+    if (!tag)
+        return 0;
+    const char *p = tag + strlen(tag_end);
+    long pid = 0;
+    int digits = 0;
+    for (; *p >= '0' && *p <= '9' && digits < 10; p++, digits++)
+        pid = pid * 10 + (*p - '0');
+    if (!digits || *p++ != '-' || !(*p >= '0' && *p <= '9'))
+        return 0;
+    while (*p >= '0' && *p <= '9')
+        p++;
+    return *p ? 0 : pid;
+}
+
+int afile_sweep(const char *dir)
+{
+    DIR *d = opendir(dir);
+    if (!d)
+        return 0;
+    int removed = 0;
+    struct dirent *de;
+    while ((de = readdir(d))) {
+        long pid = staged_pid(de->d_name);
+        if (pid <= 0 || pid == (long)getpid())
+            continue;
+        /* only a process that no longer exists cannot be writing it (a live one may be
+         * another run in the same folder) */
+        if (kill((pid_t)pid, 0) == 0 || errno != ESRCH)
+            continue;
+        struct stat sb;
+        if (fstatat(dirfd(d), de->d_name, &sb, AT_SYMLINK_NOFOLLOW) != 0 || !S_ISREG(sb.st_mode) ||
+            sb.st_uid != geteuid())
+            continue;
+        if (unlinkat(dirfd(d), de->d_name, 0) == 0)
+            removed++;
+    }
+    closedir(d);
+    return removed;
+}
+
 enum hl_status afile_commit(const char *tmp, const char *path, struct hl_err *e)
 {
-    if (rename(tmp, path) != 0) {
-        int err = errno;
+    sigset_t old;
+    block_guarded(&old);
+    int bad = rename(tmp, path) != 0, err = errno;
+    if (bad)
         unlink(tmp);
+    forget(tmp);
+    sigprocmask(SIG_SETMASK, &old, NULL);
+    if (bad)
         return hl_err_set(e, HL_ERR_IO, "cannot write %s: rename failed: %s", path, strerror(err));
-    }
     return HL_OK;
 }
 
@@ -199,7 +406,7 @@ enum hl_status afile_write(const char *path, const void *data, size_t len, struc
     FILE *f = fopen(tmp, "wb");
     if (!f) {
         st = hl_err_set(e, HL_ERR_IO, "cannot write %s: %s", path, strerror(errno));
-        unlink(tmp);
+        afile_discard(tmp);
         hl_free(tmp);
         return st;
     }
@@ -211,7 +418,7 @@ enum hl_status afile_write(const char *path, const void *data, size_t len, struc
     if (fclose(f) != 0 && !err)
         err = errno ? errno : EIO;
     if (err) {
-        unlink(tmp);
+        afile_discard(tmp);
         hl_free(tmp);
         return hl_err_set(e, HL_ERR_IO, "cannot write %s: %s", path, strerror(err));
     }

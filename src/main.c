@@ -8,6 +8,7 @@
  * failure, 2 bad usage or bad input, 3 with --strict when the ledger carries
  * warnings.  Nothing is written unless the whole campaign computed cleanly.
  */
+#define _XOPEN_SOURCE 700 /* fork, sigaction, strsignal */
 #include "afile.h"
 #include "campaign.h"
 #include "hlmem.h"
@@ -18,6 +19,9 @@
 #include "xlsx_out.h"
 
 #include <cjson/cJSON.h>
+#include <signal.h>
+#include <sys/resource.h>
+#include <sys/wait.h>
 #include <errno.h>
 #include <getopt.h>
 #include <stdio.h>
@@ -176,21 +180,171 @@ static int has_ext(const char *path, const char *ext)
     return n > k && !strcmp(path + n - k, ext);
 }
 
+/* A library line on the writer's stderr: "[ERROR] ..." or "[WARNING] ..." (libxlsxwriter
+ * prints them itself). Our own message says the same with the user's file name. */
+static int library_line(const char *line)
+{
+    return !strncmp(line, "[ERROR]", 7) || !strncmp(line, "[WARNING]", 9);
+}
+
+/* Copy the child's stderr to ours until it closes, holding back the library's own lines;
+ * the first of them is kept in lib (for a writer that succeeded despite a warning). */
+static void relay_stderr(int fd, char *lib, size_t libsize)
+{
+    char line[4096];
+    size_t n = 0;
+    lib[0] = '\0';
+    for (;;) {
+        ssize_t got = read(fd, line + n, sizeof line - 1 - n);
+        if (got < 0 && errno == EINTR)
+            continue;
+        size_t end = got > 0 ? n + (size_t)got : n;
+        size_t from = 0;
+        for (size_t i = n; i < end; i++) {
+            if (line[i] != '\n' && !(got <= 0 && i + 1 == end))
+                continue;
+            line[i + (line[i] != '\n')] = '\0'; /* a last line without newline ends at i */
+            char *ln = line + from;
+            if (library_line(ln)) {
+                if (!lib[0])
+                    snprintf(lib, libsize, "%s", ln);
+            } else {
+                fprintf(stderr, "%s\n", ln);
+            }
+            from = i + 1;
+        }
+        if (got <= 0)
+            break;
+        /* keep a partial line; a line longer than the buffer is passed on in pieces */
+        n = end - from;
+        memmove(line, line + from, n);
+        if (n == sizeof line - 1) {
+            fwrite(line, 1, n, stderr);
+            n = 0;
+        }
+    }
+}
+
+/*
+ * Each writer runs in a forked child.  libxlsxwriter does not check every allocation: under
+ * an address-space limit it can die of a segmentation fault (issue 16.7), which no status
+ * value can report.  Contained in a child, such a death becomes an exit-1 message here, the
+ * staged files are removed and the targets stay as they were, whatever the writers become.
+ * The child's stderr passes through a pipe so the library's raw "[ERROR]" lines are not
+ * shown beside our message; its result (struct hl_err) comes back through a second pipe.
+ */
+static enum hl_status write_isolated(const struct ledger *l, const char *staged, int xlsx,
+                                     const char *output, struct hl_err *e, char *lib,
+                                     size_t libsize)
+{
+    int errp[2] = {-1, -1}, resp[2] = {-1, -1};
+    lib[0] = '\0';
+    fflush(NULL); /* the child must not flush our buffered output a second time */
+    if (pipe(errp) != 0 || pipe(resp) != 0) {
+        int err = errno;
+        for (int i = 0; i < 2; i++) {
+            if (errp[i] >= 0)
+                close(errp[i]);
+            if (resp[i] >= 0)
+                close(resp[i]);
+        }
+        return hl_err_set(e, HL_ERR_IO, "cannot write %s: cannot start the writer: %s", output,
+                          strerror(err));
+    }
+    pid_t pid = (pid_t)afile_fork_writer();
+    if (pid < 0) {
+        int err = errno;
+        close(errp[0]), close(errp[1]), close(resp[0]), close(resp[1]);
+        return hl_err_set(e, err == ENOMEM || err == EAGAIN ? HL_ERR_NOMEM : HL_ERR_IO,
+                          "cannot write %s: cannot start the writer: %s", output, strerror(err));
+    }
+    if (pid == 0) {
+        struct rlimit no_core = {0, 0};
+        setrlimit(RLIMIT_CORE, &no_core); /* a contained crash leaves no core file */
+        close(errp[0]);
+        close(resp[0]);
+        if (dup2(errp[1], STDERR_FILENO) < 0)
+            _exit(1);
+        close(errp[1]);
+        struct hl_err ce;
+        hl_err_clear(&ce);
+        ce.status = xlsx ? xlsx_out_write(l, staged, &ce) : json_out_write(l, staged, &ce);
+        ssize_t w = write(resp[1], &ce, sizeof ce);
+        /* exit, not _exit: leak checkers (LeakSanitizer, valgrind) judge the writer here */
+        exit(w == (ssize_t)sizeof ce ? 0 : 1);
+    }
+    close(errp[1]);
+    close(resp[1]);
+    relay_stderr(errp[0], lib, libsize);
+    close(errp[0]);
+    struct hl_err ce;
+    size_t got = 0;
+    while (got < sizeof ce) {
+        ssize_t r = read(resp[0], (char *)&ce + got, sizeof ce - got);
+        if (r < 0 && errno == EINTR)
+            continue;
+        if (r <= 0)
+            break;
+        got += (size_t)r;
+    }
+    close(resp[0]);
+    int ws = 0;
+    while (waitpid(pid, &ws, 0) < 0 && errno == EINTR)
+        ;
+    afile_writer_done();
+    if (WIFEXITED(ws) && WEXITSTATUS(ws) == 0 && got == sizeof ce) {
+        *e = ce;
+        return ce.status;
+    }
+    if (WIFSIGNALED(ws)) {
+        int sig = WTERMSIG(ws);
+        int memory = sig == SIGSEGV || sig == SIGBUS || sig == SIGABRT || sig == SIGKILL;
+        return hl_err_set(e, HL_ERR_IO, "cannot write %s: the %s writer was stopped by signal %d (%s)%s",
+                          output, xlsx ? "workbook" : "JSON", sig, strsignal(sig),
+                          memory ? "; memory is probably exhausted (libxlsxwriter does not "
+                                   "check all of its allocations): allow more memory or split "
+                                   "the campaign" : "");
+    }
+    return hl_err_set(e, HL_ERR_IO, "cannot write %s: the %s writer ended without a result (exit status %d)",
+                      output, xlsx ? "workbook" : "JSON", WIFEXITED(ws) ? WEXITSTATUS(ws) : -1);
+}
+
+/* Remove temporaries of our naming left in the folder of path by a process that is gone
+ * (an earlier run that was killed, or a writer child that crashed). */
+static int sweep_folder_of(const char *path)
+{
+    char *dir = NULL;
+    if (afile_dirname(path, &dir, NULL) != HL_OK)
+        return 0;
+    int n = afile_sweep(dir);
+    hl_free(dir);
+    return n;
+}
+
 /* Write every output or none: each is rendered to a staged file next to its target,
  * and only when all are complete are they renamed into place. A failure removes the
  * staged files and leaves every existing target as it was. */
 static int write_outputs(const struct ledger *l, const char *const *outputs, int nout)
 {
     char *staged[MAX_OUTPUTS] = {NULL};
+    char lib[512];
     struct hl_err e;
     enum hl_status st = HL_OK;
     int i, failed = -1;
     for (i = 0; i < nout; i++) {
+        int old = sweep_folder_of(outputs[i]);
+        if (old > 0)
+            fprintf(stderr, "haloledger: note: removed %d temporary file%s of an interrupted "
+                            "earlier run beside %s\n", old, old > 1 ? "s" : "", outputs[i]);
+    }
+    for (i = 0; i < nout; i++) {
         hl_err_clear(&e);
         if (!(st = afile_check_target(outputs[i], &e)) &&
             !(st = afile_tmpname(outputs[i], &staged[i], &e)))
-            st = has_ext(outputs[i], ".xlsx") ? xlsx_out_write(l, staged[i], &e)
-                                              : json_out_write(l, staged[i], &e);
+            st = write_isolated(l, staged[i], has_ext(outputs[i], ".xlsx"), outputs[i], &e, lib,
+                                sizeof lib);
+        if (!st && lib[0])
+            fprintf(stderr, "haloledger: warning: %s: libxlsxwriter said: %s\n", outputs[i], lib);
         if (st) {
             failed = i;
             break;
@@ -202,10 +356,12 @@ static int write_outputs(const struct ledger *l, const char *const *outputs, int
     char *staged_name = st && staged[failed] ? hl_strdup(staged[failed]) : NULL;
     for (i = 0; i < nout; i++) {
         if (st && staged[i])
-            unlink(staged[i]);
+            afile_discard(staged[i]);
         hl_free(staged[i]);
     }
     if (st) {
+        for (i = 0; i <= failed; i++)
+            sweep_folder_of(outputs[i]); /* what a crashed writer child left */
         /* the writers' messages name the staged file: show the output the user asked for */
         char *at = staged_name ? strstr(e.msg, staged_name) : NULL;
         if (at)
@@ -218,7 +374,6 @@ static int write_outputs(const struct ledger *l, const char *const *outputs, int
     }
     return EXIT_OK;
 }
-
 
 /* Standard output and error are checked like any other output (a full disk or a closed
  * pipe must not pass as success): exit 1 with a message when a byte was lost. */
@@ -368,5 +523,8 @@ static int run(int argc, char **argv)
 
 int main(int argc, char **argv)
 {
-    return finish(run(argc, argv));
+    afile_guard_signals();
+    int rc = finish(run(argc, argv));
+    afile_discard_all(); /* nothing staged survives an exit path that did not commit it */
+    return rc;
 }
