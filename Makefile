@@ -14,6 +14,8 @@ UNIT_SRC := $(wildcard tests/unit/test_*.c)
 UNIT_BIN := $(patsubst tests/unit/%.c,$(BUILD)/%,$(UNIT_SRC))
 TOOL_SRC := $(wildcard tests/tools/tool_*.c)
 TOOL_BIN := $(patsubst tests/tools/%.c,$(BUILD)/%,$(TOOL_SRC))
+SHIM_SRC := $(wildcard tests/tools/shim_*.c)
+SHIM_BIN := $(patsubst tests/tools/%.c,$(BUILD)/%.so,$(SHIM_SRC))
 HEADERS  := $(wildcard include/*.h) $(wildcard tests/unit/*.h)
 
 .PHONY: all deps demo test unit sanitize valgrind fuzz mutate clean print-link-flags
@@ -48,10 +50,15 @@ $(BUILD)/test_%: tests/unit/test_%.c $(BUILD)/libhalo.a $(HEADERS)
 $(BUILD)/tool_%: tests/tools/tool_%.c $(BUILD)/libhalo.a $(HEADERS)
 	$(CC) $(CFLAGS_ALL) -Itests/unit $< $(BUILD)/libhalo.a $(LDLIBS_ALL) -o $@
 
+# LD_PRELOAD shims for fault injection: no EXTRA_CFLAGS, since a sanitizer-instrumented
+# preload would have to come after the sanitizer runtime it needs.
+$(BUILD)/shim_%.so: tests/tools/shim_%.c | $(BUILD)/obj
+	$(CC) -std=c11 -Wall -Wextra -Werror -O2 -fPIC -shared $< -ldl -o $@
+
 $(BUILD)/obj:
 	mkdir -p $@
 
-unit: $(UNIT_BIN) $(TOOL_BIN)
+unit: $(UNIT_BIN) $(TOOL_BIN) $(SHIM_BIN)
 
 demo: deps
 	@$(MAKE) --no-print-directory all

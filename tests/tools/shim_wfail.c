@@ -8,6 +8,9 @@
  * reaches only the outputs, whatever writer code makes the calls.
  *
  *   HL_WFAIL_AT=N       call N (1-based) fails; 0 or unset: count only
+ *   HL_WFAIL_PERSIST=1  call N and every later one fail (a disk that stays full)
+ *   HL_WFAIL_SCOPE=named  count only files that have a name (not the unlinked scratch
+ *                       files a library writes and reads back, e.g. libxlsxwriter's)
  *   HL_WFAIL_REPORT=F   at exit of the first process, F gets "calls C" and, when call N
  *                       was reached, "failed N NAME"
  * The count lives in a shared mapping, so calls made by forked children are counted in
@@ -32,6 +35,7 @@ struct shared {
 };
 static struct shared *sh;
 static long fail_at;
+static int named_only, persist;
 static pid_t origin;
 
 __attribute__((constructor)) static void wfail_init(void)
@@ -42,6 +46,10 @@ __attribute__((constructor)) static void wfail_init(void)
     sh = m;
     const char *at = getenv("HL_WFAIL_AT");
     fail_at = at ? atol(at) : 0;
+    const char *scope = getenv("HL_WFAIL_SCOPE");
+    named_only = scope && !strcmp(scope, "named");
+    const char *p = getenv("HL_WFAIL_PERSIST");
+    persist = p && !strcmp(p, "1");
     origin = getpid();
 }
 
@@ -67,7 +75,7 @@ __attribute__((destructor)) static void wfail_report(void)
 static int regular_fd(int fd)
 {
     struct stat sb;
-    return fd >= 0 && fstat(fd, &sb) == 0 && S_ISREG(sb.st_mode);
+    return fd >= 0 && fstat(fd, &sb) == 0 && S_ISREG(sb.st_mode) && (!named_only || sb.st_nlink > 0);
 }
 
 /* Count the call; 1 when this is the call that must fail. */
@@ -76,10 +84,12 @@ static int hit(const char *name, int eligible)
     if (!sh || !eligible)
         return 0;
     long n = __atomic_add_fetch(&sh->calls, 1, __ATOMIC_SEQ_CST);
-    if (fail_at <= 0 || n != fail_at)
+    if (fail_at <= 0 || n < fail_at || (n > fail_at && !persist))
         return 0;
-    sh->failed_at = n;
-    snprintf(sh->failed_name, sizeof sh->failed_name, "%s", name);
+    if (n == fail_at) {
+        sh->failed_at = n;
+        snprintf(sh->failed_name, sizeof sh->failed_name, "%s", name);
+    }
     errno = ENOSPC;
     return 1;
 }
