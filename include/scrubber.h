@@ -25,8 +25,12 @@ enum scrub_salt { SALT_NACL, SALT_NABR, SALT_NAOCL, SALT_NAOBR, SALT_NA2SO3, SAL
 
 struct scrub_unit_in {
     const char *id;
-    int water_liquor;           /* 1: water absorption making hydrochloric acid */
-    double naoh_wt_pct, liquor_kg, min_naoh_wt_pct, max_acid_wt_pct;
+    int water_liquor;           /* 1: water absorbing HCl and HBr (hydrochloric and hydrobromic
+                                 * acid); Cl2, Br2 and SO2 pass it */
+    double naoh_wt_pct, liquor_kg, min_naoh_wt_pct;
+    double max_acid_wt_pct;     /* water: HCl strength of the changeout (0 -> 20 wt%) */
+    double max_hbr_wt_pct;      /* water: HBr strength of the changeout (0 -> 47 wt%); with both
+                                 * acids, changeout before HCl/max_acid + HBr/max_hbr passes 1 */
     double rated_acid_kmol_h, makeup_naoh_wt_pct, liquor_cp_kj_kg_k; /* cp 0 = built-in */
     int has_column;
     double packing_factor_1_m, htu_m, removal_fraction, flood_fraction;
@@ -56,8 +60,9 @@ struct scrub_run_out {
     double naoh_left_kg, liquor_kg_after, naoh_wt_pct_after;
     double salt_kg[SALT_COUNT];
     double water_formed_kg;
-    double acid_wt_pct_after;   /* water liquor: HCl wt% after the run */
-    int unabsorbed;             /* water liquor: gas other than HCl passed through (warning) */
+    double acid_wt_pct_after;   /* water liquor: HCl + HBr wt% after the run */
+    double hbr_wt_pct_after;    /* water liquor: HBr wt% after the run */
+    int unabsorbed;             /* water liquor: Cl2, Br2, SO2 passed through (warning) */
     double unabsorbed_mol;      /* that gas [mol] */
     double breakthrough_mol;    /* caustic ran out: gas left unneutralised [mol] */
     /* salt_kg is the net change of each salt in the liquor during the run: with the
@@ -69,13 +74,16 @@ struct scrub_run_out {
                                  * would boil the liquor [C] */
     double heat_kw;             /* heat_kj / vent window (feed_h / peak_factor) [kW] */
     int too_hot;                /* liquor_temp_c_after > max_liquor_temp_c: cooling needed */
+    double boiling_point_c;     /* of the liquor after the run at 1 atm: caustic, that of NaOH
+                                 * solution at naoh_wt_pct_after; water liquor 100 C [C] */
+    int boils;                  /* liquor_temp_c_after >= boiling_point_c (alarm) */
     double sulfite_oxidised_mol; /* Na2SO3 turned to Na2SO4 by hypohalite in this run [mol] */
 };
 
 /* One liquor batch sent to waste (at a changeout, and the last one at campaign end). */
 struct scrub_spent {
     int64_t at_min;             /* when it was drained (start of the next run, or last run end) */
-    double mass_kg, naoh_kg, water_kg, hcl_kg, salt_kg[SALT_COUNT];
+    double mass_kg, naoh_kg, water_kg, hcl_kg, hbr_kg, salt_kg[SALT_COUNT];
     int final;                  /* 1 = still in the unit at the end of the campaign */
 };
 
@@ -102,6 +110,7 @@ struct scrub_unit_out {
     int *peak_heat_runs; int npeak_heat_runs; /* run indices venting then, owned */
     double max_liquor_temp_c;   /* hottest adiabatic liquor temperature of the campaign [C] */
     int too_hot_runs;           /* runs with too_hot set */
+    int boiling_runs;           /* runs with boils set */
     int changeouts;
     double naoh_kg;             /* consumed over the campaign */
     double makeup_kg;           /* purchased caustic solution for the changeouts [kg of makeup_naoh_wt_pct] */
@@ -128,7 +137,7 @@ double scrub_liquor_cp_kj_kg_k(double naoh_wt_pct);
  * run_out[nruns] and unit_out[nunits] are filled; free unit_out with
  * scrub_unit_out_free. Errors only for allocation or bad arguments.
  * Defaults: peak_factor <= 0 -> 1, makeup_naoh_wt_pct <= 0 -> 50, water liquor
- * max_acid_wt_pct <= 0 -> 20. A changeout needs the unit idle (no run still venting
+ * max_acid_wt_pct <= 0 -> 20, max_hbr_wt_pct <= 0 -> 47. A changeout needs the unit idle (no run still venting
  * into it); the first fill is in place already (makeup_kg counts changeouts only).
  * A unit with no runs gets no profile and no spent batch (its liquor is unused). */
 enum hl_status scrub_campaign(const struct scrub_unit_in *units, int nunits,
@@ -169,6 +178,14 @@ double scrub_hcl_acid_density_kg_m3(double hcl_wt_pct);
 double scrub_naoh_density_kg_m3(double naoh_wt_pct);
 /* Heat capacity [kJ/(kg K)] of hydrochloric acid at a HCl mass percent 0..40 (clamped). */
 double scrub_hcl_acid_cp_kj_kg_k(double hcl_wt_pct);
+/* Density [kg/m3] of hydrobromic acid at 20 C and a HBr mass percent 0..60 (clamped). */
+double scrub_hbr_acid_density_kg_m3(double hbr_wt_pct);
+/* Density [kg/m3] of a water liquor holding both acids (additive increments over water). */
+double scrub_acid_density_kg_m3(double hcl_wt_pct, double hbr_wt_pct);
+/* Heat capacity [kJ/(kg K)] of a water liquor holding HCl and HBr (mass percents; see .c). */
+double scrub_acid_cp_kj_kg_k(double hcl_wt_pct, double hbr_wt_pct);
+/* Boiling point at 1 atm [C] of caustic soda solution at a NaOH mass percent 0..50. */
+double scrub_naoh_boiling_point_c(double naoh_wt_pct);
 /* Generalized pressure-drop correlation flooding ordinate Y at flow parameter X (see .c). */
 double scrub_gpdc_flood_y(double flow_parameter);
 

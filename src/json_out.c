@@ -411,6 +411,9 @@ static cJSON *jo_run(struct jo *w, const struct ledger *l, int i)
     jo_num(w, sc, "unabsorbed_mol", s->unabsorbed_mol);
     jo_num(w, sc, "caustic_solution_kg", r->changeout_caustic_solution_kg);
     jo_num(w, sc, "dilution_water_kg", r->changeout_water_kg);
+    jo_num(w, sc, "hbr_wt_pct_after", s->hbr_wt_pct_after);
+    jo_num(w, sc, "boiling_point_c", s->boiling_point_c);
+    jo_bool(w, sc, "boils", s->boils);
 
     cJSON *eb = jo_obj(w, o, "element_balance");
     jo_num(w, eb, "max_rel_error", b->max_rel_error);
@@ -601,6 +604,7 @@ static cJSON *jo_scrubber(struct jo *w, const struct ledger *l, int i)
     }
     jo_num(w, o, "max_liquor_temp_c", s->max_liquor_temp_c);
     jo_num(w, o, "too_hot_runs", s->too_hot_runs);
+    jo_num(w, o, "boiling_runs", s->boiling_runs);
     cJSON *h = jo_obj(w, o, "hourly");
     if (s->nhours > 0)
         jo_date(w, h, "start", s->hour0_min, 0);
@@ -624,6 +628,7 @@ static cJSON *jo_scrubber(struct jo *w, const struct ledger *l, int i)
         jo_num(w, so, "naoh_kg", b->naoh_kg);
         jo_num(w, so, "water_kg", b->water_kg);
         jo_num(w, so, "hcl_kg", b->hcl_kg);
+        jo_num(w, so, "hbr_kg", b->hbr_kg);
         cJSON *salts = jo_obj(w, so, "salts_kg");
         for (int q = 0; q < SALT_COUNT && salts; q++)
             jo_num(w, salts, jo_salt_key[q], b->salt_kg[q]);

@@ -88,6 +88,44 @@ static void join_run_ids(const struct ledger *l, const int *idx, int n, char *bu
     }
 }
 
+/* A liquor reaching its boiling point (issue: an alarm of its own, apart from cooling):
+ * the runs whose adiabatic liquor temperature reaches the boiling point of the liquor at
+ * 1 atm, the basis named (scrubber.h), the worst margin quoted. */
+static enum hl_status warn_boiling(struct ledger *l, struct hl_err *e, int u, int water)
+{
+    const struct ledger_scrubber *s = &l->scrubbers[u];
+    char runs[240];
+    size_t len = 0;
+    int n = 0;
+    double worst_t = 0, worst_bp = 0, worst = -HUGE_VAL;
+    runs[0] = '\0';
+    for (int i = 0; i < l->nruns; i++) {
+        const struct scrub_run_out *ro = &l->runs[i].scrub;
+        if (l->runs[i].scrubber_index != u || !ro->boils)
+            continue;
+        if (ro->liquor_temp_c_after - ro->boiling_point_c > worst) {
+            worst = ro->liquor_temp_c_after - ro->boiling_point_c;
+            worst_t = ro->liquor_temp_c_after;
+            worst_bp = ro->boiling_point_c;
+        }
+        const char *id = l->runs[i].id;
+        if (len + strlen(id) + 6 < sizeof runs)
+            len += (size_t)snprintf(runs + len, sizeof runs - len, "%s%s", n ? ", " : "", id);
+        else if (len + 6 < sizeof runs)
+            len += (size_t)snprintf(runs + len, sizeof runs - len, ", ...");
+        n++;
+    }
+    if (!n)
+        return HL_OK;
+    return warn(l, e, NULL,
+                "scrubber %s liquor would boil in %d run%s (%s): its adiabatic temperature "
+                "reaches %.0f C against a boiling point of %.0f C at 1 atm (%s); acid gas and "
+                "steam would leave the scrubber",
+                s->id, n, n == 1 ? "" : "s", runs, worst_t, worst_bp,
+                water ? "water: the acids boil higher up to their azeotropes"
+                                           : "NaOH solution at the liquor's strength, salts ignored");
+}
+
 /* Add an assumption unless one with the same text is listed (the list stays short:
  * a few dozen distinct values, so a scan is cheaper than a hash). */
 static enum hl_status assume(struct ledger *l, struct hl_err *e, const char *what, int has_value,
@@ -661,7 +699,7 @@ static enum hl_status collect_warnings(const struct campaign *c, struct ledger *
                       "(%.2f wt%% after it); overlapping runs leave no time for a changeout",
                       r->scrubber, r->scrub.naoh_wt_pct_after);
         if (!st && r->scrub.unabsorbed)
-            st = warn(l, e, r->id, "scrubber %s has a water liquor: %.1f mol of Cl2/Br2/SO2/HBr "
+            st = warn(l, e, r->id, "scrubber %s has a water liquor: %.1f mol of Cl2/Br2/SO2 "
                       "pass it unabsorbed", r->scrubber, r->scrub.unabsorbed_mol);
     }
     for (int u = 0; u < l->nscrubbers && !st; u++) {
@@ -699,6 +737,8 @@ static enum hl_status collect_warnings(const struct campaign *c, struct ledger *
                       s->id, hot_t, hottest ? hottest : "?", c->scrubbers[u].max_liquor_temp_c,
                       o->too_hot_runs, o->peak_heat_kw, when_heat, runs);
         }
+        if (!st && o->boiling_runs > 0)
+            st = warn_boiling(l, e, u, c->scrubbers[u].liquor == CAMP_LIQUOR_WATER);
     }
     /* NaOH order lines add the solution every unit buys: one strength or the sum mixes
      * unlike things */

@@ -53,7 +53,8 @@ static const char *const salt_names[SALT_COUNT] = {"NaCl", "NaBr", "NaOCl", "NaO
  * ion values recalled without the table in hand are marked "from memory". */
 enum tsp {
     T_H2O, T_HCL_G, T_HCL_AQ, T_HBR_G, T_CL2_G, T_BR2_G, T_SO2_G, T_NAOH_AQ,
-    T_NACL_AQ, T_NABR_AQ, T_NAOCL_AQ, T_NAOBR_AQ, T_NA2SO3_AQ, T_NA2SO4_AQ, T_COUNT
+    T_NACL_AQ, T_NABR_AQ, T_NAOCL_AQ, T_NAOBR_AQ, T_NA2SO3_AQ, T_NA2SO4_AQ,
+    T_HBR_G_NBS, T_HBR_AQ, T_COUNT
 };
 /* ion values (NBS 1982): Na+(aq) -240.12; ClO-(aq) -107.1, BrO-(aq) -94.1, SO3^2-(aq) -635.5,
  * SO4^2-(aq) -909.27 (from memory; the CODATA 1989 key value is -909.34, from memory) */
@@ -78,6 +79,11 @@ static const struct scrub_dfh dfh[T_COUNT] = {
     [T_NA2SO4_AQ] = {"Na2SO4(aq)", 2 * DFH_NA_ION - 909.27,
                      "2 Na+(aq) (NBS 1982) + SO4^2-(aq) -909.27 (NBS 1982, from memory); the "
                      "NBS entry Na2SO4(aq) -1389.51 is the same sum (from memory)"},
+    /* HBr dissolving in a water liquor: both values from the NBS tables, so the heat of
+     * solution is that of one table (as HCl(g) -> HCl(aq) above) */
+    [T_HBR_G_NBS] = {"HBr(g), with HBr(ao)", -36.40,
+                     "NBS 1982 (used with HBr(ao) for the heat of solution in water)"},
+    [T_HBR_AQ] = {"HBr(ao)", -121.55, "NBS 1982, equal to Br-(ao) (H+(ao) = 0) (from memory)"},
 };
 
 const struct scrub_dfh *scrub_dfh_get(int i)
@@ -106,9 +112,11 @@ double scrub_heat_kj_per_mol(int vs, int water_liquor)
     if (vs < 0 || vs >= VS_COUNT)
         return 0;
     if (water_liquor)
-        /* Only HCl is credited as absorbed in water (HCl(g) -> HCl(aq)); the
-         * other gases pass through and the run is flagged. */
-        return vs == VS_HCL ? -(dfh[T_HCL_AQ].dfh_kj_mol - dfh[T_HCL_G].dfh_kj_mol) : 0;
+        /* Water absorbs the acid gases (HCl(g) -> HCl(aq), HBr(g) -> HBr(ao)); Cl2, Br2
+         * and SO2 pass through and the run is flagged. */
+        return vs == VS_HCL   ? -(dfh[T_HCL_AQ].dfh_kj_mol - dfh[T_HCL_G].dfh_kj_mol)
+               : vs == VS_HBR ? -(dfh[T_HBR_AQ].dfh_kj_mol - dfh[T_HBR_G_NBS].dfh_kj_mol)
+                              : 0;
     const struct rxn *r = &rxns[vs];
     double h = dfh[T_H2O].dfh_kj_mol - dfh[r->gas].dfh_kj_mol - r->naoh * dfh[T_NAOH_AQ].dfh_kj_mol;
     for (int k = 0; k < 2; k++)
@@ -198,6 +206,49 @@ static const struct pt hcl_cp[] = {{0, 4.18}, {16.8, 3.01}, {28.8, 2.55}, {33.6,
 
 double scrub_hcl_acid_cp_kj_kg_k(double wt) { return interp(hcl_cp, NPT(hcl_cp), wt); }
 
+/* Hydrobromic acid, density at 20 C [g/cm3] vs HBr mass percent: CRC Handbook of
+ * Chemistry and Physics, "Concentrative properties of aqueous solutions"; values from
+ * memory of that table (suppliers give about 1.49 for the 48 % commercial acid). */
+static const struct pt hbr_rho[] = {{0, 0.99820}, {10, 1.0723}, {20, 1.1579}, {30, 1.2580},
+                                    {40, 1.3772}, {50, 1.5173}, {60, 1.6787}};
+
+double scrub_hbr_acid_density_kg_m3(double wt) { return 1000.0 * interp(hbr_rho, NPT(hbr_rho), wt); }
+
+/* A water liquor holding both acids: each acid adds its own density increment over water
+ * at its own strength (additive increments, an assumption good at the low strengths of a
+ * scrubber liquor). */
+double scrub_acid_density_kg_m3(double hcl_wt_pct, double hbr_wt_pct)
+{
+    double w = 1000.0 * hcl_rho[0].y;
+    return scrub_hcl_acid_density_kg_m3(hcl_wt_pct) + scrub_hbr_acid_density_kg_m3(hbr_wt_pct) - w;
+}
+
+/* Heat capacity of a water liquor holding HCl and HBr.  No hydrobromic acid table was at
+ * hand, so the hydrochloric acid table is read at the same acid mole fraction and the
+ * molar heat capacity of the solution taken as equal (assumption): cp = cp_HCl(w') x
+ * M' / M, w' the HCl mass fraction of that equivalent acid, M' and M the mean molar masses
+ * of the equivalent and the real solution.  Without HBr this is the HCl table itself. */
+double scrub_acid_cp_kj_kg_k(double hcl_wt_pct, double hbr_wt_pct)
+{
+    double m_hcl = W_H + W_CL, m_hbr = W_H + W_BR;
+    double n1 = hcl_wt_pct / m_hcl, n2 = hbr_wt_pct / m_hbr;
+    double nw = (100.0 - hcl_wt_pct - hbr_wt_pct) / M_H2O, n = n1 + n2 + nw;
+    if (!(hbr_wt_pct > 0) || !(n > 0))
+        return scrub_hcl_acid_cp_kj_kg_k(hcl_wt_pct);
+    double x = (n1 + n2) / n;
+    double m_eq = x * m_hcl + (1 - x) * M_H2O, m_real = (n1 * m_hcl + n2 * m_hbr + nw * M_H2O) / n;
+    return scrub_hcl_acid_cp_kj_kg_k(100.0 * x * m_hcl / m_eq) * m_eq / m_real;
+}
+
+/* Boiling point at 1 atm [C] of caustic soda solution vs NaOH mass percent: from memory of
+ * the CRC Handbook / Perry's tables of boiling points of aqueous NaOH (50 % boils near
+ * 143 C).  The liquor is judged at its NaOH strength alone: the salts formed raise its
+ * boiling point further, so the alarm comes early, never late (conservative). */
+static const struct pt naoh_bp[] = {{0, 100.0}, {10, 102.8}, {20, 108.0}, {30, 117.0},
+                                    {40, 128.0}, {50, 143.0}};
+
+double scrub_naoh_boiling_point_c(double naoh_wt_pct) { return interp(naoh_bp, NPT(naoh_bp), naoh_wt_pct); }
+
 /* Caustic soda viscosity at 20 C [mPa s], from memory (approximate); it enters the
  * flooding correlation only as mu^0.2, so a 2x error moves the diameter by ~4 %. */
 static const struct pt naoh_mu[] = {{0, 1.00}, {10, 1.9}, {20, 4.5}, {30, 11.0},
@@ -277,6 +328,13 @@ static void column_check(const struct scrub_unit_in *u, double peak_kmol_h, doub
 
 #define MAX_HOURS (20L * 366 * 24) /* a load profile longer than 20 years is a bad input */
 #define DEFAULT_MAX_ACID_WT_PCT 20.0 /* same default as campaign.c (HCl-water azeotrope, from memory) */
+/* A water liquor is taken to boil at 100 C, water at 1 atm: hydrochloric and hydrobromic
+ * acid boil higher up to their maximum-boiling azeotropes (about 108.6 C at 20.2 wt% HCl,
+ * 124.3 C at 47.6 wt% HBr, CRC Handbook azeotrope table, from memory), so below them
+ * the alarm comes early, never late.  Past an azeotrope the acid boils lower and gives off
+ * its gas: the changeout strengths keep a liquor under them by default. */
+#define ACID_BOIL_C 100.0
+#define DEFAULT_MAX_HBR_WT_PCT 47.0  /* under the HBr-water azeotrope, about 47.6 wt% (from memory) */
 #define DEFAULT_MAKEUP_WT_PCT 50.0   /* purchased caustic soda 50 %: common practice */
 #define DEFAULT_FRESH_TEMP_C 25.0    /* liquor charged at about room temperature: common practice */
 /* Hypochlorite liquor is kept below about 40 C: above it hypochlorite disproportionates to
@@ -295,7 +353,7 @@ void scrub_fresh_charge(double liquor_kg, double naoh_wt_pct, double makeup_naoh
 }
 
 struct liq {
-    double naoh, water, hcl, salt[SALT_COUNT]; /* kg in the unit */
+    double naoh, water, hcl, hbr, salt[SALT_COUNT]; /* kg in the unit */
     double temp_c;           /* adiabatic liquor temperature: no cooling since the last fill */
     int dirty;               /* something absorbed since the last fill */
     int used;                /* any run on this unit */
@@ -310,7 +368,7 @@ struct liq {
 
 static double liq_mass(const struct liq *q)
 {
-    double m = q->naoh + q->water + q->hcl;
+    double m = q->naoh + q->water + q->hcl + q->hbr;
     for (int s = 0; s < SALT_COUNT; s++)
         m += q->salt[s];
     return m;
@@ -326,7 +384,7 @@ static void fill(const struct scrub_unit_in *u, struct liq *q)
 {
     q->naoh = u->water_liquor ? 0 : u->liquor_kg * u->naoh_wt_pct / 100.0;
     q->water = u->liquor_kg - q->naoh;
-    q->hcl = 0;
+    q->hcl = q->hbr = 0;
     memset(q->salt, 0, sizeof q->salt);
     q->temp_c = fresh_temp_c(u);
     q->dirty = 0;
@@ -349,9 +407,23 @@ static enum hl_status push_spent(struct scrub_unit_out *o, struct liq *q, int64_
     s->naoh_kg = q->naoh;
     s->water_kg = q->water;
     s->hcl_kg = q->hcl;
+    s->hbr_kg = q->hbr;
     memcpy(s->salt_kg, q->salt, sizeof s->salt_kg);
     s->final = final;
     return HL_OK;
+}
+
+/* Water liquor: how far the acid has gone towards its changeout strength, as the sum of
+ * each acid's strength over its own limit (HCl: max_acid_wt_pct, default 20, near its
+ * azeotrope of 20.2 wt%; HBr: max_hbr_wt_pct, default 47, under its azeotrope of about
+ * 47.6 wt% - both azeotropes at 1 atm, CRC Handbook azeotrope table, from memory).  A
+ * linear share rule for a mixed acid (assumption); 1 is the limit.  Strengths in wt% of
+ * the whole liquor. */
+static double acid_load(const struct scrub_unit_in *u, double hcl_wt_pct, double hbr_wt_pct)
+{
+    double max_hcl = u->max_acid_wt_pct > 0 ? u->max_acid_wt_pct : DEFAULT_MAX_ACID_WT_PCT;
+    double max_hbr = u->max_hbr_wt_pct > 0 ? u->max_hbr_wt_pct : DEFAULT_MAX_HBR_WT_PCT;
+    return hcl_wt_pct / max_hcl + hbr_wt_pct / max_hbr;
 }
 
 /* Would absorbing vent (mol) break the liquor limit? Caustic: NaOH wt% below the
@@ -362,11 +434,11 @@ static int over_limit(const struct scrub_unit_in *u, const struct liq *q, const 
 {
     double gas_kg = 0, naoh_kg = 0;
     if (u->water_liquor) {
-        gas_kg = vent[VS_HCL] * gas_mm[VS_HCL] / 1000.0;
-        if (!(gas_kg > 0))
+        double hcl = vent[VS_HCL] * gas_mm[VS_HCL] / 1000.0, hbr = vent[VS_HBR] * gas_mm[VS_HBR] / 1000.0;
+        if (!(hcl + hbr > 0))
             return 0;
-        double max = u->max_acid_wt_pct > 0 ? u->max_acid_wt_pct : DEFAULT_MAX_ACID_WT_PCT;
-        return (q->hcl + gas_kg) / (liq_mass(q) + gas_kg) * 100.0 > max;
+        double m = liq_mass(q) + hcl + hbr;
+        return acid_load(u, (q->hcl + hcl) / m * 100.0, (q->hbr + hbr) / m * 100.0) > 1.0;
     }
     for (int v = 0; v < VS_COUNT; v++) {
         gas_kg += vent[v] * gas_mm[v] / 1000.0;
@@ -412,14 +484,16 @@ static void sulfite_redox(struct liq *q, struct scrub_run_out *r)
 static void absorb(const struct scrub_unit_in *u, struct liq *q, const double *vent,
                    struct scrub_run_out *r)
 {
-    double wt_before = 0, mass_before = liq_mass(q);
+    double wt_before = 0, hcl_before = 0, hbr_before = 0, mass_before = liq_mass(q);
     if (u->water_liquor) {
-        wt_before = mass_before > 0 ? q->hcl / mass_before * 100.0 : 0;
-        double kg = vent[VS_HCL] * gas_mm[VS_HCL] / 1000.0;
-        q->hcl += kg;
-        r->heat_kj = vent[VS_HCL] * scrub_heat_kj_per_mol(VS_HCL, 1);
+        hcl_before = mass_before > 0 ? q->hcl / mass_before * 100.0 : 0;
+        hbr_before = mass_before > 0 ? q->hbr / mass_before * 100.0 : 0;
+        q->hcl += vent[VS_HCL] * gas_mm[VS_HCL] / 1000.0;
+        q->hbr += vent[VS_HBR] * gas_mm[VS_HBR] / 1000.0;
+        r->heat_kj = vent[VS_HCL] * scrub_heat_kj_per_mol(VS_HCL, 1) +
+                     vent[VS_HBR] * scrub_heat_kj_per_mol(VS_HBR, 1);
         for (int v = 0; v < VS_COUNT; v++)
-            if (v != VS_HCL)
+            if (v != VS_HCL && v != VS_HBR)
                 r->unabsorbed_mol += vent[v];
         r->unabsorbed = r->unabsorbed_mol > 0;
     } else {
@@ -460,7 +534,7 @@ static void absorb(const struct scrub_unit_in *u, struct liq *q, const double *v
      * starts with (an input cp overrides the built-in tables).  No cooling: the rises
      * add up until the next fresh charge (pessimistic). */
     double cp = u->liquor_cp_kj_kg_k > 0 ? u->liquor_cp_kj_kg_k
-                : u->water_liquor ? scrub_hcl_acid_cp_kj_kg_k(wt_before)
+                : u->water_liquor ? scrub_acid_cp_kj_kg_k(hcl_before, hbr_before)
                                   : scrub_liquor_cp_kj_kg_k(wt_before);
     r->temp_rise_k = mass > 0 ? r->heat_kj / (mass * cp) : 0;
     q->temp_c += r->temp_rise_k;
@@ -470,7 +544,10 @@ static void absorb(const struct scrub_unit_in *u, struct liq *q, const double *v
     r->naoh_left_kg = q->naoh;
     r->liquor_kg_after = mass;
     r->naoh_wt_pct_after = mass > 0 ? q->naoh / mass * 100.0 : 0;
-    r->acid_wt_pct_after = u->water_liquor && mass > 0 ? q->hcl / mass * 100.0 : 0;
+    r->acid_wt_pct_after = u->water_liquor && mass > 0 ? (q->hcl + q->hbr) / mass * 100.0 : 0;
+    r->hbr_wt_pct_after = u->water_liquor && mass > 0 ? q->hbr / mass * 100.0 : 0;
+    r->boiling_point_c = u->water_liquor ? ACID_BOIL_C : scrub_naoh_boiling_point_c(r->naoh_wt_pct_after);
+    r->boils = q->temp_c >= r->boiling_point_c;
 }
 static enum hl_status check_inputs(const struct scrub_unit_in *units, int nunits,
                                    const struct scrub_run_in *runs, int nruns, const int *order,
@@ -491,8 +568,9 @@ static enum hl_status check_inputs(const struct scrub_unit_in *units, int nunits
             return hl_err_set(e, HL_ERR_INPUT,
                               "scrubber %s: liquor temperatures must be finite and above -273.15 C",
                               id);
-        if (u->water_liquor && !(u->max_acid_wt_pct < 100))
-            return hl_err_set(e, HL_ERR_INPUT, "scrubber %s: max_acid_wt_pct must be < 100", id);
+        if (u->water_liquor && (!(u->max_acid_wt_pct < 100) || !(u->max_hbr_wt_pct < 100)))
+            return hl_err_set(e, HL_ERR_INPUT,
+                              "scrubber %s: max_acid_wt_pct and max_hbr_wt_pct must be < 100", id);
         if (u->has_column &&
             (!(u->packing_factor_1_m > 0) || !(u->htu_m > 0) || !(u->removal_fraction > 0) ||
              !(u->removal_fraction < 1) || !(u->flood_fraction > 0) || !(u->flood_fraction <= 1) ||
@@ -871,6 +949,7 @@ enum hl_status scrub_campaign(const struct scrub_unit_in *units, int nunits,
         if (ro->liquor_temp_c_after > o->max_liquor_temp_c)
             o->max_liquor_temp_c = ro->liquor_temp_c_after;
         o->too_hot_runs += ro->too_hot;
+        o->boiling_runs += ro->boils;
     }
 
     /* Per unit: the profile, its peak, the final liquor and the caustic make-up. */

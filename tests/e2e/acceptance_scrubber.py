@@ -515,6 +515,30 @@ def main():
             check("overloaded" in p.stderr and "OV-D" in p.stderr,
                   f"tiny feed_h: no overload warning naming OV-D: {p.stderr.strip()!r}")
 
+        # issue 8 item 6: a liquor reaching its boiling point is an alarm of its own.  Water
+        # liquor (basis: water boils at 100 C at 1 atm), 1000 kg at 25 C, one run venting n mol
+        # HCl (Cl2 all reacted: HCl = Cl2 charged), 74.852 kJ/mol (NBS 1982: -167.159 + 92.307),
+        # cp of fresh water 4.18 kJ/(kg K): 4900 mol -> 25 + 366775 / (1178.65 x 4.18) = 99.44 C,
+        # below; 5000 mol -> 100.73 C, boils.  No other warning: --strict exits 0, then 3.
+        for n_mol, boils in ((4900, False), (5000, True)):
+            c = json.loads(json.dumps(base))
+            c["scrubbers"] = [{"id": "VS-W", "liquor": "water", "liquor_kg": 1000, "max_acid_wt_pct": 30,
+                               "max_liquor_temp_c": 150, "rated_acid_kmol_h": 100}]
+            c["runs"] = [dict(c["runs"][0], id="BW-1", scrubber="VS-W", reagent_kg=n_mol * GAS_M["Cl2"] / 1000)]
+            c["runs"][0].pop("reagent_eq", None)
+            path = os.path.join(tmp, f"boil-{n_mol}.json")
+            with open(path, "w") as f:
+                json.dump(c, f)
+            p = run(["check", "--strict", path])
+            hot = 25 + n_mol * 74.852 / ((1000 + n_mol * GAS_M["HCl"] / 1000) * 4.18)
+            msg = [ln for ln in p.stderr.splitlines() if "would boil" in ln]
+            if boils:
+                check(p.returncode == 3 and len(msg) == 1 and "BW-1" in msg[0] and f"{hot:.0f} C" in msg[0]
+                      and "100 C" in msg[0], f"boil {n_mol} mol ({hot:.2f} C): exit {p.returncode}, {msg}")
+            else:
+                check(p.returncode == 0 and not msg, f"boil {n_mol} mol ({hot:.2f} C, below 100): exit "
+                      f"{p.returncode}, {p.stderr.strip()!r}")
+
         def half(c):            # B from 07:30: 07:00 hour holds 1 + 0.5 = 1.5 = rated, not over it,
             c["runs"][1]["start"] = "2027-03-10T07:30"   # but 07:30-08:00 runs at 2 > 1.5: overloaded
         led = variant("half-hour", half, True)

@@ -1011,6 +1011,117 @@ static void shortest_window(void)
     CU_ASSERT_EQUAL(go(&u, 1, &r, 1, &ro, &uo), HL_ERR_INPUT);
 }
 
+/* Issue 8 item 5: a water liquor absorbs HBr as hydrobromic acid.  By hand:
+ * heat of solution HBr(g) -> HBr(ao) from the NBS 1982 tables, -121.55 - (-36.40) =
+ * -85.15 kJ/mol; M(HBr) = 1.008 + 79.904 = 80.912 g/mol (CIAAW 2021 abridged).
+ * 2000 mol = 161.824 kg into 1000 kg water: 161.824 / 1161.824 = 13.929 wt%,
+ * heat 170300 kJ, rise with fresh water's cp 4.18: 170300 / (1161.824 x 4.18) = 35.067 K. */
+static void water_liquor_hbr(void)
+{
+    ASSERT_ABS(scrub_heat_kj_per_mol(VS_HBR, 1), 85.15, 1e-9);
+    struct scrub_unit_in u = {.id = "W", .water_liquor = 1, .liquor_kg = 1000};
+    struct scrub_run_in r[2] = {run_at("2027-03-02T06:00", 2, VS_HBR, 2000),
+                                run_at("2027-03-03T06:00", 2, VS_HBR, 2000)};
+    r[1].vent_mol[VS_CL2] = 30;
+    r[1].vent_mol[VS_BR2] = 20;
+    r[1].vent_mol[VS_SO2] = 10;
+    struct scrub_run_out ro[2];
+    struct scrub_unit_out uo;
+    CU_ASSERT_EQUAL_FATAL(go(&u, 1, r, 2, ro, &uo), HL_OK);
+    ASSERT_ABS(ro[0].hbr_wt_pct_after, 13.929, 1e-3);
+    ASSERT_ABS(ro[0].acid_wt_pct_after, 13.929, 1e-3);
+    ASSERT_ABS(ro[0].heat_kj, 170300, 1e-6);
+    ASSERT_ABS(ro[0].temp_rise_k, 35.067, 1e-3);
+    CU_ASSERT_EQUAL(ro[0].unabsorbed, 0);
+    /* only Cl2, Br2 and SO2 pass a water liquor */
+    CU_ASSERT_EQUAL(ro[1].unabsorbed, 1);
+    ASSERT_ABS(ro[1].unabsorbed_mol, 60, 0);
+    /* 4000 mol = 323.648 kg: 323.648 / 1323.648 = 24.451 wt%, under the 47 wt% default */
+    CU_ASSERT_EQUAL(ro[1].changeout_before, 0);
+    ASSERT_ABS(ro[1].hbr_wt_pct_after, 24.451, 1e-3);
+    CU_ASSERT_EQUAL(uo.nspent, 1);
+    if (uo.nspent == 1)
+        ASSERT_ABS(uo.spent[0].hbr_kg, 323.648, 1e-9);
+    scrub_unit_out_free(&uo, 1);
+    /* the HBr limit: 8000 mol = 647.296 kg is 39.294 wt%; twice that would be 56.42 wt% >
+     * 47: changeout before the second run (the HCl limit of 20 wt% does not apply to HBr) */
+    r[0].vent_mol[VS_HBR] = r[1].vent_mol[VS_HBR] = 8000;
+    CU_ASSERT_EQUAL_FATAL(go(&u, 1, r, 2, ro, &uo), HL_OK);
+    ASSERT_ABS(ro[0].hbr_wt_pct_after, 39.294, 1e-3);
+    CU_ASSERT_EQUAL(ro[1].changeout_before, 1);
+    scrub_unit_out_free(&uo, 1);
+    /* both acids: A 2000 mol HCl (72.916 kg), B 2000 mol HBr (161.824 kg) would leave 5.905
+     * wt% HCl and 13.106 wt% HBr in 1234.740 kg; each under its own limit (10, 20) but
+     * 5.905 / 10 + 13.106 / 20 = 1.246 > 1: changeout before B.  With limits 20 and 47:
+     * 0.295 + 0.279 = 0.574, no changeout. */
+    struct scrub_run_in m[2] = {run_at("2027-03-02T06:00", 2, VS_HCL, 2000),
+                                run_at("2027-03-03T06:00", 2, VS_HBR, 2000)};
+    u.max_acid_wt_pct = 10;
+    u.max_hbr_wt_pct = 20;
+    CU_ASSERT_EQUAL_FATAL(go(&u, 1, m, 2, ro, &uo), HL_OK);
+    CU_ASSERT_EQUAL(ro[1].changeout_before, 1);
+    scrub_unit_out_free(&uo, 1);
+    u.max_acid_wt_pct = u.max_hbr_wt_pct = 0;
+    CU_ASSERT_EQUAL_FATAL(go(&u, 1, m, 2, ro, &uo), HL_OK);
+    CU_ASSERT_EQUAL(ro[1].changeout_before, 0);
+    ASSERT_ABS(ro[1].acid_wt_pct_after, (72.916 + 161.824) / 1234.740 * 100, 1e-9);
+    ASSERT_ABS(ro[1].hbr_wt_pct_after, 161.824 / 1234.740 * 100, 1e-9);
+    scrub_unit_out_free(&uo, 1);
+    /* densities: water at 20 C 0.99820 g/cm3 (IAPWS-95); 48 wt% commercial hydrobromic
+     * acid about 1.49 g/cm3 (suppliers' data sheets, from memory), within 1 % */
+    ASSERT_ABS(scrub_hbr_acid_density_kg_m3(0), 998.20, 0.01);
+    ASSERT_REL(scrub_hbr_acid_density_kg_m3(48), 1490, 0.01);
+    ASSERT_ABS(scrub_acid_density_kg_m3(10, 0), scrub_hcl_acid_density_kg_m3(10), 1e-9);
+    /* cp: with no HBr the HCl table itself; HBr at equal mole fraction lowers cp per kg */
+    ASSERT_ABS(scrub_acid_cp_kj_kg_k(16.8, 0), scrub_hcl_acid_cp_kj_kg_k(16.8), 0);
+    CU_ASSERT(scrub_acid_cp_kj_kg_k(0, 20) < 4.18 && scrub_acid_cp_kj_kg_k(0, 20) > 2.5);
+}
+
+/* Issue 8 item 6: a liquor reaching its boiling point.  Water liquor, basis 100 C (water at
+ * 1 atm).  1000 kg water at 25 C takes n mol HCl, 74.852 kJ/mol (NBS 1982), cp 4.18 (fresh):
+ * 4900 mol (178.65 kg): 366775 / (1178.65 x 4.18) = 74.44 K -> 99.44 C, below;
+ * 5000 mol (182.30 kg): 374260 / (1182.30 x 4.18) = 75.73 K -> 100.73 C, boils. */
+static void boiling_liquor(void)
+{
+    const double mol[2] = {4900, 5000};
+    const double want_t[2] = {99.44, 100.73};
+    for (int k = 0; k < 2; k++) {
+        struct scrub_unit_in u = {.id = "W", .water_liquor = 1, .liquor_kg = 1000,
+                                  .max_acid_wt_pct = 30, .max_liquor_temp_c = 150};
+        struct scrub_run_in r = run_at("2027-03-02T06:00", 2, VS_HCL, mol[k]);
+        struct scrub_run_out ro;
+        struct scrub_unit_out uo;
+        CU_ASSERT_EQUAL_FATAL(go(&u, 1, &r, 1, &ro, &uo), HL_OK);
+        ASSERT_ABS(ro.liquor_temp_c_after, want_t[k], 0.01);
+        ASSERT_ABS(ro.boiling_point_c, 100, 0);
+        CU_ASSERT_EQUAL(ro.boils, k);
+        CU_ASSERT_EQUAL(uo.boiling_runs, k);
+        CU_ASSERT_EQUAL(ro.too_hot, 0);
+        scrub_unit_out_free(&uo, 1);
+    }
+    /* caustic: boiling point of NaOH solution at the strength after the run.  Water
+     * boils at 99.97 C at 101.325 kPa (IAPWS-95); 50 wt% caustic soda near 143 C
+     * (suppliers' data sheets, from memory); rising with strength in between. */
+    ASSERT_ABS(scrub_naoh_boiling_point_c(0), 99.97, 0.05);
+    ASSERT_ABS(scrub_naoh_boiling_point_c(50), 143, 3);
+    for (int w = 1; w <= 50; w++)
+        CU_ASSERT(scrub_naoh_boiling_point_c(w) > scrub_naoh_boiling_point_c(w - 1));
+    /* 1000 kg of 18 % NaOH takes 3000 mol HCl (130.679 kJ/mol): 392037 kJ into 1109.35 kg
+     * at cp 3.628 (table at 18 %) is a 97.4 K rise, 122 C; NaOH left 60.009 kg = 5.409 wt%,
+     * whose boiling point is a little above 100 C: boils */
+    struct scrub_unit_in c = caustic(1000, 18, 2);
+    struct scrub_run_in r = run_at("2027-03-02T06:00", 2, VS_HCL, 3000);
+    struct scrub_run_out ro;
+    struct scrub_unit_out uo;
+    CU_ASSERT_EQUAL_FATAL(go(&c, 1, &r, 1, &ro, &uo), HL_OK);
+    ASSERT_ABS(ro.naoh_wt_pct_after, 5.409, 1e-3);
+    ASSERT_ABS(ro.liquor_temp_c_after, 122.4, 0.1);
+    ASSERT_ABS(ro.boiling_point_c, scrub_naoh_boiling_point_c(ro.naoh_wt_pct_after), 0);
+    CU_ASSERT(ro.boiling_point_c > 100 && ro.boiling_point_c < 103);
+    CU_ASSERT_EQUAL(ro.boils, 1);
+    scrub_unit_out_free(&uo, 1);
+}
+
 int main(void)
 {
     static const struct cu_case cases[] = {
@@ -1031,6 +1142,8 @@ int main(void)
         {"sulfite meets hypochlorite", sulfite_meets_hypochlorite},
         {"many runs linear", many_runs_linear},
         {"water liquor", water_liquor},
+        {"water liquor absorbs HBr", water_liquor_hbr},
+        {"boiling liquor", boiling_liquor},
         {"NTU", ntu_values},
         {"column", column},
         {"bad inputs", bad_inputs},
