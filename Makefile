@@ -18,7 +18,7 @@ SHIM_SRC := $(wildcard tests/tools/shim_*.c)
 SHIM_BIN := $(patsubst tests/tools/%.c,$(BUILD)/%.so,$(SHIM_SRC))
 HEADERS  := $(wildcard include/*.h) $(wildcard tests/unit/*.h)
 
-.PHONY: all deps demo test unit sanitize valgrind fuzz mutate clean print-link-flags
+.PHONY: all deps demo test unit sanitize valgrind fuzz mutate clean print-link-flags fresh-debian
 all: $(BUILD)/haloledger
 
 deps:
@@ -27,6 +27,10 @@ deps:
 # Every -l flag of every link line (tests/e2e/link_deps.sh checks that make deps installs each).
 print-link-flags:
 	@echo $(LDLIBS_ALL) $(CUNIT_LIBS)
+
+# As root: the README's set-up, make demo and make test in a bare debootstrapped Debian 12 root.
+fresh-debian:
+	@sh tools/fresh-debian.sh
 
 $(BUILD)/obj/%.o: src/%.c $(HEADERS) | $(BUILD)/obj
 	$(CC) $(CFLAGS_ALL) -c $< -o $@

@@ -83,7 +83,7 @@ else
     mirror=$(printf '%s\n' "$entries" | awk -v s="$SUITE" '$2 == s { print $1; exit }')
     [ -n "$mirror" ] || mirror=$(printf '%s\n' "$entries" | awk '$1 ~ /^https?:/ && $2 !~ /security/ { print $1; exit }')
 fi
-[ -n "$mirror" ] || skip "no Debian mirror found in /etc/apt/sources.list or /etc/apt/sources.list.d/ (set HL_MIRROR)"
+[ -n "$mirror" ] || skip "no Debian mirror found in $APT_ETC/sources.list or $APT_ETC/sources.list.d/ (set HL_MIRROR)"
 case "$mirror" in http://*|https://*) ;; *) skip "mirror $mirror is not an http(s) URI (set HL_MIRROR)" ;; esac
 
 # The apt sources a Debian 12 installation has: the suite and its -updates from the mirror, and
@@ -127,6 +127,7 @@ git -C "$src" diff --quiet HEAD 2>/dev/null || say "note: uncommitted changes in
 work=$(mktemp -d /var/tmp/haloledger-fresh.XXXXXX) || fail "cannot create a work folder in /var/tmp"
 R=$work/root
 log=$work/fresh.log
+last_log=/var/tmp/haloledger-fresh-last.log
 mkdir "$R"
 : >"$log"
 
@@ -139,14 +140,14 @@ cleanup() {
         [ "$(readlink "$p/root" 2>/dev/null)" = "$R" ] && kill "${p#/proc/}" 2>/dev/null
     done
     for m in $(mounts_under); do umount "$m" 2>/dev/null || umount -l "$m" 2>/dev/null; done
+    cp "$log" "$last_log" 2>/dev/null && say "log of this run: $last_log"
     if [ -n "$(mounts_under)" ]; then
         say "WARNING: still mounted under $R, left in place:"; mounts_under
         [ "$rc" = 0 ] && rc=1
-    elif [ "$keep" = 1 ] || [ "$rc" != 0 ]; then
-        say "root and log kept in $work"
+    elif [ "$keep" = 1 ]; then
+        say "root kept in $R"
     else
-        cp "$log" "/var/tmp/haloledger-fresh-last.log" 2>/dev/null
-        rm -rf --one-file-system "$work"
+        rm -rf --one-file-system "$work"  # nothing is mounted under it any more
     fi
     exit "$rc"
 }
@@ -205,7 +206,7 @@ step() {
     rc=$(cat "$work/rc")
     dt=$(( $(now) - s0 ))
     say "== $name: exit $rc in $dt s"
-    [ "$rc" = 0 ] || fail "$name exited $rc (log: $log)"
+    [ "$rc" = 0 ] || fail "$name exited $rc"
 }
 step "README: install make" "$README_MAKE"; t_make=$dt
 step "make demo" "make demo"; t_demo=$dt
