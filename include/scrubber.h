@@ -9,8 +9,9 @@
  *   Na2SO3 + NaOCl -> Na2SO4 + NaCl    Na2SO3 + NaOBr -> Na2SO4 + NaBr
  * Heats from standard enthalpies of formation (NBS tables, see scrubber.c).
  * Runs are processed in start order; each scrubber's liquor is tracked run by
- * run with changeouts, and its acid-gas load is binned hour by hour with a
- * difference array, so the cost is linear in runs plus hours.  The instantaneous
+ * run with changeouts, and its acid-gas load is binned hour by hour with a sparse
+ * difference array (one sort of four entries per run), so the cost is n log n in runs
+ * plus the hours with load, and the memory follows the loaded hours, not the span.  The instantaneous
  * peak comes from one sweep over sorted start/end events (n log n).
  */
 #ifndef SCRUBBER_H
@@ -115,7 +116,12 @@ struct scrub_unit_out {
     double naoh_kg;             /* consumed over the campaign */
     double makeup_kg;           /* purchased caustic solution for the changeouts [kg of makeup_naoh_wt_pct] */
     double heat_kj;
-    int64_t hour0_min; int nhours; double *hourly_kmol_h; /* load profile, owned */
+    /* Load profile over hours 0 .. nhours-1 from hour0_min, read with scrub_hourly_kmol_h.
+     * scrub_campaign keeps only the hours with load: hourly_kmol_h[k] is hour
+     * hourly_hour[k] (ascending, nhourly entries); every other hour is 0.  With
+     * hourly_hour NULL, hourly_kmol_h holds all nhours hours (dense).  Both owned. */
+    int64_t hour0_min; int nhours;
+    double *hourly_kmol_h; int *hourly_hour; int nhourly;
     struct scrub_spent *spent; int nspent;                /* owned */
     struct scrub_column_check column;
 };
@@ -158,6 +164,10 @@ double scrub_sulfite_redox_kj_per_mol(int hypohalite_salt);
 
 /* NTU for a fast irreversible reaction under gas-film control: ln(y_in/y_out). */
 double scrub_ntu(double y_in, double y_out);
+
+/* Mean load [kmol/h] of hour h (0 .. nhours-1) of a unit's profile, sparse or dense;
+ * 0 outside it.  O(log nhourly). */
+double scrub_hourly_kmol_h(const struct scrub_unit_out *u, int h);
 
 /* Free what scrub_campaign allocated in unit_out[0..nunits-1] and zero it. */
 void scrub_unit_out_free(struct scrub_unit_out *u, int nunits);

@@ -612,7 +612,7 @@ static cJSON *jo_scrubber(struct jo *w, const struct ledger *l, int i)
         jo_null(w, h, "start");
     cJSON *ha = h ? jo_arr(w, h, "kmol_h") : NULL;
     for (int k = 0; k < s->nhours && ha && w->st == HL_OK; k++)
-        jo_arr_num(w, ha, s->hourly_kmol_h[k], (size_t)k);
+        jo_arr_num(w, ha, scrub_hourly_kmol_h(s, k), (size_t)k);
     cJSON *sp = jo_arr(w, o, "spent");
     for (int k = 0; k < s->nspent && sp && w->st == HL_OK; k++) {
         const struct scrub_spent *b = &s->spent[k];

@@ -639,6 +639,9 @@ void scrub_unit_out_free(struct scrub_unit_out *u, int nunits)
         u[i].peak_heat_runs = NULL;
         u[i].npeak_heat_runs = 0;
         hl_free(u[i].hourly_kmol_h);
+        hl_free(u[i].hourly_hour);
+        u[i].hourly_hour = NULL;
+        u[i].nhourly = 0;
         hl_free(u[i].spent);
         u[i].peak_runs = u[i].peak_instant_runs = NULL;
         u[i].hourly_kmol_h = NULL;
@@ -789,6 +792,122 @@ static enum hl_status runs_at_peak(const struct scrub_run_in *runs, int nruns, c
     return HL_OK;
 }
 
+/* ---- sparse hourly bins ----
+ * One entry per partial hour (kind 0) and per difference-array step (kind 1), in the order
+ * the runs add them (seq), so that after the sort every hour sums its terms in the same
+ * order as a dense array would: the profile is bit for bit the dense one. */
+struct bin_ev {
+    int unit, kind;
+    int64_t hour;
+    size_t seq;
+    double v;
+};
+struct bins { struct bin_ev *ev; size_t n; };
+
+static void bin_add(struct bins *b, int unit, int64_t hour, int kind, double v)
+{
+    b->ev[b->n] = (struct bin_ev){unit, kind, hour, b->n, v};
+    b->n++;
+}
+
+static int bin_cmp(const void *pa, const void *pb)
+{
+    const struct bin_ev *a = pa, *b = pb;
+    if (a->unit != b->unit)
+        return a->unit < b->unit ? -1 : 1;
+    if (a->hour != b->hour)
+        return a->hour < b->hour ? -1 : 1;
+    return (a->seq > b->seq) - (a->seq < b->seq);
+}
+
+/* The walk over one unit's hours: peak (earliest hour wins a tie, including ties broken
+ * only by round-off) and the loaded hours kept. */
+struct walk { double best; int at, cap; };
+
+static enum hl_status keep_hour(struct scrub_unit_out *o, struct walk *w, int h, double v)
+{
+    if (v > w->best * (1 + 1e-12) + 1e-300) {
+        w->best = v;
+        w->at = h;
+    }
+    if (v == 0)
+        return HL_OK;
+    if (o->nhourly == w->cap) {
+        int cap = w->cap ? 2 * w->cap : 16;
+        int *hh = hl_realloc(o->hourly_hour, (size_t)cap * sizeof *hh);
+        if (hh)
+            o->hourly_hour = hh;
+        double *vv = hh ? hl_realloc(o->hourly_kmol_h, (size_t)cap * sizeof *vv) : NULL;
+        if (!vv)
+            return HL_ERR_NOMEM;
+        o->hourly_kmol_h = vv;
+        w->cap = cap;
+    }
+    o->hourly_hour[o->nhourly] = h;
+    o->hourly_kmol_h[o->nhourly++] = v;
+    return HL_OK;
+}
+
+/* Hours h0 .. h1-1 hold no entry: each carries the running sum alone.  With no load only
+ * the first can change the peak (a zero beats only the starting -1). */
+static enum hl_status gap_hours(struct scrub_unit_out *o, struct walk *w, int h0, int h1,
+                                double run)
+{
+    if (h0 >= h1)
+        return HL_OK;
+    if (run == 0)
+        return keep_hour(o, w, h0, 0.0);
+    for (int h = h0; h < h1; h++)
+        if (keep_hour(o, w, h, 0.0 + run))
+            return HL_ERR_NOMEM;
+    return HL_OK;
+}
+
+/* One unit's hourly profile from its sorted entries ev[0..n-1]: hours with load only. */
+static enum hl_status profile(struct scrub_unit_out *o, const struct bin_ev *ev, size_t n,
+                              double max_rate, struct hl_err *e)
+{
+    struct walk w = {-1, 0, 0};
+    double run = 0;
+    int next = 0;
+    for (size_t k = 0; k < n && ev[k].hour < o->nhours;) {
+        int h = (int)ev[k].hour;
+        double part = 0, step = 0;
+        for (; k < n && ev[k].hour == h; k++)
+            *(ev[k].kind ? &step : &part) += ev[k].v;
+        if (gap_hours(o, &w, next, h, run))
+            return hl_err_set(e, HL_ERR_NOMEM, "out of memory in the scrubber model");
+        run += step;
+        if (fabs(run) < 1e-12 * max_rate)
+            run = 0; /* what is left of +r -r pairs is round-off */
+        if (keep_hour(o, &w, h, part + run))
+            return hl_err_set(e, HL_ERR_NOMEM, "out of memory in the scrubber model");
+        next = h + 1;
+    }
+    if (gap_hours(o, &w, next, o->nhours, run))
+        return hl_err_set(e, HL_ERR_NOMEM, "out of memory in the scrubber model");
+    o->peak_acid_kmol_h = w.best > 0 ? w.best : 0;
+    o->peak_at_min = o->hour0_min + (int64_t)w.at * 60;
+    return HL_OK;
+}
+
+double scrub_hourly_kmol_h(const struct scrub_unit_out *u, int h)
+{
+    if (!u || h < 0 || h >= u->nhours || !u->hourly_kmol_h)
+        return 0;
+    if (!u->hourly_hour)
+        return u->hourly_kmol_h[h];
+    int lo = 0, hi = u->nhourly;
+    while (lo < hi) {
+        int mid = lo + (hi - lo) / 2;
+        if (u->hourly_hour[mid] < h)
+            lo = mid + 1;
+        else
+            hi = mid;
+    }
+    return lo < u->nhourly && u->hourly_hour[lo] == h ? u->hourly_kmol_h[lo] : 0;
+}
+
 enum hl_status scrub_campaign(const struct scrub_unit_in *units, int nunits,
                               const struct scrub_run_in *runs, int nruns, const int *order,
                               struct scrub_run_out *run_out, struct scrub_unit_out *unit_out,
@@ -805,10 +924,10 @@ enum hl_status scrub_campaign(const struct scrub_unit_in *units, int nunits,
     enum hl_status st = HL_OK;
     char *seen = hl_calloc((size_t)(nruns ? nruns : 1), 1);
     struct liq *q = hl_calloc((size_t)(nunits ? nunits : 1), sizeof *q);
-    double **diff = hl_calloc((size_t)(nunits ? nunits : 1), sizeof *diff);
+    struct bins bn = {hl_malloc((size_t)(4 * nruns + 1) * sizeof *bn.ev), 0};
     int *grp = hl_malloc((size_t)(nruns ? nruns : 1) * sizeof *grp);
     double *gvent = hl_calloc((size_t)(nruns ? nruns : 1) * VS_COUNT, sizeof *gvent);
-    if (!seen || !q || !diff || !grp || !gvent) {
+    if (!seen || !q || !bn.ev || !grp || !gvent) {
         st = hl_err_set(e, HL_ERR_NOMEM, "out of memory in the scrubber model");
         goto out;
     }
@@ -851,12 +970,6 @@ enum hl_status scrub_campaign(const struct scrub_unit_in *units, int nunits,
             goto out;
         }
         o->nhours = hours < 1 ? 1 : (int)hours;
-        o->hourly_kmol_h = hl_calloc((size_t)o->nhours + 1, sizeof(double));
-        diff[u] = hl_calloc((size_t)o->nhours + 1, sizeof(double));
-        if (!o->hourly_kmol_h || !diff[u]) {
-            st = hl_err_set(e, HL_ERR_NOMEM, "out of memory in the scrubber model");
-            goto out;
-        }
         fill(&units[u], &q[u]);
         o->max_liquor_temp_c = q[u].temp_c;
     }
@@ -889,7 +1002,9 @@ enum hl_status scrub_campaign(const struct scrub_unit_in *units, int nunits,
      * The vent leaves at rate = amount / feed_h x peak_factor over [start, start +
      * feed_h / peak_factor], so the amount is conserved.  Bin k holds the kmol entering
      * in clock hour k (per 1 h): the partial first and last hours go straight into the
-     * bin, the whole hours between into a difference array - O(1) per run. */
+     * bin, the whole hours between into a difference array - O(1) per run.  Both are kept
+     * as sparse entries (bin_add), summed per hour after one sort: memory follows the hours
+     * with load, not the span. */
     for (int k = 0; k < nruns; k++) {
         int i = order[k];
         const struct scrub_run_in *r = &runs[i];
@@ -904,20 +1019,20 @@ enum hl_status scrub_campaign(const struct scrub_unit_in *units, int nunits,
         double a = (double)(r->start_min - o->hour0_min);
         double b = a + r->feed_h / pf_of(r) * 60.0; /* minutes from hour0 */
         if (rate > 0) {
-            /* b <= nhours x 60 up to round-off, so ib <= nhours: both arrays have
-             * nhours + 1 slots and the last one is never reported */
+            /* b <= nhours x 60 up to round-off, so ib <= nhours: an entry at hour nhours
+             * is never reported */
             int64_t ia = (r->start_min - o->hour0_min) / 60, ib = (int64_t)floor(b / 60.0);
             if (ib > o->nhours)
                 ib = o->nhours;
             if (rate > l->max_rate)
                 l->max_rate = rate;
             if (ia == ib) {
-                o->hourly_kmol_h[ia] += rate * (b - a) / 60.0;
+                bin_add(&bn, r->unit, ia, 0, rate * (b - a) / 60.0);
             } else {
-                o->hourly_kmol_h[ia] += rate * ((double)(ia + 1) * 60.0 - a) / 60.0;
-                diff[r->unit][ia + 1] += rate;
-                diff[r->unit][ib] -= rate;
-                o->hourly_kmol_h[ib] += rate * (b - (double)ib * 60.0) / 60.0;
+                bin_add(&bn, r->unit, ia, 0, rate * ((double)(ia + 1) * 60.0 - a) / 60.0);
+                bin_add(&bn, r->unit, ia + 1, 1, rate);
+                bin_add(&bn, r->unit, ib, 1, -rate);
+                bin_add(&bn, r->unit, ib, 0, rate * (b - (double)ib * 60.0) / 60.0);
             }
         }
 
@@ -953,26 +1068,17 @@ enum hl_status scrub_campaign(const struct scrub_unit_in *units, int nunits,
     }
 
     /* Per unit: the profile, its peak, the final liquor and the caustic make-up. */
-    for (int u = 0; u < nunits; u++) {
+    qsort(bn.ev, (size_t)bn.n, sizeof *bn.ev, bin_cmp);
+    for (size_t k = 0, u = 0; u < (size_t)nunits; u++) {
         struct scrub_unit_out *o = &unit_out[u];
         const struct scrub_unit_in *ui = &units[u];
+        size_t k0 = k;
+        while (k < bn.n && bn.ev[k].unit == (int)u)
+            k++;
         if (!q[u].used)
             continue;
-        double run = 0, best = -1;
-        int at = 0;
-        for (int h = 0; h < o->nhours; h++) {
-            run += diff[u][h];
-            if (fabs(run) < 1e-12 * q[u].max_rate)
-                run = 0; /* what is left of +r -r pairs is round-off */
-            o->hourly_kmol_h[h] += run;
-            /* earliest hour wins a tie, including ties broken only by round-off */
-            if (o->hourly_kmol_h[h] > best * (1 + 1e-12) + 1e-300) {
-                best = o->hourly_kmol_h[h];
-                at = h;
-            }
-        }
-        o->peak_acid_kmol_h = best > 0 ? best : 0;
-        o->peak_at_min = o->hour0_min + (int64_t)at * 60;
+        if ((st = profile(o, &bn.ev[k0], k - k0, q[u].max_rate, e)))
+            goto out;
         if ((st = push_spent(o, &q[u], (int64_t)ceil(q[u].last_end_min - 1e-9), 1))) {
             hl_err_set(e, st, "out of memory in the scrubber model");
             goto out;
@@ -1006,10 +1112,7 @@ out:
         scrub_unit_out_free(unit_out, nunits);
         memset(unit_out, 0, (size_t)nunits * sizeof *unit_out);
     }
-    if (diff)
-        for (int u = 0; u < nunits; u++)
-            hl_free(diff[u]);
-    hl_free(diff);
+    hl_free(bn.ev);
     hl_free(gvent);
     hl_free(grp);
     hl_free(q);

@@ -912,7 +912,7 @@ static void row_hour(struct xw *w, struct xblock *b, lxw_row_t row, int i)
     int h = b->sub++;
     xb_text(w, b, row, 0, u->id);
     xb_date(w, b, row, 1, u->out.hour0_min + 60 * (int64_t)h);
-    xb_num(w, b, row, 2, u->out.hourly_kmol_h[h]);
+    xb_num(w, b, row, 2, scrub_hourly_kmol_h(&u->out, h));
     xb_num(w, b, row, 3, u->rated_acid_kmol_h);
 }
 

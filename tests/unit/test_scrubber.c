@@ -410,9 +410,9 @@ static void peak_overlap(void)
     CU_ASSERT_EQUAL(uo.hour0_min, t("2027-03-02T06:00"));
     CU_ASSERT_EQUAL(uo.nhours, 3);
     if (uo.nhours == 3) {
-        ASSERT_ABS(uo.hourly_kmol_h[0], 1, 1e-12);
-        ASSERT_ABS(uo.hourly_kmol_h[1], 2, 1e-12);
-        ASSERT_ABS(uo.hourly_kmol_h[2], 1, 1e-12);
+        ASSERT_ABS(scrub_hourly_kmol_h(&uo, 0), 1, 1e-12);
+        ASSERT_ABS(scrub_hourly_kmol_h(&uo, 1), 2, 1e-12);
+        ASSERT_ABS(scrub_hourly_kmol_h(&uo, 2), 1, 1e-12);
     }
     scrub_unit_out_free(&uo, 1);
 
@@ -429,10 +429,10 @@ static void peak_overlap(void)
     CU_ASSERT_EQUAL(uo.nhours, 4);
     double sum = 0;
     for (int h = 0; h < uo.nhours; h++)
-        sum += uo.hourly_kmol_h[h];
+        sum += scrub_hourly_kmol_h(&uo, h);
     ASSERT_ABS(sum, 4.0, 1e-12); /* amount conserved: 2 + 2 kmol */
     if (uo.nhours == 4)
-        ASSERT_ABS(uo.hourly_kmol_h[3], 0.5, 1e-12);
+        ASSERT_ABS(scrub_hourly_kmol_h(&uo, 3), 0.5, 1e-12);
     scrub_unit_out_free(&uo, 1);
     /* rated 1.6: the hourly peak 1.5 is under it, the 2 kmol/h for 30 min is not */
     u.rated_acid_kmol_h = 1.6;
@@ -527,7 +527,7 @@ static void many_runs_linear(void)
         CU_ASSERT(uo.peak_instant_runs[0] == 0 && uo.peak_instant_runs[1] == 1);
     int steady = 1;
     for (int h = 2; h < uo.nhours - 2; h++)
-        steady &= fabs(uo.hourly_kmol_h[h] - 2.0) < 1e-9;
+        steady &= fabs(scrub_hourly_kmol_h(&uo, h) - 2.0) < 1e-9;
     CU_ASSERT(steady);
     scrub_unit_out_free(&uo, 1);
 }
@@ -1122,6 +1122,77 @@ static void boiling_liquor(void)
     scrub_unit_out_free(&uo, 1);
 }
 
+/* Issue 16 item 13: the profile keeps only the hours with load.  Two runs of 2 kmol HCl over
+ * 2 h, 2027-01-01T06:00 and 2046-11-01T06:00: 1 kmol/h in hours 0, 1 and the last two of a
+ * span of 2027-01-01T06:00 .. 2046-11-01T08:00 = 7244 days + 2 h = 173858 h; 4 hours stored.
+ * Then 60 random runs on one unit against a brute-force dense profile written here: hour h
+ * holds sum(rate x overlap(window, [h, h + 1 h)) / 1 h) (analytic: the amount binned). */
+static void sparse_profile(void)
+{
+    struct scrub_unit_in u = caustic(60000, 18, 2);
+    struct scrub_run_in r[60] = {run_at("2027-01-01T06:00", 2, VS_HCL, 2000),
+                                 run_at("2046-11-01T06:00", 2, VS_HCL, 2000)};
+    struct scrub_run_out ro[60];
+    struct scrub_unit_out uo;
+    CU_ASSERT_EQUAL_FATAL(go(&u, 1, r, 2, ro, &uo), HL_OK);
+    CU_ASSERT_EQUAL(uo.nhours, 173858);
+    CU_ASSERT_EQUAL(uo.nhourly, 4);
+    const int loaded[4] = {0, 1, 173856, 173857};
+    for (int k = 0; k < 4; k++)
+        ASSERT_ABS(scrub_hourly_kmol_h(&uo, loaded[k]), 1.0, 1e-12);
+    ASSERT_ABS(scrub_hourly_kmol_h(&uo, 2), 0, 0);
+    ASSERT_ABS(scrub_hourly_kmol_h(&uo, 100000), 0, 0);
+    ASSERT_ABS(scrub_hourly_kmol_h(&uo, uo.nhours), 0, 0);
+    ASSERT_ABS(uo.peak_acid_kmol_h, 1.0, 1e-12);
+    CU_ASSERT_EQUAL(uo.peak_at_min, t("2027-01-01T06:00")); /* earliest of the equal hours */
+    scrub_unit_out_free(&uo, 1);
+
+    unsigned seed = 12345;
+    int64_t t0 = t("2027-03-01T00:00");
+    for (int i = 0; i < 60; i++) {
+        seed = seed * 1103515245u + 12345u;
+        int64_t start = t0 + (int64_t)(seed >> 8) % (20 * 24 * 60);
+        seed = seed * 1103515245u + 12345u;
+        double feed = 0.1 + (double)((seed >> 8) % 3000) / 100.0;
+        seed = seed * 1103515245u + 12345u;
+        r[i] = (struct scrub_run_in){.unit = 0, .start_min = start, .feed_h = feed,
+                                     .peak_factor = 1 + (double)((seed >> 8) % 200) / 100.0};
+        r[i].vent_mol[VS_HCL] = 100 + (double)((seed >> 4) % 900);
+    }
+    /* start order */
+    for (int i = 1; i < 60; i++)
+        for (int j = i; j > 0 && r[j].start_min < r[j - 1].start_min; j--) {
+            struct scrub_run_in x = r[j];
+            r[j] = r[j - 1];
+            r[j - 1] = x;
+        }
+    CU_ASSERT_EQUAL_FATAL(go(&u, 1, r, 60, ro, &uo), HL_OK);
+    int worst = 0, zeros = 0, best_h = 0;
+    double best = -1;
+    for (int h = 0; h < uo.nhours; h++) {
+        double h0 = (double)(uo.hour0_min + 60 * h), want = 0;
+        for (int i = 0; i < 60; i++) {
+            double a = (double)r[i].start_min, b = a + r[i].feed_h / r[i].peak_factor * 60.0;
+            double lo = a > h0 ? a : h0, hi = b < h0 + 60 ? b : h0 + 60;
+            double rate = r[i].vent_mol[VS_HCL] / 1000.0 / r[i].feed_h * r[i].peak_factor;
+            if (hi > lo)
+                want += rate * (hi - lo) / 60.0;
+        }
+        double got = scrub_hourly_kmol_h(&uo, h);
+        worst |= !(fabs(got - want) <= 1e-9 * (want > 1 ? want : 1));
+        zeros += want == 0;
+        if (want > best * (1 + 1e-9)) {
+            best = want;
+            best_h = h;
+        }
+    }
+    CU_ASSERT_EQUAL(worst, 0);
+    CU_ASSERT(uo.nhourly <= uo.nhours - zeros); /* no empty hour stored */
+    ASSERT_REL(uo.peak_acid_kmol_h, best, 1e-9);
+    CU_ASSERT_EQUAL(uo.peak_at_min, uo.hour0_min + 60 * (int64_t)best_h);
+    scrub_unit_out_free(&uo, 1);
+}
+
 int main(void)
 {
     static const struct cu_case cases[] = {
@@ -1137,6 +1208,7 @@ int main(void)
         {"peak heat release", peak_heat},
         {"shortest vent window", shortest_window},
         {"peak across months", peak_across_month},
+        {"sparse hourly profile", sparse_profile},
         {"instantaneous peak sweep", instant_peak_sweep},
         {"changeout for a group", group_changeout},
         {"sulfite meets hypochlorite", sulfite_meets_hypochlorite},
