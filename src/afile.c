@@ -286,8 +286,17 @@ static int create_staged(const char *name)
     sigset_t old;
     block_guarded(&old);
     int slot = -1, fd = -1;
+    /* a writer that removed its staged file with unlink() left its entry: the same name
+     * takes that entry again, and a full table reclaims entries whose file is gone */
+    for (int i = 0; i < STAGED_MAX && slot < 0; i++)
+        if (staged_used[i] && !strcmp(staged_name[i], name))
+            slot = i;
     for (int i = 0; i < STAGED_MAX && slot < 0; i++)
         if (!staged_used[i])
+            slot = i;
+    struct stat sb;
+    for (int i = 0; i < STAGED_MAX && slot < 0; i++)
+        if (lstat(staged_name[i], &sb) != 0 && errno == ENOENT)
             slot = i;
     if (slot < 0 || strlen(name) >= PATH_MAX) {
         sigprocmask(SIG_SETMASK, &old, NULL);

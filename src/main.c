@@ -187,6 +187,14 @@ static int library_line(const char *line)
     return !strncmp(line, "[ERROR]", 7) || !strncmp(line, "[WARNING]", 9);
 }
 
+static void relay_line(const char *ln, char *lib, size_t libsize)
+{
+    if (!library_line(ln))
+        fprintf(stderr, "%s\n", ln);
+    else if (!lib[0])
+        snprintf(lib, libsize, "%s", ln);
+}
+
 /* Copy the child's stderr to ours until it closes, holding back the library's own lines;
  * the first of them is kept in lib (for a writer that succeeded despite a warning). */
 static void relay_stderr(int fd, char *lib, size_t libsize)
@@ -198,30 +206,25 @@ static void relay_stderr(int fd, char *lib, size_t libsize)
         ssize_t got = read(fd, line + n, sizeof line - 1 - n);
         if (got < 0 && errno == EINTR)
             continue;
-        size_t end = got > 0 ? n + (size_t)got : n;
-        size_t from = 0;
-        for (size_t i = n; i < end; i++) {
-            if (line[i] != '\n' && !(got <= 0 && i + 1 == end))
-                continue;
-            line[i + (line[i] != '\n')] = '\0'; /* a last line without newline ends at i */
-            char *ln = line + from;
-            if (library_line(ln)) {
-                if (!lib[0])
-                    snprintf(lib, libsize, "%s", ln);
-            } else {
-                fprintf(stderr, "%s\n", ln);
-            }
-            from = i + 1;
-        }
         if (got <= 0)
             break;
-        /* keep a partial line; a line longer than the buffer is passed on in pieces */
-        n = end - from;
-        memmove(line, line + from, n);
-        if (n == sizeof line - 1) {
+        n += (size_t)got;
+        char *from = line, *nl;
+        while ((nl = memchr(from, '\n', (size_t)(line + n - from)))) {
+            *nl = '\0';
+            relay_line(from, lib, libsize);
+            from = nl + 1;
+        }
+        n -= (size_t)(from - line);
+        memmove(line, from, n);
+        if (n == sizeof line - 1) { /* a line longer than the buffer is passed on in pieces */
             fwrite(line, 1, n, stderr);
             n = 0;
         }
+    }
+    if (n > 0) { /* a last line without its newline */
+        line[n] = '\0';
+        relay_line(line, lib, libsize);
     }
 }
 
