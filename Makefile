@@ -18,7 +18,7 @@ SHIM_SRC := $(wildcard tests/tools/shim_*.c)
 SHIM_BIN := $(patsubst tests/tools/%.c,$(BUILD)/%.so,$(SHIM_SRC))
 HEADERS  := $(wildcard include/*.h) $(wildcard tests/unit/*.h)
 
-.PHONY: all deps demo test unit sanitize valgrind fuzz mutate clean print-link-flags fresh-debian
+.PHONY: all deps demo test unit sanitize valgrind fuzz mutate bench clean print-link-flags fresh-debian
 all: $(BUILD)/haloledger
 
 deps:
@@ -62,7 +62,16 @@ $(BUILD)/shim_%.so: tests/tools/shim_%.c | $(BUILD)/obj
 $(BUILD)/obj:
 	mkdir -p $@
 
-unit: $(UNIT_BIN) $(TOOL_BIN) $(SHIM_BIN)
+unit: $(UNIT_BIN) $(TOOL_BIN) $(SHIM_BIN) $(BUILD)/bench_floor
+
+# The floor of `make bench`: bare libxlsxwriter, numeric cells only (bench/README.md).
+$(BUILD)/bench_floor: bench/floor.c | $(BUILD)/obj
+	$(CC) $(CFLAGS_ALL) $< $(LDLIBS_ALL) -o $@
+
+# Time and memory on generated campaigns of 1e3..1e5 runs (BENCH_BIG=1 adds 1e6). Not a test.
+bench: deps
+	@$(MAKE) --no-print-directory all $(BUILD)/bench_floor
+	@BUILD=$(BUILD) /usr/bin/python3 bench/bench.py
 
 demo: deps
 	@$(MAKE) --no-print-directory all

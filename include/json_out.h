@@ -2,7 +2,8 @@
  * json_out.h - the JSON ledger ("format": "haloledger-ledger/1", design section 5).
  *
  * The keys of design section 5 are a public interface: never renamed, only
- * added to.  Written atomically (temporary file in the target folder, then
+ * added to.  Streamed (no document tree: memory does not grow with the
+ * ledger) and written atomically (temporary file in the target folder, then
  * rename).
  */
 #ifndef JSON_OUT_H
@@ -10,6 +11,10 @@
 
 #include "hlerr.h"
 #include "ledger.h"
+
+/* Print v (finite) into out (>= 32 bytes, NUL-terminated) exactly as cJSON 1.7.15's
+ * print_number does; returns the length. Exposed so tests can hold it against cJSON. */
+size_t json_out_number(double v, char *out);
 
 /* Serialize the ledger; *text owned by the caller (hl_free). */
 enum hl_status json_out_render(const struct ledger *l, char **text, struct hl_err *e);

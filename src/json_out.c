@@ -1,16 +1,22 @@
 /*
  * json_out.c - the JSON ledger (see json_out.h and design section 5).
  *
- * Why one record per line instead of one cJSON tree for the whole ledger: a
- * plant books up to 1e5 runs a year, and a full tree costs ~100 bytes per
- * node (hundreds of MB).  Each run, month, order ... is built as a small
- * cJSON object, printed compactly onto its own line and freed, so memory is
- * bounded by one record and the cost is linear in the ledger size.  The
- * result is still one valid JSON document, and line-oriented tools (diff,
- * grep) see one record per line.
+ * Streamed: every key and value goes straight into a 64 KiB buffer that is
+ * flushed to the file (or, for json_out_render, appended to a string) when
+ * full, so no document tree of the output exists and memory does not grow
+ * with the ledger.  The layout is one record (run, month, order ...) per
+ * line, records compact inside, as the cJSON-tree writer before it printed
+ * them; line-oriented tools (diff, grep) see one record per line.
  *
- * Keys are written in a fixed order and numbers by cJSON's round-trip
- * printer under LC_NUMERIC "C", so the same ledger gives the same bytes.
+ * Bytes are those cJSON 1.7.15 (Debian's libcjson) prints for the same
+ * values, so the ledger did not change when the tree went: strings escaped as
+ * its print_string_ptr does, numbers as its print_number does (an integral
+ * value that fits an int as "%d", else "%1.15g" when that reads back within
+ * DBL_EPSILON relative, else "%1.17g").  That rule is kept rather than the
+ * shortest round-trip digits because pipelines and the reference ledgers in
+ * tests/data already hold its text; test_json_out compares jo_number with
+ * cJSON itself.  Keys come in a fixed order, nothing depends on the locale
+ * (LC_NUMERIC is never set), so the same ledger gives the same bytes.
  */
 #include "json_out.h"
 
@@ -18,13 +24,15 @@
 #include "hlmem.h"
 #include "isodate.h"
 
-#include <cjson/cJSON.h>
 #include <errno.h>
+#include <float.h>
+#include <limits.h>
 #include <math.h>
-#include <stdarg.h>
+#include <stdint.h>
 #include <stdio.h>
+#include <stdlib.h>
 #include <string.h>
-#include <sys/stat.h>
+#include <unistd.h>
 
 /* Public key spellings of the vent species and salts: fixed here, not taken from
  * display names elsewhere, because pipelines depend on them. */
@@ -32,15 +40,22 @@ static const char *const jo_vent_key[VS_COUNT] = {"HCl", "HBr", "Cl2", "Br2", "S
 static const char *const jo_salt_key[SALT_COUNT] = {"NaCl", "NaBr", "NaOCl", "NaOBr", "Na2SO3", "Na2SO4"};
 _Static_assert(VS_COUNT == 5 && SALT_COUNT == 6, "update the key tables of json_out.c");
 
+enum { JO_BUF = 1 << 16, JO_DEPTH = 16 };
+
 struct jo {
-    char *buf; size_t len, cap;       /* the document being assembled */
+    FILE *f;                          /* file sink; NULL: memory sink (mem) */
+    const char *fname;                /* the file, for messages */
+    char *mem; size_t mlen, mcap;     /* memory sink: the whole text */
+    char *buf; size_t n;              /* staging buffer of JO_BUF bytes */
     enum hl_status st;                /* first failure; every helper is a no-op after it */
     struct hl_err *e;
-    char path[160]; size_t plen;      /* JSON path of the record being built, for messages */
-    cJSON *root;                      /* the record being built */
+    int depth;                        /* containers open inside the current record */
+    int count[JO_DEPTH];              /* members written so far in each */
+    size_t mark[JO_DEPTH];            /* path length where each was opened */
+    char path[200]; size_t plen;      /* JSON path of the container being written */
 };
 
-/* --- failures ------------------------------------------------------------ */
+/* --- sink ---------------------------------------------------------------- */
 
 static void jo_nomem(struct jo *w)
 {
@@ -48,112 +63,290 @@ static void jo_nomem(struct jo *w)
         w->st = hl_err_set(w->e, HL_ERR_NOMEM, "out of memory while writing the JSON ledger");
 }
 
-/* Path of target below node into buf ("" when node is target); 0 if not found.
- * Used only to name a bad value, so a search is cheaper than bookkeeping. */
-static int jo_find(const cJSON *node, const cJSON *target, char *buf, size_t n)
+static void jo_flush(struct jo *w)
 {
-    if (node == target) {
-        buf[0] = '\0';
-        return 1;
-    }
-    int i = 0;
-    for (const cJSON *c = node ? node->child : NULL; c; c = c->next, i++) {
-        char sub[160];
-        if (jo_find(c, target, sub, sizeof sub)) {
-            int len = cJSON_IsArray(node)
-                          ? snprintf(buf, n, "[%d]%s", i, sub)
-                          : snprintf(buf, n, ".%s%s", c->string ? c->string : "?", sub);
-            return len > 0; /* a path cut at n bytes still names the place */
-        }
-    }
-    return 0;
-}
-
-/* Report a bad value: suffix is ".key" or "[i]" below the object node. */
-static void jo_bad(struct jo *w, const cJSON *node, const char *suffix, const char *what)
-{
-    if (w->st != HL_OK)
+    if (w->st != HL_OK || w->n == 0)
         return;
-    char where[160] = "", field[200];
-    if (w->root && node)
-        jo_find(w->root, node, where, sizeof where);
-    if (snprintf(field, sizeof field, "%s%s%s", w->path, where, suffix) < 0)
-        field[0] = '\0';
-    if (field[0] == '.')
-        memmove(field, field + 1, strlen(field));
-    w->st = hl_err_at(w->e, HL_ERR_INTERNAL, 0, 0, field, "JSON ledger: %s at %s", what, field);
+    if (w->f) {
+        if (fwrite(w->buf, 1, w->n, w->f) != w->n) {
+            int err = errno ? errno : EIO;
+            w->st = hl_err_set(w->e, HL_ERR_IO, "cannot write %s: %s", w->fname, strerror(err));
+        }
+    } else {
+        if (w->mlen + w->n + 1 > w->mcap) {
+            size_t cap = w->mcap ? w->mcap : JO_BUF;
+            while (cap < w->mlen + w->n + 1)
+                cap *= 2;
+            char *p = hl_realloc(w->mem, cap);
+            if (!p) {
+                jo_nomem(w);
+                return;
+            }
+            w->mem = p;
+            w->mcap = cap;
+        }
+        memcpy(w->mem + w->mlen, w->buf, w->n);
+        w->mlen += w->n;
+        w->mem[w->mlen] = '\0';
+    }
+    w->n = 0;
 }
 
-static void jo_badkey(struct jo *w, const cJSON *node, const char *key, const char *what)
+/* Room for n more bytes in the buffer (n <= JO_BUF); 0 after a failure. */
+static int jo_room(struct jo *w, size_t n)
 {
-    char suffix[64];
-    snprintf(suffix, sizeof suffix, ".%s", key);
-    jo_bad(w, node, suffix, what);
+    if (w->n + n > JO_BUF)
+        jo_flush(w);
+    return w->st == HL_OK;
 }
-
-static size_t jo_push(struct jo *w, const char *fmt, ...) __attribute__((format(printf, 2, 3)));
-static size_t jo_push(struct jo *w, const char *fmt, ...)
-{
-    size_t old = w->plen;
-    va_list ap;
-    va_start(ap, fmt);
-    int n = vsnprintf(w->path + old, sizeof w->path - old, fmt, ap);
-    va_end(ap);
-    w->plen = n < 0 ? old : strlen(w->path);
-    return old;
-}
-
-static void jo_pop(struct jo *w, size_t old)
-{
-    w->plen = old;
-    w->path[old] = '\0';
-}
-
-/* --- output buffer ------------------------------------------------------- */
 
 static void jo_put(struct jo *w, const char *s, size_t n)
 {
-    if (w->st != HL_OK)
-        return;
-    if (w->len + n + 1 > w->cap) {
-        size_t cap = w->cap ? w->cap : 4096;
-        while (cap < w->len + n + 1)
-            cap *= 2;
-        char *p = hl_realloc(w->buf, cap);
-        if (!p) {
-            jo_nomem(w);
-            return;
-        }
-        w->buf = p;
-        w->cap = cap;
+    while (n > 0 && w->st == HL_OK) {
+        if (w->n == JO_BUF)
+            jo_flush(w);
+        size_t k = JO_BUF - w->n < n ? JO_BUF - w->n : n;
+        memcpy(w->buf + w->n, s, k);
+        w->n += k;
+        s += k;
+        n -= k;
     }
-    memcpy(w->buf + w->len, s, n);
-    w->len += n;
-    w->buf[w->len] = '\0';
 }
 
 static void jo_puts(struct jo *w, const char *s) { jo_put(w, s, strlen(s)); }
 
-/* Print item compactly after "prefix", then free it (always). */
-static void jo_emit(struct jo *w, const char *prefix, cJSON *item, const char *suffix)
+static void jo_putc(struct jo *w, char c)
 {
-    if (w->st == HL_OK && item) {
-        char *txt = cJSON_PrintUnformatted(item);
-        if (!txt) {
-            jo_nomem(w);
-        } else {
-            jo_puts(w, prefix);
-            jo_puts(w, txt);
-            jo_puts(w, suffix);
-            cJSON_free(txt);
-        }
-    } else if (w->st == HL_OK) {
-        jo_nomem(w); /* a record builder returned NULL without reporting */
-    }
-    cJSON_Delete(item);
+    if (jo_room(w, 1))
+        w->buf[w->n++] = c;
 }
 
-/* --- values -------------------------------------------------------------- */
+/* --- failures ------------------------------------------------------------ */
+
+/* Report a bad value of key (or, key NULL, the element being added to an array). */
+static void jo_bad(struct jo *w, const char *key, const char *what)
+{
+    if (w->st != HL_OK)
+        return;
+    char field[240];
+    if (key)
+        snprintf(field, sizeof field, "%s.%s", w->path, key);
+    else
+        snprintf(field, sizeof field, "%s[%d]", w->path, w->count[w->depth]);
+    if (field[0] == '.') /* a top-level member */
+        memmove(field, field + 1, strlen(field));
+    w->st = hl_err_at(w->e, HL_ERR_INTERNAL, 0, 0, field, "JSON ledger: %s at %s", what, field);
+}
+
+/* --- numbers and strings, as cJSON 1.7.15 prints them -------------------- */
+
+/* Decimal digits of u into out (no terminator); returns the count. */
+static size_t jo_utoa(uint64_t u, char *out)
+{
+    char t[24];
+    size_t n = 0;
+    do {
+        t[n++] = (char)('0' + u % 10);
+        u /= 10;
+    } while (u);
+    for (size_t k = 0; k < n; k++)
+        out[k] = t[n - 1 - k];
+    return n;
+}
+
+/* 64 x 64 -> 128-bit product and shifts, in two halves (C11 has no 128-bit type). */
+struct u128 { uint64_t hi, lo; };
+
+static struct u128 mul64(uint64_t a, uint64_t b)
+{
+    uint64_t a0 = a & 0xffffffffu, a1 = a >> 32, b0 = b & 0xffffffffu, b1 = b >> 32;
+    uint64_t p00 = a0 * b0, p01 = a0 * b1, p10 = a1 * b0, p11 = a1 * b1;
+    uint64_t mid = (p00 >> 32) + (p01 & 0xffffffffu) + (p10 & 0xffffffffu);
+    struct u128 r = {p11 + (p01 >> 32) + (p10 >> 32) + (mid >> 32), (mid << 32) | (p00 & 0xffffffffu)};
+    return r;
+}
+
+/* x >> t for 0 < t < 128 */
+static uint64_t shr_lo(struct u128 x, int t)
+{
+    if (t >= 64)
+        return x.hi >> (t - 64);
+    return (x.lo >> t) | (x.hi << (64 - t));
+}
+
+/* the low t bits of x, 0 < t < 128 */
+static struct u128 low_bits(struct u128 x, int t)
+{
+    if (t >= 64)
+        return (struct u128){t == 64 ? 0 : x.hi & ((UINT64_C(1) << (t - 64)) - 1), x.lo};
+    return (struct u128){0, x.lo & ((UINT64_C(1) << t) - 1)};
+}
+
+static int cmp128(struct u128 a, struct u128 b)
+{
+    if (a.hi != b.hi)
+        return a.hi < b.hi ? -1 : 1;
+    return a.lo < b.lo ? -1 : a.lo > b.lo;
+}
+
+static struct u128 shl1(struct u128 x) { return (struct u128){(x.hi << 1) | (x.lo >> 63), x.lo << 1}; }
+
+static const uint64_t pow10_u64[] = {
+    1, 10, 100, 1000, 10000, 100000, 1000000, 10000000, 100000000, 1000000000,
+    10000000000, 100000000000, 1000000000000, 10000000000000, 100000000000000,
+    1000000000000000, 10000000000000000, 100000000000000000, 1000000000000000000u};
+
+/* The P significant digits of m x 2^e (m < 2^53, e < 0), rounded to nearest with ties
+ * to even as glibc's printf rounds an exact binary value, with *x the decimal exponent.
+ * For the verdict of jo_number: *near = 1 when the digits read back (correctly rounded)
+ * within one unit in the last place of the double, 0 when not, -1 when it cannot say
+ * (an exact tie). Returns 0 when q = P - 1 - x would leave the 0..27 range this
+ * 128-bit arithmetic covers (5^27 < 2^63). */
+static int digits_of(uint64_t m, int e, int P, int *x, uint64_t *digits, int *near)
+{
+    static uint64_t pow5[28];
+    if (!pow5[0]) {
+        pow5[0] = 1;
+        for (int k = 1; k < 28; k++)
+            pow5[k] = pow5[k - 1] * 5;
+    }
+    /* floor(log10(2)) x binary exponent: the decimal exponent or one below it */
+    int x10 = (int)floor((e + 52) * 0.30102999566398120);
+    for (int tries = 0; tries < 3; tries++) {
+        *near = 0;
+        int q = P - 1 - x10;
+        if (q < 0 || q > 27)
+            return 0;
+        int t = -(e + q); /* value x 10^q = m 5^q / 2^t */
+        if (t <= 0 || t >= 120)
+            return 0;
+        struct u128 num = mul64(m, pow5[q]);
+        uint64_t d = shr_lo(num, t);
+        struct u128 rem = low_bits(num, t);
+        struct u128 half = t >= 65 ? (struct u128){UINT64_C(1) << (t - 65), 0}
+                                   : (struct u128){0, UINT64_C(1) << (t - 1)};
+        int c = cmp128(rem, half);
+        int up = c > 0 || (c == 0 && (d & 1));
+        if (c == 0)
+            *near = -1;
+        d += (uint64_t)up;
+        if (d >= pow10_u64[P]) {
+            x10++;
+            continue;
+        }
+        if (d < pow10_u64[P - 1]) {
+            x10--;
+            continue;
+        }
+        /* |digits - value| x 2^t, against 1.5 units of the double (1.5 x 5^q x 2^0 after
+         * scaling): inside reads back to a neighbour at most, outside to 2 away or more */
+        struct u128 diff = rem;
+        if (up) { /* 2^t - rem */
+            struct u128 full = t >= 64 ? (struct u128){UINT64_C(1) << (t - 64), 0}
+                                       : (struct u128){0, UINT64_C(1) << t};
+            diff.hi = full.hi - rem.hi - (full.lo < rem.lo);
+            diff.lo = full.lo - rem.lo;
+        }
+        struct u128 lim = mul64(3, pow5[q]), twice = shl1(diff);
+        int v = cmp128(twice, lim);
+        if (*near != -1)
+            *near = v < 0 ? 1 : v > 0 ? 0 : -1;
+        *x = x10;
+        *digits = d;
+        return 1;
+    }
+    return 0;
+}
+
+/* %1.Pg of the value digits x 10^(x - P + 1) (P significant digits, exact). */
+static size_t fmt_g(int neg, uint64_t digits, int P, int x, char *out)
+{
+    char dg[20];
+    for (int k = P - 1; k >= 0; k--, digits /= 10)
+        dg[k] = (char)('0' + digits % 10);
+    int nd = P;
+    while (nd > 1 && dg[nd - 1] == '0') /* %g drops trailing zeros */
+        nd--;
+    char *o = out;
+    if (neg)
+        *o++ = '-';
+    if (x < -4 || x >= P) {
+        *o++ = dg[0];
+        if (nd > 1) {
+            *o++ = '.';
+            memcpy(o, dg + 1, (size_t)nd - 1);
+            o += nd - 1;
+        }
+        *o++ = 'e';
+        *o++ = x < 0 ? '-' : '+';
+        int ax = x < 0 ? -x : x;
+        if (ax < 10)
+            *o++ = '0'; /* at least two exponent digits */
+        o += jo_utoa((uint64_t)ax, o);
+    } else if (x >= 0) {
+        for (int k = 0; k <= x; k++)
+            *o++ = k < nd ? dg[k] : '0';
+        if (nd > x + 1) {
+            *o++ = '.';
+            memcpy(o, dg + x + 1, (size_t)(nd - x - 1));
+            o += nd - x - 1;
+        }
+    } else {
+        *o++ = '0';
+        *o++ = '.';
+        for (int k = 0; k < -x - 1; k++)
+            *o++ = '0';
+        memcpy(o, dg, (size_t)nd);
+        o += nd;
+    }
+    *o = '\0';
+    return (size_t)(o - out);
+}
+
+/* cJSON's rule with the C library, for what digits_of does not cover. */
+static size_t jo_number_libc(double v, char *out)
+{
+    int n = snprintf(out, 32, "%1.15g", v);
+    double back = strtod(out, NULL);
+    double big = fabs(back) > fabs(v) ? fabs(back) : fabs(v);
+    if (!(fabs(back - v) <= big * DBL_EPSILON))
+        n = snprintf(out, 32, "%1.17g", v);
+    return (size_t)n;
+}
+
+size_t json_out_number(double v, char *out)
+{
+    /* cJSON_CreateNumber's valueint: saturated at the int range */
+    int vi = v >= INT_MAX ? INT_MAX : v <= (double)INT_MIN ? INT_MIN : (int)v;
+    if (v == (double)vi) { /* "%d" */
+        size_t n = 0;
+        if (vi < 0)
+            out[n++] = '-';
+        n += jo_utoa(vi < 0 ? (uint64_t)(-(int64_t)vi) : (uint64_t)vi, out + n);
+        out[n] = '\0';
+        return n;
+    }
+    uint64_t bits;
+    memcpy(&bits, &v, sizeof bits);
+    int be = (int)(bits >> 52 & 0x7ff);
+    uint64_t m = (bits & ((UINT64_C(1) << 52) - 1)) | (UINT64_C(1) << 52);
+    int e = be - 1075;
+    /* Away from the ends of a binade, so that the doubles 1 and 2 units away on either
+     * side are evenly spaced (the acceptance test below counts units). */
+    if (be == 0 || be == 0x7ff || m < (UINT64_C(1) << 52) + 2 || m > (UINT64_C(1) << 53) - 3)
+        return jo_number_libc(v, out);
+    int x15, x17, near15 = 0, near17 = 0;
+    uint64_t d15, d17;
+    if (!digits_of(m, e, 15, &x15, &d15, &near15) || near15 < 0)
+        return jo_number_libc(v, out);
+    /* cJSON keeps 15 digits when they read back within DBL_EPSILON x the larger value: for
+     * a double inside its binade that is the double itself or a neighbour, 1 unit away */
+    if (near15)
+        return fmt_g(v < 0, d15, 15, x15, out);
+    if (!digits_of(m, e, 17, &x17, &d17, &near17) || near17 < 0)
+        return jo_number_libc(v, out); /* a tie: leave it to the C library's rounding */
+    return fmt_g(v < 0, d17, 17, x17, out);
+}
 
 /* RFC 3629 UTF-8: no overlong forms, no surrogates, nothing above U+10FFFF. */
 static int jo_utf8_ok(const unsigned char *s)
@@ -178,103 +371,172 @@ static int jo_utf8_ok(const unsigned char *s)
     return 1;
 }
 
-static cJSON *jo_obj(struct jo *w, cJSON *parent, const char *key)
+/* A JSON string (RFC 8259 section 7) escaped as cJSON's print_string_ptr does: quote,
+ * backslash and the five short escapes, other bytes below 0x20 as \u00xx (lower-case
+ * hex), everything else (UTF-8 included) as is. */
+static void jo_quoted(struct jo *w, const char *s)
 {
-    if (w->st != HL_OK)
-        return NULL;
-    cJSON *o = parent ? cJSON_AddObjectToObject(parent, key) : cJSON_CreateObject();
-    if (!o)
-        jo_nomem(w);
-    else if (!parent)
-        w->root = o;
-    return o;
+    jo_putc(w, '"');
+    const char *run = s;
+    for (; *s; s++) {
+        unsigned char c = (unsigned char)*s;
+        if (c >= 0x20 && c != '"' && c != '\\')
+            continue;
+        jo_put(w, run, (size_t)(s - run));
+        run = s + 1;
+        char esc[8];
+        switch (c) {
+        case '"': jo_put(w, "\\\"", 2); break;
+        case '\\': jo_put(w, "\\\\", 2); break;
+        case '\b': jo_put(w, "\\b", 2); break;
+        case '\f': jo_put(w, "\\f", 2); break;
+        case '\n': jo_put(w, "\\n", 2); break;
+        case '\r': jo_put(w, "\\r", 2); break;
+        case '\t': jo_put(w, "\\t", 2); break;
+        default:
+            snprintf(esc, sizeof esc, "\\u%04x", c);
+            jo_put(w, esc, 6);
+        }
+    }
+    jo_put(w, run, (size_t)(s - run));
+    jo_putc(w, '"');
 }
 
-static cJSON *jo_arr(struct jo *w, cJSON *parent, const char *key)
+/* --- containers and values ----------------------------------------------- */
+
+/* Comma before every member but the first, then "key": (key NULL inside an array).
+ * Keys are this file's constants and table names (symbols, reagent names), none with
+ * a byte cJSON would escape, so they are copied as they are. */
+static void jo_key(struct jo *w, const char *key)
 {
-    if (w->st != HL_OK)
-        return NULL;
-    cJSON *a = cJSON_AddArrayToObject(parent, key);
-    if (!a)
-        jo_nomem(w);
-    return a;
+    size_t n = key ? strlen(key) : 0;
+    if (!jo_room(w, n + 4))
+        return;
+    char *o = w->buf + w->n;
+    if (w->count[w->depth]++ > 0)
+        *o++ = ',';
+    if (key) {
+        *o++ = '"';
+        memcpy(o, key, n);
+        o += n;
+        *o++ = '"';
+        *o++ = ':';
+    }
+    w->n = (size_t)(o - w->buf);
 }
 
-static void jo_num(struct jo *w, cJSON *o, const char *key, double v)
+/* Open an object ('{') or array ('[') as member key (NULL: an array element). */
+static void jo_open(struct jo *w, const char *key, char bracket)
+{
+    if (w->st != HL_OK)
+        return;
+    if (w->depth + 1 >= JO_DEPTH) {
+        w->st = hl_err_set(w->e, HL_ERR_INTERNAL, "JSON ledger nested too deep");
+        return;
+    }
+    int index = w->count[w->depth];
+    jo_key(w, key);
+    jo_putc(w, bracket);
+    w->depth++;
+    w->count[w->depth] = 0;
+    w->mark[w->depth] = w->plen;
+    /* the path only names a bad value; one cut short still names the place */
+    char seg[48];
+    size_t n = 0;
+    if (key) {
+        seg[n++] = '.';
+        size_t k = strlen(key);
+        k = k < sizeof seg - 2 ? k : sizeof seg - 2;
+        memcpy(seg + 1, key, k);
+        n += k;
+    } else {
+        seg[n++] = '[';
+        n += jo_utoa((uint64_t)index, seg + n);
+        seg[n++] = ']';
+    }
+    if (w->plen + n < sizeof w->path) {
+        memcpy(w->path + w->plen, seg, n);
+        w->plen += n;
+        w->path[w->plen] = '\0';
+    }
+}
+
+static void jo_close(struct jo *w, char bracket)
+{
+    if (w->st != HL_OK)
+        return;
+    jo_putc(w, bracket);
+    w->plen = w->mark[w->depth];
+    w->path[w->plen] = '\0';
+    w->depth--;
+}
+
+/* Begin a top-level record "{" whose path is name[i] (i < 0: name). */
+static void jo_begin(struct jo *w, const char *name, int i)
+{
+    w->depth = 0;
+    w->count[0] = 0;
+    if (i >= 0)
+        snprintf(w->path, sizeof w->path, "%s[%d]", name, i);
+    else
+        snprintf(w->path, sizeof w->path, "%s", name);
+    w->plen = strlen(w->path);
+    jo_putc(w, '{');
+}
+
+static void jo_end(struct jo *w) { jo_putc(w, '}'); }
+
+static void jo_num(struct jo *w, const char *key, double v)
 {
     if (w->st != HL_OK)
         return;
     if (!isfinite(v)) {
-        jo_badkey(w, o, key, isnan(v) ? "non-finite number (NaN)" : "non-finite number (infinity)");
+        jo_bad(w, key, isnan(v) ? "non-finite number (NaN)" : "non-finite number (infinity)");
         return;
     }
-    if (!cJSON_AddNumberToObject(o, key, v + 0.0)) /* + 0.0 turns -0 into 0 */
-        jo_nomem(w);
+    jo_key(w, key);
+    if (jo_room(w, 32))
+        w->n += json_out_number(v + 0.0, w->buf + w->n); /* + 0.0 turns -0 into 0 */
 }
 
-static void jo_bool(struct jo *w, cJSON *o, const char *key, int v)
+static void jo_bool(struct jo *w, const char *key, int v)
 {
-    if (w->st == HL_OK && !cJSON_AddBoolToObject(o, key, v != 0))
-        jo_nomem(w);
+    if (w->st != HL_OK)
+        return;
+    jo_key(w, key);
+    jo_puts(w, v ? "true" : "false");
 }
 
-static void jo_null(struct jo *w, cJSON *o, const char *key)
+static void jo_null(struct jo *w, const char *key)
 {
-    if (w->st == HL_OK && !cJSON_AddNullToObject(o, key))
-        jo_nomem(w);
+    if (w->st != HL_OK)
+        return;
+    jo_key(w, key);
+    jo_puts(w, "null");
 }
 
 /* Text, or null for NULL. */
-static void jo_str(struct jo *w, cJSON *o, const char *key, const char *s)
+static void jo_str(struct jo *w, const char *key, const char *s)
 {
     if (w->st != HL_OK)
         return;
     if (!s) {
-        jo_null(w, o, key);
+        jo_null(w, key);
         return;
     }
     if (!jo_utf8_ok((const unsigned char *)s)) {
-        jo_badkey(w, o, key, "text that is not valid UTF-8");
+        jo_bad(w, key, "text that is not valid UTF-8");
         return;
     }
-    if (!cJSON_AddStringToObject(o, key, s))
-        jo_nomem(w);
+    jo_key(w, key);
+    jo_quoted(w, s);
 }
 
-static void jo_date(struct jo *w, cJSON *o, const char *key, int64_t min, int date_only)
+static void jo_date(struct jo *w, const char *key, int64_t min, int date_only)
 {
     char buf[32];
     isodate_format(min, date_only, buf, sizeof buf);
-    jo_str(w, o, key, buf);
-}
-
-/* Array element helpers. */
-static void jo_arr_num(struct jo *w, cJSON *a, double v, size_t i)
-{
-    if (w->st != HL_OK)
-        return;
-    if (!isfinite(v)) {
-        char key[32];
-        snprintf(key, sizeof key, "[%zu]", i);
-        jo_bad(w, a, key, "non-finite number");
-        return;
-    }
-    cJSON *n = cJSON_CreateNumber(v + 0.0);
-    if (!n || !cJSON_AddItemToArray(a, n)) {
-        cJSON_Delete(n);
-        jo_nomem(w);
-    }
-}
-
-static void jo_arr_str(struct jo *w, cJSON *a, const char *s)
-{
-    if (w->st != HL_OK)
-        return;
-    cJSON *n = s ? cJSON_CreateString(s) : cJSON_CreateNull();
-    if (!n || !cJSON_AddItemToArray(a, n)) {
-        cJSON_Delete(n);
-        jo_nomem(w);
-    }
+    jo_str(w, key, buf);
 }
 
 static const char *jo_item_name(int item)
@@ -291,498 +553,519 @@ static void jo_month_text(int month_index, char *buf, size_t n)
 
 /* --- records ------------------------------------------------------------- */
 
-static void jo_species(struct jo *w, cJSON *parent, const char *key, const double *mol,
-                       const char *suffix)
+/* The five vent species as members NAME_mol of the open object. */
+static void jo_species(struct jo *w, const double *mol)
 {
-    cJSON *o = jo_obj(w, parent, key);
-    for (int s = 0; s < VS_COUNT && o; s++) {
-        char k[24];
-        snprintf(k, sizeof k, "%s%s", jo_vent_key[s], suffix);
-        jo_num(w, o, k, mol[s]);
-    }
+    static const char *const key[VS_COUNT] = {"HCl_mol", "HBr_mol", "Cl2_mol", "Br2_mol", "SO2_mol"};
+    for (int s = 0; s < VS_COUNT; s++)
+        jo_num(w, key[s], mol[s]);
 }
 
-static cJSON *jo_run(struct jo *w, const struct ledger *l, int i)
+static void jo_run(struct jo *w, const struct ledger *l, int i)
 {
     const struct ledger_run *r = &l->runs[i];
     const struct bal_out *b = &r->bal;
     const struct scrub_run_out *s = &r->scrub;
-    size_t mark = jo_push(w, "runs[%d]", i);
-    cJSON *o = jo_obj(w, NULL, NULL);
-    if (!o) {
-        jo_pop(w, mark);
-        return NULL;
-    }
-    jo_str(w, o, "id", r->id);
-    jo_date(w, o, "start", r->start_min, 0);
+    jo_begin(w, "runs", i);
+    jo_str(w, "id", r->id);
+    jo_date(w, "start", r->start_min, 0);
     if (!isfinite(r->feed_h) || fabs(r->feed_h) > 1e9)
-        jo_badkey(w, o, "end", "feed time out of range");
+        jo_bad(w, "end", "feed time out of range");
     else
-        jo_date(w, o, "end", r->start_min + (int64_t)llround(r->feed_h * 60.0), 0);
-    jo_str(w, o, "reactor", r->reactor);
-    jo_str(w, o, "scrubber_id", r->scrubber);
-    jo_str(w, o, "reagent", jo_item_name(r->reagent));
-    jo_num(w, o, "temp_c", r->temp_c);
-    jo_str(w, o, "reactor_mode", r->mode == KIN_CSTR ? "cstr" : "batch");
-    jo_num(w, o, "feed_h", r->feed_h);
+        jo_date(w, "end", r->start_min + (int64_t)llround(r->feed_h * 60.0), 0);
+    jo_str(w, "reactor", r->reactor);
+    jo_str(w, "scrubber_id", r->scrubber);
+    jo_str(w, "reagent", jo_item_name(r->reagent));
+    jo_num(w, "temp_c", r->temp_c);
+    jo_str(w, "reactor_mode", r->mode == KIN_CSTR ? "cstr" : "batch");
+    jo_num(w, "feed_h", r->feed_h);
 
-    cJSON *sub = jo_obj(w, o, "substrate");
-    jo_str(w, sub, "name", r->substrate_name);
-    jo_str(w, sub, "smiles", r->smiles);
-    jo_str(w, sub, "formula", b->substrate_formula);
-    jo_num(w, sub, "molar_mass_g_mol", b->substrate_molar_mass_g_mol);
-    jo_num(w, sub, "kg", r->substrate_kg);
-    jo_num(w, sub, "mol", b->substrate_mol);
+    jo_open(w, "substrate", '{');
+    jo_str(w, "name", r->substrate_name);
+    jo_str(w, "smiles", r->smiles);
+    jo_str(w, "formula", b->substrate_formula);
+    jo_num(w, "molar_mass_g_mol", b->substrate_molar_mass_g_mol);
+    jo_num(w, "kg", r->substrate_kg);
+    jo_num(w, "mol", b->substrate_mol);
+    jo_close(w, '}');
 
-    cJSON *rc = jo_obj(w, o, "reagent_charged");
-    jo_num(w, rc, "kg", b->reagent_kg);
-    jo_num(w, rc, "mol", b->reagent_mol);
-    jo_num(w, o, "reagent_reacted_mol", b->reagent_reacted_mol);
-    jo_num(w, o, "reagent_unreacted_mol", b->reagent_unreacted_mol);
-    jo_num(w, o, "halogen_reacted_mol", b->halogen_reacted_mol);
-    jo_bool(w, o, "capped", b->capped);
-    jo_num(w, o, "mean_degree", b->mean_degree);
+    jo_open(w, "reagent_charged", '{');
+    jo_num(w, "kg", b->reagent_kg);
+    jo_num(w, "mol", b->reagent_mol);
+    jo_close(w, '}');
+    jo_num(w, "reagent_reacted_mol", b->reagent_reacted_mol);
+    jo_num(w, "reagent_unreacted_mol", b->reagent_unreacted_mol);
+    jo_num(w, "halogen_reacted_mol", b->halogen_reacted_mol);
+    jo_bool(w, "capped", b->capped);
+    jo_num(w, "mean_degree", b->mean_degree);
 
-    cJSON *pa = jo_arr(w, o, "products");
+    jo_open(w, "products", '[');
     for (int p = 0; p < b->nproducts && w->st == HL_OK; p++) {
         const struct bal_product *bp = &b->products[p];
-        cJSON *po = cJSON_CreateObject();
-        if (!po || !cJSON_AddItemToArray(pa, po)) {
-            cJSON_Delete(po);
-            jo_nomem(w);
-            break;
-        }
-        jo_str(w, po, "smiles", bp->smiles);
-        jo_str(w, po, "formula", bp->role == ROLE_OTHER ? NULL : bp->formula); /* a mixture */
-        jo_num(w, po, "degree", bp->degree);
-        jo_num(w, po, "molar_mass_g_mol", bp->molar_mass_g_mol);
-        jo_num(w, po, "mol", bp->mol);
-        jo_num(w, po, "kg", bp->kg);
-        jo_num(w, po, "mol_fraction", bp->mol_fraction);
-        jo_str(w, po, "role", ledger_role_name(bp->role));
+        jo_open(w, NULL, '{');
+        jo_str(w, "smiles", bp->smiles);
+        jo_str(w, "formula", bp->role == ROLE_OTHER ? NULL : bp->formula); /* a mixture */
+        jo_num(w, "degree", bp->degree);
+        jo_num(w, "molar_mass_g_mol", bp->molar_mass_g_mol);
+        jo_num(w, "mol", bp->mol);
+        jo_num(w, "kg", bp->kg);
+        jo_num(w, "mol_fraction", bp->mol_fraction);
+        jo_str(w, "role", ledger_role_name(bp->role));
         if (bp->role == ROLE_OTHER) { /* the sum of the rows below the reporting threshold */
-            jo_num(w, po, "mean_degree", r->other_mean_degree);
-            jo_num(w, po, "rows_summed", r->other_rows);
+            jo_num(w, "mean_degree", r->other_mean_degree);
+            jo_num(w, "rows_summed", r->other_rows);
             char label[64];
             ledger_other_label(bp, label, sizeof label);
-            jo_str(w, po, "label", label);
+            jo_str(w, "label", label);
         }
+        jo_close(w, '}');
     }
+    jo_close(w, ']');
 
-    cJSON *by = jo_obj(w, o, "byproducts");
-    jo_num(w, by, "HCl_kg", b->hx_kg[0]);
-    jo_num(w, by, "HBr_kg", b->hx_kg[1]);
-    jo_num(w, by, "SO2_kg", b->so2_kg);
-    jo_num(w, by, "succinimide_kg", b->succinimide_kg);
+    jo_open(w, "byproducts", '{');
+    jo_num(w, "HCl_kg", b->hx_kg[0]);
+    jo_num(w, "HBr_kg", b->hx_kg[1]);
+    jo_num(w, "SO2_kg", b->so2_kg);
+    jo_num(w, "succinimide_kg", b->succinimide_kg);
+    jo_close(w, '}');
 
-    jo_species(w, o, "vent", b->vent_mol, "_mol");
-    cJSON *vent = cJSON_GetObjectItemCaseSensitive(o, "vent");
-    if (vent)
-        jo_num(w, vent, "acid_kmol_h", s->acid_kmol_h);
-    jo_species(w, o, "retained", b->retained_mol, "_mol");
-    jo_num(w, o, "reagent_left_kg", b->reagent_left_kg);
+    jo_open(w, "vent", '{');
+    jo_species(w, b->vent_mol);
+    jo_num(w, "acid_kmol_h", s->acid_kmol_h);
+    jo_close(w, '}');
+    jo_open(w, "retained", '{');
+    jo_species(w, b->retained_mol);
+    jo_close(w, '}');
+    jo_num(w, "reagent_left_kg", b->reagent_left_kg);
 
-    cJSON *lo = jo_obj(w, o, "losses");
-    jo_num(w, lo, "wanted_kg", b->wanted_kg);
-    jo_num(w, lo, "isomer_kg", b->isomer_kg);
-    jo_num(w, lo, "overhalogenated_kg", b->overhal_kg);
-    jo_num(w, lo, "unreacted_substrate_kg", b->unreacted_substrate_kg);
+    jo_open(w, "losses", '{');
+    jo_num(w, "wanted_kg", b->wanted_kg);
+    jo_num(w, "isomer_kg", b->isomer_kg);
+    jo_num(w, "overhalogenated_kg", b->overhal_kg);
+    jo_num(w, "unreacted_substrate_kg", b->unreacted_substrate_kg);
+    jo_close(w, '}');
 
-    cJSON *sc = jo_obj(w, o, "scrubber");
-    jo_str(w, sc, "id", r->scrubber);
-    jo_num(w, sc, "naoh_kg", s->naoh_kg);
-    jo_num(w, sc, "heat_kj", s->heat_kj);
-    jo_num(w, sc, "temp_rise_k", s->temp_rise_k);
-    jo_bool(w, sc, "changeout_before", s->changeout_before);
-    jo_bool(w, sc, "exhausted", s->exhausted);
-    jo_num(w, sc, "naoh_left_kg", s->naoh_left_kg);
-    jo_num(w, sc, "liquor_kg_after", s->liquor_kg_after);
-    jo_num(w, sc, "naoh_wt_pct_after", s->naoh_wt_pct_after);
-    cJSON *salts = jo_obj(w, sc, "salts_kg");
-    for (int k = 0; k < SALT_COUNT && salts; k++)
-        jo_num(w, salts, jo_salt_key[k], s->salt_kg[k]);
-    jo_num(w, sc, "water_formed_kg", s->water_formed_kg);
-    jo_num(w, sc, "acid_wt_pct_after", s->acid_wt_pct_after);
-    jo_num(w, sc, "liquor_temp_c_after", s->liquor_temp_c_after);
-    jo_num(w, sc, "heat_kw", s->heat_kw);
-    jo_bool(w, sc, "too_hot", s->too_hot);
-    jo_num(w, sc, "sulfite_oxidised_mol", s->sulfite_oxidised_mol);
-    jo_num(w, sc, "breakthrough_mol", s->breakthrough_mol);
-    jo_num(w, sc, "unabsorbed_mol", s->unabsorbed_mol);
-    jo_num(w, sc, "caustic_solution_kg", r->changeout_caustic_solution_kg);
-    jo_num(w, sc, "dilution_water_kg", r->changeout_water_kg);
-    jo_num(w, sc, "hbr_wt_pct_after", s->hbr_wt_pct_after);
-    jo_num(w, sc, "boiling_point_c", s->boiling_point_c);
-    jo_bool(w, sc, "boils", s->boils);
+    jo_open(w, "scrubber", '{');
+    jo_str(w, "id", r->scrubber);
+    jo_num(w, "naoh_kg", s->naoh_kg);
+    jo_num(w, "heat_kj", s->heat_kj);
+    jo_num(w, "temp_rise_k", s->temp_rise_k);
+    jo_bool(w, "changeout_before", s->changeout_before);
+    jo_bool(w, "exhausted", s->exhausted);
+    jo_num(w, "naoh_left_kg", s->naoh_left_kg);
+    jo_num(w, "liquor_kg_after", s->liquor_kg_after);
+    jo_num(w, "naoh_wt_pct_after", s->naoh_wt_pct_after);
+    jo_open(w, "salts_kg", '{');
+    for (int k = 0; k < SALT_COUNT; k++)
+        jo_num(w, jo_salt_key[k], s->salt_kg[k]);
+    jo_close(w, '}');
+    jo_num(w, "water_formed_kg", s->water_formed_kg);
+    jo_num(w, "acid_wt_pct_after", s->acid_wt_pct_after);
+    jo_num(w, "liquor_temp_c_after", s->liquor_temp_c_after);
+    jo_num(w, "heat_kw", s->heat_kw);
+    jo_bool(w, "too_hot", s->too_hot);
+    jo_num(w, "sulfite_oxidised_mol", s->sulfite_oxidised_mol);
+    jo_num(w, "breakthrough_mol", s->breakthrough_mol);
+    jo_num(w, "unabsorbed_mol", s->unabsorbed_mol);
+    jo_num(w, "caustic_solution_kg", r->changeout_caustic_solution_kg);
+    jo_num(w, "dilution_water_kg", r->changeout_water_kg);
+    jo_num(w, "hbr_wt_pct_after", s->hbr_wt_pct_after);
+    jo_num(w, "boiling_point_c", s->boiling_point_c);
+    jo_bool(w, "boils", s->boils);
+    jo_close(w, '}');
 
-    cJSON *eb = jo_obj(w, o, "element_balance");
-    jo_num(w, eb, "max_rel_error", b->max_rel_error);
-    cJSON *els = jo_obj(w, eb, "elements");
-    for (int k = 0; k < BAL_NEL && els; k++) {
+    jo_open(w, "element_balance", '{');
+    jo_num(w, "max_rel_error", b->max_rel_error);
+    jo_open(w, "elements", '{');
+    for (int k = 0; k < BAL_NEL; k++) {
         const char *sym = elem_symbol(bal_elements[k]);
-        cJSON *eo = jo_obj(w, els, sym ? sym : "?");
-        jo_num(w, eo, "in_mol", b->el_in_mol[k]);
-        jo_num(w, eo, "out_mol", b->el_out_mol[k]);
+        jo_open(w, sym ? sym : "?", '{');
+        jo_num(w, "in_mol", b->el_in_mol[k]);
+        jo_num(w, "out_mol", b->el_out_mol[k]);
+        jo_close(w, '}');
     }
-    jo_bool(w, o, "isomers_resolved", b->isomers_resolved);
-    jo_num(w, o, "wanted_mol", b->wanted_mol);
-    jo_num(w, o, "converted_mol", b->converted_mol);
-    jo_num(w, o, "halogen_charged_mol", b->halogen_charged_mol);
-    jo_num(w, o, "halogen_in_wanted_mol", b->halogen_in_wanted_mol);
-    jo_num(w, o, "yield_pct", b->yield_pct);
-    jo_num(w, o, "conversion_pct", b->conversion_pct);
+    jo_close(w, '}');
+    jo_close(w, '}');
+    jo_bool(w, "isomers_resolved", b->isomers_resolved);
+    jo_num(w, "wanted_mol", b->wanted_mol);
+    jo_num(w, "converted_mol", b->converted_mol);
+    jo_num(w, "halogen_charged_mol", b->halogen_charged_mol);
+    jo_num(w, "halogen_in_wanted_mol", b->halogen_in_wanted_mol);
+    jo_num(w, "yield_pct", b->yield_pct);
+    jo_num(w, "conversion_pct", b->conversion_pct);
     if (b->selectivity_defined)
-        jo_num(w, o, "selectivity_pct", b->selectivity_pct);
+        jo_num(w, "selectivity_pct", b->selectivity_pct);
     else
-        jo_null(w, o, "selectivity_pct"); /* nothing converted: no selectivity */
-    jo_num(w, o, "halogen_efficiency_pct", b->halogen_efficiency_pct);
+        jo_null(w, "selectivity_pct"); /* nothing converted: no selectivity */
+    jo_num(w, "halogen_efficiency_pct", b->halogen_efficiency_pct);
     if (b->warning[0])
-        jo_str(w, o, "warning", b->warning);
-    jo_pop(w, mark);
-    return o;
+        jo_str(w, "warning", b->warning);
+    jo_end(w);
 }
 
-static void jo_month_products(struct jo *w, cJSON *o, const struct ledger_month *m)
+static void jo_month_products(struct jo *w, const struct ledger_month *m)
 {
-    cJSON *pa = jo_arr(w, o, "products");
-    for (int j = 0; j < m->nproducts && pa && w->st == HL_OK; j++) {
+    jo_open(w, "products", '[');
+    for (int j = 0; j < m->nproducts && w->st == HL_OK; j++) {
         const struct ledger_month_product *p = &m->products[j];
-        cJSON *po = cJSON_CreateObject();
-        if (!po || !cJSON_AddItemToArray(pa, po)) {
-            cJSON_Delete(po);
-            jo_nomem(w);
-            return;
-        }
-        jo_str(w, po, "substrate_name", p->substrate_name);
-        jo_str(w, po, "substrate", p->substrate);
-        jo_str(w, po, "reagent", jo_item_name(p->reagent));
-        jo_str(w, po, "wanted", p->wanted);
-        jo_str(w, po, "wanted_formula", p->wanted_formula);
-        jo_num(w, po, "runs", p->runs);
-        jo_num(w, po, "substrate_kg", p->substrate_kg);
-        jo_num(w, po, "substrate_mol", p->substrate_mol);
-        jo_num(w, po, "converted_mol", p->converted_mol);
-        jo_num(w, po, "wanted_mol", p->wanted_mol);
-        jo_num(w, po, "wanted_kg", p->wanted_kg);
-        jo_num(w, po, "halogen_charged_mol", p->halogen_charged_mol);
-        jo_num(w, po, "halogen_in_wanted_mol", p->halogen_in_wanted_mol);
-        jo_num(w, po, "yield_pct", p->yield_pct);
-        jo_num(w, po, "conversion_pct", p->conversion_pct);
+        jo_open(w, NULL, '{');
+        jo_str(w, "substrate_name", p->substrate_name);
+        jo_str(w, "substrate", p->substrate);
+        jo_str(w, "reagent", jo_item_name(p->reagent));
+        jo_str(w, "wanted", p->wanted);
+        jo_str(w, "wanted_formula", p->wanted_formula);
+        jo_num(w, "runs", p->runs);
+        jo_num(w, "substrate_kg", p->substrate_kg);
+        jo_num(w, "substrate_mol", p->substrate_mol);
+        jo_num(w, "converted_mol", p->converted_mol);
+        jo_num(w, "wanted_mol", p->wanted_mol);
+        jo_num(w, "wanted_kg", p->wanted_kg);
+        jo_num(w, "halogen_charged_mol", p->halogen_charged_mol);
+        jo_num(w, "halogen_in_wanted_mol", p->halogen_in_wanted_mol);
+        jo_num(w, "yield_pct", p->yield_pct);
+        jo_num(w, "conversion_pct", p->conversion_pct);
         if (p->selectivity_defined)
-            jo_num(w, po, "selectivity_pct", p->selectivity_pct);
+            jo_num(w, "selectivity_pct", p->selectivity_pct);
         else
-            jo_null(w, po, "selectivity_pct");
-        jo_num(w, po, "halogen_efficiency_pct", p->halogen_efficiency_pct);
+            jo_null(w, "selectivity_pct");
+        jo_num(w, "halogen_efficiency_pct", p->halogen_efficiency_pct);
+        jo_close(w, '}');
     }
+    jo_close(w, ']');
 }
 
-static cJSON *jo_month(struct jo *w, const struct ledger_month *m, int i)
+static void jo_month(struct jo *w, const struct ledger *l, int i)
 {
-    size_t mark = jo_push(w, "months[%d]", i);
-    cJSON *o = jo_obj(w, NULL, NULL);
+    const struct ledger_month *m = &l->months[i];
+    jo_begin(w, "months", i);
     char mt[32];
     jo_month_text(m->month_index, mt, sizeof mt);
-    jo_str(w, o, "month", mt);
-    jo_num(w, o, "runs", m->runs);
-    jo_num(w, o, "product_kg", m->product_kg);
-    jo_num(w, o, "isomer_kg", m->isomer_kg);
-    jo_num(w, o, "overhalogenated_kg", m->overhal_kg);
-    jo_num(w, o, "unreacted_substrate_kg", m->unreacted_substrate_kg);
-    cJSON *rk = jo_obj(w, o, "reagents_kg");
-    for (int k = 0; k < RG_COUNT && rk; k++)
-        jo_num(w, rk, jo_item_name(k), m->reagents_kg[k]);
-    cJSON *vk = jo_obj(w, o, "vent_kg");
-    for (int k = 0; k < VS_COUNT && vk; k++)
-        jo_num(w, vk, jo_vent_key[k], m->vent_kg[k]);
-    jo_num(w, o, "naoh_kg", m->naoh_kg);
-    jo_num(w, o, "changeouts", m->changeouts);
-    cJSON *wk = jo_obj(w, o, "waste_kg");
-    jo_num(w, wk, "spent_liquor", m->spent_liquor_kg);
-    jo_num(w, wk, "succinimide", m->succinimide_kg);
-    jo_num(w, wk, "reagent_left", m->reagent_left_kg);
-    jo_num(w, wk, "retained_acid", m->retained_acid_kg);
-    jo_num(w, o, "caustic_solution_kg", m->caustic_solution_kg);
-    jo_num(w, o, "caustic_solution_naoh_kg", m->caustic_solution_naoh_kg);
-    jo_num(w, o, "dilution_water_kg", m->dilution_water_kg);
-    jo_month_products(w, o, m);
-    jo_pop(w, mark);
-    return o;
+    jo_str(w, "month", mt);
+    jo_num(w, "runs", m->runs);
+    jo_num(w, "product_kg", m->product_kg);
+    jo_num(w, "isomer_kg", m->isomer_kg);
+    jo_num(w, "overhalogenated_kg", m->overhal_kg);
+    jo_num(w, "unreacted_substrate_kg", m->unreacted_substrate_kg);
+    jo_open(w, "reagents_kg", '{');
+    for (int k = 0; k < RG_COUNT; k++)
+        jo_num(w, jo_item_name(k), m->reagents_kg[k]);
+    jo_close(w, '}');
+    jo_open(w, "vent_kg", '{');
+    for (int k = 0; k < VS_COUNT; k++)
+        jo_num(w, jo_vent_key[k], m->vent_kg[k]);
+    jo_close(w, '}');
+    jo_num(w, "naoh_kg", m->naoh_kg);
+    jo_num(w, "changeouts", m->changeouts);
+    jo_open(w, "waste_kg", '{');
+    jo_num(w, "spent_liquor", m->spent_liquor_kg);
+    jo_num(w, "succinimide", m->succinimide_kg);
+    jo_num(w, "reagent_left", m->reagent_left_kg);
+    jo_num(w, "retained_acid", m->retained_acid_kg);
+    jo_close(w, '}');
+    jo_num(w, "caustic_solution_kg", m->caustic_solution_kg);
+    jo_num(w, "caustic_solution_naoh_kg", m->caustic_solution_naoh_kg);
+    jo_num(w, "dilution_water_kg", m->dilution_water_kg);
+    jo_month_products(w, m);
+    jo_end(w);
 }
 
-static cJSON *jo_order(struct jo *w, const struct ledger *l, const struct ord_line *d, int i)
+static void jo_order(struct jo *w, const struct ledger *l, int i)
 {
-    size_t mark = jo_push(w, "orders[%d]", i);
-    cJSON *o = jo_obj(w, NULL, NULL);
+    const struct ord_line *d = &l->orders[i];
+    jo_begin(w, "orders", i);
     char mt[32];
     jo_month_text(d->month_index, mt, sizeof mt);
-    jo_str(w, o, "month", mt);
-    jo_str(w, o, "reagent", jo_item_name(d->item));
-    jo_num(w, o, "demand_kg", d->demand_kg);
-    jo_num(w, o, "stock_start_kg", d->stock_start_kg);
-    jo_num(w, o, "safety_kg", d->safety_kg);
-    jo_num(w, o, "to_order_kg", d->to_order_kg);
-    jo_str(w, o, "container", d->container);
-    jo_num(w, o, "net_kg", d->net_kg);
-    jo_num(w, o, "heel_kg", d->heel_kg);
-    jo_num(w, o, "containers", d->containers);
-    jo_num(w, o, "ordered_usable_kg", d->ordered_usable_kg);
-    jo_num(w, o, "stock_end_kg", d->stock_end_kg);
-    jo_date(w, o, "first_use", d->first_use_min, 0);
+    jo_str(w, "month", mt);
+    jo_str(w, "reagent", jo_item_name(d->item));
+    jo_num(w, "demand_kg", d->demand_kg);
+    jo_num(w, "stock_start_kg", d->stock_start_kg);
+    jo_num(w, "safety_kg", d->safety_kg);
+    jo_num(w, "to_order_kg", d->to_order_kg);
+    jo_str(w, "container", d->container);
+    jo_num(w, "net_kg", d->net_kg);
+    jo_num(w, "heel_kg", d->heel_kg);
+    jo_num(w, "containers", d->containers);
+    jo_num(w, "ordered_usable_kg", d->ordered_usable_kg);
+    jo_num(w, "stock_end_kg", d->stock_end_kg);
+    jo_date(w, "first_use", d->first_use_min, 0);
     /* Date only, truncated: ordering on that day is never later than required. */
-    jo_date(w, o, "order_by", d->order_by_min, 1);
-    jo_bool(w, o, "late", d->late);
-    jo_bool(w, o, "no_container", d->no_container);
+    jo_date(w, "order_by", d->order_by_min, 1);
+    jo_bool(w, "late", d->late);
+    jo_bool(w, "no_container", d->no_container);
     if (d->item == RG_NAOH) { /* caustic is bought as solution: say its strength */
         if (l->caustic_order_wt_pct > 0)
-            jo_num(w, o, "naoh_wt_pct", l->caustic_order_wt_pct);
+            jo_num(w, "naoh_wt_pct", l->caustic_order_wt_pct);
         else
-            jo_null(w, o, "naoh_wt_pct"); /* units buy unlike strengths (warned) */
+            jo_null(w, "naoh_wt_pct"); /* units buy unlike strengths (warned) */
     }
-    jo_pop(w, mark);
-    return o;
+    jo_end(w);
 }
 
-static cJSON *jo_scrubber(struct jo *w, const struct ledger *l, int i)
+/* An array key of the ids of runs (indices into l->runs). */
+static void jo_run_ids(struct jo *w, const struct ledger *l, const char *key, const int *runs, int n)
+{
+    jo_open(w, key, '[');
+    for (int k = 0; k < n && w->st == HL_OK; k++) {
+        int ri = runs[k];
+        if (ri < 0 || ri >= l->nruns) {
+            jo_close(w, ']');
+            jo_bad(w, key, "run index out of range");
+            return;
+        }
+        jo_str(w, NULL, l->runs[ri].id);
+    }
+    jo_close(w, ']');
+}
+
+static void jo_scrubber(struct jo *w, const struct ledger *l, int i)
 {
     const struct ledger_scrubber *u = &l->scrubbers[i];
     const struct scrub_unit_out *s = &u->out;
-    size_t mark = jo_push(w, "scrubbers[%d]", i);
-    cJSON *o = jo_obj(w, NULL, NULL);
-    jo_str(w, o, "id", u->id);
-    jo_num(w, o, "peak_acid_kmol_h", s->peak_acid_kmol_h);
+    jo_begin(w, "scrubbers", i);
+    jo_str(w, "id", u->id);
+    jo_num(w, "peak_acid_kmol_h", s->peak_acid_kmol_h);
     if (s->nhours > 0)
-        jo_date(w, o, "peak_at", s->peak_at_min, 0);
+        jo_date(w, "peak_at", s->peak_at_min, 0);
     else
-        jo_null(w, o, "peak_at");
-    jo_num(w, o, "rated_acid_kmol_h", u->rated_acid_kmol_h);
-    jo_bool(w, o, "overloaded", s->overloaded);
-    jo_num(w, o, "changeouts", s->changeouts);
-    jo_num(w, o, "naoh_kg", s->naoh_kg);
-    jo_num(w, o, "makeup_kg", s->makeup_kg);
-    jo_num(w, o, "makeup_naoh_wt_pct", u->makeup_naoh_wt_pct);
-    jo_num(w, o, "caustic_solution_kg", s->makeup_kg);
-    jo_num(w, o, "changeout_caustic_solution_kg", u->changeout_caustic_solution_kg);
-    jo_num(w, o, "changeout_water_kg", u->changeout_water_kg);
-    jo_num(w, o, "dilution_water_kg", u->dilution_water_kg);
-    jo_num(w, o, "heat_kj", s->heat_kj);
-    cJSON *pr = jo_arr(w, o, "peak_runs");
-    for (int k = 0; k < s->npeak_runs && pr; k++) {
-        int ri = s->peak_runs[k];
-        if (ri < 0 || ri >= l->nruns) {
-            jo_badkey(w, o, "peak_runs", "run index out of range");
-            break;
-        }
-        jo_arr_str(w, pr, l->runs[ri].id);
-    }
-    jo_num(w, o, "peak_instant_kmol_h", s->peak_instant_kmol_h);
+        jo_null(w, "peak_at");
+    jo_num(w, "rated_acid_kmol_h", u->rated_acid_kmol_h);
+    jo_bool(w, "overloaded", s->overloaded);
+    jo_num(w, "changeouts", s->changeouts);
+    jo_num(w, "naoh_kg", s->naoh_kg);
+    jo_num(w, "makeup_kg", s->makeup_kg);
+    jo_num(w, "makeup_naoh_wt_pct", u->makeup_naoh_wt_pct);
+    jo_num(w, "caustic_solution_kg", s->makeup_kg);
+    jo_num(w, "changeout_caustic_solution_kg", u->changeout_caustic_solution_kg);
+    jo_num(w, "changeout_water_kg", u->changeout_water_kg);
+    jo_num(w, "dilution_water_kg", u->dilution_water_kg);
+    jo_num(w, "heat_kj", s->heat_kj);
+    jo_run_ids(w, l, "peak_runs", s->peak_runs, s->npeak_runs);
+    jo_num(w, "peak_instant_kmol_h", s->peak_instant_kmol_h);
     if (s->npeak_instant_runs > 0)
-        jo_date(w, o, "peak_instant_at", s->peak_instant_at_min, 0);
+        jo_date(w, "peak_instant_at", s->peak_instant_at_min, 0);
     else
-        jo_null(w, o, "peak_instant_at");
-    cJSON *pi = jo_arr(w, o, "peak_instant_runs");
-    for (int k = 0; k < s->npeak_instant_runs && pi; k++) {
-        int ri = s->peak_instant_runs[k];
-        if (ri < 0 || ri >= l->nruns) {
-            jo_badkey(w, o, "peak_instant_runs", "run index out of range");
-            break;
-        }
-        jo_arr_str(w, pi, l->runs[ri].id);
-    }
-    jo_num(w, o, "peak_heat_kw", s->peak_heat_kw);
+        jo_null(w, "peak_instant_at");
+    jo_run_ids(w, l, "peak_instant_runs", s->peak_instant_runs, s->npeak_instant_runs);
+    jo_num(w, "peak_heat_kw", s->peak_heat_kw);
     if (s->npeak_heat_runs > 0)
-        jo_date(w, o, "peak_heat_at", s->peak_heat_at_min, 0);
+        jo_date(w, "peak_heat_at", s->peak_heat_at_min, 0);
     else
-        jo_null(w, o, "peak_heat_at");
-    cJSON *ph = jo_arr(w, o, "peak_heat_runs");
-    for (int k = 0; k < s->npeak_heat_runs && ph; k++) {
-        int ri = s->peak_heat_runs[k];
-        if (ri < 0 || ri >= l->nruns) {
-            jo_badkey(w, o, "peak_heat_runs", "run index out of range");
-            break;
-        }
-        jo_arr_str(w, ph, l->runs[ri].id);
-    }
-    jo_num(w, o, "max_liquor_temp_c", s->max_liquor_temp_c);
-    jo_num(w, o, "too_hot_runs", s->too_hot_runs);
-    jo_num(w, o, "boiling_runs", s->boiling_runs);
-    cJSON *h = jo_obj(w, o, "hourly");
+        jo_null(w, "peak_heat_at");
+    jo_run_ids(w, l, "peak_heat_runs", s->peak_heat_runs, s->npeak_heat_runs);
+    jo_num(w, "max_liquor_temp_c", s->max_liquor_temp_c);
+    jo_num(w, "too_hot_runs", s->too_hot_runs);
+    jo_num(w, "boiling_runs", s->boiling_runs);
+    jo_open(w, "hourly", '{');
     if (s->nhours > 0)
-        jo_date(w, h, "start", s->hour0_min, 0);
+        jo_date(w, "start", s->hour0_min, 0);
     else
-        jo_null(w, h, "start");
-    cJSON *ha = h ? jo_arr(w, h, "kmol_h") : NULL;
-    for (int k = 0; k < s->nhours && ha && w->st == HL_OK; k++)
-        jo_arr_num(w, ha, scrub_hourly_kmol_h(s, k), (size_t)k);
-    cJSON *sp = jo_arr(w, o, "spent");
-    for (int k = 0; k < s->nspent && sp && w->st == HL_OK; k++) {
+        jo_null(w, "start");
+    jo_open(w, "kmol_h", '[');
+    for (int k = 0; k < s->nhours && w->st == HL_OK; k++)
+        jo_num(w, NULL, scrub_hourly_kmol_h(s, k));
+    jo_close(w, ']');
+    jo_close(w, '}');
+    jo_open(w, "spent", '[');
+    for (int k = 0; k < s->nspent && w->st == HL_OK; k++) {
         const struct scrub_spent *b = &s->spent[k];
-        cJSON *so = cJSON_CreateObject();
-        if (!so || !cJSON_AddItemToArray(sp, so)) {
-            cJSON_Delete(so);
-            jo_nomem(w);
-            break;
-        }
-        jo_date(w, so, "at", b->at_min, 0);
-        jo_bool(w, so, "final", b->final);
-        jo_num(w, so, "mass_kg", b->mass_kg);
-        jo_num(w, so, "naoh_kg", b->naoh_kg);
-        jo_num(w, so, "water_kg", b->water_kg);
-        jo_num(w, so, "hcl_kg", b->hcl_kg);
-        jo_num(w, so, "hbr_kg", b->hbr_kg);
-        cJSON *salts = jo_obj(w, so, "salts_kg");
-        for (int q = 0; q < SALT_COUNT && salts; q++)
-            jo_num(w, salts, jo_salt_key[q], b->salt_kg[q]);
+        jo_open(w, NULL, '{');
+        jo_date(w, "at", b->at_min, 0);
+        jo_bool(w, "final", b->final);
+        jo_num(w, "mass_kg", b->mass_kg);
+        jo_num(w, "naoh_kg", b->naoh_kg);
+        jo_num(w, "water_kg", b->water_kg);
+        jo_num(w, "hcl_kg", b->hcl_kg);
+        jo_num(w, "hbr_kg", b->hbr_kg);
+        jo_open(w, "salts_kg", '{');
+        for (int q = 0; q < SALT_COUNT; q++)
+            jo_num(w, jo_salt_key[q], b->salt_kg[q]);
+        jo_close(w, '}');
+        jo_close(w, '}');
     }
+    jo_close(w, ']');
     if (s->column.present) {
         const struct scrub_column_check *c = &s->column;
-        cJSON *co = jo_obj(w, o, "column");
-        jo_num(w, co, "gas_kmol_h", c->gas_kmol_h);
-        jo_num(w, co, "y_in", c->y_in);
-        jo_num(w, co, "y_out", c->y_out);
-        jo_num(w, co, "ntu", c->ntu);
-        jo_num(w, co, "height_m", c->height_m);
-        jo_num(w, co, "diameter_m", c->diameter_m);
-        jo_num(w, co, "flood_velocity_m_s", c->flood_velocity_m_s);
-        jo_num(w, co, "flow_parameter", c->flow_parameter);
-        jo_str(w, co, "note", "Screening check only; a final column design needs review by a licensed engineer.");
+        jo_open(w, "column", '{');
+        jo_num(w, "gas_kmol_h", c->gas_kmol_h);
+        jo_num(w, "y_in", c->y_in);
+        jo_num(w, "y_out", c->y_out);
+        jo_num(w, "ntu", c->ntu);
+        jo_num(w, "height_m", c->height_m);
+        jo_num(w, "diameter_m", c->diameter_m);
+        jo_num(w, "flood_velocity_m_s", c->flood_velocity_m_s);
+        jo_num(w, "flow_parameter", c->flow_parameter);
+        jo_str(w, "note", "Screening check only; a final column design needs review by a licensed engineer.");
+        jo_close(w, '}');
     } else {
-        jo_null(w, o, "column");
+        jo_null(w, "column");
     }
-    jo_pop(w, mark);
-    return o;
+    jo_end(w);
 }
 
-static cJSON *jo_caution(struct jo *w, int ca)
+static void jo_caution(struct jo *w, const struct ledger *l, int ca)
 {
+    (void)l;
     const struct caution_info *c = caution_get(ca);
-    size_t mark = jo_push(w, "cautions[%d]", ca);
-    cJSON *o = jo_obj(w, NULL, NULL);
-    jo_str(w, o, "substance", c->substance);
-    jo_str(w, o, "cas", c->cas);
-    cJSON *la = jo_arr(w, o, "limits");
-    for (int k = 0; k < c->nlimits && k < 4 && la && w->st == HL_OK; k++) {
-        cJSON *lo = cJSON_CreateObject();
-        if (!lo || !cJSON_AddItemToArray(la, lo)) {
-            cJSON_Delete(lo);
-            jo_nomem(w);
-            break;
-        }
-        jo_str(w, lo, "kind", c->limits[k].kind);
-        jo_str(w, lo, "value", c->limits[k].value);
-        jo_str(w, lo, "source", c->limits[k].source);
+    jo_begin(w, "cautions", ca);
+    jo_str(w, "substance", c->substance);
+    jo_str(w, "cas", c->cas);
+    jo_open(w, "limits", '[');
+    for (int k = 0; k < c->nlimits && k < 4; k++) {
+        jo_open(w, NULL, '{');
+        jo_str(w, "kind", c->limits[k].kind);
+        jo_str(w, "value", c->limits[k].value);
+        jo_str(w, "source", c->limits[k].source);
+        jo_close(w, '}');
     }
-    jo_str(w, o, "hazards", c->hazards);
-    jo_str(w, o, "incompatible", c->incompatible);
-    jo_str(w, o, "ppe", c->ppe);
-    jo_pop(w, mark);
-    return o;
+    jo_close(w, ']');
+    jo_str(w, "hazards", c->hazards);
+    jo_str(w, "incompatible", c->incompatible);
+    jo_str(w, "ppe", c->ppe);
+    jo_end(w);
 }
 
-/* Emit "key": [ records ] with one record per line. */
-typedef cJSON *(*jo_build_fn)(struct jo *, const struct ledger *, int);
-
-static cJSON *jo_b_run(struct jo *w, const struct ledger *l, int i) { return jo_run(w, l, i); }
-static cJSON *jo_b_month(struct jo *w, const struct ledger *l, int i) { return jo_month(w, &l->months[i], i); }
-static cJSON *jo_b_order(struct jo *w, const struct ledger *l, int i) { return jo_order(w, l, &l->orders[i], i); }
-static cJSON *jo_b_scrub(struct jo *w, const struct ledger *l, int i) { return jo_scrubber(w, l, i); }
-static cJSON *jo_b_warn(struct jo *w, const struct ledger *l, int i)
+static void jo_warning(struct jo *w, const struct ledger *l, int i)
 {
-    size_t mark = jo_push(w, "warnings[%d]", i);
-    cJSON *o = jo_obj(w, NULL, NULL);
-    jo_str(w, o, "run", l->warnings[i].run);
-    jo_str(w, o, "message", l->warnings[i].message);
-    jo_pop(w, mark);
-    return o;
+    jo_begin(w, "warnings", i);
+    jo_str(w, "run", l->warnings[i].run);
+    jo_str(w, "message", l->warnings[i].message);
+    jo_end(w);
 }
-static cJSON *jo_b_assume(struct jo *w, const struct ledger *l, int i)
+
+static void jo_assumption(struct jo *w, const struct ledger *l, int i)
 {
     const struct ledger_assumption *a = &l->assumptions[i];
-    size_t mark = jo_push(w, "assumptions[%d]", i);
-    cJSON *o = jo_obj(w, NULL, NULL);
-    jo_str(w, o, "what", a->what);
+    jo_begin(w, "assumptions", i);
+    jo_str(w, "what", a->what);
     if (a->has_value)
-        jo_num(w, o, "value", a->value);
+        jo_num(w, "value", a->value);
     else
-        jo_null(w, o, "value"); /* a text-only assumption */
-    jo_str(w, o, "unit", a->unit);
-    jo_str(w, o, "origin", a->origin);
-    jo_pop(w, mark);
-    return o;
+        jo_null(w, "value"); /* a text-only assumption */
+    jo_str(w, "unit", a->unit);
+    jo_str(w, "origin", a->origin);
+    jo_end(w);
 }
 
-static void jo_list(struct jo *w, const struct ledger *l, const char *key, int n, jo_build_fn fn)
+/* "key": [ records ] with one record per line; ids[] picks the records (NULL: 0..n-1). */
+typedef void (*jo_record_fn)(struct jo *, const struct ledger *, int);
+
+static void jo_list(struct jo *w, const struct ledger *l, const char *key, int n, const int *ids,
+                    jo_record_fn fn)
 {
-    jo_puts(w, "\"");
+    jo_putc(w, '"');
     jo_puts(w, key);
     jo_puts(w, n ? "\": [\n" : "\": [");
-    for (int i = 0; i < n && w->st == HL_OK; i++)
-        jo_emit(w, "  ", fn(w, l, i), i + 1 < n ? ",\n" : "\n");
+    for (int i = 0; i < n && w->st == HL_OK; i++) {
+        jo_puts(w, "  ");
+        fn(w, l, ids ? ids[i] : i);
+        jo_puts(w, i + 1 < n ? ",\n" : "\n");
+    }
     jo_puts(w, "],\n");
+}
+
+/* A top-level scalar member "key": text or null, on its own line. */
+static void jo_top_str(struct jo *w, const char *key, const char *text)
+{
+    w->depth = 0;
+    w->count[0] = 0;
+    w->path[0] = '\0';
+    w->plen = 0;
+    jo_putc(w, '"');
+    jo_puts(w, key);
+    jo_puts(w, "\": ");
+    if (!text)
+        jo_puts(w, "null");
+    else if (!jo_utf8_ok((const unsigned char *)text))
+        jo_bad(w, key, "text that is not valid UTF-8");
+    else
+        jo_quoted(w, text);
+}
+
+static void jo_document(struct jo *w, const struct ledger *l)
+{
+    jo_puts(w, "{\n\"format\": \"haloledger-ledger/1\",\n\"generator\": \"haloledger\",\n");
+    char when[32];
+    isodate_format(l->created_min, 0, when, sizeof when);
+    jo_top_str(w, "created", l->created_min != 0 ? when : NULL);
+    jo_puts(w, ",\n");
+    isodate_format(l->today_min, 1, when, sizeof when);
+    jo_top_str(w, "today", l->today_min >= 0 ? when : NULL);
+    jo_puts(w, ",\n\"campaign\": ");
+    jo_begin(w, "campaign", -1);
+    jo_str(w, "title", l->title);
+    jo_str(w, "site", l->site);
+    jo_str(w, "file", l->file);
+    jo_end(w);
+    jo_puts(w, ",\n");
+
+    jo_list(w, l, "runs", l->nruns, NULL, jo_run);
+    jo_list(w, l, "months", l->nmonths, NULL, jo_month);
+    jo_list(w, l, "orders", l->norders, NULL, jo_order);
+    jo_list(w, l, "scrubbers", l->nscrubbers, NULL, jo_scrubber);
+    jo_list(w, l, "warnings", l->nwarnings, NULL, jo_warning);
+    jo_list(w, l, "assumptions", l->nassumptions, NULL, jo_assumption);
+    int ca[CA_COUNT], nca = 0;
+    for (int k = 0; k < CA_COUNT; k++)
+        if ((l->cautions_mask >> k & 1u) && caution_get(k))
+            ca[nca++] = k;
+    jo_list(w, l, "cautions", nca, ca, jo_caution);
+    jo_top_str(w, "caution_deferral", caution_deferral());
+    jo_puts(w, "\n}\n");
 }
 
 enum hl_status json_out_render(const struct ledger *l, char **text, struct hl_err *e)
 {
-    struct jo w = {0};
-    w.e = e;
+    struct jo w = {.e = e};
     *text = NULL;
-
-    jo_puts(&w, "{\n\"format\": \"haloledger-ledger/1\",\n\"generator\": \"haloledger\",\n");
-    char when[32];
-    isodate_format(l->created_min, 0, when, sizeof when);
-    jo_emit(&w, "\"created\": ", l->created_min != 0 ? cJSON_CreateString(when) : cJSON_CreateNull(), ",\n");
-    isodate_format(l->today_min, 1, when, sizeof when);
-    jo_emit(&w, "\"today\": ", l->today_min >= 0 ? cJSON_CreateString(when) : cJSON_CreateNull(), ",\n");
-    size_t mark = jo_push(&w, "campaign");
-    cJSON *head = jo_obj(&w, NULL, NULL);
-    jo_str(&w, head, "title", l->title);
-    jo_str(&w, head, "site", l->site);
-    jo_str(&w, head, "file", l->file);
-    jo_pop(&w, mark);
-    jo_emit(&w, "\"campaign\": ", head, ",\n");
-
-    jo_list(&w, l, "runs", l->nruns, jo_b_run);
-    jo_list(&w, l, "months", l->nmonths, jo_b_month);
-    jo_list(&w, l, "orders", l->norders, jo_b_order);
-    jo_list(&w, l, "scrubbers", l->nscrubbers, jo_b_scrub);
-    jo_list(&w, l, "warnings", l->nwarnings, jo_b_warn);
-    jo_list(&w, l, "assumptions", l->nassumptions, jo_b_assume);
-
-    int nca = 0;
-    for (int k = 0; k < CA_COUNT; k++)
-        nca += (l->cautions_mask >> k & 1u) && caution_get(k);
-    jo_puts(&w, nca ? "\"cautions\": [\n" : "\"cautions\": [");
-    for (int k = 0, done = 0; k < CA_COUNT && w.st == HL_OK; k++) {
-        if (!(l->cautions_mask >> k & 1u) || !caution_get(k))
-            continue;
-        done++;
-        jo_emit(&w, "  ", jo_caution(&w, k), done < nca ? ",\n" : "\n");
-    }
-    jo_puts(&w, "],\n");
-
-    cJSON *d = w.st == HL_OK ? cJSON_CreateString(caution_deferral()) : NULL;
-    if (w.st == HL_OK && !d)
-        jo_nomem(&w);
-    else if (d)
-        jo_emit(&w, "\"caution_deferral\": ", d, "\n}\n");
-
+    if (!(w.buf = hl_malloc(JO_BUF)))
+        return hl_err_set(e, HL_ERR_NOMEM, "out of memory while writing the JSON ledger");
+    jo_document(&w, l);
+    jo_flush(&w);
+    hl_free(w.buf);
     if (w.st != HL_OK) {
-        hl_free(w.buf);
+        hl_free(w.mem);
         return w.st;
     }
-    *text = w.buf;
+    *text = w.mem;
     return HL_OK;
 }
 
 enum hl_status json_out_write(const struct ledger *l, const char *path, struct hl_err *e)
 {
     enum hl_status st = afile_check_target(path, e);
-    if (st)
+    char *tmp = NULL;
+    if (st || (st = afile_tmpname(path, &tmp, e)))
         return st;
-    char *text;
-    st = json_out_render(l, &text, e);
-    if (st)
+    struct jo w = {.e = e, .fname = path};
+    w.f = fopen(tmp, "wb");
+    if (!w.f) {
+        st = hl_err_set(e, HL_ERR_IO, "cannot write %s: %s", path, strerror(errno));
+        unlink(tmp);
+        hl_free(tmp);
         return st;
-    st = afile_write(path, text, strlen(text), e);
-    hl_free(text);
+    }
+    if (!(w.buf = hl_malloc(JO_BUF)))
+        jo_nomem(&w);
+    else
+        jo_document(&w, l);
+    jo_flush(&w);
+    hl_free(w.buf);
+    /* as afile_write: fsync before the rename, so a crash never leaves an empty ledger */
+    int err = 0;
+    if (w.st == HL_OK && (fflush(w.f) != 0 || ferror(w.f)))
+        err = errno ? errno : EIO;
+    if (w.st == HL_OK && !err && fsync(fileno(w.f)) != 0 && errno != EINVAL)
+        err = errno;
+    if (fclose(w.f) != 0 && w.st == HL_OK && !err)
+        err = errno ? errno : EIO;
+    if (w.st == HL_OK && err)
+        w.st = hl_err_set(e, HL_ERR_IO, "cannot write %s: %s", path, strerror(err));
+    if (w.st != HL_OK) {
+        unlink(tmp);
+        hl_free(tmp);
+        return w.st;
+    }
+    st = afile_commit(tmp, path, e);
+    hl_free(tmp);
     return st;
 }

@@ -1,0 +1,82 @@
+#!/usr/bin/python3
+"""bench_smoke.py - `make bench` cannot rot: its generator and its driver run on 10^3 runs.
+
+Not a timed test: nothing here depends on speed. It checks that
+1. bench/gen_campaign.py makes the campaign bench/README.md describes: N runs, one start every
+   30 minutes, 12 reactors, 4 scrubbers (three reactors each), eight substrates, all five
+   reagents, and that the binary accepts it (`check` exits 0, no warning about the site shape);
+2. bench/bench.py runs check, the JSON and the workbook report and the floor program, and
+   prints its table: the 1000-run row has all 13 fields, with cell and byte counts equal to what
+   is counted here from the files it leaves (cells: <c> elements of the worksheets, read with
+   Python's zipfile; bytes: the JSON ledger's size).
+Env: HALOLEDGER, HL_ROOT.
+"""
+import json
+import os
+import subprocess
+import sys
+import tempfile
+import time
+import zipfile
+
+sys.path.insert(0, os.path.dirname(os.path.abspath(__file__)))
+from _hl import BIN, ROOT, Tally  # noqa: E402
+
+T = Tally()
+
+
+def main():
+    t0 = time.time()
+    with tempfile.TemporaryDirectory() as tmp:
+        camp = os.path.join(tmp, "campaign-1000.json")
+        subprocess.run([sys.executable, os.path.join(ROOT, "bench", "gen_campaign.py"), "1000", camp], check=True)
+        with open(camp) as f:
+            c = json.load(f)
+        runs = c["runs"]
+        T.check(len(runs) == 1000, f"{len(runs)} runs")
+        starts = sorted({r["start"] for r in runs})
+        T.check(len(starts) == 1000, "one run per start time")
+        T.check(starts[0] == "2027-01-01T00:00" and starts[1] == "2027-01-01T00:30"
+                and starts[-1] == "2027-01-21T19:30", f"starts every 30 min: {starts[:2]} .. {starts[-1]}")
+        T.check(len({r["reactor"] for r in runs}) == 12, "12 reactors")
+        T.check(len(c["scrubbers"]) == 4 and len({r["scrubber"] for r in runs}) == 4, "4 scrubbers")
+        per = {}
+        for r in runs:
+            per.setdefault(r["scrubber"], set()).add(r["reactor"])
+        T.check(all(len(v) == 3 for v in per.values()), f"three reactors per scrubber: {per}")
+        T.check(len({r["substrate"]["smiles"] for r in runs}) == 8, "eight substrates")
+        T.check({r["reagent"] for r in runs} == {"Cl2", "Br2", "SO2Cl2", "NBS", "HBr"}, "all five reagents")
+        p = subprocess.run([BIN, "check", camp], capture_output=True, text=True, timeout=300)
+        T.check(p.returncode == 0, f"check exit {p.returncode}: {p.stderr[-300:]}")
+
+        env = dict(os.environ, BENCH_SIZES="1000", BENCH_DIR=tmp, HALOLEDGER=BIN)
+        p = subprocess.run([sys.executable, os.path.join(ROOT, "bench", "bench.py")], env=env,
+                           capture_output=True, text=True, timeout=600)
+        T.check(p.returncode == 0, f"bench.py exit {p.returncode}: {p.stderr[-500:]}")
+        rows = [ln.split(" | ") for ln in p.stdout.splitlines() if ln.startswith("1000 |")]
+        if T.check(len(rows) == 1 and len(rows[0]) == 13, f"table row: {p.stdout[-600:]}"):
+            row = rows[0]
+            cells = 0
+            with zipfile.ZipFile(os.path.join(tmp, "ledger-1000.xlsx")) as z:
+                for n in z.namelist():
+                    if n.startswith("xl/worksheets/sheet"):
+                        cells += z.read(n).count(b"<c ")
+            T.check(cells > 10000 and int(row[11]) == cells, f"cells {row[11]} != counted {cells}")
+            size = os.path.getsize(os.path.join(tmp, "ledger-1000.json"))
+            T.check(round(size / 1000) == int(row[12]), f"json bytes/run {row[12]} != {size / 1000:.0f}")
+            for k in (1, 2, 3, 4):
+                cpu, wall = row[k].split(" [")
+                T.check(float(cpu) >= 0 and float(wall.rstrip("]")) > 0, f"time field {row[k]!r}")
+            T.check(all(float(row[k]) > 0 for k in (6, 7, 8)), f"peak RSS fields {row[6:9]}")
+            fl = os.path.join(tmp, "floor-1000.xlsx")
+            with zipfile.ZipFile(fl) as z:
+                fc = sum(z.read(n).count(b"<c ") for n in z.namelist() if n.startswith("xl/worksheets/sheet"))
+            T.check(fc == cells, f"floor wrote {fc} cells, not {cells}")
+    for f in T.fails:
+        print("FAIL:", f)
+    print(f"bench_smoke: {T.n - len(T.fails)}/{T.n} checks passed in {time.time() - t0:.1f} s")
+    return 1 if T.fails else 0
+
+
+if __name__ == "__main__":
+    sys.exit(main())
