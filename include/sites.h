@@ -4,7 +4,8 @@
  * Symmetry classes come from iterative refinement of atom invariants
  * (element, heavy degree, H count, charge, isotope, ring membership,
  * aromaticity; then the multiset of neighbour classes with bond orders,
- * repeated until the number of classes is stable), the grouping RDKit's
+ * repeated until the number of classes is stable; computed with splitter queues in
+ * O((n + m) log^2 n)), the grouping RDKit's
  * CanonicalRankAtoms(breakTies=False) gives on ordinary molecules.
  * Structure equality is graph isomorphism (backtracking over atoms in
  * breadth-first order, candidates pruned by the refined classes of the two

@@ -5,7 +5,9 @@
  * bracket atoms [isotope symbol chirality Hn charge :class], aromatic
  * lowercase atoms, bonds - = # : / \, branches and ring closures (0-9, %nn).
  * The reader is strict: every malformed string is refused with the 1-based
- * column and a reason.  One connected molecule only ('.' is refused).
+ * column and a reason.  One connected molecule only ('.' is refused).  An aromatic
+ * system must have a Kekule structure, as RDKit requires (Cc1cccc1, c1ccnc1 are refused at
+ * the system's first atom), and bracket atoms keep to their valences for their charge.
  * Stereo marks (@, /, \) are accepted and dropped: the models are
  * constitutional.  Write: any valid SMILES of the graph (not canonical).
  */

@@ -1341,6 +1341,47 @@ static void run_free(struct camp_run *r)
     memset(r, 0, sizeof *r);
 }
 
+/* Atoms of a SMILES, counted as its reader will (organic-subset letters outside brackets,
+ * a bracket atom as one; Cl and Br as one); 0 if at most CAMP_MAX_SMILES_ATOMS, else the
+ * 1-based byte of the first atom beyond.  Malformed text is the SMILES reader's to refuse. */
+static int smiles_over_limit(const char *s)
+{
+    int n = 0;
+    for (int i = 0; s[i]; i++) {
+        char ch = s[i];
+        int atom = 0;
+        if (ch == '[') {
+            atom = 1;
+            while (s[i + 1] && s[i] != ']')
+                i++;
+        } else if ((ch >= 'A' && ch <= 'Z') || strchr("bcnops", ch)) {
+            atom = !(i > 0 && ((s[i - 1] == 'C' && ch == 'l') || (s[i - 1] == 'B' && ch == 'r')));
+        }
+        if (atom && ++n > CAMP_MAX_SMILES_ATOMS)
+            return i + 1;
+    }
+    return 0;
+}
+
+/* Refuse a SMILES of more atoms than the models handle well under a second. */
+static enum hl_status check_smiles_size(struct vctx *c, const cJSON *m, const struct camp_strpos *sp,
+                                        const char *smiles, const char *key)
+{
+    int at = smiles_over_limit(smiles);
+    if (!at)
+        return HL_OK;
+    size_t old = push_key(c, key);
+    struct camp_pos p = {sp->pos.line, camp_string_col(sp, at)};
+    char field[160];
+    finish_field(field, sizeof field, c->prefix, c->path);
+    pop(c, old);
+    (void)m;
+    return hl_err_at(c->e, HL_ERR_INPUT, p.line, p.col, field,
+                     "more than %d atoms (this one is atom %d): every symmetry class gives a product "
+                     "structure of the whole molecule, so the cost grows with the square of the size",
+                     CAMP_MAX_SMILES_ATOMS, CAMP_MAX_SMILES_ATOMS + 1);
+}
+
 static enum hl_status parse_substrate(struct vctx *c, const cJSON *m, struct camp_run *r)
 {
     const cJSON *k[UK_N];
@@ -1360,7 +1401,8 @@ static enum hl_status parse_substrate(struct vctx *c, const cJSON *m, struct cam
         if ((st = dup_str(c, k[UK_SMILES], T_TEXT | T_NONEMPTY, MAX_TEXT, &r->smiles)))
             return st;
         r->pos_smiles = pos_of(c, k[UK_SMILES]);
-        if ((st = esc_map(c, k[UK_SMILES], &r->sp_smiles)))
+        if ((st = esc_map(c, k[UK_SMILES], &r->sp_smiles)) ||
+            (st = check_smiles_size(c, k[UK_SMILES], &r->sp_smiles, r->smiles, "smiles")))
             return st;
     } else {
         if ((st = dup_str(c, k[UK_FORMULA], T_TEXT | T_NONEMPTY, MAX_TEXT, &r->formula)))
@@ -1442,7 +1484,9 @@ static enum hl_status parse_run(struct reader *rd, const cJSON *o, int idx, stru
         if ((st = dup_str(c, k[RK_PRODUCT], T_TEXT | T_NONEMPTY, MAX_TEXT, &r->product_smiles)))
             return st;
         r->pos_product_smiles = pos_of(c, k[RK_PRODUCT]);
-        if ((st = esc_map(c, k[RK_PRODUCT], &r->sp_product_smiles)))
+        if ((st = esc_map(c, k[RK_PRODUCT], &r->sp_product_smiles)) ||
+            (st = check_smiles_size(c, k[RK_PRODUCT], &r->sp_product_smiles, r->product_smiles,
+                                    "product_smiles")))
             return st;
     }
     if (!k[RK_SUBKG])

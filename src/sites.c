@@ -3,13 +3,14 @@
  *
  * Refinement is colour refinement (Weininger, Weininger & Weininger, J. Chem.
  * Inf. Comput. Sci. 1989, 29, 97: invariants, then neighbour ranks until the
- * partition is stable).  Each round sorts the atoms by (own class, sorted
- * neighbour (class, bond order) list); classes only split, so at most n rounds.
+ * partition is stable), computed as the coarsest equitable partition with
+ * splitter queues (see refine), so a long chain costs n log n, not n rounds.
  */
 #include "sites.h"
 #include "elements.h"
 #include "hlmem.h"
 
+#include <stdint.h>
 #include <string.h>
 
 #define ISO_STEP_LIMIT 2000000L /* backtracking steps before sites_same gives up */
@@ -54,67 +55,189 @@ static void sort_idx(int *idx, int *tmp, int n, const struct keyset *k)
     }
 }
 
-static int int_cmp_sort(int *v, int n) /* insertion sort of a short list */
+/* Bottom-up merge sort of n (key, value) pairs by key (stable; tmp has 2n slots). */
+static void sort_pairs(uint64_t *k, int *v, uint64_t *tk, int *tv, int n)
 {
-    for (int i = 1; i < n; i++) {
-        int x = v[i], j = i - 1;
-        while (j >= 0 && v[j] > x) {
-            v[j + 1] = v[j];
-            j--;
+    for (int w = 1; w < n; w *= 2) {
+        for (int lo = 0; lo < n; lo += 2 * w) {
+            int mid = lo + w < n ? lo + w : n, hi = lo + 2 * w < n ? lo + 2 * w : n;
+            int i = lo, j = mid, t = lo;
+            while (i < mid && j < hi) {
+                int pick = k[j] < k[i] ? j++ : i++;
+                tk[t] = k[pick];
+                tv[t++] = v[pick];
+            }
+            for (; i < mid; i++, t++) { tk[t] = k[i]; tv[t] = v[i]; }
+            for (; j < hi; j++, t++) { tk[t] = k[j]; tv[t] = v[j]; }
         }
-        v[j + 1] = x;
+        memcpy(k, tk, (size_t)n * sizeof *k);
+        memcpy(v, tv, (size_t)n * sizeof *v);
     }
-    return n;
 }
 
+/* The partition: cells are ranges of elems; cell[v] and pos[v] locate atom v. */
+struct part {
+    int *elems, *pos, *cell, *first, *size, *inq, *queue;
+    int ncell, qh, qt, qcap;
+};
+
+static void enqueue(struct part *P, int c)
+{
+    if (P->inq[c])
+        return;
+    P->inq[c] = 1;
+    P->queue[P->qt] = c;
+    P->qt = (P->qt + 1) % P->qcap;
+}
+
+/* Split cell X: its t touched atoms tv[0..t) (sorted by count tk) go to the end of its range
+ * and become new cells, one per count; atoms not touched (count 0) stay in X. */
+static void split_cell(struct part *P, int X, const uint64_t *tk, const int *tv, int t)
+{
+    int end = P->first[X] + P->size[X];
+    if (t == P->size[X] && (uint32_t)tk[0] == (uint32_t)tk[t - 1])
+        return; /* every atom of X sees the splitter alike */
+    for (int k = 0; k < t; k++) {
+        int v = tv[k], p = end - t + k, w = P->elems[p];
+        P->elems[P->pos[v]] = w;
+        P->pos[w] = P->pos[v];
+        P->elems[p] = v;
+        P->pos[v] = p;
+    }
+    int was_queued = P->inq[X];
+    int rest = P->size[X] - t, big = X, bigsize = rest;
+    int k0 = 0;
+    if (rest == 0) { /* the group with the lowest count keeps X */
+        while (k0 < t && (uint32_t)tk[k0] == (uint32_t)tk[0])
+            k0++;
+        P->size[X] = k0;
+        bigsize = k0;
+    } else {
+        P->size[X] = rest;
+    }
+    int firstnew = P->ncell;
+    for (int k = k0; k < t;) {
+        int j = k;
+        while (j < t && (uint32_t)tk[j] == (uint32_t)tk[k])
+            j++;
+        int c = P->ncell++;
+        P->first[c] = end - t + k;
+        P->size[c] = j - k;
+        P->inq[c] = 0;
+        for (int i = k; i < j; i++)
+            P->cell[tv[i]] = c;
+        if (j - k > bigsize) {
+            bigsize = j - k;
+            big = c;
+        }
+        k = j;
+    }
+    /* Hopcroft's rule: a queued cell's pieces all wait; otherwise all but the largest
+     * (refining by the union and by all but one piece implies the last one) */
+    if (!was_queued && big != X)
+        enqueue(P, X);
+    for (int c = firstnew; c < P->ncell; c++)
+        if (was_queued || c != big)
+            enqueue(P, c);
+}
+
+/* Coarsest equitable partition refining the invariants: each class's atoms have, for every
+ * class and bond order, the same number of such neighbours.  That is the fixed point of
+ * iterated neighbour-class refinement (Weininger et al. above), reached here by splitter
+ * queues with "all but the largest piece" (J. Hopcroft 1971; A. Cardon and M. Crochemore,
+ * Theor. Comput. Sci. 1982, 19, 85), O((n + m) log^2 n) instead of one sort per round. */
 static enum hl_status refine(const struct gview *g, int *cls, int *ncls, struct hl_err *e)
 {
     int n = g->n;
-    size_t nk = (size_t)g->start[n] + (size_t)n * NINV + 1;
-    int *key = hl_malloc(nk * sizeof *key);
-    int *ix = hl_malloc((size_t)(n ? n : 1) * 4 * sizeof *ix);
-    if (!key || !ix) {
-        hl_free(key);
-        hl_free(ix);
+    if (n == 0) {
+        *ncls = 0;
+        return HL_OK;
+    }
+    size_t N = (size_t)n;
+    int *ib = hl_malloc((N * 13 + 2) * sizeof *ib);
+    uint64_t *kb = hl_malloc(N * 2 * sizeof *kb);
+    if (!ib || !kb) {
+        hl_free(ib);
+        hl_free(kb);
         return hl_err_set(e, HL_ERR_NOMEM, "out of memory");
     }
-    int *idx = ix, *tmp = ix + n, *off = tmp + n, *len = off + n;
-    struct keyset ks = {key, off, len};
-    /* round 0: the invariants */
+    struct part P = {ib, ib + N, ib + 2 * N, ib + 3 * N, ib + 4 * N, ib + 5 * N, ib + 6 * N, 0, 0, 0, n + 1};
+    /* the queue has n + 1 slots (ib + 6N .. ib + 7N); the rest follow it */
+    int *cnt = ib + 7 * N + 1, *snap = cnt + N, *tv = snap + N, *tv2 = tv + N, *idx = tv2 + N,
+        *tmp = idx + N;
+    uint64_t *tk = kb, *tk2 = kb + N;
+    int *off = tv, *len = tv2; /* free until the first split */
     for (int i = 0; i < n; i++) {
         off[i] = i * NINV;
         len[i] = NINV;
-        memcpy(key + off[i], g->inv + (size_t)i * NINV, NINV * sizeof *key);
         idx[i] = i;
+        cnt[i] = 0;
     }
-    int prev = -1, k = 0;
-    for (int round = 0; round <= n + 1; round++) {
-        sort_idx(idx, tmp, n, &ks);
-        k = 0;
-        for (int i = 0; i < n; i++) {
-            if (i > 0 && cmp_key(&ks, idx[i - 1], idx[i]) != 0)
-                k++;
-            cls[idx[i]] = k;
+    struct keyset ks = {g->inv, off, len};
+    sort_idx(idx, tmp, n, &ks);
+    for (int i = 0; i < n; i++) {
+        int v = idx[i];
+        if (i == 0 || cmp_key(&ks, idx[i - 1], v) != 0) {
+            P.first[P.ncell] = i;
+            P.size[P.ncell] = 0;
+            P.inq[P.ncell] = 0;
+            P.ncell++;
         }
-        k = n ? k + 1 : 0;
-        if (k == prev || k == n)
-            break;
-        prev = k;
-        /* next key: own class, then sorted neighbour (class, bond order) codes */
-        int p = 0;
-        for (int i = 0; i < n; i++) {
-            off[i] = p;
-            key[p++] = cls[i];
-            int d0 = p;
-            for (int j = g->start[i]; j < g->start[i + 1]; j++)
-                key[p++] = cls[g->nbr[j]] * 8 + g->bo[j];
-            int_cmp_sort(key + d0, p - d0);
-            len[i] = p - off[i];
+        P.elems[i] = v;
+        P.pos[v] = i;
+        P.cell[v] = P.ncell - 1;
+        P.size[P.ncell - 1]++;
+    }
+    for (int c = 0; c < P.ncell; c++)
+        enqueue(&P, c);
+    while (P.qh != P.qt && P.ncell < n) {
+        int S = P.queue[P.qh];
+        P.qh = (P.qh + 1) % P.qcap;
+        P.inq[S] = 0;
+        int ns = P.size[S];
+        memcpy(snap, P.elems + P.first[S], (size_t)ns * sizeof *snap);
+        for (int colour = 1; colour <= SMI_AROMATIC; colour++) {
+            int nt = 0;
+            for (int a = 0; a < ns; a++) {
+                int u = snap[a];
+                for (int j = g->start[u]; j < g->start[u + 1]; j++) {
+                    if (g->bo[j] != colour)
+                        continue;
+                    int v = g->nbr[j];
+                    if (cnt[v]++ == 0)
+                        tv[nt++] = v;
+                }
+            }
+            if (!nt)
+                continue;
+            for (int k = 0; k < nt; k++)
+                tk[k] = (uint64_t)(uint32_t)P.cell[tv[k]] << 32 | (uint32_t)cnt[tv[k]];
+            sort_pairs(tk, tv, tk2, tv2, nt);
+            for (int k = 0; k < nt;) {
+                int j = k;
+                while (j < nt && tk[j] >> 32 == tk[k] >> 32)
+                    j++;
+                split_cell(&P, (int)(tk[k] >> 32), tk + k, tv + k, j - k);
+                k = j;
+            }
+            for (int k = 0; k < nt; k++)
+                cnt[tv[k]] = 0;
         }
+    }
+    /* class ids in order of each class's first atom */
+    int *id = idx;
+    for (int c = 0; c < P.ncell; c++)
+        id[c] = -1;
+    int k = 0;
+    for (int v = 0; v < n; v++) {
+        int c = P.cell[v];
+        if (id[c] < 0)
+            id[c] = k++;
+        cls[v] = id[c];
     }
     *ncls = k;
-    hl_free(key);
-    hl_free(ix);
+    hl_free(ib);
+    hl_free(kb);
     return HL_OK;
 }
 

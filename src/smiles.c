@@ -239,6 +239,33 @@ static int bond_sum(const struct smi_mol *m, int a)
     return s;
 }
 
+/* Highest valence of a bracket atom of the organic subset with the given charge, the
+ * isoelectronic rule RDKit applies ([NH4+] as C, [O-] as F, [S+] as P); -1 when not checked. */
+static int bracket_valence_max(int el, int charge)
+{
+    switch (el) {
+    case EL_B: return charge == 0 ? 3 : charge == -1 ? 4 : charge == 1 ? 2 : -1;
+    case EL_N: return charge == 0 ? 3 : charge == 1 ? 4 : charge == -1 ? 2 : -1;
+    case EL_O: return charge == 0 ? 2 : charge == 1 ? 3 : charge == -1 ? 1 : -1;
+    case EL_P: return charge == 0 ? 5 : charge == 1 ? 4 : charge == -1 ? 4 : -1;
+    case EL_S: return charge == 0 ? 6 : charge == 1 ? 5 : charge == -1 ? 5 : -1;
+    case EL_F: case EL_Cl: case EL_Br: case EL_I: return charge == 0 ? 1 : -1;
+    default: return -1;
+    }
+}
+
+/* 1 if aromatic atom a gives its pi unit to the ring: not when an exocyclic double bond
+ * already takes it (the C=O carbon of 2-pyridone, O=c1cccc[nH]1, which RDKit reads). */
+static int pi_unit(const struct smi_mol *m, int a)
+{
+    if (!m->atoms[a].aromatic)
+        return 0;
+    for (int k = m->adj_start[a]; k < m->adj_start[a + 1]; k++)
+        if (m->bonds[m->adj[k]].order == 2 || m->bonds[m->adj[k]].order == 3)
+            return 0;
+    return 1;
+}
+
 int smiles_implicit_h(const struct smi_mol *m, int a)
 {
     const int *v = normal_valences(m->atoms[a].el);
@@ -586,6 +613,241 @@ static void aromatize_kekule(struct smi_mol *m)
     }
 }
 
+/* ---- kekulization check (issue 16.3) -------------------------------------------
+ * An aromatic system is real only if it can be written with alternating single and double
+ * bonds: every aromatic atom that still lacks one valence unit after its sigma bonds and H
+ * (c in benzene, n in pyridine; not [nH], o, s or an n with three bonds) must get exactly one
+ * double bond to such a neighbour over an aromatic bond, i.e. those atoms need a perfect
+ * matching.  This is the test RDKit's kekulization applies ("Can't kekulize mol"): Cc1cccc1
+ * (five such carbons), Cc1cc1 and c1ccnc1 have none.  Greedy matching, fewest free
+ * neighbours first, settles ordinary systems; what it leaves goes to Edmonds' blossom search
+ * (J. Edmonds, Can. J. Math. 1965, 17, 449), run per aromatic component so the work stays
+ * within each ring system. */
+
+/* 1 if aromatic atom a needs a double bond within the aromatic system. */
+static int kek_needs_double(const struct smi_mol *m, int a)
+{
+    const struct smi_atom *at = &m->atoms[a];
+    int used = at->hcount, q = at->charge, base, target;
+    for (int k = m->adj_start[a]; k < m->adj_start[a + 1]; k++) {
+        int o = m->bonds[m->adj[k]].order;
+        if (o == 2 || o == 3)
+            return 0; /* an exocyclic C=O or similar already takes the pi unit */
+        used += 1;
+    }
+    /* isoelectronic valences of a charged atom: N+ as C, O+ as N, C- as N, B- as C */
+    switch (at->el) {
+    case EL_B: base = 3; target = base - q; break;
+    case EL_C: base = 4; target = base - (q < 0 ? -q : q); break;
+    case EL_N: case EL_P: case EL_As: base = 3; target = base + q; break;
+    case EL_O: case EL_S: case EL_Se: base = 2; target = base + q; break;
+    default: return 0;
+    }
+    if ((at->el == EL_S || at->el == EL_P) && used > target)
+        target += 2; /* hypervalent S(IV) or P(V) in the ring */
+    return target - used >= 1;
+}
+
+struct kek {
+    int n;
+    const int *start, *nbr; /* local CSR */
+    int *match, *par, *base, *q, *inq, *inb, *used;
+};
+
+static int kek_lca(struct kek *K, int a, int b)
+{
+    for (int i = 0; i < K->n; i++)
+        K->used[i] = 0;
+    for (;;) {
+        a = K->base[a];
+        K->used[a] = 1;
+        if (K->match[a] < 0)
+            break;
+        a = K->par[K->match[a]];
+    }
+    for (;;) {
+        b = K->base[b];
+        if (K->used[b])
+            return b;
+        b = K->par[K->match[b]];
+    }
+}
+
+static void kek_mark(struct kek *K, int v, int b, int child)
+{
+    while (K->base[v] != b) {
+        K->inb[K->base[v]] = K->inb[K->base[K->match[v]]] = 1;
+        K->par[v] = child;
+        child = K->match[v];
+        v = K->par[K->match[v]];
+    }
+}
+
+/* Edmonds' search for an augmenting path from free vertex root; 1 if the matching grew. */
+static int kek_augment(struct kek *K, int root)
+{
+    int n = K->n, qh = 0, qt = 0;
+    for (int i = 0; i < n; i++) {
+        K->par[i] = -1;
+        K->base[i] = i;
+        K->inq[i] = 0;
+    }
+    K->q[qt++] = root;
+    K->inq[root] = 1;
+    while (qh < qt) {
+        int v = K->q[qh++];
+        for (int k = K->start[v]; k < K->start[v + 1]; k++) {
+            int to = K->nbr[k];
+            if (K->base[v] == K->base[to] || K->match[v] == to)
+                continue;
+            if (to == root || (K->match[to] >= 0 && K->par[K->match[to]] >= 0)) {
+                int cb = kek_lca(K, v, to);
+                for (int i = 0; i < n; i++)
+                    K->inb[i] = 0;
+                kek_mark(K, v, cb, to);
+                kek_mark(K, to, cb, v);
+                for (int i = 0; i < n; i++)
+                    if (K->inb[K->base[i]]) {
+                        K->base[i] = cb;
+                        if (!K->inq[i]) {
+                            K->inq[i] = 1;
+                            K->q[qt++] = i;
+                        }
+                    }
+            } else if (K->par[to] < 0) {
+                K->par[to] = v;
+                if (K->match[to] < 0) { /* flip the path back to the root */
+                    for (int u = to; u >= 0;) {
+                        int pv = K->par[u], ppv = K->match[pv];
+                        K->match[u] = pv;
+                        K->match[pv] = u;
+                        u = ppv;
+                    }
+                    return 1;
+                }
+                K->inq[K->match[to]] = 1;
+                K->q[qt++] = K->match[to];
+            }
+        }
+    }
+    return 0;
+}
+
+/* 0 with *bad_atom = -1 if every atom needing a double bond can get one, else *bad_atom = the
+ * first atom of a system that cannot; -1 on NOMEM. */
+static int kek_check(const struct smi_mol *m, int *bad_atom, struct hl_err *e)
+{
+    int n = m->natoms;
+    *bad_atom = -1;
+    int *need = hl_calloc((size_t)(n ? n : 1), sizeof *need);
+    int *loc = hl_malloc((size_t)(n ? n : 1) * sizeof *loc);
+    int *comp = hl_malloc((size_t)(n ? n : 1) * sizeof *comp);
+    int *start = hl_malloc(((size_t)n + 1) * sizeof *start);
+    int *nbr = hl_malloc((size_t)(m->nbonds ? 2 * m->nbonds : 1) * sizeof *nbr);
+    int *work = hl_malloc((size_t)(n ? n : 1) * 8 * sizeof *work);
+    int *freec = hl_malloc((size_t)(n ? n : 1) * sizeof *freec);
+    int rc = 0;
+    if (!need || !loc || !comp || !start || !nbr || !work || !freec) {
+        rc = -1;
+        goto out;
+    }
+    int any = 0;
+    for (int a = 0; a < n; a++)
+        any |= need[a] = m->atoms[a].aromatic && kek_needs_double(m, a);
+    for (int a = 0; a < n; a++)
+        loc[a] = -1;
+    for (int root = 0; any && root < n && *bad_atom < 0; root++) {
+        if (!need[root] || loc[root] >= 0)
+            continue;
+        /* one component of the needing atoms over aromatic bonds, breadth first */
+        int c = 0;
+        comp[c] = root;
+        loc[root] = c++;
+        for (int h = 0; h < c; h++) {
+            int v = comp[h];
+            for (int k = m->adj_start[v]; k < m->adj_start[v + 1]; k++) {
+                int bd = m->adj[k], w = smiles_other(m, bd, v);
+                if (m->bonds[bd].order == SMI_AROMATIC && need[w] && loc[w] < 0) {
+                    comp[c] = w;
+                    loc[w] = c++;
+                }
+            }
+        }
+        int ne = 0;
+        for (int h = 0; h < c; h++) {
+            int v = comp[h];
+            start[h] = ne;
+            for (int k = m->adj_start[v]; k < m->adj_start[v + 1]; k++) {
+                int bd = m->adj[k], w = smiles_other(m, bd, v);
+                if (m->bonds[bd].order == SMI_AROMATIC && need[w])
+                    nbr[ne++] = loc[w];
+            }
+        }
+        start[c] = ne;
+        struct kek K = {c, start, nbr, work, work + c, work + 2 * c, work + 3 * c, work + 4 * c,
+                        work + 5 * c, work + 6 * c};
+        int *nfree = work + 7 * c; /* unmatched neighbours, for the greedy order */
+        for (int h = 0; h < c; h++) {
+            K.match[h] = -1;
+            nfree[h] = start[h + 1] - start[h];
+        }
+        /* greedy: repeatedly match an atom with the fewest free neighbours (a bucket queue
+         * would be exact; a stack of atoms left with one free neighbour is enough here) */
+        int sp = 0;
+        for (int h = 0; h < c; h++)
+            if (nfree[h] == 1)
+                freec[sp++] = h;
+        for (int next = 0;;) {
+            int v = -1;
+            while (sp && v < 0) {
+                int x = freec[--sp];
+                if (K.match[x] < 0 && nfree[x] >= 1)
+                    v = x;
+            }
+            while (v < 0 && next < c) {
+                if (K.match[next] < 0 && nfree[next] >= 1)
+                    v = next;
+                next++;
+            }
+            if (v < 0)
+                break;
+            int w = -1;
+            for (int k = start[v]; k < start[v + 1] && w < 0; k++)
+                if (K.match[nbr[k]] < 0)
+                    w = nbr[k];
+            if (w < 0) {
+                nfree[v] = 0;
+                continue;
+            }
+            K.match[v] = w;
+            K.match[w] = v;
+            for (int t = 0; t < 2; t++) {
+                int x = t ? w : v;
+                for (int k = start[x]; k < start[x + 1]; k++) {
+                    int y = nbr[k];
+                    if (K.match[y] < 0 && --nfree[y] == 1)
+                        freec[sp++] = y;
+                }
+            }
+        }
+        /* blamed: the first atom of the system in the text (comp[0], the lowest index) */
+        for (int h = 0; h < c && *bad_atom < 0; h++)
+            if (K.match[h] < 0 && !kek_augment(&K, h))
+                *bad_atom = comp[0];
+    }
+out:
+    hl_free(need);
+    hl_free(loc);
+    hl_free(comp);
+    hl_free(start);
+    hl_free(nbr);
+    hl_free(work);
+    hl_free(freec);
+    if (rc)
+        hl_err_set(e, HL_ERR_NOMEM, "out of memory");
+    return rc;
+}
+
 static enum hl_status finish(struct parser *P, struct hl_err *e)
 {
     struct smi_mol *m = P->m;
@@ -613,9 +875,18 @@ static enum hl_status finish(struct parser *P, struct hl_err *e)
                 return bad(e, at->col, "too many bonds on %s (above its normal valence)",
                            elem_symbol(at->el));
             at->hcount = h;
+            /* an aromatic n or o has only its lowest valence (RDKit refuses c1cn(C)(C)cc1) */
+            if (at->aromatic && (at->el == EL_N || at->el == EL_O || at->el == EL_B) &&
+                bond_sum(m, a) > normal_valences(at->el)[0])
+                return bad(e, at->col, "too many bonds on aromatic %s (above its valence)",
+                           elem_symbol(at->el));
+        } else if (at->el != EL_C && bracket_valence_max(at->el, at->charge) >= 0 &&
+                   bond_sum(m, a) + at->hcount > bracket_valence_max(at->el, at->charge)) {
+            return bad(e, at->col, "too many bonds on %s for its charge (above its highest valence)",
+                       elem_symbol(at->el));
         } else if (at->el == EL_C) {
             /* carbon has four bonds whatever the charge ([CH3+] has three): more is no molecule */
-            int total = bond_sum(m, a) + at->hcount + (at->aromatic ? 1 : 0);
+            int total = bond_sum(m, a) + at->hcount + pi_unit(m, a);
             if (total > 4)
                 return bad(e, at->col, "too many bonds on carbon (valence above 4)%s", NULL);
         }
@@ -627,9 +898,16 @@ static enum hl_status finish(struct parser *P, struct hl_err *e)
      * c1ccccc1([H])[H] would pass as an aromatic carbon with two hydrogens */
     for (int a = 0; a < m->natoms; a++) {
         const struct smi_atom *at = &m->atoms[a];
-        if (at->el == EL_C && bond_sum(m, a) + at->hcount + (at->aromatic ? 1 : 0) > 4)
+        if (at->el == EL_C && bond_sum(m, a) + at->hcount + pi_unit(m, a) > 4)
             return bad(e, at->col, "too many bonds on carbon (valence above 4)%s", NULL);
     }
+    int unmatched;
+    if (kek_check(m, &unmatched, e))
+        return HL_ERR_NOMEM;
+    if (unmatched >= 0)
+        return bad(e, m->atoms[unmatched].col, "aromatic system cannot be written with alternating "
+                   "double bonds (no Kekule structure): check the ring size, and write the H of a "
+                   "pyrrole-type nitrogen as [nH]%s", NULL);
     return HL_OK;
 }
 

@@ -490,6 +490,15 @@ chem('smiles_unclosed_branch', '{"smiles": "CC("}', 3, 'runs[0].substrate.smiles
 chem('smiles_unclosed_ring', '{"smiles": "C1CCC"}', 2, 'runs[0].substrate.smiles')
 chem('smiles_pentavalent_carbon', '{"smiles": "CC(C)(C)(C)(C)C"}', 2, 'runs[0].substrate.smiles')
 chem('smiles_bad_atom', '{"smiles": "CCQ"}', 3, 'runs[0].substrate.smiles')
+# no Kekule structure (RDKit refuses them too, tests/e2e/rdkit_kekule.py): blamed on the first ring atom
+chem('smiles_kekule_five_ring', '{"smiles": "Cc1cccc1"}', 2, 'runs[0].substrate.smiles')
+chem('smiles_kekule_pyrrole_without_h', '{"smiles": "CCc1ccnc1"}', 3, 'runs[0].substrate.smiles')
+# at most 1000 atoms in a SMILES (campaign.h CAMP_MAX_SMILES_ATOMS): refused at atom 1001
+edit('smiles_too_many_atoms', '{"smiles": "CCC"}', '{"smiles": "' + 'C' * 1000 + '@@Cl"}', 'runs[0].substrate.smiles',
+     'more than 1000 atoms (this one is atom 1001)', base=SMALL)
+edit('product_smiles_too_many_atoms', '{"smiles": "CCC"}',
+     '{"smiles": "CCC"}, "product_smiles": "Cl' + 'C' * 999 + '@@C"',
+     'runs[0].product_smiles', 'more than 1000 atoms (this one is atom 1001)', base=SMALL)
 chem('formula_impossible_c4h', '{"formula": "C4H"}', 1, 'runs[0].substrate.formula')
 chem('formula_unknown_element', '{"formula": "Xx2"}', 1, 'runs[0].substrate.formula')
 chem('chem_hbr_no_alkene', '{"smiles": "CCC"}', 0, 'runs[0].substrate.smiles', reagent='HBr')
