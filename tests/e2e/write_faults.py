@@ -57,7 +57,7 @@ def env_for(at, scope, report):
         # minizip (libminizip1, through libxlsxwriter) leaks its file-entry buffer when a write
         # inside zipOpenNewFileInZip4_64 fails: a library leak on its error path, in the
         # writer child that exits right after; suppressed for that library only
-        env['LSAN_OPTIONS'] = (env.get('LSAN_OPTIONS', '') + ':suppressions=' + LSAN_SUPP).lstrip(':')
+        env['LSAN_OPTIONS'] = (env.get('LSAN_OPTIONS', '') + ':suppressions=' + LSAN_SUPP + ':print_suppressions=0').lstrip(':')
     return env
 
 
