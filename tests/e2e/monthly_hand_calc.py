@@ -153,6 +153,38 @@ for key, want in want_months.items():
         else:
             close(got.get(k), v, f"{key} {k}", 1e-9 if v else 0)
 
+# ---- run figures as the JSON ledger writes them ----
+R = {r["id"]: r for r in L["runs"]}
+T.check(sorted(R) == ["A", "B", "C", "D"], f"runs {sorted(R)}")
+want_runs = {
+    "A": {"byproducts": {"HCl_kg": 900 * M_HCL / 1e3, "HBr_kg": 0.0, "SO2_kg": 0.0, "succinimide_kg": 0.0},
+          "vent": {"HCl_mol": 720.0, "HBr_mol": 0.0, "Cl2_mol": 100.0, "Br2_mol": 0.0, "SO2_mol": 0.0},
+          "retained": {"HCl_mol": 180.0, "HBr_mol": 0.0, "Cl2_mol": 0.0, "Br2_mol": 0.0, "SO2_mol": 0.0},
+          "reagent_left_kg": 0.0},
+    "B": {"byproducts": {"HCl_kg": 0.0, "HBr_kg": 1000 * M_HBR / 1e3, "SO2_kg": 0.0, "succinimide_kg": 0.0},
+          "vent": {"HCl_mol": 0.0, "HBr_mol": 900.0, "Cl2_mol": 0.0, "Br2_mol": 0.0, "SO2_mol": 0.0},
+          "retained": {"HCl_mol": 0.0, "HBr_mol": 100.0, "Cl2_mol": 0.0, "Br2_mol": 0.0, "SO2_mol": 0.0},
+          "reagent_left_kg": 0.0},
+    "C": {"byproducts": {"HCl_kg": 900 * M_HCL / 1e3, "HBr_kg": 0.0, "SO2_kg": 900 * M_SO2 / 1e3,
+                         "succinimide_kg": 0.0},
+          "vent": {"HCl_mol": 900.0, "HBr_mol": 0.0, "Cl2_mol": 0.0, "Br2_mol": 0.0, "SO2_mol": 900.0},
+          "reagent_left_kg": 100 * M_SO2CL2 / 1e3},
+    "D": {"byproducts": {"HCl_kg": 0.0, "HBr_kg": 0.0, "SO2_kg": 0.0, "succinimide_kg": 900 * M_SUCC / 1e3},
+          "reagent_left_kg": 100 * M_NBS / 1e3},
+}
+for rid, want in want_runs.items():
+    got = R.get(rid, {})
+    for k, v in want.items():
+        if isinstance(v, dict):
+            for kk, vv in v.items():
+                close(got.get(k, {}).get(kk), vv, f"run {rid} {k}.{kk}", 1e-9 if vv else 0)
+        else:
+            close(got.get(k), v, f"run {rid} {k}", 1e-9 if v else 0)
+    T.check(got.get("element_balance", {}).get("max_rel_error", 1) <= 1e-9, f"run {rid} element closure")
+close(R.get("C", {}).get("scrubber", {}).get("naoh_kg"), naoh_C, "run C NaOH")
+T.check(R.get("C", {}).get("scrubber", {}).get("changeout_before") is True, "changeout before run C")
+T.check(R.get("B", {}).get("scrubber", {}).get("changeout_before") is False, "no changeout before run B")
+
 # ---- orders ----
 orders = {(o["month"], o["reagent"]): o for o in L["orders"]}
 # Cl2, March: 70.9 kg, none on hand: 2 drums of 45 kg usable; first use 03-10 minus 10 days;

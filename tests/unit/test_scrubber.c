@@ -192,6 +192,29 @@ static void properties(void)
     ASSERT_ABS(scrub_hcl_acid_cp_kj_kg_k(16.83), 3.012, 0.01);
 }
 
+/* The default liquor temperature limit is 40 C (README, max_liquor_temp_c; common practice for
+ * hypochlorite liquor): from the default 25 C fill, 3000 mol HCl into 6000 kg at cp 3.6 rise
+ * 3000 x 130.679 / ((6000 + 109.374) x 3.6) = 17.82 K to 42.8 C (too hot); 2500 mol rise
+ * 14.90 K to 39.9 C (not). */
+static void default_temperature_limit(void)
+{
+    struct scrub_unit_in u = caustic(6000, 18, 2);
+    u.liquor_cp_kj_kg_k = 3.6;
+    struct scrub_run_in r = run_at("2027-03-02T06:00", 5, VS_HCL, 3000);
+    struct scrub_run_out ro;
+    struct scrub_unit_out uo;
+    CU_ASSERT_EQUAL(go(&u, 1, &r, 1, &ro, &uo), HL_OK);
+    ASSERT_ABS(ro.liquor_temp_c_after, 25 + 3000 * H_HCL / ((6000 + 3000 * MM_HCL / 1000) * 3.6), 1e-9);
+    ASSERT_ABS(ro.liquor_temp_c_after, 42.82, 0.01);
+    CU_ASSERT_EQUAL(ro.too_hot, 1);
+    scrub_unit_out_free(&uo, 1);
+    r.vent_mol[VS_HCL] = 2500;
+    CU_ASSERT_EQUAL(go(&u, 1, &r, 1, &ro, &uo), HL_OK);
+    ASSERT_ABS(ro.liquor_temp_c_after, 39.90, 0.01);
+    CU_ASSERT_EQUAL(ro.too_hot, 0);
+    scrub_unit_out_free(&uo, 1);
+}
+
 static void one_run_by_hand(void)
 {
     /* 6000 kg of 18 % NaOH, 10 kmol HCl, cp given as 3.6 kJ/(kg K) */
@@ -1200,6 +1223,7 @@ int main(void)
         {"stoichiometry", stoichiometry},
         {"properties", properties},
         {"one run by hand", one_run_by_hand},
+        {"default liquor temperature limit 40 C", default_temperature_limit},
         {"all salts", all_salts},
         {"changeout boundary", changeout_boundary},
         {"exhausted single run", exhausted_single_run},

@@ -282,8 +282,8 @@ static void chloromethanes(void)
         CU_ASSERT_EQUAL(r.nratios, 4);
         CU_ASSERT_EQUAL(r.h0, 4);
         ASSERT_REL(r.rate_ratios[0], 1.0, 1e-15);
-        for (int n = 1; n < 4; n++)
-            CU_ASSERT(r.rate_ratios[n] > 0.3 && r.rate_ratios[n] < 30); /* same order as CH4 */
+        /* the ratios themselves: methane_ratios_298 (by hand from the published expressions
+         * and against JPL 19-5); here only what the degree model makes of them */
         const char *over[] = {NULL, NULL, "ClCCl", "ClC(Cl)Cl", "ClC(Cl)(Cl)Cl"};
         for (int d = 2; d <= 4; d++) {
             struct smi_mol a = {0}, b = {0};
