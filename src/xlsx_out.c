@@ -474,7 +474,8 @@ static void xo_page(struct xw *w)
     xo_hf_text(site, sizeof site, l->site ? l->site : "");
     xo_hf_text(title, sizeof title, l->title ? l->title : "haloledger ledger");
     /* &L &C &R: left, centre, right sections; &A the sheet, &P the page, &N the pages */
-    snprintf(hf, sizeof hf, "&L%s&C&\"-,Bold\"%s&R&A", site, title);
+    /* &B toggles bold: a font code &"..." would be misread when the title holds a quote */
+    snprintf(hf, sizeof hf, "&L%s&C&B%s&B&R&A", site, title);
     xo_check(w, worksheet_set_header(w->ws, hf), 0, 0);
     if (l->created_min != 0)
         isodate_format(l->created_min, 1, date, sizeof date);
