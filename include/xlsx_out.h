@@ -1,11 +1,14 @@
 /*
  * xlsx_out.h - the spreadsheet ledger (libxlsxwriter).
  *
- * Sheets: Summary, Runs, Products, Scrubber, Orders, Waste, Monthly (with
- * charts on plain number cells), Cautions, Assumptions.  Every numeric
- * column carries its unit in the header; totals are formulas with their
- * values cached.  Written to a temporary file in the target folder and
- * renamed into place, so an existing file is never left half-written.
+ * Sheets, one table each: Summary (one-page form), Runs, Products, Liquor by
+ * run, Scrubber units, Hourly load, Column check, Orders, Waste by run, Spent
+ * liquor, Monthly, Charts (series on plain number cells of Monthly), Warnings,
+ * Cautions, Assumptions.  Every numeric column carries its unit in the header;
+ * totals are formulas with their values cached, over like things only.  Each
+ * sheet prints landscape on the ledger's paper with headers, footers and print
+ * titles.  Written to a temporary file in the target folder and renamed into
+ * place, so an existing file is never left half-written.
  */
 #ifndef XLSX_OUT_H
 #define XLSX_OUT_H

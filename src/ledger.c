@@ -806,15 +806,15 @@ static enum hl_status collect_assumptions(struct ledger *l, struct hl_err *e)
     for (int v = 0; v < VS_COUNT; v++) {
         snprintf(what, sizeof what, "Heat of absorption of %s in caustic liquor", vent_name(v));
         if ((st = assume(l, e, what, 1, scrub_heat_kj_per_mol(v, 0), "kJ/mol released",
-                         "from standard enthalpies of formation (scrubber.c table)")))
+                         "standard enthalpies of formation: NBS tables (Wagman et al. 1982), CODATA Key Values (Cox, Wagman & Medvedev 1989)")))
             return st;
     }
     if ((st = assume(l, e, "Heat of Na2SO3 + NaOCl -> Na2SO4 + NaCl in the liquor", 1,
                      scrub_sulfite_redox_kj_per_mol(SALT_NAOCL), "kJ/mol released",
-                     "from standard enthalpies of formation (scrubber.c table)")) ||
+                     "standard enthalpies of formation: NBS tables (Wagman et al. 1982), CODATA Key Values (Cox, Wagman & Medvedev 1989)")) ||
         (st = assume(l, e, "Heat of Na2SO3 + NaOBr -> Na2SO4 + NaBr in the liquor", 1,
                      scrub_sulfite_redox_kj_per_mol(SALT_NAOBR), "kJ/mol released",
-                     "from standard enthalpies of formation (scrubber.c table)")) ||
+                     "standard enthalpies of formation: NBS tables (Wagman et al. 1982), CODATA Key Values (Cox, Wagman & Medvedev 1989)")) ||
         (st = assume(l, e, "Liquor temperature", 0, 0, NULL,
                      "adiabatic: heat piles up within a group of overlapping runs; an idle unit "
                      "is back at fresh_liquor_temp_c (default 25 C) before the next group; no "
@@ -824,7 +824,7 @@ static enum hl_status collect_assumptions(struct ledger *l, struct hl_err *e)
                      "and absorbs chlorine worse when hot (common practice)")))
         return st;
     for (int v = 0; v < VS_COUNT; v++) {
-        snprintf(what, sizeof what, "NaOH used per mol of %s", vent_name(v));
+        snprintf(what, sizeof what, "NaOH consumed per mol of %s", vent_name(v));
         if ((st = assume(l, e, what, 1, scrub_naoh_per_mol(v), "mol/mol",
                          "liquor reactions: HX + NaOH -> NaX + H2O; X2 + 2 NaOH -> NaX + NaOX + H2O; SO2 + 2 NaOH -> Na2SO3 + H2O")))
             return st;

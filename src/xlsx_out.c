@@ -1,13 +1,25 @@
 /*
  * xlsx_out.c - the spreadsheet ledger (see xlsx_out.h).
  *
- * Layout.  Every sheet starts with one header row (frozen, filtered), units in
- * square brackets in each numeric header.  A sheet is made of "blocks": tables
- * that sit side by side and share that header row, each with an optional
- * totals row of =SUM() formulas whose value computed here is cached in the
- * cell.  The driver writes the blocks row by row, strictly in row order, so
- * the same code works in libxlsxwriter's constant_memory mode, which a very
- * large ledger needs (a cell costs ~100 bytes in the default mode).
+ * Layout.  One table per sheet: one header row (frozen with the id column,
+ * filtered, repeated on every printed page), units in square brackets in each
+ * numeric header, an optional totals row of =SUM() formulas whose value
+ * computed here is cached in the cell, and only over like things (one
+ * substance, one gas, energy): never a sum over different products or
+ * reagents.  Every sheet is written strictly in row order, so the same code
+ * works in libxlsxwriter's constant_memory mode, which a very large ledger
+ * needs (a cell costs ~100 bytes in the default mode); a row's height is set
+ * while the row is still the current one (the library keeps the current row
+ * open until a cell of a later row arrives).
+ *
+ * Paper.  Landscape on the campaign's paper (report.paper); a sheet whose
+ * columns fit about one page width is fitted to one page wide, a wider one
+ * runs across as many pages as it needs, across then down, with the header
+ * row and the id column repeated.  Header and footer on every page carry the
+ * site, the campaign title, the sheet, "page N of M" and the ledger's issue
+ * date.  Alarm cells carry a text marker ("!!" alarm, "!" notice) and a
+ * conditional format of the palette in DEVELOPERS.md, so they stand out on
+ * screen and survive black-and-white printing.
  *
  * Robustness (libxlsxwriter 1.1.4 pitfalls, docs/library-notes.md): user text only through
  * worksheet_write_string (never a formula), checked as UTF-8, control
@@ -42,34 +54,48 @@
 #define XO_STR_MAX 32767
 /* Above this many cells the workbook is streamed (constant_memory). */
 #define XO_STREAM_CELLS 1000000.0
+/* Width of a column holding long wrapped text, in character widths. */
+#define XO_WRAP_W 62.0
+/* Height of one line of the default 11 pt font, in points (common practice: Excel's 15). */
+#define XO_LINE_PT 15.0
 
 enum xk {
     XK_TEXT, XK_DATE, XK_DAY, XK_INT, XK_KG, XK_MOL, XK_FRAC, XK_MOLFRAC, XK_PCT, XK_RATE,
     XK_TEMP, XK_HEAT, XK_SCI, XK_GMOL, XK_LEN, XK_GEN, XK_COUNT
 };
+/* Digits shown follow what a value means: kg to 0.1 kg, mol to 0.01 mol, rates to
+ * 0.001 kmol/h, temperatures to 0.1 K, heat to 1 kJ; XK_GEN (the Assumptions values)
+ * shows four significant figures, picked per value from xo_sigfmt. */
 static const char *const xo_numfmt[XK_COUNT] = {
     NULL, "yyyy-mm-dd hh:mm", "yyyy-mm-dd", "#,##0", "#,##0.0", "#,##0.00", "0.0%", "0.00%",
     "0.00", "0.000", "0.0", "#,##0", "0.0E+00", "0.00", "0.00", NULL};
 static const int xo_decimals[XK_COUNT] = {0, 0, 0, 0, 1, 2, 1, 2, 2, 3, 1, 0, 0, 2, 2, 4};
+#define XO_NSIG 8 /* 0..6 decimals, then scientific */
+static const char *const xo_sigfmt[XO_NSIG] = {"#,##0", "0.0", "0.00", "0.000", "0.0000",
+                                               "0.00000", "0.000000", "0.000E+00"};
 
 static const char *const xo_salt[SALT_COUNT] = {"NaCl", "NaBr", "NaOCl", "NaOBr", "Na2SO3", "Na2SO4"};
 
-struct xcol { char head[96]; enum xk kind; int total; };
+/* Alarm levels of a column: its cells begin with the marker when raised. */
+enum xa { XA_NONE, XA_ALARM, XA_NOTICE };
+static const char *const xo_marker[3] = {"", "!!", "!"};
+
+struct xcol { char head[96]; enum xk kind; int total; enum xa alarm; };
 
 struct xw;
-struct xblock;
-typedef void (*xrow_fn)(struct xw *, struct xblock *, lxw_row_t row, int i);
+struct xtable;
+typedef void (*xrow_fn)(struct xw *, struct xtable *, lxw_row_t row, int i);
 
-struct xblock {
-    struct xcol cols[40]; int ncols;
-    lxw_col_t col0;
+struct xtable {
+    struct xcol cols[48]; int ncols;
     int nrows;                 /* data rows (after capping at the sheet limit) */
     int omitted;               /* data rows dropped at the sheet limit */
     xrow_fn fn;
     int cur, sub;              /* cursor for row functions that walk nested lists */
     const char *empty_note;    /* shown when there are no data rows */
     const char *notes[3]; int nnotes;
-    double sum[40];
+    double sum[48];
+    double fixw[48];           /* fixed column widths (0 = from content), for wrapped text */
 };
 
 struct xw {
@@ -79,12 +105,13 @@ struct xw {
     const char *sheet;
     enum hl_status st;
     struct hl_err *e;
-    lxw_format *fmt[XK_COUNT][2], *head, *title, *wrap, *bold, *note, *top, *bold_top;
+    lxw_format *fmt[XK_COUNT][2], *sig[XO_NSIG], *head, *title, *wrap, *bold, *note, *top,
+        *bold_top, *section, *sign, *dxf[3], *noted;
     double width[XO_MAXCOL];
+    double fixw[XO_MAXCOL];    /* fixed widths of this sheet (0 = from content) */
     int maxcol;
-    struct xblock *blk;        /* block whose row is being written (for sums) */
-    int dry;                   /* 1: only count rows (the filter range must be set before
-                                * the rows in constant_memory mode) */
+    int row_lines;             /* wrapped lines the current row needs */
+    struct xtable *tab;        /* table whose row is being written (for sums) */
     char clean[XO_STR_MAX + 4];
 };
 
@@ -184,20 +211,77 @@ static void xo_widen(struct xw *w, lxw_col_t col, double chars)
 
 /* --- cells --------------------------------------------------------------- */
 
+/* Lines a text needs when wrapped at word boundaries in a column `width` characters
+ * wide (greedy, as spreadsheet programs wrap; two characters kept free for the cell
+ * padding and the proportional font's widest letters).  UTF-8 continuation bytes do
+ * not count. */
+static int xo_lines(const char *s, double width)
+{
+    int cap = (int)width - 1, lines = 1, used = 0, word = 0;
+    if (cap < 4)
+        cap = 4;
+    for (const unsigned char *p = (const unsigned char *)s;; p++) {
+        if (*p == ' ' || *p == '\n' || *p == '\0') {
+            if (word > 0) {
+                if (used > 0 && used + 1 + word > cap) {
+                    lines++;
+                    used = 0;
+                }
+                used += (used > 0) + word;
+                while (used > cap) { /* a word longer than the line breaks inside */
+                    lines++;
+                    used -= cap;
+                }
+            }
+            word = 0;
+            if (*p == '\0')
+                break;
+            if (*p == '\n') {
+                lines++;
+                used = 0;
+            }
+        } else if ((*p & 0xC0) != 0x80) {
+            word++;
+        }
+    }
+    return lines;
+}
+
+static double xo_colw(const struct xw *w, lxw_col_t col)
+{
+    return col < XO_MAXCOL && w->fixw[col] > 0 ? w->fixw[col] : XO_WRAP_W;
+}
+
 static void xo_text(struct xw *w, lxw_row_t row, lxw_col_t col, const char *s, lxw_format *f)
 {
-    if (w->st != HL_OK || w->dry || !s || !*s)
+    if (w->st != HL_OK || !s || !*s)
         return;
     int chars;
     const char *t = xo_clean(w, s, &chars);
     /* a long unformatted text (a warning, a note) wraps in its capped column instead of
      * running across the neighbours, on screen and on paper */
-    if (!f && chars > 60)
+    if (!f && (chars > 60 || (col < XO_MAXCOL && w->fixw[col] > 0 && chars > w->fixw[col])))
         f = w->wrap;
+    if (!f)
+        f = w->top; /* top-aligned, so a row made tall by a wrapped neighbour reads level */
+    if (f == w->wrap || f == w->noted) {
+        int n = xo_lines(t, xo_colw(w, col));
+        if (n > w->row_lines)
+            w->row_lines = n;
+    }
     /* worksheet_write_string never makes a formula, whatever the first character */
     xo_check(w, worksheet_write_string(w->ws, row, col, t, f), row, col);
-    if (f != w->wrap && f != w->head)
+    if (f != w->wrap && f != w->head && f != w->noted)
         xo_widen(w, col, chars > 60 ? 60 : chars);
+}
+
+/* Close the current row: give it the height its wrapped cells need.  The library keeps
+ * the current row open in constant_memory mode, so this may follow the row's cells. */
+static void xo_end_row(struct xw *w, lxw_row_t row)
+{
+    if (w->st == HL_OK && w->row_lines > 1)
+        xo_check(w, worksheet_set_row(w->ws, row, XO_LINE_PT * w->row_lines + 3, NULL), row, 0);
+    w->row_lines = 0;
 }
 
 static double xo_num_chars(enum xk k, double v)
@@ -221,7 +305,7 @@ static double xo_num_chars(enum xk k, double v)
 static void xo_num(struct xw *w, lxw_row_t row, lxw_col_t col, enum xk k, double v, int bold,
                    const char *what)
 {
-    if (w->st != HL_OK || w->dry)
+    if (w->st != HL_OK)
         return;
     if (!isfinite(v)) {
         char cell[16];
@@ -230,7 +314,14 @@ static void xo_num(struct xw *w, lxw_row_t row, lxw_col_t col, enum xk k, double
                 w->sheet, cell);
         return;
     }
-    xo_check(w, worksheet_write_number(w->ws, row, col, v + 0.0, w->fmt[k][bold]), row, col);
+    lxw_format *f = w->fmt[k][bold];
+    if (k == XK_GEN) { /* four significant figures: decimals from the magnitude */
+        double a = fabs(v);
+        int d = a == 0 ? 0 : 3 - (int)floor(log10(a));
+        f = (a != 0 && (a < 1e-4 || a >= 1e9)) ? w->sig[XO_NSIG - 1]
+                                                : w->sig[d < 0 ? 0 : d > 6 ? 6 : d];
+    }
+    xo_check(w, worksheet_write_number(w->ws, row, col, v + 0.0, f), row, col);
     xo_widen(w, col, xo_num_chars(k, v));
 }
 
@@ -269,11 +360,11 @@ static void xo_sum(struct xw *w, lxw_row_t row, lxw_col_t col, lxw_row_t r0, lxw
     xo_widen(w, col, xo_num_chars(k, cached));
 }
 
-/* --- blocks -------------------------------------------------------------- */
+/* --- tables ---------------------------------------------------------------- */
 
-static void xb_col(struct xblock *b, enum xk kind, int total, const char *fmt, ...)
+static void xt_col(struct xtable *b, enum xk kind, int total, const char *fmt, ...)
     __attribute__((format(printf, 4, 5)));
-static void xb_col(struct xblock *b, enum xk kind, int total, const char *fmt, ...)
+static void xt_col(struct xtable *b, enum xk kind, int total, const char *fmt, ...)
 {
     if (b->ncols >= (int)(sizeof b->cols / sizeof b->cols[0]))
         return;
@@ -284,36 +375,54 @@ static void xb_col(struct xblock *b, enum xk kind, int total, const char *fmt, .
     va_end(ap);
     c->kind = kind;
     c->total = total;
+    c->alarm = XA_NONE;
 }
 
-/* Cell k of the current row of block b. */
-static void xb_num(struct xw *w, struct xblock *b, lxw_row_t row, int k, double v)
+/* A yes/no column that is an alarm (level a) when raised. */
+static void xt_alarm(struct xtable *b, enum xa a, const char *head)
+{
+    xt_col(b, XK_TEXT, 0, "%s", head);
+    b->cols[b->ncols - 1].alarm = a;
+}
+
+/* Cell k of the current row of table b. */
+static void xt_num(struct xw *w, struct xtable *b, lxw_row_t row, int k, double v)
 {
     if (k >= b->ncols)
         return;
-    xo_num(w, row, b->col0 + (lxw_col_t)k, b->cols[k].kind, v, 0, b->cols[k].head);
+    xo_num(w, row, (lxw_col_t)k, b->cols[k].kind, v, 0, b->cols[k].head);
     if (b->cols[k].total)
         b->sum[k] += v;
 }
 
-static void xb_text(struct xw *w, struct xblock *b, lxw_row_t row, int k, const char *s)
+static void xt_text(struct xw *w, struct xtable *b, lxw_row_t row, int k, const char *s)
 {
     if (k < b->ncols)
-        xo_text(w, row, b->col0 + (lxw_col_t)k, s, NULL);
+        xo_text(w, row, (lxw_col_t)k, s, NULL);
 }
 
-static void xb_date(struct xw *w, struct xblock *b, lxw_row_t row, int k, int64_t min)
+static void xt_date(struct xw *w, struct xtable *b, lxw_row_t row, int k, int64_t min)
 {
     if (k < b->ncols)
-        xo_date(w, row, b->col0 + (lxw_col_t)k, min, b->cols[k].kind == XK_DAY);
+        xo_date(w, row, (lxw_col_t)k, min, b->cols[k].kind == XK_DAY);
 }
 
-static void xb_flag(struct xw *w, struct xblock *b, lxw_row_t row, int k, int v)
+static void xt_flag(struct xw *w, struct xtable *b, lxw_row_t row, int k, int v)
 {
-    xb_text(w, b, row, k, v ? "yes" : "no");
+    xt_text(w, b, row, k, v ? "yes" : "no");
 }
 
-static int xb_has_totals(const struct xblock *b)
+/* An alarm cell: the column's marker and the raised text, or "no". */
+static void xt_raise(struct xw *w, struct xtable *b, lxw_row_t row, int k, int v, const char *raised)
+{
+    if (k >= b->ncols)
+        return;
+    char buf[96];
+    snprintf(buf, sizeof buf, "%s %s", xo_marker[b->cols[k].alarm], raised);
+    xt_text(w, b, row, k, v ? buf : "no");
+}
+
+static int xt_has_totals(const struct xtable *b)
 {
     for (int k = 0; k < b->ncols; k++)
         if (b->cols[k].total)
@@ -321,23 +430,58 @@ static int xb_has_totals(const struct xblock *b)
     return 0;
 }
 
-/* Lay blocks side by side from column 0 with one blank column between them. */
-static void xb_place(struct xblock *b, int nb)
-{
-    lxw_col_t c = 0;
-    for (int i = 0; i < nb; i++) {
-        b[i].col0 = c;
-        c = (lxw_col_t)(c + b[i].ncols + 1);
-    }
-}
-
-static void xb_cap(struct xblock *b)
+static void xt_cap(struct xtable *b)
 {
     int max = (int)LXW_ROW_MAX - 8;
     if (b->nrows > max) {
         b->omitted = b->nrows - max;
         b->nrows = max;
     }
+}
+
+/* Header/footer text may carry user text: '&' is the codes' escape, so it is doubled;
+ * a doubled '&' before 'G' would still read as the picture code "&G" to the library,
+ * so a zero-width space separates them.  Cut to `room` bytes on a character boundary. */
+static void xo_hf_text(char *out, size_t room, const char *s)
+{
+    size_t o = 0;
+    for (const unsigned char *p = (const unsigned char *)(s ? s : ""); *p; p++) {
+        int n = xo_utf8_len(p);
+        const char *piece = (const char *)p;
+        size_t len = n ? (size_t)n : 1;
+        if (*p == '&')
+            piece = p[1] == 'G' ? "&&\xE2\x80\x8B" : "&&", len = strlen(piece);
+        else if (n == 0 || *p < 0x20)
+            piece = " ", len = 1;
+        if (o + len + 1 > room)
+            break;
+        memcpy(out + o, piece, len);
+        o += len;
+        if (n > 1)
+            p += n - 1;
+    }
+    out[o] = '\0';
+}
+
+/* Landscape on the campaign's paper, header and footer on every page. */
+static void xo_page(struct xw *w)
+{
+    const struct ledger *l = w->l;
+    worksheet_set_landscape(w->ws);
+    worksheet_set_paper(w->ws, l->paper_letter ? 1 : 9); /* 1 = US Letter, 9 = A4 */
+    worksheet_set_margins(w->ws, 0.5, 0.5, 0.75, 0.75);
+    char site[100], title[100], date[24] = "", hf[LXW_HEADER_FOOTER_MAX + 1];
+    xo_hf_text(site, sizeof site, l->site ? l->site : "");
+    xo_hf_text(title, sizeof title, l->title ? l->title : "haloledger ledger");
+    /* &L &C &R: left, centre, right sections; &A the sheet, &P the page, &N the pages */
+    /* &B toggles bold: a font code &"..." would be misread when the title holds a quote */
+    snprintf(hf, sizeof hf, "&L%s&C&B%s&B&R&A", site, title);
+    xo_check(w, worksheet_set_header(w->ws, hf), 0, 0);
+    if (l->created_min != 0)
+        isodate_format(l->created_min, 1, date, sizeof date);
+    snprintf(hf, sizeof hf, "&LLedger issued %s&CPlanning estimates: see Cautions&RPage &P of &N",
+             *date ? date : "(no issue date: campaign key \"issued\")");
+    xo_check(w, worksheet_set_footer(w->ws, hf), 0, 0);
 }
 
 /* Start a sheet; a bad or empty name is never passed to the library. */
@@ -352,110 +496,127 @@ static int xo_sheet(struct xw *w, const char *name)
         return 0;
     }
     memset(w->width, 0, sizeof w->width);
+    memset(w->fixw, 0, sizeof w->fixw);
     w->maxcol = 0;
-    /* header row: three wrapped lines; set before any cell (constant_memory order) */
-    xo_check(w, worksheet_set_row(w->ws, 0, 46, NULL), 0, 0);
-    /* printed: landscape A4, all columns on one page width, the header row on every page */
-    worksheet_set_landscape(w->ws);
-    worksheet_set_paper(w->ws, 9);
-    worksheet_fit_to_pages(w->ws, 1, 0);
-    xo_check(w, worksheet_repeat_rows(w->ws, 0, 0), 0, 0);
+    w->row_lines = 0;
+    xo_page(w);
     return w->st == HL_OK;
 }
 
-/* Column widths from content, header words and a 3-line wrapped header. */
-static void xo_widths(struct xw *w, const struct xblock *b, int nb)
+/* Printed width of the sheet's columns against the page: a sheet up to a third wider
+ * than the page is fitted to one page wide (at >= 75 %, still readable); a wider one
+ * prints at full size across as many pages as it needs. */
+static void xo_fit(struct xw *w, double total_chars)
 {
-    for (int i = 0; i < nb; i++)
-        for (int k = 0; k < b[i].ncols; k++) {
-            const char *h = b[i].cols[k].head;
-            int len = (int)strlen(h), word = 0, longest = 0;
-            for (const char *p = h;; p++) {
-                if (*p == ' ' || *p == '\0') {
-                    longest = word > longest ? word : longest;
-                    word = 0;
-                    if (!*p)
-                        break;
-                } else {
-                    word++;
-                }
-            }
-            double need = longest > len / 3.0 ? longest : len / 3.0;
-            xo_widen(w, b[i].col0 + (lxw_col_t)k, need);
-        }
-    for (int c = 0; c <= w->maxcol && c < XO_MAXCOL && w->st == HL_OK; c++) {
-        double wd = w->width[c] > 0 ? w->width[c] + 2 : 3;
-        if (wd > 62)
-            wd = 62;
-        xo_check(w, worksheet_set_column(w->ws, (lxw_col_t)c, (lxw_col_t)c, wd, NULL), 0,
-                 (lxw_col_t)c);
+    /* printable width in column-width characters: paper 297 mm (A4) / 279.4 mm (Letter)
+     * less 2 x 0.5 in margins; one character of the default font is 7 px at 96 px/in
+     * plus 5 px cell padding (the OOXML column-width definition, ECMA-376 part 1,
+     * 18.3.1.13) */
+    double mm = (w->l->paper_letter ? 279.4 : 297.0) - 25.4;
+    double page = (mm / 25.4 * 96.0 - 5.0) / 7.0;
+    if (total_chars <= page * 1.33) {
+        worksheet_fit_to_pages(w->ws, 1, 0);
+    } else {
+        worksheet_print_across(w->ws);
+        xo_check(w, worksheet_repeat_columns(w->ws, 0, 0), 0, 0);
     }
 }
 
-/* Write nb blocks side by side, strictly in row order. The first block gets the filter. */
-static void xo_blocks(struct xw *w, struct xblock *b, int nb)
+/* Column widths from content, header words and a 3-line wrapped header; then the fit. */
+static void xo_widths(struct xw *w, const struct xtable *b)
 {
-    int rows = 0;
-    for (int i = 0; i < nb; i++) {
-        xb_cap(&b[i]);
-        int n = 1 + b[i].nrows + xb_has_totals(&b[i]) + b[i].nnotes + (b[i].nrows == 0) +
-                (b[i].omitted > 0);
-        rows = n > rows ? n : rows;
-    }
-    worksheet_freeze_panes(w->ws, 1, 0);
-    xo_check(w, worksheet_autofilter(w->ws, 0, b[0].col0, (lxw_row_t)b[0].nrows,
-                                     (lxw_col_t)(b[0].col0 + b[0].ncols - 1)), 0, 0);
-    for (int r = 0; r < rows && w->st == HL_OK; r++) {
-        for (int i = 0; i < nb && w->st == HL_OK; i++) {
-            struct xblock *x = &b[i];
-            lxw_row_t row = (lxw_row_t)r;
-            if (r == 0) {
-                for (int k = 0; k < x->ncols; k++)
-                    xo_text(w, 0, x->col0 + (lxw_col_t)k, x->cols[k].head, w->head);
-                continue;
+    for (int k = 0; b && k < b->ncols; k++) {
+        const char *h = b->cols[k].head;
+        int len = (int)strlen(h), word = 0, longest = 0;
+        for (const char *p = h;; p++) {
+            if (*p == ' ' || *p == '\0') {
+                longest = word > longest ? word : longest;
+                word = 0;
+                if (!*p)
+                    break;
+            } else {
+                word++;
             }
-            if (r - 1 < x->nrows) {
-                w->blk = x;
-                x->fn(w, x, row, r - 1);
-                continue;
-            }
-            int at = r - 1 - x->nrows;
-            if (xb_has_totals(x)) {
-                if (at == 0) {
-                    if (x->cols[0].kind == XK_TEXT)
-                        xo_text(w, row, x->col0, "Total", w->bold);
-                    for (int k = 0; k < x->ncols; k++)
-                        if (x->cols[k].total)
-                            xo_sum(w, row, x->col0 + (lxw_col_t)k, 1, (lxw_row_t)x->nrows,
-                                   x->cols[k].kind, x->sum[k]);
-                    continue;
-                }
-                at--;
-            }
-            if (x->nrows == 0) {
-                if (at == 0) {
-                    xo_text(w, row, x->col0, x->empty_note ? x->empty_note : "(none)", w->note);
-                    continue;
-                }
-                at--;
-            }
-            if (x->omitted > 0) {
-                if (at == 0) {
-                    char msg[160];
-                    snprintf(msg, sizeof msg, "%d further rows omitted at the sheet row limit; "
-                             "the JSON ledger carries them all.", x->omitted);
-                    xo_text(w, row, x->col0, msg, w->note);
-                    continue;
-                }
-                at--;
-            }
-            if (at < x->nnotes)
-                xo_text(w, row, x->col0, x->notes[at], w->note);
         }
+        double need = longest > len / 2.6 ? longest : len / 2.6;
+        xo_widen(w, (lxw_col_t)k, need);
     }
-    if (w->st != HL_OK)
+    double total = 0;
+    for (int c = 0; c <= w->maxcol && c < XO_MAXCOL && w->st == HL_OK; c++) {
+        double wd = w->fixw[c] > 0 ? w->fixw[c] : w->width[c] > 0 ? w->width[c] + 2 : 3;
+        if (wd > XO_WRAP_W && w->fixw[c] <= 0)
+            wd = XO_WRAP_W;
+        total += wd;
+        xo_check(w, worksheet_set_column(w->ws, (lxw_col_t)c, (lxw_col_t)c, wd, NULL), 0,
+                 (lxw_col_t)c);
+    }
+    xo_fit(w, total);
+}
+
+/* Conditional formats of the alarm columns over the data rows. */
+static void xo_alarm_formats(struct xw *w, const struct xtable *b)
+{
+    for (int k = 0; k < b->ncols && w->st == HL_OK && b->nrows > 0; k++) {
+        enum xa a = b->cols[k].alarm;
+        if (a == XA_NONE)
+            continue;
+        lxw_conditional_format cf = {.type = LXW_CONDITIONAL_TYPE_TEXT,
+                                     .criteria = LXW_CONDITIONAL_CRITERIA_TEXT_BEGINS_WITH,
+                                     .value_string = (char *)xo_marker[a], .format = w->dxf[a]};
+        xo_check(w, worksheet_conditional_format_range(w->ws, 1, (lxw_col_t)k, (lxw_row_t)b->nrows,
+                                                       (lxw_col_t)k, &cf), 1, (lxw_col_t)k);
+    }
+}
+
+/* The rows after the data: totals, empty note, omitted rows, notes. */
+static void xo_table_tail(struct xw *w, struct xtable *x, lxw_row_t row)
+{
+    if (xt_has_totals(x)) {
+        if (x->cols[0].kind == XK_TEXT)
+            xo_text(w, row, 0, "Total", w->bold);
+        for (int k = 0; k < x->ncols; k++)
+            if (x->cols[k].total)
+                xo_sum(w, row, (lxw_col_t)k, 1, (lxw_row_t)x->nrows, x->cols[k].kind, x->sum[k]);
+        row++;
+    }
+    if (x->nrows == 0)
+        xo_text(w, row++, 0, x->empty_note ? x->empty_note : "(none)", w->note);
+    if (x->omitted > 0) {
+        char msg[160];
+        snprintf(msg, sizeof msg, "%d further rows omitted at the sheet row limit; "
+                 "the JSON ledger carries them all.", x->omitted);
+        xo_text(w, row++, 0, msg, w->note);
+    }
+    for (int at = 0; at < x->nnotes; at++)
+        xo_text(w, row++, 0, x->notes[at], w->note);
+}
+
+/* A sheet holding one table, strictly in row order: header, data, tail. */
+static void xo_table(struct xw *w, const char *name, struct xtable *x)
+{
+    if (!xo_sheet(w, name))
         return;
-    xo_widths(w, b, nb);
+    for (int k = 0; k < x->ncols && k < XO_MAXCOL; k++)
+        w->fixw[k] = x->fixw[k];
+    xt_cap(x);
+    /* header row: three wrapped lines; set before any cell (constant_memory order) */
+    xo_check(w, worksheet_set_row(w->ws, 0, 3 * XO_LINE_PT + 1, NULL), 0, 0);
+    worksheet_freeze_panes(w->ws, 1, 1);
+    worksheet_gridlines(w->ws, LXW_SHOW_ALL_GRIDLINES);
+    xo_check(w, worksheet_repeat_rows(w->ws, 0, 0), 0, 0);
+    xo_check(w, worksheet_autofilter(w->ws, 0, 0, (lxw_row_t)x->nrows, (lxw_col_t)(x->ncols - 1)), 0, 0);
+    for (int k = 0; k < x->ncols; k++)
+        xo_text(w, 0, (lxw_col_t)k, x->cols[k].head, w->head);
+    w->row_lines = 0;
+    w->tab = x;
+    for (int r = 0; r < x->nrows && w->st == HL_OK; r++) {
+        x->fn(w, x, (lxw_row_t)(r + 1), r);
+        xo_end_row(w, (lxw_row_t)(r + 1));
+    }
+    xo_table_tail(w, x, (lxw_row_t)(x->nrows + 1));
+    xo_alarm_formats(w, x);
+    if (w->st == HL_OK)
+        xo_widths(w, x);
 }
 
 /* --- shared names -------------------------------------------------------- */
@@ -484,46 +645,64 @@ static void xo_month_text(int month_index, char *buf, size_t n)
 }
 
 /* --- Summary ------------------------------------------------------------- */
+/* A one-page form, not a table: the campaign, its key figures month by month, the
+ * scrubber peaks, the alarms, the orders to place, a sign-off block and the safety
+ * notice.  Months after the sixth are left to the Monthly sheet so the page stays one. */
 
-struct xkv { struct xw *w; lxw_row_t row; };
+#define XS_MONTHS 6
 
-static void kv_text(struct xkv *k, const char *item, const char *value, const char *note)
+struct xsum { struct xw *w; lxw_row_t row; int nm; lxw_col_t note; };
+
+static void xs_text(struct xsum *s, const char *item, const char *value, const char *note)
 {
-    xo_text(k->w, k->row, 0, item, NULL);
-    xo_text(k->w, k->row, 1, value, NULL);
-    xo_text(k->w, k->row, 2, note, NULL);
-    k->row++;
+    xo_text(s->w, s->row, 0, item, s->w->wrap);
+    xo_text(s->w, s->row, 1, value, NULL);
+    xo_text(s->w, s->row, s->note, note, s->w->noted);
+    xo_end_row(s->w, s->row++);
 }
 
-static void kv_num(struct xkv *k, const char *item, enum xk kind, double v, const char *note)
+static void xs_num(struct xsum *s, const char *item, enum xk kind, double v, const char *note)
 {
-    xo_text(k->w, k->row, 0, item, NULL);
-    xo_num(k->w, k->row, 1, kind, v, 0, item);
-    xo_text(k->w, k->row, 2, note, NULL);
-    k->row++;
+    xo_text(s->w, s->row, 0, item, s->w->wrap);
+    xo_num(s->w, s->row, 1, kind, v, 0, item);
+    xo_text(s->w, s->row, s->note, note, s->w->noted);
+    xo_end_row(s->w, s->row++);
 }
 
-static const char xo_safety[] =
-    "Safety notice: the figures in this workbook are planning estimates from simplified "
-    "models. They do not replace the safety data sheet (SDS) of each substance, the local "
-    "codes, permits and regulations of the site, or a review of vent, scrubber and "
-    "handling arrangements by a licensed engineer. Confirm exposure limits and "
-    "incompatibilities against the current SDS before any work.";
-
-/* Rows of the Summary; returns the last row used (a dry pass only counts). */
-static lxw_row_t xo_summary_rows(struct xw *w)
+/* A section title row; `cols` (may be NULL) labels the value columns. */
+static void xs_section(struct xsum *s, const char *title, const char *const *cols, int ncols,
+                       const char *note)
 {
+    s->row++; /* one blank row before */
+    for (lxw_col_t c = 0; c <= s->note && s->w->st == HL_OK; c++) /* the rule runs across */
+        xo_check(s->w, worksheet_write_blank(s->w->ws, s->row, c, s->w->section), s->row, c);
+    xo_text(s->w, s->row, 0, title, s->w->section);
+    for (int c = 0; c < ncols; c++)
+        xo_text(s->w, s->row, (lxw_col_t)(1 + c), cols[c], s->w->section);
+    xo_text(s->w, s->row, s->note, note, s->w->section);
+    s->row++;
+}
+
+/* An alarm row: a count and a status cell with the marker when raised. */
+static void xs_alarm(struct xsum *s, enum xa level, const char *item, int n, const char *raised)
+{
+    char status[160];
+    snprintf(status, sizeof status, "%s %s", xo_marker[level], raised);
+    xo_text(s->w, s->row, 0, item, s->w->wrap);
+    xo_num(s->w, s->row, 1, XK_INT, n, 0, item);
+    xo_text(s->w, s->row, s->note, n ? status : "none", s->w->noted);
+    xo_end_row(s->w, s->row++);
+}
+
+static void xs_identity(struct xsum *s)
+{
+    struct xw *w = s->w;
     const struct ledger *l = w->l;
-    struct xkv k = {w, 0};
-    xo_text(w, 0, 0, "Item", w->head);
-    xo_text(w, 0, 1, "Value", w->head);
-    xo_text(w, 0, 2, "Note", w->head);
-    k.row = 1;
-    xo_text(w, k.row, 0, "Campaign", w->bold);
-    xo_text(w, k.row, 1, l->title ? l->title : "(untitled)", w->title);
-    k.row++;
-    kv_text(&k, "Site", l->site, NULL);
-    kv_text(&k, "Source file", l->file, NULL);
+    xo_check(w, worksheet_set_row(w->ws, 0, 24, NULL), 0, 0);
+    xo_text(w, 0, 0, l->title ? l->title : "(untitled campaign)", w->title);
+    s->row = 1;
+    xs_text(s, "Site", l->site ? l->site : "(not given)", NULL);
+    char p[64] = "no runs";
     if (l->nruns > 0) {
         int64_t first = l->runs[0].start_min, last = first;
         for (int i = 0; i < l->nruns; i++) {
@@ -533,215 +712,308 @@ static lxw_row_t xo_summary_rows(struct xw *w)
             if (r->start_min < first) first = r->start_min;
             if (end > last) last = end;
         }
-        char a[24], b[24], p[64];
+        char a[24], b[24];
         isodate_format(first, 0, a, sizeof a);
         isodate_format(last, 0, b, sizeof b);
         snprintf(p, sizeof p, "%s to %s", a, b);
-        kv_text(&k, "Period (plant time)", p, "first run start to last feed end");
-    } else {
-        kv_text(&k, "Period (plant time)", "no runs", NULL);
     }
-    if (l->created_min != 0) {
-        char d[24];
-        isodate_format(l->created_min, 0, d, sizeof d);
-        kv_text(&k, "Ledger dated", d, NULL);
-    }
-    kv_num(&k, "Runs [count]", XK_INT, l->nruns, NULL);
+    xs_text(s, "Period (plant time)", p, "first run start to last feed end");
+    char d[24] = "(not dated)";
+    if (l->created_min != 0)
+        isodate_format(l->created_min, 1, d, sizeof d);
+    xs_text(s, "Ledger issued", d, l->created_min ? NULL : "campaign key \"issued\" fixes the date");
+    xs_text(s, "Campaign file", l->file, NULL);
+}
 
-    double charged[RG_COUNT] = {0}, vent[VS_COUNT] = {0};
-    double wanted = 0, iso = 0, over = 0, unr = 0;
-    for (int i = 0; i < l->nruns; i++) {
-        const struct bal_out *b = &l->runs[i].bal;
-        if (l->runs[i].reagent >= 0 && l->runs[i].reagent < RG_COUNT)
-            charged[l->runs[i].reagent] += b->reagent_kg;
-        for (int s = 0; s < VS_COUNT; s++)
-            vent[s] += xo_vent_kg(b->vent_mol, s);
-        wanted += b->wanted_kg;
-        iso += b->isomer_kg;
-        over += b->overhal_kg;
-        unr += b->unreacted_substrate_kg;
+/* One row of month figures: v(m) for the first nm months. */
+typedef double (*xs_month_fn)(const struct ledger_month *m, int arg);
+static double xs_m_runs(const struct ledger_month *m, int a) { (void)a; return m->runs; }
+static double xs_m_reagent(const struct ledger_month *m, int a) { return m->reagents_kg[a]; }
+static double xs_m_vent(const struct ledger_month *m, int a) { return m->vent_kg[a]; }
+static double xs_m_naoh(const struct ledger_month *m, int a) { (void)a; return m->naoh_kg; }
+static double xs_m_change(const struct ledger_month *m, int a) { (void)a; return m->changeouts; }
+static double xs_m_spent(const struct ledger_month *m, int a) { (void)a; return m->spent_liquor_kg; }
+static double xs_m_succ(const struct ledger_month *m, int a) { (void)a; return m->succinimide_kg; }
+
+static void xs_month_row(struct xsum *s, const char *item, enum xk kind, xs_month_fn fn, int arg,
+                         int skip_zero)
+{
+    const struct ledger *l = s->w->l;
+    int any = 0;
+    for (int m = 0; m < l->nmonths; m++)
+        any |= fn(&l->months[m], arg) != 0;
+    if (skip_zero && !any)
+        return;
+    xo_text(s->w, s->row, 0, item, s->w->wrap);
+    for (int m = 0; m < s->nm; m++)
+        xo_num(s->w, s->row, (lxw_col_t)(1 + m), kind, fn(&l->months[m], arg), 0, item);
+    xo_end_row(s->w, s->row++);
+}
+
+static void xs_months(struct xsum *s)
+{
+    const struct ledger *l = s->w->l;
+    char names[XS_MONTHS][32];
+    const char *cols[XS_MONTHS];
+    for (int m = 0; m < s->nm; m++) {
+        xo_month_text(l->months[m].month_index, names[m], sizeof names[m]);
+        cols[m] = names[m];
     }
-    char item[128];
-    for (int g = 0; g < RG_CHARGEABLE; g++)
-        if (charged[g] != 0) {
-            snprintf(item, sizeof item, "%s charged [kg]", xo_item(g));
-            kv_num(&k, item, XK_KG, charged[g], "sum over the Runs sheet");
-        }
-    kv_num(&k, "Wanted product [kg]", XK_KG, wanted, NULL);
-    kv_num(&k, "Isomer losses [kg]", XK_KG, iso, "other monohalide isomers");
-    kv_num(&k, "Over-halogenated losses [kg]", XK_KG, over, NULL);
-    kv_num(&k, "Unreacted substrate [kg]", XK_KG, unr, NULL);
-    for (int s = 0; s < VS_COUNT; s++) {
-        snprintf(item, sizeof item, "%s to scrubbers [kg]", xo_vent(s));
-        kv_num(&k, item, XK_KG, vent[s], NULL);
+    xs_section(s, "Key figures by month", cols, s->nm,
+               l->nmonths > s->nm ? "later months: Monthly sheet" : NULL);
+    char item[96];
+    xs_month_row(s, "Runs [count]", XK_INT, xs_m_runs, 0, 0);
+    for (int g = 0; g < RG_CHARGEABLE; g++) {
+        snprintf(item, sizeof item, "%s charged [kg]", xo_item(g));
+        xs_month_row(s, item, XK_KG, xs_m_reagent, g, 1);
     }
-    double naoh = 0, makeup = 0;
-    int changeouts = 0, overloads = 0, late = 0;
+    for (int v = 0; v < VS_COUNT; v++) {
+        snprintf(item, sizeof item, "%s to scrubbers [kg]", xo_vent(v));
+        xs_month_row(s, item, XK_KG, xs_m_vent, v, 1);
+    }
+    xs_month_row(s, "NaOH consumed, as 100 % [kg]", XK_KG, xs_m_naoh, 0, 0);
+    xs_month_row(s, "Caustic make-up bought, as solution [kg]", XK_KG, xs_m_reagent, RG_NAOH, 1);
+    xs_month_row(s, "Liquor changeouts [count]", XK_INT, xs_m_change, 0, 0);
+    xs_month_row(s, "Spent liquor [kg]", XK_KG, xs_m_spent, 0, 1);
+    xs_month_row(s, "Succinimide [kg]", XK_KG, xs_m_succ, 0, 1);
+}
+
+static void xs_scrubbers(struct xsum *s)
+{
+    const struct ledger *l = s->w->l;
+    static const char *const value[1] = {"Value"};
+    xs_section(s, "Scrubbers", value, 1, "Note");
+    char item[128], note[200], at[24];
     for (int u = 0; u < l->nscrubbers; u++) {
-        naoh += l->scrubbers[u].out.naoh_kg;
-        makeup += l->scrubbers[u].out.makeup_kg;
-        changeouts += l->scrubbers[u].out.changeouts;
-        overloads += l->scrubbers[u].out.overloaded != 0;
+        const struct ledger_scrubber *x = &l->scrubbers[u];
+        const char *id = x->id ? x->id : "?";
+        snprintf(at, sizeof at, "-");
+        if (x->out.npeak_instant_runs > 0)
+            isodate_format(x->out.peak_instant_at_min, 0, at, sizeof at);
+        snprintf(note, sizeof note, "from %s; rated %.4g kmol/h%s", at, x->rated_acid_kmol_h,
+                 x->out.overloaded ? "; !! OVER RATING" : "");
+        snprintf(item, sizeof item, "Peak instantaneous load at %.60s [kmol/h]", id);
+        xs_num(s, item, XK_RATE, x->out.peak_instant_kmol_h, note);
+        snprintf(at, sizeof at, "-");
+        if (x->out.nhours > 0)
+            isodate_format(x->out.peak_at_min, 0, at, sizeof at);
+        snprintf(note, sizeof note, "mean over the hour from %s", at);
+        snprintf(item, sizeof item, "Peak hourly load at %.60s [kmol/h]", id);
+        xs_num(s, item, XK_RATE, x->out.peak_acid_kmol_h, note);
+        snprintf(item, sizeof item, "Hottest liquor at %.60s [°C]", id);
+        xs_num(s, item, XK_TEMP, x->out.max_liquor_temp_c,
+               x->out.too_hot_runs ? "!! cooling needed (no cooler modelled)"
+                                   : "adiabatic, no cooler modelled");
+    }
+    if (l->nscrubbers == 0)
+        xs_text(s, "No scrubber defined", NULL, NULL);
+}
+
+static void xs_alarms(struct xsum *s)
+{
+    const struct ledger *l = s->w->l;
+    static const char *const count[1] = {"Count"};
+    int over = 0, hot = 0, low = 0, late = 0, capped = 0;
+    for (int u = 0; u < l->nscrubbers; u++) {
+        over += l->scrubbers[u].out.overloaded != 0;
+        hot += l->scrubbers[u].out.too_hot_runs;
+    }
+    for (int i = 0; i < l->nruns; i++) {
+        low += l->runs[i].scrub.exhausted != 0;
+        capped += l->runs[i].bal.capped != 0;
     }
     for (int i = 0; i < l->norders; i++)
         late += l->orders[i].late != 0;
-    kv_num(&k, "NaOH consumed in scrubbers [kg]", XK_KG, naoh, NULL);
-    kv_num(&k, "Caustic make-up solution bought [kg]", XK_KG, makeup, "for the changeouts");
-    kv_num(&k, "Liquor changeouts [count]", XK_INT, changeouts, NULL);
-    for (int u = 0; u < l->nscrubbers; u++) {
-        const struct ledger_scrubber *s = &l->scrubbers[u];
-        char note[200], at[24] = "-";
-        if (s->out.nhours > 0)
-            isodate_format(s->out.peak_at_min, 0, at, sizeof at);
-        snprintf(note, sizeof note, "mean over the hour from %s", at);
-        snprintf(item, sizeof item, "Peak hourly load at %.60s [kmol/h]", s->id ? s->id : "?");
-        kv_num(&k, item, XK_RATE, s->out.peak_acid_kmol_h, note);
-        if (s->out.npeak_instant_runs > 0)
-            isodate_format(s->out.peak_instant_at_min, 0, at, sizeof at);
-        snprintf(note, sizeof note, "from %s; rated %.3g kmol/h%s", at, s->rated_acid_kmol_h,
-                 s->out.overloaded ? "; OVER THE RATED CAPACITY" : "");
-        snprintf(item, sizeof item, "Peak instantaneous load at %.60s [kmol/h]", s->id ? s->id : "?");
-        kv_num(&k, item, XK_RATE, s->out.peak_instant_kmol_h, note);
-        snprintf(item, sizeof item, "Hottest liquor at %.60s [°C]", s->id ? s->id : "?");
-        kv_num(&k, item, XK_TEMP, s->out.max_liquor_temp_c, s->out.too_hot_runs ? "cooling needed (no cooler modelled)" : "adiabatic, no cooler modelled");
-    }
-    kv_num(&k, "Scrubber overloads [count]", XK_INT, overloads, NULL);
-    kv_num(&k, "Late orders [count]", XK_INT, late, late ? "order-by date already passed" : NULL);
-    kv_num(&k, "Warnings [count]", XK_INT, l->nwarnings, NULL);
-    k.row++;
-    xo_text(w, k.row++, 0, "Warnings", w->bold);
-    if (l->nwarnings == 0)
-        xo_text(w, k.row++, 0, "(none)", w->note);
-    for (int i = 0; i < l->nwarnings && w->st == HL_OK; i++) {
-        /* the message wraps in its 62-wide column: give the row one line per ~50 chars */
-        size_t len = strlen(l->warnings[i].message);
-        if (!w->dry && len > 60)
-            xo_check(w, worksheet_set_row(w->ws, k.row, 13.0 * (double)((len + 49) / 50), NULL),
-                     k.row, 0);
-        xo_text(w, k.row, 0, "Warning", w->top);
-        xo_text(w, k.row, 1, l->warnings[i].run ? l->warnings[i].run : "campaign", w->top);
-        xo_text(w, k.row, 2, l->warnings[i].message, w->wrap);
-        k.row++;
-    }
-    k.row++;
-    xo_text(w, k.row, 0, "Safety notice", w->bold_top);
-    if (!w->dry)
-        xo_check(w, worksheet_set_row(w->ws, k.row, 105, NULL), k.row, 0);
-    xo_text(w, k.row, 1, xo_safety, w->wrap);
-    return k.row;
+    xs_section(s, "Alarms", count, 1, "Status");
+    xs_alarm(s, XA_ALARM, "Scrubbers over their rating [count]", over, "OVER RATING: Scrubber units sheet");
+    xs_alarm(s, XA_ALARM, "Runs needing liquor cooling [count]", hot, "TOO HOT: Liquor by run sheet");
+    xs_alarm(s, XA_ALARM, "Runs taking liquor below its minimum NaOH [count]", low,
+             "BELOW MINIMUM: Liquor by run sheet");
+    xs_alarm(s, XA_ALARM, "Late orders [count]", late, "LATE: Orders sheet");
+    xs_alarm(s, XA_NOTICE, "Runs capped by the substrate [count]", capped, "capped: Runs sheet");
+    xs_num(s, "Warnings [count]", XK_INT, l->nwarnings, l->nwarnings ? "listed on the Warnings sheet" : "none");
 }
+
+static void xs_orders(struct xsum *s)
+{
+    const struct ledger *l = s->w->l;
+    static const char *const count[1] = {"Containers"};
+    xs_section(s, "Orders to place", count, 1, "Container, order by");
+    int shown = 0, n = 0;
+    for (int i = 0; i < l->norders; i++) {
+        const struct ord_line *o = &l->orders[i];
+        if (o->containers <= 0)
+            continue;
+        if (++n > XS_MONTHS)
+            continue;
+        char item[96], mt[32], by[24], note[200];
+        xo_month_text(o->month_index, mt, sizeof mt);
+        isodate_format(o->order_by_min, 1, by, sizeof by);
+        snprintf(item, sizeof item, "%s for %s [count]", xo_item(o->item), mt);
+        snprintf(note, sizeof note, "%.60s, by %s%s", o->container ? o->container : "container", by,
+                 o->late ? "; !! LATE" : "");
+        xs_num(s, item, XK_INT, o->containers, note);
+        shown++;
+    }
+    if (n == 0)
+        xs_text(s, "Nothing to order", NULL, NULL);
+    else if (n > shown)
+        xs_text(s, "Further orders", NULL, "Orders sheet");
+}
+
+static void xs_signoff(struct xsum *s)
+{
+    struct xw *w = s->w;
+    xs_section(s, "Sign-off", NULL, 0, NULL);
+    static const char *const who[2] = {"Prepared by (name, signature)", "Checked by (name, signature)"};
+    for (int k = 0; k < 2 && w->st == HL_OK; k++, s->row++) {
+        xo_check(w, worksheet_set_row(w->ws, s->row, 30, NULL), s->row, 0);
+        xo_text(w, s->row, 0, who[k], w->bold);
+        for (lxw_col_t c = 1; c < s->note; c++)
+            xo_check(w, worksheet_write_blank(w->ws, s->row, c, w->sign), s->row, c);
+        xo_text(w, s->row, s->note, "Date:", w->sign);
+    }
+}
+
+static const char xo_safety[] =
+    "Safety notice: the figures in this workbook are planning estimates from simplified "
+    "models. They do not replace the safety data sheet (SDS) of each substance, the local "
+    "codes, permits and regulations of the site, or a review of vent, scrubber and "
+    "handling arrangements by a licensed engineer. Confirm exposure limits and "
+    "incompatibilities against the current SDS before any work.";
 
 static void xo_summary(struct xw *w)
 {
     if (!xo_sheet(w, "Summary"))
         return;
-    w->dry = 1;
-    lxw_row_t last = xo_summary_rows(w);
-    w->dry = 0;
-    worksheet_freeze_panes(w->ws, 1, 0);
-    xo_check(w, worksheet_autofilter(w->ws, 0, 0, last, 2), 0, 0);
-    xo_summary_rows(w);
+    const struct ledger *l = w->l;
+    struct xsum s = {w, 0, l->nmonths < XS_MONTHS ? l->nmonths : XS_MONTHS, 0};
+    s.note = (lxw_col_t)(1 + (s.nm > 1 ? s.nm : 1));
+    w->fixw[0] = 44;
+    for (int m = 1; m < s.note; m++)
+        w->fixw[m] = s.nm > 1 ? 13 : 36;
+    w->fixw[s.note] = 52;
+    xs_identity(&s);
+    xs_months(&s);
+    xs_scrubbers(&s);
+    xs_alarms(&s);
+    xs_orders(&s);
+    xs_signoff(&s);
+    s.row++;
     if (w->st != HL_OK)
         return;
-    xo_check(w, worksheet_set_column(w->ws, 0, 0, w->width[0] + 2, NULL), 0, 0);
-    xo_check(w, worksheet_set_column(w->ws, 1, 1, 62, NULL), 0, 1); /* wrapped notice */
-    xo_check(w, worksheet_set_column(w->ws, 2, 2, w->width[2] + 2 > 62 ? 62 : w->width[2] + 2,
-                                     NULL), 0, 2);
+    double wide = 0;
+    for (lxw_col_t c = 1; c <= s.note; c++)
+        wide += w->fixw[c];
+    xo_text(w, s.row, 0, "Safety notice", w->bold_top);
+    xo_check(w, worksheet_merge_range(w->ws, s.row, 1, s.row, s.note, xo_safety, w->wrap), s.row, 1);
+    xo_check(w, worksheet_set_row(w->ws, s.row, XO_LINE_PT * xo_lines(xo_safety, wide) + 3, NULL),
+             s.row, 0);
+    for (lxw_col_t c = 0; c <= s.note && w->st == HL_OK; c++)
+        xo_check(w, worksheet_set_column(w->ws, c, c, w->fixw[c], NULL), 0, c);
+    /* the markers in the note column: "!!" alarm, "! " notice (rule 1 wins where both match) */
+    lxw_conditional_format cf[2] = {
+        {.type = LXW_CONDITIONAL_TYPE_TEXT, .criteria = LXW_CONDITIONAL_CRITERIA_TEXT_CONTAINING,
+         .value_string = (char *)xo_marker[XA_ALARM], .format = w->dxf[XA_ALARM]},
+        {.type = LXW_CONDITIONAL_TYPE_TEXT, .criteria = LXW_CONDITIONAL_CRITERIA_TEXT_BEGINS_WITH,
+         .value_string = "! ", .format = w->dxf[XA_NOTICE]}};
+    for (int k = 0; k < 2; k++)
+        xo_check(w, worksheet_conditional_format_range(w->ws, 1, s.note, s.row, s.note, &cf[k]), 1,
+                 s.note);
+    worksheet_fit_to_pages(w->ws, 1, 1);
+    worksheet_center_horizontally(w->ws);
 }
 
 /* --- Runs ---------------------------------------------------------------- */
 
-static void row_run(struct xw *w, struct xblock *b, lxw_row_t row, int i)
+static const char xo_formula_note[] =
+    "formula substrate: isomers not resolved, every monohalide counted as the wanted product";
+
+static void row_run(struct xw *w, struct xtable *b, lxw_row_t row, int i)
 {
     const struct ledger_run *r = &w->l->runs[i];
     const struct bal_out *o = &r->bal;
     int k = 0;
-    xb_text(w, b, row, k++, r->id);
-    xb_date(w, b, row, k++, r->start_min);
+    xt_text(w, b, row, k++, r->id);
+    xt_date(w, b, row, k++, r->start_min);
     if (isfinite(r->feed_h) && fabs(r->feed_h) < 1e9)
-        xb_date(w, b, row, k, r->start_min + (int64_t)llround(r->feed_h * 60.0));
+        xt_date(w, b, row, k, r->start_min + (int64_t)llround(r->feed_h * 60.0));
     k++;
-    xb_text(w, b, row, k++, r->reactor);
-    xb_text(w, b, row, k++, r->scrubber);
-    xb_text(w, b, row, k++, r->mode == KIN_CSTR ? "cstr" : "batch");
-    xb_text(w, b, row, k++, xo_item(r->reagent));
-    xb_text(w, b, row, k++, r->substrate_name);
-    xb_text(w, b, row, k++, r->smiles);
-    xb_text(w, b, row, k++, o->substrate_formula);
-    xb_num(w, b, row, k++, r->temp_c);
-    xb_num(w, b, row, k++, r->feed_h);
-    xb_num(w, b, row, k++, r->substrate_kg);
-    xb_num(w, b, row, k++, o->substrate_mol);
-    xb_num(w, b, row, k++, o->reagent_kg);
-    xb_num(w, b, row, k++, o->reagent_mol);
-    xb_num(w, b, row, k++, o->reagent_reacted_mol);
-    xb_num(w, b, row, k++, o->halogen_reacted_mol);
-    xb_flag(w, b, row, k++, o->capped);
-    xb_num(w, b, row, k++, o->mean_degree);
-    xb_num(w, b, row, k++, o->hx_kg[0]);
-    xb_num(w, b, row, k++, o->hx_kg[1]);
-    xb_num(w, b, row, k++, o->so2_kg);
-    xb_num(w, b, row, k++, o->succinimide_kg);
+    xt_text(w, b, row, k++, r->reactor);
+    xt_text(w, b, row, k++, r->scrubber);
+    xt_text(w, b, row, k++, r->mode == KIN_CSTR ? "cstr" : "batch");
+    xt_text(w, b, row, k++, xo_item(r->reagent));
+    xt_text(w, b, row, k++, r->substrate_name);
+    xt_text(w, b, row, k++, r->smiles);
+    xt_text(w, b, row, k++, o->substrate_formula);
+    xt_num(w, b, row, k++, r->temp_c);
+    xt_num(w, b, row, k++, r->feed_h);
+    xt_num(w, b, row, k++, r->substrate_kg);
+    xt_num(w, b, row, k++, o->substrate_mol);
+    xt_num(w, b, row, k++, o->reagent_kg);
+    xt_num(w, b, row, k++, o->reagent_mol);
+    xt_num(w, b, row, k++, o->reagent_reacted_mol);
+    xt_num(w, b, row, k++, o->halogen_reacted_mol);
+    xt_raise(w, b, row, k++, o->capped, "capped");
+    xt_num(w, b, row, k++, o->mean_degree);
+    xt_num(w, b, row, k++, o->hx_kg[0]);
+    xt_num(w, b, row, k++, o->hx_kg[1]);
+    xt_num(w, b, row, k++, o->so2_kg);
+    xt_num(w, b, row, k++, o->succinimide_kg);
     for (int s = 0; s < VS_COUNT; s++)
-        xb_num(w, b, row, k++, xo_vent_kg(o->vent_mol, s));
-    xb_num(w, b, row, k++, r->scrub.acid_kmol_h);
-    xb_num(w, b, row, k++, r->scrub.naoh_kg);
-    xb_num(w, b, row, k++, r->scrub.heat_kj);
-    xb_num(w, b, row, k++, r->scrub.temp_rise_k);
-    xb_flag(w, b, row, k++, r->scrub.changeout_before);
-    xb_num(w, b, row, k++, o->max_rel_error);
-    xb_text(w, b, row, k++,
-            o->warning[0] ? o->warning
-            : o->isomers_resolved ? NULL
-                                  : "formula substrate: isomers not resolved, every monohalide "
-                                    "counted as the wanted product");
+        xt_num(w, b, row, k++, xo_vent_kg(o->vent_mol, s));
+    xt_num(w, b, row, k++, r->scrub.acid_kmol_h);
+    xt_num(w, b, row, k++, r->scrub.naoh_kg);
+    xt_num(w, b, row, k++, r->scrub.heat_kj);
+    xt_num(w, b, row, k++, r->scrub.temp_rise_k);
+    xt_flag(w, b, row, k++, r->scrub.changeout_before);
+    xt_num(w, b, row, k++, o->max_rel_error);
+    xt_text(w, b, row, k++, o->warning[0] ? o->warning : o->isomers_resolved ? NULL : xo_formula_note);
 }
 
 static void xo_runs(struct xw *w)
 {
-    if (!xo_sheet(w, "Runs"))
-        return;
-    struct xblock b = {.fn = row_run, .nrows = w->l->nruns, .empty_note = "No runs in the campaign."};
-    xb_col(&b, XK_TEXT, 0, "Run");
-    xb_col(&b, XK_DATE, 0, "Start (plant time)");
-    xb_col(&b, XK_DATE, 0, "Feed end (plant time)");
-    xb_col(&b, XK_TEXT, 0, "Reactor");
-    xb_col(&b, XK_TEXT, 0, "Scrubber");
-    xb_col(&b, XK_TEXT, 0, "Reactor mode");
-    xb_col(&b, XK_TEXT, 0, "Reagent");
-    xb_col(&b, XK_TEXT, 0, "Substrate");
-    xb_col(&b, XK_TEXT, 0, "Substrate SMILES");
-    xb_col(&b, XK_TEXT, 0, "Substrate formula");
-    xb_col(&b, XK_TEMP, 0, "Temperature [°C]");
-    xb_col(&b, XK_TEMP, 0, "Feed time [h]");
-    xb_col(&b, XK_KG, 1, "Substrate [kg]");
-    xb_col(&b, XK_MOL, 1, "Substrate [mol]");
-    xb_col(&b, XK_KG, 1, "Reagent charged [kg]");
-    xb_col(&b, XK_MOL, 1, "Reagent charged [mol]");
-    xb_col(&b, XK_MOL, 1, "Reagent reacted [mol]");
-    xb_col(&b, XK_MOL, 1, "Halogen put on carbon [mol]");
-    xb_col(&b, XK_TEXT, 0, "Capped by substrate");
-    xb_col(&b, XK_MOL, 0, "Mean halogens added [mol/mol substrate]");
-    xb_col(&b, XK_KG, 1, "HCl formed [kg]");
-    xb_col(&b, XK_KG, 1, "HBr formed [kg]");
-    xb_col(&b, XK_KG, 1, "SO2 formed [kg]");
-    xb_col(&b, XK_KG, 1, "Succinimide formed [kg]");
+    struct xtable b = {.fn = row_run, .nrows = w->l->nruns, .empty_note = "No runs in the campaign."};
+    xt_col(&b, XK_TEXT, 0, "Run");
+    xt_col(&b, XK_DATE, 0, "Start (plant time)");
+    xt_col(&b, XK_DATE, 0, "Feed end (plant time)");
+    xt_col(&b, XK_TEXT, 0, "Reactor");
+    xt_col(&b, XK_TEXT, 0, "Scrubber");
+    xt_col(&b, XK_TEXT, 0, "Reactor mode");
+    xt_col(&b, XK_TEXT, 0, "Reagent");
+    xt_col(&b, XK_TEXT, 0, "Substrate");
+    xt_col(&b, XK_TEXT, 0, "Substrate SMILES");
+    xt_col(&b, XK_TEXT, 0, "Substrate formula");
+    xt_col(&b, XK_TEMP, 0, "Temperature [°C]");
+    xt_col(&b, XK_TEMP, 0, "Feed time [h]");
+    /* no totals over substrates, reagents or halogen atoms: the runs mix them */
+    xt_col(&b, XK_KG, 0, "Substrate [kg]");
+    xt_col(&b, XK_MOL, 0, "Substrate [mol]");
+    xt_col(&b, XK_KG, 0, "Reagent charged [kg]");
+    xt_col(&b, XK_MOL, 0, "Reagent charged [mol]");
+    xt_col(&b, XK_MOL, 0, "Reagent reacted [mol]");
+    xt_col(&b, XK_MOL, 0, "Halogen put on carbon [mol]");
+    xt_alarm(&b, XA_NOTICE, "Capped by substrate");
+    xt_col(&b, XK_MOL, 0, "Mean halogens added [mol/mol substrate]");
+    xt_col(&b, XK_KG, 1, "HCl formed [kg]");
+    xt_col(&b, XK_KG, 1, "HBr formed [kg]");
+    xt_col(&b, XK_KG, 1, "SO2 formed [kg]");
+    xt_col(&b, XK_KG, 1, "Succinimide formed [kg]");
     for (int s = 0; s < VS_COUNT; s++)
-        xb_col(&b, XK_KG, 1, "%s to scrubber [kg]", xo_vent(s));
-    xb_col(&b, XK_RATE, 0, "Vent gas to scrubber [kmol/h]");
-    xb_col(&b, XK_KG, 1, "NaOH used [kg]");
-    xb_col(&b, XK_HEAT, 1, "Heat to liquor [kJ]");
-    xb_col(&b, XK_TEMP, 0, "Liquor temperature rise [K]");
-    xb_col(&b, XK_TEXT, 0, "Liquor changed before run");
-    xb_col(&b, XK_SCI, 0, "Element balance error [relative]");
-    xb_col(&b, XK_TEXT, 0, "Note");
-    xb_place(&b, 1);
-    xo_blocks(w, &b, 1);
+        xt_col(&b, XK_KG, 1, "%s to scrubber [kg]", xo_vent(s));
+    xt_col(&b, XK_RATE, 0, "Vent gas to scrubber, peak rate [kmol/h]");
+    xt_col(&b, XK_KG, 1, "NaOH consumed, as 100 %% [kg]");
+    xt_col(&b, XK_HEAT, 1, "Heat to liquor [kJ]");
+    xt_col(&b, XK_TEMP, 0, "Liquor temperature rise [K]");
+    xt_col(&b, XK_TEXT, 0, "Liquor changed before run");
+    xt_col(&b, XK_SCI, 0, "Element balance error [relative]");
+    xt_col(&b, XK_TEXT, 0, "Note");
+    xo_table(w, "Runs", &b);
 }
 
 /* --- Products ------------------------------------------------------------ */
 
-static void row_product(struct xw *w, struct xblock *b, lxw_row_t row, int i)
+static void row_product(struct xw *w, struct xtable *b, lxw_row_t row, int i)
 {
     (void)i;
     const struct ledger *l = w->l;
@@ -755,43 +1027,41 @@ static void row_product(struct xw *w, struct xblock *b, lxw_row_t row, int i)
     const struct ledger_run *r = &l->runs[b->cur];
     const struct bal_product *p = &r->bal.products[b->sub++];
     int k = 0;
-    xb_text(w, b, row, k++, r->id);
-    xb_text(w, b, row, k++, xo_item(r->reagent));
-    xb_text(w, b, row, k++, p->smiles); /* blank: no unambiguous structure */
-    xb_text(w, b, row, k++, p->formula);
-    xb_num(w, b, row, k++, p->degree);
-    xb_text(w, b, row, k++, ledger_role_name(p->role));
-    xb_num(w, b, row, k++, p->molar_mass_g_mol);
-    xb_num(w, b, row, k++, p->mol);
-    xb_num(w, b, row, k++, p->kg);
-    xb_num(w, b, row, k++, p->mol_fraction);
+    xt_text(w, b, row, k++, r->id);
+    xt_text(w, b, row, k++, xo_item(r->reagent));
+    xt_text(w, b, row, k++, p->smiles); /* blank: no unambiguous structure */
+    xt_text(w, b, row, k++, p->formula);
+    xt_num(w, b, row, k++, p->degree);
+    xt_text(w, b, row, k++, ledger_role_name(p->role));
+    xt_num(w, b, row, k++, p->molar_mass_g_mol);
+    xt_num(w, b, row, k++, p->mol);
+    xt_num(w, b, row, k++, p->kg);
+    xt_num(w, b, row, k++, p->mol_fraction);
 }
 
 static void xo_products(struct xw *w)
 {
-    if (!xo_sheet(w, "Products"))
-        return;
     int n = 0;
     for (int i = 0; i < w->l->nruns; i++)
         n += w->l->runs[i].bal.nproducts;
-    struct xblock b = {.fn = row_product, .nrows = n, .empty_note = "No products."};
-    xb_col(&b, XK_TEXT, 0, "Run");
-    xb_col(&b, XK_TEXT, 0, "Reagent");
-    xb_col(&b, XK_TEXT, 0, "Structure (SMILES)");
-    xb_col(&b, XK_TEXT, 0, "Formula");
-    xb_col(&b, XK_INT, 0, "Halogens added [atoms/molecule]");
-    xb_col(&b, XK_TEXT, 0, "Role");
-    xb_col(&b, XK_GMOL, 0, "Molar mass [g/mol]");
-    xb_col(&b, XK_MOL, 1, "Amount [mol]");
-    xb_col(&b, XK_KG, 1, "Mass [kg]");
-    xb_col(&b, XK_MOLFRAC, 0, "Share of substrate charged [mol %%]");
-    xb_place(&b, 1);
-    xo_blocks(w, &b, 1);
+    struct xtable b = {.fn = row_product, .nrows = n, .empty_note = "No products."};
+    xt_col(&b, XK_TEXT, 0, "Run");
+    xt_col(&b, XK_TEXT, 0, "Reagent");
+    xt_col(&b, XK_TEXT, 0, "Structure (SMILES)");
+    xt_col(&b, XK_TEXT, 0, "Formula");
+    xt_col(&b, XK_INT, 0, "Halogens added [atoms/molecule]");
+    xt_col(&b, XK_TEXT, 0, "Role");
+    xt_col(&b, XK_GMOL, 0, "Molar mass [g/mol]");
+    /* no totals: the rows are different substances */
+    xt_col(&b, XK_MOL, 0, "Amount [mol]");
+    xt_col(&b, XK_KG, 0, "Mass [kg]");
+    xt_col(&b, XK_MOLFRAC, 0, "Share of substrate charged [mol %%]");
+    xo_table(w, "Products", &b);
 }
 
-/* --- Scrubber ------------------------------------------------------------ */
+/* --- Liquor by run ------------------------------------------------------- */
 
-static void row_liquor(struct xw *w, struct xblock *b, lxw_row_t row, int i)
+static void row_liquor(struct xw *w, struct xtable *b, lxw_row_t row, int i)
 {
     (void)i;
     const struct ledger *l = w->l;
@@ -802,30 +1072,62 @@ static void row_liquor(struct xw *w, struct xblock *b, lxw_row_t row, int i)
     const struct ledger_run *r = &l->runs[b->cur++];
     const struct scrub_run_out *s = &r->scrub;
     int k = 0;
-    xb_text(w, b, row, k++, r->scrubber);
-    xb_text(w, b, row, k++, r->id);
-    xb_date(w, b, row, k++, r->start_min);
-    xb_flag(w, b, row, k++, s->changeout_before);
-    xb_num(w, b, row, k++, s->acid_kmol_h);
-    xb_num(w, b, row, k++, s->naoh_kg);
-    xb_num(w, b, row, k++, s->naoh_left_kg);
-    xb_num(w, b, row, k++, s->liquor_kg_after);
-    xb_num(w, b, row, k++, s->naoh_wt_pct_after);
+    xt_text(w, b, row, k++, r->id);
+    xt_text(w, b, row, k++, r->scrubber);
+    xt_date(w, b, row, k++, r->start_min);
+    xt_flag(w, b, row, k++, s->changeout_before);
+    xt_num(w, b, row, k++, s->acid_kmol_h);
+    xt_num(w, b, row, k++, s->naoh_kg);
+    xt_num(w, b, row, k++, s->naoh_left_kg);
+    xt_num(w, b, row, k++, s->liquor_kg_after);
+    xt_num(w, b, row, k++, s->naoh_wt_pct_after);
     for (int q = 0; q < SALT_COUNT; q++)
-        xb_num(w, b, row, k++, s->salt_kg[q]);
-    xb_num(w, b, row, k++, s->water_formed_kg);
-    xb_num(w, b, row, k++, s->acid_wt_pct_after);
-    xb_num(w, b, row, k++, s->heat_kj);
-    xb_num(w, b, row, k++, s->temp_rise_k);
-    xb_num(w, b, row, k++, s->liquor_temp_c_after);
-    xb_num(w, b, row, k++, s->heat_kw);
-    xb_flag(w, b, row, k++, s->too_hot);
-    xb_num(w, b, row, k++, s->sulfite_oxidised_mol);
-    xb_num(w, b, row, k++, s->breakthrough_mol);
-    xb_flag(w, b, row, k++, s->exhausted);
+        xt_num(w, b, row, k++, s->salt_kg[q]);
+    xt_num(w, b, row, k++, s->water_formed_kg);
+    xt_num(w, b, row, k++, s->acid_wt_pct_after);
+    xt_num(w, b, row, k++, s->heat_kj);
+    xt_num(w, b, row, k++, s->temp_rise_k);
+    xt_num(w, b, row, k++, s->liquor_temp_c_after);
+    xt_num(w, b, row, k++, s->heat_kw);
+    xt_raise(w, b, row, k++, s->too_hot, "TOO HOT");
+    xt_num(w, b, row, k++, s->sulfite_oxidised_mol);
+    xt_num(w, b, row, k++, s->breakthrough_mol);
+    xt_raise(w, b, row, k++, s->exhausted, "BELOW MINIMUM");
 }
 
-/* Run ids joined with ", " into buf; a long list is cut with an ellipsis. */
+static void xo_liquor(struct xw *w)
+{
+    const struct ledger *l = w->l;
+    int n = 0;
+    for (int i = 0; i < l->nruns; i++)
+        n += l->runs[i].scrubber != NULL;
+    struct xtable a = {.fn = row_liquor, .nrows = n, .empty_note = "No run is routed to a scrubber."};
+    xt_col(&a, XK_TEXT, 0, "Run");
+    xt_col(&a, XK_TEXT, 0, "Scrubber");
+    xt_col(&a, XK_DATE, 0, "Start (plant time)");
+    xt_col(&a, XK_TEXT, 0, "Liquor changed before run");
+    xt_col(&a, XK_RATE, 0, "Vent gas to scrubber, peak rate [kmol/h]");
+    xt_col(&a, XK_KG, 1, "NaOH consumed, as 100 %% [kg]");
+    xt_col(&a, XK_KG, 0, "NaOH left, as 100 %% [kg]");
+    xt_col(&a, XK_KG, 0, "Liquor after run [kg]");
+    xt_col(&a, XK_PCT, 0, "NaOH after run [wt%%]");
+    for (int q = 0; q < SALT_COUNT; q++)
+        xt_col(&a, XK_KG, 0, "%s net change [kg]", xo_salt[q]);
+    xt_col(&a, XK_KG, 0, "Water formed [kg]");
+    xt_col(&a, XK_PCT, 0, "HCl in water liquor [wt%%]");
+    xt_col(&a, XK_HEAT, 1, "Heat to liquor [kJ]");
+    xt_col(&a, XK_TEMP, 0, "Liquor temperature rise [K]");
+    xt_col(&a, XK_TEMP, 0, "Liquor temperature after run, no cooling [°C]");
+    xt_col(&a, XK_RATE, 0, "Heat duty, mean over the vent window [kW]");
+    xt_alarm(&a, XA_ALARM, "Cooling needed");
+    xt_col(&a, XK_MOL, 0, "Sulfite oxidised by hypohalite [mol]");
+    xt_col(&a, XK_MOL, 0, "Gas left unneutralised [mol]");
+    xt_alarm(&a, XA_ALARM, "Below minimum NaOH");
+    xo_table(w, "Liquor by run", &a);
+}
+
+/* --- Scrubber units, hourly load, column check ---------------------------- */
+
 static void xo_join_ids(const struct ledger *l, const int *runs, int n, char *buf, size_t cap)
 {
     size_t used = 0;
@@ -847,58 +1149,59 @@ static void xo_join_ids(const struct ledger *l, const int *runs, int n, char *bu
     }
 }
 
-static void row_unit(struct xw *w, struct xblock *b, lxw_row_t row, int i)
+
+static void row_unit(struct xw *w, struct xtable *b, lxw_row_t row, int i)
 {
     const struct ledger *l = w->l;
     const struct ledger_scrubber *u = &l->scrubbers[i];
     const struct scrub_unit_out *s = &u->out;
     int k = 0;
-    xb_text(w, b, row, k++, u->id);
-    xb_num(w, b, row, k++, u->rated_acid_kmol_h);
-    xb_num(w, b, row, k++, s->peak_acid_kmol_h);
+    xt_text(w, b, row, k++, u->id);
+    xt_num(w, b, row, k++, u->rated_acid_kmol_h);
+    xt_num(w, b, row, k++, s->peak_acid_kmol_h);
     if (s->nhours > 0)
-        xb_date(w, b, row, k, s->peak_at_min);
+        xt_date(w, b, row, k, s->peak_at_min);
     k++;
     char ids[400];
     xo_join_ids(l, s->peak_runs, s->npeak_runs, ids, sizeof ids);
-    xb_text(w, b, row, k++, ids);
-    xb_num(w, b, row, k++, s->peak_instant_kmol_h);
+    xt_text(w, b, row, k++, ids);
+    xt_num(w, b, row, k++, s->peak_instant_kmol_h);
     if (s->npeak_instant_runs > 0)
-        xb_date(w, b, row, k, s->peak_instant_at_min);
+        xt_date(w, b, row, k, s->peak_instant_at_min);
     k++;
     xo_join_ids(l, s->peak_instant_runs, s->npeak_instant_runs, ids, sizeof ids);
-    xb_text(w, b, row, k++, ids);
-    xb_flag(w, b, row, k++, s->overloaded);
-    xb_num(w, b, row, k++, s->changeouts);
-    xb_num(w, b, row, k++, s->naoh_kg);
-    xb_num(w, b, row, k++, s->makeup_kg);
-    xb_num(w, b, row, k++, s->heat_kj);
-    xb_num(w, b, row, k++, s->max_liquor_temp_c);
+    xt_text(w, b, row, k++, ids);
+    xt_raise(w, b, row, k++, s->overloaded, "OVER RATING");
+    xt_num(w, b, row, k++, s->changeouts);
+    xt_num(w, b, row, k++, s->naoh_kg);
+    xt_num(w, b, row, k++, s->makeup_kg);
+    xt_num(w, b, row, k++, s->heat_kj);
+    xt_num(w, b, row, k++, s->max_liquor_temp_c);
+    xt_num(w, b, row, k++, s->too_hot_runs);
 }
 
-static void row_column(struct xw *w, struct xblock *b, lxw_row_t row, int i)
+static void xo_units(struct xw *w)
 {
-    (void)i;
-    const struct ledger *l = w->l;
-    while (b->cur < l->nscrubbers && !l->scrubbers[b->cur].out.column.present)
-        b->cur++;
-    if (b->cur >= l->nscrubbers)
-        return;
-    const struct ledger_scrubber *u = &l->scrubbers[b->cur++];
-    const struct scrub_column_check *c = &u->out.column;
-    int k = 0;
-    xb_text(w, b, row, k++, u->id);
-    xb_num(w, b, row, k++, c->gas_kmol_h);
-    xb_num(w, b, row, k++, c->y_in);
-    xb_num(w, b, row, k++, c->y_out);
-    xb_num(w, b, row, k++, c->ntu);
-    xb_num(w, b, row, k++, c->height_m);
-    xb_num(w, b, row, k++, c->diameter_m);
-    xb_num(w, b, row, k++, c->flood_velocity_m_s);
-    xb_num(w, b, row, k++, c->flow_parameter);
+    struct xtable u = {.fn = row_unit, .nrows = w->l->nscrubbers, .empty_note = "No scrubber defined."};
+    xt_col(&u, XK_TEXT, 0, "Scrubber");
+    xt_col(&u, XK_RATE, 0, "Rated capacity [kmol/h]");
+    xt_col(&u, XK_RATE, 0, "Peak hourly mean load [kmol/h]");
+    xt_col(&u, XK_DATE, 0, "Peak hour start (plant time)");
+    xt_col(&u, XK_TEXT, 0, "Runs in the peak hour");
+    xt_col(&u, XK_RATE, 0, "Peak instantaneous load [kmol/h]");
+    xt_col(&u, XK_DATE, 0, "Instantaneous peak from (plant time)");
+    xt_col(&u, XK_TEXT, 0, "Runs venting at the instantaneous peak");
+    xt_alarm(&u, XA_ALARM, "Overloaded (instantaneous peak over rating)");
+    xt_col(&u, XK_INT, 1, "Liquor changeouts [count]");
+    xt_col(&u, XK_KG, 1, "NaOH consumed, as 100 %% [kg]");
+    xt_col(&u, XK_KG, 1, "Caustic make-up bought, as solution [kg]");
+    xt_col(&u, XK_HEAT, 1, "Heat to liquor [kJ]");
+    xt_col(&u, XK_TEMP, 0, "Hottest liquor, no cooling [°C]");
+    xt_col(&u, XK_INT, 1, "Runs needing cooling [count]");
+    xo_table(w, "Scrubber units", &u);
 }
 
-static void row_hour(struct xw *w, struct xblock *b, lxw_row_t row, int i)
+static void row_hour(struct xw *w, struct xtable *b, lxw_row_t row, int i)
 {
     (void)i;
     const struct ledger *l = w->l;
@@ -910,163 +1213,159 @@ static void row_hour(struct xw *w, struct xblock *b, lxw_row_t row, int i)
         return;
     const struct ledger_scrubber *u = &l->scrubbers[b->cur];
     int h = b->sub++;
-    xb_text(w, b, row, 0, u->id);
-    xb_date(w, b, row, 1, u->out.hour0_min + 60 * (int64_t)h);
-    xb_num(w, b, row, 2, scrub_hourly_kmol_h(&u->out, h));
-    xb_num(w, b, row, 3, u->rated_acid_kmol_h);
+    xt_text(w, b, row, 0, u->id);
+    xt_date(w, b, row, 1, u->out.hour0_min + 60 * (int64_t)h);
+    xt_num(w, b, row, 2, scrub_hourly_kmol_h(&u->out, h));
+    xt_num(w, b, row, 3, u->rated_acid_kmol_h);
 }
 
-static void xo_scrubber(struct xw *w)
+static void xo_hours(struct xw *w)
 {
+    int n = 0;
+    for (int u = 0; u < w->l->nscrubbers; u++)
+        n += w->l->scrubbers[u].out.nhours;
+    struct xtable h = {.fn = row_hour, .nrows = n, .empty_note = "No vent gas load."};
+    xt_col(&h, XK_TEXT, 0, "Scrubber");
+    xt_col(&h, XK_DATE, 0, "Hour start (plant time)");
+    xt_col(&h, XK_RATE, 0, "Vent gas load, mean over the hour [kmol/h]");
+    xt_col(&h, XK_RATE, 0, "Rated capacity [kmol/h]");
+    xo_table(w, "Hourly load", &h);
+}
+
+static void row_column(struct xw *w, struct xtable *b, lxw_row_t row, int i)
+{
+    (void)i;
     const struct ledger *l = w->l;
-    if (!xo_sheet(w, "Scrubber"))
+    while (b->cur < l->nscrubbers && !l->scrubbers[b->cur].out.column.present)
+        b->cur++;
+    if (b->cur >= l->nscrubbers)
         return;
-    int nliq = 0, ncol = 0, nh = 0;
-    for (int i = 0; i < l->nruns; i++)
-        nliq += l->runs[i].scrubber != NULL;
-    for (int u = 0; u < l->nscrubbers; u++) {
-        ncol += l->scrubbers[u].out.column.present != 0;
-        nh += l->scrubbers[u].out.nhours;
-    }
-    struct xblock b[4] = {
-        {.fn = row_liquor, .nrows = nliq, .empty_note = "No run is routed to a scrubber."},
-        {.fn = row_unit, .nrows = l->nscrubbers, .empty_note = "No scrubber defined."},
-        {.fn = row_column, .nrows = ncol, .empty_note = "No scrubber gives packing data.",
-         .notes = {"Screening check only (NTU for gas-film control, flooding from a generalized",
-                   "pressure-drop correlation): a final column design needs review and sign-off",
-                   "by a licensed engineer, with the vendor's packing data."},
-         .nnotes = 3},
-        {.fn = row_hour, .nrows = nh, .empty_note = "No acid-gas load."}};
-    struct xblock *a = &b[0];
-    xb_col(a, XK_TEXT, 0, "Scrubber");
-    xb_col(a, XK_TEXT, 0, "Run");
-    xb_col(a, XK_DATE, 0, "Start (plant time)");
-    xb_col(a, XK_TEXT, 0, "Fresh liquor before run");
-    xb_col(a, XK_RATE, 0, "Vent gas to scrubber [kmol/h]");
-    xb_col(a, XK_KG, 1, "NaOH used [kg]");
-    xb_col(a, XK_KG, 0, "NaOH left [kg]");
-    xb_col(a, XK_KG, 0, "Liquor after run [kg]");
-    xb_col(a, XK_PCT, 0, "NaOH after run [wt%%]");
-    for (int q = 0; q < SALT_COUNT; q++)
-        xb_col(a, XK_KG, 0, "%s net change [kg]", xo_salt[q]);
-    xb_col(a, XK_KG, 0, "Water formed [kg]");
-    xb_col(a, XK_PCT, 0, "HCl in water liquor [wt%%]");
-    xb_col(a, XK_HEAT, 1, "Heat released [kJ]");
-    xb_col(a, XK_TEMP, 0, "Liquor temperature rise [K]");
-    xb_col(a, XK_TEMP, 0, "Liquor temperature after run, no cooling [°C]");
-    xb_col(a, XK_RATE, 0, "Heat duty over the vent window [kW]");
-    xb_col(a, XK_TEXT, 0, "Cooling needed");
-    xb_col(a, XK_MOL, 0, "Sulfite oxidised by hypohalite [mol]");
-    xb_col(a, XK_MOL, 0, "Gas left unneutralised [mol]");
-    xb_col(a, XK_TEXT, 0, "Below minimum NaOH");
-    struct xblock *u = &b[1];
-    xb_col(u, XK_TEXT, 0, "Scrubber");
-    xb_col(u, XK_RATE, 0, "Rated capacity [kmol/h]");
-    xb_col(u, XK_RATE, 0, "Peak hourly mean load [kmol/h]");
-    xb_col(u, XK_DATE, 0, "Peak hour start (plant time)");
-    xb_col(u, XK_TEXT, 0, "Runs in the peak hour");
-    xb_col(u, XK_RATE, 0, "Peak instantaneous load [kmol/h]");
-    xb_col(u, XK_DATE, 0, "Instantaneous peak from (plant time)");
-    xb_col(u, XK_TEXT, 0, "Runs venting at the instantaneous peak");
-    xb_col(u, XK_TEXT, 0, "Overloaded (instantaneous peak over rating)");
-    xb_col(u, XK_INT, 1, "Changeouts [count]");
-    xb_col(u, XK_KG, 1, "NaOH consumed [kg]");
-    xb_col(u, XK_KG, 1, "Caustic make-up [kg]");
-    xb_col(u, XK_HEAT, 1, "Heat released [kJ]");
-    xb_col(u, XK_TEMP, 0, "Hottest liquor, no cooling [°C]");
-    struct xblock *c = &b[2];
-    xb_col(c, XK_TEXT, 0, "Column check");
-    xb_col(c, XK_RATE, 0, "Gas flow [kmol/h]");
-    xb_col(c, XK_SCI, 0, "Acid gas in [mol/mol]");
-    xb_col(c, XK_SCI, 0, "Acid gas out [mol/mol]");
-    xb_col(c, XK_PCT, 0, "Transfer units NTU [1]");
-    xb_col(c, XK_LEN, 0, "Packed height [m]");
-    xb_col(c, XK_LEN, 0, "Diameter [m]");
-    xb_col(c, XK_LEN, 0, "Flooding velocity [m/s]");
-    xb_col(c, XK_RATE, 0, "Flow parameter [1]");
-    struct xblock *h = &b[3];
-    xb_col(h, XK_TEXT, 0, "Scrubber (hourly)");
-    xb_col(h, XK_DATE, 0, "Hour start (plant time)");
-    xb_col(h, XK_RATE, 0, "Acid gas load [kmol/h]");
-    xb_col(h, XK_RATE, 0, "Rated capacity [kmol/h]");
-    xb_place(b, 4);
-    xo_blocks(w, b, 4);
+    const struct ledger_scrubber *u = &l->scrubbers[b->cur++];
+    const struct scrub_column_check *c = &u->out.column;
+    int k = 0;
+    xt_text(w, b, row, k++, u->id);
+    xt_num(w, b, row, k++, c->gas_kmol_h);
+    xt_num(w, b, row, k++, c->y_in);
+    xt_num(w, b, row, k++, c->y_out);
+    xt_num(w, b, row, k++, c->ntu);
+    xt_num(w, b, row, k++, c->height_m);
+    xt_num(w, b, row, k++, c->diameter_m);
+    xt_num(w, b, row, k++, c->flood_velocity_m_s);
+    xt_num(w, b, row, k++, c->flow_parameter);
+}
+
+static void xo_column(struct xw *w)
+{
+    int n = 0;
+    for (int u = 0; u < w->l->nscrubbers; u++)
+        n += w->l->scrubbers[u].out.column.present != 0;
+    struct xtable c = {.fn = row_column, .nrows = n, .empty_note = "No scrubber gives packing data.",
+                       .notes = {"Screening check only (NTU for gas-film control, flooding from a generalized",
+                                 "pressure-drop correlation): a final column design needs review and sign-off",
+                                 "by a licensed engineer, with the vendor's packing data."},
+                       .nnotes = 3};
+    xt_col(&c, XK_TEXT, 0, "Scrubber");
+    xt_col(&c, XK_RATE, 0, "Gas flow [kmol/h]");
+    xt_col(&c, XK_SCI, 0, "Acid gas in [mol/mol]");
+    xt_col(&c, XK_SCI, 0, "Acid gas out [mol/mol]");
+    xt_col(&c, XK_PCT, 0, "Transfer units, NTU (dimensionless)");
+    xt_col(&c, XK_LEN, 0, "Packed height [m]");
+    xt_col(&c, XK_LEN, 0, "Diameter [m]");
+    xt_col(&c, XK_LEN, 0, "Flooding velocity [m/s]");
+    xt_col(&c, XK_RATE, 0, "Flow parameter (dimensionless)");
+    xo_table(w, "Column check", &c);
 }
 
 /* --- Orders -------------------------------------------------------------- */
 
-static void row_order(struct xw *w, struct xblock *b, lxw_row_t row, int i)
+static void row_order(struct xw *w, struct xtable *b, lxw_row_t row, int i)
 {
     const struct ord_line *d = &w->l->orders[i];
     char mt[32];
     xo_month_text(d->month_index, mt, sizeof mt);
     int k = 0;
-    xb_text(w, b, row, k++, mt);
-    xb_text(w, b, row, k++, xo_item(d->item));
-    xb_num(w, b, row, k++, d->demand_kg);
-    xb_num(w, b, row, k++, d->stock_start_kg);
-    xb_num(w, b, row, k++, d->safety_kg);
-    xb_num(w, b, row, k++, d->to_order_kg);
-    xb_text(w, b, row, k++, d->container ? d->container : "(none defined)");
-    xb_num(w, b, row, k++, d->net_kg);
-    xb_num(w, b, row, k++, d->heel_kg);
-    xb_num(w, b, row, k++, d->containers);
-    xb_num(w, b, row, k++, d->ordered_usable_kg);
-    xb_num(w, b, row, k++, d->stock_end_kg);
-    xb_date(w, b, row, k++, d->first_use_min);
-    xb_date(w, b, row, k++, d->order_by_min);
-    xb_flag(w, b, row, k++, d->late);
-    xb_text(w, b, row, k++, d->no_container ? "no container defined for this item" : NULL);
+    xt_text(w, b, row, k++, mt);
+    xt_text(w, b, row, k++, xo_item(d->item));
+    xt_num(w, b, row, k++, d->demand_kg);
+    xt_num(w, b, row, k++, d->stock_start_kg);
+    xt_num(w, b, row, k++, d->safety_kg);
+    xt_num(w, b, row, k++, d->to_order_kg);
+    xt_text(w, b, row, k++, d->container ? d->container : "(none defined)");
+    xt_num(w, b, row, k++, d->net_kg);
+    xt_num(w, b, row, k++, d->heel_kg);
+    xt_num(w, b, row, k++, d->containers);
+    xt_num(w, b, row, k++, d->ordered_usable_kg);
+    xt_num(w, b, row, k++, d->stock_end_kg);
+    xt_date(w, b, row, k++, d->first_use_min);
+    xt_date(w, b, row, k++, d->order_by_min);
+    xt_raise(w, b, row, k++, d->late, "LATE");
+    xt_text(w, b, row, k++, d->no_container ? "no container defined for this item" : NULL);
 }
 
 static void xo_orders(struct xw *w)
 {
-    if (!xo_sheet(w, "Orders"))
-        return;
-    struct xblock b = {.fn = row_order, .nrows = w->l->norders, .empty_note = "Nothing to order."};
-    xb_col(&b, XK_TEXT, 0, "Month");
-    xb_col(&b, XK_TEXT, 0, "Item");
+    struct xtable b = {.fn = row_order, .nrows = w->l->norders, .empty_note = "Nothing to order."};
+    xt_col(&b, XK_TEXT, 0, "Month");
+    xt_col(&b, XK_TEXT, 0, "Item");
     /* no totals row: the lines mix reagents and caustic, whose sum means nothing */
-    xb_col(&b, XK_KG, 0, "Demand [kg]");
-    xb_col(&b, XK_KG, 0, "Stock at month start [kg]");
-    xb_col(&b, XK_KG, 0, "Safety stock [kg]");
-    xb_col(&b, XK_KG, 0, "To order [kg]");
-    xb_col(&b, XK_TEXT, 0, "Container");
-    xb_col(&b, XK_KG, 0, "Container net [kg]");
-    xb_col(&b, XK_KG, 0, "Heel left in container [kg]");
-    xb_col(&b, XK_INT, 0, "Containers [count]");
-    xb_col(&b, XK_KG, 0, "Usable content ordered [kg]");
-    xb_col(&b, XK_KG, 0, "Stock at month end [kg]");
-    xb_col(&b, XK_DATE, 0, "First use (plant time)");
-    xb_col(&b, XK_DAY, 0, "Order by (date)");
-    xb_col(&b, XK_TEXT, 0, "Late");
-    xb_col(&b, XK_TEXT, 0, "Note");
-    xb_place(&b, 1);
-    xo_blocks(w, &b, 1);
+    xt_col(&b, XK_KG, 0, "Demand [kg]");
+    xt_col(&b, XK_KG, 0, "Stock at month start [kg]");
+    xt_col(&b, XK_KG, 0, "Safety stock [kg]");
+    xt_col(&b, XK_KG, 0, "To order [kg]");
+    xt_col(&b, XK_TEXT, 0, "Container");
+    xt_col(&b, XK_KG, 0, "Container net [kg]");
+    xt_col(&b, XK_KG, 0, "Heel left in container [kg]");
+    xt_col(&b, XK_INT, 0, "Containers [count]");
+    xt_col(&b, XK_KG, 0, "Usable content ordered [kg]");
+    xt_col(&b, XK_KG, 0, "Stock at month end [kg]");
+    xt_col(&b, XK_DATE, 0, "First use (plant time)");
+    xt_col(&b, XK_DAY, 0, "Order by (date)");
+    xt_alarm(&b, XA_ALARM, "Late");
+    xt_col(&b, XK_TEXT, 0, "Note");
+    xo_table(w, "Orders", &b);
 }
 
-/* --- Waste --------------------------------------------------------------- */
+/* --- Waste by run, spent liquor ------------------------------------------- */
 
-static void row_waste_run(struct xw *w, struct xblock *b, lxw_row_t row, int i)
+static void row_waste_run(struct xw *w, struct xtable *b, lxw_row_t row, int i)
 {
     const struct ledger_run *r = &w->l->runs[i];
     const struct bal_out *o = &r->bal;
-    double retained = 0;
-    for (int s = 0; s < VS_COUNT; s++)
-        retained += xo_vent_kg(o->retained_mol, s);
     int k = 0;
-    xb_text(w, b, row, k++, r->id);
-    xb_date(w, b, row, k++, r->start_min);
-    xb_text(w, b, row, k++, xo_item(r->reagent));
-    xb_num(w, b, row, k++, o->succinimide_kg);
-    xb_num(w, b, row, k++, o->reagent_left_kg);
-    xb_num(w, b, row, k++, o->overhal_kg);
-    xb_num(w, b, row, k++, o->isomer_kg);
-    xb_num(w, b, row, k++, o->unreacted_substrate_kg);
-    xb_num(w, b, row, k++, retained);
+    xt_text(w, b, row, k++, r->id);
+    xt_date(w, b, row, k++, r->start_min);
+    xt_text(w, b, row, k++, xo_item(r->reagent));
+    xt_text(w, b, row, k++, r->substrate_name);
+    xt_num(w, b, row, k++, o->succinimide_kg);
+    xt_num(w, b, row, k++, o->reagent_left_kg);
+    xt_num(w, b, row, k++, o->overhal_kg);
+    xt_num(w, b, row, k++, o->isomer_kg);
+    xt_num(w, b, row, k++, o->unreacted_substrate_kg);
+    xt_num(w, b, row, k++, xo_vent_kg(o->retained_mol, VS_HCL));
+    xt_num(w, b, row, k++, xo_vent_kg(o->retained_mol, VS_HBR));
+    xt_num(w, b, row, k++, xo_vent_kg(o->retained_mol, VS_SO2));
 }
 
-static void row_spent(struct xw *w, struct xblock *b, lxw_row_t row, int i)
+static void xo_waste(struct xw *w)
+{
+    struct xtable a = {.fn = row_waste_run, .nrows = w->l->nruns, .empty_note = "No runs."};
+    xt_col(&a, XK_TEXT, 0, "Run");
+    xt_col(&a, XK_DATE, 0, "Start (plant time)");
+    xt_col(&a, XK_TEXT, 0, "Reagent");
+    xt_col(&a, XK_TEXT, 0, "Substrate");
+    xt_col(&a, XK_KG, 1, "Succinimide (solid) [kg]");
+    /* the next four mix reagents or products from run to run: no totals */
+    xt_col(&a, XK_KG, 0, "Unreacted reagent left in mass [kg]");
+    xt_col(&a, XK_KG, 0, "Over-halogenated products [kg]");
+    xt_col(&a, XK_KG, 0, "Isomer products [kg]");
+    xt_col(&a, XK_KG, 0, "Unreacted substrate [kg]");
+    xt_col(&a, XK_KG, 1, "HCl retained in mass [kg]");
+    xt_col(&a, XK_KG, 1, "HBr retained in mass [kg]");
+    xt_col(&a, XK_KG, 1, "SO2 retained in mass [kg]");
+    xo_table(w, "Waste by run", &a);
+}
+
+static void row_spent(struct xw *w, struct xtable *b, lxw_row_t row, int i)
 {
     (void)i;
     const struct ledger *l = w->l;
@@ -1079,86 +1378,64 @@ static void row_spent(struct xw *w, struct xblock *b, lxw_row_t row, int i)
     const struct ledger_scrubber *u = &l->scrubbers[b->cur];
     const struct scrub_spent *s = &u->out.spent[b->sub++];
     int k = 0;
-    xb_text(w, b, row, k++, u->id);
-    xb_date(w, b, row, k++, s->at_min);
-    xb_text(w, b, row, k++, s->final ? "yes (campaign end)" : "no");
-    xb_num(w, b, row, k++, s->mass_kg);
-    xb_num(w, b, row, k++, s->naoh_kg);
-    xb_num(w, b, row, k++, s->water_kg);
-    xb_num(w, b, row, k++, s->hcl_kg);
+    xt_text(w, b, row, k++, u->id);
+    xt_date(w, b, row, k++, s->at_min);
+    xt_text(w, b, row, k++, s->final ? "yes (campaign end)" : "no");
+    xt_num(w, b, row, k++, s->mass_kg);
+    xt_num(w, b, row, k++, s->naoh_kg);
+    xt_num(w, b, row, k++, s->water_kg);
+    xt_num(w, b, row, k++, s->hcl_kg);
     for (int q = 0; q < SALT_COUNT; q++)
-        xb_num(w, b, row, k++, s->salt_kg[q]);
+        xt_num(w, b, row, k++, s->salt_kg[q]);
 }
 
-static void xo_waste(struct xw *w)
+static void xo_spent(struct xw *w)
 {
-    const struct ledger *l = w->l;
-    if (!xo_sheet(w, "Waste"))
-        return;
-    int ns = 0;
-    for (int u = 0; u < l->nscrubbers; u++)
-        ns += l->scrubbers[u].out.nspent;
-    struct xblock b[2] = {
-        {.fn = row_waste_run, .nrows = l->nruns, .empty_note = "No runs."},
-        {.fn = row_spent, .nrows = ns, .empty_note = "No spent liquor."}};
-    struct xblock *a = &b[0];
-    xb_col(a, XK_TEXT, 0, "Run");
-    xb_col(a, XK_DATE, 0, "Start (plant time)");
-    xb_col(a, XK_TEXT, 0, "Reagent");
-    xb_col(a, XK_KG, 1, "Succinimide (solid) [kg]");
-    xb_col(a, XK_KG, 1, "Unreacted reagent left in mass [kg]");
-    xb_col(a, XK_KG, 1, "Over-halogenated products [kg]");
-    xb_col(a, XK_KG, 1, "Isomer products [kg]");
-    xb_col(a, XK_KG, 1, "Unreacted substrate [kg]");
-    xb_col(a, XK_KG, 1, "Acid retained in mass [kg]");
-    struct xblock *s = &b[1];
-    xb_col(s, XK_TEXT, 0, "Spent liquor from");
-    xb_col(s, XK_DATE, 0, "Drained (plant time)");
-    xb_col(s, XK_TEXT, 0, "Still in unit");
-    xb_col(s, XK_KG, 1, "Liquor [kg]");
-    xb_col(s, XK_KG, 1, "NaOH left [kg]");
-    xb_col(s, XK_KG, 1, "Water [kg]");
-    xb_col(s, XK_KG, 1, "HCl [kg]");
+    int n = 0;
+    for (int u = 0; u < w->l->nscrubbers; u++)
+        n += w->l->scrubbers[u].out.nspent;
+    struct xtable s = {.fn = row_spent, .nrows = n, .empty_note = "No spent liquor.",
+                       .notes = {"Hypochlorite/hypobromite liquor releases halogen with acid: never mix "
+                                 "with acid waste."},
+                       .nnotes = 1};
+    xt_col(&s, XK_TEXT, 0, "Spent liquor from");
+    xt_col(&s, XK_DATE, 0, "Drained (plant time)");
+    xt_col(&s, XK_TEXT, 0, "Still in unit");
+    xt_col(&s, XK_KG, 1, "Liquor [kg]");
+    xt_col(&s, XK_KG, 1, "NaOH left, as 100 %% [kg]");
+    xt_col(&s, XK_KG, 1, "Water [kg]");
+    xt_col(&s, XK_KG, 1, "HCl [kg]");
     for (int q = 0; q < SALT_COUNT; q++)
-        xb_col(s, XK_KG, 1, "%s [kg]", xo_salt[q]);
-    s->notes[0] = "Hypochlorite/hypobromite liquor releases halogen with acid: never mix with acid waste.";
-    s->nnotes = 1;
-    xb_place(b, 2);
-    xo_blocks(w, b, 2);
+        xt_col(&s, XK_KG, 1, "%s [kg]", xo_salt[q]);
+    xo_table(w, "Spent liquor", &s);
 }
 
 /* --- Monthly ------------------------------------------------------------- */
 
-enum { MC_RUNS = 1, MC_PRODUCT, MC_ISO, MC_OVER, MC_UNR, MC_REAGENT, /* RG_COUNT columns */
+enum { MC_RUNS = 1, MC_REAGENT, /* RG_COUNT columns */
        MC_VENT = MC_REAGENT + RG_COUNT, MC_NAOH = MC_VENT + VS_COUNT, MC_CHANGE, MC_SPENT,
-       MC_SUCC, MC_LEFT, MC_RET, MC_NCOL };
+       MC_SUCC, MC_NCOL };
 
-static void row_month(struct xw *w, struct xblock *b, lxw_row_t row, int i)
+static void row_month(struct xw *w, struct xtable *b, lxw_row_t row, int i)
 {
     const struct ledger_month *m = &w->l->months[i];
     char mt[32];
     xo_month_text(m->month_index, mt, sizeof mt);
-    xb_text(w, b, row, 0, mt);
-    xb_num(w, b, row, MC_RUNS, m->runs);
-    xb_num(w, b, row, MC_PRODUCT, m->product_kg);
-    xb_num(w, b, row, MC_ISO, m->isomer_kg);
-    xb_num(w, b, row, MC_OVER, m->overhal_kg);
-    xb_num(w, b, row, MC_UNR, m->unreacted_substrate_kg);
+    xt_text(w, b, row, 0, mt);
+    xt_num(w, b, row, MC_RUNS, m->runs);
     for (int g = 0; g < RG_COUNT; g++)
-        xb_num(w, b, row, MC_REAGENT + g, m->reagents_kg[g]);
+        xt_num(w, b, row, MC_REAGENT + g, m->reagents_kg[g]);
     for (int s = 0; s < VS_COUNT; s++)
-        xb_num(w, b, row, MC_VENT + s, m->vent_kg[s]);
-    xb_num(w, b, row, MC_NAOH, m->naoh_kg);
-    xb_num(w, b, row, MC_CHANGE, m->changeouts);
-    xb_num(w, b, row, MC_SPENT, m->spent_liquor_kg);
-    xb_num(w, b, row, MC_SUCC, m->succinimide_kg);
-    xb_num(w, b, row, MC_LEFT, m->reagent_left_kg);
-    xb_num(w, b, row, MC_RET, m->retained_acid_kg);
+        xt_num(w, b, row, MC_VENT + s, m->vent_kg[s]);
+    xt_num(w, b, row, MC_NAOH, m->naoh_kg);
+    xt_num(w, b, row, MC_CHANGE, m->changeouts);
+    xt_num(w, b, row, MC_SPENT, m->spent_liquor_kg);
+    xt_num(w, b, row, MC_SUCC, m->succinimide_kg);
 }
 
 /* A chart over columns cols[] of the month rows (plain numbers, never the totals row). */
-static void xo_chart(struct xw *w, const struct xblock *b, uint8_t type, const char *title,
-                     const int *cols, int ncols, lxw_row_t at_row, lxw_col_t at_col)
+static void xo_chart(struct xw *w, const struct xtable *b, uint8_t type, const char *title,
+                     const int *cols, int ncols, lxw_row_t at_row)
 {
     if (w->st != HL_OK)
         return;
@@ -1184,42 +1461,44 @@ static void xo_chart(struct xw *w, const struct xblock *b, uint8_t type, const c
     chart_axis_set_name(ch->y_axis, "kg per month");
     chart_axis_set_name(ch->x_axis, "Month");
     chart_legend_set_position(ch, LXW_CHART_LEGEND_BOTTOM);
-    lxw_chart_options opt = {.x_scale = 1.2, .y_scale = 1.2, .description = (char *)title};
-    xo_check(w, worksheet_insert_chart_opt(w->ws, at_row, at_col, ch, &opt), at_row, at_col);
+    /* 768 x 432 px: one landscape page of either paper holds it with its margins */
+    lxw_chart_options opt = {.x_scale = 1.6, .y_scale = 1.5, .description = (char *)title};
+    xo_check(w, worksheet_insert_chart_opt(w->ws, at_row, 0, ch, &opt), at_row, 0);
 }
 
 static void xo_monthly(struct xw *w)
 {
     const struct ledger *l = w->l;
-    if (!xo_sheet(w, "Monthly"))
-        return;
-    struct xblock b = {.fn = row_month, .nrows = l->nmonths, .empty_note = "No months."};
-    xb_col(&b, XK_TEXT, 0, "Month");
-    xb_col(&b, XK_INT, 1, "Runs [count]");
-    xb_col(&b, XK_KG, 1, "Wanted product [kg]");
-    xb_col(&b, XK_KG, 1, "Isomer losses [kg]");
-    xb_col(&b, XK_KG, 1, "Over-halogenated [kg]");
-    xb_col(&b, XK_KG, 1, "Unreacted substrate [kg]");
+    struct xtable b = {.fn = row_month, .nrows = l->nmonths, .empty_note = "No months."};
+    xt_col(&b, XK_TEXT, 0, "Month");
+    xt_col(&b, XK_INT, 1, "Runs [count]");
     for (int g = 0; g < RG_COUNT; g++)
-        xb_col(&b, XK_KG, 1, g == RG_NAOH ? "Caustic make-up bought [kg]" : "%s charged [kg]",
+        xt_col(&b, XK_KG, 1, g == RG_NAOH ? "Caustic make-up bought, as solution [kg]" : "%s charged [kg]",
                xo_item(g));
     for (int s = 0; s < VS_COUNT; s++)
-        xb_col(&b, XK_KG, 1, "%s to scrubber [kg]", xo_vent(s));
-    xb_col(&b, XK_KG, 1, "NaOH consumed [kg]");
-    xb_col(&b, XK_INT, 1, "Changeouts [count]");
-    xb_col(&b, XK_KG, 1, "Spent liquor [kg]");
-    xb_col(&b, XK_KG, 1, "Succinimide [kg]");
-    xb_col(&b, XK_KG, 1, "Reagent left in mass [kg]");
-    xb_col(&b, XK_KG, 1, "Acid retained in mass [kg]");
-    xb_place(&b, 1);
-    xo_blocks(w, &b, 1);
-    if (w->st != HL_OK || l->nmonths == 0)
+        xt_col(&b, XK_KG, 1, "%s to scrubber [kg]", xo_vent(s));
+    xt_col(&b, XK_KG, 1, "NaOH consumed, as 100 %% [kg]");
+    xt_col(&b, XK_INT, 1, "Liquor changeouts [count]");
+    xt_col(&b, XK_KG, 1, "Spent liquor [kg]");
+    xt_col(&b, XK_KG, 1, "Succinimide [kg]");
+    xo_table(w, "Monthly", &b);
+    if (w->st != HL_OK)
         return;
-    /* series only for what the campaign has; at least one so no chart is empty */
-    int acid[VS_COUNT], na = 0, rg[RG_CHARGEABLE], nr = 0;
-    for (int s = 0; s < VS_COUNT; s++)
-        if (b.sum[MC_VENT + s] != 0)
-            acid[na++] = MC_VENT + s;
+    if (l->nmonths == 0) {
+        if (xo_sheet(w, "Charts"))
+            xo_text(w, 0, 0, "No months, so no charts.", w->note);
+        return;
+    }
+    /* series only for what the campaign has; at least one so no chart is empty.  Acid
+     * gas means HCl and HBr; the halogens and SO2 get a chart of their own. */
+    int acid[2], na = 0, hal[3], nh = 0, rg[RG_CHARGEABLE], nr = 0;
+    const int acid_gas[2] = {VS_HCL, VS_HBR}, other_gas[3] = {VS_CL2, VS_BR2, VS_SO2};
+    for (int j = 0; j < 2; j++)
+        if (b.sum[MC_VENT + acid_gas[j]] != 0)
+            acid[na++] = MC_VENT + acid_gas[j];
+    for (int j = 0; j < 3; j++)
+        if (b.sum[MC_VENT + other_gas[j]] != 0)
+            hal[nh++] = MC_VENT + other_gas[j];
     for (int g = 0; g < RG_CHARGEABLE; g++)
         if (b.sum[MC_REAGENT + g] != 0)
             rg[nr++] = MC_REAGENT + g;
@@ -1227,109 +1506,150 @@ static void xo_monthly(struct xw *w)
         acid[na++] = MC_VENT + VS_HCL;
     if (nr == 0)
         rg[nr++] = MC_REAGENT;
-    int caustic[2] = {MC_NAOH, MC_REAGENT + RG_NAOH};
-    lxw_row_t at = (lxw_row_t)(b.nrows + 3);
-    /* stacked, not side by side: the month columns are narrow, so charts placed a few
-     * columns apart would cover each other (each is about 18 rows tall at this scale) */
-    xo_chart(w, &b, LXW_CHART_COLUMN, "Acid gas to the scrubbers", acid, na, at, 0);
-    xo_chart(w, &b, LXW_CHART_COLUMN, "Halogen reagents charged", rg, nr, at + 19, 0);
-    xo_chart(w, &b, LXW_CHART_LINE, "Caustic: consumed and bought", caustic, 2, at + 38, 0);
+    int naoh[1] = {MC_NAOH};
+    /* The charts get a sheet of their own, one a page: on the Monthly sheet they would
+     * print over the repeated header row and across page breaks. */
+    if (!xo_sheet(w, "Charts"))
+        return;
+    xo_text(w, 0, 0, "Charts of the Monthly sheet (its month rows, not its totals)", w->bold);
+    /* rows of 20 px: one landscape page below the margins; each chart starts a row below its
+     * page break (the library's break sits below the row it names) */
+    enum { XO_CHART_ROWS = 30 };
+    lxw_row_t breaks[4] = {0};
+    int nc = 0;
+    xo_chart(w, &b, LXW_CHART_COLUMN, "Acid gas (HCl, HBr) to the scrubbers", acid, na, 1);
+    xo_chart(w, &b, LXW_CHART_COLUMN, "Halogen reagents charged", rg, nr, (lxw_row_t)(++nc * XO_CHART_ROWS + 1));
+    breaks[nc - 1] = (lxw_row_t)(nc * XO_CHART_ROWS);
+    xo_chart(w, &b, LXW_CHART_LINE, "NaOH consumed in the scrubbers, as 100 % NaOH", naoh, 1,
+             (lxw_row_t)(++nc * XO_CHART_ROWS + 1));
+    breaks[nc - 1] = (lxw_row_t)(nc * XO_CHART_ROWS);
+    if (nh > 0) {
+        xo_chart(w, &b, LXW_CHART_COLUMN, "Unreacted halogen and SO2 to the scrubbers", hal, nh,
+                 (lxw_row_t)(++nc * XO_CHART_ROWS + 1));
+        breaks[nc - 1] = (lxw_row_t)(nc * XO_CHART_ROWS);
+    }
+    if (w->st == HL_OK)
+        xo_check(w, worksheet_set_h_pagebreaks(w->ws, breaks), 0, 0);
+    /* no fit-to-page here: a fitted sheet ignores manual page breaks */
+}
+
+/* --- Warnings ------------------------------------------------------------ */
+
+static void row_warning(struct xw *w, struct xtable *b, lxw_row_t row, int i)
+{
+    const struct ledger_warning *x = &w->l->warnings[i];
+    xt_text(w, b, row, 0, x->run ? x->run : "(campaign)");
+    xt_text(w, b, row, 1, x->message);
+}
+
+static void xo_warnings(struct xw *w)
+{
+    struct xtable b = {.fn = row_warning, .nrows = w->l->nwarnings, .empty_note = "No warnings."};
+    xt_col(&b, XK_TEXT, 0, "Run");
+    xt_col(&b, XK_TEXT, 0, "Warning");
+    b.fixw[1] = 110;
+    xo_table(w, "Warnings", &b);
 }
 
 /* --- Cautions ------------------------------------------------------------ */
 
-static lxw_row_t xo_caution_rows(struct xw *w)
+static int xo_caution_nrows(const struct caution_info *c)
 {
+    return (c->nlimits < 4 ? c->nlimits : 4) + 4; /* limits, 3 topics, "Before use" */
+}
+
+static void row_caution(struct xw *w, struct xtable *b, lxw_row_t row, int i)
+{
+    (void)i;
     const struct ledger *l = w->l;
-    static const char *const head[5] = {"Substance", "CAS number", "Topic", "Detail", "Source"};
-    for (int c = 0; c < 5; c++)
-        xo_text(w, 0, (lxw_col_t)c, head[c], w->head);
-    lxw_row_t row = 1;
-    int any = 0;
-    for (int ca = 0; ca < CA_COUNT && w->st == HL_OK; ca++) {
-        const struct caution_info *c = caution_get(ca);
-        if (!(l->cautions_mask >> ca & 1u) || !c)
-            continue;
-        any = 1;
-        const char *topics[3] = {"Main hazards", "Incompatible with", "Protective equipment"};
-        const char *texts[3] = {c->hazards, c->incompatible, c->ppe};
-        for (int k = 0; k < c->nlimits && k < 4; k++, row++) {
-            char topic[80];
-            snprintf(topic, sizeof topic, "Exposure limit: %s", c->limits[k].kind ? c->limits[k].kind : "");
-            xo_text(w, row, 0, c->substance, w->bold);
-            xo_text(w, row, 1, c->cas, NULL);
-            xo_text(w, row, 2, topic, NULL);
-            xo_text(w, row, 3, c->limits[k].value, w->wrap);
-            xo_text(w, row, 4, c->limits[k].source, NULL);
-        }
-        for (int k = 0; k < 3; k++, row++) {
-            xo_text(w, row, 0, c->substance, w->bold);
-            xo_text(w, row, 1, c->cas, NULL);
-            xo_text(w, row, 2, topics[k], NULL);
-            xo_text(w, row, 3, texts[k], w->wrap);
-        }
-        xo_text(w, row, 0, c->substance, w->bold);
-        xo_text(w, row, 2, "Before use", NULL);
-        xo_text(w, row, 3, caution_deferral(), w->wrap);
-        row += 2;
+    const struct caution_info *c = NULL;
+    for (; b->cur < CA_COUNT; b->cur++, b->sub = 0) {
+        c = caution_get(b->cur);
+        if ((l->cautions_mask >> b->cur & 1u) && c && b->sub < xo_caution_nrows(c))
+            break;
     }
-    if (!any) {
-        xo_text(w, row++, 0, "No substance of the caution table is in play.", w->note);
-        xo_text(w, row, 2, "Before use", NULL);
+    if (b->cur >= CA_COUNT) { /* nothing in play: the one row says so, with the deferral */
+        xt_text(w, b, row, 0, "No substance of the caution table is in play.");
+        xt_text(w, b, row, 2, "Before use");
         xo_text(w, row, 3, caution_deferral(), w->wrap);
-        row++;
+        return;
     }
-    return row;
+    int k = b->sub++, nl = c->nlimits < 4 ? c->nlimits : 4;
+    const char *topics[3] = {"Main hazards", "Incompatible with", "Protective equipment"};
+    const char *texts[3] = {c->hazards, c->incompatible, c->ppe};
+    xo_text(w, row, 0, c->substance, w->bold_top);
+    xo_text(w, row, 1, c->cas, w->top);
+    if (k < nl) {
+        char topic[80];
+        snprintf(topic, sizeof topic, "Exposure limit: %s", c->limits[k].kind ? c->limits[k].kind : "");
+        xo_text(w, row, 2, topic, w->top);
+        xo_text(w, row, 3, c->limits[k].value, w->wrap);
+        xo_text(w, row, 4, c->limits[k].source, w->wrap);
+    } else if (k < nl + 3) {
+        xo_text(w, row, 2, topics[k - nl], w->top);
+        xo_text(w, row, 3, texts[k - nl], w->wrap);
+    } else {
+        xo_text(w, row, 2, "Before use", w->top);
+        xo_text(w, row, 3, caution_deferral(), w->wrap);
+    }
 }
 
 static void xo_cautions(struct xw *w)
 {
-    if (!xo_sheet(w, "Cautions"))
-        return;
-    w->dry = 1;
-    lxw_row_t last = xo_caution_rows(w);
-    w->dry = 0;
-    worksheet_freeze_panes(w->ws, 1, 0);
-    xo_check(w, worksheet_autofilter(w->ws, 0, 0, last, 4), 0, 0);
-    xo_caution_rows(w);
-    if (w->st != HL_OK)
-        return;
-    const double wd[5] = {w->width[0] + 2, w->width[1] + 2, w->width[2] + 2, 70, w->width[4] + 2};
-    for (int c = 0; c < 5 && w->st == HL_OK; c++)
-        xo_check(w, worksheet_set_column(w->ws, (lxw_col_t)c, (lxw_col_t)c,
-                                         wd[c] > 62 && c != 3 ? 62 : wd[c], NULL), 0, (lxw_col_t)c);
+    int n = 0;
+    for (int ca = 0; ca < CA_COUNT; ca++) {
+        const struct caution_info *c = caution_get(ca);
+        if ((w->l->cautions_mask >> ca & 1u) && c)
+            n += xo_caution_nrows(c);
+    }
+    struct xtable b = {.fn = row_caution, .nrows = n ? n : 1};
+    xt_col(&b, XK_TEXT, 0, "Substance");
+    xt_col(&b, XK_TEXT, 0, "CAS number");
+    xt_col(&b, XK_TEXT, 0, "Topic");
+    xt_col(&b, XK_TEXT, 0, "Detail");
+    xt_col(&b, XK_TEXT, 0, "Source");
+    b.fixw[3] = 64; /* one page wide on A4 and Letter with the other three columns */
+    b.fixw[4] = 30;
+    xo_table(w, "Cautions", &b);
 }
 
 /* --- Assumptions --------------------------------------------------------- */
 
-static void row_assumption(struct xw *w, struct xblock *b, lxw_row_t row, int i)
+static void row_assumption(struct xw *w, struct xtable *b, lxw_row_t row, int i)
 {
     const struct ledger_assumption *a = &w->l->assumptions[i];
-    xb_text(w, b, row, 0, a->what);
+    xo_text(w, row, 0, a->what, w->wrap);
     if (a->has_value) {
-        xb_num(w, b, row, 1, a->value);
-        xb_text(w, b, row, 2, a->unit && *a->unit ? a->unit : "dimensionless");
+        xt_num(w, b, row, 1, a->value);
+        xo_text(w, row, 2, a->unit && *a->unit ? a->unit : "dimensionless", w->top);
     } else {
-        xb_text(w, b, row, 2, a->unit); /* a text-only assumption: no number to show */
+        xo_text(w, row, 2, a->unit, w->top); /* a text-only assumption: no number to show */
     }
-    xb_text(w, b, row, 3, a->origin);
+    xo_text(w, row, 3, a->origin, w->wrap);
 }
 
 static void xo_assumptions(struct xw *w)
 {
-    if (!xo_sheet(w, "Assumptions"))
-        return;
-    struct xblock b = {.fn = row_assumption, .nrows = w->l->nassumptions,
+    struct xtable b = {.fn = row_assumption, .nrows = w->l->nassumptions,
                        .empty_note = "No assumptions recorded."};
-    xb_col(&b, XK_TEXT, 0, "What");
-    xb_col(&b, XK_GEN, 0, "Value");
-    xb_col(&b, XK_TEXT, 0, "Unit");
-    xb_col(&b, XK_TEXT, 0, "Origin");
-    xb_place(&b, 1);
-    xo_blocks(w, &b, 1);
+    xt_col(&b, XK_TEXT, 0, "What");
+    xt_col(&b, XK_GEN, 0, "Value");
+    xt_col(&b, XK_TEXT, 0, "Unit");
+    xt_col(&b, XK_TEXT, 0, "Origin");
+    b.fixw[0] = 44;
+    b.fixw[3] = 66;
+    xo_table(w, "Assumptions", &b);
 }
 
 /* --- workbook ------------------------------------------------------------ */
+
+/* The palette (DEVELOPERS.md): alarm = rust text on a pale terracotta fill with a rust
+ * frame, notice = indigo text on a pale lavender fill; header cells on a pale sage fill. */
+#define XO_ALARM_FILL 0xF6D5C3
+#define XO_ALARM_INK 0x7A2608
+#define XO_NOTICE_FILL 0xE4E0F2
+#define XO_NOTICE_INK 0x34296E
+#define XO_HEAD_FILL 0xDDE8E1
 
 static int xo_formats(struct xw *w)
 {
@@ -1340,6 +1660,7 @@ static int xo_formats(struct xw *w)
                 return 0;
             if (xo_numfmt[k])
                 format_set_num_format(f, xo_numfmt[k]);
+            format_set_align(f, LXW_ALIGN_VERTICAL_TOP);
             if (t) {
                 format_set_bold(f);
                 format_set_top(f, LXW_BORDER_THIN);
@@ -1349,12 +1670,38 @@ static int xo_formats(struct xw *w)
     if (!(w->head = workbook_add_format(w->wb)) || !(w->title = workbook_add_format(w->wb)) ||
         !(w->wrap = workbook_add_format(w->wb)) || !(w->bold = workbook_add_format(w->wb)) ||
         !(w->top = workbook_add_format(w->wb)) || !(w->bold_top = workbook_add_format(w->wb)) ||
-        !(w->note = workbook_add_format(w->wb)))
+        !(w->note = workbook_add_format(w->wb)) || !(w->section = workbook_add_format(w->wb)) ||
+        !(w->sign = workbook_add_format(w->wb)) || !(w->dxf[XA_ALARM] = workbook_add_format(w->wb)) ||
+        !(w->dxf[XA_NOTICE] = workbook_add_format(w->wb)) || !(w->noted = workbook_add_format(w->wb)))
         return 0;
+    format_set_text_wrap(w->noted);
+    format_set_align(w->noted, LXW_ALIGN_VERTICAL_TOP);
+    format_set_indent(w->noted, 1); /* clear of the number to its left */
+    for (int d = 0; d < XO_NSIG; d++) {
+        if (!(w->sig[d] = workbook_add_format(w->wb)))
+            return 0;
+        format_set_num_format(w->sig[d], xo_sigfmt[d]);
+        format_set_align(w->sig[d], LXW_ALIGN_VERTICAL_TOP);
+    }
+    const lxw_color_t ink[3] = {0, XO_ALARM_INK, XO_NOTICE_INK};
+    const lxw_color_t fill[3] = {0, XO_ALARM_FILL, XO_NOTICE_FILL};
+    for (int a = XA_ALARM; a <= XA_NOTICE; a++) {
+        format_set_bold(w->dxf[a]);
+        format_set_font_color(w->dxf[a], ink[a]);
+        format_set_bg_color(w->dxf[a], fill[a]);
+        format_set_border(w->dxf[a], a == XA_ALARM ? LXW_BORDER_MEDIUM : LXW_BORDER_THIN);
+        format_set_border_color(w->dxf[a], ink[a]);
+    }
+    format_set_bold(w->section);
+    format_set_bottom(w->section, LXW_BORDER_THIN);
+    format_set_bg_color(w->section, XO_HEAD_FILL);
+    format_set_bottom(w->sign, LXW_BORDER_THIN);
+    format_set_align(w->sign, LXW_ALIGN_VERTICAL_BOTTOM);
     format_set_bold(w->head);
     format_set_text_wrap(w->head);
     format_set_align(w->head, LXW_ALIGN_VERTICAL_TOP);
     format_set_bottom(w->head, LXW_BORDER_MEDIUM);
+    format_set_bg_color(w->head, XO_HEAD_FILL);
     format_set_bold(w->title);
     format_set_font_size(w->title, 13);
     format_set_text_wrap(w->wrap);
@@ -1425,10 +1772,15 @@ enum hl_status xlsx_out_write_opt(const struct ledger *l, const char *path, int 
     xo_summary(w);
     xo_runs(w);
     xo_products(w);
-    xo_scrubber(w);
+    xo_liquor(w);
+    xo_units(w);
+    xo_hours(w);
+    xo_column(w);
     xo_orders(w);
     xo_waste(w);
-    xo_monthly(w);
+    xo_spent(w);
+    xo_monthly(w); /* and the Charts sheet */
+    xo_warnings(w);
     xo_cautions(w);
     xo_assumptions(w);
     if (w->st != HL_OK) {

@@ -10,9 +10,13 @@
 #   the link line as the library's pkg-config file states it rather than filtering flags out of it.
 # tests: Debian's python3 with RDKit and openpyxl (reference readers), valgrind (allocation-failure
 #   walk), clang + libFuzzer runtime (fuzz targets and their regression run), LibreOffice Calc
-#   (cached formula values against a real recalculation).
+#   (cached formula values against a real recalculation; the PDF export of the printed pages),
+#   poppler-utils (pdftotext -bbox, pdftoppm: text positions and page images of that PDF) and
+#   fonts-crosextra-carlito (metric-compatible with Calibri, the workbook's default font, so the
+#   pages LibreOffice lays out break where a spreadsheet program with Calibri would).
 PKGS="pkg-config gcc libc6-dev make libxlsxwriter-dev zlib1g-dev libcjson-dev libcunit1-dev
-python3 python3-rdkit python3-openpyxl valgrind clang-14 libclang-rt-14-dev libreoffice-calc-nogui"
+python3 python3-rdkit python3-openpyxl valgrind clang-14 libclang-rt-14-dev libreoffice-calc-nogui
+poppler-utils fonts-crosextra-carlito"
 if [ "${1:-}" = --list ]; then
     printf '%s\n' $PKGS
     exit 0

@@ -2,8 +2,23 @@
 """acceptance_workbook.py - the workbook of every demo campaign (campaigns/*.json) through the real
 binary, `haloledger report C -o X.xlsx -o X.json`, read back with openpyxl (python3-openpyxl) and
 unzipped:
-  * the nine sheets Summary, Runs, Products, Scrubber, Orders, Waste, Monthly, Cautions,
-    Assumptions, in that order, each with a frozen header row;
+  * the sheets of SHEETS in that order; every table sheet (all but Summary) holds one table: one
+    header row of text with no gap (no second table beside the first), no header repeated further
+    down, frozen panes at B2 (header row and id column), a filter over the header row;
+  * print setup: landscape on the campaign's paper (A4, or Letter from report.paper: a Letter copy
+    of a demo is made), header row repeated on every page, the id column too on sheets wider than
+    a page, narrow sheets fitted one page wide; a header with the site, the campaign title and the
+    sheet (&A) and a footer with "Page &P of &N" and the ledger's issue date; the Summary fitted to
+    one page with a sign-off block (prepared by, checked by, date);
+  * totals only over like things: every totalled column names one substance, gas, energy or a count
+    (TOTAL_OK), never a column of mixed products or reagents;
+  * alarm columns (ALARMS) carry a conditional format over their data rows that keys on the text
+    marker ("!!" alarm, "!" notice), every raised cell begins with the marker and agrees with the
+    JSON ledger, other cells read "no"; the demos raise at least one alarm;
+  * names: no header "[1]", every kmol/h header says peak, mean or rated, glossary names only
+    (FORBIDDEN), "1 <plural>" nowhere; Assumptions values shown to at most four significant figures,
+    origins naming publications, never a program file;
+  * the chart of acid gas draws HCl and HBr only;
   * tabular sheets: every header cell above a column holding numbers carries a unit in [...]
     (dates are shown as "(plant time)"/"(date)" and are not numbers here); Summary is a label/value
     sheet whose labels carry the unit ("Runs [count]"), Assumptions has its own Unit column;
@@ -40,7 +55,18 @@ from openpyxl.utils import column_index_from_string, get_column_letter
 
 T0 = time.time()
 ROOT = os.environ.get("HL_ROOT", os.path.dirname(os.path.dirname(os.path.dirname(os.path.abspath(__file__)))))
-SHEETS = ["Summary", "Runs", "Products", "Scrubber", "Orders", "Waste", "Monthly", "Cautions", "Assumptions"]
+SHEETS = ["Summary", "Runs", "Products", "Liquor by run", "Scrubber units", "Hourly load", "Column check",
+          "Orders", "Waste by run", "Spent liquor", "Monthly", "Charts", "Warnings", "Cautions", "Assumptions"]
+# a total column must name one thing (its header starts with one of these) or count something
+TOTAL_OK = ("HCl ", "HBr ", "Cl2 ", "Br2 ", "SO2 ", "SO2Cl2 ", "NBS ", "Succinimide", "NaOH ", "Heat to liquor",
+            "Liquor [kg]", "Water [kg]", "NaCl ", "NaBr ", "NaOCl ", "NaOBr ", "Na2SO3 ", "Na2SO4 ",
+            "Spent liquor", "Caustic make-up")
+# (sheet, header, marker, JSON getter(led, key) -> bool or None, key column)
+ALARMS = [("Runs", "Capped by substrate", "!"), ("Liquor by run", "Cooling needed", "!!"),
+          ("Liquor by run", "Below minimum NaOH", "!!"),
+          ("Scrubber units", "Overloaded (instantaneous peak over rating)", "!!"), ("Orders", "Late", "!!")]
+# one name for one thing (DEVELOPERS.md glossary): the retired names
+FORBIDDEN = ("Fresh liquor before run", "Heat released", "NaOH used", "Changeouts [count]")
 UNIT = re.compile(r"\[[^\]]+\]")
 M_HCL = 1.008 + 35.45          # CIAAW 2021 abridged
 
@@ -82,11 +108,11 @@ def blocks(ws):
 def check_units(tag, ws):
     name = ws.title
     if name == "Summary":
-        # label/value sheet: the label of a numeric value carries its unit
-        for r in range(2, ws.max_row + 1):
-            a, b = ws.cell(r, 1).value, ws.cell(r, 2).value
-            if num(b):
-                check(isinstance(a, str) and UNIT.search(a), f"{tag} Summary!A{r} {a!r}: value {b} without [unit]")
+        # a form: the label in column A of a row holding numbers carries their unit
+        for r in range(1, ws.max_row + 1):
+            a = ws.cell(r, 1).value
+            if any(num(ws.cell(r, c).value) for c in range(2, ws.max_column + 1)):
+                check(isinstance(a, str) and UNIT.search(a), f"{tag} Summary!A{r} {a!r}: numbers without [unit]")
         return
     if name == "Assumptions":
         h = header_map(ws)
@@ -101,8 +127,12 @@ def check_units(tag, ws):
         head = ws.cell(1, c).value
         vals = [ws.cell(r, c).value for r in range(2, ws.max_row + 1)]
         if any(num(v) for v in vals):
-            check(isinstance(head, str) and UNIT.search(head),
+            check(isinstance(head, str) and (UNIT.search(head) or head.endswith("(dimensionless)")),
                   f"{tag} {name}!{get_column_letter(c)}1 {head!r} heads numbers but has no [unit]")
+        if isinstance(head, str):
+            check("[1]" not in head, f"{tag} {name}!{get_column_letter(c)}1 {head!r}: '[1]' is no unit")
+            check("[kmol/h]" not in head or re.search(r"peak|mean|rated|gas flow", head, re.I),
+                  f"{tag} {name} {head!r}: a rate that says neither peak nor mean")
 
 
 SUM = re.compile(r"^=SUM\(\$?([A-Z]+)\$?(\d+)(?::\$?([A-Z]+)\$?(\d+))?\)$")
@@ -135,6 +165,9 @@ def check_formulas(tag, ws, wv):
                   f"{where}: does not start at the first data row")
             check(any(isinstance(x.value, str) and x.value.strip() == "Total" for x in ws[c.row]),
                   f"{where}: formula outside a Total row")
+            head = ws.cell(1, col).value
+            check(isinstance(head, str) and (head.startswith(TOTAL_OK) or head.endswith("[count]")),
+                  f"{where}: a total over unlike things ({head!r})")
             cells = [ws.cell(r, col).value for r in range(r1, r2 + 1)]
             check(all(v is None or num(v) for v in cells), f"{where}: sums non-number cells")
             want = sum(v for v in cells if num(v))
@@ -164,6 +197,10 @@ def check_xml(tag, path, wb):
         monthly = 0
         for n in charts:
             x = z.read(n).decode()
+            if "Acid gas" in x:  # acid gas means HCl and HBr: the series names point at those headers
+                for ref in re.findall(r"<c:tx><c:strRef><c:f>'?Monthly'?!\$([A-Z]+)\$1</c:f>", x):
+                    head = wb["Monthly"].cell(1, column_index_from_string(ref)).value
+                    check(str(head).startswith(("HCl ", "HBr ")), f"{tag} {n}: acid gas chart draws {head!r}")
             if "Monthly!" not in x and "'Monthly'!" not in x:
                 continue
             monthly += 1
@@ -241,8 +278,8 @@ def check_numbers(tag, wb, led):
              "Reagent charged [mol]": lambda r: r["reagent_charged"]["mol"],
              "HCl formed [kg]": lambda r: r["byproducts"]["HCl_kg"],
              "Succinimide formed [kg]": lambda r: r["byproducts"]["succinimide_kg"],
-             "Vent gas to scrubber [kmol/h]": lambda r: r["vent"]["acid_kmol_h"],
-             "NaOH used [kg]": lambda r: r["scrubber"]["naoh_kg"],
+             "Vent gas to scrubber, peak rate [kmol/h]": lambda r: r["vent"]["acid_kmol_h"],
+             "NaOH consumed, as 100 % [kg]": lambda r: r["scrubber"]["naoh_kg"],
              "Heat to liquor [kJ]": lambda r: r["scrubber"]["heat_kj"],
              "HCl to scrubber [kg]": lambda r: r["vent"]["HCl_mol"] * M_HCL / 1e3}
     for head, fn in pairs.items():
@@ -251,41 +288,54 @@ def check_numbers(tag, wb, led):
         for rid, vals in col_values(ws, head).items():
             if rid in runs:
                 check(same(vals[0], fn(runs[rid]), 1e-9), f"{tag} Runs {rid} {head}: {vals[0]!r} vs JSON {fn(runs[rid])!r}")
-    # Scrubber sheet (key column B = run): NaOH used per run, changeout flag
-    ws = wb["Scrubber"]
+    # Liquor by run (key column A = run): NaOH per run, changeout flag
+    ws = wb["Liquor by run"]
     h = header_map(ws)
     seen = 0
+    naoh = "NaOH consumed, as 100 % [kg]"
     for r in range(2, ws.max_row + 1):
-        rid = ws.cell(r, 2).value
+        rid = ws.cell(r, 1).value
         if rid in runs:
             seen += 1
             jr = runs[rid]["scrubber"]
-            check(same(ws.cell(r, h["NaOH used [kg]"]).value, jr["naoh_kg"], 1e-12) or jr["naoh_kg"] == ws.cell(r, h["NaOH used [kg]"]).value == 0,
-                  f"{tag} Scrubber {rid} NaOH used {ws.cell(r, h['NaOH used [kg]']).value} vs JSON {jr['naoh_kg']}")
-            check(ws.cell(r, h["Fresh liquor before run"]).value == ("yes" if jr["changeout_before"] else "no"),
-                  f"{tag} Scrubber {rid} changeout flag")
-    check(seen == sum(1 for r in led["runs"] if r.get("scrubber_id")), f"{tag}: Scrubber sheet lists {seen} runs")
-    # scrubber summary block: the row-1 block that holds "Peak hourly mean load [kmol/h]"
-    blk = [b for b in blocks(ws) if any(ws.cell(1, c).value == "Peak hourly mean load [kmol/h]" for c in range(b[0], b[1] + 1))]
-    if check(blk, f"{tag}: Scrubber sheet has no peak block"):
-        b0, b1 = blk[0]
-        hb = {ws.cell(1, c).value: c for c in range(b0, b1 + 1)}
-        for s in led["scrubbers"]:
-            rows = [r for r in range(2, ws.max_row + 1) if ws.cell(r, b0).value == s["id"]]
-            if not check(rows, f"{tag}: Scrubber summary row for {s['id']} missing"):
-                continue
-            r = rows[0]
-            for head, v in (("Peak hourly mean load [kmol/h]", s["peak_acid_kmol_h"]), ("Changeouts [count]", s["changeouts"]),
-                            ("NaOH consumed [kg]", s["naoh_kg"]), ("Rated capacity [kmol/h]", s["rated_acid_kmol_h"]),
-                            ("Peak instantaneous load [kmol/h]", s["peak_instant_kmol_h"]),
-                            ("Hottest liquor, no cooling [°C]", s["max_liquor_temp_c"])):
-                g = ws.cell(r, hb[head]).value if head in hb else None
-                check(same(g, v) or g == v == 0, f"{tag} Scrubber {s['id']} {head}: {g!r} vs JSON {v!r}")
-            g = ws.cell(r, hb.get("Overloaded (instantaneous peak over rating)", b0)).value
-            check(g == ("yes" if s["overloaded"] else "no"), f"{tag} Scrubber {s['id']} Overloaded {g!r}")
-            g = ws.cell(r, hb.get("Peak hour start (plant time)", b0)).value
-            check(isinstance(g, dt.datetime) and g.strftime("%Y-%m-%dT%H:%M") == s["peak_at"],
-                  f"{tag} Scrubber {s['id']} peak hour {g!r} vs {s['peak_at']}")
+            g = ws.cell(r, h[naoh]).value
+            check(same(g, jr["naoh_kg"], 1e-12) or jr["naoh_kg"] == g == 0, f"{tag} Liquor {rid} NaOH {g} vs JSON {jr['naoh_kg']}")
+            check(ws.cell(r, h["Liquor changed before run"]).value == ("yes" if jr["changeout_before"] else "no"),
+                  f"{tag} Liquor {rid} changeout flag")
+    check(seen == sum(1 for r in led["runs"] if r.get("scrubber_id")), f"{tag}: Liquor by run lists {seen} runs")
+    # Scrubber units: one row a unit
+    ws = wb["Scrubber units"]
+    hb = header_map(ws)
+    for s in led["scrubbers"]:
+        rows = [r for r in range(2, ws.max_row + 1) if ws.cell(r, 1).value == s["id"]]
+        if not check(rows, f"{tag}: Scrubber units row for {s['id']} missing"):
+            continue
+        r = rows[0]
+        for head, v in (("Peak hourly mean load [kmol/h]", s["peak_acid_kmol_h"]), ("Liquor changeouts [count]", s["changeouts"]),
+                        (naoh, s["naoh_kg"]), ("Rated capacity [kmol/h]", s["rated_acid_kmol_h"]),
+                        ("Peak instantaneous load [kmol/h]", s["peak_instant_kmol_h"]),
+                        ("Hottest liquor, no cooling [°C]", s["max_liquor_temp_c"])):
+            g = ws.cell(r, hb[head]).value if head in hb else None
+            check(same(g, v) or g == v == 0, f"{tag} Scrubber units {s['id']} {head}: {g!r} vs JSON {v!r}")
+        g = ws.cell(r, hb.get("Peak hour start (plant time)", 1)).value
+        check(isinstance(g, dt.datetime) and g.strftime("%Y-%m-%dT%H:%M") == s["peak_at"],
+              f"{tag} Scrubber units {s['id']} peak hour {g!r} vs {s['peak_at']}")
+    # Waste by run: losses and retained acid per run against the JSON (retained kg from mol with
+    # CIAAW 2021 weights, so to 1e-4 relative)
+    ws = wb["Waste by run"]
+    h = header_map(ws)
+    molar = {"HCl": M_HCL, "HBr": 1.008 + 79.904, "SO2": 32.06 + 2 * 15.999}
+    for r in range(2, ws.max_row + 1):
+        rid = ws.cell(r, 1).value
+        if rid not in runs:
+            continue
+        jr = runs[rid]
+        for head, v, tol in (("Over-halogenated products [kg]", jr["losses"]["overhalogenated_kg"], 1e-12),
+                             ("Isomer products [kg]", jr["losses"]["isomer_kg"], 1e-12),
+                             ("Unreacted substrate [kg]", jr["losses"]["unreacted_substrate_kg"], 1e-12)) + tuple(
+                (f"{g} retained in mass [kg]", jr["retained"][g + "_mol"] * m / 1e3, 1e-4) for g, m in molar.items()):
+            g = ws.cell(r, h[head]).value if head in h else None
+            check(same(g, v, tol) or g == v == 0, f"{tag} Waste by run {rid} {head}: {g!r} vs JSON {v!r}")
     # Products: same rows, mol and kg and share
     ws = wb["Products"]
     h = header_map(ws)
@@ -323,28 +373,173 @@ def check_numbers(tag, wb, led):
         if not check(rr, f"{tag}: Monthly lacks {m['month']}"):
             continue
         r = rr[0]
-        for head, v in (("Runs [count]", m["runs"]), ("NaOH consumed [kg]", m["naoh_kg"]),
-                        ("Changeouts [count]", m["changeouts"]), ("HCl to scrubber [kg]", m["vent_kg"]["HCl"]),
+        for head, v in (("Runs [count]", m["runs"]), ("NaOH consumed, as 100 % [kg]", m["naoh_kg"]),
+                        ("Liquor changeouts [count]", m["changeouts"]), ("HCl to scrubber [kg]", m["vent_kg"]["HCl"]),
                         ("HBr to scrubber [kg]", m["vent_kg"]["HBr"]), ("Cl2 charged [kg]", m["reagents_kg"]["Cl2"]),
                         ("Spent liquor [kg]", m["waste_kg"]["spent_liquor"])):
             g = ws.cell(r, h[head]).value if head in h else None
             check(same(g, v) or g == v == 0, f"{tag} Monthly {m['month']} {head}: {g!r} vs JSON {v!r}")
-    # Summary: campaign totals
+    # Summary: month columns of the key figures (header row of the section), campaign items in B
     ws = wb["Summary"]
-    lab = {ws.cell(r, 1).value: ws.cell(r, 2).value for r in range(1, ws.max_row + 1)}
-    tot_hcl = sum(m["vent_kg"]["HCl"] for m in led["months"])
-    tot_hcl_runs = sum(r["vent"]["HCl_mol"] for r in led["runs"]) * M_HCL / 1e3
-    check(same(lab.get("HCl to scrubbers [kg]"), tot_hcl, 1e-12) or tot_hcl == 0, f"{tag}: Summary HCl {lab.get('HCl to scrubbers [kg]')} vs JSON months {tot_hcl}")
-    check(abs(tot_hcl - tot_hcl_runs) <= 1e-9 * max(tot_hcl, 1), f"{tag}: months HCl {tot_hcl} vs runs {tot_hcl_runs}")
-    check(lab.get("Runs [count]") == len(led["runs"]), f"{tag}: Summary runs count")
+    lab = {ws.cell(r, 1).value: r for r in range(1, ws.max_row + 1)}
+    sec = lab.get("Key figures by month")
+    if check(sec, f"{tag}: Summary has no key figures by month"):
+        mcol = {ws.cell(sec, c).value: c for c in range(2, ws.max_column + 1)}
+        for m in led["months"][:6]:
+            c = mcol.get(m["month"])
+            if not check(c, f"{tag}: Summary lacks the month {m['month']}"):
+                continue
+            for item, v in (("Runs [count]", m["runs"]), ("NaOH consumed, as 100 % [kg]", m["naoh_kg"]),
+                            ("HCl to scrubbers [kg]", m["vent_kg"]["HCl"]), ("Liquor changeouts [count]", m["changeouts"])):
+                if item.startswith("HCl") and v == 0:
+                    continue
+                g = ws.cell(lab[item], c).value if item in lab else None
+                check(same(g, v) or g == v == 0, f"{tag}: Summary {item} {m['month']} {g!r} vs JSON {v!r}")
     for s in led["scrubbers"]:
         for k, v in ((f"Peak hourly load at {s['id']} [kmol/h]", s["peak_acid_kmol_h"]),
                      (f"Peak instantaneous load at {s['id']} [kmol/h]", s["peak_instant_kmol_h"]),
                      (f"Hottest liquor at {s['id']} [°C]", s["max_liquor_temp_c"])):
-            check(same(lab.get(k), v), f"{tag}: Summary {k} {lab.get(k)!r} vs {v}")
-    tot_naoh = sum(s["naoh_kg"] for s in led["scrubbers"])
-    check(same(lab.get("NaOH consumed in scrubbers [kg]"), tot_naoh, 1e-12), f"{tag}: Summary NaOH {lab.get('NaOH consumed in scrubbers [kg]')} vs {tot_naoh}")
-    check(lab.get("Warnings [count]") == len(led["warnings"]), f"{tag}: Summary warnings count {lab.get('Warnings [count]')} vs {len(led['warnings'])}")
+            g = ws.cell(lab[k], 2).value if k in lab else None
+            check(same(g, v), f"{tag}: Summary {k} {g!r} vs {v}")
+    g = ws.cell(lab["Warnings [count]"], 2).value if "Warnings [count]" in lab else None
+    check(g == len(led["warnings"]), f"{tag}: Summary warnings count {g!r} vs {len(led['warnings'])}")
+    over = sum(1 for s in led["scrubbers"] if s["overloaded"])
+    g = ws.cell(lab["Scrubbers over their rating [count]"], 2).value if "Scrubbers over their rating [count]" in lab else None
+    check(g == over, f"{tag}: Summary overload count {g!r} vs {over}")
+    ws = wb["Warnings"]
+    got = [(ws.cell(r, 1).value, ws.cell(r, 2).value) for r in range(2, 2 + len(led["warnings"]))]
+    want = [(w["run"] or "(campaign)", w["message"]) for w in led["warnings"]]
+    check(got == want or not want, f"{tag}: Warnings sheet differs from the JSON warnings")
+
+
+def check_shape(tag, ws):
+    """One table: a contiguous text header row, no repeated header below, panes and filter."""
+    heads = [ws.cell(1, c).value for c in range(1, ws.max_column + 1)]
+    check(heads and all(isinstance(h, str) and h for h in heads), f"{tag} {ws.title}: header row has gaps or non-text {heads}")
+    for r in range(2, ws.max_row + 1):
+        again = sum(1 for c, h in enumerate(heads, 1) if ws.cell(r, c).value == h)
+        check(again < 2, f"{tag} {ws.title} row {r}: a second header row")
+    check(ws.freeze_panes == "B2", f"{tag} {ws.title}: panes frozen at {ws.freeze_panes}, not B2 (header row and id column)")
+    check(bool(ws.auto_filter.ref) and ws.auto_filter.ref.startswith("A1:"), f"{tag} {ws.title}: filter {ws.auto_filter.ref}")
+
+
+def check_print(tag, ws, led, paper):
+    ps = ws.page_setup
+    check(ps.orientation == "landscape", f"{tag} {ws.title}: orientation {ps.orientation}")
+    check(str(ps.paperSize) == paper, f"{tag} {ws.title}: paper {ps.paperSize}, want {paper}")
+    hd, ft = ws.oddHeader, ws.oddFooter
+    site = (led["campaign"]["site"] or "").replace("&", "&&")
+    title = (led["campaign"]["title"] or "").replace("&", "&&")
+    check(site[:40] in (hd.left.text or ""), f"{tag} {ws.title}: header left {hd.left.text!r} lacks the site")
+    check(title[:40] in (hd.center.text or ""), f"{tag} {ws.title}: header centre {hd.center.text!r} lacks the title")
+    check((hd.right.text or "") == "&A", f"{tag} {ws.title}: header right {hd.right.text!r} is not the sheet (&A)")
+    check((ft.right.text or "") == "Page &P of &N", f"{tag} {ws.title}: footer right {ft.right.text!r}")
+    issued = led.get("campaign", {}).get("issued") or ""
+    check("Ledger issued" in (ft.left.text or "") and (not issued or issued[:10] in ft.left.text),
+          f"{tag} {ws.title}: footer left {ft.left.text!r} lacks the issue date")
+    fit = ws.sheet_properties.pageSetUpPr.fitToPage if ws.sheet_properties.pageSetUpPr else False
+    if ws.title == "Charts":
+        return
+    if ws.title == "Summary":
+        check(fit and (ps.fitToWidth in (None, 1)) and (ps.fitToHeight in (None, 1)),
+              f"{tag} Summary: not fitted to one page ({fit} {ps.fitToWidth} {ps.fitToHeight})")
+        return
+    check(ws.print_title_rows == "$1:$1", f"{tag} {ws.title}: print titles rows {ws.print_title_rows}")
+    # wide = the columns do not fit a third more than a page: then the id column repeats instead
+    width = sum((ws.column_dimensions[get_column_letter(c)].width or 8.43) for c in range(1, ws.max_column + 1))
+    page = ((297.0 if paper == "9" else 279.4) - 25.4) / 25.4 * 96 / 7   # ECMA-376 18.3.1.13, ~5 px padding aside
+    if width <= page * 1.2:
+        check(fit and ps.fitToWidth in (None, 1) and ps.fitToHeight == 0, f"{tag} {ws.title}: narrow ({width:.0f} chars) but not one page wide")
+    elif width > page * 1.45:
+        check(not fit and ws.print_title_cols == "$A:$A", f"{tag} {ws.title}: wide ({width:.0f} chars) without repeated id column")
+
+
+def alarm_json(led, sheet, head):
+    """{key: raised} from the JSON ledger for an alarm column, keys as in the sheet's column A."""
+    if sheet == "Runs":
+        return {r["id"]: r.get("capped") for r in led["runs"]}
+    if sheet == "Liquor by run":
+        k = "too_hot" if head == "Cooling needed" else "exhausted"
+        return {r["id"]: r["scrubber"].get(k) for r in led["runs"] if r.get("scrubber_id")}
+    if sheet == "Scrubber units":
+        return {s["id"]: s["overloaded"] for s in led["scrubbers"]}
+    return None
+
+
+def check_alarms(tag, wb, led):
+    raised = 0
+    for sheet, head, marker in ALARMS:
+        ws = wb[sheet]
+        h = header_map(ws)
+        if not check(head in h, f"{tag} {sheet}: no alarm column {head!r}"):
+            continue
+        col = get_column_letter(h[head])
+        n = sum(1 for r in range(2, ws.max_row + 1) if ws.cell(r, 1).value not in (None, "Total")
+                and not str(ws.cell(r, 1).value).startswith(("No ", "(")))
+        cfs = [(str(cf.sqref), rule) for cf in ws.conditional_formatting for rule in cf.rules]
+        want_ref = f"{col}2:{col}{n + 1}" if n > 1 else f"{col}2"
+        ok = [rule for ref, rule in cfs if ref == want_ref and rule.type == "beginsWith"
+              and rule.text == marker and rule.dxf is not None and rule.dxf.fill is not None]
+        check(n == 0 or ok, f"{tag} {sheet}!{col}: no marker format over {col}2:{col}{n + 1} ({cfs})")
+        js = alarm_json(led, sheet, head)
+        for r in range(2, n + 2):
+            v = ws.cell(r, h[head]).value
+            check(v == "no" or (isinstance(v, str) and v.startswith(marker + " ") and (marker == "!!" or not v.startswith("!!"))),
+                  f"{tag} {sheet}!{col}{r}: {v!r} is neither 'no' nor marked {marker!r}")
+            raised += isinstance(v, str) and v.startswith("!")
+            k = ws.cell(r, 1).value
+            if js is not None and k in js and js[k] is not None:
+                check(bool(js[k]) == (v != "no"), f"{tag} {sheet} {k} {head}: {v!r} vs JSON {js[k]!r}")
+        if sheet == "Orders":
+            late = {(o["month"], o["reagent"]): o.get("late") for o in led["orders"]}
+            for r in range(2, n + 2):
+                k = (ws.cell(r, 1).value, ws.cell(r, 2).value)
+                if k in late and late[k] is not None:
+                    check(bool(late[k]) == (ws.cell(r, h[head]).value != "no"), f"{tag} Orders {k} late flag")
+    return raised
+
+
+PLURAL = re.compile(r"(?<![\d.,])1 (changeouts|runs|containers|warnings|hours|orders|scrubbers)\b")
+
+
+def check_names(tag, wb):
+    for ws in wb.worksheets:
+        for row in ws.iter_rows():
+            for c in row:
+                if not isinstance(c.value, str):
+                    continue
+                for f in FORBIDDEN:
+                    check(f not in c.value, f"{tag} {ws.title}!{c.coordinate}: retired name {f!r}")
+                # the Warnings messages are the ledger's own text, pinned by the reference ledgers
+                if ws.title != "Warnings":
+                    check(not PLURAL.search(c.value), f"{tag} {ws.title}!{c.coordinate}: {c.value!r} counts 1 in the plural")
+
+
+def shown_decimals(fmt):
+    m = re.search(r"0\.(0+)", fmt or "")
+    return len(m.group(1)) if m else 0
+
+
+def check_assumptions(tag, ws):
+    h = header_map(ws)
+    for r in range(2, ws.max_row + 1):
+        v, fmt = ws.cell(r, h["Value"]).value, ws.cell(r, h["Value"]).number_format
+        if num(v) and v != 0:
+            if "E" in fmt:
+                check(shown_decimals(fmt) <= 3, f"{tag} Assumptions row {r}: {v} shown as {fmt}")
+            else:
+                most = max(0, 3 - math.floor(math.log10(abs(v))))
+                check(fmt != "General" and shown_decimals(fmt) <= most,
+                      f"{tag} Assumptions row {r}: {v} shown as {fmt!r} (more than 4 significant figures)")
+        o = ws.cell(r, h["Origin"]).value or ""
+        check(not re.search(r"\b[\w-]+\.(c|h|py|json)\b|src/|include/", o), f"{tag} Assumptions row {r}: origin names a program file: {o!r}")
+
+
+def check_summary(tag, ws):
+    text = [str(c.value) for row in ws.iter_rows() for c in row if c.value is not None]
+    for want in ("Prepared by (name, signature)", "Checked by (name, signature)", "Date:", "Alarms", "Key figures by month"):
+        check(want in text, f"{tag} Summary: no {want!r}")
+    check(ws.freeze_panes is None and not ws.auto_filter.ref, f"{tag} Summary: a form, not a filtered table")
 
 
 def make(camp, outdir, env):
@@ -362,7 +557,7 @@ def main():
     # and the acceptance campaigns of this folder's siblings (tests/campaigns)
     camps += sorted(glob.glob(os.path.join("tests", "campaigns", "*.json"), root_dir=ROOT))
     check(sum(c.startswith("campaigns") for c in camps) >= 2, f"demo campaigns: {camps}")
-    nform = ncharts = 0
+    nform = ncharts = nalarm = 0
     with tempfile.TemporaryDirectory() as tmp:
         first = {}
         t_first = time.time()
@@ -383,14 +578,34 @@ def main():
                 if name not in wb.sheetnames:
                     continue
                 ws = wb[name]
-                check(ws.freeze_panes == "A2", f"{tag} {name}: header row not frozen ({ws.freeze_panes})")
-                check(bool(ws.auto_filter.ref), f"{tag} {name}: no filter on the header row")
+                if name not in ("Summary", "Charts"):
+                    check_shape(tag, ws)
+                check_print(tag, ws, led, "9")
                 check_units(tag, ws)
                 nform += check_formulas(tag, ws, wv[name])
                 check_finite(tag, ws)
             ncharts += check_xml(tag, base + ".xlsx", wb)
             check_cautions(tag, wb, camp, led)
             check_numbers(tag, wb, led)
+            nalarm += check_alarms(tag, wb, led)
+            check_names(tag, wb)
+            check_assumptions(tag, wb["Assumptions"])
+            check_summary(tag, wb["Summary"])
+        check(nalarm > 0, "the demo workbooks raise no alarm: the alarm checks would pass on nothing")
+        # report.paper = Letter: every sheet on US Letter (paper size 1)
+        with open(os.path.join(ROOT, camps[0])) as f:
+            letter = json.load(f)
+        letter["report"] = {"paper": "Letter"}
+        lp = os.path.join(tmp, "letter.json")
+        with open(lp, "w") as f:
+            json.dump(letter, f)
+        p, base = make(lp, os.path.join(tmp, "l"), env)
+        if check(p.returncode == 0, f"letter copy: report exit {p.returncode}: {p.stderr.strip()}"):
+            wb = openpyxl.load_workbook(base + ".xlsx")
+            with open(base + ".json") as f:
+                led = json.load(f)
+            for ws in wb.worksheets:
+                check_print("letter", ws, led, "1")
         # the same report again, at least a second later: byte-identical files
         time.sleep(max(0.0, 1.05 - (time.time() - t_first)))
         for c, base in first.items():

@@ -218,36 +218,42 @@ close(sc.get("naoh_kg"), naoh_A + naoh_B + naoh_C, "S1 NaOH used")
 T.check(sc.get("changeouts") == 1, f"S1 changeouts {sc.get('changeouts')}")
 close(sc.get("makeup_kg"), 400.0, "S1 caustic make-up bought")
 
-# ---- the manager's figures: Summary sheet ----
+# ---- the manager's figures: Summary sheet, one column a month (only like things: no sum over
+# different products or reagents) ----
 ws = wb["Summary"]
-lab = {ws.cell(r, 1).value: ws.cell(r, 2).value for r in range(1, ws.max_row + 1)}
+rows = {ws.cell(r, 1).value: r for r in range(1, ws.max_row + 1)}
+sec = rows.get("Key figures by month")
+T.check(sec is not None, "Summary has its key figures by month")
+mcol = {ws.cell(sec, c).value: c for c in range(2, ws.max_column + 1)} if sec else {}
 summary = {
-    "Runs [count]": 4,
-    "Wanted product [kg]": A_w + B_w + C_w + D_w,
-    "Isomer losses [kg]": 0.0,
-    "Over-halogenated losses [kg]": A_o + B_o + C_o + D_o,
-    "Unreacted substrate [kg]": A_u + B_u + C_u + D_u,
-    "Cl2 charged [kg]": 70.9, "Br2 charged [kg]": 159.808,
-    "HCl to scrubbers [kg]": (720 + 900) * M_HCL / 1e3,
-    "HBr to scrubbers [kg]": 900 * M_HBR / 1e3,
-    "SO2 to scrubbers [kg]": 900 * M_SO2 / 1e3,
-    "NaOH consumed in scrubbers [kg]": naoh_A + naoh_B + naoh_C,
-    "Liquor changeouts [count]": 1,
+    ("Runs [count]", "2027-03"): 2, ("Runs [count]", "2027-04"): 2,
+    ("Cl2 charged [kg]", "2027-03"): 70.9, ("Br2 charged [kg]", "2027-03"): 159.808,
+    ("Cl2 charged [kg]", "2027-04"): 0.0,
+    ("HCl to scrubbers [kg]", "2027-03"): 720 * M_HCL / 1e3,
+    ("HCl to scrubbers [kg]", "2027-04"): 900 * M_HCL / 1e3,
+    ("HBr to scrubbers [kg]", "2027-03"): 900 * M_HBR / 1e3,
+    ("SO2 to scrubbers [kg]", "2027-04"): 900 * M_SO2 / 1e3,
+    ("NaOH consumed, as 100 % [kg]", "2027-03"): naoh_A + naoh_B,
+    ("NaOH consumed, as 100 % [kg]", "2027-04"): naoh_C,
+    ("Liquor changeouts [count]", "2027-03"): 0, ("Liquor changeouts [count]", "2027-04"): 1,
 }
-for k, v in summary.items():
-    T.check(k in lab, f"Summary row {k!r} missing")
-    close(lab.get(k), v, f"Summary {k}", 1e-9 if v else 0)
+for (k, m), v in summary.items():
+    T.check(k in rows and m in mcol, f"Summary row {k!r} / month {m} missing")
+    got = ws.cell(rows[k], mcol[m]).value if k in rows and m in mcol else None
+    close(got, v, f"Summary {k} {m}", 1e-9 if v else 0)
 
-# ---- Waste sheet: retained acid per run ----
-ws = wb["Waste"]
+# ---- Waste by run: retained acid per gas and the losses, per run ----
+ws = wb["Waste by run"]
 head = {c.value: c.column for c in ws[1] if isinstance(c.value, str)}
-col = next((c for h, c in head.items() if h.startswith("Acid retained")), None)
-T.check(col is not None, f"Waste sheet retained-acid column among {sorted(head)}")
-got = {}
-for r in range(2, ws.max_row + 1):
-    got[ws.cell(r, 1).value] = ws.cell(r, col).value if col else None
-close(got.get("A"), 180 * M_HCL / 1e3, "Waste retained acid, run A")
-close(got.get("B"), 100 * M_HBR / 1e3, "Waste retained acid, run B")
+for h in ("HCl retained in mass [kg]", "HBr retained in mass [kg]", "Over-halogenated products [kg]",
+          "Unreacted substrate [kg]"):
+    T.check(h in head, f"Waste by run column {h!r} among {sorted(head)}")
+got = {ws.cell(r, 1).value: {h: ws.cell(r, c).value for h, c in head.items()} for r in range(2, ws.max_row + 1)}
+close(got.get("A", {}).get("HCl retained in mass [kg]"), 180 * M_HCL / 1e3, "Waste retained HCl, run A")
+close(got.get("B", {}).get("HBr retained in mass [kg]"), 100 * M_HBR / 1e3, "Waste retained HBr, run B")
+for rid, o, u in (("A", A_o, A_u), ("B", B_o, B_u), ("C", C_o, C_u), ("D", D_o, D_u)):
+    close(got.get(rid, {}).get("Over-halogenated products [kg]"), o, f"Waste over-halogenated, run {rid}", 1e-9 if o else 0)
+    close(got.get(rid, {}).get("Unreacted substrate [kg]"), u, f"Waste unreacted substrate, run {rid}", 1e-9 if u else 0)
 
 for f in T.fails:
     print("FAIL:", f)

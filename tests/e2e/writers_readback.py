@@ -3,7 +3,8 @@
 
 tool_writers ($HL_ROOT/$BUILD/tool_writers) writes a synthetic ledger as xlsx and
 JSON; openpyxl, zipfile/ElementTree and Python's json read them back:
-  - the nine sheets in order, a frozen header row and an autofilter on each;
+  - the sheets in order; each table sheet with panes frozen at B2 (header row, id column) and
+    an autofilter on its header row; the Summary a form without either;
   - every numeric column of a table sheet has a unit "[..]" in its header
     (Summary: in the item label; Assumptions: a unit cell);
   - every =SUM() totals cell caches the sum of its range (1e-9 relative);
@@ -35,9 +36,11 @@ ROOT = os.environ.get("HL_ROOT", os.getcwd())
 BUILD = os.environ.get("BUILD", "build")
 TOOL = os.path.join(ROOT, BUILD, "tool_writers")
 WRAP = os.environ.get("HL_WRAP", "").split()
-SHEETS = ["Summary", "Runs", "Products", "Scrubber", "Orders", "Waste", "Monthly",
-          "Cautions", "Assumptions"]
-TABLE_SHEETS = ["Runs", "Products", "Scrubber", "Orders", "Waste", "Monthly"]
+SHEETS = ["Summary", "Runs", "Products", "Liquor by run", "Scrubber units", "Hourly load",
+          "Column check", "Orders", "Waste by run", "Spent liquor", "Monthly", "Charts",
+          "Warnings", "Cautions", "Assumptions"]
+TABLE_SHEETS = ["Runs", "Products", "Liquor by run", "Scrubber units", "Hourly load",
+                "Column check", "Orders", "Waste by run", "Spent liquor", "Monthly"]
 UNIT = re.compile(r"\[[^\]]+\]")
 checks = 0
 failures = []
@@ -110,11 +113,17 @@ def body(tmp):
 
     for name in SHEETS:
         ws = wb[name]
-        check(ws.freeze_panes == "A2", "%s: header row frozen (%s)" % (name, ws.freeze_panes))
-        ref = ws.auto_filter.ref
-        check(bool(ref) and re.match(r"^[A-Z]+1:[A-Z]+\d+$", ref or ""),
-              "%s: autofilter on the header row (%s)" % (name, ref))
+        if name == "Charts":  # a title row and the chart drawings
+            check(ws["A1"].value, "Charts: has its title")
+            continue
         check(ws.max_row >= 2, "%s: has content" % name)
+        if name == "Summary":
+            check(ws.freeze_panes is None and not ws.auto_filter.ref, "Summary: a form, no panes or filter")
+            continue
+        check(ws.freeze_panes == "B2", "%s: header row and id column frozen (%s)" % (name, ws.freeze_panes))
+        ref = ws.auto_filter.ref
+        check(bool(ref) and re.match(r"^A1:[A-Z]+\d+$", ref or ""),
+              "%s: autofilter on the header row (%s)" % (name, ref))
 
     # units in headers
     for name in TABLE_SHEETS:
@@ -125,9 +134,10 @@ def body(tmp):
                 continue
             numeric = any(is_num(r[c]) for r in rows[1:] if c < len(r))
             if numeric:
-                check(UNIT.search(head), "%s: numeric column '%s' has a unit" % (name, head))
+                check(UNIT.search(head) or head.endswith("(dimensionless)"),
+                      "%s: numeric column '%s' has a unit" % (name, head))
     for row in wv["Summary"].iter_rows(min_row=2, values_only=True):
-        if is_num(row[1]):
+        if any(is_num(v) for v in row[1:]):
             check(UNIT.search(row[0] or ""), "Summary: '%s' has a unit" % row[0])
     for row in wv["Assumptions"].iter_rows(min_row=2, values_only=True):
         if is_num(row[1]):
@@ -162,10 +172,11 @@ def body(tmp):
                     nsum += 1
                     sheets_with_totals.add(name)
     check(nsum >= 40, "at least 40 totals cells (%d)" % nsum)
-    # Orders has no totals row on purpose: its lines mix reagents and caustic
-    check(sheets_with_totals >= {"Runs", "Products", "Scrubber", "Waste", "Monthly"}
-          and "Orders" not in sheets_with_totals,
-          "totals on every table sheet but Orders: %s" % sorted(sheets_with_totals))
+    # Orders and Products have no totals row on purpose: their lines mix substances
+    check(sheets_with_totals >= {"Runs", "Liquor by run", "Scrubber units", "Waste by run",
+                                 "Spent liquor", "Monthly"}
+          and not sheets_with_totals & {"Orders", "Products"},
+          "totals on the sheets of like things only: %s" % sorted(sheets_with_totals))
 
     # run id "=1+1" stays text: in the sheet XML the cell is a string, not a formula
     z = zipfile.ZipFile(x1)
@@ -185,12 +196,12 @@ def body(tmp):
               "Runs!%s holds '=1+1' as a string cell" % ref)
         check(wb["Runs"][ref].data_type == "s", "openpyxl sees Runs!%s as text" % ref)
 
-    # charts: three, drawn on Monthly (7th sheet), series on the month rows
+    # charts: three or four, drawn on the Charts sheet (12th), series on the Monthly month rows
     charts = sorted(n for n in names if re.fullmatch(r"xl/charts/chart\d+\.xml", n))
-    check(len(charts) == 3, "three chart parts (%s)" % charts)
-    rels = z.read("xl/worksheets/_rels/sheet7.xml.rels").decode() if \
-        "xl/worksheets/_rels/sheet7.xml.rels" in names else ""
-    check("drawing" in rels, "Monthly (sheet7) carries the drawing")
+    check(len(charts) in (3, 4), "three or four chart parts (%s)" % charts)
+    rels = z.read("xl/worksheets/_rels/sheet12.xml.rels").decode() if \
+        "xl/worksheets/_rels/sheet12.xml.rels" in names else ""
+    check("drawing" in rels, "Charts (sheet12) carries the drawing")
     nmonths = len(led["months"])
     mv = wb["Monthly"]
     for ch in charts:
@@ -260,9 +271,14 @@ def body(tmp):
     for i, r in enumerate(led["runs"]):
         got = rv.cell(row=i + 2, column=kgcol + 1).value
         check(got == r["reagent_charged"]["kg"], "run %s charged kg equal in xlsx and JSON" % r["id"])
+    # Summary: runs per month in the month columns of the key figures
     sumrow = [c.value for c in wv["Summary"]["A"]]
-    runs_row = sumrow.index("Runs [count]") + 1
-    check(wv["Summary"].cell(row=runs_row, column=2).value == len(led["runs"]), "Summary run count")
+    runs_row, sec = sumrow.index("Runs [count]") + 1, sumrow.index("Key figures by month") + 1
+    sv = wv["Summary"]
+    per_month = {sv.cell(row=sec, column=c).value: sv.cell(row=runs_row, column=c).value
+                 for c in range(2, 2 + min(6, len(led["months"])))}
+    check(per_month == {m["month"]: m["runs"] for m in led["months"][:6]},
+          "Summary runs per month %s vs JSON" % per_month)
     mvv = wv["Monthly"]
     mh = [c.value for c in mvv[1]]
     hcl = mh.index("HCl to scrubber [kg]") + 1
@@ -282,7 +298,7 @@ def body(tmp):
                    [[c.value for c in row] for row in ws2[n].iter_rows()] for n in SHEETS)
         check(same, "streaming mode gives the same cells")
         zs = zipfile.ZipFile(xs)
-        check(len([n for n in zs.namelist() if n.startswith("xl/charts/chart")]) == 3,
+        check(len([n for n in zs.namelist() if n.startswith("xl/charts/chart")]) == len(charts),
               "streaming: charts kept")
 
     # failures: exit 1, message, previous file intact, nothing left behind
