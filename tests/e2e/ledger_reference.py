@@ -18,13 +18,9 @@ import tempfile
 import time
 
 sys.path.insert(0, os.path.dirname(os.path.abspath(__file__)))
-from _hl import BIN, ROOT, WRAP, Tally  # noqa: E402
+from _hl import BIN, REF, ROOT, SOURCES, WRAP, Tally  # noqa: E402
 
 T = Tally()
-REF = os.path.join(ROOT, "tests", "data", "ledger-ref")
-SOURCES = {"harrowmere-march": "campaigns", "harrowmere-nbs-hbr": "campaigns",
-           "small-scrubber-stress": "campaigns", "overlap-two-month": "tests/campaigns",
-           "text-escapes": "tests/campaigns"}
 
 
 def main():
