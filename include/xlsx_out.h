@@ -3,7 +3,8 @@
  *
  * Sheets, one table each: Summary (one-page form), Runs, Products, Liquor by
  * run, Scrubber units, Hourly load, Column check, Orders, Waste by run, Spent
- * liquor, Monthly, Charts (series on plain number cells of Monthly), Warnings,
+ * liquor, Monthly, Monthly yields (per month and route: yield, conversion,
+ * selectivity, halogen efficiency), Charts (series on plain number cells of Monthly), Warnings,
  * Cautions, Assumptions.  Every numeric column carries its unit in the header;
  * totals are formulas with their values cached, over like things only.  Each
  * sheet prints landscape on the ledger's paper with headers, footers and print

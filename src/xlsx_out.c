@@ -61,15 +61,17 @@
 
 enum xk {
     XK_TEXT, XK_DATE, XK_DAY, XK_INT, XK_KG, XK_MOL, XK_FRAC, XK_MOLFRAC, XK_PCT, XK_RATE,
-    XK_TEMP, XK_HEAT, XK_SCI, XK_GMOL, XK_LEN, XK_GEN, XK_COUNT
+    XK_TEMP, XK_HEAT, XK_SCI, XK_GMOL, XK_LEN, XK_GEN, XK_PCT1, XK_KW, XK_COUNT
 };
 /* Digits shown follow what a value means: kg to 0.1 kg, mol to 0.01 mol, rates to
- * 0.001 kmol/h, temperatures to 0.1 K, heat to 1 kJ; XK_GEN (the Assumptions values)
- * shows four significant figures, picked per value from xo_sigfmt. */
+ * 0.001 kmol/h, temperatures to 0.1 K, heat to 1 kJ, heat rates to 0.1 kW, yields and
+ * other mole percentages to 0.1 % (XK_PCT1: the value is the percentage itself, so the
+ * cell reads as the JSON ledger's *_pct); XK_GEN (the Assumptions values) shows four
+ * significant figures, picked per value from xo_sigfmt. */
 static const char *const xo_numfmt[XK_COUNT] = {
     NULL, "yyyy-mm-dd hh:mm", "yyyy-mm-dd", "#,##0", "#,##0.0", "#,##0.00", "0.0%", "0.00%",
-    "0.00", "0.000", "0.0", "#,##0", "0.0E+00", "0.00", "0.00", NULL};
-static const int xo_decimals[XK_COUNT] = {0, 0, 0, 0, 1, 2, 1, 2, 2, 3, 1, 0, 0, 2, 2, 4};
+    "0.00", "0.000", "0.0", "#,##0", "0.0E+00", "0.00", "0.00", NULL, "0.0", "#,##0.0"};
+static const int xo_decimals[XK_COUNT] = {0, 0, 0, 0, 1, 2, 1, 2, 2, 3, 1, 0, 0, 2, 2, 4, 1, 1};
 #define XO_NSIG 8 /* 0..6 decimals, then scientific */
 static const char *const xo_sigfmt[XO_NSIG] = {"#,##0", "0.0", "0.00", "0.000", "0.0000",
                                                "0.00000", "0.000000", "0.000E+00"};
@@ -112,6 +114,7 @@ struct xw {
     int maxcol;
     int row_lines;             /* wrapped lines the current row needs */
     struct xtable *tab;        /* table whose row is being written (for sums) */
+    char caustic[48];          /* basis of the caustic bought: "50 wt% NaOH" (xo_caustic_basis) */
     char clean[XO_STR_MAX + 4];
 };
 
@@ -295,7 +298,8 @@ static double xo_num_chars(enum xk k, double v)
     }
     double a = fabs(v);
     int digits = a < 1 ? 1 : (int)floor(log10(a)) + 1;
-    int commas = (k == XK_INT || k == XK_KG || k == XK_MOL || k == XK_HEAT) ? (digits - 1) / 3 : 0;
+    int commas = (k == XK_INT || k == XK_KG || k == XK_MOL || k == XK_HEAT || k == XK_KW)
+                     ? (digits - 1) / 3 : 0;
     int dec = xo_decimals[k];
     if (k == XK_GEN && (a >= 1e10 || (a > 0 && a < 1e-4)))
         return 10;
@@ -644,6 +648,59 @@ static void xo_month_text(int month_index, char *buf, size_t n)
     snprintf(buf, n, "%04d-%02d", y, month_index - y * 12 + 1);
 }
 
+/* Run ids of a list of run indices, ", "-separated, cut with "..." to fit cap. */
+static void xo_join_ids(const struct ledger *l, const int *runs, int n, char *buf, size_t cap)
+{
+    size_t used = 0;
+    buf[0] = '\0';
+    for (int j = 0; j < n; j++) {
+        int ri = runs[j];
+        const char *id = ri >= 0 && ri < l->nruns && l->runs[ri].id ? l->runs[ri].id : "?";
+        size_t len = strlen(id);
+        if (used + len + 6 >= cap) {
+            memcpy(buf + used, "...", 4);
+            return;
+        }
+        if (used) {
+            memcpy(buf + used, ", ", 2);
+            used += 2;
+        }
+        memcpy(buf + used, id, len + 1);
+        used += len;
+    }
+}
+
+/* The basis every "caustic solution bought" header declares: the make-up strength the
+ * caustic units buy at ("50 wt% NaOH"), or, when they buy unlike strengths, "at each
+ * unit's make-up strength" (the Scrubber units sheet lists each). */
+static void xo_caustic_basis(const struct ledger *l, char *buf, size_t n)
+{
+    double wt = 0;
+    int mixed = 0;
+    for (int u = 0; u < l->nscrubbers; u++) {
+        double m = l->scrubbers[u].makeup_naoh_wt_pct;
+        if (!(m > 0))
+            continue; /* a water liquor buys no caustic */
+        if (wt == 0)
+            wt = m;
+        else if (m != wt)
+            mixed = 1;
+    }
+    if (wt > 0 && !mixed)
+        snprintf(buf, n, "%.4g wt%% NaOH", wt);
+    else
+        snprintf(buf, n, "at each unit's make-up strength");
+}
+
+/* The wanted product of a run (NULL when it has none, as with nothing converted). */
+static const struct bal_product *xo_wanted(const struct bal_out *o)
+{
+    for (int j = 0; j < o->nproducts; j++)
+        if (o->products[j].role == ROLE_WANTED)
+            return &o->products[j];
+    return NULL;
+}
+
 /* --- Summary ------------------------------------------------------------- */
 /* A one-page form, not a table: the campaign, its key figures month by month, the
  * scrubber peaks, the alarms, the orders to place, a sign-off block and the safety
@@ -734,6 +791,7 @@ static double xs_m_naoh(const struct ledger_month *m, int a) { (void)a; return m
 static double xs_m_change(const struct ledger_month *m, int a) { (void)a; return m->changeouts; }
 static double xs_m_spent(const struct ledger_month *m, int a) { (void)a; return m->spent_liquor_kg; }
 static double xs_m_succ(const struct ledger_month *m, int a) { (void)a; return m->succinimide_kg; }
+static double xs_m_water(const struct ledger_month *m, int a) { (void)a; return m->dilution_water_kg; }
 
 static void xs_month_row(struct xsum *s, const char *item, enum xk kind, xs_month_fn fn, int arg,
                          int skip_zero)
@@ -772,10 +830,62 @@ static void xs_months(struct xsum *s)
         xs_month_row(s, item, XK_KG, xs_m_vent, v, 1);
     }
     xs_month_row(s, "NaOH consumed, as 100 % [kg]", XK_KG, xs_m_naoh, 0, 0);
-    xs_month_row(s, "Caustic make-up bought, as solution [kg]", XK_KG, xs_m_reagent, RG_NAOH, 1);
+    snprintf(item, sizeof item, "Caustic solution bought, %s [kg]", s->w->caustic);
+    xs_month_row(s, item, XK_KG, xs_m_reagent, RG_NAOH, 1);
+    xs_month_row(s, "Dilution water for fresh charges [kg]", XK_KG, xs_m_water, 0, 1);
     xs_month_row(s, "Liquor changeouts [count]", XK_INT, xs_m_change, 0, 0);
     xs_month_row(s, "Spent liquor [kg]", XK_KG, xs_m_spent, 0, 1);
     xs_month_row(s, "Succinimide [kg]", XK_KG, xs_m_succ, 0, 1);
+}
+
+/* Routes shown on the Summary; more are left to the Monthly yields sheet. */
+#define XS_ROUTES 5
+
+static int xs_same_route(const struct ledger_month_product *a, const struct ledger_month_product *b)
+{
+    return a->reagent == b->reagent && strcmp(a->substrate ? a->substrate : "", b->substrate ? b->substrate : "") == 0 &&
+           strcmp(a->wanted ? a->wanted : "", b->wanted ? b->wanted : "") == 0;
+}
+
+/* Yield per route and month: one row a route (substrate, reagent, wanted product) over the
+ * months shown, blank in a month without that route. */
+static void xs_yields(struct xsum *s)
+{
+    const struct ledger *l = s->w->l;
+    const struct ledger_month_product *route[XS_ROUTES];
+    int nr = 0, more = 0;
+    for (int m = 0; m < s->nm; m++)
+        for (int j = 0; j < l->months[m].nproducts; j++) {
+            const struct ledger_month_product *p = &l->months[m].products[j];
+            int k = 0;
+            while (k < nr && !xs_same_route(route[k], p))
+                k++;
+            if (k < nr)
+                continue;
+            if (nr < XS_ROUTES)
+                route[nr++] = p;
+            else
+                more = 1;
+        }
+    if (nr == 0)
+        return;
+    xs_section(s, "Yield of the wanted product by month", NULL, 0,
+               more ? "conversion, selectivity, halogen efficiency and further routes: Monthly yields sheet"
+                    : "conversion, selectivity, halogen efficiency: Monthly yields sheet");
+    for (int k = 0; k < nr; k++) {
+        const struct ledger_month_product *p = route[k];
+        char item[200];
+        snprintf(item, sizeof item, "Yield, %.60s + %s to %.40s [%%]",
+                 p->substrate_name && *p->substrate_name ? p->substrate_name : p->substrate,
+                 xo_item(p->reagent), p->wanted_formula);
+        xo_text(s->w, s->row, 0, item, s->w->wrap);
+        for (int m = 0; m < s->nm; m++)
+            for (int j = 0; j < l->months[m].nproducts; j++)
+                if (xs_same_route(&l->months[m].products[j], p))
+                    xo_num(s->w, s->row, (lxw_col_t)(1 + m), XK_PCT1, l->months[m].products[j].yield_pct,
+                           0, item);
+        xo_end_row(s->w, s->row++);
+    }
 }
 
 static void xs_scrubbers(struct xsum *s)
@@ -798,8 +908,17 @@ static void xs_scrubbers(struct xsum *s)
         if (x->out.nhours > 0)
             isodate_format(x->out.peak_at_min, 0, at, sizeof at);
         snprintf(note, sizeof note, "mean over the hour from %s", at);
-        snprintf(item, sizeof item, "Peak hourly load at %.60s [kmol/h]", id);
+        snprintf(item, sizeof item, "Peak hourly mean load at %.60s [kmol/h]", id);
         xs_num(s, item, XK_RATE, x->out.peak_acid_kmol_h, note);
+        snprintf(at, sizeof at, "-");
+        if (x->out.npeak_heat_runs > 0)
+            isodate_format(x->out.peak_heat_at_min, 0, at, sizeof at);
+        char ids[120];
+        xo_join_ids(l, x->out.peak_heat_runs, x->out.npeak_heat_runs, ids, sizeof ids);
+        snprintf(note, sizeof note, "from %s; run%s %s venting", at,
+                 x->out.npeak_heat_runs == 1 ? "" : "s", x->out.npeak_heat_runs ? ids : "none");
+        snprintf(item, sizeof item, "Peak heat release at %.60s [kW]", id);
+        xs_num(s, item, XK_KW, x->out.peak_heat_kw, note);
         snprintf(item, sizeof item, "Hottest liquor at %.60s [°C]", id);
         xs_num(s, item, XK_TEMP, x->out.max_liquor_temp_c,
                x->out.too_hot_runs ? "!! cooling needed (no cooler modelled)"
@@ -895,6 +1014,7 @@ static void xo_summary(struct xw *w)
     w->fixw[s.note] = 52;
     xs_identity(&s);
     xs_months(&s);
+    xs_yields(&s);
     xs_scrubbers(&s);
     xs_alarms(&s);
     xs_orders(&s);
@@ -956,6 +1076,15 @@ static void row_run(struct xw *w, struct xtable *b, lxw_row_t row, int i)
     xt_num(w, b, row, k++, o->halogen_reacted_mol);
     xt_raise(w, b, row, k++, o->capped, "capped");
     xt_num(w, b, row, k++, o->mean_degree);
+    const struct bal_product *want = xo_wanted(o);
+    xt_text(w, b, row, k++, want ? want->formula : NULL);
+    xt_num(w, b, row, k++, want ? want->kg : 0.0);
+    xt_num(w, b, row, k++, o->yield_pct);
+    xt_num(w, b, row, k++, o->conversion_pct);
+    if (o->selectivity_defined)
+        xt_num(w, b, row, k, o->selectivity_pct);
+    k++; /* blank: nothing converted, so no selectivity */
+    xt_num(w, b, row, k++, o->halogen_efficiency_pct);
     xt_num(w, b, row, k++, o->hx_kg[0]);
     xt_num(w, b, row, k++, o->hx_kg[1]);
     xt_num(w, b, row, k++, o->so2_kg);
@@ -995,6 +1124,13 @@ static void xo_runs(struct xw *w)
     xt_col(&b, XK_MOL, 0, "Halogen put on carbon [mol]");
     xt_alarm(&b, XA_NOTICE, "Capped by substrate");
     xt_col(&b, XK_MOL, 0, "Mean halogens added [mol/mol substrate]");
+    /* figures in mole per cent (design section 5); no totals: one wanted product a run */
+    xt_col(&b, XK_TEXT, 0, "Wanted product (formula)");
+    xt_col(&b, XK_KG, 0, "Wanted product [kg]");
+    xt_col(&b, XK_PCT1, 0, "Yield [%%]");
+    xt_col(&b, XK_PCT1, 0, "Substrate conversion [%%]");
+    xt_col(&b, XK_PCT1, 0, "Selectivity to wanted product [%%]");
+    xt_col(&b, XK_PCT1, 0, "Halogen efficiency [%%]");
     xt_col(&b, XK_KG, 1, "HCl formed [kg]");
     xt_col(&b, XK_KG, 1, "HBr formed [kg]");
     xt_col(&b, XK_KG, 1, "SO2 formed [kg]");
@@ -1076,6 +1212,8 @@ static void row_liquor(struct xw *w, struct xtable *b, lxw_row_t row, int i)
     xt_text(w, b, row, k++, r->scrubber);
     xt_date(w, b, row, k++, r->start_min);
     xt_flag(w, b, row, k++, s->changeout_before);
+    xt_num(w, b, row, k++, r->changeout_caustic_solution_kg);
+    xt_num(w, b, row, k++, r->changeout_water_kg);
     xt_num(w, b, row, k++, s->acid_kmol_h);
     xt_num(w, b, row, k++, s->naoh_kg);
     xt_num(w, b, row, k++, s->naoh_left_kg);
@@ -1106,6 +1244,9 @@ static void xo_liquor(struct xw *w)
     xt_col(&a, XK_TEXT, 0, "Scrubber");
     xt_col(&a, XK_DATE, 0, "Start (plant time)");
     xt_col(&a, XK_TEXT, 0, "Liquor changed before run");
+    /* the fresh charge before the run, made up from the caustic bought and site water */
+    xt_col(&a, XK_KG, 1, "Caustic solution bought, %s, for the fresh charge [kg]", w->caustic);
+    xt_col(&a, XK_KG, 1, "Dilution water for the fresh charge [kg]");
     xt_col(&a, XK_RATE, 0, "Vent gas to scrubber, peak rate [kmol/h]");
     xt_col(&a, XK_KG, 1, "NaOH consumed, as 100 %% [kg]");
     xt_col(&a, XK_KG, 0, "NaOH left, as 100 %% [kg]");
@@ -1118,7 +1259,7 @@ static void xo_liquor(struct xw *w)
     xt_col(&a, XK_HEAT, 1, "Heat to liquor [kJ]");
     xt_col(&a, XK_TEMP, 0, "Liquor temperature rise [K]");
     xt_col(&a, XK_TEMP, 0, "Liquor temperature after run, no cooling [°C]");
-    xt_col(&a, XK_RATE, 0, "Heat duty, mean over the vent window [kW]");
+    xt_col(&a, XK_KW, 0, "Heat release, mean over the vent window [kW]");
     xt_alarm(&a, XA_ALARM, "Cooling needed");
     xt_col(&a, XK_MOL, 0, "Sulfite oxidised by hypohalite [mol]");
     xt_col(&a, XK_MOL, 0, "Gas left unneutralised [mol]");
@@ -1128,26 +1269,6 @@ static void xo_liquor(struct xw *w)
 
 /* --- Scrubber units, hourly load, column check ---------------------------- */
 
-static void xo_join_ids(const struct ledger *l, const int *runs, int n, char *buf, size_t cap)
-{
-    size_t used = 0;
-    buf[0] = '\0';
-    for (int j = 0; j < n; j++) {
-        int ri = runs[j];
-        const char *id = ri >= 0 && ri < l->nruns && l->runs[ri].id ? l->runs[ri].id : "?";
-        size_t len = strlen(id);
-        if (used + len + 6 >= cap) {
-            memcpy(buf + used, "...", 4);
-            return;
-        }
-        if (used) {
-            memcpy(buf + used, ", ", 2);
-            used += 2;
-        }
-        memcpy(buf + used, id, len + 1);
-        used += len;
-    }
-}
 
 
 static void row_unit(struct xw *w, struct xtable *b, lxw_row_t row, int i)
@@ -1172,9 +1293,23 @@ static void row_unit(struct xw *w, struct xtable *b, lxw_row_t row, int i)
     xo_join_ids(l, s->peak_instant_runs, s->npeak_instant_runs, ids, sizeof ids);
     xt_text(w, b, row, k++, ids);
     xt_raise(w, b, row, k++, s->overloaded, "OVER RATING");
+    xt_num(w, b, row, k++, s->peak_heat_kw);
+    if (s->npeak_heat_runs > 0)
+        xt_date(w, b, row, k, s->peak_heat_at_min);
+    k++;
+    xo_join_ids(l, s->peak_heat_runs, s->npeak_heat_runs, ids, sizeof ids);
+    xt_text(w, b, row, k++, ids);
     xt_num(w, b, row, k++, s->changeouts);
     xt_num(w, b, row, k++, s->naoh_kg);
+    if (u->makeup_naoh_wt_pct > 0)
+        xt_num(w, b, row, k, u->makeup_naoh_wt_pct);
+    else
+        xt_text(w, b, row, k, "none (water liquor)");
+    k++;
+    xt_num(w, b, row, k++, u->changeout_caustic_solution_kg);
+    xt_num(w, b, row, k++, u->changeout_water_kg);
     xt_num(w, b, row, k++, s->makeup_kg);
+    xt_num(w, b, row, k++, u->dilution_water_kg);
     xt_num(w, b, row, k++, s->heat_kj);
     xt_num(w, b, row, k++, s->max_liquor_temp_c);
     xt_num(w, b, row, k++, s->too_hot_runs);
@@ -1192,9 +1327,17 @@ static void xo_units(struct xw *w)
     xt_col(&u, XK_DATE, 0, "Instantaneous peak from (plant time)");
     xt_col(&u, XK_TEXT, 0, "Runs venting at the instantaneous peak");
     xt_alarm(&u, XA_ALARM, "Overloaded (instantaneous peak over rating)");
+    /* the duty a liquor cooler would need: heat-release rates of the runs venting at once */
+    xt_col(&u, XK_KW, 0, "Peak heat release [kW]");
+    xt_col(&u, XK_DATE, 0, "Heat release peak from (plant time)");
+    xt_col(&u, XK_TEXT, 0, "Runs venting at the heat release peak");
     xt_col(&u, XK_INT, 1, "Liquor changeouts [count]");
     xt_col(&u, XK_KG, 1, "NaOH consumed, as 100 %% [kg]");
-    xt_col(&u, XK_KG, 1, "Caustic make-up bought, as solution [kg]");
+    xt_col(&u, XK_PCT, 0, "Caustic make-up strength [wt%% NaOH]");
+    xt_col(&u, XK_KG, 0, "Caustic solution bought per changeout, at make-up strength [kg]");
+    xt_col(&u, XK_KG, 0, "Dilution water per changeout [kg]");
+    xt_col(&u, XK_KG, 1, "Caustic solution bought, %s [kg]", w->caustic);
+    xt_col(&u, XK_KG, 1, "Dilution water, all changeouts [kg]");
     xt_col(&u, XK_HEAT, 1, "Heat to liquor [kJ]");
     xt_col(&u, XK_TEMP, 0, "Hottest liquor, no cooling [°C]");
     xt_col(&u, XK_INT, 1, "Runs needing cooling [count]");
@@ -1299,7 +1442,14 @@ static void row_order(struct xw *w, struct xtable *b, lxw_row_t row, int i)
     xt_date(w, b, row, k++, d->first_use_min);
     xt_date(w, b, row, k++, d->order_by_min);
     xt_raise(w, b, row, k++, d->late, "LATE");
-    xt_text(w, b, row, k++, d->no_container ? "no container defined for this item" : NULL);
+    /* the kg of a caustic line are solution as bought, not NaOH as 100 % */
+    char note[160] = "";
+    if (d->item == RG_NAOH)
+        snprintf(note, sizeof note, "kg of caustic solution bought, %s%s", w->caustic,
+                 d->no_container ? "; " : "");
+    if (d->no_container)
+        snprintf(note + strlen(note), sizeof note - strlen(note), "no container defined for this item");
+    xt_text(w, b, row, k++, note);
 }
 
 static void xo_orders(struct xw *w)
@@ -1413,8 +1563,8 @@ static void xo_spent(struct xw *w)
 /* --- Monthly ------------------------------------------------------------- */
 
 enum { MC_RUNS = 1, MC_REAGENT, /* RG_COUNT columns */
-       MC_VENT = MC_REAGENT + RG_COUNT, MC_NAOH = MC_VENT + VS_COUNT, MC_CHANGE, MC_SPENT,
-       MC_SUCC, MC_NCOL };
+       MC_VENT = MC_REAGENT + RG_COUNT, MC_NAOH = MC_VENT + VS_COUNT, MC_CAUSTIC_NAOH, MC_WATER,
+       MC_CHANGE, MC_SPENT, MC_SUCC, MC_NCOL };
 
 static void row_month(struct xw *w, struct xtable *b, lxw_row_t row, int i)
 {
@@ -1428,9 +1578,88 @@ static void row_month(struct xw *w, struct xtable *b, lxw_row_t row, int i)
     for (int s = 0; s < VS_COUNT; s++)
         xt_num(w, b, row, MC_VENT + s, m->vent_kg[s]);
     xt_num(w, b, row, MC_NAOH, m->naoh_kg);
+    xt_num(w, b, row, MC_CAUSTIC_NAOH, m->caustic_solution_naoh_kg);
+    xt_num(w, b, row, MC_WATER, m->dilution_water_kg);
     xt_num(w, b, row, MC_CHANGE, m->changeouts);
     xt_num(w, b, row, MC_SPENT, m->spent_liquor_kg);
     xt_num(w, b, row, MC_SUCC, m->succinimide_kg);
+}
+
+/* --- Monthly yields: one row per month and route ------------------------- */
+
+static void row_month_route(struct xw *w, struct xtable *b, lxw_row_t row, int i)
+{
+    (void)i;
+    const struct ledger *l = w->l;
+    while (b->cur < l->nmonths && b->sub >= l->months[b->cur].nproducts) {
+        b->cur++;
+        b->sub = 0;
+    }
+    if (b->cur >= l->nmonths)
+        return;
+    const struct ledger_month *m = &l->months[b->cur];
+    const struct ledger_month_product *p = &m->products[b->sub++];
+    char mt[32];
+    xo_month_text(m->month_index, mt, sizeof mt);
+    int k = 0;
+    xt_text(w, b, row, k++, mt);
+    xt_text(w, b, row, k++, p->substrate_name);
+    xt_text(w, b, row, k++, p->substrate);
+    xt_text(w, b, row, k++, xo_item(p->reagent));
+    xt_text(w, b, row, k++, p->wanted);
+    xt_text(w, b, row, k++, p->wanted_formula);
+    xt_num(w, b, row, k++, p->runs);
+    xt_num(w, b, row, k++, p->substrate_kg);
+    xt_num(w, b, row, k++, p->substrate_mol);
+    xt_num(w, b, row, k++, p->converted_mol);
+    xt_num(w, b, row, k++, p->wanted_mol);
+    xt_num(w, b, row, k++, p->wanted_kg);
+    xt_num(w, b, row, k++, p->halogen_charged_mol);
+    xt_num(w, b, row, k++, p->halogen_in_wanted_mol);
+    xt_num(w, b, row, k++, p->yield_pct);
+    xt_num(w, b, row, k++, p->conversion_pct);
+    if (p->selectivity_defined)
+        xt_num(w, b, row, k, p->selectivity_pct);
+    k++;
+    xt_num(w, b, row, k++, p->halogen_efficiency_pct);
+}
+
+/* Yields per month and route (substrate, reagent, wanted product): the month's figures
+ * over like things only, mole-weighted over the route's runs (design section 5). */
+static void xo_month_yields(struct xw *w)
+{
+    const struct ledger *l = w->l;
+    int n = 0;
+    for (int m = 0; m < l->nmonths; m++)
+        n += l->months[m].nproducts;
+    struct xtable b = {.fn = row_month_route, .nrows = n, .empty_note = "No runs.",
+                       .notes = {"Per cent of moles: yield = wanted / substrate charged; conversion = "
+                                 "substrate converted / charged; selectivity = wanted / converted;",
+                                 "halogen efficiency = halogen atoms in the wanted product / halogen "
+                                 "atoms charged (2 per Cl2, Br2, SO2Cl2; 1 per NBS, HBr)."},
+                       .nnotes = 2};
+    xt_col(&b, XK_TEXT, 0, "Month");
+    xt_col(&b, XK_TEXT, 0, "Substrate");
+    xt_col(&b, XK_TEXT, 0, "Substrate (SMILES or formula)");
+    xt_col(&b, XK_TEXT, 0, "Reagent");
+    xt_col(&b, XK_TEXT, 0, "Wanted product (SMILES or formula)");
+    xt_col(&b, XK_TEXT, 0, "Wanted product (formula)");
+    /* no totals: every row is another route */
+    xt_col(&b, XK_INT, 0, "Runs [count]");
+    xt_col(&b, XK_KG, 0, "Substrate charged [kg]");
+    xt_col(&b, XK_MOL, 0, "Substrate charged [mol]");
+    xt_col(&b, XK_MOL, 0, "Substrate converted [mol]");
+    xt_col(&b, XK_MOL, 0, "Wanted product [mol]");
+    xt_col(&b, XK_KG, 0, "Wanted product [kg]");
+    xt_col(&b, XK_MOL, 0, "Halogen atoms charged [mol]");
+    xt_col(&b, XK_MOL, 0, "Halogen atoms in wanted product [mol]");
+    xt_col(&b, XK_PCT1, 0, "Yield [%%]");
+    xt_col(&b, XK_PCT1, 0, "Substrate conversion [%%]");
+    xt_col(&b, XK_PCT1, 0, "Selectivity to wanted product [%%]");
+    xt_col(&b, XK_PCT1, 0, "Halogen efficiency [%%]");
+    b.fixw[2] = 24;
+    b.fixw[4] = 24;
+    xo_table(w, "Monthly yields", &b);
 }
 
 /* A chart over columns cols[] of the month rows (plain numbers, never the totals row). */
@@ -1473,15 +1702,21 @@ static void xo_monthly(struct xw *w)
     xt_col(&b, XK_TEXT, 0, "Month");
     xt_col(&b, XK_INT, 1, "Runs [count]");
     for (int g = 0; g < RG_COUNT; g++)
-        xt_col(&b, XK_KG, 1, g == RG_NAOH ? "Caustic make-up bought, as solution [kg]" : "%s charged [kg]",
-               xo_item(g));
+        if (g == RG_NAOH)
+            xt_col(&b, XK_KG, 1, "Caustic solution bought, %s [kg]", w->caustic);
+        else
+            xt_col(&b, XK_KG, 1, "%s charged [kg]", xo_item(g));
     for (int s = 0; s < VS_COUNT; s++)
         xt_col(&b, XK_KG, 1, "%s to scrubber [kg]", xo_vent(s));
+    /* both bases where both matter: NaOH the gas consumed and NaOH in the solution bought */
     xt_col(&b, XK_KG, 1, "NaOH consumed, as 100 %% [kg]");
+    xt_col(&b, XK_KG, 1, "NaOH in the caustic bought, as 100 %% [kg]");
+    xt_col(&b, XK_KG, 1, "Dilution water for fresh charges [kg]");
     xt_col(&b, XK_INT, 1, "Liquor changeouts [count]");
     xt_col(&b, XK_KG, 1, "Spent liquor [kg]");
     xt_col(&b, XK_KG, 1, "Succinimide [kg]");
     xo_table(w, "Monthly", &b);
+    xo_month_yields(w); /* its sheet sits between Monthly and Charts */
     if (w->st != HL_OK)
         return;
     if (l->nmonths == 0) {
@@ -1750,6 +1985,7 @@ enum hl_status xlsx_out_write_opt(const struct ledger *l, const char *path, int 
     }
     w->l = l;
     w->e = e;
+    xo_caustic_basis(l, w->caustic, sizeof w->caustic);
     lxw_workbook_options opt = {
         .constant_memory = (uint8_t)(stream > 0 || (stream < 0 && xo_cells(l) > XO_STREAM_CELLS)),
         .tmpdir = dir, .use_zip64 = LXW_FALSE};

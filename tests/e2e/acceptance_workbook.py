@@ -56,11 +56,11 @@ from openpyxl.utils import column_index_from_string, get_column_letter
 T0 = time.time()
 ROOT = os.environ.get("HL_ROOT", os.path.dirname(os.path.dirname(os.path.dirname(os.path.abspath(__file__)))))
 SHEETS = ["Summary", "Runs", "Products", "Liquor by run", "Scrubber units", "Hourly load", "Column check",
-          "Orders", "Waste by run", "Spent liquor", "Monthly", "Charts", "Warnings", "Cautions", "Assumptions"]
+          "Orders", "Waste by run", "Spent liquor", "Monthly", "Monthly yields", "Charts", "Warnings", "Cautions", "Assumptions"]
 # a total column must name one thing (its header starts with one of these) or count something
 TOTAL_OK = ("HCl ", "HBr ", "Cl2 ", "Br2 ", "SO2 ", "SO2Cl2 ", "NBS ", "Succinimide", "NaOH ", "Heat to liquor",
             "Liquor [kg]", "Water [kg]", "NaCl ", "NaBr ", "NaOCl ", "NaOBr ", "Na2SO3 ", "Na2SO4 ",
-            "Spent liquor", "Caustic make-up")
+            "Spent liquor", "Caustic solution bought", "Dilution water")
 # (sheet, header, marker, JSON getter(led, key) -> bool or None, key column)
 ALARMS = [("Runs", "Capped by substrate", "!"), ("Liquor by run", "Cooling needed", "!!"),
           ("Liquor by run", "Below minimum NaOH", "!!"),
@@ -288,6 +288,16 @@ def check_numbers(tag, wb, led):
         for rid, vals in col_values(ws, head).items():
             if rid in runs:
                 check(same(vals[0], fn(runs[rid]), 1e-9), f"{tag} Runs {rid} {head}: {vals[0]!r} vs JSON {fn(runs[rid])!r}")
+    # run figures [%] (design section 5); selectivity blank where the JSON has null
+    for head, key in (("Yield [%]", "yield_pct"), ("Substrate conversion [%]", "conversion_pct"),
+                      ("Selectivity to wanted product [%]", "selectivity_pct"),
+                      ("Halogen efficiency [%]", "halogen_efficiency_pct")):
+        if not check(head in h, f"{tag}: Runs sheet lacks {head!r}"):
+            continue
+        for rid, vals in col_values(ws, head).items():
+            v = runs[rid][key] if rid in runs else None
+            check((v is None and vals[0] is None) or same(vals[0], v, 1e-12) or vals[0] == v == 0,
+                  f"{tag} Runs {rid} {head}: {vals[0]!r} vs JSON {v!r}")
     # Liquor by run (key column A = run): NaOH per run, changeout flag
     ws = wb["Liquor by run"]
     h = header_map(ws)
@@ -317,6 +327,17 @@ def check_numbers(tag, wb, led):
                         ("Hottest liquor, no cooling [°C]", s["max_liquor_temp_c"])):
             g = ws.cell(r, hb[head]).value if head in hb else None
             check(same(g, v) or g == v == 0, f"{tag} Scrubber units {s['id']} {head}: {g!r} vs JSON {v!r}")
+        for head, v in (("Peak heat release [kW]", s["peak_heat_kw"]),
+                        ("Dilution water per changeout [kg]", s["changeout_water_kg"]),
+                        ("Dilution water, all changeouts [kg]", s["dilution_water_kg"])):
+            g = ws.cell(r, hb[head]).value if head in hb else None
+            check(same(g, v) or g == v == 0, f"{tag} Scrubber units {s['id']} {head}: {g!r} vs JSON {v!r}")
+        g = ws.cell(r, hb.get("Runs venting at the heat release peak", 1)).value
+        check((g or "") == ", ".join(s["peak_heat_runs"]), f"{tag} Scrubber units {s['id']} heat peak runs {g!r} vs {s['peak_heat_runs']}")
+        if s["peak_heat_runs"]:
+            g = ws.cell(r, hb.get("Heat release peak from (plant time)", 1)).value
+            check(isinstance(g, dt.datetime) and g.strftime("%Y-%m-%dT%H:%M") == s["peak_heat_at"],
+                  f"{tag} Scrubber units {s['id']} heat peak from {g!r} vs {s['peak_heat_at']}")
         g = ws.cell(r, hb.get("Peak hour start (plant time)", 1)).value
         check(isinstance(g, dt.datetime) and g.strftime("%Y-%m-%dT%H:%M") == s["peak_at"],
               f"{tag} Scrubber units {s['id']} peak hour {g!r} vs {s['peak_at']}")
@@ -396,9 +417,10 @@ def check_numbers(tag, wb, led):
                 g = ws.cell(lab[item], c).value if item in lab else None
                 check(same(g, v) or g == v == 0, f"{tag}: Summary {item} {m['month']} {g!r} vs JSON {v!r}")
     for s in led["scrubbers"]:
-        for k, v in ((f"Peak hourly load at {s['id']} [kmol/h]", s["peak_acid_kmol_h"]),
+        for k, v in ((f"Peak hourly mean load at {s['id']} [kmol/h]", s["peak_acid_kmol_h"]),
                      (f"Peak instantaneous load at {s['id']} [kmol/h]", s["peak_instant_kmol_h"]),
-                     (f"Hottest liquor at {s['id']} [°C]", s["max_liquor_temp_c"])):
+                     (f"Hottest liquor at {s['id']} [°C]", s["max_liquor_temp_c"]),
+                     (f"Peak heat release at {s['id']} [kW]", s["peak_heat_kw"])):
             g = ws.cell(lab[k], 2).value if k in lab else None
             check(same(g, v), f"{tag}: Summary {k} {g!r} vs {v}")
     g = ws.cell(lab["Warnings [count]"], 2).value if "Warnings [count]" in lab else None

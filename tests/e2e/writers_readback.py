@@ -37,7 +37,7 @@ BUILD = os.environ.get("BUILD", "build")
 TOOL = os.path.join(ROOT, BUILD, "tool_writers")
 WRAP = os.environ.get("HL_WRAP", "").split()
 SHEETS = ["Summary", "Runs", "Products", "Liquor by run", "Scrubber units", "Hourly load",
-          "Column check", "Orders", "Waste by run", "Spent liquor", "Monthly", "Charts",
+          "Column check", "Orders", "Waste by run", "Spent liquor", "Monthly", "Monthly yields", "Charts",
           "Warnings", "Cautions", "Assumptions"]
 TABLE_SHEETS = ["Runs", "Products", "Liquor by run", "Scrubber units", "Hourly load",
                 "Column check", "Orders", "Waste by run", "Spent liquor", "Monthly"]
@@ -196,12 +196,12 @@ def body(tmp):
               "Runs!%s holds '=1+1' as a string cell" % ref)
         check(wb["Runs"][ref].data_type == "s", "openpyxl sees Runs!%s as text" % ref)
 
-    # charts: three or four, drawn on the Charts sheet (12th), series on the Monthly month rows
+    # charts: three or four, drawn on the Charts sheet, series on the Monthly month rows
     charts = sorted(n for n in names if re.fullmatch(r"xl/charts/chart\d+\.xml", n))
     check(len(charts) in (3, 4), "three or four chart parts (%s)" % charts)
-    rels = z.read("xl/worksheets/_rels/sheet12.xml.rels").decode() if \
-        "xl/worksheets/_rels/sheet12.xml.rels" in names else ""
-    check("drawing" in rels, "Charts (sheet12) carries the drawing")
+    rel = "xl/worksheets/_rels/sheet%d.xml.rels" % (SHEETS.index("Charts") + 1)
+    rels = z.read(rel).decode() if rel in names else ""
+    check("drawing" in rels, "Charts (%s) carries the drawing" % rel)
     nmonths = len(led["months"])
     mv = wb["Monthly"]
     for ch in charts:
