@@ -79,7 +79,10 @@ struct bal_out {
     double halogen_efficiency_pct;       /* halogen_in_wanted / halogen_charged x 100 */
     double el_in_mol[BAL_NEL], el_out_mol[BAL_NEL];
     double max_rel_error;
-    struct sel_result sel;               /* the selectivity prediction (niso 0 for formula input) */
+    /* the selectivity prediction (niso 0 for formula input); owned by this result after
+     * bal_compute, by the cache after bal_compute_cached (sel_owned 0); NULL after bal_copy */
+    struct sel_result *sel;
+    int sel_owned;
     char warning[320];                   /* "" or why the run is capped / out of range */
 };
 
@@ -89,13 +92,32 @@ struct bal_out {
  * caller: bal_free. */
 enum hl_status bal_compute(const struct bal_in *in, struct bal_out *out, struct hl_err *e);
 
+/* Results shared between the runs of a campaign, so that each is worked out once: the
+ * selectivity prediction per (substrate, wanted product, reagent, temperature, reactivity
+ * overrides), the formulas and molar masses of its products, and the formulas the
+ * element balance counts with. The balances are bit-identical to bal_compute's. */
+struct bal_cache;
+
+/* An empty cache, or NULL when out of memory. Owned by the caller: bal_cache_free. */
+struct bal_cache *bal_cache_new(void);
+
+/* Free a cache and every prediction in it; NULL is fine. Results computed with it keep
+ * their products but their sel pointer dangles afterwards. */
+void bal_cache_free(struct bal_cache *c);
+
+/* Like bal_compute, taking the prediction (and product formulas) from the cache and
+ * adding it there when new; out->sel then belongs to the cache. cache may be NULL
+ * (then exactly bal_compute). */
+enum hl_status bal_compute_cached(const struct bal_in *in, struct bal_cache *cache,
+                                  struct bal_out *out, struct hl_err *e);
+
 /* Deep copy of a computed balance for an identical run (a repeat): products and their
  * structures are duplicated; the selectivity detail (sel) is not carried over (zeroed).
  * dst is owned by the caller (bal_free); on HL_ERR_NOMEM dst is left empty. */
 enum hl_status bal_copy(struct bal_out *dst, const struct bal_out *src, struct hl_err *e);
 
 /* Free what bal_compute allocated (products, their structures, the selectivity
- * result) and zero *out; safe on a zeroed or already freed result. */
+ * result unless a cache owns it) and zero *out; safe on a zeroed or already freed result. */
 void bal_free(struct bal_out *out);
 
 #endif

@@ -12,6 +12,8 @@
 #include "balance.h"
 #include "hlmem.h"
 
+#include <stdint.h>
+
 #include <math.h>
 #include <stdio.h>
 #include <string.h>
@@ -91,6 +93,201 @@ static enum hl_status substrate_from_formula(const struct bal_in *in, struct sel
     return HL_OK;
 }
 
+/* ---- what runs share (bal_cache) ---- */
+
+/* Hill text and molar mass of one product formula. */
+struct bal_formula { char hill[64]; double molar_mass_g_mol; };
+
+/* The built-in formulas the balance counts with. */
+struct bal_consts {
+    struct formula reagent[RG_CHARGEABLE], gas[VS_COUNT], succ;
+    double succ_molar_mass_g_mol;
+};
+
+/* One selectivity prediction and its products' formulas by degree (filled as met). */
+struct bal_entry {
+    struct bal_entry *next;
+    uint64_t hash;
+    char *smiles, *formula, *product_smiles;  /* the key: copies, may be NULL */
+    int reagent;
+    double temp_c;
+    struct sel_reactivity user;                /* set_mask 0: defaults */
+    struct sel_result sel;
+    struct bal_formula prod[KIN_MAX_STEPS + 1];
+    unsigned char known[KIN_MAX_STEPS + 1];
+};
+
+struct bal_cache {
+    struct bal_entry **bucket; size_t nbucket, n;
+    struct bal_consts k;
+    int have_k;
+};
+
+static enum hl_status consts_init(struct bal_consts *k, struct hl_err *e)
+{
+    static const char *const gas_formula[VS_COUNT] = {"HCl", "HBr", "Cl2", "Br2", "SO2"};
+    enum hl_status st = HL_OK;
+    for (int r = 0; r < RG_CHARGEABLE && !st; r++)
+        st = parse_known(reagent_get(r)->formula, &k->reagent[r], e);
+    for (int v = 0; v < VS_COUNT && !st; v++)
+        st = parse_known(gas_formula[v], &k->gas[v], e);
+    if (!st)
+        st = parse_known("C4H5NO2", &k->succ, e);
+    if (!st)
+        k->succ_molar_mass_g_mol = formula_molar_mass_g_mol(&k->succ);
+    return st;
+}
+
+static uint64_t fnv_bytes(uint64_t h, const void *p, size_t n)
+{
+    const unsigned char *b = p;
+    for (size_t i = 0; i < n; i++)
+        h = (h ^ b[i]) * 1099511628211u;
+    return h;
+}
+
+static uint64_t fnv_str(uint64_t h, const char *s)
+{
+    return s ? fnv_bytes(h, s, strlen(s) + 1) : fnv_bytes(h, "", 1) * 31u;
+}
+
+static int same_str(const char *a, const char *b) { return (!a && !b) || (a && b && !strcmp(a, b)); }
+
+/* Everything sel_predict (or the formula path) reads, compared bit for bit. */
+static uint64_t key_hash(const struct bal_in *in, const struct sel_reactivity *u)
+{
+    uint64_t h = 14695981039346656037u;
+    h = fnv_str(h, in->smiles);
+    h = fnv_str(h, in->formula);
+    h = fnv_str(h, in->product_smiles);
+    h = fnv_bytes(h, &in->reagent, sizeof in->reagent);
+    h = fnv_bytes(h, &in->temp_c, sizeof in->temp_c);
+    h = fnv_bytes(h, u->r, sizeof u->r);
+    h = fnv_bytes(h, &u->ref_temp_c, sizeof u->ref_temp_c);
+    return fnv_bytes(h, &u->set_mask, sizeof u->set_mask);
+}
+
+static int key_equal(const struct bal_entry *x, const struct bal_in *in, const struct sel_reactivity *u)
+{
+    return x->reagent == in->reagent && !memcmp(&x->temp_c, &in->temp_c, sizeof x->temp_c) &&
+           !memcmp(x->user.r, u->r, sizeof u->r) &&
+           !memcmp(&x->user.ref_temp_c, &u->ref_temp_c, sizeof u->ref_temp_c) &&
+           x->user.set_mask == u->set_mask && same_str(x->smiles, in->smiles) &&
+           same_str(x->formula, in->formula) && same_str(x->product_smiles, in->product_smiles);
+}
+
+struct bal_cache *bal_cache_new(void)
+{
+    struct bal_cache *c = hl_calloc(1, sizeof *c);
+    if (!c)
+        return NULL;
+    c->nbucket = 256;
+    if (!(c->bucket = hl_calloc(c->nbucket, sizeof *c->bucket))) {
+        hl_free(c);
+        return NULL;
+    }
+    return c;
+}
+
+static void entry_free(struct bal_entry *x)
+{
+    sel_free(&x->sel);
+    hl_free(x->smiles);
+    hl_free(x->formula);
+    hl_free(x->product_smiles);
+    hl_free(x);
+}
+
+void bal_cache_free(struct bal_cache *c)
+{
+    if (!c)
+        return;
+    for (size_t b = 0; b < c->nbucket; b++)
+        for (struct bal_entry *x = c->bucket[b], *nx; x; x = nx) {
+            nx = x->next;
+            entry_free(x);
+        }
+    hl_free(c->bucket);
+    hl_free(c);
+}
+
+/* Double the table when it holds more entries than buckets (chains stay short). */
+static void cache_grow(struct bal_cache *c)
+{
+    size_t nb = c->nbucket * 2;
+    struct bal_entry **nbk = hl_calloc(nb, sizeof *nbk);
+    if (!nbk)
+        return; /* longer chains, same results */
+    for (size_t b = 0; b < c->nbucket; b++)
+        for (struct bal_entry *x = c->bucket[b], *nx; x; x = nx) {
+            nx = x->next;
+            x->next = nbk[x->hash & (nb - 1)];
+            nbk[x->hash & (nb - 1)] = x;
+        }
+    hl_free(c->bucket);
+    c->bucket = nbk;
+    c->nbucket = nb;
+}
+
+/* The prediction for in: from the cache, else computed (and kept when cache is given). */
+static enum hl_status predict_once(const struct bal_in *in, const struct sel_reactivity *user,
+                                   struct bal_cache *c, struct bal_entry **ent,
+                                   struct sel_result *own, struct hl_err *e)
+{
+    *ent = NULL;
+    if (!c)
+        return in->smiles ? sel_predict(in->smiles, in->product_smiles, in->reagent, in->temp_c,
+                                        user->set_mask ? user : NULL, own, e)
+                          : substrate_from_formula(in, own, e);
+    uint64_t h = key_hash(in, user);
+    for (struct bal_entry *x = c->bucket[h & (c->nbucket - 1)]; x; x = x->next)
+        if (x->hash == h && key_equal(x, in, user)) {
+            *ent = x;
+            return HL_OK;
+        }
+    struct bal_entry *x = hl_calloc(1, sizeof *x);
+    if (!x)
+        return hl_err_set(e, HL_ERR_NOMEM, "out of memory");
+    x->hash = h;
+    x->reagent = in->reagent;
+    x->temp_c = in->temp_c;
+    x->user = *user;
+    x->smiles = hl_strdup(in->smiles);
+    x->formula = hl_strdup(in->formula);
+    x->product_smiles = hl_strdup(in->product_smiles);
+    if ((in->smiles && !x->smiles) || (in->formula && !x->formula) ||
+        (in->product_smiles && !x->product_smiles)) {
+        entry_free(x);
+        return hl_err_set(e, HL_ERR_NOMEM, "out of memory");
+    }
+    enum hl_status st = predict_once(in, user, NULL, ent, &x->sel, e);
+    if (st) {
+        entry_free(x); /* errors are not kept: the ledger stops at the first one */
+        return st;
+    }
+    if (c->n >= c->nbucket)
+        cache_grow(c);
+    x->next = c->bucket[h & (c->nbucket - 1)];
+    c->bucket[h & (c->nbucket - 1)] = x;
+    c->n++;
+    *ent = x;
+    return HL_OK;
+}
+
+/* Hill text and molar mass of the degree-d product formula f, from the entry when known. */
+static const struct bal_formula *product_formula(struct bal_entry *x, int d, const struct formula *f,
+                                                 struct bal_formula *scratch)
+{
+    struct bal_formula *out = x ? &x->prod[d] : scratch;
+    if (x && x->known[d])
+        return out;
+    formula_hill(f, out->hill, sizeof out->hill);
+    out->molar_mass_g_mol = formula_molar_mass_g_mol(f);
+    if (x)
+        x->known[d] = 1;
+    return out;
+}
+
 /* Formula of the degree-d product: substitution/NBS trade d H for d X; HBr adds d HBr. */
 static void degree_formula(const struct formula *sub, const struct reagent_info *ri, int d,
                            struct formula *out)
@@ -106,7 +303,7 @@ static void degree_formula(const struct formula *sub, const struct reagent_info 
 }
 
 static enum hl_status push_product(struct bal_out *o, int cap, const char *smiles,
-                                   const struct formula *f, int degree, double mol,
+                                   const struct bal_formula *f, int degree, double mol,
                                    double substrate_mol, enum bal_role role, struct hl_err *e)
 {
     if (o->nproducts >= cap)
@@ -116,9 +313,9 @@ static enum hl_status push_product(struct bal_out *o, int cap, const char *smile
     if (smiles && !(p->smiles = hl_strdup(smiles)))
         return hl_err_set(e, HL_ERR_NOMEM, "out of memory");
     o->nproducts++;
-    formula_hill(f, p->formula, sizeof p->formula);
+    memcpy(p->formula, f->hill, sizeof p->formula);
     p->degree = degree;
-    p->molar_mass_g_mol = formula_molar_mass_g_mol(f);
+    p->molar_mass_g_mol = f->molar_mass_g_mol;
     p->mol = mol;
     p->kg = mol * p->molar_mass_g_mol / 1000.0;
     p->mol_fraction = mol / substrate_mol;
@@ -135,28 +332,21 @@ static void count_elements(double *acc, const struct formula *f, double mol)
 /* Count every element in and out from formulas. formed[] = gas made by the reaction
  * (before the split into vent and retained); unreacted reagent is counted once, as
  * the reagent, whether it vents or stays. */
-static enum hl_status element_balance(const struct reagent_info *ri, struct bal_out *o,
-                                      const struct formula *product_f, const double *formed_mol,
-                                      double succinimide_mol, struct hl_err *e)
+static void element_balance(const struct bal_consts *k, int reagent, struct bal_out *o,
+                            const struct formula *product_f, const double *formed_mol,
+                            double succinimide_mol)
 {
-    static const char *const gas_formula[VS_COUNT] = {"HCl", "HBr", "Cl2", "Br2", "SO2"};
-    struct formula rf, gas, succ;
-    enum hl_status st;
-    if ((st = parse_known(ri->formula, &rf, e)) || (st = parse_known("C4H5NO2", &succ, e)))
-        return st;
+    const struct formula *rf = &k->reagent[reagent];
     memset(o->el_in_mol, 0, sizeof o->el_in_mol);
     memset(o->el_out_mol, 0, sizeof o->el_out_mol);
-    count_elements(o->el_in_mol, &o->sel.substrate, o->substrate_mol);
-    count_elements(o->el_in_mol, &rf, o->reagent_mol);
+    count_elements(o->el_in_mol, &o->sel->substrate, o->substrate_mol);
+    count_elements(o->el_in_mol, rf, o->reagent_mol);
     for (int i = 0; i < o->nproducts; i++)
         count_elements(o->el_out_mol, &product_f[i], o->products[i].mol);
-    for (int v = 0; v < VS_COUNT; v++) {
-        if ((st = parse_known(gas_formula[v], &gas, e)))
-            return st;
-        count_elements(o->el_out_mol, &gas, formed_mol[v]);
-    }
-    count_elements(o->el_out_mol, &succ, succinimide_mol);
-    count_elements(o->el_out_mol, &rf, o->reagent_unreacted_mol);
+    for (int v = 0; v < VS_COUNT; v++)
+        count_elements(o->el_out_mol, &k->gas[v], formed_mol[v]);
+    count_elements(o->el_out_mol, &k->succ, succinimide_mol);
+    count_elements(o->el_out_mol, rf, o->reagent_unreacted_mol);
     double worst = 0.0;
     for (int i = 0; i < BAL_NEL; i++) {
         double a = o->el_in_mol[i], b = o->el_out_mol[i];
@@ -166,19 +356,14 @@ static enum hl_status element_balance(const struct reagent_info *ri, struct bal_
             worst = rel;
     }
     o->max_rel_error = worst;
-    return HL_OK;
 }
 
 /* Yield, conversion, selectivity and halogen efficiency from the products (issue 15.3).
  * Halogen atoms per mole of reagent come from its formula, so Cl2 counts 2 (one goes to
  * HCl), SO2Cl2 2 (one to HCl), NBS and HBr 1: the efficiency is the share of the halogen
  * bought that ends up in the wanted product. */
-static enum hl_status run_figures(const struct reagent_info *ri, struct bal_out *o, struct hl_err *e)
+static void run_figures(const struct reagent_info *ri, const struct formula *rf, struct bal_out *o)
 {
-    struct formula rf;
-    enum hl_status st = parse_known(ri->formula, &rf, e);
-    if (st)
-        return st;
     double unreacted = 0;
     for (int i = 0; i < o->nproducts; i++) {
         const struct bal_product *p = &o->products[i];
@@ -190,33 +375,46 @@ static enum hl_status run_figures(const struct reagent_info *ri, struct bal_out 
         }
     }
     o->converted_mol = fmax(0.0, o->substrate_mol - unreacted);
-    o->halogen_charged_mol = o->reagent_mol * rf.n[ri->halogen_el];
+    o->halogen_charged_mol = o->reagent_mol * rf->n[ri->halogen_el];
     o->yield_pct = o->substrate_mol > 0 ? 100.0 * o->wanted_mol / o->substrate_mol : 0.0;
     o->conversion_pct = o->substrate_mol > 0 ? 100.0 * o->converted_mol / o->substrate_mol : 0.0;
     o->selectivity_defined = o->converted_mol > 0;
     o->selectivity_pct = o->selectivity_defined ? 100.0 * o->wanted_mol / o->converted_mol : 0.0;
     o->halogen_efficiency_pct =
         o->halogen_charged_mol > 0 ? 100.0 * o->halogen_in_wanted_mol / o->halogen_charged_mol : 0.0;
-    return HL_OK;
 }
 
-static enum hl_status compute(const struct bal_in *in, struct bal_out *o, struct hl_err *e)
+static enum hl_status compute(const struct bal_in *in, struct bal_cache *cache, struct bal_out *o,
+                              struct hl_err *e)
 {
     const struct reagent_info *ri = reagent_get(in->reagent);
     if (!ri || in->reagent >= RG_CHARGEABLE)
         return hl_err_at(e, HL_ERR_INPUT, 0, 0, "reagent", "not a reactor reagent");
     enum hl_status st;
+    struct bal_consts local_k;
+    const struct bal_consts *kk = &local_k;
+    if (cache) {
+        if (!cache->have_k && (st = consts_init(&cache->k, e)))
+            return st;
+        cache->have_k = 1;
+        kk = &cache->k;
+    } else if ((st = consts_init(&local_k, e))) {
+        return st;
+    }
     struct sel_reactivity user = in->user;
     if (in->nratios > 0)
         user.set_mask |= SEL_OWN_RATIOS;
-    if (in->smiles)
-        st = sel_predict(in->smiles, in->product_smiles, in->reagent, in->temp_c,
-                         user.set_mask ? &user : NULL, &o->sel, e);
-    else
-        st = substrate_from_formula(in, &o->sel, e);
-    if (st)
+    struct bal_entry *ent = NULL;
+    if (!cache) {
+        if (!(o->sel = hl_calloc(1, sizeof *o->sel)))
+            return hl_err_set(e, HL_ERR_NOMEM, "out of memory");
+        o->sel_owned = 1;
+    }
+    if ((st = predict_once(in, &user, cache, &ent, o->sel, e)))
         return st;
-    struct sel_result *s = &o->sel;
+    if (ent)
+        o->sel = &ent->sel;
+    struct sel_result *s = o->sel;
     o->isomers_resolved = in->smiles != NULL;
     formula_hill(&s->substrate, o->substrate_formula, sizeof o->substrate_formula);
     o->substrate_molar_mass_g_mol = s->molar_mass_g_mol;
@@ -272,8 +470,11 @@ static enum hl_status compute(const struct bal_in *in, struct bal_out *o, struct
         return hl_err_set(e, HL_ERR_NOMEM, "out of memory");
     }
     double n0 = o->substrate_mol;
+    struct bal_formula scratch;
     pf[0] = s->substrate;
-    st = push_product(o, cap, in->smiles, &s->substrate, 0, x[0] * n0, n0, ROLE_UNREACTED, e);
+    st = push_product(o, cap, in->smiles, product_formula(ent, 0, &s->substrate, &scratch), 0,
+                      x[0] * n0, n0, ROLE_UNREACTED, e);
+    const struct bal_formula *f1_text = NULL;
     for (int j = 0; !st && j < s->niso; j++) {
         struct formula f1;
         degree_formula(&s->substrate, ri, 1, &f1);
@@ -282,14 +483,17 @@ static enum hl_status compute(const struct bal_in *in, struct bal_out *o, struct
             break;
         }
         pf[o->nproducts] = f1;
-        st = push_product(o, cap, s->iso[j].smiles, &f1, 1, x[1] * s->iso[j].fraction * n0, n0,
+        if (!f1_text)
+            f1_text = product_formula(ent, 1, &f1, &scratch);
+        st = push_product(o, cap, s->iso[j].smiles, f1_text, 1, x[1] * s->iso[j].fraction * n0, n0,
                           j == s->wanted ? ROLE_WANTED : ROLE_ISOMER, e);
     }
     for (int d = 2; !st && d <= nsteps; d++) {
         struct formula fd;
         degree_formula(&s->substrate, ri, d, &fd);
         pf[o->nproducts] = fd;
-        st = push_product(o, cap, s->over_smiles[d], &fd, d, x[d] * n0, n0, ROLE_OVERHAL, e);
+        st = push_product(o, cap, s->over_smiles[d], product_formula(ent, d, &fd, &scratch), d,
+                          x[d] * n0, n0, ROLE_OVERHAL, e);
     }
     if (st) {
         hl_free(pf);
@@ -314,12 +518,7 @@ static enum hl_status compute(const struct bal_in *in, struct bal_out *o, struct
     o->hx_kg[1] = formed[VS_HBR] * vent_molar_mass_g_mol(VS_HBR) / 1000.0;
     o->so2_kg = formed[VS_SO2] * vent_molar_mass_g_mol(VS_SO2) / 1000.0;
     double succ_mol = ri->succinimide_mol * o->reagent_reacted_mol;
-    struct formula succ;
-    if ((st = parse_known("C4H5NO2", &succ, e))) {
-        hl_free(pf);
-        return st;
-    }
-    o->succinimide_kg = succ_mol * formula_molar_mass_g_mol(&succ) / 1000.0;
+    o->succinimide_kg = succ_mol * kk->succ_molar_mass_g_mol / 1000.0;
     double leaving[VS_COUNT];
     memcpy(leaving, formed, sizeof leaving);
     if (ri->unreacted_vent >= 0)
@@ -331,10 +530,9 @@ static enum hl_status compute(const struct bal_in *in, struct bal_out *o, struct
         o->retained_mol[v] = acid ? leaving[v] * keep : 0.0;
         o->vent_mol[v] = leaving[v] - o->retained_mol[v];
     }
-    st = element_balance(ri, o, pf, formed, succ_mol, e);
+    element_balance(kk, in->reagent, o, pf, formed, succ_mol);
     hl_free(pf);
-    if (!st)
-        st = run_figures(ri, o, e);
+    run_figures(ri, &kk->reagent[in->reagent], o);
     if (!st && !o->warning[0] && s->warning[0])
         snprintf(o->warning, sizeof o->warning, "%s", s->warning);
     /* SO2Cl2 boils at about 69 C (from memory): above that, unreacted reagent the ledger
@@ -349,19 +547,26 @@ static enum hl_status compute(const struct bal_in *in, struct bal_out *o, struct
     return st;
 }
 
-enum hl_status bal_compute(const struct bal_in *in, struct bal_out *o, struct hl_err *e)
+enum hl_status bal_compute_cached(const struct bal_in *in, struct bal_cache *cache,
+                                  struct bal_out *o, struct hl_err *e)
 {
     memset(o, 0, sizeof *o);
-    enum hl_status st = compute(in, o, e);
+    enum hl_status st = compute(in, cache, o, e);
     if (st)
         bal_free(o);
     return st;
 }
 
+enum hl_status bal_compute(const struct bal_in *in, struct bal_out *o, struct hl_err *e)
+{
+    return bal_compute_cached(in, NULL, o, e);
+}
+
 enum hl_status bal_copy(struct bal_out *dst, const struct bal_out *src, struct hl_err *e)
 {
     *dst = *src;
-    memset(&dst->sel, 0, sizeof dst->sel);
+    dst->sel = NULL;
+    dst->sel_owned = 0;
     dst->products = hl_calloc((size_t)(src->nproducts ? src->nproducts : 1), sizeof *dst->products);
     dst->nproducts = 0;
     if (!dst->products)
@@ -386,6 +591,9 @@ void bal_free(struct bal_out *o)
     for (int i = 0; i < o->nproducts; i++)
         hl_free(o->products[i].smiles);
     hl_free(o->products);
-    sel_free(&o->sel);
+    if (o->sel_owned) {
+        sel_free(o->sel);
+        hl_free(o->sel);
+    }
     memset(o, 0, sizeof *o);
 }

@@ -226,9 +226,9 @@ static enum hl_status run_assumptions(struct ledger *l, const struct bal_in *in,
     enum hl_status st = HL_OK;
     const char *rg = reagent_get(in->reagent)->name;
     char what[160];
-    for (int j = 0; j < b->sel.nused && !st; j++)
-        st = assume(l, e, b->sel.used[j].what, 1, b->sel.used[j].value, b->sel.used[j].unit,
-                    b->sel.used[j].origin);
+    for (int j = 0; b->sel && j < b->sel->nused && !st; j++)
+        st = assume(l, e, b->sel->used[j].what, 1, b->sel->used[j].value, b->sel->used[j].unit,
+                    b->sel->used[j].origin);
     if (st)
         return st;
     if (in->nratios > 0) {
@@ -318,9 +318,13 @@ static enum hl_status balance_runs(const struct campaign *c, struct ledger *l, d
     /* first[s] = ledger index of the first run of campaign entry s: its repeats are the
      * same batch at another time, so their balance is copied rather than recomputed */
     int *first = hl_malloc((size_t)nsrc * sizeof *first);
-    if (!sorted || !l->runs || !first) {
+    /* runs with the same substrate, reagent, temperature and model share one selectivity
+     * prediction and their product formulas (bit-identical balances, computed once) */
+    struct bal_cache *cache = bal_cache_new();
+    if (!sorted || !l->runs || !first || !cache) {
         hl_free(sorted);
         hl_free(first);
+        bal_cache_free(cache);
         return nomem(e);
     }
     for (int s = 0; s < nsrc; s++)
@@ -366,7 +370,7 @@ static enum hl_status balance_runs(const struct campaign *c, struct ledger *l, d
             lr->other_rows = l->runs[twin].other_rows;
             lr->other_mean_degree = l->runs[twin].other_mean_degree;
         } else {
-            st = bal_compute(&in, &lr->bal, e);
+            st = bal_compute_cached(&in, cache, &lr->bal, e);
             if (st == HL_ERR_INPUT)
                 st = blame_run(c, r, e);
             if (!st) {
@@ -375,7 +379,7 @@ static enum hl_status balance_runs(const struct campaign *c, struct ledger *l, d
             }
             if (!st)
                 st = warn_defaults(l, r, &lr->bal, e);
-            sel_free(&lr->bal.sel); /* the products hold what the writers need */
+            lr->bal.sel = NULL; /* the cache's; the products hold what the writers need */
             if (!st && min_frac > 0)
                 lump_products(lr, min_frac);
         }
@@ -384,6 +388,7 @@ static enum hl_status balance_runs(const struct campaign *c, struct ledger *l, d
     }
     hl_free(sorted);
     hl_free(first);
+    bal_cache_free(cache);
     return st;
 }
 
