@@ -40,7 +40,16 @@
  *             halogen_conversion [1e-6,1] = 1; temp_c [-80,400] = 25; feed_h [1/60,8760] = 1;
  *             peak_factor [1,1000] = 1; vent_retained_fraction [0,1) = 0;
  *             reactor_mode "batch"|"cstr" = batch;
- *             repeat {count 1..10000 R, every_days [1/1440,3650] R}; model.
+ *             repeat {count 1..10000 R, every_days [1/1440,3650] R}; model;
+ *             actual (struct camp_actual; not on an entry with repeat: an actual is one batch's).
+ *  actual:    status "done"|"cancelled" (absent = still planned; then only note may be given);
+ *             reagent_kg [1e-3,1e9) (done only); product_kg, naoh_kg [0,1e9) (done only);
+ *             end (ISO date, not before start); note.
+ *  deliveries: reagent R (incl. "NaOH"); kg [1e-3,1e9) R (usable); date R; status
+ *             "ordered"|"received" R; ref (1..100 bytes); note.
+ *  counts:    reagent R (a chargeable reagent, not NaOH); date R, not before the day of the
+ *             earliest run start; kg [0,1e9) R; note; one count per reagent and date.
+ *  tolerances: reagent_pct = 5, product_pct = 10, stock_pct = 2, each [0,1000]; note.
  *  model:     relative_reactivity {primary, secondary, tertiary, allylic, benzylic [1e-6,1e6];
  *             ref_temp_c [-80,400]}; overhalogenation_factor [1e-3,1000]; rate_ratios: 1..64
  *             numbers in [1e-6,1e6], the first = 1 (step 0 is the reference).  All optional.
@@ -142,6 +151,24 @@ struct camp_container {
     struct camp_pos pos;
 };
 
+/* What happened to a run (runs[].actual, and the actual_* columns of a schedule): filled
+ * only through camp_actual_* in campaign.c, so every reader validates it the same way. */
+enum camp_status { CAMP_PLANNED = 0, CAMP_DONE, CAMP_CANCELLED };
+enum camp_actual_bit {
+    CAMP_ACT_REAGENT_KG = 1u << 0, CAMP_ACT_PRODUCT_KG = 1u << 1, CAMP_ACT_NAOH_KG = 1u << 2,
+    CAMP_ACT_END = 1u << 3
+};
+struct camp_actual {
+    enum camp_status status;    /* CAMP_PLANNED when no actual is given */
+    unsigned given;             /* enum camp_actual_bit: which figures were given */
+    double reagent_kg;          /* drawn from the container (weighed before and after) */
+    double product_kg;          /* wanted product isolated, as 100 % */
+    double naoh_kg;             /* caustic consumed in the scrubber (titration), as 100 % NaOH */
+    int64_t end_min;            /* isodate minutes */
+    struct camp_pos pos;        /* of the actual block (0:0 when none) */
+    struct camp_pos pos_status; /* of its status value (= pos when absent) */
+};
+
 #define CAMP_DEFAULT_FEED_H 1u /* feed_h not given: 1 h (sets the vent rate and peak) */
 #define CAMP_DEFAULT_TEMP 2u   /* temp_c not given: 25 C (sets isomer shares) */
 
@@ -174,7 +201,30 @@ struct camp_run {
     /* escape maps of smiles, formula and product_smiles (pos as the pos_* above) */
     struct camp_strpos sp_smiles, sp_formula, sp_product_smiles;
     int own_model;              /* 1 if the run has a model block of its own */
+    struct camp_actual actual;  /* status CAMP_PLANNED when none */
 };
+
+struct camp_delivery {
+    int reagent;                /* enum reagent_id (RG_NAOH allowed: caustic make-up) */
+    double kg;                  /* usable content */
+    int64_t date_min;           /* due (ordered) or received */
+    int received;               /* 1 received, 0 ordered (placed, not yet arrived) */
+    char *ref;                  /* may be NULL */
+    struct camp_pos pos;
+};
+
+struct camp_count {
+    int reagent;                /* a chargeable enum reagent_id */
+    int64_t date_min;
+    double kg;                  /* weighed containers less heel */
+    struct camp_pos pos, pos_date;
+};
+
+/* Flag limits of the month close, in per cent (defaults: common practice, see campaign.c). */
+struct camp_tolerances { double reagent_pct, product_pct, stock_pct; };
+#define CAMP_DEFAULT_REAGENT_PCT 5.0
+#define CAMP_DEFAULT_PRODUCT_PCT 10.0
+#define CAMP_DEFAULT_STOCK_PCT 2.0
 
 enum camp_paper { CAMP_PAPER_A4, CAMP_PAPER_LETTER };
 
@@ -188,6 +238,9 @@ struct campaign {
     struct camp_stock *stock; int nstock;
     struct camp_container *containers; int ncontainers; /* campaign entries, then catalog ones not overridden */
     struct camp_run *runs; int nruns;                   /* expanded, file order */
+    struct camp_delivery *deliveries; int ndeliveries; /* file order */
+    struct camp_count *counts; int ncounts;            /* file order */
+    struct camp_tolerances tolerances;                 /* defaults where not given */
     int has_model;              /* 1 if a campaign-level model block is given */
     struct camp_pos pos_model;  /* of that block's opening brace */
 };

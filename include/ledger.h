@@ -17,6 +17,29 @@ struct campaign; /* campaign.h: only ledger_build reads it; writers never see it
 #include "reagents.h"
 #include "scrubber.h"
 
+/* What happened to a run (the campaign's runs[].actual): status and the figures given. */
+enum ledger_status { LEDGER_PLANNED = 0, LEDGER_DONE, LEDGER_CANCELLED };
+enum ledger_actual_bit { LEDGER_ACT_REAGENT = 1u, LEDGER_ACT_PRODUCT = 2u, LEDGER_ACT_NAOH = 4u,
+                         LEDGER_ACT_END = 8u };
+struct ledger_actual {
+    int status;                          /* enum ledger_status */
+    unsigned given;                      /* enum ledger_actual_bit */
+    double reagent_kg, product_kg, naoh_kg; /* drawn, isolated (as 100 %), consumed (as 100 %) */
+    int64_t end_min;
+};
+
+/* Plan against actual of a done run (runs[].variance). The plan side comes from the balance
+ * of the run as planned; each difference is actual - plan, in kg and in per cent of the plan,
+ * present only where the actual gives the figure (has_*). */
+struct ledger_variance {
+    double reagent_kg_plan, product_kg_plan, naoh_kg_plan, yield_pct_plan;
+    int has_reagent, has_product, has_naoh;
+    double reagent_kg, reagent_pct, product_kg, product_pct, naoh_kg, naoh_pct;
+    int naoh_pct_defined;                /* 0: nothing planned to the caustic */
+    double yield_pct_actual;             /* has_product: mol wanted isolated per mol substrate x 100 */
+    int flagged;                         /* reagent or product outside its tolerance */
+};
+
 struct ledger_run {
     char *id, *reactor, *scrubber, *substrate_name, *smiles; /* owned; reactor/scrubber/name/smiles may be NULL */
     int scrubber_index;                  /* into ledger.scrubbers, -1 = none */
@@ -32,6 +55,37 @@ struct ledger_run {
     double changeout_caustic_solution_kg, changeout_water_kg;
     int other_rows;                      /* products summed into the ROLE_OTHER row, 0 = none */
     double other_mean_degree;            /* mol-weighted mean degree of that row */
+    /* The balance (bal) is that of the actual draw where a done run gives reagent_kg, all zero
+     * for a cancelled run (nothing charged, drawn or vented), else the plan. */
+    struct ledger_actual actual;
+    struct ledger_variance var;          /* status LEDGER_DONE only */
+};
+
+/* A stock count held against the book (stock_checks[]). The book starts from the previous
+ * count of the reagent (else stock[].on_hand_kg, else 0) at since_min, adds the deliveries
+ * received after it up to the count (on the count's time included) and takes off what the
+ * runs starting from since_min to before the count drew (actual draw where known, else the
+ * plan; a cancelled run nothing). */
+struct ledger_stock_check {
+    int reagent;
+    int64_t date_min, since_min;         /* since_min: of the previous count (has_since) */
+    int has_since;                       /* 0: the book starts at the start of the campaign */
+    double start_kg, received_kg, drawn_kg, book_kg, counted_kg;
+    double unexplained_kg;               /* book - counted: positive = missing */
+    double unexplained_pct;              /* of drawn_kg; pct_defined 0 when nothing was drawn */
+    int pct_defined;
+    int flagged;                         /* outside the stock tolerance */
+};
+
+/* A month's close: runs by status, and plan against actual over the runs with an actual
+ * (done or cancelled). Actual figures of a done run: the measured value where given, else the
+ * model's (its draw at plan, the wanted product and NaOH of its balance); a cancelled run's 0. */
+struct ledger_month_close {
+    int done, cancelled, planned;
+    int closed;                          /* every run of the month has an actual */
+    double reagent_plan_kg[RG_COUNT], reagent_actual_kg[RG_COUNT];
+    double product_plan_kg, product_actual_kg, naoh_plan_kg, naoh_actual_kg;
+    double unexplained_kg[RG_COUNT];     /* of the stock checks dated in the month */
 };
 
 /* One month's figures for one route: runs with the same substrate, reagent and wanted
@@ -63,6 +117,7 @@ struct ledger_month {
      * [kg of solution], the NaOH in it [kg as 100 %], dilution water for the fresh charges [kg] */
     double caustic_solution_kg, caustic_solution_naoh_kg, dilution_water_kg;
     struct ledger_month_product *products; int nproducts; /* owned, in order of first run */
+    struct ledger_month_close close;
 };
 
 struct ledger_scrubber {
@@ -88,6 +143,8 @@ struct ledger {
     struct ledger_month *months; int nmonths;
     struct ord_line *orders; int norders;
     struct ledger_scrubber *scrubbers; int nscrubbers;
+    struct ledger_stock_check *stock_checks; int nstock_checks; /* by date, then reagent */
+    double tol_reagent_pct, tol_product_pct, tol_stock_pct; /* the campaign's tolerances */
     struct ledger_warning *warnings; int nwarnings;
     struct ledger_assumption *assumptions; int nassumptions;
     unsigned cautions_mask;              /* bit enum caution_id set for every substance in play */
@@ -109,7 +166,8 @@ struct ledger_opts {
 /* Build the ledger of a validated campaign. Each run's over-halogenated products below
  * the reporting threshold are replaced by one ROLE_OTHER row (their mol, kg and
  * mol_fraction summed; degree = the lowest degree summed) at the end of bal.products;
- * every total and the element balance are taken before, over all products. Model input
+ * every total and the element balance are taken before, over all products. An actual of a
+ * done run starting after the day of o->today_min is HL_ERR_INPUT at its status. Model input
  * errors (a bad SMILES, NBS on a substrate without allylic H) come back as HL_ERR_INPUT
  * with e->line/col/field pointing into the campaign file. *out owned by the caller (ledger_free). */
 enum hl_status ledger_build(const struct campaign *c, const struct ledger_opts *o,

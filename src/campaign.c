@@ -1316,11 +1316,12 @@ static enum hl_status parse_container(struct vctx *c, const cJSON *o, struct cam
 
 /* runs */
 enum { RK_ID, RK_START, RK_REACTOR, RK_SCRUB, RK_SUBSTRATE, RK_PRODUCT, RK_SUBKG, RK_REAGENT, RK_EQ,
-       RK_KG, RK_CONV, RK_TEMP, RK_FEED, RK_PEAK, RK_VENT, RK_MODE, RK_REPEAT, RK_MODEL, RK_NOTE, RK_N };
+       RK_KG, RK_CONV, RK_TEMP, RK_FEED, RK_PEAK, RK_VENT, RK_MODE, RK_REPEAT, RK_MODEL, RK_NOTE,
+       RK_ACTUAL, RK_N };
 static const char *const run_keys[RK_N] = {
     "id", "start", "reactor", "scrubber", "substrate", "product_smiles", "substrate_kg", "reagent",
     "reagent_eq", "reagent_kg", "halogen_conversion", "temp_c", "feed_h", "peak_factor",
-    "vent_retained_fraction", "reactor_mode", "repeat", "model", "note"};
+    "vent_retained_fraction", "reactor_mode", "repeat", "model", "note", "actual"};
 enum { UK_NAME, UK_SMILES, UK_FORMULA, UK_N };
 static const char *const sub_keys[UK_N] = {"name", "smiles", "formula"};
 enum { PK_COUNT, PK_EVERY, PK_N };
@@ -1422,6 +1423,97 @@ struct reader {
     struct idset scrub_ids;
     size_t runs_cap;
 };
+
+/* ---- run actuals: what happened to a run.  The one place their fields are named, ranged
+ * and checked against each other, so that a schedule's actual_* columns go through the
+ * same rules as runs[].actual: fill a struct camp_actual with actual_field() per value,
+ * then actual_conflict() once. ---- */
+enum { AC_STATUS, AC_REAGENT, AC_PRODUCT, AC_NAOH, AC_END, AC_NOTE, AC_N };
+static const char *const actual_keys[AC_N] = {"status", "reagent_kg", "product_kg", "naoh_kg", "end",
+                                              "note"};
+static const char *const status_names[2] = {"done", "cancelled"};
+/* The figures' ranges: a done run's draw has the floor of a charge (1 g), since the balance
+ * is computed from it; product and caustic may be 0 (a batch that made nothing). */
+static const struct rng R_ACTUAL_DRAW = {1e-3, 1e9, 0, 1, "a run that drew less than 1 g drew "
+                                         "nothing: give status \"cancelled\"", NULL};
+
+/* Store value x (already range-checked with actual_range) of figure key k. */
+static void actual_set_num(struct camp_actual *a, int k, double x)
+{
+    if (k == AC_REAGENT) { a->reagent_kg = x; a->given |= CAMP_ACT_REAGENT_KG; }
+    if (k == AC_PRODUCT) { a->product_kg = x; a->given |= CAMP_ACT_PRODUCT_KG; }
+    if (k == AC_NAOH) { a->naoh_kg = x; a->given |= CAMP_ACT_NAOH_KG; }
+}
+
+static struct rng actual_range(int k) { return k == AC_REAGENT ? R_ACTUAL_DRAW : R_NONNEG_KG; }
+
+/* After every field of run r's actual is read: the key to blame (AC_*) with why in msg, or
+ * -1 when the fields agree. */
+static int actual_conflict(const struct camp_run *r, const struct camp_actual *a, char *msg, size_t n)
+{
+    static const unsigned bit[AC_N] = {0, CAMP_ACT_REAGENT_KG, CAMP_ACT_PRODUCT_KG, CAMP_ACT_NAOH_KG,
+                                       CAMP_ACT_END, 0};
+    for (int k = AC_REAGENT; k <= AC_END; k++) {
+        if (!(a->given & bit[k]))
+            continue;
+        if (a->status == CAMP_PLANNED) {
+            snprintf(msg, n, "a run still planned has no measured figures: give \"status\": \"done\" "
+                     "(or \"cancelled\")");
+            return k;
+        }
+        if (a->status == CAMP_CANCELLED && k != AC_END) {
+            snprintf(msg, n, "a cancelled run draws nothing and makes nothing: give \"status\": "
+                     "\"done\" for a run that drew reagent");
+            return k;
+        }
+    }
+    if ((a->given & CAMP_ACT_END) && a->end_min < r->start_min) {
+        char when[24];
+        isodate_format(r->start_min, 0, when, sizeof when);
+        snprintf(msg, n, "the run ends before it starts (%s)", when);
+        return AC_END;
+    }
+    return -1;
+}
+
+static enum hl_status parse_actual(struct vctx *c, const cJSON *m, struct camp_run *r)
+{
+    struct camp_actual *a = &r->actual;
+    size_t old = push_key(c, "actual");
+    const cJSON *k[AC_N];
+    enum hl_status st = members(c, m, actual_keys, AC_N, k);
+    if (st)
+        return st;
+    a->pos = a->pos_status = pos_of(c, m);
+    int status = 0;
+    if (k[AC_STATUS]) {
+        if ((st = get_enum(c, k[AC_STATUS], status_names, 2, &status)))
+            return st;
+        a->status = status ? CAMP_CANCELLED : CAMP_DONE;
+        a->pos_status = pos_of(c, k[AC_STATUS]);
+    }
+    for (int j = AC_REAGENT; j <= AC_NAOH; j++) {
+        double x;
+        if (k[j] && (st = get_num(c, k[j], actual_range(j), &x)))
+            return st;
+        if (k[j])
+            actual_set_num(a, j, x);
+    }
+    const char *note;
+    if ((k[AC_END] && (st = get_date(c, k[AC_END], &a->end_min))) ||
+        (k[AC_NOTE] && (st = get_str(c, k[AC_NOTE], 0, MAX_TEXT, &note))))
+        return st;
+    if (k[AC_END])
+        a->given |= CAMP_ACT_END;
+    char msg[200];
+    int bad = actual_conflict(r, a, msg, sizeof msg);
+    if (bad >= 0) {
+        push_key(c, actual_keys[bad]);
+        return verr(c, k[bad], 0, "%s", msg);
+    }
+    pop(c, old);
+    return HL_OK;
+}
 
 static enum hl_status parse_run(struct reader *rd, const cJSON *o, int idx, struct camp_run *r,
                                 long *count, double *every_days)
@@ -1560,6 +1652,13 @@ static enum hl_status parse_run(struct reader *rd, const cJSON *o, int idx, stru
     merge_model(&r->model, &rd->model);
     const char *note;
     if (k[RK_NOTE] && (st = get_str(c, k[RK_NOTE], 0, MAX_TEXT, &note)))
+        return st;
+    if (k[RK_ACTUAL] && k[RK_REPEAT]) {
+        push_key(c, "actual");
+        return verr(c, k[RK_ACTUAL], 1, "an actual belongs to one batch, not to every copy of a "
+                    "repeat: give the runs that have happened entries of their own");
+    }
+    if (k[RK_ACTUAL] && (st = parse_actual(c, k[RK_ACTUAL], r)))
         return st;
     return HL_OK;
 }
@@ -1795,9 +1894,153 @@ static enum hl_status parse_runs(struct reader *rd, const cJSON *arr)
 
 /* top level */
 enum { GK_FORMAT, GK_TITLE, GK_SITE, GK_ISSUED, GK_MODEL, GK_SCRUB, GK_STOCK, GK_CONT, GK_RUNS, GK_NOTE,
-       GK_REPORT, GK_N };
+       GK_REPORT, GK_DELIV, GK_COUNTS, GK_TOL, GK_N };
 static const char *const top_keys[GK_N] = {"format", "title", "site", "issued", "model", "scrubbers",
-                                           "stock", "containers", "runs", "note", "report"};
+                                           "stock", "containers", "runs", "note", "report",
+                                           "deliveries", "counts", "tolerances"};
+
+/* ---- month close: deliveries, stock counts, tolerances ---- */
+enum { DK_REAGENT, DK_KG, DK_DATE, DK_STATUS, DK_REF, DK_NOTE, DK_N };
+static const char *const deliv_keys[DK_N] = {"reagent", "kg", "date", "status", "ref", "note"};
+static const char *const deliv_status[2] = {"ordered", "received"};
+
+static enum hl_status parse_delivery(struct vctx *c, const cJSON *o, struct camp_delivery *d)
+{
+    const cJSON *k[DK_N];
+    enum hl_status st = members(c, o, deliv_keys, DK_N, k);
+    if (st)
+        return st;
+    d->pos = pos_of(c, o);
+    int recv = 0;
+    const char *note;
+    if ((!k[DK_REAGENT] && (st = missing(c, o, "reagent", NULL))) ||
+        (st = get_reagent(c, k[DK_REAGENT], 1, &d->reagent)) ||
+        (!k[DK_KG] && (st = missing(c, o, "kg", "the usable content delivered"))) ||
+        (st = get_num(c, k[DK_KG], R_CHARGE_KG, &d->kg)) ||
+        (!k[DK_DATE] && (st = missing(c, o, "date", "due date (ordered) or day received"))) ||
+        (st = get_date(c, k[DK_DATE], &d->date_min)) ||
+        (!k[DK_STATUS] && (st = missing(c, o, "status", "\"ordered\" or \"received\""))) ||
+        (st = get_enum(c, k[DK_STATUS], deliv_status, 2, &recv)) ||
+        (k[DK_REF] && (st = dup_str(c, k[DK_REF], T_TEXT | T_NONEMPTY, MAX_ID, &d->ref))) ||
+        (k[DK_NOTE] && (st = get_str(c, k[DK_NOTE], 0, MAX_TEXT, &note))))
+        return st;
+    d->received = recv;
+    return HL_OK;
+}
+
+enum { CN_REAGENT, CN_DATE, CN_KG, CN_NOTE, CN_N };
+static const char *const count_keys[CN_N] = {"reagent", "date", "kg", "note"};
+
+/* A count is a stock check against the book, which starts from stock[].on_hand_kg on the day
+ * of the earliest run: a count before that day has no book to be held against. */
+static enum hl_status parse_count(struct vctx *c, const cJSON *o, int64_t first_day_min,
+                                  struct camp_count *n)
+{
+    const cJSON *k[CN_N];
+    enum hl_status st = members(c, o, count_keys, CN_N, k);
+    if (st)
+        return st;
+    n->pos = pos_of(c, o);
+    const char *note;
+    if ((!k[CN_REAGENT] && (st = missing(c, o, "reagent", NULL))) ||
+        (st = get_reagent(c, k[CN_REAGENT], 0, &n->reagent)) ||
+        (!k[CN_DATE] && (st = missing(c, o, "date", NULL))) ||
+        (st = get_date(c, k[CN_DATE], &n->date_min)) ||
+        (!k[CN_KG] && (st = missing(c, o, "kg", "weighed containers less heel"))) ||
+        (st = get_num(c, k[CN_KG], R_NONNEG_KG, &n->kg)) ||
+        (k[CN_NOTE] && (st = get_str(c, k[CN_NOTE], 0, MAX_TEXT, &note))))
+        return st;
+    n->pos_date = pos_of(c, k[CN_DATE]);
+    if (n->date_min < first_day_min) {
+        char day[24];
+        isodate_format(first_day_min, 1, day, sizeof day);
+        push_key(c, "date");
+        return verr(c, k[CN_DATE], 0, "the count is dated before the campaign, which starts %s "
+                    "(the day of its earliest run): the book starts from stock[].on_hand_kg then",
+                    day);
+    }
+    return HL_OK;
+}
+
+enum { TL_REAGENT, TL_PRODUCT, TL_STOCK, TL_NOTE, TL_N };
+static const char *const tol_keys[TL_N] = {"reagent_pct", "product_pct", "stock_pct", "note"};
+
+static enum hl_status parse_tolerances(struct vctx *c, const cJSON *m, struct camp_tolerances *t)
+{
+    const cJSON *k[TL_N];
+    size_t old = push_key(c, "tolerances");
+    enum hl_status st = members(c, m, tol_keys, TL_N, k);
+    if (st)
+        return st;
+    const struct rng rpct = {0, 1000, 0, 0, NULL, NULL};
+    const char *note;
+    if ((k[TL_REAGENT] && (st = get_num(c, k[TL_REAGENT], rpct, &t->reagent_pct))) ||
+        (k[TL_PRODUCT] && (st = get_num(c, k[TL_PRODUCT], rpct, &t->product_pct))) ||
+        (k[TL_STOCK] && (st = get_num(c, k[TL_STOCK], rpct, &t->stock_pct))) ||
+        (k[TL_NOTE] && (st = get_str(c, k[TL_NOTE], 0, MAX_TEXT, &note))))
+        return st;
+    pop(c, old);
+    return HL_OK;
+}
+
+/* deliveries[], counts[] and tolerances, read after the runs (a count needs the first run day) */
+static enum hl_status parse_close(struct vctx *c, struct campaign *cp, const cJSON *deliv,
+                                  const cJSON *counts, const cJSON *tol)
+{
+    enum hl_status st;
+    if (tol && (st = parse_tolerances(c, tol, &cp->tolerances)))
+        return st;
+    if (deliv) {
+        if ((st = check_array(c, deliv, 0)))
+            return st;
+        cp->deliveries = hl_calloc((size_t)cJSON_GetArraySize(deliv) + 1, sizeof *cp->deliveries);
+        if (!cp->deliveries)
+            return hl_err_set(c->e, HL_ERR_NOMEM, "out of memory reading the campaign");
+        size_t old = push_key(c, "deliveries");
+        int idx = 0;
+        for (const cJSON *o = deliv->child; o; o = o->next, idx++) {
+            size_t o2 = push_index(c, idx);
+            cp->ndeliveries = idx + 1; /* so camp_free sees a half-read entry */
+            if ((st = parse_delivery(c, o, &cp->deliveries[idx])))
+                return st;
+            pop(c, o2);
+        }
+        pop(c, old);
+    }
+    if (counts) {
+        if ((st = check_array(c, counts, 0)))
+            return st;
+        cp->counts = hl_calloc((size_t)cJSON_GetArraySize(counts) + 1, sizeof *cp->counts);
+        if (!cp->counts)
+            return hl_err_set(c->e, HL_ERR_NOMEM, "out of memory reading the campaign");
+        int64_t first = cp->runs[0].start_min;
+        for (int i = 1; i < cp->nruns; i++)
+            if (cp->runs[i].start_min < first)
+                first = cp->runs[i].start_min;
+        first = floor_to(first, DAY_MIN);
+        size_t old = push_key(c, "counts");
+        int idx = 0;
+        for (const cJSON *o = counts->child; o; o = o->next, idx++) {
+            size_t o2 = push_index(c, idx);
+            struct camp_count *n = &cp->counts[idx];
+            if ((st = parse_count(c, o, first, n)))
+                return st;
+            cp->ncounts = idx + 1;
+            /* a quadratic scan: counts are a few a month */
+            for (int j = 0; j < idx; j++)
+                if (cp->counts[j].reagent == n->reagent && cp->counts[j].date_min == n->date_min) {
+                    const cJSON *dn = cJSON_GetObjectItemCaseSensitive(o, "date");
+                    push_key(c, "date");
+                    return verr(c, dn, 0, "a second count of %s at this time (first at %d:%d)",
+                                reagent_get(n->reagent)->name, cp->counts[j].pos.line,
+                                cp->counts[j].pos.col);
+                }
+            pop(c, o2);
+        }
+        pop(c, old);
+    }
+    return HL_OK;
+}
 /* report: how the ledgers are laid out (not what they compute) */
 enum { OK_PAPER, OK_MINFRAC, OK_NOTE, OK_N };
 static const char *const report_keys[OK_N] = {"paper", "min_mol_fraction", "note"};
@@ -1985,9 +2228,9 @@ static enum hl_status parse_top(struct reader *rd, const cJSON *root)
     }
     if (!k[GK_RUNS])
         return missing(c, root, "runs", NULL);
-    if ((st = check_array(c, k[GK_RUNS], 1)))
+    if ((st = check_array(c, k[GK_RUNS], 1)) || (st = parse_runs(rd, k[GK_RUNS])))
         return st;
-    return parse_runs(rd, k[GK_RUNS]);
+    return parse_close(c, cp, k[GK_DELIV], k[GK_COUNTS], k[GK_TOL]);
 }
 
 enum hl_status camp_parse(const char *text, size_t len, const char *path, const char *catalog_text,
@@ -2002,6 +2245,11 @@ enum hl_status camp_parse(const char *text, size_t len, const char *path, const 
         return hl_err_set(e, HL_ERR_NOMEM, "out of memory reading the campaign");
     cp->issued_min = -1;
     cp->report_min_mol_fraction = -1;
+    /* common practice: a container weighing reads to about 1 % of a draw, a batch isolation
+     * varies by several per cent, a monthly stock count to about 1 %; the defaults flag
+     * twice those */
+    cp->tolerances = (struct camp_tolerances){CAMP_DEFAULT_REAGENT_PCT, CAMP_DEFAULT_PRODUCT_PCT,
+                                              CAMP_DEFAULT_STOCK_PCT};
     if (path && !(cp->file = hl_strdup(path))) {
         hl_free(cp);
         return hl_err_set(e, HL_ERR_NOMEM, "out of memory reading the campaign");
@@ -2060,6 +2308,10 @@ void camp_free(struct campaign *c)
     for (int i = 0; i < c->ncontainers; i++)
         hl_free(c->containers[i].name);
     hl_free(c->containers);
+    for (int i = 0; i < c->ndeliveries; i++)
+        hl_free(c->deliveries[i].ref);
+    hl_free(c->deliveries);
+    hl_free(c->counts);
     for (int i = 0; i < c->nruns; i++)
         run_free(&c->runs[i]);
     hl_free(c->runs);

@@ -561,6 +561,54 @@ static void jo_species(struct jo *w, const double *mol)
         jo_num(w, key[s], mol[s]);
 }
 
+static void jo_num_or_null(struct jo *w, const char *key, int has, double v)
+{
+    if (has)
+        jo_num(w, key, v);
+    else
+        jo_null(w, key);
+}
+
+/* runs[].actual (null while planned) and runs[].variance (done runs only, else null) */
+static void jo_actual(struct jo *w, const struct ledger_run *r)
+{
+    const struct ledger_actual *a = &r->actual;
+    const struct ledger_variance *v = &r->var;
+    if (a->status == LEDGER_PLANNED) {
+        jo_null(w, "actual");
+        jo_null(w, "variance");
+        return;
+    }
+    jo_open(w, "actual", '{');
+    jo_str(w, "status", a->status == LEDGER_DONE ? "done" : "cancelled");
+    jo_num_or_null(w, "reagent_kg", a->given & LEDGER_ACT_REAGENT, a->reagent_kg);
+    jo_num_or_null(w, "product_kg", a->given & LEDGER_ACT_PRODUCT, a->product_kg);
+    jo_num_or_null(w, "naoh_kg", a->given & LEDGER_ACT_NAOH, a->naoh_kg);
+    if (a->given & LEDGER_ACT_END)
+        jo_date(w, "end", a->end_min, 0);
+    else
+        jo_null(w, "end");
+    jo_close(w, '}');
+    if (a->status != LEDGER_DONE) {
+        jo_null(w, "variance");
+        return;
+    }
+    jo_open(w, "variance", '{');
+    jo_num(w, "reagent_kg_plan", v->reagent_kg_plan);
+    jo_num_or_null(w, "reagent_kg", v->has_reagent, v->reagent_kg);
+    jo_num_or_null(w, "reagent_pct", v->has_reagent, v->reagent_pct);
+    jo_num(w, "product_kg_plan", v->product_kg_plan);
+    jo_num_or_null(w, "product_kg", v->has_product, v->product_kg);
+    jo_num_or_null(w, "product_pct", v->has_product && v->product_kg_plan > 0, v->product_pct);
+    jo_num(w, "yield_pct_plan", v->yield_pct_plan);
+    jo_num_or_null(w, "yield_pct_actual", v->has_product, v->yield_pct_actual);
+    jo_num(w, "naoh_kg_plan", v->naoh_kg_plan);
+    jo_num_or_null(w, "naoh_kg", v->has_naoh, v->naoh_kg);
+    jo_num_or_null(w, "naoh_pct", v->has_naoh && v->naoh_pct_defined, v->naoh_pct);
+    jo_bool(w, "flagged", v->flagged);
+    jo_close(w, '}');
+}
+
 static void jo_run(struct jo *w, const struct ledger *l, int i)
 {
     const struct ledger_run *r = &l->runs[i];
@@ -700,6 +748,7 @@ static void jo_run(struct jo *w, const struct ledger *l, int i)
     jo_num(w, "halogen_efficiency_pct", b->halogen_efficiency_pct);
     if (b->warning[0])
         jo_str(w, "warning", b->warning);
+    jo_actual(w, r);
     jo_end(w);
 }
 
@@ -766,6 +815,29 @@ static void jo_month(struct jo *w, const struct ledger *l, int i)
     jo_num(w, "caustic_solution_naoh_kg", m->caustic_solution_naoh_kg);
     jo_num(w, "dilution_water_kg", m->dilution_water_kg);
     jo_month_products(w, m);
+    const struct ledger_month_close *k = &m->close;
+    jo_open(w, "close", '{');
+    jo_num(w, "runs_done", k->done);
+    jo_num(w, "runs_cancelled", k->cancelled);
+    jo_num(w, "runs_planned", k->planned);
+    jo_bool(w, "closed", k->closed);
+    jo_open(w, "reagent_plan_kg", '{');
+    for (int r = 0; r < RG_CHARGEABLE; r++)
+        jo_num(w, jo_item_name(r), k->reagent_plan_kg[r]);
+    jo_close(w, '}');
+    jo_open(w, "reagent_actual_kg", '{');
+    for (int r = 0; r < RG_CHARGEABLE; r++)
+        jo_num(w, jo_item_name(r), k->reagent_actual_kg[r]);
+    jo_close(w, '}');
+    jo_num(w, "product_plan_kg", k->product_plan_kg);
+    jo_num(w, "product_actual_kg", k->product_actual_kg);
+    jo_num(w, "naoh_plan_kg", k->naoh_plan_kg);
+    jo_num(w, "naoh_actual_kg", k->naoh_actual_kg);
+    jo_open(w, "unexplained_kg", '{');
+    for (int r = 0; r < RG_CHARGEABLE; r++)
+        jo_num(w, jo_item_name(r), k->unexplained_kg[r]);
+    jo_close(w, '}');
+    jo_close(w, '}');
     jo_end(w);
 }
 
@@ -792,6 +864,8 @@ static void jo_order(struct jo *w, const struct ledger *l, int i)
     jo_date(w, "order_by", d->order_by_min, 1);
     jo_bool(w, "late", d->late);
     jo_bool(w, "no_container", d->no_container);
+    jo_num(w, "on_order_kg", d->on_order_kg);
+    jo_num(w, "received_kg", d->received_kg);
     if (d->item == RG_NAOH) { /* caustic is bought as solution: say its strength */
         if (l->caustic_order_wt_pct > 0)
             jo_num(w, "naoh_wt_pct", l->caustic_order_wt_pct);
@@ -924,6 +998,27 @@ static void jo_caution(struct jo *w, const struct ledger *l, int ca)
     jo_end(w);
 }
 
+static void jo_stock_check(struct jo *w, const struct ledger *l, int i)
+{
+    const struct ledger_stock_check *k = &l->stock_checks[i];
+    jo_begin(w, "stock_checks", i);
+    jo_str(w, "reagent", jo_item_name(k->reagent));
+    jo_date(w, "date", k->date_min, 0);
+    if (k->has_since)
+        jo_date(w, "since", k->since_min, 0);
+    else
+        jo_null(w, "since"); /* the book starts at the start of the campaign */
+    jo_num(w, "start_kg", k->start_kg);
+    jo_num(w, "received_kg", k->received_kg);
+    jo_num(w, "drawn_kg", k->drawn_kg);
+    jo_num(w, "book_kg", k->book_kg);
+    jo_num(w, "counted_kg", k->counted_kg);
+    jo_num(w, "unexplained_kg", k->unexplained_kg);
+    jo_num_or_null(w, "unexplained_pct", k->pct_defined, k->unexplained_pct);
+    jo_bool(w, "flagged", k->flagged);
+    jo_end(w);
+}
+
 static void jo_warning(struct jo *w, const struct ledger *l, int i)
 {
     jo_begin(w, "warnings", i);
@@ -990,6 +1085,12 @@ static void jo_document(struct jo *w, const struct ledger *l)
     jo_puts(w, ",\n");
     isodate_format(l->today_min, 1, when, sizeof when);
     jo_top_str(w, "today", l->today_min >= 0 ? when : NULL);
+    jo_puts(w, ",\n\"tolerances\": ");
+    jo_begin(w, "tolerances", -1);
+    jo_num(w, "reagent_pct", l->tol_reagent_pct);
+    jo_num(w, "product_pct", l->tol_product_pct);
+    jo_num(w, "stock_pct", l->tol_stock_pct);
+    jo_end(w);
     jo_puts(w, ",\n\"campaign\": ");
     jo_begin(w, "campaign", -1);
     jo_str(w, "title", l->title);
@@ -1001,6 +1102,7 @@ static void jo_document(struct jo *w, const struct ledger *l)
     jo_list(w, l, "runs", l->nruns, NULL, jo_run);
     jo_list(w, l, "months", l->nmonths, NULL, jo_month);
     jo_list(w, l, "orders", l->norders, NULL, jo_order);
+    jo_list(w, l, "stock_checks", l->nstock_checks, NULL, jo_stock_check);
     jo_list(w, l, "scrubbers", l->nscrubbers, NULL, jo_scrubber);
     jo_list(w, l, "warnings", l->nwarnings, NULL, jo_warning);
     jo_list(w, l, "assumptions", l->nassumptions, NULL, jo_assumption);

@@ -298,6 +298,146 @@ static void lump_products(struct ledger_run *lr, double min_frac)
     b->nproducts = kept;
 }
 
+/* ---- actuals ---- */
+
+/* NaOH the vent gas of a balance takes in a caustic liquor, as 100 % [kg]: the liquor
+ * reactions' stoichiometry (design section 4), without the liquor's history. */
+static double vent_naoh_kg(const struct bal_out *b)
+{
+    double mol = 0;
+    for (int v = 0; v < VS_COUNT; v++)
+        mol += b->vent_mol[v] * scrub_naoh_per_mol(v);
+    return mol * reagent_get(RG_NAOH)->molar_mass_g_mol / 1000.0;
+}
+
+/* A cancelled run charged, drew and vented nothing: its products keep their rows (structures,
+ * roles) at zero, so the writers show what was planned to be made and that none was. */
+static void cancel_balance(struct bal_out *b)
+{
+    for (int p = 0; p < b->nproducts; p++)
+        b->products[p].mol = b->products[p].kg = b->products[p].mol_fraction = 0;
+    b->substrate_mol = b->reagent_mol = b->reagent_kg = 0;
+    b->reagent_reacted_mol = b->reagent_unreacted_mol = b->halogen_reacted_mol = 0;
+    b->capped = 0;
+    b->mean_degree = 0;
+    b->hx_kg[0] = b->hx_kg[1] = b->so2_kg = b->succinimide_kg = 0;
+    for (int v = 0; v < VS_COUNT; v++)
+        b->vent_mol[v] = b->retained_mol[v] = 0;
+    b->reagent_left_kg = b->wanted_kg = b->isomer_kg = b->overhal_kg = b->unreacted_substrate_kg = 0;
+    b->wanted_mol = b->converted_mol = b->halogen_charged_mol = b->halogen_in_wanted_mol = 0;
+    b->yield_pct = b->conversion_pct = b->selectivity_pct = b->halogen_efficiency_pct = 0;
+    b->selectivity_defined = 0;
+    for (int k = 0; k < BAL_NEL; k++)
+        b->el_in_mol[k] = b->el_out_mol[k] = 0;
+    b->max_rel_error = 0;
+    b->warning[0] = '\0';
+}
+
+/* The plan side of a run's variance, from its planned balance; NaOH only on a caustic unit. */
+static void variance_plan(const struct campaign *c, const struct camp_run *r, struct ledger_run *lr)
+{
+    struct ledger_variance *v = &lr->var;
+    v->reagent_kg_plan = lr->bal.reagent_kg;
+    v->product_kg_plan = lr->bal.wanted_kg;
+    v->yield_pct_plan = lr->bal.yield_pct;
+    int caustic = r->scrubber >= 0 && c->scrubbers[r->scrubber].liquor == CAMP_LIQUOR_NAOH;
+    v->naoh_kg_plan = caustic ? vent_naoh_kg(&lr->bal) : 0.0;
+}
+
+/* actual - plan of a done run, each where the actual gives it; flagged outside tolerance. */
+static void variance_actual(const struct campaign *c, struct ledger_run *lr)
+{
+    struct ledger_variance *v = &lr->var;
+    const struct ledger_actual *a = &lr->actual;
+    const struct camp_tolerances *t = &c->tolerances;
+    if (a->given & LEDGER_ACT_REAGENT) {
+        v->has_reagent = 1;
+        v->reagent_kg = a->reagent_kg - v->reagent_kg_plan;
+        v->reagent_pct = 100.0 * v->reagent_kg / v->reagent_kg_plan; /* plan >= 1 g (reader) */
+        if (fabs(v->reagent_pct) > t->reagent_pct)
+            v->flagged = 1;
+    }
+    if (a->given & LEDGER_ACT_PRODUCT) {
+        v->has_product = 1;
+        v->product_kg = a->product_kg - v->product_kg_plan;
+        v->product_pct = v->product_kg_plan > 0 ? 100.0 * v->product_kg / v->product_kg_plan : 0.0;
+        const struct bal_product *w = NULL;
+        for (int p = 0; p < lr->bal.nproducts && !w; p++)
+            if (lr->bal.products[p].role == ROLE_WANTED)
+                w = &lr->bal.products[p];
+        /* substrate charged as planned: no actual substrate figure is taken */
+        double sub_mol = lr->substrate_kg * 1000.0 / lr->bal.substrate_molar_mass_g_mol;
+        v->yield_pct_actual = w && w->molar_mass_g_mol > 0
+                                  ? 100.0 * (a->product_kg * 1000.0 / w->molar_mass_g_mol) / sub_mol
+                                  : 0.0;
+        if (v->product_kg_plan > 0 ? fabs(v->product_pct) > t->product_pct : a->product_kg > 0)
+            v->flagged = 1;
+    }
+    if (a->given & LEDGER_ACT_NAOH) {
+        v->has_naoh = 1;
+        v->naoh_kg = a->naoh_kg - v->naoh_kg_plan;
+        v->naoh_pct_defined = v->naoh_kg_plan > 0;
+        v->naoh_pct = v->naoh_pct_defined ? 100.0 * v->naoh_kg / v->naoh_kg_plan : 0.0;
+    }
+}
+
+/* Actual of run r into lr: a done run's actual draw replaces the planned balance (the
+ * halogen drawn is what reached the reactor and then the vent); a cancelled run's balance
+ * is zeroed after the plan side of its figures is kept. */
+static enum hl_status apply_actual(const struct campaign *c, const struct ledger_opts *o,
+                                   const struct camp_run *r, struct bal_in *in, struct ledger_run *lr,
+                                   double min_frac, struct hl_err *e)
+{
+    const struct camp_actual *a = &r->actual;
+    lr->actual = (struct ledger_actual){
+        .status = a->status == CAMP_DONE ? LEDGER_DONE
+                  : a->status == CAMP_CANCELLED ? LEDGER_CANCELLED : LEDGER_PLANNED,
+        .given = ((a->given & CAMP_ACT_REAGENT_KG) ? LEDGER_ACT_REAGENT : 0u) |
+                 ((a->given & CAMP_ACT_PRODUCT_KG) ? LEDGER_ACT_PRODUCT : 0u) |
+                 ((a->given & CAMP_ACT_NAOH_KG) ? LEDGER_ACT_NAOH : 0u) |
+                 ((a->given & CAMP_ACT_END) ? LEDGER_ACT_END : 0u),
+        .reagent_kg = a->reagent_kg, .product_kg = a->product_kg, .naoh_kg = a->naoh_kg,
+        .end_min = a->end_min};
+    if (a->status == CAMP_PLANNED)
+        return HL_OK;
+    if (a->status == CAMP_DONE && o && o->today_min >= 0 && r->start_min >= o->today_min + 1440) {
+        char when[24], today[24], field[64], idq[64];
+        isodate_format(r->start_min, 0, when, sizeof when);
+        isodate_format(o->today_min, 1, today, sizeof today);
+        snprintf(field, sizeof field, "runs[%d].actual.status", r->src_index);
+        snprintf(idq, sizeof idq, "%.60s", r->id);
+        return hl_err_at(e, HL_ERR_INPUT, a->pos_status.line, a->pos_status.col, field,
+                         "run %s is done but starts %s, after --today %s: an actual needs a run "
+                         "that has started", idq, when, today);
+    }
+    variance_plan(c, r, lr);
+    if (a->status == CAMP_CANCELLED) {
+        cancel_balance(&lr->bal);
+        lr->substrate_kg = 0;
+        return HL_OK;
+    }
+    if (a->given & CAMP_ACT_REAGENT_KG) {
+        struct bal_out actual;
+        in->amount_is_kg = 1;
+        in->reagent_kg = a->reagent_kg;
+        hl_err_clear(e);
+        enum hl_status st = bal_compute(in, &actual, e);
+        if (st == HL_ERR_INPUT)
+            return blame_run(c, r, e);
+        if (st)
+            return st;
+        sel_free(&actual.sel);
+        bal_free(&lr->bal);
+        lr->bal = actual;
+        lr->other_rows = 0;
+        lr->other_mean_degree = 0;
+        if (min_frac > 0)
+            lump_products(lr, min_frac);
+    }
+    variance_actual(c, lr);
+    return HL_OK;
+}
+
 static int by_start(const void *a, const void *b)
 {
     const struct camp_run *x = *(const struct camp_run *const *)a, *y = *(const struct camp_run *const *)b;
@@ -306,8 +446,8 @@ static int by_start(const void *a, const void *b)
     return (x > y) - (x < y); /* file order: runs[] is contiguous */
 }
 
-static enum hl_status balance_runs(const struct campaign *c, struct ledger *l, double min_frac,
-                                   struct hl_err *e)
+static enum hl_status balance_runs(const struct campaign *c, const struct ledger_opts *o,
+                                   struct ledger *l, double min_frac, struct hl_err *e)
 {
     const struct camp_run **sorted = hl_malloc((size_t)(c->nruns ? c->nruns : 1) * sizeof *sorted);
     l->runs = hl_calloc((size_t)(c->nruns ? c->nruns : 1), sizeof *l->runs);
@@ -383,6 +523,8 @@ static enum hl_status balance_runs(const struct campaign *c, struct ledger *l, d
             if (!st && min_frac > 0)
                 lump_products(lr, min_frac);
         }
+        if (!st)
+            st = apply_actual(c, o, r, &in, lr, min_frac, e);
         if (!st && lr->bal.warning[0])
             st = warn(l, e, lr->id, "%s", lr->bal.warning);
     }
@@ -475,36 +617,149 @@ out:
 
 /* ---- orders ---- */
 
+/* Orders from where things stand: for a reagent counted, the latest count is its stock, the
+ * runs starting before it are past (the count shows what they drew) and the deliveries
+ * received up to it are in the count; placed orders and later deliveries count in the month
+ * they are due. A cancelled run draws nothing. */
 static enum hl_status plan_orders(const struct campaign *c, struct ledger *l, struct hl_err *e)
 {
-    int nd = 0;
+    int nd = 0, ns = 0, nsup = 0;
     struct ord_demand *d = hl_calloc((size_t)(2 * l->nruns + 1), sizeof *d);
-    struct ord_stock *s = hl_calloc((size_t)(c->nstock + 1), sizeof *s);
+    struct ord_stock *s = hl_calloc((size_t)(c->nstock + RG_COUNT + 1), sizeof *s);
     struct ord_container *k = hl_calloc((size_t)(c->ncontainers + 1), sizeof *k);
+    struct ord_supply *sup = hl_calloc((size_t)(c->ndeliveries + 1), sizeof *sup);
     enum hl_status st = HL_OK;
-    if (!d || !s || !k) {
+    if (!d || !s || !k || !sup) {
         st = nomem(e);
         goto out;
     }
+    int64_t counted_at[RG_COUNT];
+    double counted_kg[RG_COUNT];
+    for (int r = 0; r < RG_COUNT; r++) {
+        counted_at[r] = INT64_MIN;
+        counted_kg[r] = 0;
+    }
+    for (int i = 0; i < c->ncounts; i++) {
+        const struct camp_count *n = &c->counts[i];
+        if (n->date_min > counted_at[n->reagent]) {
+            counted_at[n->reagent] = n->date_min;
+            counted_kg[n->reagent] = n->kg;
+        }
+    }
     for (int i = 0; i < l->nruns; i++) {
         const struct ledger_run *r = &l->runs[i];
-        d[nd++] = (struct ord_demand){r->reagent, r->start_min, r->bal.reagent_kg};
+        if (r->bal.reagent_kg > 0 && r->start_min >= counted_at[r->reagent])
+            d[nd++] = (struct ord_demand){r->reagent, r->start_min, r->bal.reagent_kg};
         /* caustic make-up for a fresh charge, bought as purchased-strength solution */
         if (r->changeout_caustic_solution_kg > 0)
             d[nd++] = (struct ord_demand){RG_NAOH, r->start_min, r->changeout_caustic_solution_kg};
     }
-    for (int i = 0; i < c->nstock; i++)
-        s[i] = (struct ord_stock){c->stock[i].reagent, c->stock[i].on_hand_kg,
-                                  c->stock[i].safety_kg, c->stock[i].lead_days};
+    int has_row[RG_COUNT] = {0};
+    for (int i = 0; i < c->nstock; i++) {
+        int it = c->stock[i].reagent;
+        has_row[it] = 1;
+        s[ns++] = (struct ord_stock){it, counted_at[it] != INT64_MIN ? counted_kg[it] : c->stock[i].on_hand_kg,
+                                     c->stock[i].safety_kg, c->stock[i].lead_days};
+    }
+    for (int it = 0; it < RG_COUNT; it++)
+        if (!has_row[it] && counted_at[it] != INT64_MIN)
+            s[ns++] = (struct ord_stock){it, counted_kg[it], 0, 0};
+    for (int i = 0; i < c->ndeliveries; i++) {
+        const struct camp_delivery *v = &c->deliveries[i];
+        if (v->received && v->date_min <= counted_at[v->reagent])
+            continue; /* in the count already */
+        sup[nsup++] = (struct ord_supply){v->reagent, v->date_min, v->kg, v->received};
+    }
     for (int i = 0; i < c->ncontainers; i++)
         k[i] = (struct ord_container){c->containers[i].reagent, c->containers[i].name,
                                       c->containers[i].net_kg, c->containers[i].heel_kg};
-    st = ord_plan(d, nd, s, c->nstock, k, c->ncontainers, l->today_min, &l->orders, &l->norders, e);
+    st = ord_plan_supply(d, nd, s, ns, k, c->ncontainers, sup, nsup, l->today_min, &l->orders,
+                         &l->norders, e);
 out:
     hl_free(d);
     hl_free(s);
     hl_free(k);
+    hl_free(sup);
     return st;
+}
+
+/* ---- stock checks ---- */
+
+static int cmp_count(const void *pa, const void *pb)
+{
+    const struct camp_count *a = *(const struct camp_count *const *)pa,
+                            *b = *(const struct camp_count *const *)pb;
+    if (a->date_min != b->date_min)
+        return a->date_min < b->date_min ? -1 : 1;
+    if (a->reagent != b->reagent)
+        return a->reagent < b->reagent ? -1 : 1;
+    return (a > b) - (a < b);
+}
+
+/* Each count against the book since the previous count of its reagent (ledger.h). A few
+ * counts a month, each a pass over the runs and deliveries. */
+static enum hl_status stock_checks(const struct campaign *c, struct ledger *l, struct hl_err *e)
+{
+    l->tol_reagent_pct = c->tolerances.reagent_pct;
+    l->tol_product_pct = c->tolerances.product_pct;
+    l->tol_stock_pct = c->tolerances.stock_pct;
+    if (!c->ncounts)
+        return HL_OK;
+    const struct camp_count **v = hl_malloc((size_t)c->ncounts * sizeof *v);
+    l->stock_checks = hl_calloc((size_t)c->ncounts, sizeof *l->stock_checks);
+    if (!v || !l->stock_checks) {
+        hl_free(v);
+        return nomem(e);
+    }
+    for (int i = 0; i < c->ncounts; i++)
+        v[i] = &c->counts[i];
+    qsort(v, (size_t)c->ncounts, sizeof *v, cmp_count);
+    int64_t since[RG_COUNT];
+    double base[RG_COUNT];
+    int seen[RG_COUNT];
+    for (int r = 0; r < RG_COUNT; r++) {
+        since[r] = 0;
+        base[r] = 0;
+        seen[r] = 0;
+    }
+    for (int i = 0; i < c->nstock; i++)
+        base[c->stock[i].reagent] = c->stock[i].on_hand_kg;
+    for (int i = 0; i < c->ncounts; i++) {
+        const struct camp_count *n = v[i];
+        struct ledger_stock_check *k = &l->stock_checks[i];
+        int rg = n->reagent;
+        int first = !seen[rg];
+        *k = (struct ledger_stock_check){.reagent = rg, .date_min = n->date_min, .since_min = since[rg],
+                                         .has_since = !first, .start_kg = base[rg], .counted_kg = n->kg};
+        for (int j = 0; j < c->ndeliveries; j++) {
+            const struct camp_delivery *d = &c->deliveries[j];
+            if (d->reagent == rg && d->received && d->date_min <= n->date_min &&
+                (first || d->date_min > since[rg]))
+                k->received_kg += d->kg;
+        }
+        for (int j = 0; j < l->nruns; j++) {
+            const struct ledger_run *r = &l->runs[j];
+            if (r->reagent == rg && r->start_min < n->date_min && (first || r->start_min >= since[rg]))
+                k->drawn_kg += r->bal.reagent_kg;
+        }
+        k->book_kg = k->start_kg + k->received_kg - k->drawn_kg;
+        k->unexplained_kg = k->book_kg - k->counted_kg;
+        /* a difference below round-off of the sums is none */
+        if (fabs(k->unexplained_kg) <= 1e-9 * (k->start_kg + k->received_kg + k->drawn_kg + k->counted_kg))
+            k->unexplained_kg = 0;
+        k->pct_defined = k->drawn_kg > 0;
+        k->unexplained_pct = k->pct_defined ? 100.0 * k->unexplained_kg / k->drawn_kg : 0.0;
+        /* nothing drawn: the tolerance is taken of the book stock */
+        k->flagged = k->pct_defined ? fabs(k->unexplained_pct) > c->tolerances.stock_pct
+                                    : fabs(k->unexplained_kg) > c->tolerances.stock_pct / 100.0 *
+                                                                     fabs(k->book_kg);
+        since[rg] = n->date_min;
+        base[rg] = n->kg;
+        seen[rg] = 1;
+        l->nstock_checks = i + 1;
+    }
+    hl_free(v);
+    return HL_OK;
 }
 
 /* The container names in l->orders are borrowed from the campaign; copy them so the
@@ -617,6 +872,29 @@ static enum hl_status month_product(struct ledger_month *m, const struct ledger_
     return HL_OK;
 }
 
+/* A run's part in its month's close (ledger.h: struct ledger_month_close). */
+static void month_close_run(struct ledger_month *m, const struct ledger_run *r)
+{
+    struct ledger_month_close *k = &m->close;
+    const struct ledger_variance *v = &r->var;
+    const struct ledger_actual *a = &r->actual;
+    if (a->status == LEDGER_PLANNED) {
+        k->planned++;
+        return;
+    }
+    k->reagent_plan_kg[r->reagent] += v->reagent_kg_plan;
+    k->product_plan_kg += v->product_kg_plan;
+    k->naoh_plan_kg += v->naoh_kg_plan;
+    if (a->status == LEDGER_CANCELLED) {
+        k->cancelled++;
+        return;
+    }
+    k->done++;
+    k->reagent_actual_kg[r->reagent] += r->bal.reagent_kg; /* the draw where weighed */
+    k->product_actual_kg += (a->given & LEDGER_ACT_PRODUCT) ? a->product_kg : r->bal.wanted_kg;
+    k->naoh_actual_kg += (a->given & LEDGER_ACT_NAOH) ? a->naoh_kg : r->scrub.naoh_kg;
+}
+
 static enum hl_status build_months(struct ledger *l, struct hl_err *e)
 {
     int n = l->nruns;
@@ -663,7 +941,9 @@ static enum hl_status build_months(struct ledger *l, struct hl_err *e)
                                            l->scrubbers[r->scrubber_index].makeup_naoh_wt_pct / 100.0;
             m->dilution_water_kg += r->changeout_water_kg;
         }
-        if ((st = month_product(m, r, e)))
+        month_close_run(m, r);
+        /* a cancelled run made nothing: no route figures (they divide by the substrate) */
+        if (r->actual.status != LEDGER_CANCELLED && (st = month_product(m, r, e)))
             return st;
         m->succinimide_kg += b->succinimide_kg;
         m->reagent_left_kg += b->reagent_left_kg;
@@ -676,6 +956,15 @@ static enum hl_status build_months(struct ledger *l, struct hl_err *e)
             const struct scrub_spent *sp = &l->scrubbers[u].out.spent[j];
             month_of(l, sp->at_min)->spent_liquor_kg += sp->mass_kg;
         }
+    for (int i = 0; i < l->nmonths; i++)
+        l->months[i].close.closed = l->months[i].close.planned == 0;
+    /* a count in a month without runs has no month to be shown in: its check stands alone */
+    for (int i = 0; i < l->nstock_checks; i++) {
+        const struct ledger_stock_check *k = &l->stock_checks[i];
+        struct ledger_month *m = month_of(l, k->date_min);
+        if (m)
+            m->close.unexplained_kg[k->reagent] += k->unexplained_kg;
+    }
     return HL_OK;
 }
 
@@ -774,6 +1063,54 @@ static enum hl_status collect_warnings(const struct campaign *c, struct ledger *
             st = warn(l, e, NULL, "%s for %s: %.1f kg to order but no container is defined",
                       item, month, o->to_order_kg);
         }
+    }
+    return st;
+}
+
+/* Flagged variances and stock checks: what a month close must explain. */
+static enum hl_status close_warnings(struct ledger *l, struct hl_err *e)
+{
+    enum hl_status st = HL_OK;
+    for (int i = 0; i < l->nruns && !st; i++) {
+        const struct ledger_run *r = &l->runs[i];
+        const struct ledger_variance *v = &r->var;
+        if (r->actual.status != LEDGER_DONE || !v->flagged)
+            continue;
+        const char *rg = reagent_get(r->reagent)->name;
+        if (v->has_reagent && fabs(v->reagent_pct) > l->tol_reagent_pct)
+            st = warn(l, e, r->id, "drew %.1f kg of %s against %.1f kg planned (%+.1f %%, tolerance "
+                      "%.4g %%)", r->actual.reagent_kg, rg, v->reagent_kg_plan, v->reagent_pct,
+                      l->tol_reagent_pct);
+        if (!st && v->has_product &&
+            (v->product_kg_plan > 0 ? fabs(v->product_pct) > l->tol_product_pct : r->actual.product_kg > 0))
+            st = warn(l, e, r->id, "isolated %.1f kg of wanted product against %.1f kg planned "
+                      "(%+.1f %%, tolerance %.4g %%)", r->actual.product_kg, v->product_kg_plan,
+                      v->product_pct, l->tol_product_pct);
+    }
+    char when[20];
+    for (int i = 0; i < l->nstock_checks && !st; i++) {
+        const struct ledger_stock_check *k = &l->stock_checks[i];
+        if (!k->flagged)
+            continue;
+        const char *rg = reagent_get(k->reagent)->name;
+        isodate_format(k->date_min, 0, when, sizeof when);
+        char share[64] = "";
+        if (k->pct_defined)
+            snprintf(share, sizeof share, " (%.1f %% of the %.1f kg drawn since the last count)",
+                     fabs(k->unexplained_pct), k->drawn_kg);
+        if (k->unexplained_kg > 0 && (k->reagent == RG_CL2 || k->reagent == RG_HBR))
+            st = warn(l, e, NULL,
+                      "stock check %s %s: %.1f kg unaccounted for%s: the book says %.1f kg, the count "
+                      "%.1f kg. %s is a toxic gas: check containers, valves, lines and the scrubber "
+                      "record for a leak; a release of this size may be reportable under local "
+                      "rules (see the SDS and your permit)",
+                      rg, when, k->unexplained_kg, share, k->book_kg, k->counted_kg, rg);
+        else
+            st = warn(l, e, NULL,
+                      "stock check %s %s: the count (%.1f kg) is %.1f kg %s the book (%.1f kg)%s; "
+                      "check the weighings, the draws booked and the deliveries",
+                      rg, when, k->counted_kg, fabs(k->unexplained_kg),
+                      k->unexplained_kg > 0 ? "below" : "above", k->book_kg, share);
     }
     return st;
 }
@@ -882,11 +1219,11 @@ enum hl_status ledger_build(const struct campaign *c, const struct ledger_opts *
         return nomem(e);
     enum hl_status st;
     if ((st = copy_identity(c, o, l, e)) || (st = collect_assumptions(l, e)) ||
-        (st = report_threshold(c, o, l, e)) || (st = balance_runs(c, l, l->report_min_mol_fraction, e)))
+        (st = report_threshold(c, o, l, e)) || (st = balance_runs(c, o, l, l->report_min_mol_fraction, e)))
         goto fail;
-    if ((st = run_scrubbers(c, l, e)) || (st = plan_orders(c, l, e)) ||
+    if ((st = run_scrubbers(c, l, e)) || (st = stock_checks(c, l, e)) || (st = plan_orders(c, l, e)) ||
         (st = own_container_names(l, e)) || (st = build_months(l, e)) ||
-        (st = collect_warnings(c, l, e)))
+        (st = collect_warnings(c, l, e)) || (st = close_warnings(l, e)))
         goto fail;
     collect_cautions(l);
     *out = l;
@@ -932,6 +1269,7 @@ void ledger_free(struct ledger *l)
         hl_free(l->warnings[i].message);
     }
     hl_free(l->warnings);
+    hl_free(l->stock_checks);
     for (int i = 0; i < l->nassumptions; i++) {
         hl_free(l->assumptions[i].what);
         hl_free(l->assumptions[i].unit);

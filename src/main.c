@@ -61,7 +61,8 @@ static const char usage_text[] =
     "  -o, --output FILE   output file; the extension (.xlsx or .json) picks the format;\n"
     "                      never the campaign or catalog itself, each file at most once\n"
     "      --today DATE    ISO 8601 date; orders whose order-by date has passed are flagged\n"
-    "      --strict        exit 3 when the ledger carries warnings (overload, late order...)\n"
+    "      --strict        exit 3 when the ledger carries warnings (overload, late order,\n"
+    "                      flagged variance, unexplained stock...)\n"
     "      --catalog FILE  container catalog to use instead of the built-in one\n"
     "      --all-products  list every product; by default over-halogenated traces below\n"
     "                      report.min_mol_fraction (1e-4) are summed into one row per run\n"
@@ -119,6 +120,24 @@ static int64_t source_date_minutes(void)
     return (int64_t)(v / 60);
 }
 
+/* The month close: only for a month with at least one actual. */
+static void print_close(const struct ledger_month *m)
+{
+    const struct ledger_month_close *k = &m->close;
+    if (k->done + k->cancelled == 0)
+        return;
+    printf("           close: %d done, %d cancelled, %d still planned%s\n", k->done, k->cancelled,
+           k->planned, k->closed ? " (closed)" : "");
+    for (int r = 0; r < RG_CHARGEABLE; r++)
+        if (k->reagent_plan_kg[r] > 0 || k->unexplained_kg[r] != 0)
+            printf("           %-7s drawn %.1f kg against %.1f kg planned, unexplained %.1f kg\n",
+                   reagent_get(r)->name, k->reagent_actual_kg[r], k->reagent_plan_kg[r],
+                   k->unexplained_kg[r]);
+    printf("           wanted product %.1f kg against %.1f kg planned; NaOH consumed %.1f kg "
+           "against %.1f kg planned\n", k->product_actual_kg, k->product_plan_kg, k->naoh_actual_kg,
+           k->naoh_plan_kg);
+}
+
 static void print_summary(const struct ledger *l)
 {
     char month[16], when[20];
@@ -140,6 +159,14 @@ static void print_summary(const struct ledger *l)
         if (m->reagents_kg[RG_NAOH] > 0)
             printf("           caustic make-up bought for changeouts %.1f kg (as purchased solution)\n",
                    m->reagents_kg[RG_NAOH]);
+        print_close(m);
+    }
+    for (int i = 0; i < l->nstock_checks; i++) {
+        const struct ledger_stock_check *k = &l->stock_checks[i];
+        isodate_format(k->date_min, 0, when, sizeof when);
+        printf("  stock check %s %s: book %.1f kg, counted %.1f kg, unexplained %.1f kg%s\n",
+               reagent_get(k->reagent)->name, when, k->book_kg, k->counted_kg, k->unexplained_kg,
+               k->flagged ? " (FLAGGED)" : "");
     }
     for (int i = 0; i < l->nscrubbers; i++) {
         const struct ledger_scrubber *s = &l->scrubbers[i];

@@ -81,8 +81,31 @@ enum hl_status ord_plan(const struct ord_demand *d, int nd,
                         int64_t today_min, struct ord_line **out, int *nout,
                         struct hl_err *e)
 {
-    if (!out || !nout || nd < 0 || ns < 0 || nc < 0 || (nd && !d) || (ns && !s) || (nc && !c))
+    return ord_plan_supply(d, nd, s, ns, c, nc, NULL, 0, today_min, out, nout, e);
+}
+
+static int cmp_supply(const void *pa, const void *pb)
+{
+    const struct ord_supply *a = pa, *b = pb;
+    if (a->item != b->item)
+        return a->item < b->item ? -1 : 1;
+    return (a->when_min > b->when_min) - (a->when_min < b->when_min);
+}
+
+enum hl_status ord_plan_supply(const struct ord_demand *d, int nd,
+                               const struct ord_stock *s, int ns,
+                               const struct ord_container *c, int nc,
+                               const struct ord_supply *sup, int nsup,
+                               int64_t today_min, struct ord_line **out, int *nout,
+                               struct hl_err *e)
+{
+    if (!out || !nout || nd < 0 || ns < 0 || nc < 0 || nsup < 0 || (nd && !d) || (ns && !s) ||
+        (nc && !c) || (nsup && !sup))
         return hl_err_set(e, HL_ERR_INPUT, "ord_plan: bad arguments");
+    for (int i = 0; i < nsup; i++)
+        if (sup[i].item < 0 || sup[i].item >= RG_COUNT || !(sup[i].kg >= 0) || !isfinite(sup[i].kg))
+            return hl_err_set(e, HL_ERR_INPUT, "delivery %d: item %d, kg %g not valid", i,
+                              sup[i].item, sup[i].kg);
     *out = NULL;
     *nout = 0;
     enum hl_status st = check(d, nd, s, ns, c, nc, e);
@@ -117,6 +140,28 @@ enum hl_status ord_plan(const struct ord_demand *d, int nd,
         lead[s[i].item] = s[i].lead_days;
     }
 
+    /* supplies by item, then time; next[item] walks them alongside the month groups */
+    struct ord_supply *sv = NULL;
+    int first_sup[RG_COUNT + 1];
+    if (nsup) {
+        sv = hl_malloc((size_t)nsup * sizeof *sv);
+        if (!sv) {
+            hl_free(v);
+            hl_free(L);
+            return hl_err_set(e, HL_ERR_NOMEM, "out of memory planning orders");
+        }
+        memcpy(sv, sup, (size_t)nsup * sizeof *sv);
+        qsort(sv, (size_t)nsup, sizeof *sv, cmp_supply);
+    }
+    for (int k = 0, j = 0; k <= RG_COUNT; k++) {
+        while (j < nsup && sv[j].item < k)
+            j++;
+        first_sup[k] = j;
+    }
+    int next[RG_COUNT];
+    for (int k = 0; k < RG_COUNT; k++)
+        next[k] = first_sup[k];
+
     int g = -1;
     for (int i = 0; i < nd; i++) {
         if (i == 0 || v[i].month != v[i - 1].month || v[i].item != v[i - 1].item) {
@@ -132,10 +177,21 @@ enum hl_status ord_plan(const struct ord_demand *d, int nd,
     for (g = 0; g < ng; g++) {
         struct ord_line *o = &L[g];
         int it = o->item;
+        /* deliveries of earlier months (without a line of this item) are stock by now */
+        while (next[it] < first_sup[it + 1] && isodate_month_index(sv[next[it]].when_min) < o->month_index)
+            stock[it] += sv[next[it]++].kg;
+        while (next[it] < first_sup[it + 1] && isodate_month_index(sv[next[it]].when_min) == o->month_index) {
+            const struct ord_supply *p = &sv[next[it]++];
+            if (p->received)
+                o->received_kg += p->kg;
+            else
+                o->on_order_kg += p->kg;
+        }
         o->stock_start_kg = stock[it];
         o->safety_kg = safety[it];
-        double need = o->demand_kg + o->safety_kg - o->stock_start_kg;
-        double scale = o->demand_kg + o->safety_kg + fabs(o->stock_start_kg);
+        double have = o->stock_start_kg + o->received_kg + o->on_order_kg;
+        double need = o->demand_kg + o->safety_kg - have;
+        double scale = o->demand_kg + o->safety_kg + fabs(have);
         o->to_order_kg = need > REL_EPS * scale ? need : 0;
 
         int best = -1, best_n = 0;
@@ -165,7 +221,7 @@ enum hl_status ord_plan(const struct ord_demand *d, int nd,
             o->no_container = o->demand_kg > 0;
             o->ordered_usable_kg = o->to_order_kg; /* bought in bulk */
         }
-        o->stock_end_kg = o->stock_start_kg + o->ordered_usable_kg - o->demand_kg;
+        o->stock_end_kg = have + o->ordered_usable_kg - o->demand_kg;
         stock[it] = o->stock_end_kg;
 
         /* whole lead days, rounded up: a fractional day moves the date earlier */
@@ -175,6 +231,7 @@ enum hl_status ord_plan(const struct ord_demand *d, int nd,
         o->order_by_min = day_start(o->first_use_min) - lead_d * DAY_MIN;
         o->late = today_min >= 0 && o->to_order_kg > 0 && o->order_by_min < today_min;
     }
+    hl_free(sv);
     *out = L;
     *nout = ng;
     return HL_OK;
