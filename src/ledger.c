@@ -386,7 +386,7 @@ static void variance_actual(const struct campaign *c, struct ledger_run *lr)
  * is zeroed after the plan side of its figures is kept. */
 static enum hl_status apply_actual(const struct campaign *c, const struct ledger_opts *o,
                                    const struct camp_run *r, struct bal_in *in, struct ledger_run *lr,
-                                   double min_frac, struct hl_err *e)
+                                   double min_frac, struct bal_cache *cache, struct hl_err *e)
 {
     const struct camp_actual *a = &r->actual;
     lr->actual = (struct ledger_actual){
@@ -421,12 +421,12 @@ static enum hl_status apply_actual(const struct campaign *c, const struct ledger
         in->amount_is_kg = 1;
         in->reagent_kg = a->reagent_kg;
         hl_err_clear(e);
-        enum hl_status st = bal_compute(in, &actual, e);
+        enum hl_status st = bal_compute_cached(in, cache, &actual, e);
         if (st == HL_ERR_INPUT)
             return blame_run(c, r, e);
         if (st)
             return st;
-        sel_free(&actual.sel);
+        actual.sel = NULL; /* the cache's */
         bal_free(&lr->bal);
         lr->bal = actual;
         lr->other_rows = 0;
@@ -524,7 +524,7 @@ static enum hl_status balance_runs(const struct campaign *c, const struct ledger
                 lump_products(lr, min_frac);
         }
         if (!st)
-            st = apply_actual(c, o, r, &in, lr, min_frac, e);
+            st = apply_actual(c, o, r, &in, lr, min_frac, cache, e);
         if (!st && lr->bal.warning[0])
             st = warn(l, e, lr->id, "%s", lr->bal.warning);
     }
