@@ -28,7 +28,12 @@
  *             (absent = 0 = built-in); fresh_liquor_temp_c [-20,80] = 25;
  *             max_liquor_temp_c (0,150] = 40; column {packing_factor_1_m [1,1e4] R, htu_m [0.01,20] R,
  *             removal_fraction [0.01,1) R, flood_fraction [0.1,1) = 0.7, carrier_kmol_h [1e-3,1e6] R,
- *             liquor_kg_h [1, 1e9) R, gas_temp_c [-40,200] = 25}.
+ *             liquor_kg_h [1, 1e9) R, gas_temp_c [-40,200] = 25};
+ *             stack_nm3_h [0.1, 1e9] (absent: no concentrations); removal {HCl, HBr, Cl2,
+ *             Br2, SO2: each [0,1], each optional; absent: from the column, else default}.
+ *  permits:   scrubber R (an id of scrubbers[]); species R (HCl HBr Cl2 Br2 SO2);
+ *             max_kg_h [1e-6,1e9], max_mg_nm3 [1e-3,1e9], max_t_yr [1e-6,1e9], at least one;
+ *             averaging "hour"|"day" = hour.
  *  stock:     reagent R (incl. "NaOH"; one entry per reagent); on_hand_kg [0,1e9) R;
  *             safety_kg [0,1e9) = 0; lead_days [0,3650] = 0.
  *  containers: reagent R; name R; net_kg [0.1,1e6] R; heel_kg [0, net_kg - 0.1] = 0.
@@ -134,6 +139,22 @@ struct camp_scrubber {
     double max_liquor_temp_c;   /* warn above it (no cooling modelled), default 40 */
     struct camp_column column;
     struct camp_pos pos;
+    /* emissions (issue 12): stack gas flow at 0 C and 101.325 kPa [Nm3/h], 0 = not given;
+     * removal[vent species] given where bit (1u << species) of removal_given is set */
+    double stack_nm3_h;
+    double removal[5];
+    unsigned removal_given;
+};
+
+/* A permit limit on what leaves one scrubber's stack (any of the three limits given;
+ * 0 = that limit not given). averaging_day: kg/h and mg/Nm3 as the worst calendar-day
+ * mean instead of the worst clock hour. */
+struct camp_permit {
+    int scrubber;               /* index into campaign.scrubbers */
+    int species;                /* enum vent_species */
+    double max_kg_h, max_mg_nm3, max_t_yr;
+    int averaging_day;
+    struct camp_pos pos;
 };
 
 struct camp_stock {
@@ -235,6 +256,7 @@ struct campaign {
     enum camp_paper paper;      /* report.paper: the workbook's print paper */
     double report_min_mol_fraction; /* report.min_mol_fraction, -1 if absent (ledger default) */
     struct camp_scrubber *scrubbers; int nscrubbers;
+    struct camp_permit *permits; int npermits;   /* in file order */
     struct camp_stock *stock; int nstock;
     struct camp_container *containers; int ncontainers; /* campaign entries, then catalog ones not overridden */
     struct camp_run *runs; int nruns;                   /* expanded, file order */

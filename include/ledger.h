@@ -12,6 +12,7 @@
 
 #include <stdint.h>
 #include "balance.h"
+#include "emissions.h"
 struct campaign; /* campaign.h: only ledger_build reads it; writers never see it */
 #include "orders.h"
 #include "reagents.h"
@@ -148,6 +149,9 @@ struct ledger {
     struct ledger_warning *warnings; int nwarnings;
     struct ledger_assumption *assumptions; int nassumptions;
     unsigned cautions_mask;              /* bit enum caution_id set for every substance in play */
+    /* what leaves the stacks (emissions.h): emis[nscrubbers], one check per permit limit */
+    struct emis_unit *emis;
+    struct emis_check *permit_checks; int npermit_checks;
     double caustic_order_wt_pct;         /* NaOH order lines are solution of this strength
                                           * [wt% NaOH]; 0 when no caustic is bought or the
                                           * units buy different strengths (warned) */

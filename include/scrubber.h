@@ -42,6 +42,11 @@ struct scrub_unit_in {
     int fresh_temp_given;
     double max_liquor_temp_c;   /* hottest liquor allowed (caustic: hypochlorite turns to
                                  * chlorate and absorbs Cl2 worse above it); 0 -> 40 C */
+    /* What the unit removes of each vent species (emissions): removal[v] where bit
+     * (1u << v) of removal_given is set, else from the column's transfer units (has_column),
+     * else scrub_removal_default.  Fractions 0..1. */
+    double removal[VS_COUNT];
+    unsigned removal_given;
 };
 
 struct scrub_run_in {
@@ -79,6 +84,23 @@ struct scrub_run_out {
                                  * solution at naoh_wt_pct_after; water liquor 100 C [C] */
     int boils;                  /* liquor_temp_c_after >= boiling_point_c (alarm) */
     double sulfite_oxidised_mol; /* Na2SO3 turned to Na2SO4 by hypohalite in this run [mol] */
+    /* What leaves the stack [kg]: of the part of vent_mol the liquor can still take
+     * (caustic: until its NaOH is used up; water: HCl and HBr up to its changeout
+     * strength), 1 - removal; all of the rest (breakthrough). */
+    double emis_kg[VS_COUNT];
+    double emis_breakthrough_kg;  /* of emis_kg, what the liquor could no longer take [kg] */
+};
+
+/* Origin of a removal fraction in force. */
+enum scrub_removal_origin { SCRUB_REM_GIVEN, SCRUB_REM_COLUMN, SCRUB_REM_DEFAULT, SCRUB_REM_NONE };
+
+/* One species' emissions from one unit: hour by hour on the load profile's hours
+ * (same hour0_min and nhours), only the hours with emission kept (hourly_hour ascending). */
+struct scrub_emis {
+    double kg;                  /* over the campaign */
+    double peak_kg_h;           /* highest clock-hour mean [kg/h]; 0 when nothing leaves */
+    int64_t peak_at_min;        /* start of that hour (earliest on a tie) */
+    double *hourly_kg_h; int *hourly_hour; int nhourly; /* owned */
 };
 
 /* One liquor batch sent to waste (at a changeout, and the last one at campaign end). */
@@ -124,6 +146,9 @@ struct scrub_unit_out {
     double *hourly_kmol_h; int *hourly_hour; int nhourly;
     struct scrub_spent *spent; int nspent;                /* owned */
     struct scrub_column_check column;
+    double removal[VS_COUNT];   /* the removal fractions in force */
+    int removal_origin[VS_COUNT]; /* enum scrub_removal_origin */
+    struct scrub_emis emis[VS_COUNT]; /* what leaves the stack, per vent species */
 };
 
 /* Heat released per mole of gas absorbed [kJ/mol] (positive), caustic or water liquor. */
@@ -168,6 +193,22 @@ double scrub_ntu(double y_in, double y_out);
 /* Mean load [kmol/h] of hour h (0 .. nhours-1) of a unit's profile, sparse or dense;
  * 0 outside it.  O(log nhourly). */
 double scrub_hourly_kmol_h(const struct scrub_unit_out *u, int h);
+
+/* Mean emission [kg/h] of species vs in hour h of a unit's profile; 0 where none. O(log n). */
+double scrub_hourly_emis_kg_h(const struct scrub_unit_out *u, int vs, int h);
+
+/* Default removal fraction of a vent species for a liquor without column data or a given
+ * value, and its origin text (static; "common practice" / "from memory"). 0 for what the
+ * liquor does not absorb (Cl2, Br2, SO2 on water). */
+double scrub_removal_default(int vs, int water_liquor, const char **origin);
+
+/* Fraction removed by a column of ntu gas-phase transfer units, fast irreversible reaction
+ * under gas-film control (no back-pressure): 1 - exp(-ntu). */
+double scrub_removal_from_ntu(double ntu);
+
+/* End of a run's vent window [min since 1970], start + feed_h / peak_factor, whole minutes
+ * snapped (the rule the scrubber's peaks use). */
+double scrub_vent_end_min(const struct scrub_run_in *r);
 
 /* Free what scrub_campaign allocated in unit_out[0..nunits-1] and zero it. */
 void scrub_unit_out_free(struct scrub_unit_out *u, int nunits);

@@ -1127,11 +1127,11 @@ static void merge_model(struct camp_model *run, const struct camp_model *camp)
 
 /* scrubbers */
 enum { SK_ID, SK_LIQUOR, SK_NAOH, SK_LIQKG, SK_MIN, SK_MAXACID, SK_RATED, SK_MAKEUP, SK_CP, SK_COLUMN,
-       SK_NOTE, SK_FRESHT, SK_MAXT, SK_N };
+       SK_NOTE, SK_FRESHT, SK_MAXT, SK_STACK, SK_REMOVAL, SK_N };
 static const char *const scrub_keys[SK_N] = {
     "id", "liquor", "naoh_wt_pct", "liquor_kg", "min_naoh_wt_pct", "max_acid_wt_pct",
     "rated_acid_kmol_h", "makeup_naoh_wt_pct", "liquor_cp_kj_kg_k", "column", "note",
-    "fresh_liquor_temp_c", "max_liquor_temp_c"};
+    "fresh_liquor_temp_c", "max_liquor_temp_c", "stack_nm3_h", "removal"};
 enum { CK_FP, CK_HTU, CK_REMOVAL, CK_FLOOD, CK_CARRIER, CK_LIQ, CK_GAST, CK_N };
 static const char *const col_keys[CK_N] = {"packing_factor_1_m", "htu_m", "removal_fraction",
                                            "flood_fraction", "carrier_kmol_h", "liquor_kg_h",
@@ -1172,6 +1172,45 @@ static enum hl_status parse_column(struct vctx *c, const cJSON *m, struct camp_c
         (st = get_num(c, k[CK_LIQ], rliq, &col->liquor_kg_h)) ||
         (k[CK_GAST] && (st = get_num(c, k[CK_GAST], rgas, &col->gas_temp_c))))
         return st;
+    pop(c, old);
+    return HL_OK;
+}
+
+/* The emission keys of a scrubber (issue 12): its stack flow and the removal it is
+ * credited with, species by species (the vent species names as keys). */
+static enum hl_status parse_emission_keys(struct vctx *c, const cJSON *stack, const cJSON *rem,
+                                          struct camp_scrubber *s)
+{
+    /* a divisor of every concentration: a stack under 0.1 Nm3/h carries no vent gas
+     * (common practice floor) */
+    const struct rng rstack = {0.1, 1e9, 0, 0, "a stack flow below 0.1 Nm3/h carries no vent gas", NULL},
+                     rfrac = {0, 1, 0, 0, NULL, NULL};
+    enum hl_status st;
+    if (stack && (st = get_num(c, stack, rstack, &s->stack_nm3_h)))
+        return st;
+    if (!rem)
+        return HL_OK;
+    const char *names[VS_COUNT];
+    const cJSON *k[VS_COUNT];
+    for (int v = 0; v < VS_COUNT; v++)
+        names[v] = vent_name(v);
+    size_t old = push_key(c, rem->string);
+    if ((st = members(c, rem, names, VS_COUNT, k)))
+        return st;
+    for (int v = 0; v < VS_COUNT; v++) {
+        if (!k[v])
+            continue;
+        if ((st = get_num(c, k[v], rfrac, &s->removal[v])))
+            return st;
+        /* the liquor model lets Cl2, Br2 and SO2 pass a water liquor: crediting it with
+         * removing them would contradict the liquor figures */
+        if (s->liquor == CAMP_LIQUOR_WATER && v != VS_HCL && v != VS_HBR && s->removal[v] > 0) {
+            push_key(c, names[v]);
+            return verr(c, k[v], 0, "a \"water\" liquor absorbs only HCl and HBr: %s passes it "
+                        "(give 0 or leave it out)", names[v]);
+        }
+        s->removal_given |= 1u << v;
+    }
     pop(c, old);
     return HL_OK;
 }
@@ -1250,6 +1289,8 @@ static enum hl_status parse_scrubber(struct vctx *c, const cJSON *o, struct camp
         }
     }
     if (k[SK_COLUMN] && (st = parse_column(c, k[SK_COLUMN], &s->column)))
+        return st;
+    if ((st = parse_emission_keys(c, k[SK_STACK], k[SK_REMOVAL], s)))
         return st;
     const char *note;
     if (k[SK_NOTE] && (st = get_str(c, k[SK_NOTE], 0, MAX_TEXT, &note)))
@@ -1894,10 +1935,10 @@ static enum hl_status parse_runs(struct reader *rd, const cJSON *arr)
 
 /* top level */
 enum { GK_FORMAT, GK_TITLE, GK_SITE, GK_ISSUED, GK_MODEL, GK_SCRUB, GK_STOCK, GK_CONT, GK_RUNS, GK_NOTE,
-       GK_REPORT, GK_DELIV, GK_COUNTS, GK_TOL, GK_N };
+       GK_REPORT, GK_DELIV, GK_COUNTS, GK_TOL, GK_PERMITS, GK_N };
 static const char *const top_keys[GK_N] = {"format", "title", "site", "issued", "model", "scrubbers",
                                            "stock", "containers", "runs", "note", "report",
-                                           "deliveries", "counts", "tolerances"};
+                                           "deliveries", "counts", "tolerances", "permits"};
 
 /* ---- month close: deliveries, stock counts, tolerances ---- */
 enum { DK_REAGENT, DK_KG, DK_DATE, DK_STATUS, DK_REF, DK_NOTE, DK_N };
@@ -2041,6 +2082,69 @@ static enum hl_status parse_close(struct vctx *c, struct campaign *cp, const cJS
     }
     return HL_OK;
 }
+
+/* permits (issue 12): limits on what leaves a scrubber's stack */
+enum { PMK_SCRUB, PMK_SPECIES, PMK_KG_H, PMK_MG_NM3, PMK_T_YR, PMK_AVG, PMK_NOTE, PMK_N };
+static const char *const permit_keys[PMK_N] = {"scrubber", "species", "max_kg_h", "max_mg_nm3",
+                                              "max_t_yr", "averaging", "note"};
+static const char *const averaging_names[2] = {"hour", "day"};
+
+static enum hl_status parse_permit(struct vctx *c, const struct idset *ids, const cJSON *o,
+                                   struct camp_permit *p)
+{
+    const cJSON *k[PMK_N];
+    enum hl_status st = members(c, o, permit_keys, PMK_N, k);
+    if (st)
+        return st;
+    p->pos = pos_of(c, o);
+    if (!k[PMK_SCRUB])
+        return missing(c, o, "scrubber", NULL);
+    const char *sid;
+    if ((st = get_str(c, k[PMK_SCRUB], T_TEXT | T_NONEMPTY, MAX_ID, &sid)))
+        return st;
+    if ((p->scrubber = idset_find(ids, sid)) < 0) {
+        char q[64];
+        quote(sid, q, sizeof q);
+        push_key(c, "scrubber");
+        return verr(c, k[PMK_SCRUB], 0, "unknown scrubber \"%s\"", q);
+    }
+    if (!k[PMK_SPECIES])
+        return missing(c, o, "species", NULL);
+    const char *names[VS_COUNT];
+    for (int v = 0; v < VS_COUNT; v++)
+        names[v] = vent_name(v);
+    const char *sp;
+    if ((st = get_str(c, k[PMK_SPECIES], 0, MAX_TEXT, &sp)))
+        return st;
+    p->species = -1;
+    for (int v = 0; v < VS_COUNT; v++)
+        if (!strcmp(sp, names[v]))
+            p->species = v;
+    if (p->species < 0) {
+        char q[64];
+        quote(sp, q, sizeof q);
+        push_key(c, "species");
+        return verr(c, k[PMK_SPECIES], 0, "unknown species \"%s\" (known: HCl, HBr, Cl2, Br2, SO2)", q);
+    }
+    /* floors: a limit must be above zero; these are far below any permit (common practice) */
+    const struct rng rkg = {1e-6, 1e9, 0, 0, "a limit must be above zero (at least 1 mg/h)", NULL},
+                     rmg = {1e-3, 1e9, 0, 0, "a limit must be above zero (at least 0.001 mg/Nm3)", NULL},
+                     rt = {1e-6, 1e9, 0, 0, "a limit must be above zero (at least 1 g/yr)", NULL};
+    int avg = 0;
+    const char *note;
+    if ((k[PMK_KG_H] && (st = get_num(c, k[PMK_KG_H], rkg, &p->max_kg_h))) ||
+        (k[PMK_MG_NM3] && (st = get_num(c, k[PMK_MG_NM3], rmg, &p->max_mg_nm3))) ||
+        (k[PMK_T_YR] && (st = get_num(c, k[PMK_T_YR], rt, &p->max_t_yr))) ||
+        (k[PMK_AVG] && (st = get_enum(c, k[PMK_AVG], averaging_names, 2, &avg))) ||
+        (k[PMK_NOTE] && (st = get_str(c, k[PMK_NOTE], 0, MAX_TEXT, &note))))
+        return st;
+    if (!k[PMK_KG_H] && !k[PMK_MG_NM3] && !k[PMK_T_YR])
+        return verr(c, o, 0, "a permit needs at least one limit: max_kg_h, max_mg_nm3 or max_t_yr");
+    p->averaging_day = avg;
+    return HL_OK;
+}
+
+static enum hl_status parse_permits(struct reader *rd, const cJSON *a);
 /* report: how the ledgers are laid out (not what they compute) */
 enum { OK_PAPER, OK_MINFRAC, OK_NOTE, OK_N };
 static const char *const report_keys[OK_N] = {"paper", "min_mol_fraction", "note"};
@@ -2226,11 +2330,36 @@ static enum hl_status parse_top(struct reader *rd, const cJSON *root)
         if ((st = check_array(c, k[GK_CONT], 0)) || (st = parse_containers(c, k[GK_CONT], cp, 0, NULL)))
             return st;
     }
+    if (k[GK_PERMITS] && (st = parse_permits(rd, k[GK_PERMITS])))
+        return st;
     if (!k[GK_RUNS])
         return missing(c, root, "runs", NULL);
     if ((st = check_array(c, k[GK_RUNS], 1)) || (st = parse_runs(rd, k[GK_RUNS])))
         return st;
     return parse_close(c, cp, k[GK_DELIV], k[GK_COUNTS], k[GK_TOL]);
+}
+
+static enum hl_status parse_permits(struct reader *rd, const cJSON *a)
+{
+    struct vctx *c = &rd->c;
+    struct campaign *cp = rd->camp;
+    enum hl_status st;
+    if ((st = check_array(c, a, 0)))
+        return st;
+    int n = cJSON_GetArraySize(a), idx = 0;
+    cp->permits = hl_calloc((size_t)n + 1, sizeof *cp->permits);
+    if (!cp->permits)
+        return hl_err_set(c->e, HL_ERR_NOMEM, "out of memory reading the campaign");
+    size_t old = push_key(c, "permits");
+    for (const cJSON *o = a->child; o; o = o->next, idx++) {
+        size_t o2 = push_index(c, idx);
+        if ((st = parse_permit(c, &rd->scrub_ids, o, &cp->permits[idx])))
+            return st;
+        cp->npermits = idx + 1;
+        pop(c, o2);
+    }
+    pop(c, old);
+    return HL_OK;
 }
 
 enum hl_status camp_parse(const char *text, size_t len, const char *path, const char *catalog_text,
@@ -2304,6 +2433,7 @@ void camp_free(struct campaign *c)
     for (int i = 0; i < c->nscrubbers; i++)
         hl_free(c->scrubbers[i].id);
     hl_free(c->scrubbers);
+    hl_free(c->permits);
     hl_free(c->stock);
     for (int i = 0; i < c->ncontainers; i++)
         hl_free(c->containers[i].name);

@@ -749,6 +749,11 @@ static void jo_run(struct jo *w, const struct ledger *l, int i)
     if (b->warning[0])
         jo_str(w, "warning", b->warning);
     jo_actual(w, r);
+    jo_open(w, "emissions_kg", '{'); /* what leaves the stack after the scrubber */
+    for (int v = 0; v < VS_COUNT; v++)
+        jo_num(w, jo_vent_key[v], s->emis_kg[v]);
+    jo_close(w, '}');
+    jo_num(w, "emissions_breakthrough_kg", s->emis_breakthrough_kg);
     jo_end(w);
 }
 
@@ -891,6 +896,47 @@ static void jo_run_ids(struct jo *w, const struct ledger *l, const char *key, co
     jo_close(w, ']');
 }
 
+/* A scrubber's stack: flow, removal in force, and per species what leaves it. */
+static void jo_emissions(struct jo *w, const struct ledger *l, int i)
+{
+    const struct emis_unit *eu = l->emis ? &l->emis[i] : NULL;
+    const struct scrub_unit_out *s = &l->scrubbers[i].out;
+    if (eu && eu->stack_nm3_h > 0)
+        jo_num(w, "stack_nm3_h", eu->stack_nm3_h);
+    else
+        jo_null(w, "stack_nm3_h"); /* no concentrations */
+    jo_open(w, "removal", '{');
+    for (int v = 0; v < VS_COUNT; v++)
+        jo_num(w, jo_vent_key[v], s->removal[v]);
+    jo_close(w, '}');
+    jo_open(w, "emissions", '{');
+    for (int v = 0; v < VS_COUNT && eu; v++) {
+        const struct emis_species *sp = &eu->sp[v];
+        jo_open(w, jo_vent_key[v], '{');
+        jo_num(w, "kg", sp->kg);
+        jo_num(w, "peak_kg_h", sp->peak_kg_h);
+        if (sp->peak_kg_h > 0)
+            jo_date(w, "peak_at", sp->peak_at_min, 0);
+        else
+            jo_null(w, "peak_at");
+        if (eu->stack_nm3_h > 0)
+            jo_num(w, "peak_mg_nm3", sp->peak_mg_nm3);
+        else
+            jo_null(w, "peak_mg_nm3");
+        jo_open(w, "years", '[');
+        for (int k = 0; k < sp->nyears; k++) {
+            jo_open(w, NULL, '{');
+            jo_num(w, "year", sp->years[k].year);
+            jo_num(w, "t", sp->years[k].t);
+            jo_close(w, '}');
+        }
+        jo_close(w, ']');
+        jo_run_ids(w, l, "peak_runs", sp->peak_runs, sp->npeak_runs);
+        jo_close(w, '}');
+    }
+    jo_close(w, '}');
+}
+
 static void jo_scrubber(struct jo *w, const struct ledger *l, int i)
 {
     const struct ledger_scrubber *u = &l->scrubbers[i];
@@ -973,6 +1019,38 @@ static void jo_scrubber(struct jo *w, const struct ledger *l, int i)
     } else {
         jo_null(w, "column");
     }
+    jo_emissions(w, l, i);
+    jo_end(w);
+}
+
+/* One limit of one permit against the worst hour, day mean or calendar year. */
+static void jo_permit_check(struct jo *w, const struct ledger *l, int i)
+{
+    const struct emis_check *x = &l->permit_checks[i];
+    jo_begin(w, "permit_checks", i);
+    jo_str(w, "scrubber", l->scrubbers[x->unit].id);
+    jo_str(w, "species", jo_vent_key[x->species]);
+    jo_num(w, "limit", x->limit);
+    jo_str(w, "unit", emis_limit_unit(x->kind));
+    jo_str(w, "averaging", x->kind == EMIS_T_YR ? "year" : x->averaging_day ? "day" : "hour");
+    if (x->has_value)
+        jo_num(w, "value", x->value);
+    else
+        jo_null(w, "value"); /* mg/Nm3 without a stack flow */
+    if (!x->has_at) {
+        jo_null(w, "at");
+    } else if (x->kind == EMIS_T_YR) {
+        char y[16];
+        snprintf(y, sizeof y, "%04d", x->at_year);
+        jo_str(w, "at", y);
+    } else {
+        jo_date(w, "at", x->at_min, x->averaging_day);
+    }
+    if (x->has_value)
+        jo_bool(w, "exceeded", x->exceeded);
+    else
+        jo_null(w, "exceeded");
+    jo_run_ids(w, l, "runs", x->runs, x->nruns);
     jo_end(w);
 }
 
@@ -1104,6 +1182,7 @@ static void jo_document(struct jo *w, const struct ledger *l)
     jo_list(w, l, "orders", l->norders, NULL, jo_order);
     jo_list(w, l, "stock_checks", l->nstock_checks, NULL, jo_stock_check);
     jo_list(w, l, "scrubbers", l->nscrubbers, NULL, jo_scrubber);
+    jo_list(w, l, "permit_checks", l->npermit_checks, NULL, jo_permit_check);
     jo_list(w, l, "warnings", l->nwarnings, NULL, jo_warning);
     jo_list(w, l, "assumptions", l->nassumptions, NULL, jo_assumption);
     int ca[CA_COUNT], nca = 0;

@@ -563,7 +563,8 @@ static enum hl_status run_scrubbers(const struct campaign *c, struct ledger *l, 
             .carrier_kmol_h = s->column.carrier_kmol_h, .liquor_kg_h = s->column.liquor_kg_h,
             .gas_temp_c = s->column.gas_temp_c,
             .fresh_liquor_temp_c = s->fresh_liquor_temp_c, .fresh_temp_given = 1,
-            .max_liquor_temp_c = s->max_liquor_temp_c};
+            .max_liquor_temp_c = s->max_liquor_temp_c, .removal_given = s->removal_given};
+        memcpy(units[u].removal, s->removal, sizeof units[u].removal);
     }
     for (int i = 0; i < nr; i++) {
         const struct ledger_run *lr = &l->runs[i];
@@ -612,6 +613,107 @@ out:
     hl_free(rin);
     hl_free(rout);
     hl_free(order);
+    return st;
+}
+
+/* ---- emissions ---- */
+
+/* What leaves the stacks: each run's emission comes from the scrubber model, which took it
+ * from the vent amounts it was given (so any change to a run's vent moves both). */
+static enum hl_status build_emissions(const struct campaign *c, struct ledger *l, struct hl_err *e)
+{
+    int nu = l->nscrubbers, nr = l->nruns, np = c->npermits;
+    struct emis_run *er = hl_calloc((size_t)(nr ? nr : 1), sizeof *er);
+    struct emis_permit *ep = hl_calloc((size_t)(np ? np : 1), sizeof *ep);
+    struct scrub_unit_out *uo = hl_calloc((size_t)(nu ? nu : 1), sizeof *uo);
+    double *stack = hl_calloc((size_t)(nu ? nu : 1), sizeof *stack);
+    enum hl_status st = HL_OK;
+    if (!er || !ep || !uo || !stack) {
+        st = nomem(e);
+        goto out;
+    }
+    for (int u = 0; u < nu; u++) {
+        uo[u] = l->scrubbers[u].out; /* a shallow view: emis_build only reads it */
+        stack[u] = c->scrubbers[u].stack_nm3_h;
+    }
+    for (int i = 0; i < nr; i++) {
+        const struct ledger_run *r = &l->runs[i];
+        struct scrub_run_in ri = {.unit = r->scrubber_index, .start_min = r->start_min,
+                                  .feed_h = r->feed_h, .peak_factor = r->peak_factor};
+        er[i] = (struct emis_run){r->scrubber_index, r->start_min, scrub_vent_end_min(&ri), {0}};
+        memcpy(er[i].kg, r->scrub.emis_kg, sizeof er[i].kg);
+    }
+    for (int k = 0; k < np; k++) {
+        const struct camp_permit *p = &c->permits[k];
+        ep[k] = (struct emis_permit){p->scrubber, p->species, p->max_kg_h, p->max_mg_nm3,
+                                     p->max_t_yr, p->averaging_day};
+    }
+    st = emis_build(uo, stack, nu, er, nr, ep, np, &l->emis, &l->permit_checks,
+                    &l->npermit_checks, e);
+out:
+    hl_free(er);
+    hl_free(ep);
+    hl_free(uo);
+    hl_free(stack);
+    return st;
+}
+
+/* Each removal fraction in force (Assumptions sheet), and a warning per permit limit
+ * exceeded or not checkable. */
+static enum hl_status report_emissions(const struct campaign *c, struct ledger *l, struct hl_err *e)
+{
+    enum hl_status st = HL_OK;
+    char what[200], when[20], runs[200];
+    for (int u = 0; u < l->nscrubbers && !st; u++) {
+        const struct scrub_unit_out *o = &l->scrubbers[u].out;
+        int water = c->scrubbers[u].liquor == CAMP_LIQUOR_WATER;
+        for (int v = 0; v < VS_COUNT && !st; v++) {
+            const char *origin = NULL;
+            scrub_removal_default(v, water, &origin);
+            if (o->removal_origin[v] == SCRUB_REM_GIVEN)
+                origin = "campaign scrubbers[].removal";
+            else if (o->removal_origin[v] == SCRUB_REM_COLUMN)
+                origin = "column: 1 - exp(-NTU), NTU = ln(1 / (1 - removal_fraction)) of its design "
+                         "(gas-film control, fast irreversible reaction; the same NTU for every gas "
+                         "the liquor absorbs)";
+            snprintf(what, sizeof what, "Removal of %s credited to scrubber %s (emissions)",
+                     vent_name(v), l->scrubbers[u].id);
+            st = assume(l, e, what, 1, o->removal[v], "fraction", origin);
+        }
+    }
+    if (!st && l->nscrubbers > 0)
+        st = assume(l, e, "Emissions", 0, 0, NULL,
+                    "planning estimates: of what the liquor can still take (caustic: until its "
+                    "NaOH is used up; water: HCl and HBr up to its changeout strength) 1 - removal "
+                    "leaves the stack, all the rest breaks through; spread evenly over the vent "
+                    "window, binned by clock hour; mg/Nm3 = kg/h x 1e6 / stack_nm3_h (0 C, "
+                    "101.325 kPa). A permit is judged on measured emissions by the method the "
+                    "authority prescribes");
+    for (int k = 0; k < l->npermit_checks && !st; k++) {
+        const struct emis_check *x = &l->permit_checks[k];
+        const char *sid = l->scrubbers[x->unit].id, *sp = vent_name(x->species);
+        const char *unit = emis_limit_unit(x->kind);
+        if (!x->has_value) {
+            st = warn(l, e, NULL, "permit on scrubber %s %s: the %.4g mg/Nm3 limit cannot be "
+                      "checked: the scrubber gives no stack_nm3_h", sid, sp, x->limit);
+            continue;
+        }
+        if (!x->exceeded)
+            continue;
+        join_run_ids(l, x->runs, x->nruns, runs, sizeof runs);
+        if (x->kind == EMIS_T_YR)
+            snprintf(when, sizeof when, "%04d", x->at_year);
+        else
+            isodate_format(x->at_min, x->averaging_day, when, sizeof when);
+        st = warn(l, e, NULL,
+                  "permit on scrubber %s %s exceeded: %.4g %s %s %s (runs %s) against the limit "
+                  "of %.4g %s; a planning estimate: the permit and local rules decide, on "
+                  "measured emissions",
+                  sid, sp, x->value, unit,
+                  x->kind == EMIS_T_YR ? "in the year" : x->averaging_day ? "as the mean of the day"
+                                                                          : "in the hour from",
+                  when, runs, x->limit, unit);
+    }
     return st;
 }
 
@@ -1225,6 +1327,8 @@ enum hl_status ledger_build(const struct campaign *c, const struct ledger_opts *
         (st = own_container_names(l, e)) || (st = build_months(l, e)) ||
         (st = collect_warnings(c, l, e)) || (st = close_warnings(l, e)))
         goto fail;
+    if ((st = build_emissions(c, l, e)) || (st = report_emissions(c, l, e)))
+        goto fail;
     collect_cautions(l);
     *out = l;
     return HL_OK;
@@ -1263,6 +1367,7 @@ void ledger_free(struct ledger *l)
         hl_free(l->scrubbers[i].id);
         scrub_unit_out_free(&l->scrubbers[i].out, 1);
     }
+    emis_free(l->emis, l->nscrubbers, l->permit_checks, l->npermit_checks);
     hl_free(l->scrubbers);
     for (int i = 0; i < l->nwarnings; i++) {
         hl_free(l->warnings[i].run);

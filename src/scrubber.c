@@ -280,6 +280,38 @@ double scrub_ntu(double y_in, double y_out)
     return log(y_in / y_out);
 }
 
+/* ---- removal credited to a unit (emissions) ----
+ * Without column data or a given value: a packed caustic scrubber on a halogenation vent
+ * is commonly specified for 99 % removal of HCl and HBr and 98 % of Cl2, Br2 and SO2
+ * (common practice: typical guarantee figures, not a design); a water scrubber for 95 %
+ * of HCl and HBr (from memory).  Cl2, Br2 and SO2 pass a water liquor (the liquor model
+ * above), so it removes none of them. */
+static const double removal_caustic[VS_COUNT] = {[VS_HCL] = 0.99, [VS_HBR] = 0.99,
+                                                 [VS_CL2] = 0.98, [VS_BR2] = 0.98, [VS_SO2] = 0.98};
+static const double removal_water[VS_COUNT] = {[VS_HCL] = 0.95, [VS_HBR] = 0.95};
+
+double scrub_removal_default(int vs, int water_liquor, const char **origin)
+{
+    if (vs < 0 || vs >= VS_COUNT) {
+        if (origin)
+            *origin = "";
+        return 0;
+    }
+    if (origin)
+        *origin = !water_liquor ? "packed caustic scrubber, typical specification (common practice)"
+                  : (vs == VS_HCL || vs == VS_HBR) ? "water scrubber, typical specification (from memory)"
+                                                   : "a water liquor does not absorb it (liquor model)";
+    return water_liquor ? removal_water[vs] : removal_caustic[vs];
+}
+
+/* A fast irreversible reaction keeps the gas-liquid interface free of the gas (no
+ * back-pressure), so with gas-film control dy/dZ = -y / HTU and y_out / y_in = exp(-NTU).
+ * expm1 keeps the small-NTU end exact (removal -> NTU). */
+double scrub_removal_from_ntu(double ntu)
+{
+    return ntu > 0 ? -expm1(-ntu) : 0.0;
+}
+
 #define P_ATM 101325.0        /* the column runs near atmospheric: common practice */
 #define R_GAS 8.314462618     /* J/(mol K), CODATA 2018 */
 #define G_STD 9.80665         /* m/s2, standard gravity */
@@ -481,13 +513,40 @@ static void sulfite_redox(struct liq *q, struct scrub_run_out *r)
 }
 
 /* Absorb one run's vent into the liquor and fill the run's liquor figures. */
-static void absorb(const struct scrub_unit_in *u, struct liq *q, const double *vent,
-                   struct scrub_run_out *r)
+/* Water liquor: the share g of this run's HCl and HBr it can take before its acid reaches
+ * the changeout strength (acid_load = 1), with the acids in the run's proportion.  The
+ * load after taking g is linear-fractional in g, so the bound is one division. */
+static double water_capacity(const struct scrub_unit_in *u, const struct liq *q, const double *vent)
 {
+    double hcl = vent[VS_HCL] * gas_mm[VS_HCL] / 1000.0, hbr = vent[VS_HBR] * gas_mm[VS_HBR] / 1000.0;
+    if (!(hcl + hbr > 0))
+        return 1.0;
+    double mh = u->max_acid_wt_pct > 0 ? u->max_acid_wt_pct : DEFAULT_MAX_ACID_WT_PCT;
+    double mb = u->max_hbr_wt_pct > 0 ? u->max_hbr_wt_pct : DEFAULT_MAX_HBR_WT_PCT;
+    /* 100 (q_hcl + g hcl) / mh + 100 (q_hbr + g hbr) / mb <= mass + g (hcl + hbr) */
+    double room = liq_mass(q) - 100.0 * q->hcl / mh - 100.0 * q->hbr / mb;
+    double per_g = 100.0 * hcl / mh + 100.0 * hbr / mb - (hcl + hbr);
+    if (!(room > 0))
+        return 0.0;
+    if (!(per_g > room))
+        return 1.0;
+    return room / per_g;
+}
+
+/* Absorb one run's vent into the liquor and fill the run's liquor figures; taken[v] is
+ * the share of each gas the liquor could take (the rest breaks through). */
+static void absorb(const struct scrub_unit_in *u, struct liq *q, const double *vent,
+                   struct scrub_run_out *r, double *taken)
+{
+    for (int v = 0; v < VS_COUNT; v++)
+        taken[v] = 1.0;
     double wt_before = 0, hcl_before = 0, hbr_before = 0, mass_before = liq_mass(q);
     if (u->water_liquor) {
         hcl_before = mass_before > 0 ? q->hcl / mass_before * 100.0 : 0;
         hbr_before = mass_before > 0 ? q->hbr / mass_before * 100.0 : 0;
+        /* past the changeout strength the acid's vapour pressure stops absorption; the
+         * liquor figures still count the whole vent (the changeout warning covers it) */
+        taken[VS_HCL] = taken[VS_HBR] = water_capacity(u, q, vent);
         q->hcl += vent[VS_HCL] * gas_mm[VS_HCL] / 1000.0;
         q->hbr += vent[VS_HBR] * gas_mm[VS_HBR] / 1000.0;
         r->heat_kj = vent[VS_HCL] * scrub_heat_kj_per_mol(VS_HCL, 1) +
@@ -507,6 +566,8 @@ static void absorb(const struct scrub_unit_in *u, struct liq *q, const double *v
          * the rest breaks through: a simple bound, flagged as exhausted. */
         double f = need_kg > q->naoh ? (q->naoh > 0 ? q->naoh / need_kg : 0) : 1.0;
         r->breakthrough_mol = (1.0 - f) * total_mol;
+        for (int v = 0; v < VS_COUNT; v++)
+            taken[v] = f;
         for (int v = 0; v < VS_COUNT; v++) {
             double n = f * vent[v];
             if (!(n > 0))
@@ -549,6 +610,37 @@ static void absorb(const struct scrub_unit_in *u, struct liq *q, const double *v
     r->boiling_point_c = u->water_liquor ? ACID_BOIL_C : scrub_naoh_boiling_point_c(r->naoh_wt_pct_after);
     r->boils = q->temp_c >= r->boiling_point_c;
 }
+/* What leaves the stack: of the share the liquor takes, 1 - removal; the rest whole. */
+static void emit(const double *removal, const double *vent, const double *taken,
+                 struct scrub_run_out *r)
+{
+    for (int v = 0; v < VS_COUNT; v++) {
+        double kg = vent[v] * gas_mm[v] / 1000.0, passed = kg * (1.0 - taken[v]);
+        r->emis_kg[v] = passed + kg * taken[v] * (1.0 - removal[v]);
+        r->emis_breakthrough_kg += passed;
+    }
+}
+
+/* The removal in force per unit and species: given, else from the column's transfer units
+ * (the NTU of its design removal, the same for every gas the liquor absorbs: gas-film
+ * control, diffusivity differences left out), else the default. */
+static void removal_in_force(const struct scrub_unit_in *u, struct scrub_unit_out *o)
+{
+    for (int v = 0; v < VS_COUNT; v++) {
+        double def = scrub_removal_default(v, u->water_liquor, NULL);
+        if (u->removal_given & (1u << v)) {
+            o->removal[v] = u->removal[v];
+            o->removal_origin[v] = SCRUB_REM_GIVEN;
+        } else if (u->has_column && def > 0) {
+            o->removal[v] = scrub_removal_from_ntu(scrub_ntu(1.0, 1.0 - u->removal_fraction));
+            o->removal_origin[v] = SCRUB_REM_COLUMN;
+        } else {
+            o->removal[v] = def;
+            o->removal_origin[v] = def > 0 ? SCRUB_REM_DEFAULT : SCRUB_REM_NONE;
+        }
+    }
+}
+
 static enum hl_status check_inputs(const struct scrub_unit_in *units, int nunits,
                                    const struct scrub_run_in *runs, int nruns, const int *order,
                                    char *seen, struct hl_err *e)
@@ -568,6 +660,12 @@ static enum hl_status check_inputs(const struct scrub_unit_in *units, int nunits
             return hl_err_set(e, HL_ERR_INPUT,
                               "scrubber %s: liquor temperatures must be finite and above -273.15 C",
                               id);
+        for (int v = 0; v < VS_COUNT; v++)
+            if ((u->removal_given & (1u << v)) &&
+                (!(u->removal[v] >= 0 && u->removal[v] <= 1) ||
+                 (u->water_liquor && v != VS_HCL && v != VS_HBR && u->removal[v] > 0)))
+                return hl_err_set(e, HL_ERR_INPUT, "scrubber %s: removal of %s must lie in [0, 1] "
+                                  "(0 for Cl2, Br2, SO2 on a water liquor)", id, vent_name(v));
         if (u->water_liquor && (!(u->max_acid_wt_pct < 100) || !(u->max_hbr_wt_pct < 100)))
             return hl_err_set(e, HL_ERR_INPUT,
                               "scrubber %s: max_acid_wt_pct and max_hbr_wt_pct must be < 100", id);
@@ -626,6 +724,8 @@ static double vent_end_min(const struct scrub_run_in *r)
     return end > start ? end : nextafter(start, HUGE_VAL);
 }
 
+double scrub_vent_end_min(const struct scrub_run_in *r) { return vent_end_min(r); }
+
 static int64_t floor_div(int64_t a, int64_t b) { return a / b - ((a % b != 0) && ((a < 0) != (b < 0))); }
 
 void scrub_unit_out_free(struct scrub_unit_out *u, int nunits)
@@ -643,6 +743,11 @@ void scrub_unit_out_free(struct scrub_unit_out *u, int nunits)
         u[i].hourly_hour = NULL;
         u[i].nhourly = 0;
         hl_free(u[i].spent);
+        for (int v = 0; v < VS_COUNT; v++) {
+            hl_free(u[i].emis[v].hourly_kg_h);
+            hl_free(u[i].emis[v].hourly_hour);
+            memset(&u[i].emis[v], 0, sizeof u[i].emis[v]);
+        }
         u[i].peak_runs = u[i].peak_instant_runs = NULL;
         u[i].hourly_kmol_h = NULL;
         u[i].spent = NULL;
@@ -821,10 +926,12 @@ static int bin_cmp(const void *pa, const void *pb)
 }
 
 /* The walk over one unit's hours: peak (earliest hour wins a tie, including ties broken
- * only by round-off) and the loaded hours kept. */
+ * only by round-off) and the loaded hours kept, into one series (the load profile or one
+ * species' emissions: the same walk for both). */
 struct walk { double best; int at, cap; };
+struct series { double **v; int **hour; int *n; int nhours; };
 
-static enum hl_status keep_hour(struct scrub_unit_out *o, struct walk *w, int h, double v)
+static enum hl_status keep_hour(struct series *o, struct walk *w, int h, double v)
 {
     if (v > w->best * (1 + 1e-12) + 1e-300) {
         w->best = v;
@@ -832,26 +939,25 @@ static enum hl_status keep_hour(struct scrub_unit_out *o, struct walk *w, int h,
     }
     if (v == 0)
         return HL_OK;
-    if (o->nhourly == w->cap) {
+    if (*o->n == w->cap) {
         int cap = w->cap ? 2 * w->cap : 16;
-        int *hh = hl_realloc(o->hourly_hour, (size_t)cap * sizeof *hh);
+        int *hh = hl_realloc(*o->hour, (size_t)cap * sizeof *hh);
         if (hh)
-            o->hourly_hour = hh;
-        double *vv = hh ? hl_realloc(o->hourly_kmol_h, (size_t)cap * sizeof *vv) : NULL;
+            *o->hour = hh;
+        double *vv = hh ? hl_realloc(*o->v, (size_t)cap * sizeof *vv) : NULL;
         if (!vv)
             return HL_ERR_NOMEM;
-        o->hourly_kmol_h = vv;
+        *o->v = vv;
         w->cap = cap;
     }
-    o->hourly_hour[o->nhourly] = h;
-    o->hourly_kmol_h[o->nhourly++] = v;
+    (*o->hour)[*o->n] = h;
+    (*o->v)[(*o->n)++] = v;
     return HL_OK;
 }
 
 /* Hours h0 .. h1-1 hold no entry: each carries the running sum alone.  With no load only
  * the first can change the peak (a zero beats only the starting -1). */
-static enum hl_status gap_hours(struct scrub_unit_out *o, struct walk *w, int h0, int h1,
-                                double run)
+static enum hl_status gap_hours(struct series *o, struct walk *w, int h0, int h1, double run)
 {
     if (h0 >= h1)
         return HL_OK;
@@ -863,9 +969,10 @@ static enum hl_status gap_hours(struct scrub_unit_out *o, struct walk *w, int h0
     return HL_OK;
 }
 
-/* One unit's hourly profile from its sorted entries ev[0..n-1]: hours with load only. */
-static enum hl_status profile(struct scrub_unit_out *o, const struct bin_ev *ev, size_t n,
-                              double max_rate, struct hl_err *e)
+/* One unit's series from its sorted entries ev[0..n-1]: hours with load only; the peak
+ * and its hour (index from hour0) into *peak and *peak_h. */
+static enum hl_status profile(struct series *o, const struct bin_ev *ev, size_t n, double max_rate,
+                              double *peak, int *peak_h, struct hl_err *e)
 {
     struct walk w = {-1, 0, 0};
     double run = 0;
@@ -886,8 +993,95 @@ static enum hl_status profile(struct scrub_unit_out *o, const struct bin_ev *ev,
     }
     if (gap_hours(o, &w, next, o->nhours, run))
         return hl_err_set(e, HL_ERR_NOMEM, "out of memory in the scrubber model");
-    o->peak_acid_kmol_h = w.best > 0 ? w.best : 0;
-    o->peak_at_min = o->hour0_min + (int64_t)w.at * 60;
+    *peak = w.best > 0 ? w.best : 0;
+    *peak_h = w.at;
+    return HL_OK;
+}
+
+/* A run's vent at `rate` (per hour) into the bins of its unit: the partial first and last
+ * hours straight into their bins, the whole hours between into a difference array. */
+static void bin_run(struct bins *bn, const struct scrub_run_in *r, const struct scrub_unit_out *o,
+                    double rate)
+{
+    double a = (double)(r->start_min - o->hour0_min);
+    double b = a + r->feed_h / pf_of(r) * 60.0; /* minutes from hour0 */
+    /* b <= nhours x 60 up to round-off, so ib <= nhours: an entry at hour nhours
+     * is never reported */
+    int64_t ia = (r->start_min - o->hour0_min) / 60, ib = (int64_t)floor(b / 60.0);
+    if (ib > o->nhours)
+        ib = o->nhours;
+    if (ia == ib) {
+        bin_add(bn, r->unit, ia, 0, rate * (b - a) / 60.0);
+    } else {
+        bin_add(bn, r->unit, ia, 0, rate * ((double)(ia + 1) * 60.0 - a) / 60.0);
+        bin_add(bn, r->unit, ia + 1, 1, rate);
+        bin_add(bn, r->unit, ib, 1, -rate);
+        bin_add(bn, r->unit, ib, 0, rate * (b - (double)ib * 60.0) / 60.0);
+    }
+}
+
+static double sparse_at(const double *v, const int *hour, int n, int h)
+{
+    int lo = 0, hi = n;
+    while (lo < hi) {
+        int mid = lo + (hi - lo) / 2;
+        if (hour[mid] < h)
+            lo = mid + 1;
+        else
+            hi = mid;
+    }
+    return lo < n && hour[lo] == h ? v[lo] : 0;
+}
+
+double scrub_hourly_emis_kg_h(const struct scrub_unit_out *u, int vs, int h)
+{
+    if (!u || vs < 0 || vs >= VS_COUNT || h < 0 || h >= u->nhours || !u->emis[vs].hourly_kg_h)
+        return 0;
+    return sparse_at(u->emis[vs].hourly_kg_h, u->emis[vs].hourly_hour, u->emis[vs].nhourly, h);
+}
+
+/* Each species' hourly emissions, on the bins of the load profile (emptied and refilled
+ * per species: the same memory, one sort per species that leaves the stack). */
+static enum hl_status emission_profiles(const struct scrub_run_in *runs, int nruns, const int *order,
+                                        const struct scrub_run_out *run_out, int nunits,
+                                        struct scrub_unit_out *unit_out, struct liq *q,
+                                        struct bins *bn, struct hl_err *e)
+{
+    for (int v = 0; v < VS_COUNT; v++) {
+        bn->n = 0;
+        for (int u = 0; u < nunits; u++)
+            q[u].max_rate = 0;
+        for (int k = 0; k < nruns; k++) {
+            int i = order[k];
+            const struct scrub_run_in *r = &runs[i];
+            double kg = run_out[i].emis_kg[v];
+            if (r->unit < 0 || !(kg > 0))
+                continue;
+            unit_out[r->unit].emis[v].kg += kg;
+            double rate = kg / (r->feed_h / pf_of(r)); /* kg/h over the vent window */
+            if (rate > q[r->unit].max_rate)
+                q[r->unit].max_rate = rate;
+            bin_run(bn, r, &unit_out[r->unit], rate);
+        }
+        if (bn->n == 0)
+            continue;
+        qsort(bn->ev, bn->n, sizeof *bn->ev, bin_cmp);
+        for (size_t k = 0, u = 0; u < (size_t)nunits; u++) {
+            size_t k0 = k;
+            while (k < bn->n && bn->ev[k].unit == (int)u)
+                k++;
+            struct scrub_unit_out *o = &unit_out[u];
+            struct scrub_emis *m = &o->emis[v];
+            if (k == k0)
+                continue;
+            struct series sr = {&m->hourly_kg_h, &m->hourly_hour, &m->nhourly, o->nhours};
+            int at = 0;
+            enum hl_status st = profile(&sr, &bn->ev[k0], k - k0, q[u].max_rate, &m->peak_kg_h, &at, e);
+            if (st)
+                return st;
+            m->peak_at_min = o->hour0_min + (int64_t)at * 60;
+        }
+    }
     return HL_OK;
 }
 
@@ -897,15 +1091,7 @@ double scrub_hourly_kmol_h(const struct scrub_unit_out *u, int h)
         return 0;
     if (!u->hourly_hour)
         return u->hourly_kmol_h[h];
-    int lo = 0, hi = u->nhourly;
-    while (lo < hi) {
-        int mid = lo + (hi - lo) / 2;
-        if (u->hourly_hour[mid] < h)
-            lo = mid + 1;
-        else
-            hi = mid;
-    }
-    return lo < u->nhourly && u->hourly_hour[lo] == h ? u->hourly_kmol_h[lo] : 0;
+    return sparse_at(u->hourly_kmol_h, u->hourly_hour, u->nhourly, h);
 }
 
 enum hl_status scrub_campaign(const struct scrub_unit_in *units, int nunits,
@@ -933,6 +1119,8 @@ enum hl_status scrub_campaign(const struct scrub_unit_in *units, int nunits,
     }
     if ((st = check_inputs(units, nunits, runs, nruns, order, seen, e)))
         goto out;
+    for (int u = 0; u < nunits; u++)
+        removal_in_force(&units[u], &unit_out[u]);
 
     /* Pass 1: each unit's time span, for the size of its hourly profile. */
     for (int i = 0; i < nruns; i++) {
@@ -1016,24 +1204,10 @@ enum hl_status scrub_campaign(const struct scrub_unit_in *units, int nunits,
         struct liq *l = &q[r->unit];
 
         double rate = ro->acid_kmol_h;
-        double a = (double)(r->start_min - o->hour0_min);
-        double b = a + r->feed_h / pf_of(r) * 60.0; /* minutes from hour0 */
         if (rate > 0) {
-            /* b <= nhours x 60 up to round-off, so ib <= nhours: an entry at hour nhours
-             * is never reported */
-            int64_t ia = (r->start_min - o->hour0_min) / 60, ib = (int64_t)floor(b / 60.0);
-            if (ib > o->nhours)
-                ib = o->nhours;
             if (rate > l->max_rate)
                 l->max_rate = rate;
-            if (ia == ib) {
-                bin_add(&bn, r->unit, ia, 0, rate * (b - a) / 60.0);
-            } else {
-                bin_add(&bn, r->unit, ia, 0, rate * ((double)(ia + 1) * 60.0 - a) / 60.0);
-                bin_add(&bn, r->unit, ia + 1, 1, rate);
-                bin_add(&bn, r->unit, ib, 1, -rate);
-                bin_add(&bn, r->unit, ib, 0, rate * (b - (double)ib * 60.0) / 60.0);
-            }
+            bin_run(&bn, r, o, rate);
         }
 
         /* At a group's first run the unit is idle: charge fresh liquor when the liquor in
@@ -1057,7 +1231,9 @@ enum hl_status scrub_campaign(const struct scrub_unit_in *units, int nunits,
         }
         if (over_limit(u, l, r->vent_mol))
             ro->exhausted = 1;
-        absorb(u, l, r->vent_mol, ro);
+        double taken[VS_COUNT];
+        absorb(u, l, r->vent_mol, ro, taken);
+        emit(o->removal, r->vent_mol, taken, ro);
         ro->heat_kw = ro->heat_kj / (r->feed_h / pf_of(r) * 3600.0);
         o->naoh_kg += ro->naoh_kg;
         o->heat_kj += ro->heat_kj;
@@ -1077,8 +1253,11 @@ enum hl_status scrub_campaign(const struct scrub_unit_in *units, int nunits,
             k++;
         if (!q[u].used)
             continue;
-        if ((st = profile(o, &bn.ev[k0], k - k0, q[u].max_rate, e)))
+        struct series sr = {&o->hourly_kmol_h, &o->hourly_hour, &o->nhourly, o->nhours};
+        int at = 0;
+        if ((st = profile(&sr, &bn.ev[k0], k - k0, q[u].max_rate, &o->peak_acid_kmol_h, &at, e)))
             goto out;
+        o->peak_at_min = o->hour0_min + (int64_t)at * 60;
         if ((st = push_spent(o, &q[u], (int64_t)ceil(q[u].last_end_min - 1e-9), 1))) {
             hl_err_set(e, st, "out of memory in the scrubber model");
             goto out;
@@ -1090,6 +1269,8 @@ enum hl_status scrub_campaign(const struct scrub_unit_in *units, int nunits,
         o->makeup_kg = o->changeouts * solution_kg;
     }
 
+    if ((st = emission_profiles(runs, nruns, order, run_out, nunits, unit_out, q, &bn, e)))
+        goto out;
     if ((st = instant_peaks(runs, nruns, run_out, unit_out, 0, e)) ||
         (st = instant_peaks(runs, nruns, run_out, unit_out, 1, e)) ||
         (st = runs_at_peak(runs, nruns, order, run_out, nunits, unit_out, PK_HOURLY, e)) ||
