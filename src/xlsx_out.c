@@ -444,8 +444,11 @@ static void xt_cap(struct xtable *b)
 }
 
 /* Header/footer text may carry user text: '&' is the codes' escape, so it is doubled;
- * a doubled '&' before 'G' would still read as the picture code "&G" to the library,
- * so a zero-width space separates them.  Cut to `room` bytes on a character boundary. */
+ * a doubled '&' before 'G' would still read as the picture code "&G" to the library, and
+ * one before "[Picture]" as the long form it rewrites to "&G" (libxlsxwriter 1.1.4 then
+ * refuses the header for want of an image and frees the string twice: a crash found by
+ * tests/fuzz/fuzz_workbook), so a zero-width space separates '&&' from 'G' and from '['.
+ * Cut to `room` bytes on a character boundary. */
 static void xo_hf_text(char *out, size_t room, const char *s)
 {
     size_t o = 0;
@@ -454,7 +457,7 @@ static void xo_hf_text(char *out, size_t room, const char *s)
         const char *piece = (const char *)p;
         size_t len = n ? (size_t)n : 1;
         if (*p == '&')
-            piece = p[1] == 'G' ? "&&\xE2\x80\x8B" : "&&", len = strlen(piece);
+            piece = p[1] == 'G' || p[1] == '[' ? "&&\xE2\x80\x8B" : "&&", len = strlen(piece);
         else if (n == 0 || *p < 0x20)
             piece = " ", len = 1;
         if (o + len + 1 > room)

@@ -1,9 +1,13 @@
 #!/usr/bin/python3
 """seed.py ROOT OUT - gather the seed corpora of the fuzz targets into OUT/<target>/.
 
-fuzz_campaign: campaigns/*.json, tests/bad/*.json, templates/*.json.
+fuzz_campaign: campaigns/*.json, tests/campaigns/*.json, tests/bad/*.json, templates/*.json.
+fuzz_pipeline, fuzz_workbook: campaigns/*.json, tests/campaigns/*.json and the tests/bad cases
+               listed in tests/bad/NEEDS_MODELS (refused by the models, past the reader).
 fuzz_smiles:   "smiles"/"product_smiles" values of those files, tests/data/*smiles*.txt lines,
-               and string literals of tests/ sources that look like SMILES.
+               string literals of tests/ sources that look like SMILES, and long generated
+               molecules around the campaign's 1,000-atom limit (chains, branches, rings,
+               bracket atoms, aromatic rings) so the fuzzer starts past 1,024 bytes.
 fuzz_formula:  "formula" values of those files and string literals of tests/ sources that look
                like formulas.
 Files are named by the SHA-1 of their bytes (as libFuzzer names its own), so reseeding is
@@ -34,14 +38,43 @@ def put(outdir, data):
     return 1
 
 
+def long_smiles():
+    """Molecules of 999 to 8,000 atoms (the campaign refuses a SMILES at its 1,001st atom;
+    smiles_parse itself has no such limit)."""
+    out = set()
+    for n in (999, 1000, 1001, 2000, 8000):
+        out.add(b'C' * n)
+    out.add(b'CC(C)' * 334)                      # 1,002 atoms, 334 branches
+    out.add(b'c1ccc(cc1)' * 166 + b'C')          # 997 aromatic atoms + 1: kekulized as one
+    out.add(b'[13CH2]' * 1001)                   # bracket atoms, 7,007 bytes
+    out.add(b''.join(b'C%%%02dCC%%%02d' % (i % 90 + 10, i % 90 + 10) for i in range(334)))
+    out.add(b'ClC(Br)(F)' + b'C(Cl)' * 499)      # halogens on a 500-carbon chain
+    out.add(b'C=C' * 500 + b'C')                 # 1,001 atoms, alternating bonds
+    return out
+
+
 def main():
     root, out = sys.argv[1], sys.argv[2]
-    dirs = {t: os.path.join(out, t) for t in ('fuzz_campaign', 'fuzz_smiles', 'fuzz_formula')}
+    dirs = {t: os.path.join(out, t) for t in ('fuzz_campaign', 'fuzz_smiles', 'fuzz_formula',
+                                              'fuzz_pipeline', 'fuzz_workbook')}
     for d in dirs.values():
         os.makedirs(d, exist_ok=True)
     jsons = []
-    for pat in ('campaigns/*.json', 'tests/bad/*.json', 'templates/*.json'):
+    for pat in ('campaigns/*.json', 'tests/campaigns/*.json', 'tests/bad/*.json',
+                'templates/*.json'):
         jsons += sorted(glob.glob(os.path.join(root, pat)))
+    pipeline = sorted(glob.glob(os.path.join(root, 'campaigns', '*.json')) +
+                      glob.glob(os.path.join(root, 'tests', 'campaigns', '*.json')))
+    with open(os.path.join(root, 'tests', 'bad', 'NEEDS_MODELS'), encoding='utf-8') as f:
+        for line in f:
+            name = line.split('#')[0].strip()
+            if name:
+                pipeline.append(os.path.join(root, 'tests', 'bad', name + '.json'))
+    for path in pipeline:
+        with open(path, 'rb') as f:
+            data = f.read()
+        put(dirs['fuzz_pipeline'], data)
+        put(dirs['fuzz_workbook'], data)
     smiles, formulas = set(), set()
     for path in jsons:
         with open(path, 'rb') as f:
@@ -68,6 +101,7 @@ def main():
                 formulas.add(lit.encode())
             if SMILES_RE.match(lit) and SMILES_ATOM_RE.search(lit):
                 smiles.add(lit.encode())
+    smiles.update(long_smiles())
     for s in sorted(smiles):
         put(dirs['fuzz_smiles'], s)
     for s in sorted(formulas):
