@@ -72,6 +72,10 @@ for t in $TARGETS; do
         fuzz_smiles) maxlen=8192 ;; # past 1,000 atoms even in bracket atoms ([13CH2] x 1001)
         *) maxlen=256 ;;
     esac
+    # a balance may take 0.3 s (-O2), some 6 s under the sanitizers, and an input holds up to 8
+    # (tests/fuzz/fuzz_pipeline.h)
+    tmo=10
+    case $t in fuzz_pipeline | fuzz_workbook) tmo=60 ;; esac
     dict=""
     [ -f tests/fuzz/$t.dict ] && dict="-dict=tests/fuzz/$t.dict"
     case $t in fuzz_pipeline | fuzz_workbook) dict="-dict=tests/fuzz/fuzz_campaign.dict" ;; esac
@@ -90,7 +94,7 @@ for t in $TARGETS; do
     if [ "$MODE" = "--regress" ]; then
         log=$OUT/$t.regress.log
         # Execute every input once, no mutation: -runs=0 over the folders.
-        $OUT/$t -runs=0 -print_final_stats=1 -timeout=20 -rss_limit_mb=2048 \
+        $OUT/$t -runs=0 -print_final_stats=1 -timeout=$((tmo * 2)) -rss_limit_mb=2048 \
             -max_len=$maxlen -artifact_prefix=$OUT/artifacts/$t/ $OUT/seed/$t "$run" >$log 2>&1
         rc=$?
         for f in $(sed -n "s|^$t/||p" tests/fuzz/regress/OPEN 2>/dev/null); do
@@ -104,7 +108,7 @@ for t in $TARGETS; do
         # Keep going after a crash (fork mode); every crash is kept in artifacts/ and fails the run.
         # shellcheck disable=SC2086
         $OUT/$t -fork=1 -ignore_crashes=1 -ignore_timeouts=1 -ignore_ooms=1 \
-            -max_total_time="$MODE" -timeout=10 -rss_limit_mb=2048 -max_len=$maxlen $dict \
+            -max_total_time="$MODE" -timeout=$tmo -rss_limit_mb=2048 -max_len=$maxlen $dict \
             -artifact_prefix=$OUT/artifacts/$t/ $OUT/corpus/$t $OUT/seed/$t "$run" \
             >$log 2>&1
         rc=$?
@@ -117,7 +121,7 @@ for t in $TARGETS; do
         continue
     else
         # shellcheck disable=SC2086
-        $OUT/$t -max_total_time="$MODE" -print_final_stats=1 -timeout=10 -rss_limit_mb=2048 \
+        $OUT/$t -max_total_time="$MODE" -print_final_stats=1 -timeout=$tmo -rss_limit_mb=2048 \
             -max_len=$maxlen $dict -artifact_prefix=$OUT/artifacts/$t/ \
             $OUT/corpus/$t $OUT/seed/$t "$run" >$log 2>&1
         rc=$?
