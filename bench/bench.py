@@ -10,6 +10,7 @@ fails (it is not a test of speed).
 import os
 import resource
 import subprocess
+import tempfile
 import sys
 import time
 import zipfile
@@ -23,12 +24,15 @@ FLOOR = os.path.join(os.path.dirname(BIN), "bench_floor")
 
 def measure(argv, cwd):
     """Run argv; return (wall s, cpu s = user + sys, peak RSS in KB) from the child's rusage."""
-    t0 = time.monotonic()
-    p = subprocess.Popen(argv, cwd=cwd, stdout=subprocess.DEVNULL, stderr=subprocess.PIPE)
-    _, status, ru = os.wait4(p.pid, 0)
-    wall = time.monotonic() - t0
-    err = p.stderr.read().decode(errors="replace")
-    p.stderr.close()
+    # stderr goes to a file, not a pipe: wait4 before reading a pipe deadlocks once the
+    # warnings fill the pipe buffer (64 KiB on Linux)
+    with tempfile.TemporaryFile() as errf:
+        t0 = time.monotonic()
+        p = subprocess.Popen(argv, cwd=cwd, stdout=subprocess.DEVNULL, stderr=errf)
+        _, status, ru = os.wait4(p.pid, 0)
+        wall = time.monotonic() - t0
+        errf.seek(0)
+        err = errf.read().decode(errors="replace")
     p.returncode = os.waitstatus_to_exitcode(status)
     if p.returncode not in (0, 3):
         raise RuntimeError(f"{' '.join(argv)}: exit {p.returncode}: {err[-400:]}")

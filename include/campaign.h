@@ -36,7 +36,8 @@
  *             averaging "hour"|"day" = hour.
  *  stock:     reagent R (incl. "NaOH"; one entry per reagent); on_hand_kg [0,1e9) R;
  *             safety_kg [0,1e9) = 0; lead_days [0,3650] = 0.
- *  containers: reagent R; name R; net_kg [0.1,1e6] R; heel_kg [0, net_kg - 0.1] = 0.
+ *  containers: reagent R; name R; net_kg [0.1,1e6] R; heel_kg [0, net_kg - 0.1] = 0;
+ *             gas_withdrawal_kg_h [0.01,1e6] (optional).
  *  runs:      id R (unique after repeat expansion); start R (ISO date); reactor; scrubber
  *             (an id of scrubbers[]; absent = -1); substrate R {name; smiles | formula, one R};
  *             product_smiles (smiles and product_smiles: at most CAMP_MAX_SMILES_ATOMS = 1000
@@ -44,7 +45,9 @@
  *             reagent_eq [1e-6,1000] | reagent_kg [1e-3, 1e9), exactly one R;
  *             halogen_conversion [1e-6,1] = 1; temp_c [-80,400] = 25; feed_h [1/60,8760] = 1;
  *             peak_factor [1,1000] = 1; vent_retained_fraction [0,1) = 0;
- *             reactor_mode "batch"|"cstr" = batch;
+ *             reactor_mode "batch"|"cstr" = batch; solvent_kg [0, 1e9) = 0;
+ *             mass_cp_kj_kg_k [0.5,10] (absent = built-in); accumulation [0,1] = 1;
+ *             mtt_c, td24_c [-80,1000], each >= temp_c (optional);
  *             repeat {count 1..10000 R, every_days [1/1440,3650] R}; model;
  *             actual (struct camp_actual; not on an entry with repeat: an actual is one batch's).
  *  actual:    status "done"|"cancelled" (absent = still planned; then only note may be given);
@@ -168,6 +171,7 @@ struct camp_container {
     int reagent;
     char *name;
     double net_kg, heel_kg;
+    double gas_withdrawal_kg_h;   /* continuous gas rate of one container without icing, 0 = not given */
     int from_catalog;           /* 1 if it came from the default catalog */
     struct camp_pos pos;
 };
@@ -212,6 +216,10 @@ struct camp_run {
     double peak_factor;         /* default 1 */
     double vent_retained_fraction; /* default 0 */
     enum camp_mode mode;
+    /* thermal screening (thermal.h): solvent in the reaction mass (default 0), its heat
+     * capacity (0 = built-in default), accumulation (default 1), MTT and TD24 when given */
+    double solvent_kg, mass_cp_kj_kg_k, accumulation, mtt_c, td24_c;
+    int has_mtt, has_td24;
     unsigned defaulted;         /* CAMP_DEFAULT_* bits: safety-relevant values not given */
     struct camp_model model;    /* campaign-level block merged under the run's own */
     struct camp_pos pos, pos_smiles, pos_formula, pos_product_smiles, pos_reagent, pos_amount;

@@ -17,6 +17,7 @@ struct campaign; /* campaign.h: only ledger_build reads it; writers never see it
 #include "orders.h"
 #include "reagents.h"
 #include "scrubber.h"
+#include "thermal.h"
 
 /* What happened to a run (the campaign's runs[].actual): status and the figures given. */
 enum ledger_status { LEDGER_PLANNED = 0, LEDGER_DONE, LEDGER_CANCELLED };
@@ -56,6 +57,15 @@ struct ledger_run {
     double changeout_caustic_solution_kg, changeout_water_kg;
     int other_rows;                      /* products summed into the ROLE_OTHER row, 0 = none */
     double other_mean_degree;            /* mol-weighted mean degree of that row */
+    /* reaction heat, adiabatic rise, MTSR, criticality class (thermal.h); the inputs used */
+    struct therm_out therm;
+    double therm_mass_kg, therm_cp_kj_kg_k, therm_accumulation;
+    int has_mtt, has_td24; double mtt_c, td24_c;
+    /* gas fed from containers (Cl2, HBr with a container rate known); withdrawal_container
+     * owned, NULL when has_withdrawal is 0 */
+    int has_withdrawal;
+    struct therm_withdrawal withdrawal;
+    char *withdrawal_container;
     /* The balance (bal) is that of the actual draw where a done run gives reagent_kg, all zero
      * for a cancelled run (nothing charged, drawn or vented), else the plan. */
     struct ledger_actual actual;

@@ -1324,8 +1324,9 @@ static enum hl_status parse_stock(struct vctx *c, const cJSON *o, struct camp_st
 }
 
 /* containers (campaign and catalog) */
-enum { NK_REAGENT, NK_NAME, NK_NET, NK_HEEL, NK_NOTE, NK_N };
-static const char *const cont_keys[NK_N] = {"reagent", "name", "net_kg", "heel_kg", "note"};
+enum { NK_REAGENT, NK_NAME, NK_NET, NK_HEEL, NK_NOTE, NK_WITHDRAW, NK_N };
+static const char *const cont_keys[NK_N] = {"reagent", "name", "net_kg", "heel_kg", "note",
+                                            "gas_withdrawal_kg_h"};
 
 static enum hl_status parse_container(struct vctx *c, const cJSON *o, struct camp_container *ct)
 {
@@ -1337,6 +1338,8 @@ static enum hl_status parse_container(struct vctx *c, const cJSON *o, struct cam
     /* containers hold at least 100 g usable: laboratory bottles of NBS start there (common
      * practice); smaller would only inflate the container counts */
     const struct rng rnet = {0.1, 1e6, 0, 0, "no container holds less than 100 g", NULL};
+    /* 10 g/h: below it a container gives nothing a reactor could run on (common practice) */
+    const struct rng rdraw = {0.01, 1e6, 0, 0, "below 10 g/h no feed is served", NULL};
     const char *note;
     if ((!k[NK_REAGENT] && (st = missing(c, o, "reagent", NULL))) ||
         (st = get_reagent(c, k[NK_REAGENT], 1, &ct->reagent)) ||
@@ -1345,6 +1348,7 @@ static enum hl_status parse_container(struct vctx *c, const cJSON *o, struct cam
         (!k[NK_NET] && (st = missing(c, o, "net_kg", NULL))) ||
         (st = get_num(c, k[NK_NET], rnet, &ct->net_kg)) ||
         (k[NK_HEEL] && (st = get_num(c, k[NK_HEEL], R_NONNEG_KG, &ct->heel_kg))) ||
+        (k[NK_WITHDRAW] && (st = get_num(c, k[NK_WITHDRAW], rdraw, &ct->gas_withdrawal_kg_h))) ||
         (k[NK_NOTE] && (st = get_str(c, k[NK_NOTE], 0, MAX_TEXT, &note))))
         return st;
     if (ct->net_kg - ct->heel_kg < 0.1) { /* the same 100 g floor for the usable content */
@@ -1358,11 +1362,12 @@ static enum hl_status parse_container(struct vctx *c, const cJSON *o, struct cam
 /* runs */
 enum { RK_ID, RK_START, RK_REACTOR, RK_SCRUB, RK_SUBSTRATE, RK_PRODUCT, RK_SUBKG, RK_REAGENT, RK_EQ,
        RK_KG, RK_CONV, RK_TEMP, RK_FEED, RK_PEAK, RK_VENT, RK_MODE, RK_REPEAT, RK_MODEL, RK_NOTE,
-       RK_ACTUAL, RK_N };
+       RK_ACTUAL, RK_SOLVENT, RK_CP, RK_ACCUM, RK_MTT, RK_TD24, RK_N };
 static const char *const run_keys[RK_N] = {
     "id", "start", "reactor", "scrubber", "substrate", "product_smiles", "substrate_kg", "reagent",
     "reagent_eq", "reagent_kg", "halogen_conversion", "temp_c", "feed_h", "peak_factor",
-    "vent_retained_fraction", "reactor_mode", "repeat", "model", "note", "actual"};
+    "vent_retained_fraction", "reactor_mode", "repeat", "model", "note", "actual",
+    "solvent_kg", "mass_cp_kj_kg_k", "accumulation", "mtt_c", "td24_c"};
 enum { UK_NAME, UK_SMILES, UK_FORMULA, UK_N };
 static const char *const sub_keys[UK_N] = {"name", "smiles", "formula"};
 enum { PK_COUNT, PK_EVERY, PK_N };
@@ -1556,6 +1561,37 @@ static enum hl_status parse_actual(struct vctx *c, const cJSON *m, struct camp_r
     return HL_OK;
 }
 
+/* The thermal keys of a run (thermal.h): k = the members solvent_kg, mass_cp_kj_kg_k,
+ * accumulation, mtt_c, td24_c in that order. A heat capacity below 0.5 kJ/(kg K) is
+ * below any liquid's (liquid hydrocarbons about 2, common practice) and would make the
+ * adiabatic rise absurd; TD24 and MTT below the process temperature are contradictions. */
+static enum hl_status parse_run_thermal(struct vctx *c, const cJSON *const *k, struct camp_run *r)
+{
+    const struct rng rcp = {0.5, 10, 0, 0, "no liquid reaction mass holds less heat (common practice)", NULL},
+                     racc = {0, 1, 0, 0, NULL, NULL}, rt = {-80, 1000, 0, 0, NULL, NULL};
+    enum hl_status st;
+    r->accumulation = 1;
+    if ((k[0] && (st = get_num(c, k[0], R_NONNEG_KG, &r->solvent_kg))) ||
+        (k[1] && (st = get_num(c, k[1], rcp, &r->mass_cp_kj_kg_k))) ||
+        (k[2] && (st = get_num(c, k[2], racc, &r->accumulation))) ||
+        (k[3] && (st = get_num(c, k[3], rt, &r->mtt_c))) ||
+        (k[4] && (st = get_num(c, k[4], rt, &r->td24_c))))
+        return st;
+    r->has_mtt = k[3] != NULL;
+    r->has_td24 = k[4] != NULL;
+    for (int j = 3; j <= 4; j++) {
+        double v = j == 3 ? r->mtt_c : r->td24_c;
+        if (k[j] && v < r->temp_c) {
+            push_key(c, k[j]->string);
+            return verr(c, k[j], 0, "must be >= temp_c (%.15g): the process runs at temp_c, so "
+                        "%s cannot lie below it (got %.15g)", r->temp_c,
+                        j == 3 ? "the highest temperature the equipment tolerates" :
+                                 "the decomposition onset", v);
+        }
+    }
+    return HL_OK;
+}
+
 static enum hl_status parse_run(struct reader *rd, const cJSON *o, int idx, struct camp_run *r,
                                 long *count, double *every_days)
 {
@@ -1666,6 +1702,8 @@ static enum hl_status parse_run(struct reader *rd, const cJSON *o, int idx, stru
         (k[RK_MODE] && (st = get_enum(c, k[RK_MODE], mode_names, 2, &mode))))
         return st;
     r->mode = mode ? CAMP_CSTR : CAMP_BATCH;
+    if ((st = parse_run_thermal(c, k + RK_SOLVENT, r)))
+        return st;
     if (k[RK_REPEAT]) {
         const cJSON *p[PK_N];
         size_t old = push_key(c, "repeat");

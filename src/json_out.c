@@ -609,6 +609,65 @@ static void jo_actual(struct jo *w, const struct ledger_run *r)
     jo_close(w, '}');
 }
 
+/* runs[].reaction and runs[].withdrawal (thermal.h): heat released, rates, adiabatic rise,
+ * MTSR, criticality class (null when MTT or TD24 is missing) with its reasoning and the
+ * step heats per site; withdrawal null for a reagent not drawn as gas from a container. */
+static void jo_reaction(struct jo *w, const struct ledger_run *r)
+{
+    const struct therm_out *t = &r->therm;
+    jo_open(w, "reaction", '{');
+    jo_num(w, "heat_kj", t->heat_kj);
+    jo_num(w, "mean_kw", t->mean_kw);
+    jo_num(w, "peak_kw", t->peak_kw);
+    jo_num(w, "delta_t_ad_k", t->delta_t_ad_k);
+    jo_num(w, "mtsr_c", t->mtsr_c);
+    if (t->crit_class > 0)
+        jo_num(w, "criticality_class", t->crit_class);
+    else
+        jo_null(w, "criticality_class");
+    jo_str(w, "class_reason", t->reason);
+    jo_num(w, "dh_kj_mol", t->dh_kj_mol);
+    jo_num(w, "dh_uncertainty_kj_mol", t->dh_unc_kj_mol);
+    jo_bool(w, "site_assumed", t->site_assumed);
+    jo_open(w, "steps", '[');
+    for (int s = 0; s < THERM_NSITE; s++) {
+        if (!(t->share[s] > 0))
+            continue;
+        jo_open(w, NULL, '{');
+        jo_str(w, "site", therm_site_name(s));
+        jo_num(w, "share", t->share[s]);
+        jo_num(w, "dh_kj_mol", t->step_dh_kj_mol[s]);
+        jo_close(w, '}');
+    }
+    jo_close(w, ']');
+    jo_num(w, "mass_kg", r->therm_mass_kg);
+    jo_num(w, "cp_kj_kg_k", r->therm_cp_kj_kg_k);
+    jo_num(w, "accumulation", r->therm_accumulation);
+    if (r->has_mtt)
+        jo_num(w, "mtt_c", r->mtt_c);
+    else
+        jo_null(w, "mtt_c");
+    if (r->has_td24)
+        jo_num(w, "td24_c", r->td24_c);
+    else
+        jo_null(w, "td24_c");
+    jo_bool(w, "mtsr_reaches_mtt", t->mtsr_over_mtt);
+    jo_bool(w, "mtsr_reaches_td24", t->mtsr_over_td24);
+    jo_str(w, "source", therm_bde_origin);
+    jo_close(w, '}');
+    if (!r->has_withdrawal) {
+        jo_null(w, "withdrawal");
+        return;
+    }
+    jo_open(w, "withdrawal", '{');
+    jo_str(w, "container", r->withdrawal_container);
+    jo_num(w, "kg_h", r->withdrawal.kg_h);
+    jo_num(w, "container_kg_h", r->withdrawal.container_kg_h);
+    jo_num(w, "containers_on_line", r->withdrawal.containers_on_line);
+    jo_bool(w, "evaporator_needed", r->withdrawal.evaporator_needed);
+    jo_close(w, '}');
+}
+
 static void jo_run(struct jo *w, const struct ledger *l, int i)
 {
     const struct ledger_run *r = &l->runs[i];
@@ -746,6 +805,7 @@ static void jo_run(struct jo *w, const struct ledger *l, int i)
     else
         jo_null(w, "selectivity_pct"); /* nothing converted: no selectivity */
     jo_num(w, "halogen_efficiency_pct", b->halogen_efficiency_pct);
+    jo_reaction(w, r);
     if (b->warning[0])
         jo_str(w, "warning", b->warning);
     jo_actual(w, r);

@@ -264,6 +264,128 @@ static enum hl_status warn_defaults(struct ledger *l, const struct camp_run *r,
     return st;
 }
 
+/* ---- reaction heat and gas withdrawal (thermal.h) ---- */
+
+/* Share of the first-step C-X bonds at each bond-table site, from the selectivity
+ * result (bal.sel, still set): a one-carbon substrate is a methyl site; no isomers
+ * (formula input) leaves every share 0 and thermal.c takes its default site. */
+static void therm_shares(const struct bal_out *b, double *share)
+{
+    static const int map[SITE_CLASS_COUNT] = {THERM_PRIMARY, THERM_SECONDARY, THERM_TERTIARY,
+                                              THERM_BENZYLIC, THERM_ALLYLIC, -1};
+    if (!b->sel)
+        return;
+    int one_carbon = b->sel->substrate.n[EL_C] == 1;
+    for (int j = 0; j < b->sel->niso; j++) {
+        int c = b->sel->iso[j].site_class;
+        int t = c >= 0 && c < SITE_CLASS_COUNT ? map[c] : -1;
+        if (t >= 0)
+            share[one_carbon ? THERM_METHYL : t] += b->sel->iso[j].fraction;
+    }
+}
+
+/* First container of the run's reagent with a gas withdrawal rate; NULL for a reagent not
+ * drawn as gas (liquids, solids) or without a rate. */
+static const struct camp_container *gas_container(const struct campaign *c, int reagent)
+{
+    const struct reagent_info *ri = reagent_get(reagent);
+    if (!ri || strncmp(ri->phase, "gas", 3))
+        return NULL;
+    for (int i = 0; i < c->ncontainers; i++)
+        if (c->containers[i].reagent == reagent && c->containers[i].gas_withdrawal_kg_h > 0)
+            return &c->containers[i];
+    return NULL;
+}
+
+/* Heat, MTSR and class of one run (twin >= 0: a repeat, the same batch: copied), its gas
+ * withdrawal, the warnings they raise and the values they used. Call while bal.sel is set. */
+static enum hl_status run_thermal(const struct campaign *c, const struct camp_run *r,
+                                  struct ledger *l, struct ledger_run *lr, int twin,
+                                  struct hl_err *e)
+{
+    enum hl_status st = HL_OK;
+    lr->therm_mass_kg = r->substrate_kg + lr->bal.reagent_kg + r->solvent_kg;
+    lr->therm_cp_kj_kg_k = r->mass_cp_kj_kg_k > 0 ? r->mass_cp_kj_kg_k : THERM_DEFAULT_CP_KJ_KG_K;
+    lr->therm_accumulation = r->accumulation;
+    lr->has_mtt = r->has_mtt;
+    lr->mtt_c = r->mtt_c;
+    lr->has_td24 = r->has_td24;
+    lr->td24_c = r->td24_c;
+    if (twin >= 0) {
+        lr->therm = l->runs[twin].therm;
+    } else {
+        struct therm_in ti = {.reagent = r->reagent, .bonds_mol = lr->bal.halogen_reacted_mol,
+                              .mass_kg = lr->therm_mass_kg, .cp_kj_kg_k = lr->therm_cp_kj_kg_k,
+                              .accumulation = r->accumulation, .temp_c = r->temp_c,
+                              .feed_h = r->feed_h, .peak_factor = r->peak_factor,
+                              .has_mtt = r->has_mtt, .mtt_c = r->mtt_c,
+                              .has_td24 = r->has_td24, .td24_c = r->td24_c};
+        therm_shares(&lr->bal, ti.share);
+        therm_compute(&ti, &lr->therm);
+        const char *rg = reagent_get(r->reagent)->name;
+        char what[160];
+        for (int s = 0; s < THERM_NSITE && !st; s++) {
+            if (!(lr->therm.share[s] > 0))
+                continue;
+            if (r->reagent == RG_HBR)
+                snprintf(what, sizeof what, "Heat of radical HBr addition to a C=C (as propene)");
+            else
+                snprintf(what, sizeof what, "Heat of one %s substitution step, %s C-H", rg,
+                         therm_site_name(s));
+            st = assume(l, e, what, 1, lr->therm.step_dh_kj_mol[s], "kJ/mol (negative: released)",
+                        therm_bde_origin);
+        }
+        if (!st && lr->therm.site_assumed)
+            st = assume(l, e, "Site of a substrate given by formula only", 0, 0, NULL,
+                        "reaction heat taken at a secondary C-H (NBS: benzylic); give a SMILES "
+                        "for the site classes (common practice assumption)");
+        if (!st && !(r->mass_cp_kj_kg_k > 0))
+            st = assume(l, e, "Heat capacity of the reaction mass (mass_cp_kj_kg_k)", 1,
+                        THERM_DEFAULT_CP_KJ_KG_K, "kJ/(kg K)", therm_cp_origin);
+        if (!st && r->accumulation == 1)
+            st = assume(l, e, "Accumulation of unreacted halogen (accumulation)", 1, 1, "fraction",
+                        "default: the whole charge present unreacted (batch, worst case)");
+    }
+    const struct therm_out *t = &lr->therm;
+    /* warned once per campaign entry: its repeats are the same batch (the JSON flags each run) */
+    const char *rep = r->repeat_no > 0 ? " (the same for every repeat of this entry)" : "";
+    if (!st && twin < 0 && t->mtsr_over_td24)
+        st = warn(l, e, lr->id, "MTSR %.1f C reaches TD24 %.1f C (decomposition onset): criticality "
+                  "class %d; a process-safety study with calorimetry by qualified people must "
+                  "decide before this runs (screening estimate)%s", t->mtsr_c, r->td24_c, t->crit_class,
+                  rep);
+    else if (!st && twin < 0 && t->mtsr_over_mtt)
+        st = warn(l, e, lr->id, "MTSR %.1f C reaches MTT %.1f C (equipment limit): criticality "
+                  "class %d; a process-safety study with calorimetry by qualified people must "
+                  "decide before this runs (screening estimate)%s", t->mtsr_c, r->mtt_c, t->crit_class,
+                  rep);
+    const struct camp_container *ct = gas_container(c, r->reagent);
+    if (st || !ct)
+        return st;
+    lr->has_withdrawal = 1;
+    if (!(lr->withdrawal_container = hl_strdup(ct->name)))
+        return nomem(e);
+    therm_withdrawal(lr->bal.reagent_kg, r->feed_h, r->peak_factor, ct->gas_withdrawal_kg_h,
+                     &lr->withdrawal);
+    char what[200];
+    snprintf(what, sizeof what, "Gas withdrawal of one %s %s without icing, at about 20 C",
+             reagent_get(r->reagent)->name, ct->name);
+    st = assume(l, e, what, 1, ct->gas_withdrawal_kg_h, "kg/h",
+                ct->from_catalog ? "built-in catalog: supplier and trade-association guidance, from "
+                                   "memory; ask the supplier" : "campaign containers[]");
+    if (!st && lr->withdrawal.evaporator_needed)
+        st = assume(l, e, "Most containers on one gas manifold", 1, THERM_MAX_ON_MANIFOLD,
+                    "containers", therm_manifold_origin);
+    if (!st && lr->withdrawal.evaporator_needed && twin < 0)
+        st = warn(l, e, lr->id, "%s feed of %.1f kg/h at its peak needs %d %ss on line (%.3g kg/h "
+                  "each as gas); above %d on one manifold, draw liquid through an evaporator "
+                  "(follow the supplier's and the Chlorine Institute's guidance and local codes)%s",
+                  reagent_get(r->reagent)->name, lr->withdrawal.kg_h,
+                  lr->withdrawal.containers_on_line, ct->name, ct->gas_withdrawal_kg_h,
+                  THERM_MAX_ON_MANIFOLD, rep);
+    return st;
+}
+
 /* Sum the over-halogenated products below min_frac into one ROLE_OTHER row at the end.
  * Why only over-halogenated ones: a run has a handful of monohalides and one unreacted
  * substrate, but a long tail of traces of high degree (down to 1e-14 mol/mol), which
@@ -519,7 +641,6 @@ static enum hl_status balance_runs(const struct campaign *c, const struct ledger
             }
             if (!st)
                 st = warn_defaults(l, r, &lr->bal, e);
-            lr->bal.sel = NULL; /* the cache's; the products hold what the writers need */
             if (!st && min_frac > 0)
                 lump_products(lr, min_frac);
         }
@@ -527,6 +648,9 @@ static enum hl_status balance_runs(const struct campaign *c, const struct ledger
             st = apply_actual(c, o, r, &in, lr, min_frac, cache, e);
         if (!st && lr->bal.warning[0])
             st = warn(l, e, lr->id, "%s", lr->bal.warning);
+        if (!st)
+            st = run_thermal(c, r, l, lr, twin, e);
+        lr->bal.sel = NULL; /* the cache's; the products hold what the writers need */
     }
     hl_free(sorted);
     hl_free(first);
@@ -1348,6 +1472,7 @@ void ledger_free(struct ledger *l)
         hl_free(r->scrubber);
         hl_free(r->substrate_name);
         hl_free(r->smiles);
+        hl_free(r->withdrawal_container);
         bal_free(&r->bal);
     }
     hl_free(l->runs);

@@ -55,8 +55,11 @@ def interrupt(camp, d, ext, sig):
     target = os.path.join(d, 'out' + ext)
     with open(target, 'wb') as f:
         f.write(OLD[ext])
+    # stderr to a file: a pipe nobody reads while polling blocks the child once its warnings
+    # fill the pipe buffer (64 KiB)
+    errf = tempfile.TemporaryFile()
     p = subprocess.Popen(WRAP + [BIN, 'report', camp, '-o', target], stdout=subprocess.DEVNULL,
-                         stderr=subprocess.PIPE)
+                         stderr=errf)
     seen = False
     while p.poll() is None:
         if staged_in(d):
@@ -64,7 +67,10 @@ def interrupt(camp, d, ext, sig):
             p.send_signal(sig)
             break
         time.sleep(0.001)  # polling for an event, not a timed expectation
-    _, err = p.communicate(timeout=600)
+    p.wait(timeout=600)
+    errf.seek(0)
+    err = errf.read()
+    errf.close()
     if not seen:
         return None
     return p.returncode, text(err), open(target, 'rb').read(), staged_in(d), sorted(os.listdir(d))

@@ -1,0 +1,194 @@
+/*
+ * thermal.c - reaction heat from bond enthalpies, adiabatic rise, MTSR, Stoessel's
+ * criticality class, containers on line for a gas feed (thermal.h).
+ */
+#include "thermal.h"
+
+#include <math.h>
+#include <stdio.h>
+#include <string.h>
+
+#include "reagents.h"
+
+/*
+ * Bond dissociation enthalpies at 298 K [kJ/mol] and the uncertainties stated with them,
+ * from one compilation: Y.-R. Luo, Comprehensive Handbook of Chemical Bond Energies (CRC
+ * Press, 2007), which adopts for the small alkyls the values of S. J. Blanksby and G. B.
+ * Ellison, Acc. Chem. Res. 2003, 36, 255 (there in kcal/mol, x 4.184 here).  All values
+ * below are from memory, not read from the tables at the time of writing: check them
+ * against the handbook before relying on them.  test_thermal holds the sums against
+ * published formation enthalpies (a separate source) for nine reactions.
+ * Site rows: methyl = CH3-X, primary = C2H5-X, secondary = (CH3)2CH-X, tertiary =
+ * (CH3)3C-X, benzylic = C6H5CH2-X, allylic = CH2=CHCH2-X.
+ */
+struct bde { double v, u; };
+static const struct bde D_CH[THERM_NSITE] = {
+    {439.3, 0.4}, {423.0, 1.7}, {412.5, 1.7}, {403.8, 1.7}, {375.5, 1.3}, {371.5, 1.7}};
+static const struct bde D_CCL[THERM_NSITE] = {
+    {350.2, 0.8}, {354.8, 0.8}, {356.5, 1.7}, {355.2, 2.5}, {309.6, 4.0}, {298.3, 4.0}};
+static const struct bde D_CBR[THERM_NSITE] = {
+    {294.1, 1.3}, {293.3, 1.7}, {298.7, 1.7}, {292.9, 2.1}, {254.8, 4.0}, {242.0, 4.0}};
+static const struct bde D_CLCL = {242.6, 0.1}, D_BRBR = {192.8, 0.1};
+static const struct bde D_HCL = {431.6, 0.1}, D_HBR = {366.3, 0.2};
+/* SO2Cl2(g) -> SO2(g) + 2 Cl(g), both S-Cl bonds and the relaxation of the SO2 left:
+ * 2 x 121.68 - 296.83 + 364.0 from the NBS tables of formation enthalpies (Wagman et al.,
+ * J. Phys. Chem. Ref. Data 11, Suppl. 2, 1982), from memory. */
+static const struct bde D_SO2CL2 = {310.5, 2.0};
+/* N-Br of N-bromosuccinimide and N-H of succinimide (Luo 2007, from memory; gas phase,
+ * wider uncertainty: NBS and succinimide are solids, their lattice terms are left out). */
+static const struct bde D_NBR = {280.0, 8.0}, D_NH = {460.0, 8.0};
+/* Thermochemical pi bond of ethylene: D(C2H5-H) - D(H-CH2CH2*) = 423.0 - 151.4 (Blanksby &
+ * Ellison 2003 values, from memory). Every C=C is taken as a terminal alkene CH2=CHR: Br on
+ * the CH2 (primary C-Br), H on the CH (secondary C-H), as for propene. */
+static const struct bde E_PI = {271.6, 2.0};
+
+const char therm_bde_origin[] =
+    "Luo, Comprehensive Handbook of Chemical Bond Energies, CRC Press, 2007 (small alkyls as "
+    "Blanksby & Ellison, Acc. Chem. Res. 2003, 36, 255), 298 K, gas phase; from memory";
+const char therm_cp_origin[] =
+    "typical of organic reaction masses, 1.8-2.0 kJ/(kg K) (Stoessel, Thermal Safety of "
+    "Chemical Processes, 2008); lower end taken (larger rise); from memory";
+const char therm_manifold_origin[] =
+    "common practice: more containers than this on one gas manifold draw unevenly; feed "
+    "liquid through an evaporator instead (ask the supplier)";
+
+const char *therm_site_name(int site)
+{
+    static const char *const n[THERM_NSITE] = {"methyl", "primary", "secondary", "tertiary",
+                                                "benzylic", "allylic"};
+    return site >= 0 && site < THERM_NSITE ? n[site] : "?";
+}
+
+int therm_step_dh(int reagent, int site, double *dh_kj_mol, double *unc_kj_mol)
+{
+    double dh, u;
+    if (reagent == RG_HBR) {
+        dh = D_HBR.v + E_PI.v - D_CH[THERM_SECONDARY].v - D_CBR[THERM_PRIMARY].v;
+        u = D_HBR.u + E_PI.u + D_CH[THERM_SECONDARY].u + D_CBR[THERM_PRIMARY].u;
+    } else {
+        if (site < 0 || site >= THERM_NSITE)
+            return -1;
+        const struct bde *rh = &D_CH[site];
+        switch (reagent) {
+        case RG_CL2:
+            dh = rh->v + D_CLCL.v - D_CCL[site].v - D_HCL.v;
+            u = rh->u + D_CLCL.u + D_CCL[site].u + D_HCL.u;
+            break;
+        case RG_BR2:
+            dh = rh->v + D_BRBR.v - D_CBR[site].v - D_HBR.v;
+            u = rh->u + D_BRBR.u + D_CBR[site].u + D_HBR.u;
+            break;
+        case RG_SO2CL2:
+            dh = rh->v + D_SO2CL2.v - D_CCL[site].v - D_HCL.v;
+            u = rh->u + D_SO2CL2.u + D_CCL[site].u + D_HCL.u;
+            break;
+        case RG_NBS:
+            if (site != THERM_BENZYLIC && site != THERM_ALLYLIC)
+                return -1;
+            dh = rh->v + D_NBR.v - D_CBR[site].v - D_NH.v;
+            u = rh->u + D_NBR.u + D_CBR[site].u + D_NH.u;
+            break;
+        default:
+            return -1;
+        }
+    }
+    *dh_kj_mol = dh;
+    if (unc_kj_mol)
+        *unc_kj_mol = u;
+    return 0;
+}
+
+int therm_class(double temp_c, double mtsr_c, double mtt_c, double td24_c, char *why, size_t n)
+{
+    int cls;
+    const char *text;
+    /* Stoessel 2008, section 3.3: the four temperatures in order decide the class. */
+    if (mtsr_c < td24_c) {
+        if (mtsr_c < mtt_c && mtt_c < td24_c) {
+            cls = 1;
+            text = "MTSR stays below MTT and TD24, and MTT lies below TD24: a runaway of the "
+                   "reaction cannot trigger the decomposition, and evaporative cooling at MTT is a "
+                   "further barrier";
+        } else if (mtsr_c < mtt_c) {
+            cls = 2;
+            text = "MTSR stays below MTT and TD24, but TD24 is not below MTT: the runaway cannot "
+                   "trigger the decomposition, but a mass held long at MTSR could; MTT is no "
+                   "barrier (keep the hold time short)";
+        } else {
+            cls = 3;
+            text = "MTSR reaches MTT but stays below TD24: the mass boils (or reaches the "
+                   "equipment limit); the condenser and vent must take the heat release at MTT";
+        }
+    } else if (mtt_c < td24_c) {
+        cls = 4;
+        text = "MTSR reaches MTT and TD24, with MTT below TD24: the decomposition is triggered "
+               "unless evaporative cooling at MTT holds; that barrier must be designed and proven";
+    } else {
+        cls = 5;
+        text = "MTSR reaches TD24 and MTT is not below TD24: the decomposition is triggered before "
+               "any evaporative cooling; change the process (feed control, dilution, lower "
+               "accumulation)";
+    }
+    if (why && n)
+        snprintf(why, n, "class %d: Tp %.1f C, MTSR %.1f C, MTT %.1f C, TD24 %.1f C. %s", cls,
+                 temp_c, mtsr_c, mtt_c, td24_c, text);
+    return cls;
+}
+
+void therm_compute(const struct therm_in *in, struct therm_out *out)
+{
+    memset(out, 0, sizeof *out);
+    double sum = 0;
+    for (int s = 0; s < THERM_NSITE; s++)
+        sum += in->share[s] > 0 ? in->share[s] : 0;
+    if (in->reagent == RG_HBR) {
+        /* one value for every C=C; share kept on the primary row (the C-Br formed) */
+        out->share[THERM_PRIMARY] = 1;
+    } else if (sum > 0) {
+        for (int s = 0; s < THERM_NSITE; s++)
+            out->share[s] = in->share[s] > 0 ? in->share[s] / sum : 0;
+    } else {
+        out->site_assumed = 1;
+        out->share[in->reagent == RG_NBS ? THERM_BENZYLIC : THERM_SECONDARY] = 1;
+    }
+    for (int s = 0; s < THERM_NSITE; s++) {
+        double dh, u;
+        if (!(out->share[s] > 0) || therm_step_dh(in->reagent, s, &dh, &u))
+            continue;
+        out->step_dh_kj_mol[s] = dh;
+        out->dh_kj_mol += out->share[s] * dh;
+        out->dh_unc_kj_mol += out->share[s] * u;
+    }
+    out->heat_kj = -out->dh_kj_mol * in->bonds_mol;
+    out->mean_kw = out->heat_kj / (in->feed_h * 3600.0);
+    out->peak_kw = out->mean_kw * in->peak_factor;
+    out->delta_t_ad_k = out->heat_kj / (in->mass_kg * in->cp_kj_kg_k);
+    /* an endothermic sum (none in the table) would not cool the mass below Tp */
+    out->mtsr_c = in->temp_c + in->accumulation * (out->delta_t_ad_k > 0 ? out->delta_t_ad_k : 0);
+    out->mtsr_over_mtt = in->has_mtt && out->mtsr_c >= in->mtt_c;
+    out->mtsr_over_td24 = in->has_td24 && out->mtsr_c >= in->td24_c;
+    if (in->has_mtt && in->has_td24) {
+        out->crit_class = therm_class(in->temp_c, out->mtsr_c, in->mtt_c, in->td24_c,
+                                      out->reason, sizeof out->reason);
+    } else {
+        snprintf(out->reason, sizeof out->reason,
+                 "not classed: %s not given (the criticality class needs MTT, the highest "
+                 "temperature the equipment tolerates, and TD24, the decomposition onset with 24 h "
+                 "to maximum rate)",
+                 !in->has_mtt && !in->has_td24 ? "mtt_c and td24_c" : !in->has_mtt ? "mtt_c" : "td24_c");
+    }
+}
+
+void therm_withdrawal(double charged_kg, double feed_h, double peak_factor,
+                      double container_kg_h, struct therm_withdrawal *out)
+{
+    memset(out, 0, sizeof *out);
+    out->kg_h = charged_kg / feed_h * peak_factor;
+    out->container_kg_h = container_kg_h;
+    /* a demand within a part per million of a whole number of containers needs that many
+     * (kg/h from a division: 3 x 7.5 must not read as 3.0000000001 containers) */
+    double q = out->kg_h / container_kg_h;
+    double c = ceil(q * (1 - 1e-9));
+    out->containers_on_line = c < 1 ? 1 : c > 1e9 ? 1000000000 : (int)c;
+    out->evaporator_needed = out->containers_on_line > THERM_MAX_ON_MANIFOLD;
+}
