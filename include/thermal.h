@@ -39,6 +39,9 @@ extern const char therm_manifold_origin[];
 /* Name of a site ("methyl", "primary", ...); "?" out of range. Static string. */
 const char *therm_site_name(int site);
 
+/* Name of a step row of reagent at site: the site name, "C=C" for HBr (one row). Static. */
+const char *therm_step_name(int reagent, int site);
+
 /* Heat of one step [kJ/mol, negative = exothermic] of reagent (enum reagent_id: Cl2, Br2,
  * SO2Cl2, NBS at a site; HBr adds across a C=C, site ignored) into *dh, with the sum of the
  * compilation's stated uncertainties of the terms into *unc (may be NULL). Returns 0, or -1

@@ -634,7 +634,7 @@ static void jo_reaction(struct jo *w, const struct ledger_run *r)
         if (!(t->share[s] > 0))
             continue;
         jo_open(w, NULL, '{');
-        jo_str(w, "site", therm_site_name(s));
+        jo_str(w, "site", therm_step_name(r->reagent, s));
         jo_num(w, "share", t->share[s]);
         jo_num(w, "dh_kj_mol", t->step_dh_kj_mol[s]);
         jo_close(w, '}');

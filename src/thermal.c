@@ -59,6 +59,11 @@ const char *therm_site_name(int site)
     return site >= 0 && site < THERM_NSITE ? n[site] : "?";
 }
 
+const char *therm_step_name(int reagent, int site)
+{
+    return reagent == RG_HBR ? "C=C" : therm_site_name(site);
+}
+
 int therm_step_dh(int reagent, int site, double *dh_kj_mol, double *unc_kj_mol)
 {
     double dh, u;

@@ -111,6 +111,9 @@ for k, (mtt, td24, cls) in CLASSES.items():
 
 h = runs.get("H", {}).get("reaction") or {}
 near(h.get("heat_kj"), -DH_PROPENE_HBR * 100, 7.0 * 100, "H heat_kj: 100 mol HBr added to propene")
+T.check([s.get("site") for s in h.get("steps", [])] == ["C=C"], f"H steps {h.get('steps')!r}")
+T.check([(s.get("site"), s.get("share")) for s in m.get("steps", [])] == [("methyl", 1)],
+        f"M3 steps: methane is a methyl site: {m.get('steps')!r}")
 
 w3 = runs.get("M3", {}).get("withdrawal") or {}
 T.check(w3.get("container") == "test ton container", f"M3 container {w3.get('container')!r}")
