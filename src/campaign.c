@@ -40,6 +40,9 @@
 
 struct vpos { size_t off; int line, col, kline, kcol; };
 
+/* One element of the top-level runs array: its bytes [off, end) and where it starts. */
+struct vspan { size_t off, end; int line, col; };
+
 struct frame { int is_obj; size_t key_off, key_len; long index; int has; };
 
 struct scan {
@@ -49,6 +52,13 @@ struct scan {
     struct frame fr[MAX_DEPTH + 1]; int depth;
     const char *prefix, *doc;
     struct hl_err *e;
+    /* The campaign's runs are read one at a time (each its own small tree), so the whole
+     * file never stands as one tree: the first top-level "runs" array, when streams is
+     * set, records its elements' spans in el[] and none of the values inside them. */
+    int streams, norec;
+    size_t run_vi;              /* value index of that array, SIZE_MAX when none */
+    size_t run_open, run_close; /* offsets of its [ and ] */
+    struct vspan *el; size_t nel, elcap;
 };
 
 /* Append printable bytes of s[0..n) to buf (controls shown as '?'). */
@@ -290,6 +300,8 @@ bad:
 
 static enum hl_status record(struct scan *s, int kline, int kcol)
 {
+    if (s->norec)
+        return HL_OK;
     if (s->nv == s->cap) {
         size_t nc = s->cap ? s->cap * 2 : 64;
         struct vpos *nvp = hl_realloc(s->v, nc * sizeof *nvp);
@@ -309,9 +321,31 @@ static enum hl_status record(struct scan *s, int kline, int kcol)
 
 static enum hl_status scan_value(struct scan *s, int kline, int kcol);
 
+/* Append the span of the runs element starting at s->i. */
+static enum hl_status add_span(struct scan *s)
+{
+    if (s->nel == s->elcap) {
+        size_t nc = s->elcap ? s->elcap * 2 : 64;
+        struct vspan *ne = hl_realloc(s->el, nc * sizeof *ne);
+        if (!ne)
+            return hl_err_set(s->e, HL_ERR_NOMEM, "out of memory reading the %s", s->doc);
+        s->el = ne;
+        s->elcap = nc;
+    }
+    s->el[s->nel++] = (struct vspan){s->i, s->i, s->line, (int)(s->i - s->lstart + 1)};
+    return HL_OK;
+}
+
 static enum hl_status scan_container(struct scan *s, int is_obj)
 {
-    size_t open_vi = s->nv - 1;
+    /* the runs array: the top-level object's first "runs" member, when it is an array */
+    int runs = s->streams && !is_obj && s->depth == 1 && s->fr[0].is_obj && s->fr[0].key_len == 4 &&
+               !memcmp(s->t + s->fr[0].key_off, "runs", 4) && s->run_vi == (size_t)-1 && !s->norec;
+    if (runs) {
+        s->run_vi = s->nv - 1;
+        s->run_open = s->i;
+    }
+    int open_line = s->line, open_col = (int)(s->i - s->lstart + 1);
     char close = is_obj ? '}' : ']';
     if (s->depth >= MAX_DEPTH)
         return serr(s, s->i, "nesting deeper than %d levels", MAX_DEPTH);
@@ -321,6 +355,8 @@ static enum hl_status scan_container(struct scan *s, int is_obj)
     s->i++;
     skip_ws(s);
     if (s->i < s->n && s->t[s->i] == close) {
+        if (runs)
+            s->run_close = s->i;
         s->i++;
         s->depth--;
         return HL_OK;
@@ -363,8 +399,15 @@ static enum hl_status scan_container(struct scan *s, int is_obj)
             if (s->t[s->i] == ']')
                 return serr(s, s->i, "trailing comma before ']'");
         }
-        if ((st = scan_value(s, kl, kc)))
+        if (runs && (st = add_span(s)))
             return st;
+        s->norec += runs;
+        st = scan_value(s, kl, kc);
+        s->norec -= runs;
+        if (st)
+            return st;
+        if (runs)
+            s->el[s->nel - 1].end = s->i;
         skip_ws(s);
         if (s->i >= s->n)
             goto eof;
@@ -374,6 +417,8 @@ static enum hl_status scan_container(struct scan *s, int is_obj)
             continue;
         }
         if (s->t[s->i] == close) {
+            if (runs)
+                s->run_close = s->i;
             s->i++;
             s->depth--;
             return HL_OK;
@@ -384,7 +429,7 @@ static enum hl_status scan_container(struct scan *s, int is_obj)
     }
 eof:
     return serr(s, s->n, "unexpected end of file (the %s opened at %d:%d is not closed)",
-                is_obj ? "object" : "array", s->v[open_vi].line, s->v[open_vi].col);
+                is_obj ? "object" : "array", open_line, open_col);
 }
 
 static enum hl_status scan_value(struct scan *s, int kline, int kcol)
@@ -461,19 +506,28 @@ static int assign_index(cJSON *node, size_t *k, size_t nv)
 struct doc {
     struct vpos *v; size_t nv;
     cJSON *root;
+    /* the streamed runs array (doc_parse with streams): its node has no children in the
+     * tree; its elements are parsed one by one from el[] (doc_parse_span) */
+    size_t run_vi;              /* value index of the array, SIZE_MAX when none */
+    struct vspan *el; size_t nel;
 };
 
 static void doc_free(struct doc *d)
 {
     hl_free(d->v);
+    hl_free(d->el);
     cJSON_Delete(d->root);
     memset(d, 0, sizeof *d);
+    d->run_vi = (size_t)-1;
 }
 
+/* Tree and position table of the text (streams: the top-level runs array's elements
+ * kept as spans only, see struct scan). */
 static enum hl_status doc_parse(const char *text, size_t len, const char *prefix, const char *docname,
-                                struct doc *d, struct hl_err *e)
+                                int streams, struct doc *d, struct hl_err *e)
 {
     memset(d, 0, sizeof *d);
+    d->run_vi = (size_t)-1;
     if (len > MAX_FILE)
         return hl_err_at(e, HL_ERR_INPUT, 1, 1, prefix[0] ? prefix : "$",
                          "the %s is larger than %u bytes", docname, MAX_FILE);
@@ -484,24 +538,34 @@ static enum hl_status doc_parse(const char *text, size_t len, const char *prefix
     s.prefix = prefix;
     s.doc = docname;
     s.e = e;
+    s.streams = streams;
+    s.run_vi = (size_t)-1;
     size_t skip;
     enum hl_status st = scan_all(&s, &skip);
     if (st) {
         hl_free(s.v);
+        hl_free(s.el);
         return st;
     }
     char *copy = hl_malloc(len + 1);
     if (!copy) {
         hl_free(s.v);
+        hl_free(s.el);
         return hl_err_set(e, HL_ERR_NOMEM, "out of memory reading the %s", docname);
     }
     memcpy(copy, text, len);
     copy[len] = '\0';
+    /* the runs become an empty array in the tree: blank between its brackets */
+    if (s.run_vi != (size_t)-1 && s.run_close > s.run_open)
+        memset(copy + s.run_open + 1, ' ', s.run_close - s.run_open - 1);
     const char *end = NULL;
     d->root = cJSON_ParseWithOpts(copy + skip, &end, 1);
     hl_free(copy);
     d->v = s.v;
     d->nv = s.nv;
+    d->run_vi = s.run_vi;
+    d->el = s.el;
+    d->nel = s.nel;
     if (!d->root) {
         /* The scanner accepted the text and is stricter than cJSON, so a refusal here
          * is an allocation failure inside cJSON. */
@@ -513,6 +577,42 @@ static enum hl_status doc_parse(const char *text, size_t len, const char *prefix
         doc_free(d);
         return hl_err_set(e, HL_ERR_INTERNAL, "position table out of step with the JSON tree");
     }
+    return HL_OK;
+}
+
+/* Tree and positions of one runs element sp of text (already checked by doc_parse's
+ * scan): the same scanner from the element's own line and column, cJSON on its bytes.
+ * The tables of d are reused from element to element (d->v grows to the largest). */
+static enum hl_status doc_parse_span(const char *text, const struct vspan *sp, size_t *cap,
+                                     struct doc *d, struct hl_err *e)
+{
+    cJSON_Delete(d->root);
+    d->root = NULL;
+    struct scan s;
+    memset(&s, 0, sizeof s);
+    s.t = text;
+    s.n = sp->end;
+    s.i = sp->off;
+    s.line = sp->line;
+    s.lstart = sp->off - (size_t)(sp->col - 1);
+    s.v = d->v;
+    s.cap = *cap;
+    s.prefix = "";
+    s.doc = "campaign";
+    s.e = e;
+    s.run_vi = (size_t)-1;
+    enum hl_status st = scan_value(&s, 0, 0);
+    d->v = s.v;
+    *cap = s.cap;
+    d->nv = s.nv;
+    if (st)
+        return st;
+    d->root = cJSON_ParseWithLengthOpts(text + sp->off, sp->end - sp->off, NULL, 0);
+    if (!d->root)
+        return hl_err_set(e, HL_ERR_NOMEM, "out of memory reading the campaign");
+    size_t k = 0;
+    if (assign_index(d->root, &k, d->nv) || k != d->nv)
+        return hl_err_set(e, HL_ERR_INTERNAL, "position table out of step with the JSON tree");
     return HL_OK;
 }
 
@@ -950,7 +1050,7 @@ static enum hl_status check_array(struct vctx *c, const cJSON *m, int nonempty)
     size_t old = push_key(c, m->string);
     if (!cJSON_IsArray(m))
         return verr(c, m, 0, "must be an array (got %s)", tname(m));
-    if (nonempty && !m->child)
+    if (nonempty && !m->child && !((size_t)m->valueint == c->d->run_vi && c->d->nel > 0))
         return verr(c, m, 0, "must not be empty");
     pop(c, old);
     return HL_OK;
@@ -1909,39 +2009,68 @@ static enum hl_status check_dates(struct reader *rd)
     return HL_OK;
 }
 
+/* One runs entry o (index idx) into the campaign, repeats expanded. */
+static enum hl_status add_run(struct reader *rd, const cJSON *o, int idx)
+{
+    struct vctx *c = &rd->c;
+    struct campaign *cp = rd->camp;
+    struct camp_run t;
+    long count = 0;
+    double every = 0;
+    memset(&t, 0, sizeof t);
+    size_t o2 = push_index(c, idx);
+    enum hl_status st = parse_run(rd, o, idx, &t, &count, &every);
+    if (!st)
+        st = grow_runs(rd, (size_t)cp->nruns + (size_t)(count ? count : 1));
+    if (st) {
+        run_free(&t);
+        return st;
+    }
+    if (!count) {
+        cp->runs[cp->nruns++] = t;
+    } else {
+        for (long k = 1; k <= count; k++) {
+            if ((st = expand_one(rd, &t, k, every, &cp->runs[cp->nruns]))) {
+                run_free(&t);
+                return st;
+            }
+            cp->nruns++;
+        }
+        run_free(&t);
+    }
+    pop(c, o2);
+    return HL_OK;
+}
+
 static enum hl_status parse_runs(struct reader *rd, const cJSON *arr)
 {
     struct vctx *c = &rd->c;
     struct campaign *cp = rd->camp;
-    enum hl_status st;
+    enum hl_status st = HL_OK;
     size_t old = push_key(c, "runs");
-    int idx = 0;
-    for (const cJSON *o = arr->child; o; o = o->next, idx++) {
-        struct camp_run t;
-        long count = 0;
-        double every = 0;
-        memset(&t, 0, sizeof t);
-        size_t o2 = push_index(c, idx);
-        st = parse_run(rd, o, idx, &t, &count, &every);
-        if (!st)
-            st = grow_runs(rd, (size_t)cp->nruns + (size_t)(count ? count : 1));
-        if (st) {
-            run_free(&t);
+    const struct doc *top = c->d;
+    if ((size_t)arr->valueint == top->run_vi) {
+        /* streamed: each element its own tree, freed before the next is built */
+        struct doc one;
+        memset(&one, 0, sizeof one);
+        one.run_vi = (size_t)-1;
+        size_t cap = 0;
+        for (size_t i = 0; i < top->nel && !st; i++) {
+            if ((st = doc_parse_span(c->text, &top->el[i], &cap, &one, c->e)))
+                break;
+            c->d = &one;
+            st = add_run(rd, one.root, (int)i);
+            c->d = top;
+        }
+        doc_free(&one);
+        if (st)
             return st;
-        }
-        if (!count) {
-            cp->runs[cp->nruns++] = t;
-        } else {
-            for (long k = 1; k <= count; k++) {
-                if ((st = expand_one(rd, &t, k, every, &cp->runs[cp->nruns]))) {
-                    run_free(&t);
-                    return st;
-                }
-                cp->nruns++;
-            }
-            run_free(&t);
-        }
-        pop(c, o2);
+    } else {
+        int idx = 0;
+        for (const cJSON *o = arr->child; o && !st; o = o->next, idx++)
+            st = add_run(rd, o, idx);
+        if (st)
+            return st;
     }
     /* duplicate ids, also those made by repeat: one hash pass over all runs */
     struct idset ids;
@@ -2260,7 +2389,7 @@ static enum hl_status parse_catalog(struct campaign *cp, const char *text, struc
     for (int j = 0; j < cp->ncontainers; j++)
         have[cp->containers[j].reagent] = 1;
     struct doc d;
-    enum hl_status st = doc_parse(text, strlen(text), "catalog", "catalog", &d, e);
+    enum hl_status st = doc_parse(text, strlen(text), "catalog", "catalog", 0, &d, e);
     if (st)
         return st;
     struct vctx c;
@@ -2422,7 +2551,7 @@ enum hl_status camp_parse(const char *text, size_t len, const char *path, const 
         return hl_err_set(e, HL_ERR_NOMEM, "out of memory reading the campaign");
     }
     struct doc d;
-    enum hl_status st = doc_parse(text, len, "", "campaign", &d, e);
+    enum hl_status st = doc_parse(text, len, "", "campaign", 1, &d, e);
     if (!st) {
         rd.camp = cp;
         rd.c.d = &d;
