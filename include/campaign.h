@@ -221,7 +221,9 @@ struct camp_run {
     double solvent_kg, mass_cp_kj_kg_k, accumulation, mtt_c, td24_c;
     int has_mtt, has_td24;
     unsigned defaulted;         /* CAMP_DEFAULT_* bits: safety-relevant values not given */
-    struct camp_model model;    /* campaign-level block merged under the run's own */
+    /* campaign-level block merged under the run's own: the run's own copy when own_model,
+     * else the campaign's block (campaign.model), shared by every such run; never NULL */
+    struct camp_model *model;
     struct camp_pos pos, pos_smiles, pos_formula, pos_product_smiles, pos_reagent, pos_amount;
     struct camp_pos pos_id, pos_start; /* of the id and start values (shared by repeat copies) */
     struct camp_pos pos_feed;   /* of the feed_h value (= pos when not given) */
@@ -272,6 +274,7 @@ struct campaign {
     struct camp_count *counts; int ncounts;            /* file order */
     struct camp_tolerances tolerances;                 /* defaults where not given */
     int has_model;              /* 1 if a campaign-level model block is given */
+    struct camp_model *model;   /* that block (all zero when absent), owned */
     struct camp_pos pos_model;  /* of that block's opening brace */
 };
 
@@ -291,6 +294,10 @@ enum hl_status camp_parse(const char *text, size_t len, const char *path,
  * reader: escapes before it count with their raw length; a byte inside an escape maps
  * to its backslash. k <= 0 gives the opening quote. The line is always p->pos.line. */
 int camp_string_col(const struct camp_strpos *p, int k);
+
+/* Free the runs of a campaign (runs NULL, nruns 0) once nothing reads them; the scrubbers,
+ * stock, containers, model and the top-level fields stay. NULL is fine. */
+void camp_free_runs(struct campaign *c);
 
 /* Free a campaign; NULL is fine. */
 void camp_free(struct campaign *c);

@@ -187,6 +187,12 @@ struct ledger_opts {
 enum hl_status ledger_build(const struct campaign *c, const struct ledger_opts *o,
                             struct ledger **out, struct hl_err *e);
 
+/* As ledger_build, but frees the campaign's runs (camp_free_runs) as soon as the balances
+ * are computed, so that runs and ledger do not both stand in memory through the scrubber,
+ * order and month steps. c stays the caller's to free (camp_free), also on failure. */
+enum hl_status ledger_build_consuming(struct campaign *c, const struct ledger_opts *o,
+                                      struct ledger **out, struct hl_err *e);
+
 /* Free a ledger and every string and table it owns; NULL is fine. */
 void ledger_free(struct ledger *l);
 

@@ -212,12 +212,12 @@ void bal_cache_free(struct bal_cache *c)
 }
 
 /* Double the table when it holds more entries than buckets (chains stay short). */
-static void cache_grow(struct bal_cache *c)
+static enum hl_status cache_grow(struct bal_cache *c, struct hl_err *e)
 {
     size_t nb = c->nbucket * 2;
     struct bal_entry **nbk = hl_calloc(nb, sizeof *nbk);
     if (!nbk)
-        return; /* longer chains, same results */
+        return hl_err_set(e, HL_ERR_NOMEM, "out of memory");
     for (size_t b = 0; b < c->nbucket; b++)
         for (struct bal_entry *x = c->bucket[b], *nx; x; x = nx) {
             nx = x->next;
@@ -227,6 +227,7 @@ static void cache_grow(struct bal_cache *c)
     hl_free(c->bucket);
     c->bucket = nbk;
     c->nbucket = nb;
+    return HL_OK;
 }
 
 /* The prediction for in: from the cache, else computed (and kept when cache is given). */
@@ -265,8 +266,10 @@ static enum hl_status predict_once(const struct bal_in *in, const struct sel_rea
         entry_free(x); /* errors are not kept: the ledger stops at the first one */
         return st;
     }
-    if (c->n >= c->nbucket)
-        cache_grow(c);
+    if (c->n >= c->nbucket && (st = cache_grow(c, e))) {
+        entry_free(x);
+        return st;
+    }
     x->next = c->bucket[h & (c->nbucket - 1)];
     c->bucket[h & (c->nbucket - 1)] = x;
     c->n++;

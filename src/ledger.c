@@ -390,7 +390,7 @@ static enum hl_status run_thermal(const struct campaign *c, const struct camp_ru
  * Why only over-halogenated ones: a run has a handful of monohalides and one unreacted
  * substrate, but a long tail of traces of high degree (down to 1e-14 mol/mol), which
  * is what nobody reads. The sums keep the mass and element balances closed. */
-static void lump_products(struct ledger_run *lr, double min_frac)
+static enum hl_status lump_products(struct ledger_run *lr, double min_frac, struct hl_err *e)
 {
     struct bal_out *b = &lr->bal;
     struct bal_product other = {.smiles = NULL, .degree = 0, .role = ROLE_OTHER};
@@ -411,13 +411,19 @@ static void lump_products(struct ledger_run *lr, double min_frac)
         hl_free(bp->smiles);
     }
     if (lumped == 0)
-        return;
+        return HL_OK;
     /* a mean over zero moles (every trace underflowed) falls back to the lowest degree */
     other.molar_mass_g_mol = other.mol > 0 ? other.kg * 1000.0 / other.mol : 0.0;
     lr->other_mean_degree = other.mol > 0 ? degree_mol / other.mol : other.degree;
     lr->other_rows = lumped;
     b->products[kept++] = other; /* kept < nproducts: at least one row was removed */
     b->nproducts = kept;
+    /* the table was sized for every degree; a ledger keeps only the rows it lists */
+    struct bal_product *fit = hl_realloc(b->products, (size_t)kept * sizeof *fit);
+    if (!fit)
+        return nomem(e); /* the larger block stays with the run and is freed with it */
+    b->products = fit;
+    return HL_OK;
 }
 
 /* ---- actuals ---- */
@@ -624,7 +630,7 @@ static enum hl_status balance_runs(const struct campaign *c, const struct ledger
             .reagent_kg = r->reagent_kg, .halogen_conversion = r->halogen_conversion,
             .temp_c = r->temp_c, .mode = lr->mode,
             .vent_retained_fraction = r->vent_retained_fraction};
-        model_to_input(&r->model, &in);
+        model_to_input(r->model, &in);
         hl_err_clear(e);
         int twin = first[r->src_index];
         if (twin >= 0) {
@@ -642,7 +648,7 @@ static enum hl_status balance_runs(const struct campaign *c, const struct ledger
             if (!st)
                 st = warn_defaults(l, r, &lr->bal, e);
             if (!st && min_frac > 0)
-                lump_products(lr, min_frac);
+                st = lump_products(lr, min_frac, e);
         }
         if (!st)
             st = apply_actual(c, o, r, &in, lr, min_frac, cache, e);
@@ -1436,8 +1442,9 @@ static enum hl_status copy_identity(const struct campaign *c, const struct ledge
     return HL_OK;
 }
 
-enum hl_status ledger_build(const struct campaign *c, const struct ledger_opts *o,
-                            struct ledger **out, struct hl_err *e)
+/* consume: the same campaign, whose runs may be freed once the balances are taken */
+static enum hl_status build(const struct campaign *c, struct campaign *consume,
+                            const struct ledger_opts *o, struct ledger **out, struct hl_err *e)
 {
     *out = NULL;
     struct ledger *l = hl_calloc(1, sizeof *l);
@@ -1447,6 +1454,7 @@ enum hl_status ledger_build(const struct campaign *c, const struct ledger_opts *
     if ((st = copy_identity(c, o, l, e)) || (st = collect_assumptions(l, e)) ||
         (st = report_threshold(c, o, l, e)) || (st = balance_runs(c, o, l, l->report_min_mol_fraction, e)))
         goto fail;
+    camp_free_runs(consume); /* nothing below reads c->runs */
     if ((st = run_scrubbers(c, l, e)) || (st = stock_checks(c, l, e)) || (st = plan_orders(c, l, e)) ||
         (st = own_container_names(l, e)) || (st = build_months(l, e)) ||
         (st = collect_warnings(c, l, e)) || (st = close_warnings(l, e)))
@@ -1459,6 +1467,18 @@ enum hl_status ledger_build(const struct campaign *c, const struct ledger_opts *
 fail:
     ledger_free(l);
     return st;
+}
+
+enum hl_status ledger_build(const struct campaign *c, const struct ledger_opts *o,
+                            struct ledger **out, struct hl_err *e)
+{
+    return build(c, NULL, o, out, e);
+}
+
+enum hl_status ledger_build_consuming(struct campaign *c, const struct ledger_opts *o,
+                                      struct ledger **out, struct hl_err *e)
+{
+    return build(c, c, o, out, e);
 }
 
 void ledger_free(struct ledger *l)

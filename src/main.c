@@ -523,7 +523,7 @@ static int run(int argc, char **argv)
         return exit_for(st);
     }
     struct ledger *l = NULL;
-    st = ledger_build(c, &lo, &l, &e);
+    st = ledger_build_consuming(c, &lo, &l, &e); /* the runs are freed once balanced */
     camp_free(c);
     if (st) {
         print_err(err_file(&e, campaign_path, catalog_path), &e);

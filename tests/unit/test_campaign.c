@@ -203,7 +203,7 @@ static void defaults(void)
     ASSERT_REL(r->peak_factor, 1, 1e-15);
     ASSERT_ABS(r->vent_retained_fraction, 0, 0);
     CU_ASSERT_EQUAL(r->mode, CAMP_BATCH);
-    CU_ASSERT_EQUAL(r->model.set_mask, 0u);
+    CU_ASSERT_EQUAL(r->model->set_mask, 0u);
     CU_ASSERT_PTR_NULL(r->substrate_name);
     camp_free(c);
 }
@@ -255,7 +255,7 @@ static void model_merge(void)
     struct campaign *c = parse_ok(DEMO, NULL);
     if (!c)
         return;
-    const struct camp_model *a = &c->runs[0].model, *b = &c->runs[4].model;
+    const struct camp_model *a = c->runs[0].model, *b = c->runs[4].model;
     /* run 0: the campaign block alone */
     CU_ASSERT_EQUAL(a->set_mask, CM_OVERHAL | CM_SECONDARY | CM_PRIMARY | CM_RATIOS);
     ASSERT_REL(a->overhalogenation_factor, 1.2, 1e-15);
