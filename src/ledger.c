@@ -559,8 +559,8 @@ static enum hl_status apply_actual(const struct campaign *c, const struct ledger
         lr->bal = actual;
         lr->other_rows = 0;
         lr->other_mean_degree = 0;
-        if (min_frac > 0)
-            lump_products(lr, min_frac);
+        if (min_frac > 0 && (st = lump_products(lr, min_frac, e)))
+            return st;
     }
     variance_actual(c, lr);
     return HL_OK;
