@@ -5,7 +5,8 @@ PKGS     := xlsxwriter libcjson
 BASEFLAGS := -std=c11 -Wall -Wextra -Werror -O2 -D_POSIX_C_SOURCE=200809L -Iinclude -I$(BUILD)
 EXTRA_CFLAGS ?=
 CFLAGS_ALL = $(BASEFLAGS) $(EXTRA_CFLAGS) $(shell pkg-config --cflags $(PKGS) 2>/dev/null)
-LDLIBS_ALL = $(shell pkg-config --libs $(PKGS) 2>/dev/null) -lm
+# libcsv ships no pkg-config file (docs/library-notes.md): named here.
+LDLIBS_ALL = $(shell pkg-config --libs $(PKGS) 2>/dev/null) -lcsv -lm
 CUNIT_LIBS = $(shell pkg-config --libs cunit 2>/dev/null)
 
 LIB_SRC  := $(filter-out src/main.c,$(wildcard src/*.c))

@@ -38,6 +38,8 @@
  *             safety_kg [0,1e9) = 0; lead_days [0,3650] = 0.
  *  containers: reagent R; name R; net_kg [0.1,1e6] R; heel_kg [0, net_kg - 0.1] = 0;
  *             gas_withdrawal_kg_h [0.01,1e6] (optional).
+ *  schedule:  a CSV file name (relative to the campaign's folder) or an array of them: the
+ *             rows are runs (sched.h), after runs[]; with a schedule runs[] may be absent or [].
  *  runs:      id R (unique after repeat expansion); start R (ISO date); reactor; scrubber
  *             (an id of scrubbers[]; absent = -1); substrate R {name; smiles | formula, one R};
  *             product_smiles (smiles and product_smiles: at most CAMP_MAX_SMILES_ATOMS = 1000
@@ -233,6 +235,8 @@ struct camp_run {
     struct camp_strpos sp_smiles, sp_formula, sp_product_smiles;
     int own_model;              /* 1 if the run has a model block of its own */
     struct camp_actual actual;  /* status CAMP_PLANNED when none */
+    const char *sched_file;     /* the CSV schedule the run came from (a row there: pos.line),
+                                 * owned by the campaign; NULL for a runs[] entry */
 };
 
 struct camp_delivery {
@@ -276,6 +280,14 @@ struct campaign {
     int has_model;              /* 1 if a campaign-level model block is given */
     struct camp_model *model;   /* that block (all zero when absent), owned */
     struct camp_pos pos_model;  /* of that block's opening brace */
+    char **schedules; int nschedules; /* CSV schedules read, as opened (owned) */
+};
+
+/* How to read: CSV schedules named on the command line (besides the campaign's
+ * "schedule" key; their runs come after) and the CSV separator (0 = detect). */
+struct camp_opts {
+    const char *const *schedules; int nschedules;
+    char csv_sep;
 };
 
 /* Read and validate the campaign at path. catalog_text (may be NULL) is the default
@@ -289,6 +301,18 @@ enum hl_status camp_load(const char *path, const char *catalog_text,
 enum hl_status camp_parse(const char *text, size_t len, const char *path,
                           const char *catalog_text, struct campaign **out,
                           struct hl_err *e);
+
+/* camp_load with options (o may be NULL): the schedules' rows become runs after the
+ * campaign's own runs[], validated as runs[] entries; errors in a schedule carry
+ * e->file (the schedule) and the field "column NAME" (sched.h). */
+enum hl_status camp_load_opts(const char *path, const char *catalog_text, const struct camp_opts *o,
+                              struct campaign **out, struct hl_err *e);
+enum hl_status camp_parse_opts(const char *text, size_t len, const char *path, const char *catalog_text,
+                               const struct camp_opts *o, struct campaign **out, struct hl_err *e);
+
+/* Field name of path inside run r for messages: "runs[3].substrate.smiles", or for a
+ * schedule row "column substrate_smiles". */
+void camp_run_field(const struct camp_run *r, const char *path, char *buf, size_t n);
 
 /* File column (1-based) of decoded byte k (1-based) of a string read by the campaign
  * reader: escapes before it count with their raw length; a byte inside an escape maps

@@ -28,6 +28,8 @@ struct hl_err {
     int line, col;      /* 1-based position in the input file; 0 = unknown */
     char field[160];    /* JSON path of the offending value, "" if none */
     char msg[480];      /* human message, no trailing newline */
+    char file[512];     /* the input the position lies in when it is neither the campaign nor
+                         * the catalog (a CSV schedule); "" = as doc says */
 };
 
 /* Short English name of a status ("bad input", "out of memory", ...). Static string. */
@@ -45,5 +47,14 @@ enum hl_status hl_err_set(struct hl_err *e, enum hl_status st, const char *fmt, 
 enum hl_status hl_err_at(struct hl_err *e, enum hl_status st, int line, int col,
                          const char *field, const char *fmt, ...)
     __attribute__((format(printf, 6, 7)));
+
+/* Levenshtein distance of two byte strings of at most 64 bytes (1000 when longer),
+ * ASCII letters case-folded if fold.  For "did you mean" suggestions. */
+int hl_edit_distance(const char *a, const char *b, int fold);
+
+/* The candidate nearest to word within a distance that still looks like a typo (1 for
+ * words of up to 4 bytes, 2 up to 8, else 3; a cut-off prefix of 4+ bytes counts 1), else
+ * NULL.  Returns one of cands (not copied).  Shared by every reader's suggestions. */
+const char *hl_nearest(const char *word, const char *const *cands, int n, int fold);
 
 #endif

@@ -26,6 +26,7 @@
 #include "hlmem.h"
 #include "isodate.h"
 #include "reagents.h"
+#include "sched.h"
 
 #define MAX_DEPTH 64          /* far below cJSON's compiled-in 1000 */
 #define MAX_TEXT 32767        /* longest string a workbook cell holds */
@@ -623,6 +624,7 @@ struct vctx {
     char path[256];
     size_t plen;
     struct hl_err *e;
+    int csv;        /* the values are cells of a CSV schedule (sched.h), not JSON text */
 };
 
 static size_t push_key(struct vctx *c, const char *k)
@@ -679,6 +681,31 @@ static enum hl_status esc_map(struct vctx *c, const cJSON *n, struct camp_strpos
     sp->esc = NULL;
     if (!p)
         return HL_OK;
+    if (c->csv) {
+        /* a CSV cell: unquoted, its text starts at the cell (so the "quote" is the byte
+         * before); quoted, a doubled quote inside is one character from two bytes */
+        const char *t = c->text + p->off;
+        if (*t != '"') {
+            sp->pos.col -= 1;
+            return HL_OK;
+        }
+        for (int pass = 0; pass < 2; pass++) {
+            int k = 0, dec = 0;
+            for (t = c->text + p->off + 1; !(t[0] == '"' && t[1] != '"'); t++, dec++)
+                if (t[0] == '"') {
+                    if (pass)
+                        sp->esc[k] = (struct camp_esc){dec, 1, 2};
+                    k++;
+                    t++;
+                }
+            if (pass || !k)
+                break;
+            if (!(sp->esc = hl_malloc((size_t)k * sizeof *sp->esc)))
+                return hl_err_set(c->e, HL_ERR_NOMEM, "out of memory reading the campaign");
+            sp->nesc = k;
+        }
+        return HL_OK;
+    }
     for (int pass = 0; pass < 2; pass++) {
         /* pass 0 counts, pass 1 fills an array of exactly that size */
         int k = 0, dec = 0;
@@ -762,54 +789,6 @@ static const char *tname(const cJSON *n)
     return "an unknown value";
 }
 
-/* Levenshtein distance of two short byte strings (keys, ids), case-folded if fold. */
-static int edit_distance(const char *a, const char *b, int fold)
-{
-    int la = (int)strlen(a), lb = (int)strlen(b);
-    if (la > 64 || lb > 64)
-        return 1000;
-    int row[65];
-    for (int j = 0; j <= lb; j++)
-        row[j] = j;
-    for (int i = 1; i <= la; i++) {
-        int diag = row[0];
-        row[0] = i;
-        for (int j = 1; j <= lb; j++) {
-            char x = a[i - 1], y = b[j - 1];
-            if (fold) {
-                if (x >= 'A' && x <= 'Z') x = (char)(x - 'A' + 'a');
-                if (y >= 'A' && y <= 'Z') y = (char)(y - 'A' + 'a');
-            }
-            int best = diag + (x != y);
-            if (row[j] + 1 < best) best = row[j] + 1;
-            if (row[j - 1] + 1 < best) best = row[j - 1] + 1;
-            diag = row[j];
-            row[j] = best;
-        }
-    }
-    return row[lb];
-}
-
-/* Nearest candidate within a distance that still looks like a typo, else NULL. */
-static const char *nearest(const char *word, const char *const *cands, int n, int fold)
-{
-    const char *best = NULL;
-    int bd = 1000;
-    for (int k = 0; k < n; k++) {
-        int d = edit_distance(word, cands[k], fold);
-        size_t lw = strlen(word);
-        if (lw >= 4 && strncmp(word, cands[k], lw) == 0)
-            d = 1; /* a cut-off key ("overhalogenation") still points at its full name */
-        if (d < bd) {
-            bd = d;
-            best = cands[k];
-        }
-    }
-    int len = (int)strlen(word);
-    int limit = len <= 4 ? 1 : len <= 8 ? 2 : 3;
-    return bd <= limit ? best : NULL;
-}
-
 /* Collect the members of obj into slot[] by key; unknown and duplicate keys are errors. */
 static enum hl_status members(struct vctx *c, const cJSON *obj, const char *const *names, int n,
                               const cJSON **slot)
@@ -824,7 +803,7 @@ static enum hl_status members(struct vctx *c, const cJSON *obj, const char *cons
             k++;
         if (k == n) {
             push_key(c, m->string);
-            const char *near = nearest(m->string, names, n, 0);
+            const char *near = hl_nearest(m->string, names, n, 0);
             if (near)
                 return verr(c, m, 1, "unknown key (did you mean '%s'?)", near);
             char list[400];
@@ -865,7 +844,7 @@ static void raw_number(const struct vctx *c, const cJSON *n, char *buf, size_t c
     const struct vpos *p = vp(c, n);
     size_t k = 0;
     if (p)
-        for (const char *s = c->text + p->off; k + 1 < cap && *s && strchr("+-.0123456789eE", *s); s++)
+        for (const char *s = c->text + p->off + (c->csv && c->text[p->off] == '"'); k + 1 < cap && *s && strchr("+-.0123456789eE", *s); s++)
             buf[k++] = *s;
     buf[k] = '\0';
 }
@@ -1039,7 +1018,7 @@ static enum hl_status get_reagent(struct vctx *c, const cJSON *m, int allow_naoh
         if (w > 0)
             L = L + (size_t)w < sizeof list ? L + (size_t)w : sizeof list - 1;
     }
-    const char *near = nearest(s, names, nn, 1);
+    const char *near = hl_nearest(s, names, nn, 1);
     if (near)
         return verr(c, m, 0, "unknown reagent \"%s\" (did you mean \"%s\"?)", q, near);
     return verr(c, m, 0, "unknown reagent \"%s\" (known: %s)", q, list);
@@ -1570,6 +1549,8 @@ struct reader {
     struct camp_model model;   /* campaign-level */
     struct idset scrub_ids;
     size_t runs_cap;
+    const struct camp_opts *opts; /* may be NULL */
+    int nentries;               /* runs[] entries and schedule rows so far (src_index) */
 };
 
 /* ---- run actuals: what happened to a run.  The one place their fields are named, ranged
@@ -1737,7 +1718,7 @@ static enum hl_status parse_run(struct reader *rd, const cJSON *o, int idx, stru
             const char *best = NULL;
             int bd = 1000;
             for (int j = 0; j < rd->camp->nscrubbers; j++) {
-                int d = edit_distance(sid, rd->camp->scrubbers[j].id, 1);
+                int d = hl_edit_distance(sid, rd->camp->scrubbers[j].id, 1);
                 if (d < bd) { bd = d; best = rd->camp->scrubbers[j].id; }
             }
             if (!rd->camp->nscrubbers)
@@ -1922,24 +1903,26 @@ static enum hl_status expand_one(struct reader *rd, const struct camp_run *t, lo
 
 static int64_t floor_to(int64_t m, int64_t unit) { return (m / unit - (m % unit < 0)) * unit; }
 
+static void run_where(const struct camp_run *r, char *buf, size_t n);
+static enum hl_status run_err(struct hl_err *e, const struct camp_run *r, struct camp_pos p,
+                              const char *path, const char *fmt, ...) __attribute__((format(printf, 5, 6)));
+
 /* Where a computed date of run r is blamed: its start, or its repeat when a later copy moved it. */
 static enum hl_status run_date_err(struct vctx *c, const struct camp_run *r, const char *fmt, ...)
     __attribute__((format(printf, 3, 4)));
 static enum hl_status run_date_err(struct vctx *c, const struct camp_run *r, const char *fmt, ...)
 {
-    char msg[400], field[160], idq[64];
+    char msg[400], idq[64];
     va_list ap;
     va_start(ap, fmt);
     vsnprintf(msg, sizeof msg, fmt, ap);
     va_end(ap);
     quote(r->id, idq, sizeof idq);
     struct camp_pos p = r->repeat_no > 1 ? r->pos_every : r->pos_start;
-    snprintf(field, sizeof field, "runs[%d].%s", r->src_index,
-             r->repeat_no > 1 ? "repeat.every_days" : "start");
+    const char *path = r->repeat_no > 1 ? "repeat.every_days" : "start";
     if (r->repeat_no > 1)
-        return hl_err_at(c->e, HL_ERR_INPUT, p.line, p.col, field, "repeat %d (run \"%s\") %s",
-                         r->repeat_no, idq, msg);
-    return hl_err_at(c->e, HL_ERR_INPUT, p.line, p.col, field, "run \"%s\" %s", idq, msg);
+        return run_err(c->e, r, p, path, "repeat %d (run \"%s\") %s", r->repeat_no, idq, msg);
+    return run_err(c->e, r, p, path, "run \"%s\" %s", idq, msg);
 }
 
 /* Every date the ledger will show must lie in 0001-01-01 .. 9999-12-31: the run starts (also
@@ -1969,10 +1952,7 @@ static enum hl_status check_dates(struct reader *rd)
             if (r->repeat_no > 1)
                 return run_date_err(c, r, "starts %s and its feed would end after 9999-12-31, the last "
                                     "date a ledger can show", when);
-            char field[160];
-            snprintf(field, sizeof field, "runs[%d].feed_h", r->src_index);
-            return hl_err_at(c->e, HL_ERR_INPUT, r->pos_feed.line, r->pos_feed.col, field,
-                             "the feed of run starting %s would end after 9999-12-31, the last date a "
+            return run_err(c->e, r, r->pos_feed, "feed_h", "the feed of run starting %s would end after 9999-12-31, the last date a "
                              "ledger can show", when);
         }
         /* order-by dates: the reagent, and caustic make-up on a caustic scrubber */
@@ -1986,14 +1966,15 @@ static enum hl_status check_dates(struct reader *rd)
             int64_t by = floor_to(r->start_min, DAY_MIN) - (int64_t)ceil(s->lead_days - 1e-9) * DAY_MIN;
             if (by >= ISODATE_MIN_MIN)
                 continue;
-            char field[160], idq[64];
+            char field[160], idq[64], where[360];
             int si = (int)(s - cp->stock);
+            run_where(r, where, sizeof where);
             snprintf(field, sizeof field, "stock[%d].lead_days", si);
             quote(r->id, idq, sizeof idq);
             isodate_format(r->start_min, 0, when, sizeof when);
             return hl_err_at(c->e, HL_ERR_INPUT, s->pos_lead_days.line, s->pos_lead_days.col, field,
-                             "%.15g days before run \"%s\" (runs[%d], %s) falls before 0001-01-01, the "
-                             "first date a ledger can show", s->lead_days, idq, r->src_index, when);
+                             "%.15g days before run \"%s\" (%s, %s) falls before 0001-01-01, the "
+                             "first date a ledger can show", s->lead_days, idq, where, when);
         }
         int64_t a = floor_to(r->start_min, 60), b = -floor_to(-end, 60); /* whole hours */
         if (lo_run < 0 || a < lo) {
@@ -2006,20 +1987,58 @@ static enum hl_status check_dates(struct reader *rd)
         }
         if (hi - lo > (int64_t)SPAN_DAYS * DAY_MIN) {
             const struct camp_run *o = &cp->runs[lo_run == i ? hi_run : lo_run];
-            char ow[24], oq[64];
+            char ow[24], oq[64], where[360];
+            run_where(o, where, sizeof where);
             isodate_format(o->start_min, 0, ow, sizeof ow);
             isodate_format(r->start_min, 0, when, sizeof when);
             quote(o->id, oq, sizeof oq);
             return run_date_err(c, r, "starting %s would make the campaign span more than %d days "
-                                "(20 years): run \"%s\" (runs[%d]) starts %s; split the campaign",
-                                when, SPAN_DAYS, oq, o->src_index, ow);
+                                "(20 years): run \"%s\" (%s) starts %s; split the campaign",
+                                when, SPAN_DAYS, oq, where, ow);
         }
     }
     return HL_OK;
 }
 
-/* One runs entry o (index idx) into the campaign, repeats expanded. */
-static enum hl_status add_run(struct reader *rd, const cJSON *o, int idx)
+/* Where run r is named in messages: "runs[3] (id at 18:12)" in the campaign, or
+ * "FILE:5:1" for a schedule row (at its id). */
+static void run_where(const struct camp_run *r, char *buf, size_t n)
+{
+    if (r->sched_file)
+        snprintf(buf, n, "%.300s:%d:%d", r->sched_file, r->pos_id.line, r->pos_id.col);
+    else
+        snprintf(buf, n, "runs[%d]", r->src_index);
+}
+
+void camp_run_field(const struct camp_run *r, const char *path, char *buf, size_t n)
+{
+    const char *col = r->sched_file ? sched_column(path) : NULL;
+    if (r->sched_file)
+        snprintf(buf, n, "column %s", col ? col : path);
+    else
+        snprintf(buf, n, "runs[%d]%s%s", r->src_index, path[0] ? "." : "", path);
+}
+
+/* An error at a run's value: the field as camp_run_field, the file its row is in. */
+static enum hl_status run_err(struct hl_err *e, const struct camp_run *r, struct camp_pos p,
+                              const char *path, const char *fmt, ...) __attribute__((format(printf, 5, 6)));
+static enum hl_status run_err(struct hl_err *e, const struct camp_run *r, struct camp_pos p,
+                              const char *path, const char *fmt, ...)
+{
+    char msg[480], field[160];
+    va_list ap;
+    va_start(ap, fmt);
+    vsnprintf(msg, sizeof msg, fmt, ap);
+    va_end(ap);
+    camp_run_field(r, path, field, sizeof field);
+    hl_err_at(e, HL_ERR_INPUT, p.line, p.col, field, "%s", msg);
+    if (e && r->sched_file)
+        snprintf(e->file, sizeof e->file, "%s", r->sched_file);
+    return HL_ERR_INPUT;
+}
+
+/* One runs entry o (index idx) or schedule row (sched_file) into the campaign, repeats expanded. */
+static enum hl_status add_run(struct reader *rd, const cJSON *o, int idx, const char *sched_file)
 {
     struct vctx *c = &rd->c;
     struct campaign *cp = rd->camp;
@@ -2029,12 +2048,16 @@ static enum hl_status add_run(struct reader *rd, const cJSON *o, int idx)
     memset(&t, 0, sizeof t);
     size_t o2 = push_index(c, idx);
     enum hl_status st = parse_run(rd, o, idx, &t, &count, &every);
+    if (!st && (size_t)cp->nruns + (size_t)(count ? count : 1) > MAX_RUNS)
+        st = verr(c, o, 0, "the campaign would hold more than %d runs", MAX_RUNS);
     if (!st)
         st = grow_runs(rd, (size_t)cp->nruns + (size_t)(count ? count : 1));
     if (st) {
         run_free(&t);
         return st;
     }
+    rd->nentries++;
+    t.sched_file = sched_file;
     if (!count) {
         cp->runs[cp->nruns++] = t;
     } else {
@@ -2054,7 +2077,6 @@ static enum hl_status add_run(struct reader *rd, const cJSON *o, int idx)
 static enum hl_status parse_runs(struct reader *rd, const cJSON *arr)
 {
     struct vctx *c = &rd->c;
-    struct campaign *cp = rd->camp;
     enum hl_status st = HL_OK;
     size_t old = push_key(c, "runs");
     const struct doc *top = c->d;
@@ -2068,7 +2090,7 @@ static enum hl_status parse_runs(struct reader *rd, const cJSON *arr)
             if ((st = doc_parse_span(c->text, &top->el[i], &cap, &one, c->e)))
                 break;
             c->d = &one;
-            st = add_run(rd, one.root, (int)i);
+            st = add_run(rd, one.root, (int)i, NULL);
             c->d = top;
         }
         doc_free(&one);
@@ -2077,11 +2099,162 @@ static enum hl_status parse_runs(struct reader *rd, const cJSON *arr)
     } else {
         int idx = 0;
         for (const cJSON *o = arr->child; o && !st; o = o->next, idx++)
-            st = add_run(rd, o, idx);
+            st = add_run(rd, o, idx, NULL);
         if (st)
             return st;
     }
-    /* duplicate ids, also those made by repeat: one hash pass over all runs */
+    pop(c, old);
+    return HL_OK;
+}
+
+/* ---- CSV schedules: each row is a runs[] entry built by sched.c, validated above ---- */
+
+static int bad_text(const char *s)
+{
+    for (; *s; s++)
+        if ((unsigned char)*s < 0x20 || *s == 0x7f)
+            return 1;
+    return 0;
+}
+
+struct sched_ctx { struct reader *rd; const char *file; struct vpos *v; size_t vcap; };
+
+/* A row's error from the JSON-run checks: "runs[N].substrate.smiles" becomes
+ * "column substrate_smiles" (the header's spelling), in the schedule file; a value that
+ * is missing is placed at its empty cell when the header has the column. */
+static void sched_blame(struct hl_err *e, const struct sched_row *row, const char *file)
+{
+    const char *path = strchr(e->field, ']');
+    path = path && path[1] == '.' ? path + 2 : "";
+    const char *col = sched_column(path);
+    char field[160];
+    snprintf(field, sizeof field, "column %s", col ? col : path[0] ? path : "id");
+    for (int j = 0; col && j < row->ncols; j++)
+        if (!strcmp(row->names[j], col)) {
+            if (!row->given[j]) {
+                e->line = row->cell[j].line;
+                e->col = row->cell[j].col;
+            }
+            break;
+        }
+    snprintf(e->field, sizeof e->field, "%s", field);
+    snprintf(e->file, sizeof e->file, "%s", file);
+}
+
+static enum hl_status sched_row_cb(void *data, const struct sched_row *row, struct hl_err *e)
+{
+    struct sched_ctx *x = data;
+    struct reader *rd = x->rd;
+    if (row->npos > x->vcap) {
+        size_t cap = row->npos * 2;
+        struct vpos *nv = hl_realloc(x->v, cap * sizeof *nv);
+        if (!nv)
+            return hl_err_set(e, HL_ERR_NOMEM, "out of memory reading the schedule");
+        x->v = nv;
+        x->vcap = cap;
+    }
+    for (size_t k = 0; k < row->npos; k++) {
+        const struct sched_pos *p = &row->pos[k];
+        x->v[k] = (struct vpos){p->off, p->line, p->col, p->line, p->col};
+    }
+    struct doc d;
+    memset(&d, 0, sizeof d);
+    d.v = x->v;
+    d.nv = row->npos;
+    d.root = row->run;
+    d.run_vi = (size_t)-1;
+    struct vctx saved = rd->c;
+    rd->c.d = &d;
+    rd->c.text = row->text;
+    rd->c.prefix = "";
+    rd->c.csv = 1;
+    rd->c.plen = 0;
+    rd->c.path[0] = '\0';
+    push_key(&rd->c, "runs");
+    enum hl_status st = add_run(rd, row->run, rd->nentries, x->file);
+    if (st == HL_ERR_INPUT)
+        sched_blame(e, row, x->file);
+    rd->c = saved;
+    return st;
+}
+
+static enum hl_status read_schedule(struct reader *rd, const char *path)
+{
+    struct campaign *cp = rd->camp;
+    char **ns = hl_realloc(cp->schedules, ((size_t)cp->nschedules + 1) * sizeof *ns);
+    if (!ns)
+        return hl_err_set(rd->c.e, HL_ERR_NOMEM, "out of memory reading the campaign");
+    cp->schedules = ns;
+    if (!(ns[cp->nschedules] = hl_strdup(path)))
+        return hl_err_set(rd->c.e, HL_ERR_NOMEM, "out of memory reading the campaign");
+    struct sched_ctx x = {rd, ns[cp->nschedules++], NULL, 0};
+    enum hl_status st = sched_load(path, rd->opts ? rd->opts->csv_sep : 0, sched_row_cb, &x, rd->c.e);
+    hl_free(x.v);
+    if (st && rd->c.e && !rd->c.e->file[0])
+        snprintf(rd->c.e->file, sizeof rd->c.e->file, "%s", path);
+    return st;
+}
+
+/* The campaign's "schedule" (one name or an array), each relative to the campaign's folder. */
+static enum hl_status parse_schedule_key(struct reader *rd, const cJSON *m)
+{
+    struct vctx *c = &rd->c;
+    enum hl_status st;
+    int arr = cJSON_IsArray(m);
+    if (arr && (st = check_array(c, m, 1)))
+        return st;
+    if (!arr && !cJSON_IsString(m)) {
+        push_key(c, "schedule");
+        return verr(c, m, 0, "must be a file name or an array of file names (got %s)", tname(m));
+    }
+    size_t old = push_key(c, "schedule");
+    int idx = 0;
+    for (const cJSON *x = arr ? m->child : m; x; x = arr ? x->next : NULL, idx++) {
+        if (arr)
+            push_index(c, idx);
+        if (!cJSON_IsString(x) || !x->valuestring[0] || bad_text(x->valuestring))
+            return verr(c, x, 0, "must be a file name: a non-empty string without control characters");
+        const char *name = x->valuestring;
+        char *full;
+        char *dir = NULL;
+        if (!(name[0] == '/' || !rd->camp->file) && (st = afile_dirname(rd->camp->file, &dir, c->e)))
+            return st;
+        if (!dir || !strcmp(dir, ".")) {
+            full = hl_strdup(name);
+        } else {
+            size_t n = strlen(dir) + strlen(name) + 2;
+            if ((full = hl_malloc(n)))
+                snprintf(full, n, "%s/%s", dir, name);
+        }
+        hl_free(dir);
+        if (!full)
+            return hl_err_set(c->e, HL_ERR_NOMEM, "out of memory reading the campaign");
+        char field[160];
+        finish_field(field, sizeof field, c->prefix, c->path);
+        struct camp_pos at = pos_of(c, x);
+        st = read_schedule(rd, full);
+        hl_free(full);
+        if (st == HL_ERR_INPUT && c->e && c->e->line == 0) {
+            /* the file itself cannot be read: blame the campaign's key that names it */
+            char msg[sizeof c->e->msg];
+            snprintf(msg, sizeof msg, "%s", c->e->msg);
+            hl_err_at(c->e, HL_ERR_INPUT, at.line, at.col, field, "%s", msg);
+            c->e->file[0] = '\0';
+        }
+        if (st)
+            return st;
+        if (arr)
+            pop(c, old + strlen(".schedule"));
+    }
+    pop(c, old);
+    return HL_OK;
+}
+
+/* After every run is in: duplicate ids (also those made by repeat), then dates. */
+static enum hl_status finish_runs(struct reader *rd)
+{
+    struct vctx *c = &rd->c;
+    struct campaign *cp = rd->camp;
     struct idset ids;
     if (idset_init(&ids, (size_t)cp->nruns))
         return hl_err_set(c->e, HL_ERR_NOMEM, "out of memory reading the campaign");
@@ -2091,30 +2264,31 @@ static enum hl_status parse_runs(struct reader *rd, const cJSON *arr)
         if (prev < 0)
             continue;
         const struct camp_run *p = &cp->runs[prev];
-        char q[64];
+        char q[64], where[360];
         quote(r->id, q, sizeof q);
         idset_free(&ids);
-        char field[160];
-        snprintf(field, sizeof field, "runs[%d].id", r->src_index);
+        run_where(p, where, sizeof where);
+        if (!p->sched_file) {
+            size_t n = strlen(where);
+            snprintf(where + n, sizeof where - n, "%s (id at %d:%d)",
+                     !r->repeat_no && p->repeat_no ? ", made by its repeat" : "", p->pos_id.line,
+                     p->pos_id.col);
+        }
         if (r->repeat_no)
-            return hl_err_at(c->e, HL_ERR_INPUT, r->pos_id.line, r->pos_id.col, field,
-                             "repeat makes run id \"%s\", already used by runs[%d] (id at %d:%d)", q,
-                             p->src_index, p->pos_id.line, p->pos_id.col);
-        return hl_err_at(c->e, HL_ERR_INPUT, r->pos_id.line, r->pos_id.col, field,
-                         "run id \"%s\" is already used by runs[%d]%s (id at %d:%d)", q, p->src_index,
-                         p->repeat_no ? ", made by its repeat" : "", p->pos_id.line, p->pos_id.col);
+            return run_err(c->e, r, r->pos_id, "id", "repeat makes run id \"%s\", already used by %s",
+                           q, where);
+        return run_err(c->e, r, r->pos_id, "id", "run id \"%s\" is already used by %s", q, where);
     }
     idset_free(&ids);
-    pop(c, old);
     return check_dates(rd);
 }
 
 /* top level */
 enum { GK_FORMAT, GK_TITLE, GK_SITE, GK_ISSUED, GK_MODEL, GK_SCRUB, GK_STOCK, GK_CONT, GK_RUNS, GK_NOTE,
-       GK_REPORT, GK_DELIV, GK_COUNTS, GK_TOL, GK_PERMITS, GK_N };
+       GK_REPORT, GK_DELIV, GK_COUNTS, GK_TOL, GK_PERMITS, GK_SCHED, GK_N };
 static const char *const top_keys[GK_N] = {"format", "title", "site", "issued", "model", "scrubbers",
                                            "stock", "containers", "runs", "note", "report",
-                                           "deliveries", "counts", "tolerances", "permits"};
+                                           "deliveries", "counts", "tolerances", "permits", "schedule"};
 
 /* ---- month close: deliveries, stock counts, tolerances ---- */
 enum { DK_REAGENT, DK_KG, DK_DATE, DK_STATUS, DK_REF, DK_NOTE, DK_N };
@@ -2511,9 +2685,22 @@ static enum hl_status parse_top(struct reader *rd, const cJSON *root)
     if (!(cp->model = hl_malloc(sizeof *cp->model)))
         return hl_err_set(c->e, HL_ERR_NOMEM, "out of memory reading the campaign");
     *cp->model = rd->model;
-    if (!k[GK_RUNS])
+    int scheduled = k[GK_SCHED] || (rd->opts && rd->opts->nschedules > 0);
+    if (!k[GK_RUNS] && !scheduled)
         return missing(c, root, "runs", NULL);
-    if ((st = check_array(c, k[GK_RUNS], 1)) || (st = parse_runs(rd, k[GK_RUNS])))
+    if (k[GK_RUNS] && ((st = check_array(c, k[GK_RUNS], !scheduled)) || (st = parse_runs(rd, k[GK_RUNS]))))
+        return st;
+    if (k[GK_SCHED] && (st = parse_schedule_key(rd, k[GK_SCHED])))
+        return st;
+    for (int j = 0; rd->opts && j < rd->opts->nschedules; j++)
+        if ((st = read_schedule(rd, rd->opts->schedules[j])))
+            return st;
+    if (!cp->nruns) {
+        push_key(c, k[GK_RUNS] ? "runs" : "schedule");
+        return verr(c, k[GK_RUNS] ? k[GK_RUNS] : k[GK_SCHED] ? k[GK_SCHED] : root, 0,
+                    "no runs: the campaign and its schedules hold none");
+    }
+    if ((st = finish_runs(rd)))
         return st;
     return parse_close(c, cp, k[GK_DELIV], k[GK_COUNTS], k[GK_TOL]);
 }
@@ -2544,6 +2731,12 @@ static enum hl_status parse_permits(struct reader *rd, const cJSON *a)
 enum hl_status camp_parse(const char *text, size_t len, const char *path, const char *catalog_text,
                           struct campaign **out, struct hl_err *e)
 {
+    return camp_parse_opts(text, len, path, catalog_text, NULL, out, e);
+}
+
+enum hl_status camp_parse_opts(const char *text, size_t len, const char *path, const char *catalog_text,
+                               const struct camp_opts *o, struct campaign **out, struct hl_err *e)
+{
     hl_err_clear(e);
     *out = NULL;
     struct reader rd;
@@ -2566,6 +2759,7 @@ enum hl_status camp_parse(const char *text, size_t len, const char *path, const 
     enum hl_status st = doc_parse(text, len, "", "campaign", 1, &d, e);
     if (!st) {
         rd.camp = cp;
+        rd.opts = o;
         rd.c.d = &d;
         rd.c.text = text;
         rd.c.prefix = "";
@@ -2589,6 +2783,12 @@ enum hl_status camp_parse(const char *text, size_t len, const char *path, const 
 enum hl_status camp_load(const char *path, const char *catalog_text, struct campaign **out,
                          struct hl_err *e)
 {
+    return camp_load_opts(path, catalog_text, NULL, out, e);
+}
+
+enum hl_status camp_load_opts(const char *path, const char *catalog_text, const struct camp_opts *o,
+                              struct campaign **out, struct hl_err *e)
+{
     hl_err_clear(e);
     *out = NULL;
     char *buf;
@@ -2600,7 +2800,7 @@ enum hl_status camp_load(const char *path, const char *catalog_text, struct camp
         hl_free(buf);
         return hl_err_at(e, HL_ERR_INPUT, 1, 1, "$", "the campaign is larger than %u bytes", MAX_FILE);
     }
-    st = camp_parse(buf, n, path, catalog_text, out, e);
+    st = camp_parse_opts(buf, n, path, catalog_text, o, out, e);
     hl_free(buf);
     return st;
 }
@@ -2633,6 +2833,9 @@ void camp_free(struct campaign *c)
     hl_free(c->deliveries);
     hl_free(c->counts);
     camp_free_runs(c);
+    for (int i = 0; i < c->nschedules; i++)
+        hl_free(c->schedules[i]);
+    hl_free(c->schedules);
     hl_free(c->model);
     hl_free(c->title);
     hl_free(c->site);

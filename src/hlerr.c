@@ -55,3 +55,51 @@ enum hl_status hl_err_at(struct hl_err *e, enum hl_status st, int line, int col,
     snprintf(e->field, sizeof e->field, "%s", field ? field : "");
     return st;
 }
+
+/* Levenshtein distance of two short byte strings (keys, ids), case-folded if fold. */
+int hl_edit_distance(const char *a, const char *b, int fold)
+{
+    int la = (int)strlen(a), lb = (int)strlen(b);
+    if (la > 64 || lb > 64)
+        return 1000;
+    int row[65];
+    for (int j = 0; j <= lb; j++)
+        row[j] = j;
+    for (int i = 1; i <= la; i++) {
+        int diag = row[0];
+        row[0] = i;
+        for (int j = 1; j <= lb; j++) {
+            char x = a[i - 1], y = b[j - 1];
+            if (fold) {
+                if (x >= 'A' && x <= 'Z') x = (char)(x - 'A' + 'a');
+                if (y >= 'A' && y <= 'Z') y = (char)(y - 'A' + 'a');
+            }
+            int best = diag + (x != y);
+            if (row[j] + 1 < best) best = row[j] + 1;
+            if (row[j - 1] + 1 < best) best = row[j - 1] + 1;
+            diag = row[j];
+            row[j] = best;
+        }
+    }
+    return row[lb];
+}
+
+/* Nearest candidate within a distance that still looks like a typo, else NULL. */
+const char *hl_nearest(const char *word, const char *const *cands, int n, int fold)
+{
+    const char *best = NULL;
+    int bd = 1000;
+    for (int k = 0; k < n; k++) {
+        int d = hl_edit_distance(word, cands[k], fold);
+        size_t lw = strlen(word);
+        if (lw >= 4 && strncmp(word, cands[k], lw) == 0)
+            d = 1; /* a cut-off key ("overhalogenation") still points at its full name */
+        if (d < bd) {
+            bd = d;
+            best = cands[k];
+        }
+    }
+    int len = (int)strlen(word);
+    int limit = len <= 4 ? 1 : len <= 8 ? 2 : 3;
+    return bd <= limit ? best : NULL;
+}

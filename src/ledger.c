@@ -202,6 +202,8 @@ static enum hl_status blame_run(const struct campaign *c, const struct camp_run 
         pos = sp->pos;
     /* pos.col is the opening quote; escapes before character k take their raw bytes. */
     int col = (sp && e->col > 0) ? camp_string_col(sp, e->col) : pos.col;
+    if (r->sched_file && sp && e->col <= 0) /* a schedule cell: its first byte, not a quote before it */
+        col = camp_string_col(sp, 1);
     /* a run without a model block of its own ran on the campaign's: blame that one */
     int camp_model = path && !strcmp(e->field, "model") && !r->own_model && c->has_model;
     if (camp_model) {
@@ -212,10 +214,13 @@ static enum hl_status blame_run(const struct campaign *c, const struct camp_run 
     if (camp_model)
         snprintf(field, sizeof field, "model");
     else
-        snprintf(field, sizeof field, "runs[%d]%s%s", r->src_index, path ? "." : "", path ? path : "");
+        camp_run_field(r, path ? path : "", field, sizeof field);
     /* the run id tells which repeat of an entry failed; keep the model's text whole */
     snprintf(msg, sizeof msg, "%.400s (run %.60s)", e->msg, r->id);
-    return hl_err_at(e, HL_ERR_INPUT, pos.line, col, field, "%s", msg);
+    hl_err_at(e, HL_ERR_INPUT, pos.line, col, field, "%s", msg);
+    if (r->sched_file && !camp_model)
+        snprintf(e->file, sizeof e->file, "%s", r->sched_file);
+    return HL_ERR_INPUT;
 }
 
 /* Every value a run's balance used: the selectivity values, then the degree-model

@@ -16,6 +16,7 @@
 #include "json_out.h"
 #include "ledger.h"
 #include "reagents.h"
+#include "sched.h"
 #include "xlsx_out.h"
 
 #include <cjson/cJSON.h>
@@ -32,6 +33,7 @@
 
 #define HALOLEDGER_VERSION "0.1.0"
 #define MAX_OUTPUTS 4
+#define MAX_SCHEDULES 64
 /* A catalog is a table of containers (templates/containers.json is about 2 kB); the cap
  * refuses a device or endless pipe early instead of at the campaign's 1 GiB. */
 #define CATALOG_MAX_BYTES ((size_t)16 << 20)
@@ -42,8 +44,10 @@ enum { EXIT_OK = 0, EXIT_RUNTIME = 1, EXIT_INPUT = 2, EXIT_WARNINGS = 3 };
 
 static const char usage_text[] =
     "Usage: haloledger check CAMPAIGN [--today DATE] [--strict] [--catalog FILE]\n"
+    "                        [--schedule FILE.csv ...] [--csv-sep SEP]\n"
     "       haloledger report CAMPAIGN -o OUT.xlsx|OUT.json [-o ...] [--today DATE]\n"
     "                         [--strict] [--catalog FILE] [--all-products]\n"
+    "       haloledger schedule-template [--example] [-o FILE.csv]\n"
     "       haloledger --help | --version\n"
     "\n"
     "Reads a campaign of free-radical halogenation batches (JSON, see README) and\n"
@@ -56,6 +60,8 @@ static const char usage_text[] =
     "  report    as check, then write the ledger: .xlsx workbook and/or .json ledger;\n"
     "            prints the same summary as check once every file is written, then\n"
     "            one 'wrote FILE' line per output\n"
+    "  schedule-template  a CSV header of every run column (with --example, three\n"
+    "            filled rows of an invented plant) to FILE.csv or standard output\n"
     "\n"
     "Options:\n"
     "  -o, --output FILE   output file; the extension (.xlsx or .json) picks the format;\n"
@@ -64,6 +70,11 @@ static const char usage_text[] =
     "      --strict        exit 3 when the ledger carries warnings (overload, late order,\n"
     "                      flagged variance, unexplained stock...)\n"
     "      --catalog FILE  container catalog to use instead of the built-in one\n"
+    "      --schedule FILE CSV schedule: one run a row, the columns named by the run\n"
+    "                      keys (substrate_smiles, reagent_eq, ...); after the campaign's\n"
+    "                      own runs and \"schedule\" files; may be given several times\n"
+    "      --csv-sep SEP   CSV separator: ',' ';' or 'tab' (default: from the header)\n"
+    "      --example       schedule-template: add filled example rows\n"
     "      --all-products  list every product; by default over-halogenated traces below\n"
     "                      report.min_mol_fraction (1e-4) are summed into one row per run\n"
     "  -h, --help          this text\n"
@@ -89,6 +100,8 @@ static void print_err(const char *file, const struct hl_err *e)
 /* The file a reader's error refers to: the campaign, or the catalog read with it. */
 static const char *err_file(const struct hl_err *e, const char *campaign, const char *catalog)
 {
+    if (e->file[0])
+        return e->file;
     if (e->doc != HL_DOC_CATALOG)
         return campaign;
     return catalog ? catalog : "built-in container catalog (templates/containers.json)";
@@ -443,6 +456,34 @@ static int outputs_clash(const char *const *outputs, int nout, const char *campa
     return EXIT_OK;
 }
 
+/* haloledger schedule-template [--example] [-o FILE.csv]: the CSV header (and examples). */
+static int schedule_template(int argc, char **argv, const char *const *outputs, int nout, int example)
+{
+    if (optind < argc)
+        return usage_error("unexpected argument '%s'", argv[optind]);
+    if (nout > 1)
+        return usage_error("%s", "schedule-template writes one file");
+    if (nout == 1 && !has_ext(outputs[0], ".csv"))
+        return usage_error("output '%s' must end in .csv", outputs[0]);
+    struct hl_err e;
+    hl_err_clear(&e);
+    char *text = NULL;
+    enum hl_status st = sched_template(example, &text, &e);
+    if (!st && nout == 1 && !(st = afile_check_target(outputs[0], &e)))
+        st = afile_write(outputs[0], text, strlen(text), &e);
+    if (st) {
+        fprintf(stderr, "haloledger: %s\n", e.msg);
+        hl_free(text);
+        return exit_for(st);
+    }
+    if (nout == 1)
+        printf("wrote %s\n", outputs[0]);
+    else
+        fputs(text, stdout);
+    hl_free(text);
+    return EXIT_OK;
+}
+
 static int run(int argc, char **argv)
 {
     static const struct option opts[] = {
@@ -450,7 +491,12 @@ static int run(int argc, char **argv)
         {"strict", no_argument, NULL, 's'},        {"catalog", required_argument, NULL, 'c'},
         {"help", no_argument, NULL, 'h'},          {"version", no_argument, NULL, 'V'},
         {"all-products", no_argument, NULL, 'a'},
+        {"schedule", required_argument, NULL, 'S'}, {"csv-sep", required_argument, NULL, 'p'},
+        {"example", no_argument, NULL, 'x'},
         {NULL, 0, NULL, 0}};
+    const char *schedules[MAX_SCHEDULES];
+    int nsched = 0, example = 0;
+    char csv_sep = 0;
     const char *outputs[MAX_OUTPUTS];
     int nout = 0, strict = 0, all_products = 0, ch;
     const char *catalog_path = NULL, *today_text = NULL;
@@ -468,6 +514,20 @@ static int run(int argc, char **argv)
         case 's': strict = 1; break;
         case 'a': all_products = 1; break;
         case 'c': catalog_path = optarg; break;
+        case 'S':
+            if (nsched == MAX_SCHEDULES)
+                return usage_error("at most %s --schedule files", "64");
+            schedules[nsched++] = optarg;
+            break;
+        case 'p':
+            if (!strcmp(optarg, ",") || !strcmp(optarg, ";") || !strcmp(optarg, "\t"))
+                csv_sep = optarg[0];
+            else if (!strcmp(optarg, "tab"))
+                csv_sep = '\t';
+            else
+                return usage_error("--csv-sep: '%s' is not ',' ';' or 'tab'", optarg);
+            break;
+        case 'x': example = 1; break;
         case 'h': fputs(usage_text, stdout); return EXIT_OK;
         case 'V':
             printf("haloledger %s (libxlsxwriter %s, cJSON %s)\n", HALOLEDGER_VERSION, LXW_VERSION,
@@ -480,9 +540,11 @@ static int run(int argc, char **argv)
     if (optind >= argc)
         return usage_error("%s", "missing command: check or report");
     const char *cmd = argv[optind++];
+    if (!strcmp(cmd, "schedule-template"))
+        return schedule_template(argc, argv, outputs, nout, example);
     int report = !strcmp(cmd, "report");
     if (!report && strcmp(cmd, "check"))
-        return usage_error("unknown command '%s' (expected check or report)", cmd);
+        return usage_error("unknown command '%s' (expected check, report or schedule-template)", cmd);
     if (optind >= argc)
         return usage_error("%s: missing CAMPAIGN file", cmd);
     const char *campaign_path = argv[optind++];
@@ -516,7 +578,12 @@ static int run(int argc, char **argv)
         return exit_for(st);
     }
     struct campaign *c = NULL;
-    st = camp_load(campaign_path, catalog ? catalog : catalog_default_json, &c, &e);
+    for (int i = 0; i < nout; i++)
+        for (int j = 0; j < nsched; j++)
+            if (afile_same(outputs[i], schedules[j]))
+                return usage_error("output '%s' is a --schedule file; choose another name", outputs[i]);
+    struct camp_opts co = {schedules, nsched, csv_sep};
+    st = camp_load_opts(campaign_path, catalog ? catalog : catalog_default_json, &co, &c, &e);
     hl_free(catalog);
     if (st) {
         print_err(err_file(&e, campaign_path, catalog_path), &e);

@@ -8,13 +8,15 @@
 #   zlib1g-dev: libxlsxwriter's pkg-config data puts -lz on the link line and libxlsxwriter-dev does
 #   not depend on zlib1g-dev, so without it `ld: cannot find -lz` (docs/library-notes.md). We keep
 #   the link line as the library's pkg-config file states it rather than filtering flags out of it.
+#   libcsv-dev: the CSV schedule reader (src/sched.c); it has no pkg-config file, so the Makefile
+#   names -lcsv itself.
 # tests: Debian's python3 with RDKit and openpyxl (reference readers), valgrind (allocation-failure
 #   walk), clang + libFuzzer runtime (fuzz targets and their regression run), LibreOffice Calc
 #   (cached formula values against a real recalculation; the PDF export of the printed pages),
 #   poppler-utils (pdftotext -bbox, pdftoppm: text positions and page images of that PDF) and
 #   fonts-crosextra-carlito (metric-compatible with Calibri, the workbook's default font, so the
 #   pages LibreOffice lays out break where a spreadsheet program with Calibri would).
-PKGS="pkg-config gcc libc6-dev make libxlsxwriter-dev zlib1g-dev libcjson-dev libcunit1-dev
+PKGS="pkg-config gcc libc6-dev make libxlsxwriter-dev zlib1g-dev libcjson-dev libcsv-dev libcunit1-dev
 python3 python3-rdkit python3-openpyxl valgrind clang-14 libclang-rt-14-dev libreoffice-calc-nogui
 poppler-utils fonts-crosextra-carlito"
 if [ "${1:-}" = --list ]; then
