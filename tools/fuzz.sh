@@ -1,5 +1,5 @@
 #!/bin/sh
-# fuzz.sh - libFuzzer targets of the campaign, SMILES and formula readers and of the whole
+# fuzz.sh - libFuzzer targets of the campaign, CSV schedule, SMILES and formula readers and of the whole
 # pipeline (campaign text to the JSON ledger in memory, and to both writers' files) (tests/fuzz/).
 #
 #   sh tools/fuzz.sh SECONDS     build, seed, fuzz each target SECONDS (make fuzz FUZZ_SECONDS=N)
@@ -23,7 +23,7 @@ case $MODE in
 esac
 OUT=build/fuzz
 # FUZZ_TARGETS="fuzz_smiles fuzz_workbook" picks some of them (one at a time on a shared machine).
-TARGETS=${FUZZ_TARGETS:-"fuzz_campaign fuzz_smiles fuzz_formula fuzz_pipeline fuzz_workbook"}
+TARGETS=${FUZZ_TARGETS:-"fuzz_campaign fuzz_smiles fuzz_formula fuzz_pipeline fuzz_workbook fuzz_sched"}
 CLANG=${CLANG:-}
 if [ -z "$CLANG" ]; then
     for c in clang-14 clang; do
@@ -45,7 +45,7 @@ if ! make -s -j2 --no-print-directory BUILD=$OUT CC="$CLANG" EXTRA_CFLAGS="$LIBF
     echo "fuzz: library build failed" >&2
     exit 2
 fi
-LIBS="$(pkg-config --libs xlsxwriter libcjson) -lm"
+LIBS="$(pkg-config --libs xlsxwriter libcjson) -lcsv -lm"
 for t in $TARGETS; do
     stale=0
     for h in tests/fuzz/*.h; do [ "$h" -nt $OUT/$t ] && stale=1; done
@@ -70,6 +70,7 @@ for t in $TARGETS; do
     case $t in
         fuzz_campaign | fuzz_pipeline | fuzz_workbook) maxlen=65536 ;;
         fuzz_smiles) maxlen=8192 ;; # past 1,000 atoms even in bracket atoms ([13CH2] x 1001)
+        fuzz_sched) maxlen=8192 ;;
         *) maxlen=256 ;;
     esac
     # a balance may take 0.3 s (-O2), some 6 s under the sanitizers, and an input holds up to 8

@@ -8,6 +8,7 @@ fuzz_smiles:   "smiles"/"product_smiles" values of those files, tests/data/*smil
                string literals of tests/ sources that look like SMILES, and long generated
                molecules around the campaign's 1,000-atom limit (chains, branches, rings,
                bracket atoms, aromatic rings) so the fuzzer starts past 1,024 bytes.
+fuzz_sched:    tests/bad_csv/*.csv and a schedule in a spreadsheet's dialect.
 fuzz_formula:  "formula" values of those files and string literals of tests/ sources that look
                like formulas.
 Files are named by the SHA-1 of their bytes (as libFuzzer names its own), so reseeding is
@@ -56,7 +57,7 @@ def long_smiles():
 def main():
     root, out = sys.argv[1], sys.argv[2]
     dirs = {t: os.path.join(out, t) for t in ('fuzz_campaign', 'fuzz_smiles', 'fuzz_formula',
-                                              'fuzz_pipeline', 'fuzz_workbook')}
+                                              'fuzz_pipeline', 'fuzz_workbook', 'fuzz_sched')}
     for d in dirs.values():
         os.makedirs(d, exist_ok=True)
     jsons = []
@@ -102,6 +103,11 @@ def main():
             if SMILES_RE.match(lit) and SMILES_ATOM_RE.search(lit):
                 smiles.add(lit.encode())
     smiles.update(long_smiles())
+    for path in sorted(glob.glob(os.path.join(root, 'tests', 'bad_csv', '*.csv'))):
+        with open(path, 'rb') as f:
+            put(dirs['fuzz_sched'], f.read())
+    put(dirs['fuzz_sched'], b'id;start;substrate_smiles;substrate_kg;reagent;reagent_eq;temp_c\r\n'
+        b'A;2027-03-01 06:00;CC(C)C;100;Cl2;0,6;40\r\n"B";"2027-03-02";"C1CCCC=C1";"5";"NBS";"1";""\r\n')
     for s in sorted(smiles):
         put(dirs['fuzz_smiles'], s)
     for s in sorted(formulas):
