@@ -575,9 +575,9 @@ enum hl_status sched_load(const char *path, char sep, sched_row_fn fn, void *dat
  * bromination by formula on a date only, one repeated NBS run. */
 static const char example_rows[] =
     "EX-1,2027-03-02 06:00,R-3,VS-1,2-methylpropane,CC(C)C,,,800,Cl2,0.6,,0.97,40,5,,,batch,,,,,,,,,,"
-    "\"first run, after the column wash\",done,1270,,,2027-03-02 12:30,\r\n"
+    "\"first run, after the column wash\",done,590,,,2027-03-02 12:30,\r\n"
     "EX-2,2027-03-04,R-4,VS-1,toluene,,C7H8,,500,Br2,,700,,80,6,,,,,,,,,,,,,,,,,,,\r\n"
-    "EX-3,2027-03-05T08:00,R-3,VS-1,cyclohexene,C1CCCC=C1,,,300,NBS,1.05,,,77,3,,,,3,2,,,,,,,,,,,,,\r\n";
+    "EX-3,2027-03-05T08:00,R-3,VS-1,cyclohexene,C1CCCC=C1,,,300,NBS,1.05,,,77,3,,,,3,2,,,,,,,,,,,,,,\r\n";
 
 enum hl_status sched_template(int example, char **out, struct hl_err *e)
 {

@@ -23,11 +23,13 @@ sys.path.insert(0, os.path.dirname(os.path.abspath(__file__)))
 from _hl import BIN, ROOT, WRAP, Tally  # noqa: E402
 
 CAMPAIGNS = ["campaigns/harrowmere-march.json", "campaigns/harrowmere-nbs-hbr.json",
-             "tests/campaigns/overlap-two-month.json"]
+             "tests/campaigns/overlap-two-month.json", "tests/campaigns/close-hand.json"]
 COLUMNS = ["id", "start", "reactor", "scrubber", "substrate_name", "substrate_smiles",
            "substrate_formula", "product_smiles", "substrate_kg", "reagent", "reagent_eq",
            "reagent_kg", "halogen_conversion", "temp_c", "feed_h", "peak_factor",
-           "vent_retained_fraction", "reactor_mode", "repeat_count", "repeat_every_days", "note"]
+           "vent_retained_fraction", "reactor_mode", "repeat_count", "repeat_every_days", "note",
+           "actual_status", "actual_reagent_kg", "actual_product_kg", "actual_naoh_kg", "actual_end",
+           "actual_note"]
 
 
 def flat(run):
@@ -48,7 +50,7 @@ def cell(v, decimal_comma, spaced_date, col):
     if isinstance(v, float) or isinstance(v, int):
         t = repr(v) if isinstance(v, float) else str(v)
         return t.replace(".", ",") if decimal_comma else t
-    if col == "start" and spaced_date and "T" in v:
+    if col in ("start", "actual_end") and spaced_date and "T" in v:
         return v.replace("T", " ")
     return v
 
