@@ -841,6 +841,64 @@ static void xs_months(struct xsum *s)
     xs_month_row(s, "Succinimide [kg]", XK_KG, xs_m_succ, 0, 1);
 }
 
+/* Month close: only when a month shown has a run with an actual. */
+static double xs_m_done(const struct ledger_month *m, int a) { (void)a; return m->close.done; }
+static double xs_m_cancel(const struct ledger_month *m, int a) { (void)a; return m->close.cancelled; }
+static double xs_m_planned(const struct ledger_month *m, int a) { (void)a; return m->close.planned; }
+static double xs_m_rplan(const struct ledger_month *m, int a) { return m->close.reagent_plan_kg[a]; }
+static double xs_m_ract(const struct ledger_month *m, int a) { return m->close.reagent_actual_kg[a]; }
+static double xs_m_unexp(const struct ledger_month *m, int a) { return m->close.unexplained_kg[a]; }
+static double xs_m_pplan(const struct ledger_month *m, int a) { (void)a; return m->close.product_plan_kg; }
+static double xs_m_pact(const struct ledger_month *m, int a) { (void)a; return m->close.product_actual_kg; }
+static double xs_m_nplan(const struct ledger_month *m, int a) { (void)a; return m->close.naoh_plan_kg; }
+static double xs_m_nact(const struct ledger_month *m, int a) { (void)a; return m->close.naoh_actual_kg; }
+
+static void xs_close(struct xsum *s)
+{
+    const struct ledger *l = s->w->l;
+    int any = 0;
+    for (int m = 0; m < s->nm; m++)
+        any |= l->months[m].close.done + l->months[m].close.cancelled > 0;
+    if (!any)
+        return;
+    char names[XS_MONTHS][32];
+    const char *cols[XS_MONTHS];
+    for (int m = 0; m < s->nm; m++) {
+        xo_month_text(l->months[m].month_index, names[m], sizeof names[m]);
+        cols[m] = names[m];
+    }
+    xs_section(s, "Month close (plan against actual of the runs with an actual)", cols, s->nm,
+               "Plan vs actual, Stock checks sheets");
+    xo_text(s->w, s->row, 0, "Month closed (no run still planned)", s->w->wrap);
+    for (int m = 0; m < s->nm; m++)
+        xo_text(s->w, s->row, (lxw_col_t)(1 + m), l->months[m].close.closed ? "yes" : "no", NULL);
+    xo_end_row(s->w, s->row++);
+    xs_month_row(s, "Runs done [count]", XK_INT, xs_m_done, 0, 0);
+    xs_month_row(s, "Runs cancelled [count]", XK_INT, xs_m_cancel, 0, 0);
+    xs_month_row(s, "Runs still planned [count]", XK_INT, xs_m_planned, 0, 0);
+    char item[96];
+    for (int g = 0; g < RG_CHARGEABLE; g++) {
+        snprintf(item, sizeof item, "%s drawn, plan [kg]", xo_item(g));
+        xs_month_row(s, item, XK_KG, xs_m_rplan, g, 1);
+        snprintf(item, sizeof item, "%s drawn, actual [kg]", xo_item(g));
+        xs_month_row(s, item, XK_KG, xs_m_ract, g, 1);
+    }
+    xs_month_row(s, "Wanted product, plan [kg]", XK_KG, xs_m_pplan, 0, 0);
+    xs_month_row(s, "Wanted product, actual [kg]", XK_KG, xs_m_pact, 0, 0);
+    xs_month_row(s, "NaOH consumed, as 100 %, plan [kg]", XK_KG, xs_m_nplan, 0, 0);
+    xs_month_row(s, "NaOH consumed, as 100 %, actual [kg]", XK_KG, xs_m_nact, 0, 0);
+    int flagged = 0;
+    for (int i = 0; i < l->nstock_checks; i++)
+        flagged += l->stock_checks[i].flagged;
+    for (int g = 0; g < RG_CHARGEABLE; g++) {
+        snprintf(item, sizeof item, "%s unexplained at stock counts [kg]", xo_item(g));
+        xs_month_row(s, item, XK_KG, xs_m_unexp, g, 1);
+    }
+    if (flagged)
+        xs_alarm(s, XA_ALARM, "Stock checks outside tolerance [count]", flagged,
+                 "CHECK: see Stock checks and Warnings");
+}
+
 /* Routes shown on the Summary; more are left to the Monthly yields sheet. */
 #define XS_ROUTES 5
 
@@ -1017,6 +1075,7 @@ static void xo_summary(struct xw *w)
     w->fixw[s.note] = 52;
     xs_identity(&s);
     xs_months(&s);
+    xs_close(&s);
     xs_yields(&s);
     xs_scrubbers(&s);
     xs_alarms(&s);
@@ -1434,6 +1493,8 @@ static void row_order(struct xw *w, struct xtable *b, lxw_row_t row, int i)
     xt_text(w, b, row, k++, xo_item(d->item));
     xt_num(w, b, row, k++, d->demand_kg);
     xt_num(w, b, row, k++, d->stock_start_kg);
+    xt_num(w, b, row, k++, d->received_kg);
+    xt_num(w, b, row, k++, d->on_order_kg);
     xt_num(w, b, row, k++, d->safety_kg);
     xt_num(w, b, row, k++, d->to_order_kg);
     xt_text(w, b, row, k++, d->container ? d->container : "(none defined)");
@@ -1463,6 +1524,8 @@ static void xo_orders(struct xw *w)
     /* no totals row: the lines mix reagents and caustic, whose sum means nothing */
     xt_col(&b, XK_KG, 0, "Demand [kg]");
     xt_col(&b, XK_KG, 0, "Stock at month start [kg]");
+    xt_col(&b, XK_KG, 0, "Received this month [kg]");
+    xt_col(&b, XK_KG, 0, "Placed orders due this month [kg]");
     xt_col(&b, XK_KG, 0, "Safety stock [kg]");
     xt_col(&b, XK_KG, 0, "To order [kg]");
     xt_col(&b, XK_TEXT, 0, "Container");
@@ -1476,6 +1539,145 @@ static void xo_orders(struct xw *w)
     xt_alarm(&b, XA_ALARM, "Late");
     xt_col(&b, XK_TEXT, 0, "Note");
     xo_table(w, "Orders", &b);
+}
+
+/* --- Plan vs actual, Stock checks (month close) ------------------------------ */
+
+static const char xo_close_note[] =
+    "Runs with an actual only; variance = actual - plan, blank where the actual gives no figure.";
+static const char xo_close_note2[] =
+    "A weighed draw drives the balance, the scrubber and the stock; a cancelled run draws nothing.";
+
+static void row_actual(struct xw *w, struct xtable *b, lxw_row_t row, int i)
+{
+    (void)i;
+    const struct ledger *l = w->l;
+    while (b->cur < l->nruns && l->runs[b->cur].actual.status == LEDGER_PLANNED)
+        b->cur++;
+    if (b->cur >= l->nruns)
+        return;
+    const struct ledger_run *r = &l->runs[b->cur++];
+    const struct ledger_actual *a = &r->actual;
+    const struct ledger_variance *v = &r->var;
+    int done = a->status == LEDGER_DONE, k = 0;
+    xt_text(w, b, row, k++, r->id);
+    xt_date(w, b, row, k++, r->start_min);
+    if (a->given & LEDGER_ACT_END)
+        xt_date(w, b, row, k, a->end_min);
+    k++;
+    xt_text(w, b, row, k++, done ? "done" : "cancelled");
+    xt_text(w, b, row, k++, xo_item(r->reagent));
+    xt_num(w, b, row, k++, v->reagent_kg_plan);
+    xt_num(w, b, row, k++, r->bal.reagent_kg); /* the book's draw: weighed, else the plan; cancelled 0 */
+    if (v->has_reagent) {
+        xt_num(w, b, row, k, v->reagent_kg);
+        xt_num(w, b, row, k + 1, v->reagent_pct);
+    }
+    k += 2;
+    xt_num(w, b, row, k++, v->product_kg_plan);
+    if (v->has_product) {
+        xt_num(w, b, row, k, a->product_kg);
+        xt_num(w, b, row, k + 1, v->product_kg);
+        if (v->product_kg_plan > 0)
+            xt_num(w, b, row, k + 2, v->product_pct);
+    }
+    k += 3;
+    xt_num(w, b, row, k++, v->yield_pct_plan);
+    if (v->has_product)
+        xt_num(w, b, row, k, v->yield_pct_actual);
+    k++;
+    xt_num(w, b, row, k++, v->naoh_kg_plan);
+    if (v->has_naoh) {
+        xt_num(w, b, row, k, a->naoh_kg);
+        xt_num(w, b, row, k + 1, v->naoh_kg);
+    }
+    k += 2;
+    xt_raise(w, b, row, k++, done && v->flagged, "OUTSIDE TOLERANCE");
+}
+
+static void xo_actuals(struct xw *w)
+{
+    const struct ledger *l = w->l;
+    int n = 0;
+    for (int i = 0; i < l->nruns; i++)
+        n += l->runs[i].actual.status != LEDGER_PLANNED;
+    struct xtable b = {.fn = row_actual, .nrows = n,
+                       .empty_note = "No run has an actual yet (campaign key runs[].actual)."};
+    static char tol[200];
+    snprintf(tol, sizeof tol, "Tolerances: reagent drawn %.4g %%, wanted product %.4g %% of the plan.",
+             l->tol_reagent_pct, l->tol_product_pct);
+    b.notes[b.nnotes++] = xo_close_note;
+    b.notes[b.nnotes++] = xo_close_note2;
+    b.notes[b.nnotes++] = tol;
+    xt_col(&b, XK_TEXT, 0, "Run");
+    xt_col(&b, XK_DATE, 0, "Start (plant time)");
+    xt_col(&b, XK_DATE, 0, "End, actual (plant time)");
+    xt_col(&b, XK_TEXT, 0, "Status");
+    xt_col(&b, XK_TEXT, 0, "Reagent");
+    /* no totals: the rows mix reagents */
+    xt_col(&b, XK_KG, 0, "Reagent plan [kg]");
+    xt_col(&b, XK_KG, 0, "Reagent drawn, booked [kg]");
+    xt_col(&b, XK_KG, 0, "Reagent variance [kg]");
+    xt_col(&b, XK_PCT1, 0, "Reagent variance [%% of plan]");
+    xt_col(&b, XK_KG, 0, "Wanted product plan [kg]");
+    xt_col(&b, XK_KG, 0, "Wanted product isolated, as 100 %% [kg]");
+    xt_col(&b, XK_KG, 0, "Wanted product variance [kg]");
+    xt_col(&b, XK_PCT1, 0, "Wanted product variance [%% of plan]");
+    xt_col(&b, XK_PCT1, 0, "Yield plan [mol %%]");
+    xt_col(&b, XK_PCT1, 0, "Yield actual [mol %%]");
+    xt_col(&b, XK_KG, 0, "NaOH consumed, as 100 %%, plan [kg]");
+    xt_col(&b, XK_KG, 0, "NaOH consumed, as 100 %%, titrated [kg]");
+    xt_col(&b, XK_KG, 0, "NaOH variance [kg]");
+    xt_alarm(&b, XA_ALARM, "Outside tolerance");
+    xo_table(w, "Plan vs actual", &b);
+}
+
+static void row_check(struct xw *w, struct xtable *b, lxw_row_t row, int i)
+{
+    const struct ledger_stock_check *c = &w->l->stock_checks[i];
+    int k = 0;
+    xt_text(w, b, row, k++, xo_item(c->reagent));
+    xt_date(w, b, row, k++, c->date_min);
+    if (c->has_since)
+        xt_date(w, b, row, k++, c->since_min);
+    else
+        xt_text(w, b, row, k++, "campaign start");
+    xt_num(w, b, row, k++, c->start_kg);
+    xt_num(w, b, row, k++, c->received_kg);
+    xt_num(w, b, row, k++, c->drawn_kg);
+    xt_num(w, b, row, k++, c->book_kg);
+    xt_num(w, b, row, k++, c->counted_kg);
+    xt_num(w, b, row, k++, c->unexplained_kg);
+    if (c->pct_defined)
+        xt_num(w, b, row, k, c->unexplained_pct);
+    k++;
+    int leak = c->flagged && c->unexplained_kg > 0 && (c->reagent == RG_CL2 || c->reagent == RG_HBR);
+    xt_raise(w, b, row, k++, c->flagged, leak ? "CHECK FOR LEAK" : "OUTSIDE TOLERANCE");
+}
+
+static void xo_checks(struct xw *w)
+{
+    const struct ledger *l = w->l;
+    struct xtable b = {.fn = row_check, .nrows = l->nstock_checks,
+                       .empty_note = "No stock count given (campaign key counts[])."};
+    static char tol[160];
+    snprintf(tol, sizeof tol, "Unexplained = book - counted (positive: missing); tolerance %.4g %% "
+             "of the draws since the last count.", l->tol_stock_pct);
+    b.notes[b.nnotes++] = "Book = previous count (first: stock on hand) + received - drawn by the runs since.";
+    b.notes[b.nnotes++] = tol;
+    b.notes[b.nnotes++] = "Toxic gas missing may have been released: check for leaks; see the SDS and local rules.";
+    xt_col(&b, XK_TEXT, 0, "Reagent");
+    xt_col(&b, XK_DATE, 0, "Count (plant time)");
+    xt_col(&b, XK_DATE, 0, "Book since (plant time)");
+    xt_col(&b, XK_KG, 0, "Stock at book start [kg]");
+    xt_col(&b, XK_KG, 0, "Received [kg]");
+    xt_col(&b, XK_KG, 0, "Drawn by runs [kg]");
+    xt_col(&b, XK_KG, 0, "Book stock [kg]");
+    xt_col(&b, XK_KG, 0, "Counted [kg]");
+    xt_col(&b, XK_KG, 0, "Unexplained [kg]");
+    xt_col(&b, XK_PCT1, 0, "Unexplained [%% of drawn]");
+    xt_alarm(&b, XA_ALARM, "Outside tolerance");
+    xo_table(w, "Stock checks", &b);
 }
 
 /* --- Waste by run, spent liquor ------------------------------------------- */
@@ -2016,6 +2218,8 @@ enum hl_status xlsx_out_write_opt(const struct ledger *l, const char *path, int 
     xo_hours(w);
     xo_column(w);
     xo_orders(w);
+    xo_actuals(w);
+    xo_checks(w);
     xo_waste(w);
     xo_spent(w);
     xo_monthly(w); /* and the Charts sheet */

@@ -159,6 +159,43 @@ def main():
             near(a["stock_end_kg"], 915 + 300 + 1000 - 1500, "April Cl2 stock carried out")
         near(o[("2027-03", "HBr")]["demand_kg"], 700, "HBr demand is the draw")
 
+        # the workbook carries the same hand figures (read back with openpyxl)
+        import openpyxl
+        xl = os.path.join(tmp, "close.xlsx")
+        p = subprocess.run(WRAP + [BIN, "report", SRC, "--today", "2027-03-31", "-o", xl],
+                           capture_output=True, text=True, timeout=120)
+        if T.check(p.returncode == 0, "workbook written"):
+            wb = openpyxl.load_workbook(xl)
+            ws = wb["Plan vs actual"]
+            h = {c.value: c.column for c in ws[1]}
+            rows = {ws.cell(r, 1).value: r for r in range(2, ws.max_row + 1)}
+            T.check(ws.freeze_panes == "B2", "Plan vs actual: header row and id column frozen")
+            T.check(set(["CL-1", "CL-2", "CL-3", "HB-1"]) <= set(rows) and "CL-4" not in rows,
+                    "Plan vs actual lists the runs with an actual: %r" % sorted(k for k in rows if k))
+            near(ws.cell(rows["CL-1"], h["Reagent variance [kg]"]).value, 40, "xlsx CL-1 reagent variance")
+            near(ws.cell(rows["HB-1"], h["Wanted product variance [% of plan]"]).value,
+                 100 * (700 - brom_plan) / brom_plan, "xlsx HB-1 product variance %")
+            near(ws.cell(rows["CL-3"], h["Reagent drawn, booked [kg]"]).value, 0, "xlsx CL-3 drew nothing")
+            T.check(str(ws.cell(rows["CL-1"], h["Outside tolerance"]).value).startswith("!!")
+                    and ws.cell(rows["CL-2"], h["Outside tolerance"]).value == "no",
+                    "xlsx flag marked in text (prints in black and white)")
+            ws = wb["Stock checks"]
+            h = {c.value: c.column for c in ws[1]}
+            near(ws.cell(2, h["Book stock [kg]"]).value, 1460, "xlsx first book")
+            near(ws.cell(2, h["Unexplained [kg]"]).value, 40, "xlsx 40 kg missing")
+            T.check(ws.cell(2, h["Outside tolerance"]).value == "!! CHECK FOR LEAK", "xlsx leak marker")
+            ws = wb["Orders"]
+            h = {c.value: c.column for c in ws[1]}
+            r = [r for r in range(2, ws.max_row + 1) if ws.cell(r, 1).value == "2027-04"]
+            T.check(len(r) == 1 and ws.cell(r[0], h["Placed orders due this month [kg]"]).value == 1000,
+                    "xlsx Orders shows the placed order")
+            ws = wb["Summary"]
+            lab = {ws.cell(r, 1).value: r for r in range(1, ws.max_row + 1)}
+            T.check("Cl2 unexplained at stock counts [kg]" in lab and
+                    ws.cell(lab["Cl2 unexplained at stock counts [kg]"], 2).value == 45,
+                    "Summary month close: unexplained Cl2")
+            near(ws.cell(lab.get("Cl2 drawn, actual [kg]", 1), 2).value, 1040, "Summary Cl2 drawn actual")
+
         # without the placed order the same line is late: 1500 + 200 - 915 = 785 kg, 2 drums of 500
         nopo = dict(camp)
         nopo["deliveries"] = [x for x in camp["deliveries"] if x["status"] != "ordered"]
