@@ -571,6 +571,11 @@ static enum hl_status apply_actual(const struct campaign *c, const struct ledger
     return HL_OK;
 }
 
+/* The inputs of run_assumptions that vary from run to run: a (sel, model, reagent) met
+ * before adds nothing to the list. */
+struct assumed { const void *sel, *model; int reagent; };
+#define ASSUMED_SLOTS 64
+
 static int by_start(const void *a, const void *b)
 {
     const struct camp_run *x = *(const struct camp_run *const *)a, *y = *(const struct camp_run *const *)b;
@@ -582,6 +587,8 @@ static int by_start(const void *a, const void *b)
 static enum hl_status balance_runs(const struct campaign *c, const struct ledger_opts *o,
                                    struct ledger *l, double min_frac, struct hl_err *e)
 {
+    struct assumed assumed[ASSUMED_SLOTS];
+    memset(assumed, 0, sizeof assumed);
     const struct camp_run **sorted = hl_malloc((size_t)(c->nruns ? c->nruns : 1) * sizeof *sorted);
     l->runs = hl_calloc((size_t)(c->nruns ? c->nruns : 1), sizeof *l->runs);
     int nsrc = 1;
@@ -648,7 +655,14 @@ static enum hl_status balance_runs(const struct campaign *c, const struct ledger
                 st = blame_run(c, r, e);
             if (!st) {
                 first[r->src_index] = i;
-                st = run_assumptions(l, &in, &lr->bal, e);
+                /* the same prediction under the same model lists the same values again,
+                 * which assume() would find listed: skip the scan (a few dozen strcmp) */
+                struct assumed *m = &assumed[((uintptr_t)lr->bal.sel / 64u) % ASSUMED_SLOTS];
+                if (m->sel != lr->bal.sel || m->model != r->model || m->reagent != r->reagent) {
+                    st = run_assumptions(l, &in, &lr->bal, e);
+                    if (!st)
+                        *m = (struct assumed){lr->bal.sel, r->model, r->reagent};
+                }
             }
             if (!st)
                 st = warn_defaults(l, r, &lr->bal, e);
