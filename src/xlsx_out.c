@@ -1680,6 +1680,78 @@ static void xo_checks(struct xw *w)
     xo_table(w, "Stock checks", &b);
 }
 
+/* --- Reaction heat (thermal screening, one row per run) ------------------- */
+
+static void row_heat(struct xw *w, struct xtable *b, lxw_row_t row, int i)
+{
+    const struct ledger_run *r = &w->l->runs[i];
+    const struct therm_out *t = &r->therm;
+    int k = 0;
+    xt_text(w, b, row, k++, r->id);
+    xt_date(w, b, row, k++, r->start_min);
+    xt_text(w, b, row, k++, xo_item(r->reagent));
+    xt_text(w, b, row, k++, r->substrate_name);
+    xt_num(w, b, row, k++, t->dh_kj_mol);
+    xt_num(w, b, row, k++, t->heat_kj);
+    xt_num(w, b, row, k++, t->mean_kw);
+    xt_num(w, b, row, k++, t->peak_kw);
+    xt_num(w, b, row, k++, r->therm_mass_kg);
+    xt_num(w, b, row, k++, r->therm_cp_kj_kg_k);
+    xt_num(w, b, row, k++, r->therm_accumulation);
+    xt_num(w, b, row, k++, t->delta_t_ad_k);
+    xt_num(w, b, row, k++, r->temp_c);
+    xt_num(w, b, row, k++, t->mtsr_c);
+    if (r->has_mtt)
+        xt_num(w, b, row, k, r->mtt_c);
+    k++;
+    if (r->has_td24)
+        xt_num(w, b, row, k, r->td24_c);
+    k++;
+    if (t->crit_class > 0)
+        xt_num(w, b, row, k, t->crit_class);
+    k++;
+    xt_raise(w, b, row, k++, t->mtsr_over_mtt || t->mtsr_over_td24,
+             t->mtsr_over_td24 ? "REACHES TD24" : "REACHES MTT");
+    xt_text(w, b, row, k++, t->reason);
+    if (r->has_withdrawal) {
+        xt_text(w, b, row, k++, r->withdrawal_container);
+        xt_num(w, b, row, k++, r->withdrawal.kg_h);
+        xt_num(w, b, row, k++, r->withdrawal.containers_on_line);
+        xt_raise(w, b, row, k++, r->withdrawal.evaporator_needed, "EVAPORATOR");
+    } else {
+        xt_text(w, b, row, k, "not drawn as gas");
+    }
+}
+
+static void xo_heat(struct xw *w)
+{
+    struct xtable b = {.fn = row_heat, .nrows = w->l->nruns, .empty_note = "No runs."};
+    xt_col(&b, XK_TEXT, 0, "Run");
+    xt_col(&b, XK_DATE, 0, "Start (plant time)");
+    xt_col(&b, XK_TEXT, 0, "Reagent");
+    xt_col(&b, XK_TEXT, 0, "Substrate");
+    xt_col(&b, XK_KG, 0, "Heat of one step, mean [kJ/mol] (negative: released)");
+    xt_col(&b, XK_HEAT, 0, "Reaction heat released [kJ]"); /* runs do not share a mass: no total */
+    xt_col(&b, XK_KW, 0, "Mean heat release over feed [kW]");
+    xt_col(&b, XK_KW, 0, "Peak heat release [kW]");
+    xt_col(&b, XK_KG, 0, "Reaction mass [kg]");
+    xt_col(&b, XK_MOL, 0, "Heat capacity [kJ/(kg K)]");
+    xt_col(&b, XK_FRAC, 0, "Accumulation (dimensionless)");
+    xt_col(&b, XK_TEMP, 0, "Adiabatic temperature rise [K]");
+    xt_col(&b, XK_TEMP, 0, "Process temperature [°C]");
+    xt_col(&b, XK_TEMP, 0, "MTSR [°C]");
+    xt_col(&b, XK_TEMP, 0, "MTT [°C]");
+    xt_col(&b, XK_TEMP, 0, "TD24 [°C]");
+    xt_col(&b, XK_INT, 0, "Criticality class (Stoessel 1-5)");
+    xt_alarm(&b, XA_ALARM, "MTSR reaches MTT or TD24");
+    xt_col(&b, XK_TEXT, 0, "Class reasoning (screening estimate: calorimetry and a process-safety study decide)");
+    xt_col(&b, XK_TEXT, 0, "Gas container");
+    xt_col(&b, XK_KG, 0, "Gas demand at peak [kg/h]");
+    xt_col(&b, XK_INT, 0, "Containers on line [count]");
+    xt_alarm(&b, XA_ALARM, "Evaporator needed");
+    xo_table(w, "Reaction heat", &b);
+}
+
 /* --- Waste by run, spent liquor ------------------------------------------- */
 
 static void row_waste_run(struct xw *w, struct xtable *b, lxw_row_t row, int i)
@@ -2222,6 +2294,7 @@ enum hl_status xlsx_out_write_opt(const struct ledger *l, const char *path, int 
     xo_checks(w);
     xo_waste(w);
     xo_spent(w);
+    xo_heat(w);
     xo_monthly(w); /* and the Charts sheet */
     xo_warnings(w);
     xo_cautions(w);

@@ -56,7 +56,7 @@ from openpyxl.utils import column_index_from_string, get_column_letter
 T0 = time.time()
 ROOT = os.environ.get("HL_ROOT", os.path.dirname(os.path.dirname(os.path.dirname(os.path.abspath(__file__)))))
 SHEETS = ["Summary", "Runs", "Products", "Liquor by run", "Scrubber units", "Hourly load", "Column check",
-          "Orders", "Plan vs actual", "Stock checks", "Waste by run", "Spent liquor", "Monthly", "Monthly yields", "Charts", "Warnings", "Cautions", "Assumptions"]
+          "Orders", "Plan vs actual", "Stock checks", "Waste by run", "Spent liquor", "Reaction heat", "Monthly", "Monthly yields", "Charts", "Warnings", "Cautions", "Assumptions"]
 # a total column must name one thing (its header starts with one of these) or count something
 TOTAL_OK = ("HCl ", "HBr ", "Cl2 ", "Br2 ", "SO2 ", "SO2Cl2 ", "NBS ", "Succinimide", "NaOH ", "Heat to liquor",
             "Liquor [kg]", "Water [kg]", "NaCl ", "NaBr ", "NaOCl ", "NaOBr ", "Na2SO3 ", "Na2SO4 ",

@@ -90,6 +90,22 @@ with tempfile.TemporaryDirectory() as d:
     p = subprocess.run(WRAP + [BIN, "report", camp, "-o", out, "--strict"], capture_output=True, text=True)
     T.check(p.returncode == 3, f"report --strict exit {p.returncode} (3: warnings): {p.stderr[-400:]}")
     L = json.load(open(out)) if os.path.exists(out) else {"runs": [], "warnings": []}
+    book = os.path.join(d, "thermal.xlsx")
+    p = subprocess.run(WRAP + [BIN, "report", camp, "-o", book], capture_output=True, text=True)
+    T.check(p.returncode == 0, f"report xlsx exit {p.returncode}: {p.stderr[-300:]}")
+    import openpyxl
+    wb = openpyxl.load_workbook(book) if p.returncode == 0 else None
+    ws = wb["Reaction heat"] if wb is not None and "Reaction heat" in wb.sheetnames else None
+    T.check(ws is not None, "workbook has a Reaction heat sheet")
+    sheet = {}
+    if ws is not None:
+        head = [c.value for c in ws[1]]
+        for row in ws.iter_rows(min_row=2, values_only=True):
+            if row[0] in ("M3", "M4", "K1", "K2", "K3", "K4", "K5", "H", "B"):
+                sheet[row[0]] = dict(zip(head, row))
+        T.check(ws.freeze_panes == "B2", f"Reaction heat: header row and id column frozen ({ws.freeze_panes})")
+        T.check(ws.page_setup.orientation == "landscape" and ws.print_title_rows == "$1:$1",
+                f"Reaction heat print setup: {ws.page_setup.orientation} {ws.print_title_rows}")
 
 runs = {r["id"]: r for r in L["runs"]}
 T.check(set(runs) == {"M3", "M4", "K1", "K2", "K3", "K4", "K5", "H", "B"}, f"runs {sorted(runs)}")
@@ -137,6 +153,21 @@ for k, (mtt, td24, cls) in CLASSES.items():
     T.check(warned == (cls >= 3), f"{k} (class {cls}) MTSR warning {warned}: {msgs.get(k)}")
     if warned:
         T.check(any("qualified" in x for x in msgs.get(k, [])), f"{k}: the warning defers to a study")
+
+# the sheet shows the same figures as the JSON ledger, and the hand values
+x = sheet.get("M3", {})
+near(x.get("Reaction heat released [kJ]"), HEAT, 3.0 * MOL_CL2, "sheet M3 heat")
+near(x.get("MTSR [°C]"), MTSR, 0.5 * 3.0 * MOL_CL2 / 1000, "sheet M3 MTSR")
+T.check(x.get("Criticality class (Stoessel 1-5)") is None, f"sheet M3 unclassed: {x.get('Criticality class (Stoessel 1-5)')!r}")
+T.check(x.get("Containers on line [count]") == 3 and x.get("Evaporator needed") == "no", f"sheet M3 withdrawal {x}")
+x = sheet.get("M4", {})
+T.check(x.get("Containers on line [count]") == 4 and x.get("Evaporator needed") == "!! EVAPORATOR", f"sheet M4 {x}")
+for k, (mtt, td24, cls) in CLASSES.items():
+    x = sheet.get(k, {})
+    T.check(x.get("Criticality class (Stoessel 1-5)") == cls, f"sheet {k} class {x.get('Criticality class (Stoessel 1-5)')!r}")
+    T.check(x.get("MTT [°C]") == mtt and x.get("TD24 [°C]") == td24, f"sheet {k} MTT/TD24 {x.get('MTT [°C]')} {x.get('TD24 [°C]')}")
+    T.check((x.get("MTSR reaches MTT or TD24") or "").startswith("!!") == (cls >= 3), f"sheet {k} alarm {x.get('MTSR reaches MTT or TD24')!r}")
+T.check(sheet.get("B", {}).get("Gas container") == "not drawn as gas", f"sheet B {sheet.get('B')}")
 
 for f in T.fails:
     print("FAIL:", f)

@@ -37,10 +37,10 @@ BUILD = os.environ.get("BUILD", "build")
 TOOL = os.path.join(ROOT, BUILD, "tool_writers")
 WRAP = os.environ.get("HL_WRAP", "").split()
 SHEETS = ["Summary", "Runs", "Products", "Liquor by run", "Scrubber units", "Hourly load",
-          "Column check", "Orders", "Plan vs actual", "Stock checks", "Waste by run", "Spent liquor", "Monthly", "Monthly yields", "Charts",
+          "Column check", "Orders", "Plan vs actual", "Stock checks", "Waste by run", "Spent liquor", "Reaction heat", "Monthly", "Monthly yields", "Charts",
           "Warnings", "Cautions", "Assumptions"]
 TABLE_SHEETS = ["Runs", "Products", "Liquor by run", "Scrubber units", "Hourly load",
-                "Column check", "Orders", "Waste by run", "Spent liquor", "Monthly"]
+                "Column check", "Orders", "Waste by run", "Spent liquor", "Reaction heat", "Monthly"]
 UNIT = re.compile(r"\[[^\]]+\]")
 checks = 0
 failures = []
