@@ -260,6 +260,46 @@ static void alloc_failures(void)
     CU_ASSERT_EQUAL(fails, 2); /* the sort buffer and the lines */
 }
 
+static void supplies(void)
+{
+    /* 450 kg on hand, 300 kg safety, 10 days lead; demand 500 kg in March, 1500 kg in April.
+     * A delivery received 2027-02-15 (no February line) is carried into March's stock:
+     * 450 + 100 = 550.  A placed order of 400 kg due 2027-03-20 counts in March:
+     * 500 + 300 - 550 - 400 = -150, nothing to order, so not late on 2027-03-01 although the
+     * order-by date 2027-02-28 has passed; March ends at 550 + 400 - 500 = 450.  April:
+     * 1500 + 300 - 450 - 898 (received 2027-04-05) = 452 -> 1 ton container of 898 usable;
+     * end 450 + 898 + 898 - 1500 = 746. */
+    struct ord_demand d[2] = {{RG_CL2, t("2027-03-10T06:00"), 500}, {RG_CL2, t("2027-04-08T06:00"), 1500}};
+    struct ord_stock s = {RG_CL2, 450, 300, 10};
+    struct ord_supply sup[3] = {{RG_CL2, t("2027-04-05"), 898, 1}, {RG_CL2, t("2027-03-20"), 400, 0},
+                                {RG_CL2, t("2027-02-15"), 100, 1}};
+    struct ord_line *o;
+    int n;
+    struct hl_err e;
+    hl_err_clear(&e);
+    CU_ASSERT_EQUAL(ord_plan_supply(d, 2, &s, 1, &ton, 1, sup, 3, t("2027-03-01"), &o, &n, &e), HL_OK);
+    CU_ASSERT_EQUAL(n, 2);
+    if (n != 2)
+        return;
+    ASSERT_ABS(o[0].stock_start_kg, 550, 1e-9);
+    ASSERT_ABS(o[0].on_order_kg, 400, 0);
+    ASSERT_ABS(o[0].received_kg, 0, 0);
+    ASSERT_ABS(o[0].to_order_kg, 0, 0);
+    CU_ASSERT_EQUAL(o[0].late, 0);
+    ASSERT_ABS(o[0].stock_end_kg, 450, 1e-9);
+    ASSERT_ABS(o[1].stock_start_kg, 450, 1e-9);
+    ASSERT_ABS(o[1].received_kg, 898, 0);
+    ASSERT_ABS(o[1].to_order_kg, 452, 1e-9);
+    CU_ASSERT_EQUAL(o[1].containers, 1);
+    ASSERT_ABS(o[1].stock_end_kg, 746, 1e-9);
+    hl_free(o);
+    /* without the placed order March is short (500 + 300 - 550 = 250) and late */
+    CU_ASSERT_EQUAL(ord_plan_supply(d, 2, &s, 1, &ton, 1, sup, 1, t("2027-03-01"), &o, &n, &e), HL_OK);
+    ASSERT_ABS(o[0].to_order_kg, 350, 1e-9); /* the February delivery is left out too: 500 + 300 - 450 */
+    CU_ASSERT_EQUAL(o[0].late, 1);
+    hl_free(o);
+}
+
 int main(void)
 {
     static const struct cu_case cases[] = {
@@ -271,6 +311,7 @@ int main(void)
         {"container choice", container_choice},
         {"sorting and months", sorting_and_months},
         {"bad inputs", bad_inputs},
-        {"allocation failures", alloc_failures}};
+        {"allocation failures", alloc_failures},
+        {"placed and received deliveries", supplies}};
     return CU_RUN_ALL("orders", cases);
 }
