@@ -314,6 +314,13 @@ enum hl_status camp_parse_opts(const char *text, size_t len, const char *path, c
  * schedule row "column substrate_smiles". */
 void camp_run_field(const struct camp_run *r, const char *path, char *buf, size_t n);
 
+/* Set key of run i (0-based in c->runs) to value, given as text ("1.2", "cstr"), checked
+ * with the ranges and messages of the file (e->field = key, no position): reagent_eq (the
+ * amount is then in equivalents), temp_c, halogen_conversion, feed_h, reactor_mode,
+ * overhalogenation_factor (the run's model).  For what-if sweeps. */
+enum hl_status camp_run_set(struct campaign *c, int i, const char *key, const char *value,
+                            struct hl_err *e);
+
 /* File column (1-based) of decoded byte k (1-based) of a string read by the campaign
  * reader: escapes before it count with their raw length; a byte inside an escape maps
  * to its backslash. k <= 0 gives the opening quote. The line is always p->pos.line. */

@@ -21,6 +21,7 @@
 #include <math.h>
 #include <stdarg.h>
 #include <stdio.h>
+#include <stdlib.h>
 #include <string.h>
 
 #include "hlmem.h"
@@ -1118,6 +1119,9 @@ enum { RR_PRIMARY, RR_SECONDARY, RR_TERTIARY, RR_ALLYLIC, RR_BENZYLIC, RR_REF, R
 static const char *const rr_keys[RR_N] = {"primary", "secondary", "tertiary", "allylic", "benzylic",
                                           "ref_temp_c"};
 
+static const struct rng R_OVERHAL = {1e-3, 1000, 0, 0,
+    "a step 1000 times slower per added halogen is already no over-halogenation", NULL};
+
 static enum hl_status parse_model(struct vctx *c, const cJSON *m, struct camp_model *out)
 {
     const cJSON *k[MK_N];
@@ -1145,9 +1149,7 @@ static enum hl_status parse_model(struct vctx *c, const cJSON *m, struct camp_mo
         pop(c, o2);
     }
     if (k[MK_OVERHAL]) {
-        struct rng r = {1e-3, 1000, 0, 0,
-            "a step 1000 times slower per added halogen is already no over-halogenation", NULL};
-        if ((st = get_num(c, k[MK_OVERHAL], r, &out->overhalogenation_factor)))
+        if ((st = get_num(c, k[MK_OVERHAL], R_OVERHAL, &out->overhalogenation_factor)))
             return st;
         out->set_mask |= CM_OVERHAL;
     }
@@ -1675,6 +1677,14 @@ static enum hl_status parse_run_thermal(struct vctx *c, const cJSON *const *k, s
     return HL_OK;
 }
 
+/* Floors: a millionth of an equivalent charged or converted is below what any analysis
+ * sees (common practice); start times are kept to the minute, so a feed shorter than a
+ * minute has no time of its own (and 1e-308 h made the vent rate infinite). */
+static const struct rng req = {1e-6, 1000, 0, 0, "below a millionth of an equivalent nothing is charged", NULL},
+                 rconv = {1e-6, 1, 0, 0, "below a millionth nothing measurable reacts", NULL},
+                 rfeed = {1.0 / 60.0, 8760, 0, 0, "start times are kept to the minute", "1/60 (one minute)"},
+                 rpeak = {1, 1000, 0, 0, NULL, NULL}, rvent = {0, 1, 0, 1, NULL, NULL};
+
 static enum hl_status parse_run(struct reader *rd, const cJSON *o, int idx, struct camp_run *r,
                                 long *count, double *every_days)
 {
@@ -1757,13 +1767,6 @@ static enum hl_status parse_run(struct reader *rd, const cJSON *o, int idx, stru
         push_key(c, later->string);
         return verr(c, later, 1, "give reagent_eq or reagent_kg, not both");
     }
-    /* Floors: a millionth of an equivalent charged or converted is below what any analysis
-     * sees (common practice); start times are kept to the minute, so a feed shorter than a
-     * minute has no time of its own (and 1e-308 h made the vent rate infinite). */
-    const struct rng req = {1e-6, 1000, 0, 0, "below a millionth of an equivalent nothing is charged", NULL},
-                     rconv = {1e-6, 1, 0, 0, "below a millionth nothing measurable reacts", NULL},
-                     rfeed = {1.0 / 60.0, 8760, 0, 0, "start times are kept to the minute", "1/60 (one minute)"},
-                     rpeak = {1, 1000, 0, 0, NULL, NULL}, rvent = {0, 1, 0, 1, NULL, NULL};
     if (k[RK_EQ]) {
         if ((st = get_num(c, k[RK_EQ], req, &r->reagent_eq)))
             return st;
@@ -2841,4 +2844,85 @@ void camp_free(struct campaign *c)
     hl_free(c->site);
     hl_free(c->file);
     hl_free(c);
+}
+
+/* One value of run i set as the file would set it: the same ranges and the same messages. */
+enum hl_status camp_run_set(struct campaign *cp, int i, const char *key, const char *value,
+                            struct hl_err *e)
+{
+    hl_err_clear(e);
+    struct camp_run *r = &cp->runs[i];
+    struct vpos v = {0, 0, 0, 0, 0};
+    struct doc d;
+    memset(&d, 0, sizeof d);
+    d.v = &v;
+    d.nv = 1;
+    d.run_vi = (size_t)-1;
+    struct vctx c;
+    memset(&c, 0, sizeof c);
+    c.d = &d;
+    c.text = value;
+    c.prefix = "";
+    c.e = e;
+    c.csv = 1;
+    cJSON node;
+    memset(&node, 0, sizeof node);
+    node.string = (char *)key;
+    node.valueint = 0;
+    if (!strcmp(key, "reactor_mode")) {
+        node.type = cJSON_String;
+        node.valuestring = (char *)value;
+        int mode = 0;
+        enum hl_status st = get_enum(&c, &node, mode_names, 2, &mode);
+        if (!st)
+            r->mode = mode ? CAMP_CSTR : CAMP_BATCH;
+        return st;
+    }
+    static const struct { const char *key; const struct rng *r; } num[] = {
+        {"reagent_eq", &req}, {"temp_c", &R_TEMP_C}, {"halogen_conversion", &rconv},
+        {"feed_h", &rfeed}, {"overhalogenation_factor", &R_OVERHAL}};
+    size_t k = 0;
+    while (k < sizeof num / sizeof num[0] && strcmp(num[k].key, key))
+        k++;
+    if (k == sizeof num / sizeof num[0])
+        return hl_err_at(e, HL_ERR_INPUT, 0, 0, key, "cannot be varied (reagent_eq, temp_c, "
+                         "halogen_conversion, feed_h, reactor_mode, overhalogenation_factor)");
+    char *end;
+    double x = strtod(value, &end);
+    if (!value[0] || *end || !strchr("+-.0123456789", value[0])) {
+        node.type = cJSON_String;
+        node.valuestring = (char *)value;
+    } else {
+        node.type = cJSON_Number;
+        node.valuedouble = x;
+    }
+    enum hl_status st = get_num(&c, &node, *num[k].r, &x);
+    if (st)
+        return st;
+    switch (k) {
+    case 0: r->reagent_eq = x; r->amount_is_kg = 0; break;
+    case 1: r->temp_c = x; r->defaulted &= ~CAMP_DEFAULT_TEMP; break;
+    case 2: r->halogen_conversion = x; break;
+    case 3:
+        if (r->start_min + (int64_t)ceil(x * 60.0) > ISODATE_MAX_MIN)
+            return hl_err_at(e, HL_ERR_INPUT, 0, 0, key, "the feed would end after 9999-12-31");
+        r->feed_h = x;
+        r->defaulted &= ~CAMP_DEFAULT_FEED_H;
+        break;
+    default:
+        if (!r->own_model) {
+            /* the campaign's block is shared by every run without one: this run gets a copy */
+            struct camp_model *m = hl_calloc(1, sizeof *m);
+            if (!m)
+                return hl_err_set(e, HL_ERR_NOMEM, "out of memory");
+            if (r->model)
+                *m = *r->model;
+            r->model = m;
+            r->own_model = 1;
+        }
+        r->model->overhalogenation_factor = x;
+        r->model->set_mask |= CM_OVERHAL;
+        break;
+    }
+    return HL_OK;
 }

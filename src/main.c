@@ -17,6 +17,7 @@
 #include "ledger.h"
 #include "reagents.h"
 #include "sched.h"
+#include "sweep.h"
 #include "xlsx_out.h"
 
 #include <cjson/cJSON.h>
@@ -47,6 +48,8 @@ static const char usage_text[] =
     "                        [--schedule FILE.csv ...] [--csv-sep SEP]\n"
     "       haloledger report CAMPAIGN -o OUT.xlsx|OUT.json [-o ...] [--today DATE]\n"
     "                         [--strict] [--catalog FILE] [--all-products]\n"
+    "       haloledger sweep CAMPAIGN --run ID --vary KEY=FROM:TO:STEP|KEY=V1,V2,...\n"
+    "                        [--objective max:KEY|min:KEY] [-o OUT.json|OUT.xlsx]\n"
     "       haloledger schedule-template [--example] [-o FILE.csv]\n"
     "       haloledger --help | --version\n"
     "\n"
@@ -60,6 +63,11 @@ static const char usage_text[] =
     "  report    as check, then write the ledger: .xlsx workbook and/or .json ledger;\n"
     "            prints the same summary as check once every file is written, then\n"
     "            one 'wrote FILE' line per output\n"
+    "  sweep     recompute one run for each value of KEY (reagent_eq, temp_c,\n"
+    "            halogen_conversion, feed_h, reactor_mode, overhalogenation_factor):\n"
+    "            a table of its products, acid gas, NaOH, containers and scrubber peak,\n"
+    "            the best value by --objective (default max:wanted_kg_per_kg_reagent)\n"
+    "            and the trade-off in words; -o writes it as JSON or a workbook\n"
     "  schedule-template  a CSV header of every run column (with --example, three\n"
     "            filled rows of an invented plant) to FILE.csv or standard output\n"
     "\n"
@@ -484,6 +492,50 @@ static int schedule_template(int argc, char **argv, const char *const *outputs, 
     return EXIT_OK;
 }
 
+/* haloledger sweep: the table on standard output, and each -o file. */
+static int do_sweep(struct campaign *c, const struct ledger_opts *lo, const char *run_id,
+                    const char *vary, const char *objective, const char *const *outputs, int nout)
+{
+    const char *eq = strchr(vary, '=');
+    if (!eq || eq == vary)
+        return usage_error("--vary: '%s' is not KEY=FROM:TO:STEP", vary);
+    char key[64];
+    snprintf(key, sizeof key, "%.*s", (int)(eq - vary) < 63 ? (int)(eq - vary) : 63, vary);
+    struct hl_err e;
+    hl_err_clear(&e);
+    char **values = NULL;
+    int nv = 0;
+    enum hl_status st = sweep_values(eq + 1, &values, &nv, &e);
+    struct sweep *s = NULL;
+    if (!st)
+        st = sweep_run(c, lo, run_id, key, values, nv, objective, &s, &e);
+    for (int i = 0; i < nv; i++)
+        hl_free(values[i]);
+    hl_free(values);
+    if (st) {
+        if (e.line > 0 || e.file[0])
+            print_err(err_file(&e, c->file, NULL), &e);
+        else if (e.field[0])
+            fprintf(stderr, "haloledger: --vary %s: %s\n", e.field, e.msg);
+        else
+            fprintf(stderr, "haloledger: %s\n", e.msg);
+        return exit_for(st);
+    }
+    for (int i = 0; i < nout && !st; i++)
+        st = has_ext(outputs[i], ".xlsx") ? sweep_write_xlsx(s, outputs[i], &e)
+                                          : sweep_write_json(s, outputs[i], &e);
+    if (st) {
+        fprintf(stderr, "haloledger: %s\n", e.msg);
+        sweep_free(s);
+        return exit_for(st);
+    }
+    sweep_print(s, stdout);
+    for (int i = 0; i < nout; i++)
+        printf("wrote %s\n", outputs[i]);
+    sweep_free(s);
+    return EXIT_OK;
+}
+
 static int run(int argc, char **argv)
 {
     static const struct option opts[] = {
@@ -493,10 +545,13 @@ static int run(int argc, char **argv)
         {"all-products", no_argument, NULL, 'a'},
         {"schedule", required_argument, NULL, 'S'}, {"csv-sep", required_argument, NULL, 'p'},
         {"example", no_argument, NULL, 'x'},
+        {"run", required_argument, NULL, 'r'}, {"vary", required_argument, NULL, 'v'},
+        {"objective", required_argument, NULL, 'j'},
         {NULL, 0, NULL, 0}};
     const char *schedules[MAX_SCHEDULES];
     int nsched = 0, example = 0;
     char csv_sep = 0;
+    const char *sweep_run_id = NULL, *vary = NULL, *objective = NULL;
     const char *outputs[MAX_OUTPUTS];
     int nout = 0, strict = 0, all_products = 0, ch;
     const char *catalog_path = NULL, *today_text = NULL;
@@ -528,6 +583,9 @@ static int run(int argc, char **argv)
                 return usage_error("--csv-sep: '%s' is not ',' ';' or 'tab'", optarg);
             break;
         case 'x': example = 1; break;
+        case 'r': sweep_run_id = optarg; break;
+        case 'v': vary = optarg; break;
+        case 'j': objective = optarg; break;
         case 'h': fputs(usage_text, stdout); return EXIT_OK;
         case 'V':
             printf("haloledger %s (libxlsxwriter %s, cJSON %s)\n", HALOLEDGER_VERSION, LXW_VERSION,
@@ -542,17 +600,23 @@ static int run(int argc, char **argv)
     const char *cmd = argv[optind++];
     if (!strcmp(cmd, "schedule-template"))
         return schedule_template(argc, argv, outputs, nout, example);
-    int report = !strcmp(cmd, "report");
-    if (!report && strcmp(cmd, "check"))
-        return usage_error("unknown command '%s' (expected check, report or schedule-template)", cmd);
+    int report = !strcmp(cmd, "report"), sweep = !strcmp(cmd, "sweep");
+    if (sweep) {
+        if (!sweep_run_id || !vary)
+            return usage_error("%s", "sweep needs --run ID and --vary KEY=FROM:TO:STEP");
+        report = nout > 0;
+    } else if (sweep_run_id || vary || objective)
+        return usage_error("%s", "--run, --vary and --objective belong to sweep");
+    if (!report && !sweep && strcmp(cmd, "check"))
+        return usage_error("unknown command '%s' (expected check, report, sweep or schedule-template)", cmd);
     if (optind >= argc)
         return usage_error("%s: missing CAMPAIGN file", cmd);
     const char *campaign_path = argv[optind++];
     if (optind < argc)
         return usage_error("unexpected argument '%s'", argv[optind]);
-    if (report && nout == 0)
+    if (report && nout == 0 && !sweep)
         return usage_error("%s", "report needs -o OUT.xlsx or -o OUT.json");
-    if (!report && nout > 0)
+    if (!report && !sweep && nout > 0)
         return usage_error("%s", "check writes nothing; use report -o");
     for (int i = 0; i < nout; i++)
         if (!has_ext(outputs[i], ".xlsx") && !has_ext(outputs[i], ".json"))
@@ -588,6 +652,11 @@ static int run(int argc, char **argv)
     if (st) {
         print_err(err_file(&e, campaign_path, catalog_path), &e);
         return exit_for(st);
+    }
+    if (sweep) {
+        rc = do_sweep(c, &lo, sweep_run_id, vary, objective, outputs, nout);
+        camp_free(c);
+        return rc;
     }
     struct ledger *l = NULL;
     st = ledger_build_consuming(c, &lo, &l, &e); /* the runs are freed once balanced */
