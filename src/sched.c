@@ -57,6 +57,12 @@ static const struct col { const char *name, *path; enum kind kind; } cols[] = {
     {"model_relative_reactivity_benzylic", "model.relative_reactivity.benzylic", K_NUM},
     {"model_relative_reactivity_ref_temp_c", "model.relative_reactivity.ref_temp_c", K_NUM},
     {"note", "note", K_TEXT},
+    /* the thermal check of the run (thermal.h) */
+    {"solvent_kg", "solvent_kg", K_NUM},
+    {"mass_cp_kj_kg_k", "mass_cp_kj_kg_k", K_NUM},
+    {"accumulation", "accumulation", K_NUM},
+    {"mtt_c", "mtt_c", K_NUM},
+    {"td24_c", "td24_c", K_NUM},
     /* what happened (runs[].actual, closing the month) */
     {"actual_status", "actual.status", K_TEXT},
     {"actual_reagent_kg", "actual.reagent_kg", K_NUM},
@@ -575,9 +581,9 @@ enum hl_status sched_load(const char *path, char sep, sched_row_fn fn, void *dat
  * bromination by formula on a date only, one repeated NBS run. */
 static const char example_rows[] =
     "EX-1,2027-03-02 06:00,R-3,VS-1,2-methylpropane,CC(C)C,,,800,Cl2,0.6,,0.97,40,5,,,batch,,,,,,,,,,"
-    "\"first run, after the column wash\",done,590,,,2027-03-02 12:30,\r\n"
-    "EX-2,2027-03-04,R-4,VS-1,toluene,,C7H8,,500,Br2,,700,,80,6,,,,,,,,,,,,,,,,,,,\r\n"
-    "EX-3,2027-03-05T08:00,R-3,VS-1,cyclohexene,C1CCCC=C1,,,300,NBS,1.05,,,77,3,,,,3,2,,,,,,,,,,,,,,\r\n";
+    "\"first run, after the column wash\",,,,,,done,590,,,2027-03-02 12:30,\r\n"
+    "EX-2,2027-03-04,R-4,VS-1,toluene,,C7H8,,500,Br2,,700,,80,6,,,,,,,,,,,,,,,,,,,,,,,,\r\n"
+    "EX-3,2027-03-05T08:00,R-3,VS-1,cyclohexene,C1CCCC=C1,,,300,NBS,1.05,,,77,3,,,,3,2,,,,,,,,,,,,,,,,,,,\r\n";
 
 enum hl_status sched_template(int example, char **out, struct hl_err *e)
 {

@@ -28,6 +28,7 @@ COLUMNS = ["id", "start", "reactor", "scrubber", "substrate_name", "substrate_sm
            "substrate_formula", "product_smiles", "substrate_kg", "reagent", "reagent_eq",
            "reagent_kg", "halogen_conversion", "temp_c", "feed_h", "peak_factor",
            "vent_retained_fraction", "reactor_mode", "repeat_count", "repeat_every_days", "note",
+           "solvent_kg", "mass_cp_kj_kg_k", "accumulation", "mtt_c", "td24_c",
            "actual_status", "actual_reagent_kg", "actual_product_kg", "actual_naoh_kg", "actual_end",
            "actual_note"]
 
