@@ -18,6 +18,7 @@
 #include "reagents.h"
 #include "sched.h"
 #include "sweep.h"
+#include "compare.h"
 #include "xlsx_out.h"
 
 #include <cjson/cJSON.h>
@@ -50,6 +51,7 @@ static const char usage_text[] =
     "                         [--strict] [--catalog FILE] [--all-products]\n"
     "       haloledger sweep CAMPAIGN --run ID --vary KEY=FROM:TO:STEP|KEY=V1,V2,...\n"
     "                        [--objective max:KEY|min:KEY] [-o OUT.json|OUT.xlsx]\n"
+    "       haloledger compare A B [-o OUT.json]   (campaigns or JSON ledgers)\n"
     "       haloledger schedule-template [--example] [-o FILE.csv]\n"
     "       haloledger --help | --version\n"
     "\n"
@@ -68,6 +70,9 @@ static const char usage_text[] =
     "            a table of its products, acid gas, NaOH, containers and scrubber peak,\n"
     "            the best value by --objective (default max:wanted_kg_per_kg_reagent)\n"
     "            and the trade-off in words; -o writes it as JSON or a workbook\n"
+    "  compare   what differs between A and B (two campaigns or JSON ledgers): charged\n"
+    "            per month and reagent, orders, scrubbers (peak, changeouts, NaOH, hottest\n"
+    "            liquor, overload), runs in both or one, warnings that appear or vanish\n"
     "  schedule-template  a CSV header of every run column (with --example, three\n"
     "            filled rows of an invented plant) to FILE.csv or standard output\n"
     "\n"
@@ -464,6 +469,127 @@ static int outputs_clash(const char *const *outputs, int nout, const char *campa
     return EXIT_OK;
 }
 
+/* The JSON ledger of path: the file itself when it is one, else the ledger of the campaign
+ * (written to a staged temporary file by the JSON writer and read back). NULL after a
+ * message on stderr; *rc the exit status. */
+static cJSON *ledger_tree(const char *path, const char *catalog, const struct ledger_opts *lo, int *rc)
+{
+    struct hl_err e;
+    hl_err_clear(&e);
+    char *text = NULL;
+    enum hl_status st = afile_read(path, &text, NULL, &e);
+    if (st) {
+        print_err(path, &e);
+        *rc = exit_for(st);
+        return NULL;
+    }
+    cJSON *t = cJSON_Parse(text);
+    const cJSON *f = t ? cJSON_GetObjectItemCaseSensitive(t, "format") : NULL;
+    hl_free(text);
+    if (cJSON_IsString(f) && !strcmp(f->valuestring, "haloledger-ledger/1"))
+        return t;
+    cJSON_Delete(t);
+    struct campaign *c = NULL;
+    struct ledger *l = NULL;
+    char *tmp = NULL;
+    if ((st = camp_load(path, catalog, &c, &e)) || (st = ledger_build(c, lo, &l, &e))) {
+        print_err(err_file(&e, path, NULL), &e);
+        camp_free(c);
+        *rc = exit_for(st);
+        return NULL;
+    }
+    camp_free(c);
+    const char *dir = getenv("TMPDIR");
+    char target[512];
+    snprintf(target, sizeof target, "%s/haloledger-compare.json", dir && *dir ? dir : "/tmp");
+    if (!(st = afile_tmpname(target, &tmp, &e)) && !(st = json_out_write(l, tmp, &e)))
+        st = afile_read(tmp, &text, NULL, &e);
+    ledger_free(l);
+    if (tmp) {
+        afile_discard(tmp);
+        hl_free(tmp);
+    }
+    if (st) {
+        fprintf(stderr, "haloledger: %s\n", e.msg);
+        *rc = exit_for(st);
+        return NULL;
+    }
+    t = cJSON_Parse(text);
+    hl_free(text);
+    if (!t) {
+        fprintf(stderr, "haloledger: out of memory reading the ledger of %s\n", path);
+        *rc = EXIT_RUNTIME;
+    }
+    return t;
+}
+
+/* haloledger compare A B [-o OUT.json]: the differences as text, and as JSON with -o. */
+static int do_compare(int argc, char **argv, const char *const *outputs, int nout, const char *catalog_path,
+                      const char *today_text)
+{
+    if (argc - optind != 2)
+        return usage_error("%s", "compare needs two files: A B");
+    if (nout > 1 || (nout == 1 && !has_ext(outputs[0], ".json")))
+        return usage_error("%s", "compare writes one -o OUT.json");
+    for (int i = 0; i < nout; i++)
+        if (afile_same(outputs[i], argv[optind]) || afile_same(outputs[i], argv[optind + 1]))
+            return usage_error("output '%s' is one of the files compared", outputs[i]);
+    struct ledger_opts lo = {.today_min = -1, .created_min = 0};
+    int bad;
+    if (today_text && isodate_parse(today_text, &lo.today_min, &bad))
+        return usage_error("--today: '%s' is not an ISO 8601 date (YYYY-MM-DD)", today_text);
+    char *catalog = NULL;
+    struct hl_err e;
+    hl_err_clear(&e);
+    enum hl_status st;
+    if (catalog_path && (st = afile_read_max(catalog_path, CATALOG_MAX_BYTES, &catalog, NULL, &e))) {
+        print_err(catalog_path, &e);
+        return exit_for(st);
+    }
+    int rc = EXIT_OK;
+    const char *cat = catalog ? catalog : catalog_default_json;
+    cJSON *a = ledger_tree(argv[optind], cat, &lo, &rc);
+    cJSON *b = a ? ledger_tree(argv[optind + 1], cat, &lo, &rc) : NULL;
+    hl_free(catalog);
+    if (!a || !b) {
+        cJSON_Delete(a);
+        return rc;
+    }
+    struct cmp_result r;
+    st = cmp_ledgers(a, b, &r, &e);
+    cJSON_Delete(a);
+    cJSON_Delete(b);
+    if (st) {
+        fprintf(stderr, "haloledger: %s\n", e.msg);
+        return exit_for(st);
+    }
+    if (nout == 1) {
+        cJSON *j = cmp_to_json(&r, argv[optind], argv[optind + 1]);
+        char *text = j ? cJSON_Print(j) : NULL;
+        cJSON_Delete(j);
+        st = text ? afile_check_target(outputs[0], &e) : hl_err_set(&e, HL_ERR_NOMEM, "out of memory");
+        if (!st)
+            st = afile_write(outputs[0], text, strlen(text), &e);
+        cJSON_free(text);
+        if (st) {
+            fprintf(stderr, "haloledger: %s\n", e.msg);
+            cmp_free(&r);
+            return exit_for(st);
+        }
+    }
+    printf("A: %s\nB: %s\n", argv[optind], argv[optind + 1]);
+    if (!r.n)
+        printf("no differences\n");
+    for (int i = 0; i < r.n; i++)
+        printf("  %-28s %-24s %s -> %s\n", r.d[i].where, r.d[i].what, r.d[i].a, r.d[i].b);
+    if (r.n)
+        printf("%d difference%s\n", r.n, r.n == 1 ? "" : "s");
+    for (int i = 0; i < nout; i++)
+        printf("wrote %s\n", outputs[i]);
+    cmp_free(&r);
+    return EXIT_OK;
+}
+
 /* haloledger schedule-template [--example] [-o FILE.csv]: the CSV header (and examples). */
 static int schedule_template(int argc, char **argv, const char *const *outputs, int nout, int example)
 {
@@ -598,6 +724,8 @@ static int run(int argc, char **argv)
     if (optind >= argc)
         return usage_error("%s", "missing command: check or report");
     const char *cmd = argv[optind++];
+    if (!strcmp(cmd, "compare"))
+        return do_compare(argc, argv, outputs, nout, catalog_path, today_text);
     if (!strcmp(cmd, "schedule-template"))
         return schedule_template(argc, argv, outputs, nout, example);
     int report = !strcmp(cmd, "report"), sweep = !strcmp(cmd, "sweep");
@@ -608,7 +736,7 @@ static int run(int argc, char **argv)
     } else if (sweep_run_id || vary || objective)
         return usage_error("%s", "--run, --vary and --objective belong to sweep");
     if (!report && !sweep && strcmp(cmd, "check"))
-        return usage_error("unknown command '%s' (expected check, report, sweep or schedule-template)", cmd);
+        return usage_error("unknown command '%s' (expected check, report, sweep, compare or schedule-template)", cmd);
     if (optind >= argc)
         return usage_error("%s: missing CAMPAIGN file", cmd);
     const char *campaign_path = argv[optind++];
