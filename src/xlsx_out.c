@@ -37,6 +37,7 @@
 #include <errno.h>
 #include <fcntl.h>
 #include <math.h>
+#include <limits.h>
 #include <stdarg.h>
 #include <stdio.h>
 #include <string.h>
@@ -1481,6 +1482,294 @@ static void xo_column(struct xw *w)
     xo_table(w, "Column check", &c);
 }
 
+/* --- Emissions (what leaves the stacks) ------------------------------------ */
+
+static const char xo_emis_note[] =
+    "Planning estimates of what leaves the stack: a permit is judged on measured emissions by the "
+    "method the authority prescribes; the site's permit and local rules decide.";
+
+static void row_emis_run(struct xw *w, struct xtable *b, lxw_row_t row, int i)
+{
+    const struct ledger_run *r = &w->l->runs[i];
+    xt_text(w, b, row, 0, r->id);
+    xt_date(w, b, row, 1, r->start_min);
+    xt_text(w, b, row, 2, r->scrubber ? r->scrubber : "(none)");
+    for (int v = 0; v < VS_COUNT; v++)
+        xt_num(w, b, row, 3 + v, r->scrub.emis_kg[v]);
+    xt_num(w, b, row, 3 + VS_COUNT, r->scrub.emis_breakthrough_kg);
+}
+
+static void xo_emis_runs(struct xw *w)
+{
+    struct xtable b = {.fn = row_emis_run, .nrows = w->l->nruns, .empty_note = "No runs.",
+                       .notes = {xo_emis_note,
+                                 "A run with no scrubber is not counted here (see Warnings)."},
+                       .nnotes = 2};
+    xt_col(&b, XK_TEXT, 0, "Run");
+    xt_col(&b, XK_DATE, 0, "Start (plant time)");
+    xt_col(&b, XK_TEXT, 0, "Scrubber");
+    for (int v = 0; v < VS_COUNT; v++)
+        xt_col(&b, XK_RATE, 1, "%s leaving the stack [kg]", xo_vent(v));
+    /* no total: the gases are unlike things */
+    xt_col(&b, XK_RATE, 0, "Of it, breakthrough of a spent liquor, all gases [kg]");
+    xo_table(w, "Emissions by run", &b);
+}
+
+/* First hour after `after` with any emission from unit u (INT_MAX: none). */
+static int xo_emis_next_hour(const struct scrub_unit_out *o, int after)
+{
+    int best = INT_MAX;
+    for (int v = 0; v < VS_COUNT; v++) {
+        const struct scrub_emis *m = &o->emis[v];
+        int lo = 0, hi = m->nhourly;
+        while (lo < hi) {
+            int mid = lo + (hi - lo) / 2;
+            if (m->hourly_hour[mid] <= after)
+                lo = mid + 1;
+            else
+                hi = mid;
+        }
+        if (lo < m->nhourly && m->hourly_hour[lo] < best)
+            best = m->hourly_hour[lo];
+    }
+    return best;
+}
+
+static int xo_emis_hours(const struct scrub_unit_out *o)
+{
+    int n = 0;
+    for (int h = xo_emis_next_hour(o, -1); h != INT_MAX; h = xo_emis_next_hour(o, h))
+        n++;
+    return n;
+}
+
+/* Lowest hour-averaged kg/h permit limit of unit u and species v (0: none). */
+static double xo_hour_limit(const struct ledger *l, int u, int v)
+{
+    double lim = 0;
+    for (int k = 0; k < l->npermit_checks; k++) {
+        const struct emis_check *x = &l->permit_checks[k];
+        if (x->unit == u && x->species == v && x->kind == EMIS_KG_H && !x->averaging_day &&
+            (lim == 0 || x->limit < lim))
+            lim = x->limit;
+    }
+    return lim;
+}
+
+struct xo_emis_cols { int conc, nlim, lim_sp[VS_COUNT]; };
+
+static struct xo_emis_cols xo_emis_layout(const struct ledger *l)
+{
+    struct xo_emis_cols c = {0, 0, {0}};
+    for (int u = 0; u < l->nscrubbers; u++)
+        c.conc |= l->emis && l->emis[u].stack_nm3_h > 0;
+    for (int v = 0; v < VS_COUNT; v++) {
+        int any = 0;
+        for (int u = 0; u < l->nscrubbers; u++)
+            any |= xo_hour_limit(l, u, v) > 0;
+        if (any)
+            c.lim_sp[c.nlim++] = v;
+    }
+    return c;
+}
+
+static void row_emis_hour(struct xw *w, struct xtable *b, lxw_row_t row, int i)
+{
+    (void)i;
+    const struct ledger *l = w->l;
+    int h = INT_MAX;
+    while (b->cur < l->nscrubbers &&
+           (h = xo_emis_next_hour(&l->scrubbers[b->cur].out, b->sub - 1)) == INT_MAX) {
+        b->cur++;
+        b->sub = 0;
+    }
+    if (b->cur >= l->nscrubbers)
+        return;
+    const struct ledger_scrubber *u = &l->scrubbers[b->cur];
+    double stack = l->emis ? l->emis[b->cur].stack_nm3_h : 0;
+    struct xo_emis_cols c = xo_emis_layout(l);
+    b->sub = h + 1;
+    int k = 0;
+    xt_text(w, b, row, k++, u->id);
+    xt_date(w, b, row, k++, u->out.hour0_min + 60 * (int64_t)h);
+    for (int v = 0; v < VS_COUNT; v++)
+        xt_num(w, b, row, k++, scrub_hourly_emis_kg_h(&u->out, v, h));
+    for (int v = 0; v < VS_COUNT && c.conc; v++, k++)
+        if (stack > 0)
+            xt_num(w, b, row, k, emis_mg_nm3(scrub_hourly_emis_kg_h(&u->out, v, h), stack));
+        else
+            xt_text(w, b, row, k, "no stack flow");
+    for (int j = 0; j < c.nlim; j++, k++) {
+        double lim = xo_hour_limit(l, b->cur, c.lim_sp[j]);
+        if (lim > 0)
+            xt_num(w, b, row, k, lim);
+    }
+}
+
+static void xo_emis_by_hour(struct xw *w)
+{
+    const struct ledger *l = w->l;
+    int n = 0;
+    for (int u = 0; u < l->nscrubbers; u++)
+        n += xo_emis_hours(&l->scrubbers[u].out);
+    struct xo_emis_cols c = xo_emis_layout(l);
+    struct xtable b = {.fn = row_emis_hour, .nrows = n, .empty_note = "Nothing leaves the stacks.",
+                       .notes = {xo_emis_note,
+                                 "Hours with any emission only; each run's emission spread evenly over its "
+                                 "vent window. mg/Nm3 = kg/h x 1e6 / stack gas flow (0 C, 101.325 kPa)."},
+                       .nnotes = 2};
+    xt_col(&b, XK_TEXT, 0, "Scrubber");
+    xt_col(&b, XK_DATE, 0, "Hour start (plant time)");
+    for (int v = 0; v < VS_COUNT; v++)
+        xt_col(&b, XK_RATE, 0, "%s leaving the stack, mean over the hour [kg/h]", xo_vent(v));
+    for (int v = 0; v < VS_COUNT && c.conc; v++)
+        xt_col(&b, XK_TEMP, 0, "%s in the stack gas [mg/Nm3]", xo_vent(v));
+    for (int j = 0; j < c.nlim; j++)
+        xt_col(&b, XK_RATE, 0, "%s hourly permit limit [kg/h]", xo_vent(c.lim_sp[j]));
+    xo_table(w, "Emissions by hour", &b);
+}
+
+enum { PC_SCRUB, PC_SPECIES, PC_AVG, PC_LIM_KG, PC_VAL_KG, PC_LIM_MG, PC_VAL_MG, PC_LIM_T, PC_VAL_T,
+       PC_WHEN, PC_SHARE, PC_MARGIN, PC_EXC, PC_RUNS };
+
+static void row_permit(struct xw *w, struct xtable *b, lxw_row_t row, int i)
+{
+    const struct ledger *l = w->l;
+    const struct emis_check *x = &l->permit_checks[i];
+    xt_text(w, b, row, PC_SCRUB, l->scrubbers[x->unit].id);
+    xt_text(w, b, row, PC_SPECIES, xo_vent(x->species));
+    xt_text(w, b, row, PC_AVG, x->kind == EMIS_T_YR ? "calendar year"
+                               : x->averaging_day ? "calendar-day mean" : "clock hour");
+    int lim = x->kind == EMIS_KG_H ? PC_LIM_KG : x->kind == EMIS_MG_NM3 ? PC_LIM_MG : PC_LIM_T;
+    xt_num(w, b, row, lim, x->limit);
+    if (x->has_value)
+        xt_num(w, b, row, lim + 1, x->value);
+    else
+        xt_text(w, b, row, lim + 1, "no stack flow");
+    char when[24] = "nothing leaves";
+    if (x->has_at && x->kind == EMIS_T_YR)
+        snprintf(when, sizeof when, "%04d", x->at_year);
+    else if (x->has_at)
+        isodate_format(x->at_min, x->averaging_day, when, sizeof when);
+    xt_text(w, b, row, PC_WHEN, when);
+    if (x->has_value) {
+        xt_num(w, b, row, PC_SHARE, x->value / x->limit);
+        xt_num(w, b, row, PC_MARGIN, (x->limit - x->value) / x->limit);
+        xt_raise(w, b, row, PC_EXC, x->exceeded, "EXCEEDED");
+    } else {
+        xt_text(w, b, row, PC_EXC, "! not checkable");
+    }
+    char ids[1000];
+    xo_join_ids(l, x->runs, x->nruns, ids, sizeof ids);
+    xt_text(w, b, row, PC_RUNS, ids);
+}
+
+static void xo_permits(struct xw *w)
+{
+    struct xtable b = {.fn = row_permit, .nrows = w->l->npermit_checks,
+                       .empty_note = "The campaign gives no permits (campaign key permits[]).",
+                       .notes = {xo_emis_note,
+                                 "Worst clock hour or calendar-day mean against kg/h and mg/Nm3, worst "
+                                 "calendar year against t/yr; the runs are those emitting the species then."},
+                       .nnotes = 2};
+    xt_col(&b, XK_TEXT, 0, "Scrubber");
+    xt_col(&b, XK_TEXT, 0, "Species");
+    xt_col(&b, XK_TEXT, 0, "Averaging");
+    xt_col(&b, XK_GEN, 0, "Permit limit [kg/h]");
+    xt_col(&b, XK_GEN, 0, "Worst estimate [kg/h]");
+    xt_col(&b, XK_GEN, 0, "Permit limit [mg/Nm3]");
+    xt_col(&b, XK_GEN, 0, "Worst estimate [mg/Nm3]");
+    xt_col(&b, XK_GEN, 0, "Permit limit [t/yr]");
+    xt_col(&b, XK_GEN, 0, "Worst estimate [t/yr]");
+    xt_col(&b, XK_TEXT, 0, "When (hour, day or year)");
+    xt_col(&b, XK_FRAC, 0, "Worst as share of the limit [%%]");
+    xt_col(&b, XK_FRAC, 0, "Margin left [%% of the limit]");
+    xt_alarm(&b, XA_ALARM, "Limit exceeded");
+    xt_col(&b, XK_TEXT, 0, "Runs emitting then");
+    b.fixw[PC_RUNS] = XO_WRAP_W;
+    xo_table(w, "Permit checks", &b);
+}
+
+/* One line chart over rows r0..r1 of a sheet: categories in column 1, series in cols[]. */
+static void xo_emis_chart(struct xw *w, const char *sheet, lxw_row_t r0, lxw_row_t r1,
+                          const int *cols, int ncols, const char *title, const char *yname,
+                          lxw_row_t at_row)
+{
+    if (w->st != HL_OK)
+        return;
+    lxw_chart *ch = workbook_add_chart(w->wb, LXW_CHART_LINE);
+    if (!ch) {
+        xo_fail(w, HL_ERR_NOMEM, "cannot add the chart '%s'", title);
+        return;
+    }
+    for (int i = 0; i < ncols; i++) {
+        lxw_chart_series *s = chart_add_series(ch, NULL, NULL);
+        if (!s) {
+            xo_fail(w, HL_ERR_NOMEM, "cannot add a chart series");
+            return;
+        }
+        chart_series_set_categories(s, sheet, r0, 1, r1, 1);
+        chart_series_set_values(s, sheet, r0, (lxw_col_t)cols[i], r1, (lxw_col_t)cols[i]);
+        chart_series_set_name_range(s, sheet, 0, (lxw_col_t)cols[i]);
+    }
+    chart_title_set_name(ch, title);
+    chart_axis_set_name(ch->y_axis, yname);
+    chart_axis_set_name(ch->x_axis, "Hour start (plant time)");
+    chart_legend_set_position(ch, LXW_CHART_LEGEND_BOTTOM);
+    lxw_chart_options opt = {.x_scale = 1.6, .y_scale = 1.5, .description = (char *)title};
+    xo_check(w, worksheet_insert_chart_opt(w->ws, at_row, 0, ch, &opt), at_row, 0);
+}
+
+/* Per scrubber: its hourly load against its rating (Hourly load rows) and what leaves its
+ * stack against its hourly permit limits (Emissions by hour rows).  Two charts a unit: the
+ * library has no secondary axis for kmol/h and kg/h on one chart. */
+static void xo_emis_charts(struct xw *w)
+{
+    const struct ledger *l = w->l;
+    if (!xo_sheet(w, "Emission charts"))
+        return;
+    xo_text(w, 0, 0, "Per scrubber: hourly load against its rating, and what leaves the stack "
+            "against its hourly permit limits (planning estimates)", w->bold);
+    enum { XO_CHART_ROWS = 30 };
+    lxw_row_t breaks[64] = {0};
+    int nc = 0, nb = 0;
+    long load_row = 1, emis_row = 1, max_row = (long)LXW_ROW_MAX - 8;
+    struct xo_emis_cols c = xo_emis_layout(l);
+    for (int u = 0; u < l->nscrubbers && w->st == HL_OK; u++) {
+        const struct ledger_scrubber *s = &l->scrubbers[u];
+        int nh = s->out.nhours, ne = xo_emis_hours(&s->out);
+        char title[160];
+        if (nh > 0 && load_row + nh - 1 <= max_row) {
+            const int cols[2] = {2, 3};
+            snprintf(title, sizeof title, "%s: vent gas load by hour against the rating", s->id);
+            if (nc > 0 && nb < 63)
+                breaks[nb++] = (lxw_row_t)(nc * XO_CHART_ROWS);
+            xo_emis_chart(w, "Hourly load", (lxw_row_t)load_row, (lxw_row_t)(load_row + nh - 1), cols,
+                          2, title, "kmol/h", (lxw_row_t)(nc++ * XO_CHART_ROWS + 1));
+        }
+        if (ne > 0 && emis_row + ne - 1 <= max_row) {
+            int cols[2 * VS_COUNT], n = 0;
+            for (int v = 0; v < VS_COUNT; v++)
+                if (s->out.emis[v].kg > 0)
+                    cols[n++] = 2 + v;
+            for (int j = 0; j < c.nlim; j++)
+                if (xo_hour_limit(l, u, c.lim_sp[j]) > 0)
+                    cols[n++] = 2 + VS_COUNT + (c.conc ? VS_COUNT : 0) + j;
+            snprintf(title, sizeof title, "%s: leaving the stack by hour against the permit", s->id);
+            if (nc > 0 && nb < 63)
+                breaks[nb++] = (lxw_row_t)(nc * XO_CHART_ROWS);
+            xo_emis_chart(w, "Emissions by hour", (lxw_row_t)emis_row, (lxw_row_t)(emis_row + ne - 1),
+                          cols, n, title, "kg/h", (lxw_row_t)(nc++ * XO_CHART_ROWS + 1));
+        }
+        load_row += nh;
+        emis_row += ne;
+    }
+    if (nc == 0)
+        xo_text(w, 1, 0, "No load and no emissions, so no charts.", w->note);
+    if (w->st == HL_OK && nb > 0)
+        xo_check(w, worksheet_set_h_pagebreaks(w->ws, breaks), 0, 0);
+}
+
 /* --- Orders -------------------------------------------------------------- */
 
 static void row_order(struct xw *w, struct xtable *b, lxw_row_t row, int i)
@@ -2289,6 +2578,10 @@ enum hl_status xlsx_out_write_opt(const struct ledger *l, const char *path, int 
     xo_units(w);
     xo_hours(w);
     xo_column(w);
+    xo_emis_runs(w);
+    xo_emis_by_hour(w);
+    xo_permits(w);
+    xo_emis_charts(w);
     xo_orders(w);
     xo_actuals(w);
     xo_checks(w);

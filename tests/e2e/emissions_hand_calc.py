@@ -76,12 +76,15 @@ def main():
         out = os.path.join(tmp, "emis-ledger.json")
         with open(camp, "w") as f:
             json.dump(CAMPAIGN, f)
-        p = subprocess.run(WRAP + [BIN, "report", camp, "-o", out, "--strict"],
+        book = os.path.join(tmp, "emis-ledger.xlsx")
+        p = subprocess.run(WRAP + [BIN, "report", camp, "-o", out, "-o", book, "--strict"],
                            capture_output=True, text=True, timeout=120)
         # the exceedances are warnings and count under --strict (design section 6)
         T.check(p.returncode == 3, f"exit {p.returncode} with --strict, expected 3: {p.stderr[-400:]}")
         with open(out) as f:
             d = json.load(f)
+        import openpyxl
+        wb = openpyxl.load_workbook(book)
     runs = {r["id"]: r for r in d["runs"]}
     hcl_kg = 1000 * M_HCL / 1000            # kg of HCl vented by A, B, F
     e_run = hcl_kg * (1 - REM_E)            # what leaves per run
@@ -154,6 +157,29 @@ def main():
     T.check(any("VS-W HCl" in m and "cannot be checked" in m for m in msgs),
             "warning: mg/Nm3 limit without stack flow")
     T.check(sum("exceeded" in m for m in msgs) == 2, f"two exceedance warnings: {msgs}")
+    # the workbook: the same figures, one table a sheet, header row frozen and repeated
+    for name in ("Emissions by run", "Emissions by hour", "Permit checks"):
+        ws = wb[name]
+        T.check(ws.freeze_panes == "B2" and ws.print_title_rows == "$1:$1" and
+                ws.page_setup.orientation == "landscape", f"{name}: panes, titles, landscape")
+    rows = {r[0]: r for r in wb["Emissions by run"].iter_rows(min_row=2, values_only=True)}
+    close(rows["D"][3], d_kg, "Emissions by run: D HCl")
+    hours = [r for r in wb["Emissions by hour"].iter_rows(min_row=2, values_only=True) if r[0] == "VS-E"]
+    T.check(len(hours) == 5, f"VS-E: 5 hours with emission, got {len(hours)}")
+    h7 = [r for r in hours if str(r[1]).startswith("2027-03-02 07:00")]
+    T.check(len(h7) == 1, "hour 07:00 listed once")
+    if h7:
+        close(h7[0][2], peak, "Emissions by hour: 07:00 HCl kg/h")
+        close(h7[0][7], mg, "Emissions by hour: 07:00 HCl mg/Nm3")
+    pc = list(wb["Permit checks"].iter_rows(min_row=2, max_row=6, values_only=True))
+    T.check(pc[2][12] == "!! EXCEEDED" and pc[0][12] == "no" and pc[4][12].startswith("!"),
+            f"Permit checks markers {[r[12] for r in pc]}")
+    close(pc[3][8], 2.5 * e_run / 1000, "Permit checks: 2027 t/yr")
+    T.check(len(wb["Emission charts"]._charts) == 6, "two charts a scrubber with runs")
+    assume = [r for r in wb["Assumptions"].iter_rows(min_row=2, values_only=True)
+              if r[0] and str(r[0]).startswith("Removal of HCl credited to scrubber VS-W")]
+    T.check(len(assume) == 1 and "common practice" in " ".join(str(c) for c in assume[0]),
+            f"Assumptions shows the default removal and its origin: {assume}")
     print(f"emissions_hand_calc: {T.n - len(T.fails)}/{T.n} checks passed")
     for f in T.fails:
         print("  FAIL", f)

@@ -38,7 +38,7 @@ import openpyxl  # noqa: E402
 OVER_X = 0.8      # points of horizontal overlap tolerated (kerning of adjacent boxes)
 MIN_PT = 6.0      # median word height on a page [pt]
 SHEETS = ["Summary", "Runs", "Products", "Liquor by run", "Scrubber units", "Hourly load", "Column check",
-          "Orders", "Plan vs actual", "Stock checks", "Waste by run", "Spent liquor", "Reaction heat", "Monthly", "Monthly yields", "Charts", "Warnings", "Cautions", "Assumptions"]
+          "Emissions by run", "Emissions by hour", "Permit checks", "Emission charts", "Orders", "Plan vs actual", "Stock checks", "Waste by run", "Spent liquor", "Reaction heat", "Monthly", "Monthly yields", "Charts", "Warnings", "Cautions", "Assumptions"]
 NS = "{http://www.w3.org/1999/xhtml}"
 
 

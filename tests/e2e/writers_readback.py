@@ -37,10 +37,12 @@ BUILD = os.environ.get("BUILD", "build")
 TOOL = os.path.join(ROOT, BUILD, "tool_writers")
 WRAP = os.environ.get("HL_WRAP", "").split()
 SHEETS = ["Summary", "Runs", "Products", "Liquor by run", "Scrubber units", "Hourly load",
-          "Column check", "Orders", "Plan vs actual", "Stock checks", "Waste by run", "Spent liquor", "Reaction heat", "Monthly", "Monthly yields", "Charts",
+          "Column check", "Emissions by run", "Emissions by hour", "Permit checks", "Emission charts",
+          "Orders", "Plan vs actual", "Stock checks", "Waste by run", "Spent liquor", "Reaction heat", "Monthly", "Monthly yields", "Charts",
           "Warnings", "Cautions", "Assumptions"]
 TABLE_SHEETS = ["Runs", "Products", "Liquor by run", "Scrubber units", "Hourly load",
-                "Column check", "Orders", "Waste by run", "Spent liquor", "Reaction heat", "Monthly"]
+                "Column check", "Emissions by run", "Emissions by hour", "Permit checks", "Orders",
+                "Waste by run", "Spent liquor", "Reaction heat", "Monthly"]
 UNIT = re.compile(r"\[[^\]]+\]")
 checks = 0
 failures = []
@@ -113,8 +115,8 @@ def body(tmp):
 
     for name in SHEETS:
         ws = wb[name]
-        if name == "Charts":  # a title row and the chart drawings
-            check(ws["A1"].value, "Charts: has its title")
+        if name in ("Charts", "Emission charts"):  # a title row and the chart drawings
+            check(ws["A1"].value, "%s: has its title" % name)
             continue
         check(ws.max_row >= 2, "%s: has content" % name)
         if name == "Summary":
@@ -197,7 +199,14 @@ def body(tmp):
         check(wb["Runs"][ref].data_type == "s", "openpyxl sees Runs!%s as text" % ref)
 
     # charts: three or four, drawn on the Charts sheet, series on the Monthly month rows
-    charts = sorted(n for n in names if re.fullmatch(r"xl/charts/chart\d+\.xml", n))
+    all_charts = sorted(n for n in names if re.fullmatch(r"xl/charts/chart\d+\.xml", n))
+    charts = [c for c in all_charts if "Monthly!" in z.read(c).decode()]
+    # the Emission charts sheet: each chart on the Hourly load or the Emissions by hour rows
+    for ch in all_charts:
+        if ch not in charts:
+            refs = re.findall(r"<c:f>([^<]+)</c:f>", z.read(ch).decode())
+            check(refs and all(r.startswith(("'Hourly load'!", "'Emissions by hour'!")) for r in refs),
+                  "%s refers to Hourly load or Emissions by hour only: %s" % (ch, refs[:3]))
     check(len(charts) in (3, 4), "three or four chart parts (%s)" % charts)
     rel = "xl/worksheets/_rels/sheet%d.xml.rels" % (SHEETS.index("Charts") + 1)
     rels = z.read(rel).decode() if rel in names else ""
@@ -298,7 +307,7 @@ def body(tmp):
                    [[c.value for c in row] for row in ws2[n].iter_rows()] for n in SHEETS)
         check(same, "streaming mode gives the same cells")
         zs = zipfile.ZipFile(xs)
-        check(len([n for n in zs.namelist() if n.startswith("xl/charts/chart")]) == len(charts),
+        check(len([n for n in zs.namelist() if n.startswith("xl/charts/chart")]) == len(all_charts),
               "streaming: charts kept")
 
     # failures: exit 1, message, previous file intact, nothing left behind
