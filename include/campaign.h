@@ -37,7 +37,10 @@
  *  stock:     reagent R (incl. "NaOH"; one entry per reagent); on_hand_kg [0,1e9) R;
  *             safety_kg [0,1e9) = 0; lead_days [0,3650] = 0.
  *  containers: reagent R; name R; net_kg [0.1,1e6] R; heel_kg [0, net_kg - 0.1] = 0;
- *             gas_withdrawal_kg_h [0.01,1e6] (optional).
+ *             gas_withdrawal_kg_h [0.01,1e6] (optional);
+ *             units "metric"|"us" (absent: both); source (text: where the size comes from).
+ *  units:     top level, "metric"|"us" = us: catalog containers tagged with the other
+ *             system are left out (the campaign's own containers are always used).
  *  schedule:  a CSV file name (relative to the campaign's folder) or an array of them: the
  *             rows are runs (sched.h), after runs[]; with a schedule runs[] may be absent or [].
  *  runs:      id R (unique after repeat expansion); start R (ISO date); reactor; scrubber
@@ -169,11 +172,17 @@ struct camp_stock {
     struct camp_pos pos_lead_days; /* of the lead_days value (= pos when not given) */
 };
 
+/* Container sizes a campaign buys (top-level "units"); a catalog entry tagged with the
+ * other system is not used.  Untagged entries (CAMP_UNITS_ANY) serve both. */
+enum camp_units { CAMP_UNITS_US, CAMP_UNITS_METRIC, CAMP_UNITS_ANY };
+
 struct camp_container {
     int reagent;
     char *name;
     double net_kg, heel_kg;
     double gas_withdrawal_kg_h;   /* continuous gas rate of one container without icing, 0 = not given */
+    enum camp_units units;      /* "units" of the entry; CAMP_UNITS_ANY when not given */
+    char *source;               /* "source" text (publication, "common practice", "from memory"); may be NULL */
     int from_catalog;           /* 1 if it came from the default catalog */
     struct camp_pos pos;
 };
@@ -268,6 +277,7 @@ struct campaign {
     char *title, *site;         /* may be NULL */
     int64_t issued_min;         /* optional "issued" date, -1 if absent */
     enum camp_paper paper;      /* report.paper: the workbook's print paper */
+    enum camp_units units;      /* "units": which catalog containers are used (default US) */
     double report_min_mol_fraction; /* report.min_mol_fraction, -1 if absent (ledger default) */
     struct camp_scrubber *scrubbers; int nscrubbers;
     struct camp_permit *permits; int npermits;   /* in file order */

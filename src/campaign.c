@@ -1405,9 +1405,11 @@ static enum hl_status parse_stock(struct vctx *c, const cJSON *o, struct camp_st
 }
 
 /* containers (campaign and catalog) */
-enum { NK_REAGENT, NK_NAME, NK_NET, NK_HEEL, NK_NOTE, NK_WITHDRAW, NK_N };
+enum { NK_REAGENT, NK_NAME, NK_NET, NK_HEEL, NK_NOTE, NK_WITHDRAW, NK_UNITS, NK_SOURCE, NK_N };
 static const char *const cont_keys[NK_N] = {"reagent", "name", "net_kg", "heel_kg", "note",
-                                            "gas_withdrawal_kg_h"};
+                                            "gas_withdrawal_kg_h", "units", "source"};
+/* in the order of enum camp_units */
+static const char *const units_names[2] = {"us", "metric"};
 
 static enum hl_status parse_container(struct vctx *c, const cJSON *o, struct camp_container *ct)
 {
@@ -1432,6 +1434,11 @@ static enum hl_status parse_container(struct vctx *c, const cJSON *o, struct cam
         (k[NK_WITHDRAW] && (st = get_num(c, k[NK_WITHDRAW], rdraw, &ct->gas_withdrawal_kg_h))) ||
         (k[NK_NOTE] && (st = get_str(c, k[NK_NOTE], 0, MAX_TEXT, &note))))
         return st;
+    int units = CAMP_UNITS_ANY;
+    if ((k[NK_UNITS] && (st = get_enum(c, k[NK_UNITS], units_names, 2, &units))) ||
+        (k[NK_SOURCE] && (st = dup_str(c, k[NK_SOURCE], T_TEXT | T_NONEMPTY, MAX_TEXT, &ct->source))))
+        return st;
+    ct->units = (enum camp_units)units;
     if (ct->net_kg - ct->heel_kg < 0.1) { /* the same 100 g floor for the usable content */
         push_key(c, "heel_kg");
         return verr(c, k[NK_HEEL], 0, "must be < net_kg (%.15g) by at least 0.1 kg, the least a "
@@ -2288,10 +2295,11 @@ static enum hl_status finish_runs(struct reader *rd)
 
 /* top level */
 enum { GK_FORMAT, GK_TITLE, GK_SITE, GK_ISSUED, GK_MODEL, GK_SCRUB, GK_STOCK, GK_CONT, GK_RUNS, GK_NOTE,
-       GK_REPORT, GK_DELIV, GK_COUNTS, GK_TOL, GK_PERMITS, GK_SCHED, GK_N };
+       GK_REPORT, GK_DELIV, GK_COUNTS, GK_TOL, GK_PERMITS, GK_SCHED, GK_UNITS, GK_N };
 static const char *const top_keys[GK_N] = {"format", "title", "site", "issued", "model", "scrubbers",
                                            "stock", "containers", "runs", "note", "report",
-                                           "deliveries", "counts", "tolerances", "permits", "schedule"};
+                                           "deliveries", "counts", "tolerances", "permits", "schedule",
+                                           "units"};
 
 /* ---- month close: deliveries, stock counts, tolerances ---- */
 enum { DK_REAGENT, DK_KG, DK_DATE, DK_STATUS, DK_REF, DK_NOTE, DK_N };
@@ -2555,11 +2563,15 @@ static enum hl_status parse_containers(struct vctx *c, const cJSON *arr, struct 
         size_t o2 = push_index(c, idx);
         if ((st = parse_container(c, o, &ct))) {
             hl_free(ct.name);
+            hl_free(ct.source);
             return st;
         }
         pop(c, o2);
-        if (skip_reagent && skip_reagent[ct.reagent]) {
+        /* a catalog entry for a reagent the campaign lists, or sized in the other units */
+        if ((skip_reagent && skip_reagent[ct.reagent]) ||
+            (from_catalog && ct.units != CAMP_UNITS_ANY && ct.units != cp->units)) {
             hl_free(ct.name);
+            hl_free(ct.source);
             continue;
         }
         ct.from_catalog = from_catalog;
@@ -2617,6 +2629,10 @@ static enum hl_status parse_top(struct reader *rd, const cJSON *root)
         (k[GK_MODEL] && (st = parse_model(c, k[GK_MODEL], &rd->model))) ||
         (k[GK_REPORT] && (st = parse_report(c, k[GK_REPORT], cp))))
         return st;
+    int units = CAMP_UNITS_US;
+    if (k[GK_UNITS] && (st = get_enum(c, k[GK_UNITS], units_names, 2, &units)))
+        return st;
+    cp->units = (enum camp_units)units;
     if (k[GK_MODEL]) {
         cp->has_model = 1;
         cp->pos_model = pos_of(c, k[GK_MODEL]);
@@ -2828,8 +2844,10 @@ void camp_free(struct campaign *c)
     hl_free(c->scrubbers);
     hl_free(c->permits);
     hl_free(c->stock);
-    for (int i = 0; i < c->ncontainers; i++)
+    for (int i = 0; i < c->ncontainers; i++) {
         hl_free(c->containers[i].name);
+        hl_free(c->containers[i].source);
+    }
     hl_free(c->containers);
     for (int i = 0; i < c->ndeliveries; i++)
         hl_free(c->deliveries[i].ref);

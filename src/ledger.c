@@ -926,6 +926,25 @@ static enum hl_status plan_orders(const struct campaign *c, struct ledger *l, st
                                       c->containers[i].net_kg, c->containers[i].heel_kg};
     st = ord_plan_supply(d, nd, s, ns, k, c->ncontainers, sup, nsup, l->today_min, &l->orders,
                          &l->norders, e);
+    /* each container size ordered, with where it comes from, on the Assumptions list (the
+     * order lines still point at the campaign's names here, so the match is by pointer) */
+    for (int i = 0; st == HL_OK && i < l->norders; i++) {
+        const struct ord_line *o = &l->orders[i];
+        for (int j = 0; o->container && j < c->ncontainers; j++) {
+            const struct camp_container *ct = &c->containers[j];
+            if (ct->name != o->container)
+                continue;
+            char what[200];
+            const struct reagent_info *ri = reagent_get(ct->reagent);
+            snprintf(what, sizeof what, "%s container \"%.120s\": net content",
+                     ri ? ri->name : "?", ct->name);
+            st = assume(l, e, what, 1, ct->net_kg, "kg",
+                        ct->source ? ct->source
+                                   : ct->from_catalog ? "default container catalog (no source given)"
+                                                      : "given in the campaign (containers[])");
+            break;
+        }
+    }
 out:
     hl_free(d);
     hl_free(s);
