@@ -591,8 +591,8 @@ static void xo_table_tail(struct xw *w, struct xtable *x, lxw_row_t row)
         xo_text(w, row++, 0, x->empty_note ? x->empty_note : "(none)", w->note);
     if (x->omitted > 0) {
         char msg[160];
-        snprintf(msg, sizeof msg, "%d further rows omitted at the sheet row limit; "
-                 "the JSON ledger carries them all.", x->omitted);
+        snprintf(msg, sizeof msg, "%d further row%s omitted at the sheet row limit; "
+                 "the JSON ledger carries them all.", x->omitted, x->omitted == 1 ? "" : "s");
         xo_text(w, row++, 0, msg, w->note);
     }
     for (int at = 0; at < x->nnotes; at++)
@@ -1228,8 +1228,19 @@ static void row_product(struct xw *w, struct xtable *b, lxw_row_t row, int i)
     int k = 0;
     xt_text(w, b, row, k++, r->id);
     xt_text(w, b, row, k++, xo_item(r->reagent));
-    xt_text(w, b, row, k++, p->smiles); /* blank: no unambiguous structure */
-    xt_text(w, b, row, k++, p->formula);
+    if (p->role == ROLE_OTHER) {
+        /* the lumped row says what it sums, so it does not read as one substance */
+        char label[96], what[200];
+        ledger_other_label(p, label, sizeof label);
+        snprintf(what, sizeof what, "%s: %d product%s summed, mean %.2f halogens added; "
+                 "molar mass is the mean", label, r->other_rows, r->other_rows == 1 ? "" : "s",
+                 r->other_mean_degree);
+        xt_text(w, b, row, k++, what);
+        xt_text(w, b, row, k++, "(mixture)");
+    } else {
+        xt_text(w, b, row, k++, p->smiles); /* blank: no unambiguous structure */
+        xt_text(w, b, row, k++, p->formula);
+    }
     xt_num(w, b, row, k++, p->degree);
     xt_text(w, b, row, k++, ledger_role_name(p->role));
     xt_num(w, b, row, k++, p->molar_mass_g_mol);
@@ -1471,7 +1482,7 @@ static void xo_column(struct xw *w)
                                  "by a licensed engineer, with the vendor's packing data."},
                        .nnotes = 3};
     xt_col(&c, XK_TEXT, 0, "Scrubber");
-    xt_col(&c, XK_RATE, 0, "Gas flow [kmol/h]");
+    xt_col(&c, XK_RATE, 0, "Gas flow at the instantaneous peak [kmol/h]");
     xt_col(&c, XK_SCI, 0, "Acid gas in [mol/mol]");
     xt_col(&c, XK_SCI, 0, "Acid gas out [mol/mol]");
     xt_col(&c, XK_PCT, 0, "Transfer units, NTU (dimensionless)");

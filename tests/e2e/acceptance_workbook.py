@@ -66,7 +66,8 @@ ALARMS = [("Runs", "Capped by substrate", "!"), ("Liquor by run", "Cooling neede
           ("Liquor by run", "Below minimum NaOH", "!!"),
           ("Scrubber units", "Overloaded (instantaneous peak over rating)", "!!"), ("Orders", "Late", "!!")]
 # one name for one thing (DEVELOPERS.md glossary): the retired names
-FORBIDDEN = ("Fresh liquor before run", "Heat released", "NaOH used", "Changeouts [count]")
+FORBIDDEN = ("Fresh liquor before run", "Heat released", "NaOH used", "Changeouts [count]", "Heat duty",
+             "Caustic make-up bought", "Peak hourly load")
 UNIT = re.compile(r"\[[^\]]+\]")
 M_HCL = 1.008 + 35.45          # CIAAW 2021 abridged
 
@@ -365,7 +366,12 @@ def check_numbers(tag, wb, led):
     jp = [(r["id"], p) for r in led["runs"] for p in r["products"]]
     if check(len(rows) == len(jp), f"{tag}: Products sheet {len(rows)} rows, JSON {len(jp)}"):
         for x, (rid, p) in zip(rows, jp):
-            ok = (x[0] == rid and x[h["Formula"] - 1] == p["formula"] and x[h["Role"] - 1] == p["role"]
+            # the lumped row: "(mixture)" for a formula, its label and count as the structure
+            other = p["role"] == "other"
+            ok = (x[0] == rid and x[h["Role"] - 1] == p["role"]
+                  and (x[h["Formula"] - 1] == "(mixture)" if other else x[h["Formula"] - 1] == p["formula"])
+                  and (not other or (str(x[h["Structure (SMILES)"] - 1]).startswith(p["label"] + ": ")
+                                     and f" {p['rows_summed']} product" in x[h["Structure (SMILES)"] - 1]))
                   and (p["smiles"] is None or x[h["Structure (SMILES)"] - 1] == p["smiles"])
                   and all(same(x[h[k] - 1], p[j], 1e-12) or x[h[k] - 1] == p[j] == 0 for k, j in
                           (("Amount [mol]", "mol"), ("Mass [kg]", "kg"),
@@ -521,7 +527,7 @@ def check_alarms(tag, wb, led):
     return raised
 
 
-PLURAL = re.compile(r"(?<![\d.,])1 (changeouts|runs|containers|warnings|hours|orders|scrubbers)\b")
+PLURAL = re.compile(r"(?<![\d.,])1 (changeouts|runs|containers|warnings|hours|orders|scrubbers|products|rows|routes)\b")
 
 
 def check_names(tag, wb):
