@@ -109,7 +109,7 @@ with tempfile.TemporaryDirectory() as d:
             T.check(names == [want["name"]], f"{tag}: Orders sheet container {names}")
             ws = wb["Assumptions"]
             rows = [(ws.cell(r, 2).value, ws.cell(r, 4).value) for r in range(2, ws.max_row + 1)
-                    if want["name"] in str(ws.cell(r, 1).value)]
+                    if f'"{want["name"]}": net content' in str(ws.cell(r, 1).value)]
             T.check(rows == [(want["net_kg"], want["source"])],
                     f"{tag}: Assumptions row for {want['name']!r}: {rows}")
     # the metric demo orders only metric or untagged containers
