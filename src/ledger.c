@@ -945,6 +945,9 @@ static enum hl_status plan_orders(const struct campaign *c, struct ledger *l, st
             break;
         }
     }
+    if (st != HL_OK) /* the names are still the campaign's: the ledger must not free them */
+        for (int i = 0; i < l->norders; i++)
+            l->orders[i].container = NULL;
 out:
     hl_free(d);
     hl_free(s);
