@@ -38,6 +38,11 @@ struct ord_line {
     int64_t first_use_min, order_by_min;
     int late;                   /* order_by before today (when today given) */
     int no_container;           /* demand but no container defined: containers = 0, warning */
+    /* Filled by the ledger from the runs' gas withdrawal (thermal.h), 0 from ord_plan: the most
+     * containers of this item on line at once in this month (overlapping runs add up) and the
+     * first minute it is reached. A count of containers connected, which can exceed those used. */
+    int peak_on_line;
+    int64_t peak_on_line_min;
 };
 
 /* Plan orders. demands in any order (sorted inside, O(n log n)). Items without a

@@ -86,7 +86,7 @@ void therm_compute(const struct therm_in *in, struct therm_out *out);
 struct therm_withdrawal {
     double kg_h;                 /* gas demand at the peak: charged / feed_h x peak_factor */
     double container_kg_h;       /* continuous rate of one container without icing */
-    int containers_on_line;      /* ceil(kg_h / container_kg_h) */
+    int containers_on_line;      /* ceil(kg_h / container_kg_h), at least 1; 0 when nothing is drawn */
     int evaporator_needed;       /* containers_on_line > THERM_MAX_ON_MANIFOLD */
 };
 

@@ -931,6 +931,11 @@ static void jo_order(struct jo *w, const struct ledger *l, int i)
     jo_bool(w, "no_container", d->no_container);
     jo_num(w, "on_order_kg", d->on_order_kg);
     jo_num(w, "received_kg", d->received_kg);
+    /* gas fed from containers: the most on line at once, which can exceed those consumed */
+    if (d->peak_on_line > 0) {
+        jo_num(w, "containers_on_line_peak", d->peak_on_line);
+        jo_date(w, "containers_on_line_peak_at", d->peak_on_line_min, 0);
+    }
     if (d->item == RG_NAOH) { /* caustic is bought as solution: say its strength */
         if (l->caustic_order_wt_pct > 0)
             jo_num(w, "naoh_wt_pct", l->caustic_order_wt_pct);

@@ -956,6 +956,68 @@ out:
     return st;
 }
 
+/* ---- containers on line at the busiest moment ---- */
+
+struct online_ev { int64_t t_min; int delta, item; };
+
+static int cmp_online(const void *pa, const void *pb)
+{
+    const struct online_ev *a = pa, *b = pb;
+    if (a->t_min != b->t_min)
+        return a->t_min < b->t_min ? -1 : 1;
+    return (a->delta > b->delta) - (a->delta < b->delta); /* a run ending frees its containers first */
+}
+
+static int cmp_line_key(const void *key, const void *el)
+{
+    const int *k = key;
+    const struct ord_line *o = el;
+    if (k[0] != o->month_index)
+        return k[0] < o->month_index ? -1 : 1;
+    return (k[1] > o->item) - (k[1] < o->item);
+}
+
+/* For each order line, the most containers of its item on line at once (design section 5,
+ * orders[].containers_on_line_peak): the runs' gas withdrawal counts added over the time their
+ * feeds overlap, swept in time order; the count only rises at a run's start, so the peak of a
+ * month is taken at a start in that month. Order lines are in month then item order. */
+static enum hl_status orders_on_line(struct ledger *l, struct hl_err *e)
+{
+    int n = 0;
+    for (int i = 0; i < l->nruns; i++)
+        n += l->runs[i].has_withdrawal && l->runs[i].withdrawal.containers_on_line > 0;
+    if (!n || !l->norders)
+        return HL_OK;
+    struct online_ev *v = hl_malloc((size_t)n * 2 * sizeof *v);
+    if (!v)
+        return nomem(e);
+    int k = 0;
+    for (int i = 0; i < l->nruns; i++) {
+        const struct ledger_run *r = &l->runs[i];
+        if (!r->has_withdrawal || r->withdrawal.containers_on_line <= 0)
+            continue;
+        int64_t len_min = (int64_t)ceil(r->feed_h * 60.0);
+        v[k++] = (struct online_ev){r->start_min, r->withdrawal.containers_on_line, r->reagent};
+        v[k++] = (struct online_ev){r->start_min + (len_min > 0 ? len_min : 1),
+                                    -r->withdrawal.containers_on_line, r->reagent};
+    }
+    qsort(v, (size_t)k, sizeof *v, cmp_online);
+    int on[RG_COUNT] = {0};
+    for (int j = 0; j < k; j++) {
+        on[v[j].item] += v[j].delta;
+        if (v[j].delta <= 0)
+            continue;
+        int key[2] = {isodate_month_index(v[j].t_min), v[j].item};
+        struct ord_line *o = bsearch(key, l->orders, (size_t)l->norders, sizeof *l->orders, cmp_line_key);
+        if (o && on[v[j].item] > o->peak_on_line) {
+            o->peak_on_line = on[v[j].item];
+            o->peak_on_line_min = v[j].t_min;
+        }
+    }
+    hl_free(v);
+    return HL_OK;
+}
+
 /* ---- stock checks ---- */
 
 static int cmp_count(const void *pa, const void *pb)
@@ -1497,6 +1559,7 @@ static enum hl_status build(const struct campaign *c, struct campaign *consume,
         goto fail;
     camp_free_runs(consume); /* nothing below reads c->runs */
     if ((st = run_scrubbers(c, l, e)) || (st = stock_checks(c, l, e)) || (st = plan_orders(c, l, e)) ||
+        (st = orders_on_line(l, e)) ||
         (st = own_container_names(l, e)) || (st = build_months(l, e)) ||
         (st = collect_warnings(c, l, e)) || (st = close_warnings(l, e)))
         goto fail;

@@ -194,6 +194,7 @@ void therm_withdrawal(double charged_kg, double feed_h, double peak_factor,
      * (kg/h from a division: 3 x 7.5 must not read as 3.0000000001 containers) */
     double q = out->kg_h / container_kg_h;
     double c = ceil(q * (1 - 1e-9));
-    out->containers_on_line = c < 1 ? 1 : c > 1e9 ? 1000000000 : (int)c;
+    /* nothing drawn (a cancelled run) needs no container; any draw needs at least one */
+    out->containers_on_line = out->kg_h <= 0 ? 0 : c < 1 ? 1 : c > 1e9 ? 1000000000 : (int)c;
     out->evaporator_needed = out->containers_on_line > THERM_MAX_ON_MANIFOLD;
 }

@@ -1801,6 +1801,12 @@ static void row_order(struct xw *w, struct xtable *b, lxw_row_t row, int i)
     xt_num(w, b, row, k++, d->net_kg);
     xt_num(w, b, row, k++, d->heel_kg);
     xt_num(w, b, row, k++, d->containers);
+    if (d->peak_on_line > 0) {
+        xt_num(w, b, row, k++, d->peak_on_line);
+        xt_date(w, b, row, k++, d->peak_on_line_min);
+    } else {
+        k += 2; /* not a gas fed from containers: left blank */
+    }
     xt_num(w, b, row, k++, d->ordered_usable_kg);
     xt_num(w, b, row, k++, d->stock_end_kg);
     xt_date(w, b, row, k++, d->first_use_min);
@@ -1832,6 +1838,8 @@ static void xo_orders(struct xw *w)
     xt_col(&b, XK_KG, 0, "Container net [kg]");
     xt_col(&b, XK_KG, 0, "Heel left in container [kg]");
     xt_col(&b, XK_INT, 0, "Containers [count]");
+    xt_col(&b, XK_INT, 0, "Containers on line, busiest moment [count]");
+    xt_col(&b, XK_DATE, 0, "Busiest moment (plant time)");
     xt_col(&b, XK_KG, 0, "Usable content ordered [kg]");
     xt_col(&b, XK_KG, 0, "Stock at month end [kg]");
     xt_col(&b, XK_DATE, 0, "First use (plant time)");
