@@ -86,5 +86,10 @@ struct caution_info {
 const struct caution_info *caution_get(int ca);
 /* The deferral printed under every caution list (SDS, local regulations, licensed review). */
 const char *caution_deferral(void);
+/* Cautions on the ledger's own estimates (stack emissions, reaction heat), shown with every
+ * ledger: topic and text of row i in [0, caution_estimate_count()); NULL out of range. Static. */
+int caution_estimate_count(void);
+const char *caution_estimate_topic(int i);
+const char *caution_estimate_text(int i);
 
 #endif

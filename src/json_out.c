@@ -1119,6 +1119,16 @@ static void jo_permit_check(struct jo *w, const struct ledger *l, int i)
     jo_end(w);
 }
 
+/* A caution on the ledger's own estimates (stack emissions, reaction heat). */
+static void jo_estimate_caution(struct jo *w, const struct ledger *l, int k)
+{
+    (void)l;
+    jo_begin(w, "estimate_cautions", k);
+    jo_str(w, "topic", caution_estimate_topic(k));
+    jo_str(w, "text", caution_estimate_text(k));
+    jo_end(w);
+}
+
 static void jo_caution(struct jo *w, const struct ledger *l, int ca)
 {
     (void)l;
@@ -1255,6 +1265,7 @@ static void jo_document(struct jo *w, const struct ledger *l)
         if ((l->cautions_mask >> k & 1u) && caution_get(k))
             ca[nca++] = k;
     jo_list(w, l, "cautions", nca, ca, jo_caution);
+    jo_list(w, l, "estimate_cautions", caution_estimate_count(), NULL, jo_estimate_caution);
     jo_top_str(w, "caution_deferral", caution_deferral());
     jo_puts(w, "\n}\n");
 }

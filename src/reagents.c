@@ -288,3 +288,32 @@ const char *caution_deferral(void)
            "here are from memory): confirm them in the current sources before relying on "
            "them.";
 }
+
+/* What the estimates are and who decides: a stack emission is judged on what is measured, a
+ * thermal risk on calorimetry (Stoessel, Thermal Safety of Chemical Processes, 2008). */
+static const char *const estimate_cautions[][2] = {
+    {"Emissions after the scrubber",
+     "The emissions, concentrations and permit margins are planning estimates from stated removal "
+     "fractions and the planned vent gas. A permit is judged on measured emissions, by the "
+     "sampling and analysis method the authority prescribes; the site's permit and the local rules "
+     "decide what is allowed and what must be reported."},
+    {"Reaction heat and thermal risk",
+     "Reaction heats come from bond enthalpies (gas phase) and the criticality class from the "
+     "stated temperatures: a screening estimate. Reaction calorimetry and a process-safety study "
+     "by qualified people decide whether and how a batch may run."},
+};
+
+int caution_estimate_count(void)
+{
+    return (int)(sizeof estimate_cautions / sizeof estimate_cautions[0]);
+}
+
+const char *caution_estimate_topic(int i)
+{
+    return i >= 0 && i < caution_estimate_count() ? estimate_cautions[i][0] : NULL;
+}
+
+const char *caution_estimate_text(int i)
+{
+    return i >= 0 && i < caution_estimate_count() ? estimate_cautions[i][1] : NULL;
+}

@@ -2378,10 +2378,28 @@ static int xo_caution_nrows(const struct caution_info *c)
     return (c->nlimits < 4 ? c->nlimits : 4) + 4; /* limits, 3 topics, "Before use" */
 }
 
+static int xo_caution_substance_rows(const struct ledger *l)
+{
+    int n = 0;
+    for (int ca = 0; ca < CA_COUNT; ca++) {
+        const struct caution_info *c = caution_get(ca);
+        if ((l->cautions_mask >> ca & 1u) && c)
+            n += xo_caution_nrows(c);
+    }
+    return n;
+}
+
 static void row_caution(struct xw *w, struct xtable *b, lxw_row_t row, int i)
 {
-    (void)i;
     const struct ledger *l = w->l;
+    int nsub = xo_caution_substance_rows(l);
+    if (i >= (nsub ? nsub : 1)) { /* after the substances: the cautions on the estimates */
+        int j = i - (nsub ? nsub : 1);
+        xo_text(w, row, 0, "Estimates of this ledger", w->bold_top);
+        xo_text(w, row, 2, caution_estimate_topic(j), w->top);
+        xo_text(w, row, 3, caution_estimate_text(j), w->wrap);
+        return;
+    }
     const struct caution_info *c = NULL;
     for (; b->cur < CA_COUNT; b->cur++, b->sub = 0) {
         c = caution_get(b->cur);
@@ -2416,13 +2434,8 @@ static void row_caution(struct xw *w, struct xtable *b, lxw_row_t row, int i)
 
 static void xo_cautions(struct xw *w)
 {
-    int n = 0;
-    for (int ca = 0; ca < CA_COUNT; ca++) {
-        const struct caution_info *c = caution_get(ca);
-        if ((w->l->cautions_mask >> ca & 1u) && c)
-            n += xo_caution_nrows(c);
-    }
-    struct xtable b = {.fn = row_caution, .nrows = n ? n : 1};
+    int n = xo_caution_substance_rows(w->l);
+    struct xtable b = {.fn = row_caution, .nrows = (n ? n : 1) + caution_estimate_count()};
     xt_col(&b, XK_TEXT, 0, "Substance");
     xt_col(&b, XK_TEXT, 0, "CAS number");
     xt_col(&b, XK_TEXT, 0, "Topic");

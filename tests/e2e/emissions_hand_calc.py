@@ -180,6 +180,14 @@ def main():
               if r[0] and str(r[0]).startswith("Removal of HCl credited to scrubber VS-W")]
     T.check(len(assume) == 1 and "common practice" in " ".join(str(c) for c in assume[0]),
             f"Assumptions shows the default removal and its origin: {assume}")
+    # the cautions say the figures are estimates, that a permit is judged on measured emissions
+    # by the authority's method, and defer to the permit and local rules (issue text, item 5)
+    est = [c for c in d.get("estimate_cautions", []) if c.get("topic") == "Emissions after the scrubber"]
+    txt = est[0].get("text", "") if est else ""
+    T.check(all(w in txt for w in ("estimates", "measured", "method the authority prescribes", "permit")),
+            f"JSON estimate_cautions on emissions: {est}")
+    cau = [r for r in wb["Cautions"].iter_rows(min_row=2, values_only=True) if r[2] == "Emissions after the scrubber"]
+    T.check(len(cau) == 1 and cau[0][3] == txt, f"Cautions sheet row on emissions: {cau}")
     print(f"emissions_hand_calc: {T.n - len(T.fails)}/{T.n} checks passed")
     for f in T.fails:
         print("  FAIL", f)

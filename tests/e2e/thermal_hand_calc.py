@@ -169,6 +169,11 @@ for k, (mtt, td24, cls) in CLASSES.items():
     T.check((x.get("MTSR reaches MTT or TD24") or "").startswith("!!") == (cls >= 3), f"sheet {k} alarm {x.get('MTSR reaches MTT or TD24')!r}")
 T.check(sheet.get("B", {}).get("Gas container") == "not drawn as gas", f"sheet B {sheet.get('B')}")
 
+# the cautions defer the thermal figures to calorimetry and a study by qualified people
+est = [c for c in L.get("estimate_cautions", []) if c.get("topic") == "Reaction heat and thermal risk"]
+T.check(len(est) == 1 and all(w in est[0].get("text", "") for w in ("screening estimate", "calorimetry",
+        "qualified people")), f"JSON estimate_cautions on reaction heat: {est}")
+
 for f in T.fails:
     print("FAIL:", f)
 print(f"thermal_hand_calc: {T.n - len(T.fails)}/{T.n} checks passed")
