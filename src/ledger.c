@@ -1559,8 +1559,7 @@ static enum hl_status build(const struct campaign *c, struct campaign *consume,
         goto fail;
     camp_free_runs(consume); /* nothing below reads c->runs */
     if ((st = run_scrubbers(c, l, e)) || (st = stock_checks(c, l, e)) || (st = plan_orders(c, l, e)) ||
-        (st = orders_on_line(l, e)) ||
-        (st = own_container_names(l, e)) || (st = build_months(l, e)) ||
+        (st = own_container_names(l, e)) || (st = orders_on_line(l, e)) || (st = build_months(l, e)) ||
         (st = collect_warnings(c, l, e)) || (st = close_warnings(l, e)))
         goto fail;
     if ((st = build_emissions(c, l, e)) || (st = report_emissions(c, l, e)))
