@@ -1235,7 +1235,7 @@ static void row_product(struct xw *w, struct xtable *b, lxw_row_t row, int i)
         snprintf(what, sizeof what, "%s: %d product%s summed, mean %.2f halogens added; "
                  "molar mass is the mean", label, r->other_rows, r->other_rows == 1 ? "" : "s",
                  r->other_mean_degree);
-        xt_text(w, b, row, k++, what);
+        xo_text(w, row, (lxw_col_t)k++, what, w->wrap); /* wrapped: it must not print over the next column */
         xt_text(w, b, row, k++, "(mixture)");
     } else {
         xt_text(w, b, row, k++, p->smiles); /* blank: no unambiguous structure */
@@ -1266,6 +1266,7 @@ static void xo_products(struct xw *w)
     xt_col(&b, XK_MOL, 0, "Amount [mol]");
     xt_col(&b, XK_KG, 0, "Mass [kg]");
     xt_col(&b, XK_MOLFRAC, 0, "Share of substrate charged [mol %%]");
+    b.fixw[2] = 34; /* a known width, so the lumped row's wrapped label gets the height it needs */
     xo_table(w, "Products", &b);
 }
 
