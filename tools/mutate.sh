@@ -47,40 +47,8 @@ git ls-files -z -c -o --exclude-standard | tar -c --null -T - -f - | (cd "$S" &&
 cd "$S" || exit 1
 REC="$S/.mutations.rec"
 
-# ---- the list: blocks of "key: value" lines, a blank line between blocks ----
-"$PY" - "$LIST" "$REC" <<'EOF' || exit 2
-import sys
-src, out = sys.argv[1], sys.argv[2]
-recs, cur, n = [], {}, 0
-def flush():
-    global cur
-    if cur:
-        for k in ("file", "find", "repl", "what"):
-            if k not in cur:
-                sys.exit("mutate: %s: entry %r lacks %s:" % (src, cur.get("what", "?"), k))
-        recs.append(cur)
-    cur = {}
-for lineno, line in enumerate(open(src, encoding="utf-8"), 1):
-    line = line.rstrip("\n")
-    if line.startswith("#"):
-        continue
-    if not line.strip():
-        flush()
-        continue
-    key, sep, val = line.partition(":")
-    key = key.strip()
-    if not sep or key not in ("file", "find", "repl", "what", "try", "harmless"):
-        sys.exit("mutate: %s:%d: expected 'file|find|repl|what|try|harmless: value'" % (src, lineno))
-    if key in cur:
-        sys.exit("mutate: %s:%d: %s given twice in one entry" % (src, lineno, key))
-    cur[key] = val[1:] if val.startswith(" ") else val
-flush()
-with open(out, "w", encoding="utf-8") as f:
-    for i, r in enumerate(recs, 1):
-        f.write("\x1f".join(["M%02d" % i, r["file"], r["find"], r["repl"], r["what"],
-                             r.get("try", ""), r.get("harmless", "")]) + "\n")
-print("mutate: %d mutations in %s" % (len(recs), src))
-EOF
+# ---- the list (read by tools/mutlist.py, which tests/e2e/mutations_apply.py shares) ----
+"$PY" tools/mutlist.py rec "$LIST" "$REC" || exit 2
 
 echo "mutate: building the scratch copy"
 make -s -j2 --no-print-directory all unit >"$S/.build.log" 2>&1 || {
