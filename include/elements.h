@@ -11,6 +11,17 @@
 
 #include <stddef.h>
 
+/* The weights of the elements that static tables (reagents, vent gases, salts) sum at
+ * compile time: the one copy of these values, which the table in elements.c uses too. */
+#define ELEM_W_H 1.008
+#define ELEM_W_C 12.011
+#define ELEM_W_N 14.007
+#define ELEM_W_O 15.999
+#define ELEM_W_NA 22.990
+#define ELEM_W_S 32.06
+#define ELEM_W_CL 35.45
+#define ELEM_W_BR 79.904
+
 enum elem_id {
     EL_H, EL_He, EL_Li, EL_Be, EL_B, EL_C, EL_N, EL_O, EL_F, EL_Ne,
     EL_Na, EL_Mg, EL_Al, EL_Si, EL_P, EL_S, EL_Cl, EL_Ar, EL_K, EL_Ca,

@@ -58,6 +58,18 @@ const struct reagent_info *reagent_get(int id);
 /* Reagent id from its campaign spelling (case-sensitive), -1 if unknown. */
 int reagent_lookup(const char *name);
 
+/* One row per vent species (gas sent to the scrubber).  name is also the public JSON key
+ * of the species (design section 5: extend, never rename) and mol_key its amount key. */
+struct vent_info {
+    const char *name;        /* "HCl" */
+    const char *formula;     /* Hill formula text ("ClH"), parsed by formula.h */
+    double molar_mass_g_mol; /* CIAAW 2021 conventional weights (elements.h) */
+    int caution;             /* enum caution_id */
+    const char *mol_key;     /* "HCl_mol" (runs[].vent) */
+};
+/* Row of a vent species; NULL out of range. Static data. */
+const struct vent_info *vent_get(int vs);
+
 /* Vent species: name ("HCl"), formula text, molar mass [g/mol], caution id.
  * Out of range: NULL, 0.0 and -1. */
 const char *vent_name(int vs);

@@ -19,10 +19,8 @@
 
 #include <stdint.h>
 #include "hlerr.h"
+#include "liquor.h"
 #include "reagents.h"
-
-/* Salts / products in the liquor. */
-enum scrub_salt { SALT_NACL, SALT_NABR, SALT_NAOCL, SALT_NAOBR, SALT_NA2SO3, SALT_NA2SO4, SALT_COUNT };
 
 struct scrub_unit_in {
     const char *id;

@@ -125,12 +125,11 @@ struct bal_cache {
 
 static enum hl_status consts_init(struct bal_consts *k, struct hl_err *e)
 {
-    static const char *const gas_formula[VS_COUNT] = {"HCl", "HBr", "Cl2", "Br2", "SO2"};
     enum hl_status st = HL_OK;
     for (int r = 0; r < RG_CHARGEABLE && !st; r++)
         st = parse_known(reagent_get(r)->formula, &k->reagent[r], e);
     for (int v = 0; v < VS_COUNT && !st; v++)
-        st = parse_known(gas_formula[v], &k->gas[v], e);
+        st = parse_known(vent_formula(v), &k->gas[v], e);
     if (!st)
         st = parse_known("C4H5NO2", &k->succ, e);
     if (!st)

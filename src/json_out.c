@@ -34,11 +34,10 @@
 #include <string.h>
 #include <unistd.h>
 
-/* Public key spellings of the vent species and salts: fixed here, not taken from
- * display names elsewhere, because pipelines depend on them. */
-static const char *const jo_vent_key[VS_COUNT] = {"HCl", "HBr", "Cl2", "Br2", "SO2"};
-static const char *const jo_salt_key[SALT_COUNT] = {"NaCl", "NaBr", "NaOCl", "NaOBr", "Na2SO3", "Na2SO4"};
-_Static_assert(VS_COUNT == 5 && SALT_COUNT == 6, "update the key tables of json_out.c");
+/* Public key spellings of the vent species and salts: the names of their table rows
+ * (reagents.c, liquor.c), which are public JSON keys and never renamed. */
+#define jo_vent_key(v) (vent_get(v)->name)
+#define jo_salt_key(k) (liquor_salt_get(k)->name)
 
 enum { JO_BUF = 1 << 16, JO_DEPTH = 16 };
 
@@ -556,9 +555,8 @@ static void jo_month_text(int month_index, char *buf, size_t n)
 /* The five vent species as members NAME_mol of the open object. */
 static void jo_species(struct jo *w, const double *mol)
 {
-    static const char *const key[VS_COUNT] = {"HCl_mol", "HBr_mol", "Cl2_mol", "Br2_mol", "SO2_mol"};
     for (int s = 0; s < VS_COUNT; s++)
-        jo_num(w, key[s], mol[s]);
+        jo_num(w, vent_get(s)->mol_key, mol[s]);
 }
 
 static void jo_num_or_null(struct jo *w, const char *key, int has, double v)
@@ -764,7 +762,7 @@ static void jo_run(struct jo *w, const struct ledger *l, int i)
     jo_num(w, "naoh_wt_pct_after", s->naoh_wt_pct_after);
     jo_open(w, "salts_kg", '{');
     for (int k = 0; k < SALT_COUNT; k++)
-        jo_num(w, jo_salt_key[k], s->salt_kg[k]);
+        jo_num(w, jo_salt_key(k), s->salt_kg[k]);
     jo_close(w, '}');
     jo_num(w, "water_formed_kg", s->water_formed_kg);
     jo_num(w, "acid_wt_pct_after", s->acid_wt_pct_after);
@@ -811,7 +809,7 @@ static void jo_run(struct jo *w, const struct ledger *l, int i)
     jo_actual(w, r);
     jo_open(w, "emissions_kg", '{'); /* what leaves the stack after the scrubber */
     for (int v = 0; v < VS_COUNT; v++)
-        jo_num(w, jo_vent_key[v], s->emis_kg[v]);
+        jo_num(w, jo_vent_key(v), s->emis_kg[v]);
     jo_close(w, '}');
     jo_num(w, "emissions_breakthrough_kg", s->emis_breakthrough_kg);
     jo_end(w);
@@ -866,7 +864,7 @@ static void jo_month(struct jo *w, const struct ledger *l, int i)
     jo_close(w, '}');
     jo_open(w, "vent_kg", '{');
     for (int k = 0; k < VS_COUNT; k++)
-        jo_num(w, jo_vent_key[k], m->vent_kg[k]);
+        jo_num(w, jo_vent_key(k), m->vent_kg[k]);
     jo_close(w, '}');
     jo_num(w, "naoh_kg", m->naoh_kg);
     jo_num(w, "changeouts", m->changeouts);
@@ -972,12 +970,12 @@ static void jo_emissions(struct jo *w, const struct ledger *l, int i)
         jo_null(w, "stack_nm3_h"); /* no concentrations */
     jo_open(w, "removal", '{');
     for (int v = 0; v < VS_COUNT; v++)
-        jo_num(w, jo_vent_key[v], s->removal[v]);
+        jo_num(w, jo_vent_key(v), s->removal[v]);
     jo_close(w, '}');
     jo_open(w, "emissions", '{');
     for (int v = 0; v < VS_COUNT && eu; v++) {
         const struct emis_species *sp = &eu->sp[v];
-        jo_open(w, jo_vent_key[v], '{');
+        jo_open(w, jo_vent_key(v), '{');
         jo_num(w, "kg", sp->kg);
         jo_num(w, "peak_kg_h", sp->peak_kg_h);
         if (sp->peak_kg_h > 0)
@@ -1063,7 +1061,7 @@ static void jo_scrubber(struct jo *w, const struct ledger *l, int i)
         jo_num(w, "hbr_kg", b->hbr_kg);
         jo_open(w, "salts_kg", '{');
         for (int q = 0; q < SALT_COUNT; q++)
-            jo_num(w, jo_salt_key[q], b->salt_kg[q]);
+            jo_num(w, jo_salt_key(q), b->salt_kg[q]);
         jo_close(w, '}');
         jo_close(w, '}');
     }
@@ -1094,7 +1092,7 @@ static void jo_permit_check(struct jo *w, const struct ledger *l, int i)
     const struct emis_check *x = &l->permit_checks[i];
     jo_begin(w, "permit_checks", i);
     jo_str(w, "scrubber", l->scrubbers[x->unit].id);
-    jo_str(w, "species", jo_vent_key[x->species]);
+    jo_str(w, "species", jo_vent_key(x->species));
     jo_num(w, "limit", x->limit);
     jo_str(w, "unit", emis_limit_unit(x->kind));
     jo_str(w, "averaging", x->kind == EMIS_T_YR ? "year" : x->averaging_day ? "day" : "hour");

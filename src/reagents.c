@@ -20,46 +20,37 @@
 
 #include <string.h>
 
-/* CIAAW 2021 abridged/conventional weights, as in elements.c */
-#define W_H 1.008
-#define W_C 12.011
-#define W_N 14.007
-#define W_O 15.999
-#define W_NA 22.990
-#define W_S 32.06
-#define W_CL 35.45
-#define W_BR 79.904
 
 static const struct reagent_info reagents[RG_COUNT] = {
-    [RG_CL2] = {"Cl2", "Cl2", "chlorine", 2 * W_CL, RK_SUBSTITUTION, EL_Cl,
+    [RG_CL2] = {"Cl2", "Cl2", "chlorine", 2 * ELEM_W_CL, RK_SUBSTITUTION, EL_Cl,
                 1.0, VS_HCL, 0.0, 0.0,
                 /* unreacted chlorine leaves with the HCl to the scrubber */
                 VS_CL2, "gas (liquefied under pressure)", CA_CL2},
-    [RG_BR2] = {"Br2", "Br2", "bromine", 2 * W_BR, RK_SUBSTITUTION, EL_Br,
+    [RG_BR2] = {"Br2", "Br2", "bromine", 2 * ELEM_W_BR, RK_SUBSTITUTION, EL_Br,
                 1.0, VS_HBR, 0.0, 0.0,
                 /* Br2 boils at 59 C (from memory) and is swept out with the HBr
                  * off-gas; counting it at the scrubber is the conservative choice
                  * for liquor sizing (common practice) */
                 VS_BR2, "liquid (fuming, bp about 59 C)", CA_BR2},
-    [RG_SO2CL2] = {"SO2Cl2", "Cl2O2S", "sulfuryl chloride", W_S + 2 * W_O + 2 * W_CL,
+    [RG_SO2CL2] = {"SO2Cl2", "Cl2O2S", "sulfuryl chloride", ELEM_W_S + 2 * ELEM_W_O + 2 * ELEM_W_CL,
                    RK_SUBSTITUTION, EL_Cl, 1.0, VS_HCL, 1.0, 0.0,
                    /* a liquid boiling at 69 C (from memory): what is not consumed
                     * stays in the reaction mass and must be quenched in work-up */
                    -1, "liquid (bp about 69 C)", CA_SO2CL2},
     [RG_NBS] = {"NBS", "C4H4BrNO2", "N-bromosuccinimide",
-                4 * W_C + 4 * W_H + W_BR + W_N + 2 * W_O, RK_NBS, EL_Br,
+                4 * ELEM_W_C + 4 * ELEM_W_H + ELEM_W_BR + ELEM_W_N + 2 * ELEM_W_O, RK_NBS, EL_Br,
                 /* the HBr of each abstraction step reacts with NBS to give the Br2
                  * that brominates: net RH + NBS -> RBr + succinimide, no HX vented */
                 0.0, -1, 0.0, 1.0,
                 /* a solid (succinimide and unreacted NBS are filtered off) */
                 -1, "solid", CA_NBS},
-    [RG_HBR] = {"HBr", "BrH", "hydrogen bromide", W_H + W_BR, RK_ADDITION, EL_Br,
+    [RG_HBR] = {"HBr", "BrH", "hydrogen bromide", ELEM_W_H + ELEM_W_BR, RK_ADDITION, EL_Br,
                 /* the adduct takes the whole HBr: no acid gas formed */
                 0.0, -1, 0.0, 0.0,
                 /* excess HBr vents (design section 4) */
                 VS_HBR, "gas (liquefied under pressure)", CA_HBR},
     [RG_NAOH] = {"NaOH", "HNaO", "sodium hydroxide (scrubber caustic make-up)",
-                 W_NA + W_O + W_H, RK_CAUSTIC, -1, 0.0, -1, 0.0, 0.0, -1,
+                 ELEM_W_NA + ELEM_W_O + ELEM_W_H, RK_CAUSTIC, -1, 0.0, -1, 0.0, 0.0, -1,
                  "aqueous solution (caustic liquor)", CA_NAOH},
 };
 
@@ -78,19 +69,15 @@ int reagent_lookup(const char *name)
     return -1;
 }
 
-struct vent_row {
-    const char *name, *formula;
-    double molar_mass_g_mol;
-    int caution;
+static const struct vent_info vents[VS_COUNT] = {
+    [VS_HCL] = {"HCl", "ClH", ELEM_W_H + ELEM_W_CL, CA_HCL, "HCl_mol"},
+    [VS_HBR] = {"HBr", "BrH", ELEM_W_H + ELEM_W_BR, CA_HBR, "HBr_mol"},
+    [VS_CL2] = {"Cl2", "Cl2", 2 * ELEM_W_CL, CA_CL2, "Cl2_mol"},
+    [VS_BR2] = {"Br2", "Br2", 2 * ELEM_W_BR, CA_BR2, "Br2_mol"},
+    [VS_SO2] = {"SO2", "O2S", ELEM_W_S + 2 * ELEM_W_O, CA_SO2, "SO2_mol"},
 };
 
-static const struct vent_row vents[VS_COUNT] = {
-    [VS_HCL] = {"HCl", "ClH", W_H + W_CL, CA_HCL},
-    [VS_HBR] = {"HBr", "BrH", W_H + W_BR, CA_HBR},
-    [VS_CL2] = {"Cl2", "Cl2", 2 * W_CL, CA_CL2},
-    [VS_BR2] = {"Br2", "Br2", 2 * W_BR, CA_BR2},
-    [VS_SO2] = {"SO2", "O2S", W_S + 2 * W_O, CA_SO2},
-};
+const struct vent_info *vent_get(int vs) { return (vs >= 0 && vs < VS_COUNT) ? &vents[vs] : NULL; }
 
 const char *vent_name(int vs) { return (vs >= 0 && vs < VS_COUNT) ? vents[vs].name : NULL; }
 

@@ -14,34 +14,18 @@
 #include <stdlib.h>
 #include <string.h>
 
+#include "elements.h"
 #include "hlmem.h"
 
-/* ---- molar masses ----
- * CIAAW 2021 standard atomic weights, abridged (conventional) values; the same
- * values include/elements.h carries.  Kept local so that the scrubber needs no
- * formula parser; test_scrubber checks every sum. */
-#define W_H 1.008
-#define W_O 15.999
-#define W_NA 22.990
-#define W_S 32.06
-#define W_CL 35.45
-#define W_BR 79.904
+/* ---- molar masses: CIAAW 2021 conventional weights (elements.h) ---- */
 
-#define M_NAOH (W_NA + W_O + W_H)
-#define M_H2O (2 * W_H + W_O)
+#define M_NAOH (ELEM_W_NA + ELEM_W_O + ELEM_W_H)
+#define M_H2O (2 * ELEM_W_H + ELEM_W_O)
 #define M_AIR 28.9644 /* dry air, U.S. Standard Atmosphere 1976 */
 
-static const double gas_mm[VS_COUNT] = {
-    [VS_HCL] = W_H + W_CL, [VS_HBR] = W_H + W_BR, [VS_CL2] = 2 * W_CL,
-    [VS_BR2] = 2 * W_BR,   [VS_SO2] = W_S + 2 * W_O};
-
-static const double salt_mm[SALT_COUNT] = {
-    [SALT_NACL] = W_NA + W_CL,         [SALT_NABR] = W_NA + W_BR,
-    [SALT_NAOCL] = W_NA + W_O + W_CL,  [SALT_NAOBR] = W_NA + W_O + W_BR,
-    [SALT_NA2SO3] = 2 * W_NA + W_S + 3 * W_O, [SALT_NA2SO4] = 2 * W_NA + W_S + 4 * W_O};
-
-static const char *const salt_names[SALT_COUNT] = {"NaCl", "NaBr", "NaOCl", "NaOBr", "Na2SO3",
-                                                   "Na2SO4"};
+/* molar masses: the vent-gas and salt tables (reagents.c, liquor.c) */
+static double gas_mm(int v) { return vent_molar_mass_g_mol(v); }
+static double salt_mm(int k) { return liquor_salt_get(k)->molar_mass_g_mol; }
 
 /* ---- standard enthalpies of formation at 298.15 K, 1 bar [kJ/mol] ----
  * NBS = Wagman et al., "The NBS tables of chemical thermodynamic properties",
@@ -145,12 +129,12 @@ double scrub_naoh_per_mol(int vs)
 
 double scrub_salt_molar_mass_g_mol(int salt)
 {
-    return salt >= 0 && salt < SALT_COUNT ? salt_mm[salt] : 0;
+    return salt >= 0 && salt < SALT_COUNT ? salt_mm(salt) : 0;
 }
 
 const char *scrub_salt_name(int salt)
 {
-    return salt >= 0 && salt < SALT_COUNT ? salt_names[salt] : NULL;
+    return salt >= 0 && salt < SALT_COUNT ? liquor_salt_get(salt)->name : NULL;
 }
 
 /* ---- property tables (linear interpolation, clamped at the ends) ---- */
@@ -230,7 +214,7 @@ double scrub_acid_density_kg_m3(double hcl_wt_pct, double hbr_wt_pct)
  * of the equivalent and the real solution.  Without HBr this is the HCl table itself. */
 double scrub_acid_cp_kj_kg_k(double hcl_wt_pct, double hbr_wt_pct)
 {
-    double m_hcl = W_H + W_CL, m_hbr = W_H + W_BR;
+    double m_hcl = ELEM_W_H + ELEM_W_CL, m_hbr = ELEM_W_H + ELEM_W_BR;
     double n1 = hcl_wt_pct / m_hcl, n2 = hbr_wt_pct / m_hbr;
     double nw = (100.0 - hcl_wt_pct - hbr_wt_pct) / M_H2O, n = n1 + n2 + nw;
     if (!(hbr_wt_pct > 0) || !(n > 0))
@@ -466,14 +450,14 @@ static int over_limit(const struct scrub_unit_in *u, const struct liq *q, const 
 {
     double gas_kg = 0, naoh_kg = 0;
     if (u->water_liquor) {
-        double hcl = vent[VS_HCL] * gas_mm[VS_HCL] / 1000.0, hbr = vent[VS_HBR] * gas_mm[VS_HBR] / 1000.0;
+        double hcl = vent[VS_HCL] * gas_mm(VS_HCL) / 1000.0, hbr = vent[VS_HBR] * gas_mm(VS_HBR) / 1000.0;
         if (!(hcl + hbr > 0))
             return 0;
         double m = liq_mass(q) + hcl + hbr;
         return acid_load(u, (q->hcl + hcl) / m * 100.0, (q->hbr + hbr) / m * 100.0) > 1.0;
     }
     for (int v = 0; v < VS_COUNT; v++) {
-        gas_kg += vent[v] * gas_mm[v] / 1000.0;
+        gas_kg += vent[v] * gas_mm(v) / 1000.0;
         naoh_kg += vent[v] * rxns[v].naoh * M_NAOH / 1000.0;
     }
     if (!(naoh_kg > 0))
@@ -490,19 +474,19 @@ static void sulfite_redox(struct liq *q, struct scrub_run_out *r)
 {
     static const int hypo[2] = {SALT_NAOCL, SALT_NAOBR}, halide[2] = {SALT_NACL, SALT_NABR};
     for (int k = 0; k < 2; k++) {
-        double so3 = q->salt[SALT_NA2SO3] / salt_mm[SALT_NA2SO3];
-        double ox = q->salt[hypo[k]] / salt_mm[hypo[k]];
+        double so3 = q->salt[SALT_NA2SO3] / salt_mm(SALT_NA2SO3);
+        double ox = q->salt[hypo[k]] / salt_mm(hypo[k]);
         double n = so3 < ox ? so3 : ox;
         if (!(n > 0))
             continue;
-        double d_so3 = -n * salt_mm[SALT_NA2SO3], d_ox = -n * salt_mm[hypo[k]];
+        double d_so3 = -n * salt_mm(SALT_NA2SO3), d_ox = -n * salt_mm(hypo[k]);
         /* the limiting one is used up exactly (no round-off residue left behind) */
         if (so3 <= ox)
             d_so3 = -q->salt[SALT_NA2SO3];
         else
             d_ox = -q->salt[hypo[k]];
         const int sp[4] = {SALT_NA2SO3, hypo[k], SALT_NA2SO4, halide[k]};
-        const double d[4] = {d_so3, d_ox, n * salt_mm[SALT_NA2SO4], n * salt_mm[halide[k]]};
+        const double d[4] = {d_so3, d_ox, n * salt_mm(SALT_NA2SO4), n * salt_mm(halide[k])};
         for (int j = 0; j < 4; j++) {
             q->salt[sp[j]] += d[j];
             r->salt_kg[sp[j]] += d[j];
@@ -518,7 +502,7 @@ static void sulfite_redox(struct liq *q, struct scrub_run_out *r)
  * load after taking g is linear-fractional in g, so the bound is one division. */
 static double water_capacity(const struct scrub_unit_in *u, const struct liq *q, const double *vent)
 {
-    double hcl = vent[VS_HCL] * gas_mm[VS_HCL] / 1000.0, hbr = vent[VS_HBR] * gas_mm[VS_HBR] / 1000.0;
+    double hcl = vent[VS_HCL] * gas_mm(VS_HCL) / 1000.0, hbr = vent[VS_HBR] * gas_mm(VS_HBR) / 1000.0;
     if (!(hcl + hbr > 0))
         return 1.0;
     double mh = u->max_acid_wt_pct > 0 ? u->max_acid_wt_pct : DEFAULT_MAX_ACID_WT_PCT;
@@ -547,8 +531,8 @@ static void absorb(const struct scrub_unit_in *u, struct liq *q, const double *v
         /* past the changeout strength the acid's vapour pressure stops absorption; the
          * liquor figures still count the whole vent (the changeout warning covers it) */
         taken[VS_HCL] = taken[VS_HBR] = water_capacity(u, q, vent);
-        q->hcl += vent[VS_HCL] * gas_mm[VS_HCL] / 1000.0;
-        q->hbr += vent[VS_HBR] * gas_mm[VS_HBR] / 1000.0;
+        q->hcl += vent[VS_HCL] * gas_mm(VS_HCL) / 1000.0;
+        q->hbr += vent[VS_HBR] * gas_mm(VS_HBR) / 1000.0;
         r->heat_kj = vent[VS_HCL] * scrub_heat_kj_per_mol(VS_HCL, 1) +
                      vent[VS_HBR] * scrub_heat_kj_per_mol(VS_HBR, 1);
         for (int v = 0; v < VS_COUNT; v++)
@@ -577,7 +561,7 @@ static void absorb(const struct scrub_unit_in *u, struct liq *q, const double *v
             r->water_formed_kg += n * M_H2O / 1000.0;
             for (int k = 0; k < 2; k++)
                 if (rxns[v].salt[k] >= 0) {
-                    double kg = n * rxns[v].nsalt[k] * salt_mm[rxns[v].salt[k]] / 1000.0;
+                    double kg = n * rxns[v].nsalt[k] * salt_mm(rxns[v].salt[k]) / 1000.0;
                     q->salt[rxns[v].salt[k]] += kg;
                     r->salt_kg[rxns[v].salt[k]] += kg;
                 }
@@ -615,7 +599,7 @@ static void emit(const double *removal, const double *vent, const double *taken,
                  struct scrub_run_out *r)
 {
     for (int v = 0; v < VS_COUNT; v++) {
-        double kg = vent[v] * gas_mm[v] / 1000.0, passed = kg * (1.0 - taken[v]);
+        double kg = vent[v] * gas_mm(v) / 1000.0, passed = kg * (1.0 - taken[v]);
         r->emis_kg[v] = passed + kg * taken[v] * (1.0 - removal[v]);
         r->emis_breakthrough_kg += passed;
     }
@@ -1140,7 +1124,7 @@ enum hl_status scrub_campaign(const struct scrub_unit_in *units, int nunits,
         l->used = 1;
         for (int v = 0; v < VS_COUNT; v++) {
             l->gas_mol += r->vent_mol[v];
-            l->gas_g += r->vent_mol[v] * gas_mm[v];
+            l->gas_g += r->vent_mol[v] * gas_mm(v);
         }
     }
     for (int u = 0; u < nunits; u++) {
@@ -1283,7 +1267,7 @@ enum hl_status scrub_campaign(const struct scrub_unit_in *units, int nunits,
         o->overloaded = units[u].rated_acid_kmol_h > 0 &&
                         o->peak_instant_kmol_h > units[u].rated_acid_kmol_h * (1 + 1e-12);
         if (units[u].has_column) {
-            double mm = q[u].gas_mol > 0 ? q[u].gas_g / q[u].gas_mol : gas_mm[VS_HCL];
+            double mm = q[u].gas_mol > 0 ? q[u].gas_g / q[u].gas_mol : gas_mm(VS_HCL);
             column_check(&units[u], o->peak_instant_kmol_h, mm, &o->column);
         }
     }

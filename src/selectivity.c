@@ -406,8 +406,7 @@ static enum hl_status predict(const char *smiles, const char *product_smiles, in
     int ncls;
     if ((st = sites_symmetry(m, w->sym, &ncls, e)))
         return st;
-    static const char *const rnames[] = {"Cl2", "Br2", "SO2Cl2", "NBS", "HBr"};
-    const char *rname = rnames[reagent];
+    const char *rname = reagent_get(reagent)->name;
     st = reagent == RG_HBR ? hbr_addition(w, o, e) : substitution(w, reagent, r_t, o, e);
     if (st)
         return st;

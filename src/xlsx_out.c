@@ -77,7 +77,7 @@ static const int xo_decimals[XK_COUNT] = {0, 0, 0, 0, 1, 2, 1, 2, 2, 3, 1, 0, 0,
 static const char *const xo_sigfmt[XO_NSIG] = {"#,##0", "0.0", "0.00", "0.000", "0.0000",
                                                "0.00000", "0.000000", "0.000E+00"};
 
-static const char *const xo_salt[SALT_COUNT] = {"NaCl", "NaBr", "NaOCl", "NaOBr", "Na2SO3", "Na2SO4"};
+#define xo_salt(k) (liquor_salt_get(k)->name) /* the salt table (liquor.c) */
 
 /* Alarm levels of a column: its cells begin with the marker when raised. */
 enum xa { XA_NONE, XA_ALARM, XA_NOTICE };
@@ -1328,7 +1328,7 @@ static void xo_liquor(struct xw *w)
     xt_col(&a, XK_KG, 0, "Liquor after run [kg]");
     xt_col(&a, XK_PCT, 0, "NaOH after run [wt%%]");
     for (int q = 0; q < SALT_COUNT; q++)
-        xt_col(&a, XK_KG, 0, "%s net change [kg]", xo_salt[q]);
+        xt_col(&a, XK_KG, 0, "%s net change [kg]", xo_salt(q));
     xt_col(&a, XK_KG, 0, "Water formed [kg]");
     xt_col(&a, XK_PCT, 0, "HCl in water liquor [wt%%]");
     xt_col(&a, XK_HEAT, 1, "Heat to liquor [kJ]");
@@ -2142,7 +2142,7 @@ static void xo_spent(struct xw *w)
     xt_col(&s, XK_KG, 1, "Water [kg]");
     xt_col(&s, XK_KG, 1, "HCl [kg]");
     for (int q = 0; q < SALT_COUNT; q++)
-        xt_col(&s, XK_KG, 1, "%s [kg]", xo_salt[q]);
+        xt_col(&s, XK_KG, 1, "%s [kg]", xo_salt(q));
     xo_table(w, "Spent liquor", &s);
 }
 

@@ -9,6 +9,7 @@
  */
 #include "cu_helpers.h"
 #include "formula.h"
+#include "liquor.h"
 #include "reagents.h"
 
 #include <ctype.h>
@@ -141,6 +142,29 @@ static void lookups(void)
         CU_ASSERT_EQUAL(vent_caution(v), vc[v]);
         CU_ASSERT_STRING_EQUAL(vent_name(v), vn[v]);
     }
+    /* the amount keys of runs[].vent, as design section 5 spells them */
+    static const char *vk[VS_COUNT] = {"HCl_mol", "HBr_mol", "Cl2_mol", "Br2_mol", "SO2_mol"};
+    for (int v = 0; v < VS_COUNT; v++) {
+        CU_ASSERT_PTR_NOT_NULL_FATAL(vent_get(v));
+        CU_ASSERT_STRING_EQUAL(vent_get(v)->mol_key, vk[v]);
+        CU_ASSERT_STRING_EQUAL(vent_get(v)->name, vn[v]);
+    }
+    CU_ASSERT_PTR_NULL(vent_get(VS_COUNT));
+    CU_ASSERT_PTR_NULL(vent_get(-1));
+}
+
+/* Every salt row: its name is its formula, and the molar mass is that formula's. */
+static void salt_rows(void)
+{
+    for (int k = 0; k < SALT_COUNT; k++) {
+        const struct liquor_salt *s = liquor_salt_get(k);
+        CU_ASSERT_PTR_NOT_NULL_FATAL(s);
+        struct formula f;
+        CU_ASSERT_EQUAL_FATAL(formula_parse(s->name, &f, NULL), HL_OK);
+        ASSERT_REL(s->molar_mass_g_mol, formula_molar_mass_g_mol(&f), 1e-9);
+    }
+    CU_ASSERT_PTR_NULL(liquor_salt_get(SALT_COUNT));
+    CU_ASSERT_PTR_NULL(liquor_salt_get(-1));
 }
 
 /* CAS Registry check digit. */
@@ -273,7 +297,7 @@ int main(void)
         {"masses match formulas", masses_match_formulas},
         {"stoichiometry balances", stoichiometry_balances},
         {"unreacted and phase", unreacted_and_phase},
-        {"lookups", lookups},
+        {"lookups", lookups}, {"salt rows", salt_rows},
         {"cautions", cautions}, {"IDLH 2025 profiles", idlh_2025},
         {"deferral", deferral}};
     return CU_RUN_ALL("reagents", cases);
