@@ -29,6 +29,19 @@ enum reagent_kind {
 /* Vent species (gas sent to the scrubber). */
 enum vent_species { VS_HCL, VS_HBR, VS_CL2, VS_BR2, VS_SO2, VS_COUNT };
 
+/* Bonds whose enthalpies the reaction-heat screen uses for a reagent (values and sources in
+ * thermal.c, one row each): the bond broken to free the halogen atom (or the H-X added)
+ * and the bond the abstracted H forms. */
+enum reagent_bond {
+    RB_NONE = -1, RB_CLCL, RB_BRBR, RB_HCL, RB_HBR, RB_SO2CL2, RB_NBR, RB_NH, RB_COUNT
+};
+
+/* Site classes a reagent attacks: bit c is enum site_class c of sites.h (primary,
+ * secondary, tertiary, benzylic, allylic), checked there by a static assertion. */
+#define RG_SITE(c) (1u << (c))
+#define RG_SITES_SP3 0x1fu        /* primary .. allylic: every sp3 C-H class */
+#define RG_SITES_ALLYL_BENZYL 0x18u /* benzylic and allylic only */
+
 /* Caution rows. */
 enum caution_id {
     CA_CL2, CA_BR2, CA_HCL, CA_HBR, CA_SO2, CA_SO2CL2, CA_NBS, CA_NAOCL, CA_NAOH,
@@ -51,6 +64,20 @@ struct reagent_info {
     int unreacted_vent;      /* vent species it leaves as, -1 = stays in the reaction mass */
     const char *phase;       /* "gas (liquefied)", "liquid", "solid" */
     int caution;             /* enum caution_id of the reagent itself */
+    /* site selectivity (selectivity.c): */
+    unsigned sites;          /* RG_SITES_*: classes it substitutes (0 for an addition) */
+    int carrier_el;          /* EL_Cl / EL_Br: the atom abstracting H, whose per-H
+                              * reactivities apply (selectivity.c); -1 for an addition */
+    const char *sel_origin;  /* NULL: the carrier's published values as they are; else why
+                              * the carrier's values stand for this reagent (Assumptions) */
+    int methane_ratios;      /* 1: the published Cl + CH4 .. CHCl3 rate ratios apply */
+    /* reaction heat (thermal.c): */
+    int bond_x, bond_h;      /* enum reagent_bond; bond_h RB_NONE for an addition */
+    /* hazards the ledger warns of: */
+    int toxic_gas;           /* a stock shortfall may be a leak (and reportable) */
+    double hot_vent_c;       /* unreacted reagent kept in the mass boils about here and may
+                              * vent (0: no such warning) */
+    const char *hot_vent_note; /* what it then does in the liquor (the warning's text) */
 };
 
 /* Row of a reagent; NULL when id is out of range. Static data. */

@@ -537,15 +537,14 @@ static enum hl_status compute(const struct bal_in *in, struct bal_cache *cache, 
     run_figures(ri, &kk->reagent[in->reagent], o);
     if (!st && !o->warning[0] && s->warning[0])
         snprintf(o->warning, sizeof o->warning, "%s", s->warning);
-    /* SO2Cl2 boils at about 69 C (from memory): above that, unreacted reagent the ledger
-     * keeps in the mass can leave with the vent gas and hydrolyse in the scrubber. */
-    if (!st && in->reagent == RG_SO2CL2 && in->temp_c >= 69.0 && o->reagent_left_kg > 0 &&
+    /* A liquid reagent kept in the mass (SO2Cl2 boils at about 69 C, its row): above its
+     * boiling point, unreacted reagent can leave with the vent gas and react in the scrubber. */
+    if (!st && ri->hot_vent_c > 0 && in->temp_c >= ri->hot_vent_c && o->reagent_left_kg > 0 &&
         !o->warning[0])
         snprintf(o->warning, sizeof o->warning,
-                 "%.1f kg of unreacted SO2Cl2 at %.0f C, above its boiling point (about 69 C): "
-                 "it may leave with the vent gas (SO2Cl2 + 4 NaOH -> Na2SO4 + 2 NaCl + 2 H2O in "
-                 "caustic); the ledger keeps it in the reaction mass",
-                 o->reagent_left_kg, in->temp_c);
+                 "%.1f kg of unreacted %s at %.0f C, above its boiling point (about %.0f C): "
+                 "it may leave with the vent gas (%s); the ledger keeps it in the reaction mass",
+                 o->reagent_left_kg, ri->name, in->temp_c, ri->hot_vent_c, ri->hot_vent_note);
     return st;
 }
 

@@ -332,8 +332,8 @@ static enum hl_status run_thermal(const struct campaign *c, const struct camp_ru
         for (int s = 0; s < THERM_NSITE && !st; s++) {
             if (!(lr->therm.share[s] > 0))
                 continue;
-            if (r->reagent == RG_HBR)
-                snprintf(what, sizeof what, "Heat of radical HBr addition to a C=C (as propene)");
+            if (reagent_get(r->reagent)->kind == RK_ADDITION)
+                snprintf(what, sizeof what, "Heat of radical %s addition to a C=C (as propene)", rg);
             else
                 snprintf(what, sizeof what, "Heat of one %s substitution step, %s C-H", rg,
                          therm_site_name(s));
@@ -1433,7 +1433,7 @@ static enum hl_status close_warnings(struct ledger *l, struct hl_err *e)
         if (k->pct_defined)
             snprintf(share, sizeof share, " (%.1f %% of the %.1f kg drawn since the last count)",
                      fabs(k->unexplained_pct), k->drawn_kg);
-        if (k->unexplained_kg > 0 && (k->reagent == RG_CL2 || k->reagent == RG_HBR))
+        if (k->unexplained_kg > 0 && reagent_get(k->reagent)->toxic_gas)
             st = warn(l, e, NULL,
                       "stock check %s %s: %.1f kg unaccounted for%s: the book says %.1f kg, the count "
                       "%.1f kg. %s is a toxic gas: check containers, valves, lines and the scrubber "

@@ -25,33 +25,48 @@ static const struct reagent_info reagents[RG_COUNT] = {
     [RG_CL2] = {"Cl2", "Cl2", "chlorine", 2 * ELEM_W_CL, RK_SUBSTITUTION, EL_Cl,
                 1.0, VS_HCL, 0.0, 0.0,
                 /* unreacted chlorine leaves with the HCl to the scrubber */
-                VS_CL2, "gas (liquefied under pressure)", CA_CL2},
+                VS_CL2, "gas (liquefied under pressure)", CA_CL2,
+                RG_SITES_SP3, EL_Cl, NULL, 1, RB_CLCL, RB_HCL, 1, 0, NULL},
     [RG_BR2] = {"Br2", "Br2", "bromine", 2 * ELEM_W_BR, RK_SUBSTITUTION, EL_Br,
                 1.0, VS_HBR, 0.0, 0.0,
                 /* Br2 boils at 59 C (from memory) and is swept out with the HBr
                  * off-gas; counting it at the scrubber is the conservative choice
                  * for liquor sizing (common practice) */
-                VS_BR2, "liquid (fuming, bp about 59 C)", CA_BR2},
+                VS_BR2, "liquid (fuming, bp about 59 C)", CA_BR2,
+                RG_SITES_SP3, EL_Br, NULL, 0, RB_BRBR, RB_HBR, 0, 0, NULL},
     [RG_SO2CL2] = {"SO2Cl2", "Cl2O2S", "sulfuryl chloride", ELEM_W_S + 2 * ELEM_W_O + 2 * ELEM_W_CL,
                    RK_SUBSTITUTION, EL_Cl, 1.0, VS_HCL, 1.0, 0.0,
                    /* a liquid boiling at 69 C (from memory): what is not consumed
                     * stays in the reaction mass and must be quenched in work-up */
-                   -1, "liquid (bp about 69 C)", CA_SO2CL2},
+                   -1, "liquid (bp about 69 C)", CA_SO2CL2,
+                   RG_SITES_SP3, EL_Cl,
+                   "from memory: taken equal to Cl2 (Cl atoms carry the chain); SO2Cl radicals "
+                   "can make SO2Cl2 somewhat more selective",
+                   0, RB_SO2CL2, RB_HCL, 0,
+                   /* boils at about 69 C (from memory) */
+                   69.0, "SO2Cl2 + 4 NaOH -> Na2SO4 + 2 NaCl + 2 H2O in caustic"},
     [RG_NBS] = {"NBS", "C4H4BrNO2", "N-bromosuccinimide",
                 4 * ELEM_W_C + 4 * ELEM_W_H + ELEM_W_BR + ELEM_W_N + 2 * ELEM_W_O, RK_NBS, EL_Br,
                 /* the HBr of each abstraction step reacts with NBS to give the Br2
                  * that brominates: net RH + NBS -> RBr + succinimide, no HX vented */
                 0.0, -1, 0.0, 1.0,
                 /* a solid (succinimide and unreacted NBS are filtered off) */
-                -1, "solid", CA_NBS},
+                -1, "solid", CA_NBS,
+                /* Br atoms abstract the H in NBS brominations (Goldfinger mechanism) */
+                RG_SITES_ALLYL_BENZYL, EL_Br,
+                "Br2 values: Br atoms abstract the H in NBS brominations (Goldfinger mechanism; "
+                "common practice); Br2 value itself from memory",
+                0, RB_NBR, RB_NH, 0, 0, NULL},
     [RG_HBR] = {"HBr", "BrH", "hydrogen bromide", ELEM_W_H + ELEM_W_BR, RK_ADDITION, EL_Br,
                 /* the adduct takes the whole HBr: no acid gas formed */
                 0.0, -1, 0.0, 0.0,
                 /* excess HBr vents (design section 4) */
-                VS_HBR, "gas (liquefied under pressure)", CA_HBR},
+                VS_HBR, "gas (liquefied under pressure)", CA_HBR,
+                0, -1, NULL, 0, RB_HBR, RB_NONE, 1, 0, NULL},
     [RG_NAOH] = {"NaOH", "HNaO", "sodium hydroxide (scrubber caustic make-up)",
                  ELEM_W_NA + ELEM_W_O + ELEM_W_H, RK_CAUSTIC, -1, 0.0, -1, 0.0, 0.0, -1,
-                 "aqueous solution (caustic liquor)", CA_NAOH},
+                 "aqueous solution (caustic liquor)", CA_NAOH,
+                 0, -1, NULL, 0, RB_NONE, RB_NONE, 0, 0, NULL},
 };
 
 const struct reagent_info *reagent_get(int id)

@@ -34,52 +34,73 @@ static const char MB_CL[] = "Morrison & Boyd, Organic Chemistry (Cl atom, per H,
 static const char MB_BR[] = "Morrison & Boyd, Organic Chemistry (Br atom, per H, 127 C)";
 static const char MEM_CL[] = "from memory (rough estimate for Cl atom) - verify for the substrate";
 static const char MEM_BR[] = "from memory (rough estimate for Br atom) - verify for the substrate";
-static const char SO2CL2_SRC[] =
-    "from memory: taken equal to Cl2 (Cl atoms carry the chain); SO2Cl radicals can make "
-    "SO2Cl2 somewhat more selective";
-static const char NBS_SRC[] =
-    "Br2 values: Br atoms abstract the H in NBS brominations (Goldfinger mechanism; "
-    "common practice); Br2 value itself from memory";
 static const char HBR_SRC[] = "every non-aromatic C=C taken as equally reactive (common practice)";
+
+_Static_assert(RG_SITE(SITE_PRIMARY) == 1u && RG_SITE(SITE_ALLYLIC) == 0x10u &&
+                   RG_SITES_SP3 == ((1u << SITE_VINYL_ARYL) - 1) &&
+                   RG_SITES_ALLYL_BENZYL == (RG_SITE(SITE_BENZYLIC) | RG_SITE(SITE_ALLYLIC)),
+               "reagents.h site bits follow enum site_class");
+
+/* Per-H reactivities of the atom that abstracts the H, one row per atom; a reagent names its
+ * carrier in its row (reagents.c).  origin: the primary..tertiary values, origin_special:
+ * benzylic and allylic. */
+static const struct carrier_row {
+    int el;
+    double r[SITE_VINYL_ARYL], ref_temp_c;
+    const char *origin, *origin_special;
+} carriers[] = {
+    /* Morrison & Boyd: Cl atom at 25 C, primary : secondary : tertiary = 1 : 3.8 : 5.0;
+     * benzylic and allylic from memory */
+    {EL_Cl,
+     {[SITE_PRIMARY] = 1.0, [SITE_SECONDARY] = 3.8, [SITE_TERTIARY] = 5.0,
+      [SITE_BENZYLIC] = 1.3, [SITE_ALLYLIC] = 1.3},
+     25.0, MB_CL, MEM_CL},
+    /* Morrison & Boyd: Br atom at 127 C, 1 : 82 : 1600; benzylic and allylic from memory,
+     * order of magnitude only */
+    {EL_Br,
+     {[SITE_PRIMARY] = 1.0, [SITE_SECONDARY] = 82.0, [SITE_TERTIARY] = 1600.0,
+      [SITE_BENZYLIC] = 3.0e4, [SITE_ALLYLIC] = 3.0e4},
+     127.0, MB_BR, MEM_BR},
+};
+
+static const struct carrier_row *carrier_of(const struct reagent_info *ri)
+{
+    for (size_t i = 0; ri && i < sizeof carriers / sizeof carriers[0]; i++)
+        if (carriers[i].el == ri->carrier_el)
+            return &carriers[i];
+    return NULL;
+}
 
 static int halogen_of(int reagent)
 {
-    return (reagent == RG_CL2 || reagent == RG_SO2CL2) ? EL_Cl : EL_Br;
+    return reagent_get(reagent)->halogen_el;
+}
+
+static int is_addition(int reagent)
+{
+    return reagent_get(reagent)->kind == RK_ADDITION;
+}
+
+/* Does the reagent substitute H on carbons of site class cls? */
+static int attacks(int reagent, int cls)
+{
+    return cls >= 0 && cls < SITE_VINYL_ARYL && (reagent_get(reagent)->sites & RG_SITE(cls));
 }
 
 void sel_defaults(int reagent, struct sel_reactivity *r, const char **origin)
 {
     memset(r, 0, sizeof *r);
+    const struct reagent_info *ri = reagent_get(reagent);
+    const struct carrier_row *cr = carrier_of(ri);
     const char *o = "";
-    switch (reagent) {
-    case RG_CL2:
-    case RG_SO2CL2:
-        /* Morrison & Boyd: Cl atom at 25 C, primary : secondary : tertiary = 1 : 3.8 : 5.0 */
-        r->r[SITE_PRIMARY] = 1.0;
-        r->r[SITE_SECONDARY] = 3.8;
-        r->r[SITE_TERTIARY] = 5.0;
-        r->r[SITE_BENZYLIC] = 1.3; /* from memory */
-        r->r[SITE_ALLYLIC] = 1.3;  /* from memory */
-        r->ref_temp_c = 25.0;
-        o = reagent == RG_CL2 ? MB_CL : SO2CL2_SRC;
-        break;
-    case RG_BR2:
-    case RG_NBS:
-        /* Morrison & Boyd: Br atom at 127 C, 1 : 82 : 1600 */
-        r->r[SITE_PRIMARY] = 1.0;
-        r->r[SITE_SECONDARY] = 82.0;
-        r->r[SITE_TERTIARY] = 1600.0;
-        r->r[SITE_BENZYLIC] = 3.0e4; /* from memory, order of magnitude only */
-        r->r[SITE_ALLYLIC] = 3.0e4;  /* from memory, order of magnitude only */
-        r->ref_temp_c = 127.0;
-        o = reagent == RG_BR2 ? MB_BR : NBS_SRC;
-        break;
-    case RG_HBR:
+    if (cr) {
+        for (int c = 0; c < SITE_VINYL_ARYL; c++)
+            r->r[c] = cr->r[c];
+        r->ref_temp_c = cr->ref_temp_c;
+        o = ri->sel_origin ? ri->sel_origin : cr->origin;
+    } else if (ri && ri->kind == RK_ADDITION) {
         r->ref_temp_c = 25.0;
         o = HBR_SRC;
-        break;
-    default:
-        break;
     }
     if (origin)
         *origin = o;
@@ -87,16 +108,13 @@ void sel_defaults(int reagent, struct sel_reactivity *r, const char **origin)
 
 const char *sel_default_origin(int reagent, int c)
 {
-    if (c < 0 || c >= SITE_VINYL_ARYL)
+    const struct reagent_info *ri = reagent_get(reagent);
+    const struct carrier_row *cr = carrier_of(ri);
+    if (!cr || c < 0 || c >= SITE_VINYL_ARYL || !(ri->sites & RG_SITE(c)))
         return "";
-    int special = c == SITE_BENZYLIC || c == SITE_ALLYLIC;
-    switch (reagent) {
-    case RG_CL2: return special ? MEM_CL : MB_CL;
-    case RG_BR2: return special ? MEM_BR : MB_BR;
-    case RG_SO2CL2: return SO2CL2_SRC;
-    case RG_NBS: return special ? NBS_SRC : "";
-    default: return "";
-    }
+    if (ri->sel_origin)
+        return ri->sel_origin;
+    return c == SITE_BENZYLIC || c == SITE_ALLYLIC ? cr->origin_special : cr->origin;
 }
 
 double sel_scale_to_temp(double r_ref, double ref_temp_c, double temp_c)
@@ -260,10 +278,6 @@ static enum hl_status substitution(struct work *w, int reagent, const double *r_
 {
     struct smi_mol *m = &w->m;
     int x = halogen_of(reagent);
-    unsigned mask = reagent == RG_NBS ? (1u << SITE_BENZYLIC) | (1u << SITE_ALLYLIC)
-                                      : (1u << SITE_PRIMARY) | (1u << SITE_SECONDARY) |
-                                            (1u << SITE_TERTIARY) | (1u << SITE_BENZYLIC) |
-                                            (1u << SITE_ALLYLIC);
     enum hl_status st = HL_OK;
     for (int a = 0; a < m->natoms && !st; a++) {
         int s = w->sym[a];
@@ -271,7 +285,7 @@ static enum hl_status substitution(struct work *w, int reagent, const double *r_
             continue;
         w->seen[s] = 1;
         int cls = sites_class(m, a);
-        if (cls < 0 || !(mask & (1u << cls)))
+        if (!attacks(reagent, cls))
             continue;
         int size = 0;
         for (int b = 0; b < m->natoms; b++)
@@ -326,7 +340,7 @@ static enum hl_status over_structures(struct work *w, int reagent, struct sel_re
 {
     struct smi_mol *m = &w->m, p;
     enum hl_status st = HL_OK;
-    if (reagent == RG_HBR) {
+    if (is_addition(reagent)) {
         if (o->h0 < 2 || o->h0 > KIN_MAX_STEPS)
             return HL_OK;
         int bonds[KIN_MAX_STEPS], at[KIN_MAX_STEPS], n = 0;
@@ -348,9 +362,7 @@ static enum hl_status over_structures(struct work *w, int reagent, struct sel_re
     int only = -1;
     for (int a = 0; a < m->natoms; a++) {
         int cls = sites_class(m, a);
-        int reactive = cls >= 0 && cls != SITE_VINYL_ARYL &&
-                       (reagent != RG_NBS || cls == SITE_BENZYLIC || cls == SITE_ALLYLIC);
-        if (!reactive)
+        if (!attacks(reagent, cls))
             continue;
         if (only >= 0)
             return HL_OK;
@@ -377,11 +389,20 @@ static int cmp_frac_desc(const void *a, const void *b)
     return strcmp(x->smiles, y->smiles);
 }
 
-static enum hl_status predict(const char *smiles, const char *product_smiles, int reagent,
-                              double temp_c, const struct sel_reactivity *user, struct work *w,
-                              struct sel_result *o, struct hl_err *e)
+/* Reactivities in use for one prediction: reference values, their temperatures and
+ * origins, and the values at the run temperature (per site class). */
+struct react {
+    double r_ref[SITE_CLASS_COUNT], t_ref[SITE_CLASS_COUNT], r_t[SITE_CLASS_COUNT];
+    const char *orig[SITE_CLASS_COUNT];
+};
+
+/* Check the arguments, read the substrate, fill its formula, the reactivities and the
+ * symmetry classes (w->sym, w->seen allocated in w). */
+static enum hl_status predict_setup(const char *smiles, int reagent, double temp_c,
+                                    const struct sel_reactivity *user, struct work *w,
+                                    struct react *rx, struct sel_result *o, struct hl_err *e)
 {
-    if (reagent < RG_CL2 || reagent > RG_HBR)
+    if (reagent < 0 || reagent >= RG_CHARGEABLE)
         return input_err(e, "reagent", 0, "not a reactor reagent%s", "");
     if (!isfinite(temp_c) || temp_c <= -273.15)
         return input_err(e, "temp_c", 0, "temperature must be above absolute zero%s", "");
@@ -394,9 +415,7 @@ static enum hl_status predict(const char *smiles, const char *product_smiles, in
     struct smi_mol *m = &w->m;
     smiles_formula(m, &o->substrate);
     o->molar_mass_g_mol = formula_molar_mass_g_mol(&o->substrate);
-    double r_ref[SITE_CLASS_COUNT], t_ref[SITE_CLASS_COUNT], r_t[SITE_CLASS_COUNT];
-    const char *orig[SITE_CLASS_COUNT];
-    if ((st = reactivities(reagent, temp_c, user, r_ref, t_ref, r_t, orig, e)))
+    if ((st = reactivities(reagent, temp_c, user, rx->r_ref, rx->t_ref, rx->r_t, rx->orig, e)))
         return st;
     w->sym = hl_malloc((size_t)m->natoms * 2 * sizeof *w->sym);
     if (!w->sym)
@@ -404,25 +423,39 @@ static enum hl_status predict(const char *smiles, const char *product_smiles, in
     w->seen = w->sym + m->natoms;
     memset(w->seen, 0, (size_t)m->natoms * sizeof *w->seen);
     int ncls;
-    if ((st = sites_symmetry(m, w->sym, &ncls, e)))
+    return sites_symmetry(m, w->sym, &ncls, e);
+}
+
+/* The first-step candidates (addition or substitution); a substrate the reagent cannot
+ * attack is a bad input that says why. */
+static enum hl_status first_step(struct work *w, int reagent, const double *r_t,
+                                 struct sel_result *o, struct hl_err *e)
+{
+    const struct reagent_info *ri = reagent_get(reagent);
+    enum hl_status st = is_addition(reagent) ? hbr_addition(w, o, e)
+                                             : substitution(w, reagent, r_t, o, e);
+    if (st || w->nc)
         return st;
-    const char *rname = reagent_get(reagent)->name;
-    st = reagent == RG_HBR ? hbr_addition(w, o, e) : substitution(w, reagent, r_t, o, e);
-    if (st)
-        return st;
-    if (w->nc == 0) {
-        if (reagent == RG_HBR)
-            return input_err(e, "smiles", 0,
-                             "HBr adds to a non-aromatic C=C and this substrate has none%s", "");
-        if (reagent == RG_NBS)
-            return input_err(e, "smiles", 0,
-                             "NBS brominates allylic or benzylic C-H and this substrate has none%s",
-                             "");
-        return input_err(e, "smiles", 0,
-                         "%s has no sp3 C-H to abstract on this substrate (aryl and vinylic H are "
-                         "not substituted by the radical chain)", rname);
+    if (is_addition(reagent))
+        return input_err(e, "smiles", 0, "%s adds to a non-aromatic C=C and this substrate has none",
+                         ri->name);
+    if (ri->sites == RG_SITES_ALLYL_BENZYL) {
+        char msg[160];
+        snprintf(msg, sizeof msg, "%s %s allylic or benzylic C-H and this substrate has none%%s",
+                 ri->name, ri->halogen_el == EL_Cl ? "chlorinates" : "brominates");
+        return input_err(e, "smiles", 0, msg, "");
     }
-    /* shares */
+    return input_err(e, "smiles", 0,
+                     "%s has no sp3 C-H to abstract on this substrate (aryl and vinylic H are "
+                     "not substituted by the radical chain)", ri->name);
+}
+
+/* The isomers with their shares (largest first) and the mean per-H reactivity. */
+static enum hl_status shares(struct work *w, int reagent, const double *r_t, struct sel_result *o,
+                             struct hl_err *e)
+{
+    struct smi_mol *m = &w->m;
+    enum hl_status st;
     double sum_w = 0, sum_nr = 0;
     int sum_n = 0;
     for (int i = 0; i < w->nc; i++)
@@ -442,85 +475,96 @@ static enum hl_status predict(const char *smiles, const char *product_smiles, in
         s->r_per_h = w->cv[i].r;
     }
     qsort(o->iso, (size_t)o->niso, sizeof *o->iso, cmp_frac_desc);
-    /* mean per-H reactivity over the abstractable H (HBr: per C=C, 1) */
-    if (reagent == RG_HBR) {
+    /* mean per-H reactivity over the abstractable H (addition: per C=C, 1) */
+    if (is_addition(reagent)) {
         o->mean_r = 1.0;
-    } else {
-        for (int a = 0; a < m->natoms; a++) {
-            int cls = sites_class(m, a);
-            if (cls < 0 || cls == SITE_VINYL_ARYL ||
-                (reagent == RG_NBS && cls != SITE_BENZYLIC && cls != SITE_ALLYLIC))
-                continue;
-            sum_n += m->atoms[a].hcount;
-            sum_nr += m->atoms[a].hcount * r_t[cls];
-        }
-        o->mean_r = sum_nr / sum_n;
+        return HL_OK;
     }
-    /* wanted isomer */
+    for (int a = 0; a < m->natoms; a++) {
+        int cls = sites_class(m, a);
+        if (!attacks(reagent, cls))
+            continue;
+        sum_n += m->atoms[a].hcount;
+        sum_nr += m->atoms[a].hcount * r_t[cls];
+    }
+    o->mean_r = sum_nr / sum_n;
+    return HL_OK;
+}
+
+/* o->wanted: the isomer equal to product_smiles (a bad input when none is), else 0. */
+static enum hl_status find_wanted(const char *product_smiles, struct sel_result *o,
+                                  struct hl_err *e)
+{
     o->wanted = 0;
-    if (product_smiles) {
-        struct smi_mol pm;
-        st = smiles_parse(product_smiles, &pm, e);
-        if (st) {
+    if (!product_smiles)
+        return HL_OK;
+    struct smi_mol pm;
+    enum hl_status st = smiles_parse(product_smiles, &pm, e);
+    if (st) {
+        smiles_free(&pm);
+        if (st == HL_ERR_INPUT)
+            snprintf(e->field, sizeof e->field, "product_smiles");
+        return st;
+    }
+    int found = -1;
+    for (int i = 0; i < o->niso && found < 0; i++) {
+        struct smi_mol im;
+        if ((st = smiles_parse(o->iso[i].smiles, &im, e))) {
+            smiles_free(&im);
             smiles_free(&pm);
             if (st == HL_ERR_INPUT)
-                snprintf(e->field, sizeof e->field, "product_smiles");
+                st = hl_err_set(e, HL_ERR_INTERNAL, "written SMILES %s does not read back",
+                                o->iso[i].smiles);
             return st;
         }
-        int found = -1;
-        for (int i = 0; i < o->niso && found < 0; i++) {
-            struct smi_mol im;
-            if ((st = smiles_parse(o->iso[i].smiles, &im, e))) {
-                smiles_free(&im);
-                smiles_free(&pm);
-                if (st == HL_ERR_INPUT)
-                    st = hl_err_set(e, HL_ERR_INTERNAL, "written SMILES %s does not read back",
-                                    o->iso[i].smiles);
-                return st;
-            }
-            int same = sites_same(&im, &pm, e);
-            smiles_free(&im);
-            if (same < 0) {
-                smiles_free(&pm);
-                return e->status;
-            }
-            if (same)
-                found = i;
+        int same = sites_same(&im, &pm, e);
+        smiles_free(&im);
+        if (same < 0) {
+            smiles_free(&pm);
+            return e->status;
         }
-        smiles_free(&pm);
-        if (found < 0) {
-            char list[320] = "";
-            for (int i = 0; i < o->niso; i++) {
-                size_t n = strlen(list);
-                snprintf(list + n, sizeof list - n, "%s%s", i ? ", " : "", o->iso[i].smiles);
-            }
-            return input_err(e, "product_smiles", 0,
-                             "is not one of the predicted first-step products (%s)", list);
-        }
-        o->wanted = found;
+        if (same)
+            found = i;
     }
-    if ((st = over_structures(w, reagent, o, e)))
-        return st;
-    /* reactivity values used, for the Assumptions sheet */
+    smiles_free(&pm);
+    if (found < 0) {
+        char list[320] = "";
+        for (int i = 0; i < o->niso; i++) {
+            size_t n = strlen(list);
+            snprintf(list + n, sizeof list - n, "%s%s", i ? ", " : "", o->iso[i].smiles);
+        }
+        return input_err(e, "product_smiles", 0,
+                         "is not one of the predicted first-step products (%s)", list);
+    }
+    o->wanted = found;
+    return HL_OK;
+}
+
+/* The reactivity values used, for the Assumptions sheet. */
+static enum hl_status list_used(struct work *w, int reagent, double temp_c, const struct react *rx,
+                                struct sel_result *o, struct hl_err *e)
+{
+    struct smi_mol *m = &w->m;
+    const char *rname = reagent_get(reagent)->name;
+    enum hl_status st;
     char what[96];
-    if (reagent == RG_HBR) {
-        snprintf(what, sizeof what, "HBr addition, relative reactivity per C=C");
-        if ((st = add_used(o, &w->used_cap, what, 1.0, "relative, per C=C", HBR_SRC, e)))
-            return st;
+    if (is_addition(reagent)) {
+        snprintf(what, sizeof what, "%s addition, relative reactivity per C=C", rname);
+        return add_used(o, &w->used_cap, what, 1.0, "relative, per C=C", HBR_SRC, e);
     }
     int present[SITE_CLASS_COUNT] = {0};
     for (int i = 0; i < o->niso; i++)
         present[o->iso[i].site_class >= 0 ? o->iso[i].site_class : SITE_VINYL_ARYL] = 1;
-    for (int c = 0; reagent != RG_HBR && c < SITE_VINYL_ARYL; c++) {
+    for (int c = 0; c < SITE_VINYL_ARYL; c++) {
         if (!present[c])
             continue;
         snprintf(what, sizeof what, "%s per-H reactivity, %s, at %.4g C", rname, class_name[c],
-                 t_ref[c]);
-        if ((st = add_used(o, &w->used_cap, what, r_ref[c], "relative, per H", orig[c], e)))
+                 rx->t_ref[c]);
+        if ((st = add_used(o, &w->used_cap, what, rx->r_ref[c], "relative, per H", rx->orig[c], e)))
             return st;
         snprintf(what, sizeof what, "%s per-H reactivity, %s, at %.4g C (run)", rname,
                  class_name[c], temp_c);
-        if ((st = add_used(o, &w->used_cap, what, r_t[c], "relative, per H",
+        if ((st = add_used(o, &w->used_cap, what, rx->r_t[c], "relative, per H",
                            "r(T) = r(Tref)^(Tref/T), equal pre-exponential factors (assumption)", e)))
             return st;
     }
@@ -530,39 +574,64 @@ static enum hl_status predict(const char *smiles, const char *product_smiles, in
         shifted |= (cls == SITE_ALLYLIC || cls == SITE_BENZYLIC) &&
                    sites_allyl_partners(m, a, &pb, &pc, 1);
     }
-    if (shifted && reagent != RG_HBR) {
-        if ((st = add_used(o, &w->used_cap, "allylic radical: share of each terminus", 0.5, "fraction",
-                           "equal split between the radical termini (common practice assumption)",
-                           e)))
+    if (shifted)
+        return add_used(o, &w->used_cap, "allylic radical: share of each terminus", 0.5, "fraction",
+                        "equal split between the radical termini (common practice assumption)", e);
+    return HL_OK;
+}
+
+/* Methane with a reagent whose row takes the published Cl + CH4 .. CHCl3 ratios: the
+ * per-step rate ratios, listed as used, with a warning outside their temperature range. */
+static enum hl_status methane_ratios(struct work *w, int reagent, double temp_c,
+                                     const struct sel_reactivity *user, struct sel_result *o,
+                                     struct hl_err *e)
+{
+    struct smi_mol *m = &w->m;
+    if (!reagent_get(reagent)->methane_ratios || m->natoms != 1 || m->atoms[0].el != EL_C ||
+        m->atoms[0].hcount != 4 || m->atoms[0].charge || (user && (user->set_mask & SEL_OWN_RATIOS)))
+        return HL_OK;
+    double t_k = temp_c + 273.15, k0 = bsk_k(0, t_k);
+    int out = -1;
+    char what[96];
+    o->nratios = 4;
+    for (int i = 0; i < 4; i++) {
+        o->rate_ratios[i] = bsk_k(i, t_k) / k0;
+        if (out < 0 && (t_k < bsk[i].tmin_k || t_k > bsk[i].tmax_k))
+            out = i;
+        snprintf(what, sizeof what, "%s rate constant / Cl + CH4 at %.4g C", bsk[i].what, temp_c);
+        enum hl_status st = add_used(o, &w->used_cap, what, o->rate_ratios[i],
+                                     "ratio of rate constants", BSK_SRC, e);
+        if (st)
             return st;
     }
-    /* methane + Cl2: published per-step ratios */
-    if (reagent == RG_CL2 && m->natoms == 1 && m->atoms[0].el == EL_C && m->atoms[0].hcount == 4 &&
-        !m->atoms[0].charge && !(user && (user->set_mask & SEL_OWN_RATIOS))) {
-        double t_k = temp_c + 273.15, k0 = bsk_k(0, t_k);
-        int out = -1;
-        o->nratios = 4;
-        for (int i = 0; i < 4; i++) {
-            o->rate_ratios[i] = bsk_k(i, t_k) / k0;
-            if (out < 0 && (t_k < bsk[i].tmin_k || t_k > bsk[i].tmax_k))
-                out = i;
-            snprintf(what, sizeof what, "%s rate constant / Cl + CH4 at %.4g C", bsk[i].what, temp_c);
-            if ((st = add_used(o, &w->used_cap, what, o->rate_ratios[i], "ratio of rate constants",
-                                BSK_SRC, e)))
-                return st;
-        }
-        if (out >= 0) {
-            char msg[200];
-            snprintf(msg, sizeof msg,
-                     "%.4g C (%.2f K) is outside the %.0f-%.0f K range of the %s rate expression "
-                     "(Bryukov et al. 2002); rate ratios extrapolated",
-                     temp_c, t_k, bsk[out].tmin_k, bsk[out].tmax_k, bsk[out].what);
-            warn(o, msg);
-        }
+    if (out >= 0) {
+        char msg[200];
+        snprintf(msg, sizeof msg,
+                 "%.4g C (%.2f K) is outside the %.0f-%.0f K range of the %s rate expression "
+                 "(Bryukov et al. 2002); rate ratios extrapolated",
+                 temp_c, t_k, bsk[out].tmin_k, bsk[out].tmax_k, bsk[out].what);
+        warn(o, msg);
     }
-    if ((reagent == RG_CL2 || reagent == RG_BR2 || reagent == RG_SO2CL2)) {
-        for (int bd = 0; bd < m->nbonds; bd++)
-            if (sites_is_cc_double(m, bd)) {
+    return HL_OK;
+}
+
+/* The whole prediction, step by step (each step's contract above it). */
+static enum hl_status predict(const char *smiles, const char *product_smiles, int reagent,
+                              double temp_c, const struct sel_reactivity *user, struct work *w,
+                              struct sel_result *o, struct hl_err *e)
+{
+    struct react rx;
+    enum hl_status st;
+    if ((st = predict_setup(smiles, reagent, temp_c, user, w, &rx, o, e)) ||
+        (st = first_step(w, reagent, rx.r_t, o, e)) || (st = shares(w, reagent, rx.r_t, o, e)) ||
+        (st = find_wanted(product_smiles, o, e)) || (st = over_structures(w, reagent, o, e)) ||
+        (st = list_used(w, reagent, temp_c, &rx, o, e)) ||
+        (st = methane_ratios(w, reagent, temp_c, user, o, e)))
+        return st;
+    /* a substituting halogen also adds to a C=C, which the model leaves out */
+    if (reagent_get(reagent)->kind == RK_SUBSTITUTION) {
+        for (int bd = 0; bd < w->m.nbonds; bd++)
+            if (sites_is_cc_double(&w->m, bd)) {
                 warn(o, "substrate has a C=C: halogen addition to the double bond is not modelled");
                 break;
             }

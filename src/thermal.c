@@ -8,6 +8,7 @@
 #include <stdio.h>
 #include <string.h>
 
+#include "elements.h"
 #include "reagents.h"
 
 /*
@@ -28,15 +29,18 @@ static const struct bde D_CCL[THERM_NSITE] = {
     {350.2, 0.8}, {354.8, 0.8}, {356.5, 1.7}, {355.2, 2.5}, {309.6, 4.0}, {298.3, 4.0}};
 static const struct bde D_CBR[THERM_NSITE] = {
     {294.1, 1.3}, {293.3, 1.7}, {298.7, 1.7}, {292.9, 2.1}, {254.8, 4.0}, {242.0, 4.0}};
-static const struct bde D_CLCL = {242.6, 0.1}, D_BRBR = {192.8, 0.1};
-static const struct bde D_HCL = {431.6, 0.1}, D_HBR = {366.3, 0.2};
-/* SO2Cl2(g) -> SO2(g) + 2 Cl(g), both S-Cl bonds and the relaxation of the SO2 left:
- * 2 x 121.68 - 296.83 + 364.0 from the NBS tables of formation enthalpies (Wagman et al.,
- * J. Phys. Chem. Ref. Data 11, Suppl. 2, 1982), from memory. */
-static const struct bde D_SO2CL2 = {310.5, 2.0};
-/* N-Br of N-bromosuccinimide and N-H of succinimide (Luo 2007, from memory; gas phase,
- * wider uncertainty: NBS and succinimide are solids, their lattice terms are left out). */
-static const struct bde D_NBR = {280.0, 8.0}, D_NH = {460.0, 8.0};
+/* The bonds of the reagents (enum reagent_bond, named in each reagent's row). */
+static const struct bde D_BOND[RB_COUNT] = {
+    [RB_CLCL] = {242.6, 0.1}, [RB_BRBR] = {192.8, 0.1}, [RB_HCL] = {431.6, 0.1},
+    [RB_HBR] = {366.3, 0.2},
+    /* SO2Cl2(g) -> SO2(g) + 2 Cl(g), both S-Cl bonds and the relaxation of the SO2 left:
+     * 2 x 121.68 - 296.83 + 364.0 from the NBS tables of formation enthalpies (Wagman et al.,
+     * J. Phys. Chem. Ref. Data 11, Suppl. 2, 1982), from memory. */
+    [RB_SO2CL2] = {310.5, 2.0},
+    /* N-Br of N-bromosuccinimide and N-H of succinimide (Luo 2007, from memory; gas phase,
+     * wider uncertainty: NBS and succinimide are solids, their lattice terms are left out). */
+    [RB_NBR] = {280.0, 8.0}, [RB_NH] = {460.0, 8.0},
+};
 /* Thermochemical pi bond of ethylene: D(C2H5-H) - D(H-CH2CH2*) = 423.0 - 151.4 (Blanksby &
  * Ellison 2003 values, from memory). Every C=C is taken as a terminal alkene CH2=CHR: Br on
  * the CH2 (primary C-Br), H on the CH (secondary C-H), as for propene. */
@@ -59,43 +63,45 @@ const char *therm_site_name(int site)
     return site >= 0 && site < THERM_NSITE ? n[site] : "?";
 }
 
+static int is_addition(int reagent)
+{
+    const struct reagent_info *ri = reagent_get(reagent);
+    return ri && ri->kind == RK_ADDITION;
+}
+
 const char *therm_step_name(int reagent, int site)
 {
-    return reagent == RG_HBR ? "C=C" : therm_site_name(site);
+    return is_addition(reagent) ? "C=C" : therm_site_name(site);
+}
+
+/* The site class of reagents.h (enum site_class bit) a thermal site row stands for. */
+static unsigned site_bit(int site)
+{
+    static const unsigned bit[THERM_NSITE] = {
+        [THERM_METHYL] = 1u << 0, [THERM_PRIMARY] = 1u << 0, [THERM_SECONDARY] = 1u << 1,
+        [THERM_TERTIARY] = 1u << 2, [THERM_BENZYLIC] = 1u << 3, [THERM_ALLYLIC] = 1u << 4};
+    return bit[site];
 }
 
 int therm_step_dh(int reagent, int site, double *dh_kj_mol, double *unc_kj_mol)
 {
+    const struct reagent_info *ri = reagent_get(reagent);
     double dh, u;
-    if (reagent == RG_HBR) {
-        dh = D_HBR.v + E_PI.v - D_CH[THERM_SECONDARY].v - D_CBR[THERM_PRIMARY].v;
-        u = D_HBR.u + E_PI.u + D_CH[THERM_SECONDARY].u + D_CBR[THERM_PRIMARY].u;
+    if (!ri || ri->bond_x == RB_NONE)
+        return -1;
+    const struct bde *bx = &D_BOND[ri->bond_x];
+    if (ri->kind == RK_ADDITION) {
+        /* H-X + pi bond broken; C-H (secondary) and C-X (primary) formed, as for propene */
+        const struct bde *cx = ri->halogen_el == EL_Cl ? D_CCL : D_CBR;
+        dh = bx->v + E_PI.v - D_CH[THERM_SECONDARY].v - cx[THERM_PRIMARY].v;
+        u = bx->u + E_PI.u + D_CH[THERM_SECONDARY].u + cx[THERM_PRIMARY].u;
     } else {
-        if (site < 0 || site >= THERM_NSITE)
+        if (site < 0 || site >= THERM_NSITE || !(ri->sites & site_bit(site)) || ri->bond_h == RB_NONE)
             return -1;
-        const struct bde *rh = &D_CH[site];
-        switch (reagent) {
-        case RG_CL2:
-            dh = rh->v + D_CLCL.v - D_CCL[site].v - D_HCL.v;
-            u = rh->u + D_CLCL.u + D_CCL[site].u + D_HCL.u;
-            break;
-        case RG_BR2:
-            dh = rh->v + D_BRBR.v - D_CBR[site].v - D_HBR.v;
-            u = rh->u + D_BRBR.u + D_CBR[site].u + D_HBR.u;
-            break;
-        case RG_SO2CL2:
-            dh = rh->v + D_SO2CL2.v - D_CCL[site].v - D_HCL.v;
-            u = rh->u + D_SO2CL2.u + D_CCL[site].u + D_HCL.u;
-            break;
-        case RG_NBS:
-            if (site != THERM_BENZYLIC && site != THERM_ALLYLIC)
-                return -1;
-            dh = rh->v + D_NBR.v - D_CBR[site].v - D_NH.v;
-            u = rh->u + D_NBR.u + D_CBR[site].u + D_NH.u;
-            break;
-        default:
-            return -1;
-        }
+        const struct bde *rh = &D_CH[site], *bh = &D_BOND[ri->bond_h];
+        const struct bde *cx = ri->halogen_el == EL_Cl ? &D_CCL[site] : &D_CBR[site];
+        dh = rh->v + bx->v - cx->v - bh->v;
+        u = rh->u + bx->u + cx->u + bh->u;
     }
     *dh_kj_mol = dh;
     if (unc_kj_mol)
@@ -146,7 +152,7 @@ void therm_compute(const struct therm_in *in, struct therm_out *out)
     double sum = 0;
     for (int s = 0; s < THERM_NSITE; s++)
         sum += in->share[s] > 0 ? in->share[s] : 0;
-    if (in->reagent == RG_HBR) {
+    if (is_addition(in->reagent)) {
         /* one value for every C=C; share kept on the primary row (the C-Br formed) */
         out->share[THERM_PRIMARY] = 1;
     } else if (sum > 0) {
@@ -154,7 +160,11 @@ void therm_compute(const struct therm_in *in, struct therm_out *out)
             out->share[s] = in->share[s] > 0 ? in->share[s] / sum : 0;
     } else {
         out->site_assumed = 1;
-        out->share[in->reagent == RG_NBS ? THERM_BENZYLIC : THERM_SECONDARY] = 1;
+        /* a formula-only substrate: a secondary C-H, or benzylic for a reagent that attacks
+         * no secondary C-H (design section 4) */
+        const struct reagent_info *ri = reagent_get(in->reagent);
+        out->share[ri && ri->sites && !(ri->sites & site_bit(THERM_SECONDARY)) ? THERM_BENZYLIC
+                                                                  : THERM_SECONDARY] = 1;
     }
     for (int s = 0; s < THERM_NSITE; s++) {
         double dh, u;

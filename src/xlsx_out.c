@@ -1960,7 +1960,7 @@ static void row_check(struct xw *w, struct xtable *b, lxw_row_t row, int i)
     if (c->pct_defined)
         xt_num(w, b, row, k, c->unexplained_pct);
     k++;
-    int leak = c->flagged && c->unexplained_kg > 0 && (c->reagent == RG_CL2 || c->reagent == RG_HBR);
+    int leak = c->flagged && c->unexplained_kg > 0 && reagent_get(c->reagent)->toxic_gas;
     xt_raise(w, b, row, k++, c->flagged, leak ? "CHECK FOR LEAK" : "OUTSIDE TOLERANCE");
 }
 
