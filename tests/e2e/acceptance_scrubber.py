@@ -72,9 +72,12 @@ def run(args):
 def report(camp_path, out, extra=()):
     p = run(["report", camp_path, "-o", out] + list(extra))
     led = None
-    if p.returncode in (0, 3) and os.path.exists(out):
-        with open(out) as f:
-            led = json.load(f)
+    if p.returncode in (0, 3):
+        # a run that reports success must leave its ledger: the checks guarded by "if led" below
+        # would otherwise vanish without a failure
+        if check(os.path.exists(out), f"report {os.path.basename(camp_path)}: exit {p.returncode} but no {out}"):
+            with open(out) as f:
+                led = json.load(f)
     return p, led
 
 
@@ -598,13 +601,12 @@ def main():
         p, led = report(big, out, ["--today", "2027-02-28"])
         check(p.returncode == 0, f"--today 2027-02-28 exit {p.returncode}")
         if led:
-            check(not any(o.get("late") for o in led["orders"]), "--today 2027-02-28: an order is late (order-by 2027-02-28 is today)")
+            check(all(o["late"] is False for o in led["orders"]), "--today 2027-02-28: an order is late (order-by 2027-02-28 is today)")
         p, led = report(big, out, ["--today", "2027-03-01"])
         check(p.returncode == 0, f"--today 2027-03-01 exit {p.returncode}")
         if led:
-            late = {(o["month"], o["reagent"]) for o in led["orders"] if o.get("late")}
-            if any("late" in o for o in led["orders"]):
-                check(late == {("2027-03", "Cl2")}, f"--today 2027-03-01: late orders {sorted(late)} != March Cl2 only")
+            late = {(o["month"], o["reagent"]) for o in led["orders"] if o["late"] is True}
+            check(late == {("2027-03", "Cl2")}, f"--today 2027-03-01: late orders {sorted(late)} != March Cl2 only")
             check(any("Cl2" in w["message"] and "late" in w["message"].lower() for w in led["warnings"]),
                   f"--today 2027-03-01: no late-order warning: {led['warnings']}")
             check(led.get("today", "2027-03-01").startswith("2027-03-01"), f"ledger today {led.get('today')}")

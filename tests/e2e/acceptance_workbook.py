@@ -241,7 +241,7 @@ def check_cautions(tag, wb, camp, led):
     cl2_to_caustic = False
     for r in led["runs"]:
         for g in ("HCl", "HBr", "Cl2", "Br2", "SO2"):
-            if r["vent"].get(g + "_mol", 0) > 0:
+            if r["vent"][g + "_mol"] > 0:  # every gas key is in every run's vent (design section 5)
                 vented.add(g)
                 if g == "Cl2" and r.get("scrubber_id"):
                     cl2_to_caustic = True

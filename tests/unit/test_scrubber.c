@@ -939,10 +939,7 @@ static void sulfite_meets_hypochlorite(void)
     c[0].vent_mol[VS_BR2] = 500;
     CU_ASSERT_EQUAL(go(&u, 1, c, 2, ro, &uo), HL_OK);
     ASSERT_REL(ro[1].sulfite_oxidised_mol, 600, 1e-12);
-    ASSERT_REL(ro[1].heat_kj, 600 * scrub_heat_kj_per_mol(VS_SO2, 0) +
-                              200 * scrub_sulfite_redox_kj_per_mol(SALT_NAOCL) +
-                              400 * scrub_sulfite_redox_kj_per_mol(SALT_NAOBR), 1e-12);
-    /* by hand from the NBS 1982 values (H_SO2 etc. above) */
+    /* by hand from the NBS 1982 values (H_SO2 etc. above), not from the program's heats */
     ASSERT_REL(ro[1].heat_kj, 600 * H_SO2 + 200 * H_REDOX_CL + 400 * H_REDOX_BR, 1e-9);
     CU_ASSERT_EQUAL(uo.nspent, 1);
     if (uo.nspent == 1) {
@@ -1096,7 +1093,9 @@ static void water_liquor_hbr(void)
     ASSERT_REL(scrub_hbr_acid_density_kg_m3(48), 1490, 0.01);
     ASSERT_ABS(scrub_acid_density_kg_m3(10, 0), scrub_hcl_acid_density_kg_m3(10), 1e-9);
     /* cp: with no HBr the HCl table itself; HBr at equal mole fraction lowers cp per kg */
-    ASSERT_ABS(scrub_acid_cp_kj_kg_k(16.8, 0), scrub_hcl_acid_cp_kj_kg_k(16.8), 0);
+    /* Perry's 0.72 cal/(g K) at 9.09 mol % = 16.83 wt % HCl (from memory, worked out in
+     * properties() above): 3.012 kJ/(kg K) */
+    ASSERT_ABS(scrub_acid_cp_kj_kg_k(16.83, 0), 3.012, 0.01);
     CU_ASSERT(scrub_acid_cp_kj_kg_k(0, 20) < 4.18 && scrub_acid_cp_kj_kg_k(0, 20) > 2.5);
 }
 
@@ -1139,8 +1138,11 @@ static void boiling_liquor(void)
     CU_ASSERT_EQUAL_FATAL(go(&c, 1, &r, 1, &ro, &uo), HL_OK);
     ASSERT_ABS(ro.naoh_wt_pct_after, 5.409, 1e-3);
     ASSERT_ABS(ro.liquor_temp_c_after, 122.4, 0.1);
-    ASSERT_ABS(ro.boiling_point_c, scrub_naoh_boiling_point_c(ro.naoh_wt_pct_after), 0);
-    CU_ASSERT(ro.boiling_point_c > 100 && ro.boiling_point_c < 103);
+    /* dilute-solution limit (ebullioscopy): 5.409 g NaOH in 94.591 g water is b = 1.4297
+     * mol/kg; dT = i Kb b = 2 x 0.513 x 1.4297 = 1.467 K (Kb of water 0.513 K kg/mol, CRC
+     * Handbook); 0.2 K covers the osmotic coefficient of NaOH near 1.4 mol/kg (0.9-1.05, from
+     * memory) */
+    ASSERT_ABS(ro.boiling_point_c, 100 + 1.467, 0.2);
     CU_ASSERT_EQUAL(ro.boils, 1);
     scrub_unit_out_free(&uo, 1);
 }

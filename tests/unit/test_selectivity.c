@@ -22,6 +22,8 @@ static int predict(const char *smi, int rg, double t, const struct sel_reactivit
     enum hl_status st = sel_predict(smi, want, rg, t, u, r, &e);
     if (st)
         printf("\n  sel_predict(%s): %s: %s", smi, e.field, e.msg);
+    /* asserted here, so every "if (predict(...))" below has a failing branch */
+    CU_ASSERT_EQUAL(st, HL_OK);
     return st == HL_OK;
 }
 

@@ -16,6 +16,7 @@ static int load(const char *s, struct smi_mol *m)
     int ok = smiles_parse(s, m, &e) == HL_OK;
     if (!ok)
         printf("\n  '%s': %s", s, e.msg);
+    CU_ASSERT(ok); /* so every "if (load(...))" below has a failing branch */
     return ok;
 }
 
@@ -68,8 +69,10 @@ static void symmetry(void)
     struct smi_mol m;
     struct hl_err e;
     int cls[8], n;
-    if (load("CC(C)(C)C", &m) && sites_symmetry(&m, cls, &n, &e) == HL_OK) {
-        CU_ASSERT(cls[0] == cls[2] && cls[0] == cls[3] && cls[0] == cls[4] && cls[0] != cls[1]);
+    if (load("CC(C)(C)C", &m)) {
+        enum hl_status st = sites_symmetry(&m, cls, &n, &e);
+        CU_ASSERT_EQUAL(st, HL_OK);
+        CU_ASSERT(st == HL_OK && cls[0] == cls[2] && cls[0] == cls[3] && cls[0] == cls[4] && cls[0] != cls[1]);
     }
     smiles_free(&m);
 }
