@@ -16,7 +16,7 @@ export HALOLEDGER="$ABS_BUILD/haloledger"
 export HL_WRAP="${HL_WRAP:-}"
 export HL_ROOT="$(pwd)"
 export PYTHON=/usr/bin/python3
-HL_REQUIRED=${HL_REQUIRED:-"libreoffice_recalc.py fuzz_regress.sh rdkit_chem.py rdkit_formula.py writers_readback.py acceptance_workbook.py"}
+HL_REQUIRED=${HL_REQUIRED:-"libreoffice_recalc.py fuzz_regress.sh rdkit_chem.py rdkit_formula.py writers_readback.py acceptance_workbook.py header_codes.py"}
 case "${CI:-}" in ''|0|false|no) in_ci=0 ;; *) in_ci=1 ;; esac
 pass=0; fail=0; skip=0
 start=$(date +%s)

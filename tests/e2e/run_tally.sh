@@ -59,6 +59,13 @@ expect 0 "0 passed, 0 failed, 2 skipped" PATH="$tmp/bin" CI= -- \
 expect 1 "0 passed, 2 failed, 0 skipped" PATH="$tmp/bin" CI=true -- \
     tests/e2e/libreoffice_recalc.py tests/e2e/fuzz_regress.sh
 
+# an openpyxl comparison with openpyxl out of reach (a package of that name that refuses to
+# import, first on PYTHONPATH): SKIPPED outside CI, a failure under CI
+mkdir -p "$tmp/hide/openpyxl"
+echo 'raise ImportError("hidden by run_tally.sh")' >"$tmp/hide/openpyxl/__init__.py"
+expect 0 "0 passed, 0 failed, 1 skipped" PYTHONPATH="$tmp/hide" CI= -- tests/e2e/header_codes.py
+expect 1 "0 passed, 1 failed, 0 skipped" PYTHONPATH="$tmp/hide" CI=true -- tests/e2e/header_codes.py
+
 if [ $bad -gt 0 ]; then
     echo "run_tally: $bad of $n runs of tests/run.sh gave the wrong tally"
     exit 1
