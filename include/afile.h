@@ -12,7 +12,7 @@
 #include <stddef.h>
 #include "hlerr.h"
 
-/* Largest input afile_read accepts: the campaign reader's own limit (campaign.c MAX_FILE). */
+/* Largest input afile_read accepts: the campaign reader's own limit (jsonpos.h JPOS_MAX_FILE). */
 #define AFILE_READ_MAX ((size_t)1 << 30)
 
 /* Read the whole file at path into *buf (NUL-terminated, hl_free) and its length into

@@ -1,23 +1,17 @@
 /*
- * campaign.c - strict reader of the campaign file (see campaign.h).
+ * campaign.c - the campaign schema (see campaign.h): which keys each object takes, their
+ * ranges and defaults, the checks between values, repeat expansion, dates, CSV schedules.
  *
- * Two linear passes over the text.  A small scanner of our own checks the
- * JSON syntax (RFC 8259), UTF-8 (RFC 3629), escapes and nesting depth, and
- * records for every value, in document order, its byte offset and line:column
- * and those of its key: cJSON keeps no positions and gives no messages.
- * cJSON then builds the tree.  Its nodes are created in the same document
- * (pre-)order, so the i-th node of a pre-order walk is the i-th value the
- * scanner saw; the index is stored in the node's valueint, which this reader
- * never reads otherwise (numbers come from valuedouble: valueint saturates).
- * Line and column are counted while scanning (newlines can only occur in
- * whitespace), so no position ever costs a rescan; only the strings the models
- * may blame (SMILES, formula) are walked once more, to map their escapes.
+ * Reading is in three parts: jsonpos.c checks the JSON text and gives the tree with the
+ * line:column of every value, validate.c reads one value at a time with its messages, and
+ * this file says what a campaign is.  The runs array is read one element at a time (each
+ * its own small tree, design section 7); only the strings the models may blame (SMILES,
+ * formula) are walked once more, to map their escapes.
  */
 #include "campaign.h"
 #include "afile.h"
 
 #include <cjson/cJSON.h>
-#include <errno.h>
 #include <math.h>
 #include <stdarg.h>
 #include <stdio.h>
@@ -26,723 +20,13 @@
 
 #include "hlmem.h"
 #include "isodate.h"
+#include "jsonpos.h"
 #include "reagents.h"
 #include "sched.h"
+#include "validate.h"
 
-#define MAX_DEPTH 64          /* far below cJSON's compiled-in 1000 */
-#define MAX_TEXT 32767        /* longest string a workbook cell holds */
 #define MAX_ID 100            /* ids are short labels */
 #define MAX_RUNS 1000000      /* expanded runs; design section 7 plans for 1e5 a year */
-#define MAX_FILE (1u << 30)   /* keeps value counts inside int (valueint) */
-#define MAX_NUMBER_CHARS 63   /* cJSON copies at most 63 characters of a number */
-
-/* ------------------------------------------------------------------ */
-/* Pass 1: scanner                                                     */
-/* ------------------------------------------------------------------ */
-
-struct vpos { size_t off; int line, col, kline, kcol; };
-
-/* One element of the top-level runs array: its bytes [off, end) and where it starts. */
-struct vspan { size_t off, end; int line, col; };
-
-struct frame { int is_obj; size_t key_off, key_len; long index; int has; };
-
-struct scan {
-    const char *t; size_t n, i;
-    int line; size_t lstart;
-    struct vpos *v; size_t nv, cap;
-    struct frame fr[MAX_DEPTH + 1]; int depth;
-    const char *prefix, *doc;
-    struct hl_err *e;
-    /* The campaign's runs are read one at a time (each its own small tree), so the whole
-     * file never stands as one tree: the first top-level "runs" array, when streams is
-     * set, records its elements' spans in el[] and none of the values inside them. */
-    int streams, norec;
-    size_t run_vi;              /* value index of that array, SIZE_MAX when none */
-    size_t run_open, run_close; /* offsets of its [ and ] */
-    struct vspan *el; size_t nel, elcap;
-};
-
-/* Append printable bytes of s[0..n) to buf (controls shown as '?'). */
-static void put_clean(char *buf, size_t cap, size_t *k, const char *s, size_t n)
-{
-    for (size_t j = 0; j < n && *k + 1 < cap; j++) {
-        unsigned char ch = (unsigned char)s[j];
-        buf[(*k)++] = (ch < 0x20 || ch == 0x7f) ? '?' : (char)ch;
-    }
-    buf[*k] = '\0';
-}
-
-/* Field path: prefix ("" or "catalog") + components; "$" for the top of a campaign. */
-static void finish_field(char *out, size_t cap, const char *prefix, const char *path)
-{
-    size_t k = 0;
-    /* top-level arrays (never valid, but reported) read "$[0]" */
-    const char *parts[3] = {prefix, (!prefix[0] && path[0] != '.') ? "$" : "",
-                            path + (!prefix[0] && path[0] == '.')};
-    for (int j = 0; j < 3; j++)
-        for (const char *p = parts[j]; *p && k + 1 < cap; p++)
-            out[k++] = *p;
-    out[k] = '\0';
-}
-
-static void scan_path(const struct scan *s, char *out, size_t cap)
-{
-    char p[512];
-    size_t k = 0;
-    p[0] = '\0';
-    for (int d = 0; d < s->depth; d++) {
-        const struct frame *f = &s->fr[d];
-        if (!f->has)
-            continue;
-        if (f->is_obj) {
-            if (k + 1 < sizeof p)
-                p[k++] = '.';
-            if (f->key_len)
-                put_clean(p, sizeof p, &k, s->t + f->key_off, f->key_len);
-            else
-                put_clean(p, sizeof p, &k, "\"\"", 2); /* an empty key shows as "" */
-        } else {
-            int w = snprintf(p + k, sizeof p - k, "[%ld]", f->index);
-            if (w > 0)
-                k = k + (size_t)w < sizeof p ? k + (size_t)w : sizeof p - 1;
-        }
-    }
-    p[k] = '\0';
-    finish_field(out, cap, s->prefix, p);
-}
-
-static enum hl_status serr(struct scan *s, size_t at, const char *fmt, ...)
-    __attribute__((format(printf, 3, 4)));
-static enum hl_status serr(struct scan *s, size_t at, const char *fmt, ...)
-{
-    char msg[480], field[160];
-    va_list ap;
-    va_start(ap, fmt);
-    vsnprintf(msg, sizeof msg, fmt, ap);
-    va_end(ap);
-    scan_path(s, field, sizeof field);
-    int col = at >= s->lstart ? (int)(at - s->lstart + 1) : 1;
-    return hl_err_at(s->e, HL_ERR_INPUT, s->line, col, field, "%s", msg);
-}
-
-static void skip_ws(struct scan *s)
-{
-    while (s->i < s->n) {
-        char c = s->t[s->i];
-        if (c == ' ' || c == '\t' || c == '\r') {
-            s->i++;
-        } else if (c == '\n') {
-            s->i++;
-            s->line++;
-            s->lstart = s->i;
-        } else {
-            break;
-        }
-    }
-}
-
-static const char *describe_byte(unsigned char c, char *buf, size_t n)
-{
-    if (c == '\'')
-        snprintf(buf, n, "a single quote");
-    else if (c >= 0x21 && c < 0x7f)
-        snprintf(buf, n, "'%c'", c);
-    else
-        snprintf(buf, n, "byte 0x%02X", c);
-    return buf;
-}
-
-/* Length of a valid UTF-8 sequence at p (RFC 3629 table 4), 0 if invalid. */
-static int utf8_len(const unsigned char *p, size_t avail)
-{
-    unsigned char c = p[0];
-    int n;
-    unsigned char lo = 0x80, hi = 0xBF;
-    if (c < 0x80)
-        return 1;
-    if (c >= 0xC2 && c <= 0xDF) n = 2;
-    else if (c == 0xE0) { n = 3; lo = 0xA0; }
-    else if (c >= 0xE1 && c <= 0xEC) n = 3;
-    else if (c == 0xED) { n = 3; hi = 0x9F; }
-    else if (c >= 0xEE && c <= 0xEF) n = 3;
-    else if (c == 0xF0) { n = 4; lo = 0x90; }
-    else if (c >= 0xF1 && c <= 0xF3) n = 4;
-    else if (c == 0xF4) { n = 4; hi = 0x8F; }
-    else return 0;
-    if ((size_t)n > avail)
-        return 0;
-    if (p[1] < lo || p[1] > hi)
-        return 0;
-    for (int k = 2; k < n; k++)
-        if (p[k] < 0x80 || p[k] > 0xBF)
-            return 0;
-    return n;
-}
-
-static int hex4(const char *p, size_t avail, unsigned *cp)
-{
-    unsigned v = 0;
-    if (avail < 4)
-        return -1;
-    for (int k = 0; k < 4; k++) {
-        char c = p[k];
-        v <<= 4;
-        if (c >= '0' && c <= '9') v |= (unsigned)(c - '0');
-        else if (c >= 'a' && c <= 'f') v |= (unsigned)(c - 'a' + 10);
-        else if (c >= 'A' && c <= 'F') v |= (unsigned)(c - 'A' + 10);
-        else return -1;
-    }
-    *cp = v;
-    return 0;
-}
-
-/* Scan a string starting at the opening quote; is_key only changes the wording. */
-static enum hl_status scan_string(struct scan *s, int is_key)
-{
-    size_t start = s->i;
-    const char *what = is_key ? "key" : "string";
-    s->i++;
-    for (;;) {
-        if (s->i >= s->n)
-            return serr(s, s->n, "unexpected end of file inside a %s (opened at %d:%zu)", what,
-                        s->line, start - s->lstart + 1);
-        unsigned char c = (unsigned char)s->t[s->i];
-        if (c == '"') {
-            s->i++;
-            return HL_OK;
-        }
-        if (c == '\\') {
-            if (s->i + 1 >= s->n)
-                return serr(s, s->n, "unexpected end of file inside a %s (opened at %d:%zu)", what,
-                            s->line, start - s->lstart + 1);
-            char x = s->t[s->i + 1];
-            if (strchr("\"\\/bfnrt", x) && x) {
-                s->i += 2;
-                continue;
-            }
-            if (x != 'u')
-                return serr(s, s->i, "invalid escape '\\%c' in a %s", (x >= 0x21 && x < 0x7f) ? x : '?',
-                            what);
-            unsigned cp, lo;
-            if (hex4(s->t + s->i + 2, s->n - s->i - 2, &cp))
-                return serr(s, s->i, "invalid \\u escape in a %s (four hex digits expected)", what);
-            if (cp == 0)
-                return serr(s, s->i, "\\u0000 (NUL) is not allowed in a %s", what);
-            if (cp >= 0xDC00 && cp <= 0xDFFF)
-                return serr(s, s->i, "unpaired surrogate \\u%04X in a %s", cp, what);
-            if (cp >= 0xD800 && cp <= 0xDBFF) {
-                size_t j = s->i + 6;
-                if (j + 1 >= s->n || s->t[j] != '\\' || s->t[j + 1] != 'u' ||
-                    hex4(s->t + j + 2, s->n - j - 2, &lo) || lo < 0xDC00 || lo > 0xDFFF)
-                    return serr(s, s->i, "unpaired surrogate \\u%04X in a %s", cp, what);
-                s->i += 12;
-            } else {
-                s->i += 6;
-            }
-            continue;
-        }
-        if (c < 0x20) {
-            if (c == '\n' || c == '\r')
-                return serr(s, s->i, "%s not closed before the end of the line", what);
-            return serr(s, s->i, "unescaped control character 0x%02X in a %s", c, what);
-        }
-        int k = utf8_len((const unsigned char *)s->t + s->i, s->n - s->i);
-        if (!k)
-            return serr(s, start, "invalid UTF-8 in a %s (byte 0x%02X at byte %zu of it)", what, c,
-                        s->i - start);
-        s->i += (size_t)k;
-    }
-}
-
-static int is_digit(char c) { return c >= '0' && c <= '9'; }
-
-/* RFC 8259 number grammar; cJSON is laxer (it takes 01, 1., .5), so we check first. */
-static enum hl_status scan_number(struct scan *s)
-{
-    size_t st = s->i, j = s->i;
-    const char *t = s->t;
-    size_t n = s->n;
-    if (j < n && t[j] == '-')
-        j++;
-    if (j >= n || !is_digit(t[j]))
-        goto bad;
-    if (t[j] == '0') {
-        j++;
-    } else {
-        while (j < n && is_digit(t[j]))
-            j++;
-    }
-    if (j < n && t[j] == '.') {
-        j++;
-        if (j >= n || !is_digit(t[j]))
-            goto bad;
-        while (j < n && is_digit(t[j]))
-            j++;
-    }
-    if (j < n && (t[j] == 'e' || t[j] == 'E')) {
-        j++;
-        if (j < n && (t[j] == '+' || t[j] == '-'))
-            j++;
-        if (j >= n || !is_digit(t[j]))
-            goto bad;
-        while (j < n && is_digit(t[j]))
-            j++;
-    }
-    if (j < n && (is_digit(t[j]) || t[j] == '.' || t[j] == 'e' || t[j] == 'E' || t[j] == '+' ||
-                  t[j] == '-' || (t[j] >= 'a' && t[j] <= 'z') || (t[j] >= 'A' && t[j] <= 'Z')))
-        goto bad;
-    if (j - st > MAX_NUMBER_CHARS)
-        return serr(s, st, "number too long (more than %d characters)", MAX_NUMBER_CHARS);
-    s->i = j;
-    return HL_OK;
-bad:
-    return serr(s, st, "invalid number (JSON numbers look like 12, -0.5 or 1.5e3)");
-}
-
-static enum hl_status record(struct scan *s, int kline, int kcol)
-{
-    if (s->norec)
-        return HL_OK;
-    if (s->nv == s->cap) {
-        size_t nc = s->cap ? s->cap * 2 : 64;
-        struct vpos *nvp = hl_realloc(s->v, nc * sizeof *nvp);
-        if (!nvp)
-            return hl_err_set(s->e, HL_ERR_NOMEM, "out of memory reading the %s", s->doc);
-        s->v = nvp;
-        s->cap = nc;
-    }
-    struct vpos *p = &s->v[s->nv++];
-    p->off = s->i;
-    p->line = s->line;
-    p->col = (int)(s->i - s->lstart + 1);
-    p->kline = kline;
-    p->kcol = kcol;
-    return HL_OK;
-}
-
-static enum hl_status scan_value(struct scan *s, int kline, int kcol);
-
-/* Append the span of the runs element starting at s->i. */
-static enum hl_status add_span(struct scan *s)
-{
-    if (s->nel == s->elcap) {
-        size_t nc = s->elcap ? s->elcap * 2 : 64;
-        struct vspan *ne = hl_realloc(s->el, nc * sizeof *ne);
-        if (!ne)
-            return hl_err_set(s->e, HL_ERR_NOMEM, "out of memory reading the %s", s->doc);
-        s->el = ne;
-        s->elcap = nc;
-    }
-    s->el[s->nel++] = (struct vspan){s->i, s->i, s->line, (int)(s->i - s->lstart + 1)};
-    return HL_OK;
-}
-
-static enum hl_status scan_container(struct scan *s, int is_obj)
-{
-    /* the runs array: the top-level object's first "runs" member, when it is an array */
-    int runs = s->streams && !is_obj && s->depth == 1 && s->fr[0].is_obj && s->fr[0].key_len == 4 &&
-               !memcmp(s->t + s->fr[0].key_off, "runs", 4) && s->run_vi == (size_t)-1 && !s->norec;
-    if (runs) {
-        s->run_vi = s->nv - 1;
-        s->run_open = s->i;
-    }
-    int open_line = s->line, open_col = (int)(s->i - s->lstart + 1);
-    char close = is_obj ? '}' : ']';
-    if (s->depth >= MAX_DEPTH)
-        return serr(s, s->i, "nesting deeper than %d levels", MAX_DEPTH);
-    struct frame *f = &s->fr[s->depth++];
-    memset(f, 0, sizeof *f);
-    f->is_obj = is_obj;
-    s->i++;
-    skip_ws(s);
-    if (s->i < s->n && s->t[s->i] == close) {
-        if (runs)
-            s->run_close = s->i;
-        s->i++;
-        s->depth--;
-        return HL_OK;
-    }
-    for (long idx = 0;; idx++) {
-        enum hl_status st;
-        int kl = 0, kc = 0;
-        if (s->i >= s->n)
-            goto eof;
-        if (is_obj) {
-            if (s->t[s->i] != '"') {
-                char b[24];
-                if (s->t[s->i] == '}' && idx > 0)
-                    return serr(s, s->i, "trailing comma before '}'");
-                return serr(s, s->i, "expected a key in double quotes, found %s",
-                            describe_byte((unsigned char)s->t[s->i], b, sizeof b));
-            }
-            size_t ks = s->i;
-            kl = s->line;
-            kc = (int)(s->i - s->lstart + 1);
-            f->has = 0;
-            if ((st = scan_string(s, 1)))
-                return st;
-            f->key_off = ks + 1;
-            f->key_len = s->i - ks - 2;
-            f->has = 1;
-            skip_ws(s);
-            if (s->i >= s->n)
-                goto eof;
-            if (s->t[s->i] != ':') {
-                char b[24];
-                return serr(s, s->i, "expected ':' after the key, found %s",
-                            describe_byte((unsigned char)s->t[s->i], b, sizeof b));
-            }
-            s->i++;
-            skip_ws(s);
-        } else {
-            f->index = idx;
-            f->has = 1;
-            if (s->t[s->i] == ']')
-                return serr(s, s->i, "trailing comma before ']'");
-        }
-        if (runs && (st = add_span(s)))
-            return st;
-        s->norec += runs;
-        st = scan_value(s, kl, kc);
-        s->norec -= runs;
-        if (st)
-            return st;
-        if (runs)
-            s->el[s->nel - 1].end = s->i;
-        skip_ws(s);
-        if (s->i >= s->n)
-            goto eof;
-        if (s->t[s->i] == ',') {
-            s->i++;
-            skip_ws(s);
-            continue;
-        }
-        if (s->t[s->i] == close) {
-            if (runs)
-                s->run_close = s->i;
-            s->i++;
-            s->depth--;
-            return HL_OK;
-        }
-        char b[24];
-        return serr(s, s->i, "expected ',' or '%c', found %s", close,
-                    describe_byte((unsigned char)s->t[s->i], b, sizeof b));
-    }
-eof:
-    return serr(s, s->n, "unexpected end of file (the %s opened at %d:%d is not closed)",
-                is_obj ? "object" : "array", open_line, open_col);
-}
-
-static enum hl_status scan_value(struct scan *s, int kline, int kcol)
-{
-    enum hl_status st;
-    if (s->i >= s->n)
-        return serr(s, s->n, "unexpected end of file (a value is missing)");
-    if ((st = record(s, kline, kcol)))
-        return st;
-    char c = s->t[s->i];
-    switch (c) {
-    case '{': return scan_container(s, 1);
-    case '[': return scan_container(s, 0);
-    case '"': return scan_string(s, 0);
-    case 't': case 'f': case 'n': {
-        const char *w = c == 't' ? "true" : c == 'f' ? "false" : "null";
-        size_t L = strlen(w);
-        if (s->n - s->i >= L && memcmp(s->t + s->i, w, L) == 0) {
-            s->i += L;
-            return HL_OK;
-        }
-        return serr(s, s->i, "unexpected word (strings need double quotes)");
-    }
-    default:
-        if (c == '-' || is_digit(c))
-            return scan_number(s);
-        if ((c >= 'a' && c <= 'z') || (c >= 'A' && c <= 'Z'))
-            return serr(s, s->i, "unexpected word (strings need double quotes)");
-        {
-            char b[24];
-            return serr(s, s->i, "expected a value, found %s%s",
-                        describe_byte((unsigned char)c, b, sizeof b),
-                        c == '\'' ? " (strings need double quotes)" : "");
-        }
-    }
-}
-
-/* Scan the whole text; on success *skip is the byte-order-mark length. */
-static enum hl_status scan_all(struct scan *s, size_t *skip)
-{
-    s->line = 1;
-    s->lstart = 0;
-    *skip = 0;
-    if (s->n >= 3 && memcmp(s->t, "\xEF\xBB\xBF", 3) == 0)
-        *skip = s->i = 3; /* RFC 8259 section 8.1 lets a parser ignore a byte order mark */
-    skip_ws(s);
-    if (s->i >= s->n)
-        return serr(s, s->n, "unexpected end of file (the %s is empty)", s->doc);
-    enum hl_status st = scan_value(s, 0, 0);
-    if (st)
-        return st;
-    skip_ws(s);
-    if (s->i < s->n)
-        return serr(s, s->i, "trailing characters after the %s", s->doc);
-    return HL_OK;
-}
-
-/* ------------------------------------------------------------------ */
-/* Pass 2: cJSON tree with positions, then validation                   */
-/* ------------------------------------------------------------------ */
-
-static int assign_index(cJSON *node, size_t *k, size_t nv)
-{
-    for (; node; node = node->next) {
-        if (*k >= nv)
-            return -1;
-        node->valueint = (int)(*k)++;
-        if (node->child && assign_index(node->child, k, nv))
-            return -1;
-    }
-    return 0;
-}
-
-struct doc {
-    struct vpos *v; size_t nv;
-    cJSON *root;
-    /* the streamed runs array (doc_parse with streams): its node has no children in the
-     * tree; its elements are parsed one by one from el[] (doc_parse_span) */
-    size_t run_vi;              /* value index of the array, SIZE_MAX when none */
-    struct vspan *el; size_t nel;
-};
-
-static void doc_free(struct doc *d)
-{
-    hl_free(d->v);
-    hl_free(d->el);
-    cJSON_Delete(d->root);
-    memset(d, 0, sizeof *d);
-    d->run_vi = (size_t)-1;
-}
-
-/* Tree and position table of the text (streams: the top-level runs array's elements
- * kept as spans only, see struct scan). */
-static enum hl_status doc_parse(const char *text, size_t len, const char *prefix, const char *docname,
-                                int streams, struct doc *d, struct hl_err *e)
-{
-    memset(d, 0, sizeof *d);
-    d->run_vi = (size_t)-1;
-    if (len > MAX_FILE)
-        return hl_err_at(e, HL_ERR_INPUT, 1, 1, prefix[0] ? prefix : "$",
-                         "the %s is larger than %u bytes", docname, MAX_FILE);
-    struct scan s;
-    memset(&s, 0, sizeof s);
-    s.t = text;
-    s.n = len;
-    s.prefix = prefix;
-    s.doc = docname;
-    s.e = e;
-    s.streams = streams;
-    s.run_vi = (size_t)-1;
-    size_t skip;
-    enum hl_status st = scan_all(&s, &skip);
-    if (st) {
-        hl_free(s.v);
-        hl_free(s.el);
-        return st;
-    }
-    char *copy = hl_malloc(len + 1);
-    if (!copy) {
-        hl_free(s.v);
-        hl_free(s.el);
-        return hl_err_set(e, HL_ERR_NOMEM, "out of memory reading the %s", docname);
-    }
-    memcpy(copy, text, len);
-    copy[len] = '\0';
-    /* the runs become an empty array in the tree: blank between its brackets */
-    if (s.run_vi != (size_t)-1 && s.run_close > s.run_open)
-        memset(copy + s.run_open + 1, ' ', s.run_close - s.run_open - 1);
-    const char *end = NULL;
-    d->root = cJSON_ParseWithOpts(copy + skip, &end, 1);
-    hl_free(copy);
-    d->v = s.v;
-    d->nv = s.nv;
-    d->run_vi = s.run_vi;
-    d->el = s.el;
-    d->nel = s.nel;
-    if (!d->root) {
-        /* The scanner accepted the text and is stricter than cJSON, so a refusal here
-         * is an allocation failure inside cJSON. */
-        doc_free(d);
-        return hl_err_set(e, HL_ERR_NOMEM, "out of memory reading the %s", docname);
-    }
-    size_t k = 0;
-    if (assign_index(d->root, &k, d->nv) || k != d->nv) {
-        doc_free(d);
-        return hl_err_set(e, HL_ERR_INTERNAL, "position table out of step with the JSON tree");
-    }
-    return HL_OK;
-}
-
-/* Tree and positions of one runs element sp of text (already checked by doc_parse's
- * scan): the same scanner from the element's own line and column, cJSON on its bytes.
- * The tables of d are reused from element to element (d->v grows to the largest). */
-static enum hl_status doc_parse_span(const char *text, const struct vspan *sp, size_t *cap,
-                                     struct doc *d, struct hl_err *e)
-{
-    cJSON_Delete(d->root);
-    d->root = NULL;
-    struct scan s;
-    memset(&s, 0, sizeof s);
-    s.t = text;
-    s.n = sp->end;
-    s.i = sp->off;
-    s.line = sp->line;
-    s.lstart = sp->off - (size_t)(sp->col - 1);
-    s.v = d->v;
-    s.cap = *cap;
-    s.prefix = "";
-    s.doc = "campaign";
-    s.e = e;
-    s.run_vi = (size_t)-1;
-    enum hl_status st = scan_value(&s, 0, 0);
-    d->v = s.v;
-    *cap = s.cap;
-    d->nv = s.nv;
-    if (st)
-        return st;
-    d->root = cJSON_ParseWithLengthOpts(text + sp->off, sp->end - sp->off, NULL, 0);
-    if (!d->root)
-        return hl_err_set(e, HL_ERR_NOMEM, "out of memory reading the campaign");
-    size_t k = 0;
-    if (assign_index(d->root, &k, d->nv) || k != d->nv)
-        return hl_err_set(e, HL_ERR_INTERNAL, "position table out of step with the JSON tree");
-    return HL_OK;
-}
-
-struct vctx {
-    const struct doc *d;
-    const char *text;
-    const char *prefix;
-    char path[256];
-    size_t plen;
-    struct hl_err *e;
-    int csv;        /* the values are cells of a CSV schedule (sched.h), not JSON text */
-};
-
-static size_t push_key(struct vctx *c, const char *k)
-{
-    size_t old = c->plen;
-    size_t n = c->plen;
-    if (n + 1 < sizeof c->path)
-        c->path[n++] = '.';
-    if (k[0])
-        put_clean(c->path, sizeof c->path, &n, k, strlen(k));
-    else
-        put_clean(c->path, sizeof c->path, &n, "\"\"", 2);
-    c->plen = n;
-    return old;
-}
-
-static size_t push_index(struct vctx *c, long i)
-{
-    size_t old = c->plen;
-    int w = snprintf(c->path + c->plen, sizeof c->path - c->plen, "[%ld]", i);
-    if (w > 0)
-        c->plen = c->plen + (size_t)w < sizeof c->path ? c->plen + (size_t)w : sizeof c->path - 1;
-    return old;
-}
-
-static void pop(struct vctx *c, size_t old)
-{
-    c->plen = old;
-    c->path[old] = '\0';
-}
-
-static const struct vpos *vp(const struct vctx *c, const cJSON *n)
-{
-    if (!n || n->valueint < 0 || (size_t)n->valueint >= c->d->nv)
-        return NULL;
-    return &c->d->v[n->valueint];
-}
-
-static struct camp_pos pos_of(const struct vctx *c, const cJSON *n)
-{
-    const struct vpos *p = vp(c, n);
-    struct camp_pos r = {p ? p->line : 0, p ? p->col : 0};
-    return r;
-}
-
-/* Escape map of the string value n (see struct camp_strpos).  The scanner has
- * checked the string, so the raw text can be walked without bounds doubts up to its
- * closing quote; only the three strings the models blame are mapped, once each. */
-static enum hl_status esc_map(struct vctx *c, const cJSON *n, struct camp_strpos *sp)
-{
-    const struct vpos *p = vp(c, n);
-    sp->pos = pos_of(c, n);
-    sp->nesc = 0;
-    sp->esc = NULL;
-    if (!p)
-        return HL_OK;
-    if (c->csv) {
-        /* a CSV cell: unquoted, its text starts at the cell (so the "quote" is the byte
-         * before); quoted, a doubled quote inside is one character from two bytes */
-        const char *t = c->text + p->off;
-        if (*t != '"') {
-            sp->pos.col -= 1;
-            return HL_OK;
-        }
-        for (int pass = 0; pass < 2; pass++) {
-            int k = 0, dec = 0;
-            for (t = c->text + p->off + 1; !(t[0] == '"' && t[1] != '"'); t++, dec++)
-                if (t[0] == '"') {
-                    if (pass)
-                        sp->esc[k] = (struct camp_esc){dec, 1, 2};
-                    k++;
-                    t++;
-                }
-            if (pass || !k)
-                break;
-            if (!(sp->esc = hl_malloc((size_t)k * sizeof *sp->esc)))
-                return hl_err_set(c->e, HL_ERR_NOMEM, "out of memory reading the campaign");
-            sp->nesc = k;
-        }
-        return HL_OK;
-    }
-    for (int pass = 0; pass < 2; pass++) {
-        /* pass 0 counts, pass 1 fills an array of exactly that size */
-        int k = 0, dec = 0;
-        const char *t = c->text + p->off + 1;
-        while (*t != '"') {
-            if (*t != '\\') {
-                t++;
-                dec++;
-                continue;
-            }
-            int raw = 2, d = 1;
-            if (t[1] == 'u') {
-                unsigned cp = 0;
-                hex4(t + 2, 4, &cp);
-                raw = 6;
-                d = cp < 0x80 ? 1 : cp < 0x800 ? 2 : 3;
-                if (cp >= 0xD800 && cp <= 0xDBFF) { /* a pair: one 4-byte character */
-                    raw = 12;
-                    d = 4;
-                }
-            }
-            if (pass)
-                sp->esc[k] = (struct camp_esc){dec, (unsigned char)d, (unsigned char)raw};
-            k++;
-            dec += d;
-            t += raw;
-        }
-        if (pass || !k)
-            break;
-        sp->esc = hl_malloc((size_t)k * sizeof *sp->esc);
-        if (!sp->esc)
-            return hl_err_set(c->e, HL_ERR_NOMEM, "out of memory reading the campaign");
-        sp->nesc = k;
-    }
-    return HL_OK;
-}
 
 int camp_string_col(const struct camp_strpos *p, int k)
 {
@@ -760,355 +44,17 @@ int camp_string_col(const struct camp_strpos *p, int k)
     return p->pos.col + k + extra;
 }
 
-static enum hl_status verr(struct vctx *c, const cJSON *n, int at_key, const char *fmt, ...)
-    __attribute__((format(printf, 4, 5)));
-static enum hl_status verr(struct vctx *c, const cJSON *n, int at_key, const char *fmt, ...)
-{
-    char msg[480], field[160];
-    va_list ap;
-    va_start(ap, fmt);
-    vsnprintf(msg, sizeof msg, fmt, ap);
-    va_end(ap);
-    finish_field(field, sizeof field, c->prefix, c->path);
-    const struct vpos *p = vp(c, n);
-    int line = 0, col = 0;
-    if (p) {
-        line = at_key && p->kline ? p->kline : p->line;
-        col = at_key && p->kline ? p->kcol : p->col;
-    }
-    return hl_err_at(c->e, HL_ERR_INPUT, line, col, field, "%s", msg);
-}
-
-static const char *tname(const cJSON *n)
-{
-    if (cJSON_IsObject(n)) return "an object";
-    if (cJSON_IsArray(n)) return "an array";
-    if (cJSON_IsString(n)) return "a string";
-    if (cJSON_IsNumber(n)) return "a number";
-    if (cJSON_IsBool(n)) return "a boolean";
-    if (cJSON_IsNull(n)) return "null";
-    return "an unknown value";
-}
-
-/* Collect the members of obj into slot[] by key; unknown and duplicate keys are errors. */
-static enum hl_status members(struct vctx *c, const cJSON *obj, const char *const *names, int n,
-                              const cJSON **slot)
-{
-    if (!cJSON_IsObject(obj))
-        return verr(c, obj, 0, "must be an object (got %s)", tname(obj));
-    for (int k = 0; k < n; k++)
-        slot[k] = NULL;
-    for (const cJSON *m = obj->child; m; m = m->next) {
-        int k = 0;
-        while (k < n && strcmp(names[k], m->string) != 0)
-            k++;
-        if (k == n) {
-            push_key(c, m->string);
-            const char *near = hl_nearest(m->string, names, n, 0);
-            if (near)
-                return verr(c, m, 1, "unknown key (did you mean '%s'?)", near);
-            char list[400];
-            size_t L = 0;
-            list[0] = '\0';
-            for (int j = 0; j < n && L + 1 < sizeof list; j++) {
-                int w = snprintf(list + L, sizeof list - L, "%s%s", j ? ", " : "", names[j]);
-                if (w > 0)
-                    L = L + (size_t)w < sizeof list ? L + (size_t)w : sizeof list - 1;
-            }
-            return verr(c, m, 1, "unknown key (known keys here: %s)", list);
-        }
-        if (slot[k]) {
-            const struct vpos *p = vp(c, slot[k]);
-            push_key(c, m->string);
-            return verr(c, m, 1, "duplicate key (first given at %d:%d)", p ? p->kline : 0,
-                        p ? p->kcol : 0);
-        }
-        slot[k] = m;
-    }
-    return HL_OK;
-}
-
-static enum hl_status missing(struct vctx *c, const cJSON *obj, const char *key, const char *what)
-{
-    push_key(c, key);
-    return verr(c, obj, 0, "missing%s%s", what ? ": " : " (required)", what ? what : "");
-}
-
-/* An accepted range.  Every lower bound of a quantity the models divide by or scale with
- * is a physical floor, not 0 (issue 16.2: 1e-308 made "inf" downstream); `why` says what
- * the floor stands for, and `lo_text` shows it where a decimal would read badly (1/60 h). */
-struct rng { double lo, hi; int lo_open, hi_open; const char *why, *lo_text; };
-
-/* Raw text of a number value, for messages (1e400 is shown as written, not as inf). */
-static void raw_number(const struct vctx *c, const cJSON *n, char *buf, size_t cap)
-{
-    const struct vpos *p = vp(c, n);
-    size_t k = 0;
-    if (p)
-        for (const char *s = c->text + p->off + (c->csv && c->text[p->off] == '"'); k + 1 < cap && *s && strchr("+-.0123456789eE", *s); s++)
-            buf[k++] = *s;
-    buf[k] = '\0';
-}
-
-static enum hl_status get_num(struct vctx *c, const cJSON *m, struct rng r, double *out)
-{
-    size_t old = push_key(c, m->string);
-    if (!cJSON_IsNumber(m))
-        return verr(c, m, 0, "must be a number (got %s)", tname(m));
-    double x = m->valuedouble;
-    if (!isfinite(x)) {
-        char raw[72];
-        raw_number(c, m, raw, sizeof raw);
-        return verr(c, m, 0, "must be a finite number (got %s)", raw);
-    }
-    if (r.lo_open ? !(x > r.lo) : !(x >= r.lo)) {
-        char lo[40];
-        if (r.lo_text)
-            snprintf(lo, sizeof lo, "%s", r.lo_text);
-        else
-            snprintf(lo, sizeof lo, "%.15g", r.lo);
-        return verr(c, m, 0, "must be %s %s (got %.15g)%s%s", r.lo_open ? ">" : ">=", lo, x,
-                    r.why ? ": " : "", r.why ? r.why : "");
-    }
-    if (r.hi_open ? !(x < r.hi) : !(x <= r.hi))
-        return verr(c, m, 0, "must be %s %.15g (got %.15g)", r.hi_open ? "<" : "<=", r.hi, x);
-    *out = x;
-    pop(c, old);
-    return HL_OK;
-}
-
-static enum hl_status get_int(struct vctx *c, const cJSON *m, long lo, long hi, long *out)
-{
-    double x;
-    struct rng r = {(double)lo, (double)hi, 0, 0, NULL, NULL};
-    enum hl_status st = get_num(c, m, r, &x);
-    if (st)
-        return st;
-    if (x != floor(x)) {
-        push_key(c, m->string);
-        return verr(c, m, 0, "must be a whole number (got %.15g)", x);
-    }
-    *out = (long)x;
-    return HL_OK;
-}
-
-enum { T_NONEMPTY = 1, T_TEXT = 2 };
-
-/* A string; T_TEXT refuses control characters (it reaches a workbook cell). */
-static enum hl_status get_str(struct vctx *c, const cJSON *m, int flags, size_t maxlen, const char **out)
-{
-    size_t old = push_key(c, m->string);
-    if (!cJSON_IsString(m) || !m->valuestring)
-        return verr(c, m, 0, "must be a string (got %s)", tname(m));
-    const unsigned char *s = (const unsigned char *)m->valuestring;
-    size_t len = strlen(m->valuestring);
-    if (len > maxlen)
-        return verr(c, m, 0, "too long (%zu bytes; at most %zu)", len, maxlen);
-    if ((flags & T_NONEMPTY) && len == 0)
-        return verr(c, m, 0, "must not be empty");
-    if (flags & T_TEXT)
-        for (size_t j = 0; j < len; j++) {
-            unsigned cp = 0;
-            if (s[j] < 0x20 || s[j] == 0x7f)
-                cp = s[j];
-            else if (s[j] == 0xC2 && j + 1 < len && s[j + 1] >= 0x80 && s[j + 1] <= 0x9F)
-                cp = s[j + 1];
-            else if (s[j] == 0xEF && j + 2 < len && s[j + 1] == 0xBF && s[j + 2] >= 0xBE)
-                /* U+FFFE, U+FFFF: outside XML 1.0's Char production (section 2.2), so a workbook
-                 * holding them is not well-formed; the scanner already refuses surrogates */
-                return verr(c, m, 0, "contains the noncharacter U+%04X at byte %zu (XML 1.0 forbids "
-                            "it, so no workbook can hold it)", 0xFFFEu + (s[j + 2] - 0xBEu), j + 1);
-            else
-                continue;
-            return verr(c, m, 0, "contains the control character U+%04X at byte %zu "
-                        "(not allowed in text that reaches the workbook)", cp, j + 1);
-        }
-    *out = m->valuestring;
-    pop(c, old);
-    return HL_OK;
-}
-
-static enum hl_status dup_str(struct vctx *c, const cJSON *m, int flags, size_t maxlen, char **out)
-{
-    const char *s;
-    enum hl_status st = get_str(c, m, flags, maxlen, &s);
-    if (st)
-        return st;
-    char *d = hl_strdup(s);
-    if (!d)
-        return hl_err_set(c->e, HL_ERR_NOMEM, "out of memory reading the campaign");
-    hl_free(*out);
-    *out = d;
-    return HL_OK;
-}
-
-/* Short printable quote of a user string for messages. */
-static void quote(const char *s, char *buf, size_t cap)
-{
-    size_t k = 0, n = strlen(s);
-    size_t show = n > 40 ? 40 : n;
-    put_clean(buf, cap, &k, s, show);
-    if (n > show && k + 4 < cap) {
-        memcpy(buf + k, "...", 4);
-    }
-}
-
-static enum hl_status get_enum(struct vctx *c, const cJSON *m, const char *const *names, int n, int *out)
-{
-    const char *s;
-    enum hl_status st = get_str(c, m, 0, MAX_TEXT, &s);
-    if (st)
-        return st;
-    for (int k = 0; k < n; k++)
-        if (strcmp(s, names[k]) == 0) {
-            *out = k;
-            return HL_OK;
-        }
-    char q[64];
-    quote(s, q, sizeof q);
-    push_key(c, m->string);
-    if (n == 2)
-        return verr(c, m, 0, "must be \"%s\" or \"%s\" (got \"%s\")", names[0], names[1], q);
-    return verr(c, m, 0, "unknown value \"%s\"", q);
-}
-
-static enum hl_status get_date(struct vctx *c, const cJSON *m, int64_t *out)
-{
-    const char *s;
-    enum hl_status st = get_str(c, m, T_TEXT, 64, &s);
-    if (st)
-        return st;
-    int bad = 0;
-    if (isodate_parse(s, out, &bad) == 0)
-        return HL_OK;
-    char q[64];
-    quote(s, q, sizeof q);
-    push_key(c, m->string);
-    return verr(c, m, 0, "\"%s\" is not a valid ISO 8601 date (YYYY-MM-DD or YYYY-MM-DDTHH:MM); "
-                "wrong at character %d", q, bad + 1);
-}
-
-/* Reagent by its campaign spelling; unknown names get the nearest known one. */
-static enum hl_status get_reagent(struct vctx *c, const cJSON *m, int allow_naoh, int *out)
-{
-    const char *s;
-    enum hl_status st = get_str(c, m, T_TEXT, MAX_TEXT, &s);
-    if (st)
-        return st;
-    int id = reagent_lookup(s);
-    char q[64];
-    quote(s, q, sizeof q);
-    if (id >= 0 && id < RG_COUNT && (allow_naoh || id < RG_CHARGEABLE)) {
-        *out = id;
-        return HL_OK;
-    }
-    push_key(c, m->string);
-    if (id >= 0)
-        return verr(c, m, 0, "\"%s\" cannot be charged to a reactor (it is the scrubber make-up)", q);
-    const char *names[RG_COUNT];
-    int nn = 0;
-    char list[200];
-    size_t L = 0;
-    list[0] = '\0';
-    for (int k = 0; k < RG_COUNT; k++) {
-        const struct reagent_info *ri = reagent_get(k);
-        if (!ri || (!allow_naoh && k >= RG_CHARGEABLE))
-            continue;
-        names[nn++] = ri->name;
-        int w = snprintf(list + L, sizeof list - L, "%s%s", L ? ", " : "", ri->name);
-        if (w > 0)
-            L = L + (size_t)w < sizeof list ? L + (size_t)w : sizeof list - 1;
-    }
-    const char *near = hl_nearest(s, names, nn, 1);
-    if (near)
-        return verr(c, m, 0, "unknown reagent \"%s\" (did you mean \"%s\"?)", q, near);
-    return verr(c, m, 0, "unknown reagent \"%s\" (known: %s)", q, list);
-}
-
-static enum hl_status check_array(struct vctx *c, const cJSON *m, int nonempty)
-{
-    size_t old = push_key(c, m->string);
-    if (!cJSON_IsArray(m))
-        return verr(c, m, 0, "must be an array (got %s)", tname(m));
-    if (nonempty && !m->child && !((size_t)m->valueint == c->d->run_vi && c->d->nel > 0))
-        return verr(c, m, 0, "must not be empty");
-    pop(c, old);
-    return HL_OK;
-}
-
-/* ---- string hash set (ids), open addressing, FNV-1a ---- */
-struct idset { const char **key; int *val; size_t cap, n; };
-
-static uint64_t fnv1a(const char *s)
-{
-    uint64_t h = 1469598103934665603ull;
-    for (; *s; s++)
-        h = (h ^ (unsigned char)*s) * 1099511628211ull;
-    return h;
-}
-
-static void idset_free(struct idset *h)
-{
-    hl_free(h->key);
-    hl_free(h->val);
-    memset(h, 0, sizeof *h);
-}
-
-static int idset_init(struct idset *h, size_t expect)
-{
-    size_t cap = 16;
-    while (cap < 2 * expect + 2)
-        cap *= 2;
-    h->key = hl_calloc(cap, sizeof *h->key);
-    h->val = hl_calloc(cap, sizeof *h->val);
-    h->cap = cap;
-    h->n = 0;
-    if (!h->key || !h->val) {
-        idset_free(h);
-        return -1;
-    }
-    return 0;
-}
-
-/* Value stored under key, or -1. */
-static int idset_find(const struct idset *h, const char *key)
-{
-    if (!h->cap)
-        return -1;
-    for (size_t i = (size_t)fnv1a(key) & (h->cap - 1);; i = (i + 1) & (h->cap - 1)) {
-        if (!h->key[i])
-            return -1;
-        if (strcmp(h->key[i], key) == 0)
-            return h->val[i];
-    }
-}
-
-/* Insert (the table was sized for all keys); returns the existing value or -1 if new. */
-static int idset_add(struct idset *h, const char *key, int val)
-{
-    for (size_t i = (size_t)fnv1a(key) & (h->cap - 1);; i = (i + 1) & (h->cap - 1)) {
-        if (!h->key[i]) {
-            h->key[i] = key;
-            h->val[i] = val;
-            h->n++;
-            return -1;
-        }
-        if (strcmp(h->key[i], key) == 0)
-            return h->val[i];
-    }
-}
-
 /* ------------------------------------------------------------------ */
 /* The schema                                                          */
 /* ------------------------------------------------------------------ */
 
 /* Lower bounds (issue 16.2).  Each is far below any real value and far above the
  * underflow that made the models print inf; the reason is given in the message. */
-static const struct rng R_CHARGE_KG = {1e-3, 1e9, 0, 1,  /* [1 g, 1e9) kg */
+static const struct val_rng R_CHARGE_KG = {1e-3, 1e9, 0, 1,  /* [1 g, 1e9) kg */
     "a charge below a gram is not weighed in a plant (common practice): check the unit", NULL};
-static const struct rng R_NONNEG_KG = {0, 1e9, 0, 1, NULL, NULL};  /* [0, 1e9) kg */
-static const struct rng R_TEMP_C = {-80, 400, 0, 0, NULL, NULL};   /* liquid- and gas-phase plant range */
-static const struct rng R_REACT = {1e-6, 1e6, 0, 0,                /* relative rates */
+static const struct val_rng R_NONNEG_KG = {0, 1e9, 0, 1, NULL, NULL};  /* [0, 1e9) kg */
+static const struct val_rng R_TEMP_C = {-80, 400, 0, 0, NULL, NULL};   /* liquid- and gas-phase plant range */
+static const struct val_rng R_REACT = {1e-6, 1e6, 0, 0,                /* relative rates */
     "relative rates span at most 1e12 (from 1e-6 to 1e6)", NULL};
 
 /* model block */
@@ -1119,21 +65,21 @@ enum { RR_PRIMARY, RR_SECONDARY, RR_TERTIARY, RR_ALLYLIC, RR_BENZYLIC, RR_REF, R
 static const char *const rr_keys[RR_N] = {"primary", "secondary", "tertiary", "allylic", "benzylic",
                                           "ref_temp_c"};
 
-static const struct rng R_OVERHAL = {1e-3, 1000, 0, 0,
+static const struct val_rng R_OVERHAL = {1e-3, 1000, 0, 0,
     "a step 1000 times slower per added halogen is already no over-halogenation", NULL};
 
-static enum hl_status parse_model(struct vctx *c, const cJSON *m, struct camp_model *out)
+static enum hl_status parse_model(struct val_ctx *c, const cJSON *m, struct camp_model *out)
 {
     const cJSON *k[MK_N];
-    size_t old = push_key(c, m->string);
-    enum hl_status st = members(c, m, model_keys, MK_N, k);
+    size_t old = val_push_key(c, m->string);
+    enum hl_status st = val_members(c, m, model_keys, MK_N, k);
     if (st)
         return st;
     memset(out, 0, sizeof *out);
     if (k[MK_RR]) {
         const cJSON *r[RR_N];
-        size_t o2 = push_key(c, k[MK_RR]->string);
-        if ((st = members(c, k[MK_RR], rr_keys, RR_N, r)))
+        size_t o2 = val_push_key(c, k[MK_RR]->string);
+        if ((st = val_members(c, k[MK_RR], rr_keys, RR_N, r)))
             return st;
         static const unsigned bit[RR_N] = {CM_PRIMARY, CM_SECONDARY, CM_TERTIARY, CM_ALLYLIC,
                                            CM_BENZYLIC, CM_REF_TEMP};
@@ -1142,47 +88,47 @@ static enum hl_status parse_model(struct vctx *c, const cJSON *m, struct camp_mo
         for (int j = 0; j < RR_N; j++) {
             if (!r[j])
                 continue;
-            if ((st = get_num(c, r[j], j == RR_REF ? R_TEMP_C : R_REACT, dst[j])))
+            if ((st = val_num(c, r[j], j == RR_REF ? R_TEMP_C : R_REACT, dst[j])))
                 return st;
             out->set_mask |= bit[j];
         }
-        pop(c, o2);
+        val_pop(c, o2);
     }
     if (k[MK_OVERHAL]) {
-        if ((st = get_num(c, k[MK_OVERHAL], R_OVERHAL, &out->overhalogenation_factor)))
+        if ((st = val_num(c, k[MK_OVERHAL], R_OVERHAL, &out->overhalogenation_factor)))
             return st;
         out->set_mask |= CM_OVERHAL;
     }
     if (k[MK_RATIOS]) {
         const cJSON *a = k[MK_RATIOS];
-        if ((st = check_array(c, a, 1)))
+        if ((st = val_array(c, a, 1)))
             return st;
-        size_t o2 = push_key(c, a->string);
+        size_t o2 = val_push_key(c, a->string);
         int n = 0;
         for (const cJSON *x = a->child; x; x = x->next, n++) {
-            size_t o3 = push_index(c, n);
+            size_t o3 = val_push_index(c, n);
             if (n >= CAMP_MAX_RATIOS)
-                return verr(c, x, 0, "too many rate ratios (at most %d)", CAMP_MAX_RATIOS);
+                return val_err(c, x, 0, "too many rate ratios (at most %d)", CAMP_MAX_RATIOS);
             if (!cJSON_IsNumber(x))
-                return verr(c, x, 0, "must be a number (got %s)", tname(x));
+                return val_err(c, x, 0, "must be a number (got %s)", val_tname(x));
             double v = x->valuedouble;
             if (!isfinite(v)) {
                 char raw[72];
-                raw_number(c, x, raw, sizeof raw);
-                return verr(c, x, 0, "must be a finite number (got %s)", raw);
+                val_raw_number(c, x, raw, sizeof raw);
+                return val_err(c, x, 0, "must be a finite number (got %s)", raw);
             }
             if (!(v >= 1e-6) || v > 1e6) /* as R_REACT: relative rates span at most 1e12 */
-                return verr(c, x, 0, "must be >= 1e-06 and <= 1e6 (got %.15g)", v);
+                return val_err(c, x, 0, "must be >= 1e-06 and <= 1e6 (got %.15g)", v);
             if (n == 0 && v != 1)
-                return verr(c, x, 0, "must be 1: the ratios are relative to step 0 (got %.15g)", v);
+                return val_err(c, x, 0, "must be 1: the ratios are relative to step 0 (got %.15g)", v);
             out->rate_ratios[n] = v;
-            pop(c, o3);
+            val_pop(c, o3);
         }
         out->nratios = n;
         out->set_mask |= CM_RATIOS;
-        pop(c, o2);
+        val_pop(c, o2);
     }
-    pop(c, old);
+    val_pop(c, old);
     return HL_OK;
 }
 
@@ -1219,55 +165,55 @@ static const char *const col_keys[CK_N] = {"packing_factor_1_m", "htu_m", "remov
                                            "gas_temp_c"};
 static const char *const liquor_names[2] = {"naoh", "water"};
 
-static enum hl_status parse_column(struct vctx *c, const cJSON *m, struct camp_column *col)
+static enum hl_status parse_column(struct val_ctx *c, const cJSON *m, struct camp_column *col)
 {
     const cJSON *k[CK_N];
-    size_t old = push_key(c, m->string);
-    enum hl_status st = members(c, m, col_keys, CK_N, k);
+    size_t old = val_push_key(c, m->string);
+    enum hl_status st = val_members(c, m, col_keys, CK_N, k);
     if (st)
         return st;
     col->present = 1;
-    col->pos = pos_of(c, m);
+    col->pos = val_pos(c, m);
     col->flood_fraction = 0.7; /* common practice: design at 60-80 % of flooding */
     col->gas_temp_c = 25;
     static const int required[] = {CK_FP, CK_HTU, CK_REMOVAL, CK_CARRIER, CK_LIQ};
     for (size_t j = 0; j < sizeof required / sizeof required[0]; j++)
         if (!k[required[j]])
-            return missing(c, m, col_keys[required[j]], NULL);
+            return val_missing(c, m, col_keys[required[j]], NULL);
     /* Floors: the loosest random packings have Fp of about 30 1/m and HTU rarely falls below
      * 0.1 m (from memory, Perry's Chemical Engineers' Handbook section 14); a column that removes
      * under 1 % or runs below 10 % of flooding is no design point; the sweep gas carries the
      * acid gas, a mole an hour is the least that could (common practice). */
-    const struct rng rfp = {1, 1e4, 0, 0, "no packing has a packing factor below 1 1/m", NULL},
+    const struct val_rng rfp = {1, 1e4, 0, 0, "no packing has a packing factor below 1 1/m", NULL},
                      rhtu = {0.01, 20, 0, 0, "no packing has a transfer unit shorter than 1 cm", NULL},
                      rrem = {0.01, 1, 0, 1, "a column removing under 1 % is no absorber", NULL},
                      rflood = {0.1, 1, 0, 1, "below 10 % of flooding a column is far oversized", NULL},
                      rcar = {1e-3, 1e6, 0, 0, "the sweep gas is at least a mole an hour", NULL},
                      rliq = {1, 1e9, 0, 1, "a circulation below 1 kg/h wets no packing", NULL},
                      rgas = {-40, 200, 0, 0, NULL, NULL};
-    if ((st = get_num(c, k[CK_FP], rfp, &col->packing_factor_1_m)) ||
-        (st = get_num(c, k[CK_HTU], rhtu, &col->htu_m)) ||
-        (st = get_num(c, k[CK_REMOVAL], rrem, &col->removal_fraction)) ||
-        (k[CK_FLOOD] && (st = get_num(c, k[CK_FLOOD], rflood, &col->flood_fraction))) ||
-        (st = get_num(c, k[CK_CARRIER], rcar, &col->carrier_kmol_h)) ||
-        (st = get_num(c, k[CK_LIQ], rliq, &col->liquor_kg_h)) ||
-        (k[CK_GAST] && (st = get_num(c, k[CK_GAST], rgas, &col->gas_temp_c))))
+    if ((st = val_num(c, k[CK_FP], rfp, &col->packing_factor_1_m)) ||
+        (st = val_num(c, k[CK_HTU], rhtu, &col->htu_m)) ||
+        (st = val_num(c, k[CK_REMOVAL], rrem, &col->removal_fraction)) ||
+        (k[CK_FLOOD] && (st = val_num(c, k[CK_FLOOD], rflood, &col->flood_fraction))) ||
+        (st = val_num(c, k[CK_CARRIER], rcar, &col->carrier_kmol_h)) ||
+        (st = val_num(c, k[CK_LIQ], rliq, &col->liquor_kg_h)) ||
+        (k[CK_GAST] && (st = val_num(c, k[CK_GAST], rgas, &col->gas_temp_c))))
         return st;
-    pop(c, old);
+    val_pop(c, old);
     return HL_OK;
 }
 
 /* The emission keys of a scrubber (issue 12): its stack flow and the removal it is
  * credited with, species by species (the vent species names as keys). */
-static enum hl_status parse_emission_keys(struct vctx *c, const cJSON *stack, const cJSON *rem,
+static enum hl_status parse_emission_keys(struct val_ctx *c, const cJSON *stack, const cJSON *rem,
                                           struct camp_scrubber *s)
 {
     /* a divisor of every concentration: a stack under 0.1 Nm3/h carries no vent gas
      * (common practice floor) */
-    const struct rng rstack = {0.1, 1e9, 0, 0, "a stack flow below 0.1 Nm3/h carries no vent gas", NULL},
+    const struct val_rng rstack = {0.1, 1e9, 0, 0, "a stack flow below 0.1 Nm3/h carries no vent gas", NULL},
                      rfrac = {0, 1, 0, 0, NULL, NULL};
     enum hl_status st;
-    if (stack && (st = get_num(c, stack, rstack, &s->stack_nm3_h)))
+    if (stack && (st = val_num(c, stack, rstack, &s->stack_nm3_h)))
         return st;
     if (!rem)
         return HL_OK;
@@ -1275,34 +221,34 @@ static enum hl_status parse_emission_keys(struct vctx *c, const cJSON *stack, co
     const cJSON *k[VS_COUNT];
     for (int v = 0; v < VS_COUNT; v++)
         names[v] = vent_name(v);
-    size_t old = push_key(c, rem->string);
-    if ((st = members(c, rem, names, VS_COUNT, k)))
+    size_t old = val_push_key(c, rem->string);
+    if ((st = val_members(c, rem, names, VS_COUNT, k)))
         return st;
     for (int v = 0; v < VS_COUNT; v++) {
         if (!k[v])
             continue;
-        if ((st = get_num(c, k[v], rfrac, &s->removal[v])))
+        if ((st = val_num(c, k[v], rfrac, &s->removal[v])))
             return st;
         /* the liquor model lets Cl2, Br2 and SO2 pass a water liquor: crediting it with
          * removing them would contradict the liquor figures */
         if (s->liquor == CAMP_LIQUOR_WATER && v != VS_HCL && v != VS_HBR && s->removal[v] > 0) {
-            push_key(c, names[v]);
-            return verr(c, k[v], 0, "a \"water\" liquor absorbs only HCl and HBr: %s passes it "
+            val_push_key(c, names[v]);
+            return val_err(c, k[v], 0, "a \"water\" liquor absorbs only HCl and HBr: %s passes it "
                         "(give 0 or leave it out)", names[v]);
         }
         s->removal_given |= 1u << v;
     }
-    pop(c, old);
+    val_pop(c, old);
     return HL_OK;
 }
 
-static enum hl_status parse_scrubber(struct vctx *c, const cJSON *o, struct camp_scrubber *s)
+static enum hl_status parse_scrubber(struct val_ctx *c, const cJSON *o, struct camp_scrubber *s)
 {
     const cJSON *k[SK_N];
-    enum hl_status st = members(c, o, scrub_keys, SK_N, k);
+    enum hl_status st = val_members(c, o, scrub_keys, SK_N, k);
     if (st)
         return st;
-    s->pos = pos_of(c, o);
+    s->pos = val_pos(c, o);
     s->liquor = CAMP_LIQUOR_NAOH;
     s->min_naoh_wt_pct = 2;      /* common practice: keep a few % free caustic */
     s->max_acid_wt_pct = 20;     /* near the HCl-water azeotrope, 20.2 wt% at 1 atm (from memory) */
@@ -1311,61 +257,61 @@ static enum hl_status parse_scrubber(struct vctx *c, const cJSON *o, struct camp
     s->fresh_liquor_temp_c = 25; /* ambient (common practice) */
     s->max_liquor_temp_c = 40;   /* hypochlorite liquor kept below about 40 C (common practice) */
     if (!k[SK_ID])
-        return missing(c, o, "id", NULL);
-    if ((st = dup_str(c, k[SK_ID], T_TEXT | T_NONEMPTY, MAX_ID, &s->id)))
+        return val_missing(c, o, "id", NULL);
+    if ((st = val_dup_str(c, k[SK_ID], VAL_TEXT | VAL_NONEMPTY, MAX_ID, &s->id)))
         return st;
     int liq = 0;
-    if (k[SK_LIQUOR] && (st = get_enum(c, k[SK_LIQUOR], liquor_names, 2, &liq)))
+    if (k[SK_LIQUOR] && (st = val_enum(c, k[SK_LIQUOR], liquor_names, 2, &liq)))
         return st;
     s->liquor = liq ? CAMP_LIQUOR_WATER : CAMP_LIQUOR_NAOH;
     if (s->liquor == CAMP_LIQUOR_NAOH) {
         if (!k[SK_NAOH])
-            return missing(c, o, "naoh_wt_pct", "a caustic scrubber needs its fresh liquor strength");
+            return val_missing(c, o, "naoh_wt_pct", "a caustic scrubber needs its fresh liquor strength");
         if (k[SK_MAXACID]) {
-            push_key(c, "max_acid_wt_pct");
-            return verr(c, k[SK_MAXACID], 1, "applies to a \"water\" liquor only");
+            val_push_key(c, "max_acid_wt_pct");
+            return val_err(c, k[SK_MAXACID], 1, "applies to a \"water\" liquor only");
         }
     } else {
         if (k[SK_NAOH] || k[SK_MIN]) {
             const cJSON *x = k[SK_NAOH] ? k[SK_NAOH] : k[SK_MIN];
-            push_key(c, x->string);
-            return verr(c, x, 1, "applies to a \"naoh\" liquor only");
+            val_push_key(c, x->string);
+            return val_err(c, x, 1, "applies to a \"naoh\" liquor only");
         }
     }
     /* Floors (common practice): a liquor under 0.1 wt% caustic or a water liquor allowed under
      * 0.1 wt% acid absorbs next to nothing; a charge under 1 kg or a rating under a mole an
      * hour is no plant scrubber. */
-    const struct rng rwt = {0.1, 50, 0, 0, "a liquor under 0.1 wt% NaOH is no caustic scrubber", NULL},
+    const struct val_rng rwt = {0.1, 50, 0, 0, "a liquor under 0.1 wt% NaOH is no caustic scrubber", NULL},
                      rmin = {0, 50, 0, 1, NULL, NULL},
                      racid = {0.1, 60, 0, 0, "a water liquor changed below 0.1 wt% acid absorbs nothing", NULL},
                      rliqkg = {1, 1e9, 0, 1, "a liquor charge below 1 kg is no scrubber", NULL},
                      rrate = {1e-3, 1e6, 0, 0, "a rating below a mole an hour is no plant scrubber", NULL},
                      rmk = {0, 100, 1, 0, NULL, NULL}, rcp = {0.5, 10, 0, 0, NULL, NULL},
                      rfresh = {-20, 80, 0, 0, NULL, NULL}, rmaxt = {0, 150, 1, 0, NULL, NULL};
-    if ((k[SK_NAOH] && (st = get_num(c, k[SK_NAOH], rwt, &s->naoh_wt_pct))) ||
-        (!k[SK_LIQKG] && (st = missing(c, o, "liquor_kg", NULL))) ||
-        (st = get_num(c, k[SK_LIQKG], rliqkg, &s->liquor_kg)) ||
-        (k[SK_MIN] && (st = get_num(c, k[SK_MIN], rmin, &s->min_naoh_wt_pct))) ||
-        (k[SK_MAXACID] && (st = get_num(c, k[SK_MAXACID], racid, &s->max_acid_wt_pct))) ||
-        (!k[SK_RATED] && (st = missing(c, o, "rated_acid_kmol_h", NULL))) ||
-        (st = get_num(c, k[SK_RATED], rrate, &s->rated_acid_kmol_h)) ||
-        (k[SK_MAKEUP] && (st = get_num(c, k[SK_MAKEUP], rmk, &s->makeup_naoh_wt_pct))) ||
-        (k[SK_CP] && (st = get_num(c, k[SK_CP], rcp, &s->liquor_cp_kj_kg_k))) ||
-        (k[SK_FRESHT] && (st = get_num(c, k[SK_FRESHT], rfresh, &s->fresh_liquor_temp_c))) ||
-        (k[SK_MAXT] && (st = get_num(c, k[SK_MAXT], rmaxt, &s->max_liquor_temp_c))))
+    if ((k[SK_NAOH] && (st = val_num(c, k[SK_NAOH], rwt, &s->naoh_wt_pct))) ||
+        (!k[SK_LIQKG] && (st = val_missing(c, o, "liquor_kg", NULL))) ||
+        (st = val_num(c, k[SK_LIQKG], rliqkg, &s->liquor_kg)) ||
+        (k[SK_MIN] && (st = val_num(c, k[SK_MIN], rmin, &s->min_naoh_wt_pct))) ||
+        (k[SK_MAXACID] && (st = val_num(c, k[SK_MAXACID], racid, &s->max_acid_wt_pct))) ||
+        (!k[SK_RATED] && (st = val_missing(c, o, "rated_acid_kmol_h", NULL))) ||
+        (st = val_num(c, k[SK_RATED], rrate, &s->rated_acid_kmol_h)) ||
+        (k[SK_MAKEUP] && (st = val_num(c, k[SK_MAKEUP], rmk, &s->makeup_naoh_wt_pct))) ||
+        (k[SK_CP] && (st = val_num(c, k[SK_CP], rcp, &s->liquor_cp_kj_kg_k))) ||
+        (k[SK_FRESHT] && (st = val_num(c, k[SK_FRESHT], rfresh, &s->fresh_liquor_temp_c))) ||
+        (k[SK_MAXT] && (st = val_num(c, k[SK_MAXT], rmaxt, &s->max_liquor_temp_c))))
         return st;
     if (s->liquor == CAMP_LIQUOR_NAOH) {
         if (s->min_naoh_wt_pct >= s->naoh_wt_pct) {
             const cJSON *x = k[SK_MIN] ? k[SK_MIN] : k[SK_NAOH];
-            push_key(c, x->string);
-            return verr(c, x, 0, k[SK_MIN] ? "must be < naoh_wt_pct (%.15g)"
+            val_push_key(c, x->string);
+            return val_err(c, x, 0, k[SK_MIN] ? "must be < naoh_wt_pct (%.15g)"
                                             : "must be > min_naoh_wt_pct (%.15g, the default)",
                         k[SK_MIN] ? s->naoh_wt_pct : s->min_naoh_wt_pct);
         }
         if (s->makeup_naoh_wt_pct < s->naoh_wt_pct) {
             const cJSON *x = k[SK_MAKEUP] ? k[SK_MAKEUP] : k[SK_NAOH];
-            push_key(c, x->string);
-            return verr(c, x, 0, "the make-up caustic (%.15g wt%%) must be at least as strong as the "
+            val_push_key(c, x->string);
+            return val_err(c, x, 0, "the make-up caustic (%.15g wt%%) must be at least as strong as the "
                         "liquor (%.15g wt%%)", s->makeup_naoh_wt_pct, s->naoh_wt_pct);
         }
     }
@@ -1374,7 +320,7 @@ static enum hl_status parse_scrubber(struct vctx *c, const cJSON *o, struct camp
     if ((st = parse_emission_keys(c, k[SK_STACK], k[SK_REMOVAL], s)))
         return st;
     const char *note;
-    if (k[SK_NOTE] && (st = get_str(c, k[SK_NOTE], 0, MAX_TEXT, &note)))
+    if (k[SK_NOTE] && (st = val_str(c, k[SK_NOTE], 0, VAL_MAX_TEXT, &note)))
         return st;
     return HL_OK;
 }
@@ -1383,23 +329,23 @@ static enum hl_status parse_scrubber(struct vctx *c, const cJSON *o, struct camp
 enum { TK_REAGENT, TK_ONHAND, TK_SAFETY, TK_LEAD, TK_NOTE, TK_N };
 static const char *const stock_keys[TK_N] = {"reagent", "on_hand_kg", "safety_kg", "lead_days", "note"};
 
-static enum hl_status parse_stock(struct vctx *c, const cJSON *o, struct camp_stock *s)
+static enum hl_status parse_stock(struct val_ctx *c, const cJSON *o, struct camp_stock *s)
 {
     const cJSON *k[TK_N];
-    enum hl_status st = members(c, o, stock_keys, TK_N, k);
+    enum hl_status st = val_members(c, o, stock_keys, TK_N, k);
     if (st)
         return st;
-    s->pos = pos_of(c, o);
-    const struct rng rlead = {0, 3650, 0, 0, NULL, NULL};
-    s->pos_lead_days = k[TK_LEAD] ? pos_of(c, k[TK_LEAD]) : s->pos;
+    s->pos = val_pos(c, o);
+    const struct val_rng rlead = {0, 3650, 0, 0, NULL, NULL};
+    s->pos_lead_days = k[TK_LEAD] ? val_pos(c, k[TK_LEAD]) : s->pos;
     const char *note;
-    if ((!k[TK_REAGENT] && (st = missing(c, o, "reagent", NULL))) ||
-        (st = get_reagent(c, k[TK_REAGENT], 1, &s->reagent)) ||
-        (!k[TK_ONHAND] && (st = missing(c, o, "on_hand_kg", NULL))) ||
-        (st = get_num(c, k[TK_ONHAND], R_NONNEG_KG, &s->on_hand_kg)) ||
-        (k[TK_SAFETY] && (st = get_num(c, k[TK_SAFETY], R_NONNEG_KG, &s->safety_kg))) ||
-        (k[TK_LEAD] && (st = get_num(c, k[TK_LEAD], rlead, &s->lead_days))) ||
-        (k[TK_NOTE] && (st = get_str(c, k[TK_NOTE], 0, MAX_TEXT, &note))))
+    if ((!k[TK_REAGENT] && (st = val_missing(c, o, "reagent", NULL))) ||
+        (st = val_reagent(c, k[TK_REAGENT], 1, &s->reagent)) ||
+        (!k[TK_ONHAND] && (st = val_missing(c, o, "on_hand_kg", NULL))) ||
+        (st = val_num(c, k[TK_ONHAND], R_NONNEG_KG, &s->on_hand_kg)) ||
+        (k[TK_SAFETY] && (st = val_num(c, k[TK_SAFETY], R_NONNEG_KG, &s->safety_kg))) ||
+        (k[TK_LEAD] && (st = val_num(c, k[TK_LEAD], rlead, &s->lead_days))) ||
+        (k[TK_NOTE] && (st = val_str(c, k[TK_NOTE], 0, VAL_MAX_TEXT, &note))))
         return st;
     return HL_OK;
 }
@@ -1411,37 +357,37 @@ static const char *const cont_keys[NK_N] = {"reagent", "name", "net_kg", "heel_k
 /* in the order of enum camp_units */
 static const char *const units_names[2] = {"us", "metric"};
 
-static enum hl_status parse_container(struct vctx *c, const cJSON *o, struct camp_container *ct)
+static enum hl_status parse_container(struct val_ctx *c, const cJSON *o, struct camp_container *ct)
 {
     const cJSON *k[NK_N];
-    enum hl_status st = members(c, o, cont_keys, NK_N, k);
+    enum hl_status st = val_members(c, o, cont_keys, NK_N, k);
     if (st)
         return st;
-    ct->pos = pos_of(c, o);
+    ct->pos = val_pos(c, o);
     /* containers hold at least 100 g usable: laboratory bottles of NBS start there (common
      * practice); smaller would only inflate the container counts */
-    const struct rng rnet = {0.1, 1e6, 0, 0, "no container holds less than 100 g", NULL};
+    const struct val_rng rnet = {0.1, 1e6, 0, 0, "no container holds less than 100 g", NULL};
     /* 10 g/h: below it a container gives nothing a reactor could run on (common practice) */
-    const struct rng rdraw = {0.01, 1e6, 0, 0, "below 10 g/h no feed is served", NULL};
+    const struct val_rng rdraw = {0.01, 1e6, 0, 0, "below 10 g/h no feed is served", NULL};
     const char *note;
-    if ((!k[NK_REAGENT] && (st = missing(c, o, "reagent", NULL))) ||
-        (st = get_reagent(c, k[NK_REAGENT], 1, &ct->reagent)) ||
-        (!k[NK_NAME] && (st = missing(c, o, "name", NULL))) ||
-        (st = dup_str(c, k[NK_NAME], T_TEXT | T_NONEMPTY, MAX_TEXT, &ct->name)) ||
-        (!k[NK_NET] && (st = missing(c, o, "net_kg", NULL))) ||
-        (st = get_num(c, k[NK_NET], rnet, &ct->net_kg)) ||
-        (k[NK_HEEL] && (st = get_num(c, k[NK_HEEL], R_NONNEG_KG, &ct->heel_kg))) ||
-        (k[NK_WITHDRAW] && (st = get_num(c, k[NK_WITHDRAW], rdraw, &ct->gas_withdrawal_kg_h))) ||
-        (k[NK_NOTE] && (st = get_str(c, k[NK_NOTE], 0, MAX_TEXT, &note))))
+    if ((!k[NK_REAGENT] && (st = val_missing(c, o, "reagent", NULL))) ||
+        (st = val_reagent(c, k[NK_REAGENT], 1, &ct->reagent)) ||
+        (!k[NK_NAME] && (st = val_missing(c, o, "name", NULL))) ||
+        (st = val_dup_str(c, k[NK_NAME], VAL_TEXT | VAL_NONEMPTY, VAL_MAX_TEXT, &ct->name)) ||
+        (!k[NK_NET] && (st = val_missing(c, o, "net_kg", NULL))) ||
+        (st = val_num(c, k[NK_NET], rnet, &ct->net_kg)) ||
+        (k[NK_HEEL] && (st = val_num(c, k[NK_HEEL], R_NONNEG_KG, &ct->heel_kg))) ||
+        (k[NK_WITHDRAW] && (st = val_num(c, k[NK_WITHDRAW], rdraw, &ct->gas_withdrawal_kg_h))) ||
+        (k[NK_NOTE] && (st = val_str(c, k[NK_NOTE], 0, VAL_MAX_TEXT, &note))))
         return st;
     int units = CAMP_UNITS_ANY;
-    if ((k[NK_UNITS] && (st = get_enum(c, k[NK_UNITS], units_names, 2, &units))) ||
-        (k[NK_SOURCE] && (st = dup_str(c, k[NK_SOURCE], T_TEXT | T_NONEMPTY, MAX_TEXT, &ct->source))))
+    if ((k[NK_UNITS] && (st = val_enum(c, k[NK_UNITS], units_names, 2, &units))) ||
+        (k[NK_SOURCE] && (st = val_dup_str(c, k[NK_SOURCE], VAL_TEXT | VAL_NONEMPTY, VAL_MAX_TEXT, &ct->source))))
         return st;
     ct->units = (enum camp_units)units;
     if (ct->net_kg - ct->heel_kg < 0.1) { /* the same 100 g floor for the usable content */
-        push_key(c, "heel_kg");
-        return verr(c, k[NK_HEEL], 0, "must be < net_kg (%.15g) by at least 0.1 kg, the least a "
+        val_push_key(c, "heel_kg");
+        return val_err(c, k[NK_HEEL], 0, "must be < net_kg (%.15g) by at least 0.1 kg, the least a "
                     "container holds usable (got %.15g)", ct->net_kg, ct->heel_kg);
     }
     return HL_OK;
@@ -1501,17 +447,17 @@ static int smiles_over_limit(const char *s)
 }
 
 /* Refuse a SMILES of more atoms than the models handle well under a second. */
-static enum hl_status check_smiles_size(struct vctx *c, const cJSON *m, const struct camp_strpos *sp,
+static enum hl_status check_smiles_size(struct val_ctx *c, const cJSON *m, const struct camp_strpos *sp,
                                         const char *smiles, const char *key)
 {
     int at = smiles_over_limit(smiles);
     if (!at)
         return HL_OK;
-    size_t old = push_key(c, key);
+    size_t old = val_push_key(c, key);
     struct camp_pos p = {sp->pos.line, camp_string_col(sp, at)};
     char field[160];
-    finish_field(field, sizeof field, c->prefix, c->path);
-    pop(c, old);
+    jpos_field(field, sizeof field, c->prefix, c->path);
+    val_pop(c, old);
     (void)m;
     return hl_err_at(c->e, HL_ERR_INPUT, p.line, p.col, field,
                      "more than %d atoms (this one is atom %d): every symmetry class gives a product "
@@ -1519,44 +465,44 @@ static enum hl_status check_smiles_size(struct vctx *c, const cJSON *m, const st
                      CAMP_MAX_SMILES_ATOMS, CAMP_MAX_SMILES_ATOMS + 1);
 }
 
-static enum hl_status parse_substrate(struct vctx *c, const cJSON *m, struct camp_run *r)
+static enum hl_status parse_substrate(struct val_ctx *c, const cJSON *m, struct camp_run *r)
 {
     const cJSON *k[UK_N];
-    size_t old = push_key(c, m->string);
-    enum hl_status st = members(c, m, sub_keys, UK_N, k);
+    size_t old = val_push_key(c, m->string);
+    enum hl_status st = val_members(c, m, sub_keys, UK_N, k);
     if (st)
         return st;
-    if (k[UK_NAME] && (st = dup_str(c, k[UK_NAME], T_TEXT | T_NONEMPTY, MAX_TEXT, &r->substrate_name)))
+    if (k[UK_NAME] && (st = val_dup_str(c, k[UK_NAME], VAL_TEXT | VAL_NONEMPTY, VAL_MAX_TEXT, &r->substrate_name)))
         return st;
     if (!k[UK_SMILES] && !k[UK_FORMULA])
-        return missing(c, m, "smiles", "give the substrate's smiles (or its formula)");
+        return val_missing(c, m, "smiles", "give the substrate's smiles (or its formula)");
     if (k[UK_SMILES] && k[UK_FORMULA]) {
-        push_key(c, "formula");
-        return verr(c, k[UK_FORMULA], 1, "give smiles or formula, not both");
+        val_push_key(c, "formula");
+        return val_err(c, k[UK_FORMULA], 1, "give smiles or formula, not both");
     }
     if (k[UK_SMILES]) {
-        if ((st = dup_str(c, k[UK_SMILES], T_TEXT | T_NONEMPTY, MAX_TEXT, &r->smiles)))
+        if ((st = val_dup_str(c, k[UK_SMILES], VAL_TEXT | VAL_NONEMPTY, VAL_MAX_TEXT, &r->smiles)))
             return st;
-        r->pos_smiles = pos_of(c, k[UK_SMILES]);
-        if ((st = esc_map(c, k[UK_SMILES], &r->sp_smiles)) ||
+        r->pos_smiles = val_pos(c, k[UK_SMILES]);
+        if ((st = val_esc_map(c, k[UK_SMILES], &r->sp_smiles)) ||
             (st = check_smiles_size(c, k[UK_SMILES], &r->sp_smiles, r->smiles, "smiles")))
             return st;
     } else {
-        if ((st = dup_str(c, k[UK_FORMULA], T_TEXT | T_NONEMPTY, MAX_TEXT, &r->formula)))
+        if ((st = val_dup_str(c, k[UK_FORMULA], VAL_TEXT | VAL_NONEMPTY, VAL_MAX_TEXT, &r->formula)))
             return st;
-        r->pos_formula = pos_of(c, k[UK_FORMULA]);
-        if ((st = esc_map(c, k[UK_FORMULA], &r->sp_formula)))
+        r->pos_formula = val_pos(c, k[UK_FORMULA]);
+        if ((st = val_esc_map(c, k[UK_FORMULA], &r->sp_formula)))
             return st;
     }
-    pop(c, old);
+    val_pop(c, old);
     return HL_OK;
 }
 
 struct reader {
-    struct vctx c;
+    struct val_ctx c;
     struct campaign *camp;
     struct camp_model model;   /* campaign-level */
-    struct idset scrub_ids;
+    struct val_idset scrub_ids;
     size_t runs_cap;
     const struct camp_opts *opts; /* may be NULL */
     int nentries;               /* runs[] entries and schedule rows so far (src_index) */
@@ -1572,7 +518,7 @@ static const char *const actual_keys[AC_N] = {"status", "reagent_kg", "product_k
 static const char *const status_names[2] = {"done", "cancelled"};
 /* The figures' ranges: a done run's draw has the floor of a charge (1 g), since the balance
  * is computed from it; product and caustic may be 0 (a batch that made nothing). */
-static const struct rng R_ACTUAL_DRAW = {1e-3, 1e9, 0, 1, "a run that drew less than 1 g drew "
+static const struct val_rng R_ACTUAL_DRAW = {1e-3, 1e9, 0, 1, "a run that drew less than 1 g drew "
                                          "nothing: give status \"cancelled\"", NULL};
 
 /* Store value x (already range-checked with actual_range) of figure key k. */
@@ -1583,7 +529,7 @@ static void actual_set_num(struct camp_actual *a, int k, double x)
     if (k == AC_NAOH) { a->naoh_kg = x; a->given |= CAMP_ACT_NAOH_KG; }
 }
 
-static struct rng actual_range(int k) { return k == AC_REAGENT ? R_ACTUAL_DRAW : R_NONNEG_KG; }
+static struct val_rng actual_range(int k) { return k == AC_REAGENT ? R_ACTUAL_DRAW : R_NONNEG_KG; }
 
 /* After every field of run r's actual is read: the key to blame (AC_*) with why in msg, or
  * -1 when the fields agree. */
@@ -1614,42 +560,42 @@ static int actual_conflict(const struct camp_run *r, const struct camp_actual *a
     return -1;
 }
 
-static enum hl_status parse_actual(struct vctx *c, const cJSON *m, struct camp_run *r)
+static enum hl_status parse_actual(struct val_ctx *c, const cJSON *m, struct camp_run *r)
 {
     struct camp_actual *a = &r->actual;
-    size_t old = push_key(c, "actual");
+    size_t old = val_push_key(c, "actual");
     const cJSON *k[AC_N];
-    enum hl_status st = members(c, m, actual_keys, AC_N, k);
+    enum hl_status st = val_members(c, m, actual_keys, AC_N, k);
     if (st)
         return st;
-    a->pos = a->pos_status = pos_of(c, m);
+    a->pos = a->pos_status = val_pos(c, m);
     int status = 0;
     if (k[AC_STATUS]) {
-        if ((st = get_enum(c, k[AC_STATUS], status_names, 2, &status)))
+        if ((st = val_enum(c, k[AC_STATUS], status_names, 2, &status)))
             return st;
         a->status = status ? CAMP_CANCELLED : CAMP_DONE;
-        a->pos_status = pos_of(c, k[AC_STATUS]);
+        a->pos_status = val_pos(c, k[AC_STATUS]);
     }
     for (int j = AC_REAGENT; j <= AC_NAOH; j++) {
         double x;
-        if (k[j] && (st = get_num(c, k[j], actual_range(j), &x)))
+        if (k[j] && (st = val_num(c, k[j], actual_range(j), &x)))
             return st;
         if (k[j])
             actual_set_num(a, j, x);
     }
     const char *note;
-    if ((k[AC_END] && (st = get_date(c, k[AC_END], &a->end_min))) ||
-        (k[AC_NOTE] && (st = get_str(c, k[AC_NOTE], 0, MAX_TEXT, &note))))
+    if ((k[AC_END] && (st = val_date(c, k[AC_END], &a->end_min))) ||
+        (k[AC_NOTE] && (st = val_str(c, k[AC_NOTE], 0, VAL_MAX_TEXT, &note))))
         return st;
     if (k[AC_END])
         a->given |= CAMP_ACT_END;
     char msg[200];
     int bad = actual_conflict(r, a, msg, sizeof msg);
     if (bad >= 0) {
-        push_key(c, actual_keys[bad]);
-        return verr(c, k[bad], 0, "%s", msg);
+        val_push_key(c, actual_keys[bad]);
+        return val_err(c, k[bad], 0, "%s", msg);
     }
-    pop(c, old);
+    val_pop(c, old);
     return HL_OK;
 }
 
@@ -1657,25 +603,25 @@ static enum hl_status parse_actual(struct vctx *c, const cJSON *m, struct camp_r
  * accumulation, mtt_c, td24_c in that order. A heat capacity below 0.5 kJ/(kg K) is
  * below any liquid's (liquid hydrocarbons about 2, common practice) and would make the
  * adiabatic rise absurd; TD24 and MTT below the process temperature are contradictions. */
-static enum hl_status parse_run_thermal(struct vctx *c, const cJSON *const *k, struct camp_run *r)
+static enum hl_status parse_run_thermal(struct val_ctx *c, const cJSON *const *k, struct camp_run *r)
 {
-    const struct rng rcp = {0.5, 10, 0, 0, "no liquid reaction mass holds less heat (common practice)", NULL},
+    const struct val_rng rcp = {0.5, 10, 0, 0, "no liquid reaction mass holds less heat (common practice)", NULL},
                      racc = {0, 1, 0, 0, NULL, NULL}, rt = {-80, 1000, 0, 0, NULL, NULL};
     enum hl_status st;
     r->accumulation = 1;
-    if ((k[0] && (st = get_num(c, k[0], R_NONNEG_KG, &r->solvent_kg))) ||
-        (k[1] && (st = get_num(c, k[1], rcp, &r->mass_cp_kj_kg_k))) ||
-        (k[2] && (st = get_num(c, k[2], racc, &r->accumulation))) ||
-        (k[3] && (st = get_num(c, k[3], rt, &r->mtt_c))) ||
-        (k[4] && (st = get_num(c, k[4], rt, &r->td24_c))))
+    if ((k[0] && (st = val_num(c, k[0], R_NONNEG_KG, &r->solvent_kg))) ||
+        (k[1] && (st = val_num(c, k[1], rcp, &r->mass_cp_kj_kg_k))) ||
+        (k[2] && (st = val_num(c, k[2], racc, &r->accumulation))) ||
+        (k[3] && (st = val_num(c, k[3], rt, &r->mtt_c))) ||
+        (k[4] && (st = val_num(c, k[4], rt, &r->td24_c))))
         return st;
     r->has_mtt = k[3] != NULL;
     r->has_td24 = k[4] != NULL;
     for (int j = 3; j <= 4; j++) {
         double v = j == 3 ? r->mtt_c : r->td24_c;
         if (k[j] && v < r->temp_c) {
-            push_key(c, k[j]->string);
-            return verr(c, k[j], 0, "must be >= temp_c (%.15g): the process runs at temp_c, so "
+            val_push_key(c, k[j]->string);
+            return val_err(c, k[j], 0, "must be >= temp_c (%.15g): the process runs at temp_c, so "
                         "%s cannot lie below it (got %.15g)", r->temp_c,
                         j == 3 ? "the highest temperature the equipment tolerates" :
                                  "the decomposition onset", v);
@@ -1687,7 +633,7 @@ static enum hl_status parse_run_thermal(struct vctx *c, const cJSON *const *k, s
 /* Floors: a millionth of an equivalent charged or converted is below what any analysis
  * sees (common practice); start times are kept to the minute, so a feed shorter than a
  * minute has no time of its own (and 1e-308 h made the vent rate infinite). */
-static const struct rng req = {1e-6, 1000, 0, 0, "below a millionth of an equivalent nothing is charged", NULL},
+static const struct val_rng req = {1e-6, 1000, 0, 0, "below a millionth of an equivalent nothing is charged", NULL},
                  rconv = {1e-6, 1, 0, 0, "below a millionth nothing measurable reacts", NULL},
                  rfeed = {1.0 / 60.0, 8760, 0, 0, "start times are kept to the minute", "1/60 (one minute)"},
                  rpeak = {1, 1000, 0, 0, NULL, NULL}, rvent = {0, 1, 0, 1, NULL, NULL};
@@ -1695,9 +641,9 @@ static const struct rng req = {1e-6, 1000, 0, 0, "below a millionth of an equiva
 static enum hl_status parse_run(struct reader *rd, const cJSON *o, int idx, struct camp_run *r,
                                 long *count, double *every_days)
 {
-    struct vctx *c = &rd->c;
+    struct val_ctx *c = &rd->c;
     const cJSON *k[RK_N];
-    enum hl_status st = members(c, o, run_keys, RK_N, k);
+    enum hl_status st = val_members(c, o, run_keys, RK_N, k);
     if (st)
         return st;
     r->src_index = idx;
@@ -1708,29 +654,29 @@ static enum hl_status parse_run(struct reader *rd, const cJSON *o, int idx, stru
     r->peak_factor = 1;
     r->vent_retained_fraction = 0;
     r->mode = CAMP_BATCH;
-    r->pos = pos_of(c, o);
+    r->pos = val_pos(c, o);
     *count = 0;
     if (!k[RK_ID])
-        return missing(c, o, "id", NULL);
-    if ((st = dup_str(c, k[RK_ID], T_TEXT | T_NONEMPTY, MAX_ID, &r->id)))
+        return val_missing(c, o, "id", NULL);
+    if ((st = val_dup_str(c, k[RK_ID], VAL_TEXT | VAL_NONEMPTY, MAX_ID, &r->id)))
         return st;
-    r->pos_id = pos_of(c, k[RK_ID]);
+    r->pos_id = val_pos(c, k[RK_ID]);
     if (!k[RK_START])
-        return missing(c, o, "start", NULL);
-    if ((st = get_date(c, k[RK_START], &r->start_min)))
+        return val_missing(c, o, "start", NULL);
+    if ((st = val_date(c, k[RK_START], &r->start_min)))
         return st;
-    r->pos_start = pos_of(c, k[RK_START]);
-    if (k[RK_REACTOR] && (st = dup_str(c, k[RK_REACTOR], T_TEXT | T_NONEMPTY, MAX_ID, &r->reactor)))
+    r->pos_start = val_pos(c, k[RK_START]);
+    if (k[RK_REACTOR] && (st = val_dup_str(c, k[RK_REACTOR], VAL_TEXT | VAL_NONEMPTY, MAX_ID, &r->reactor)))
         return st;
     if (k[RK_SCRUB]) {
         const char *sid;
-        if ((st = get_str(c, k[RK_SCRUB], T_TEXT | T_NONEMPTY, MAX_ID, &sid)))
+        if ((st = val_str(c, k[RK_SCRUB], VAL_TEXT | VAL_NONEMPTY, MAX_ID, &sid)))
             return st;
-        r->scrubber = idset_find(&rd->scrub_ids, sid);
+        r->scrubber = val_idset_find(&rd->scrub_ids, sid);
         if (r->scrubber < 0) {
             char q[64];
-            quote(sid, q, sizeof q);
-            push_key(c, "scrubber");
+            val_quote(sid, q, sizeof q);
+            val_push_key(c, "scrubber");
             /* suggestion only on this error path: a scan of the (few) scrubber ids */
             const char *best = NULL;
             int bd = 1000;
@@ -1739,84 +685,84 @@ static enum hl_status parse_run(struct reader *rd, const cJSON *o, int idx, stru
                 if (d < bd) { bd = d; best = rd->camp->scrubbers[j].id; }
             }
             if (!rd->camp->nscrubbers)
-                return verr(c, k[RK_SCRUB], 0, "unknown scrubber \"%s\" (the campaign lists no scrubbers)", q);
+                return val_err(c, k[RK_SCRUB], 0, "unknown scrubber \"%s\" (the campaign lists no scrubbers)", q);
             if (best && bd <= 2)
-                return verr(c, k[RK_SCRUB], 0, "unknown scrubber \"%s\" (did you mean \"%s\"?)", q, best);
-            return verr(c, k[RK_SCRUB], 0, "unknown scrubber \"%s\"", q);
+                return val_err(c, k[RK_SCRUB], 0, "unknown scrubber \"%s\" (did you mean \"%s\"?)", q, best);
+            return val_err(c, k[RK_SCRUB], 0, "unknown scrubber \"%s\"", q);
         }
     }
     if (!k[RK_SUBSTRATE])
-        return missing(c, o, "substrate", NULL);
+        return val_missing(c, o, "substrate", NULL);
     if ((st = parse_substrate(c, k[RK_SUBSTRATE], r)))
         return st;
     if (k[RK_PRODUCT]) {
-        if ((st = dup_str(c, k[RK_PRODUCT], T_TEXT | T_NONEMPTY, MAX_TEXT, &r->product_smiles)))
+        if ((st = val_dup_str(c, k[RK_PRODUCT], VAL_TEXT | VAL_NONEMPTY, VAL_MAX_TEXT, &r->product_smiles)))
             return st;
-        r->pos_product_smiles = pos_of(c, k[RK_PRODUCT]);
-        if ((st = esc_map(c, k[RK_PRODUCT], &r->sp_product_smiles)) ||
+        r->pos_product_smiles = val_pos(c, k[RK_PRODUCT]);
+        if ((st = val_esc_map(c, k[RK_PRODUCT], &r->sp_product_smiles)) ||
             (st = check_smiles_size(c, k[RK_PRODUCT], &r->sp_product_smiles, r->product_smiles,
                                     "product_smiles")))
             return st;
     }
     if (!k[RK_SUBKG])
-        return missing(c, o, "substrate_kg", NULL);
-    if ((st = get_num(c, k[RK_SUBKG], R_CHARGE_KG, &r->substrate_kg)))
+        return val_missing(c, o, "substrate_kg", NULL);
+    if ((st = val_num(c, k[RK_SUBKG], R_CHARGE_KG, &r->substrate_kg)))
         return st;
     if (!k[RK_REAGENT])
-        return missing(c, o, "reagent", NULL);
-    if ((st = get_reagent(c, k[RK_REAGENT], 0, &r->reagent)))
+        return val_missing(c, o, "reagent", NULL);
+    if ((st = val_reagent(c, k[RK_REAGENT], 0, &r->reagent)))
         return st;
-    r->pos_reagent = pos_of(c, k[RK_REAGENT]);
+    r->pos_reagent = val_pos(c, k[RK_REAGENT]);
     if (!k[RK_EQ] && !k[RK_KG])
-        return missing(c, o, "reagent_eq", "give reagent_eq (mol per mol substrate) or reagent_kg");
+        return val_missing(c, o, "reagent_eq", "give reagent_eq (mol per mol substrate) or reagent_kg");
     if (k[RK_EQ] && k[RK_KG]) {
-        const cJSON *later = vp(c, k[RK_EQ])->off > vp(c, k[RK_KG])->off ? k[RK_EQ] : k[RK_KG];
-        push_key(c, later->string);
-        return verr(c, later, 1, "give reagent_eq or reagent_kg, not both");
+        const cJSON *later = val_vp(c, k[RK_EQ])->off > val_vp(c, k[RK_KG])->off ? k[RK_EQ] : k[RK_KG];
+        val_push_key(c, later->string);
+        return val_err(c, later, 1, "give reagent_eq or reagent_kg, not both");
     }
     if (k[RK_EQ]) {
-        if ((st = get_num(c, k[RK_EQ], req, &r->reagent_eq)))
+        if ((st = val_num(c, k[RK_EQ], req, &r->reagent_eq)))
             return st;
-        r->pos_amount = pos_of(c, k[RK_EQ]);
+        r->pos_amount = val_pos(c, k[RK_EQ]);
     } else {
-        if ((st = get_num(c, k[RK_KG], R_CHARGE_KG, &r->reagent_kg)))
+        if ((st = val_num(c, k[RK_KG], R_CHARGE_KG, &r->reagent_kg)))
             return st;
         r->amount_is_kg = 1;
-        r->pos_amount = pos_of(c, k[RK_KG]);
+        r->pos_amount = val_pos(c, k[RK_KG]);
     }
     int mode = 0;
     r->defaulted = (k[RK_FEED] ? 0u : CAMP_DEFAULT_FEED_H) | (k[RK_TEMP] ? 0u : CAMP_DEFAULT_TEMP);
-    r->pos_feed = k[RK_FEED] ? pos_of(c, k[RK_FEED]) : r->pos;
-    if ((k[RK_CONV] && (st = get_num(c, k[RK_CONV], rconv, &r->halogen_conversion))) ||
-        (k[RK_TEMP] && (st = get_num(c, k[RK_TEMP], R_TEMP_C, &r->temp_c))) ||
-        (k[RK_FEED] && (st = get_num(c, k[RK_FEED], rfeed, &r->feed_h))) ||
-        (k[RK_PEAK] && (st = get_num(c, k[RK_PEAK], rpeak, &r->peak_factor))) ||
-        (k[RK_VENT] && (st = get_num(c, k[RK_VENT], rvent, &r->vent_retained_fraction))) ||
-        (k[RK_MODE] && (st = get_enum(c, k[RK_MODE], mode_names, 2, &mode))))
+    r->pos_feed = k[RK_FEED] ? val_pos(c, k[RK_FEED]) : r->pos;
+    if ((k[RK_CONV] && (st = val_num(c, k[RK_CONV], rconv, &r->halogen_conversion))) ||
+        (k[RK_TEMP] && (st = val_num(c, k[RK_TEMP], R_TEMP_C, &r->temp_c))) ||
+        (k[RK_FEED] && (st = val_num(c, k[RK_FEED], rfeed, &r->feed_h))) ||
+        (k[RK_PEAK] && (st = val_num(c, k[RK_PEAK], rpeak, &r->peak_factor))) ||
+        (k[RK_VENT] && (st = val_num(c, k[RK_VENT], rvent, &r->vent_retained_fraction))) ||
+        (k[RK_MODE] && (st = val_enum(c, k[RK_MODE], mode_names, 2, &mode))))
         return st;
     r->mode = mode ? CAMP_CSTR : CAMP_BATCH;
     if ((st = parse_run_thermal(c, k + RK_SOLVENT, r)))
         return st;
     if (k[RK_REPEAT]) {
         const cJSON *p[PK_N];
-        size_t old = push_key(c, "repeat");
-        if ((st = members(c, k[RK_REPEAT], rep_keys, PK_N, p)))
+        size_t old = val_push_key(c, "repeat");
+        if ((st = val_members(c, k[RK_REPEAT], rep_keys, PK_N, p)))
             return st;
-        const struct rng revery = {1.0 / 1440.0, 3650, 0, 0, "start times are kept to the minute",
+        const struct val_rng revery = {1.0 / 1440.0, 3650, 0, 0, "start times are kept to the minute",
                                    "1/1440 (one minute)"};
-        if ((!p[PK_COUNT] && (st = missing(c, k[RK_REPEAT], "count", NULL))) ||
-            (st = get_int(c, p[PK_COUNT], 1, 10000, count)) ||
-            (!p[PK_EVERY] && (st = missing(c, k[RK_REPEAT], "every_days", NULL))) ||
-            (st = get_num(c, p[PK_EVERY], revery, every_days)))
+        if ((!p[PK_COUNT] && (st = val_missing(c, k[RK_REPEAT], "count", NULL))) ||
+            (st = val_int(c, p[PK_COUNT], 1, 10000, count)) ||
+            (!p[PK_EVERY] && (st = val_missing(c, k[RK_REPEAT], "every_days", NULL))) ||
+            (st = val_num(c, p[PK_EVERY], revery, every_days)))
             return st;
-        r->pos_repeat = pos_of(c, p[PK_COUNT]);
-        r->pos_every = pos_of(c, p[PK_EVERY]);
+        r->pos_repeat = val_pos(c, p[PK_COUNT]);
+        r->pos_every = val_pos(c, p[PK_EVERY]);
         size_t total = (size_t)rd->camp->nruns + (size_t)*count;
         if (total > MAX_RUNS) {
-            push_key(c, "count");
-            return verr(c, p[PK_COUNT], 0, "the campaign would hold more than %d runs", MAX_RUNS);
+            val_push_key(c, "count");
+            return val_err(c, p[PK_COUNT], 0, "the campaign would hold more than %d runs", MAX_RUNS);
         }
-        pop(c, old);
+        val_pop(c, old);
     }
     /* a run without a model block of its own shares the campaign's (584 bytes a run saved) */
     r->own_model = k[RK_MODEL] != NULL;
@@ -1828,11 +774,11 @@ static enum hl_status parse_run(struct reader *rd, const cJSON *o, int idx, stru
     if (r->own_model)
         merge_model(r->model, &rd->model);
     const char *note;
-    if (k[RK_NOTE] && (st = get_str(c, k[RK_NOTE], 0, MAX_TEXT, &note)))
+    if (k[RK_NOTE] && (st = val_str(c, k[RK_NOTE], 0, VAL_MAX_TEXT, &note)))
         return st;
     if (k[RK_ACTUAL] && k[RK_REPEAT]) {
-        push_key(c, "actual");
-        return verr(c, k[RK_ACTUAL], 1, "an actual belongs to one batch, not to every copy of a "
+        val_push_key(c, "actual");
+        return val_err(c, k[RK_ACTUAL], 1, "an actual belongs to one batch, not to every copy of a "
                     "repeat: give the runs that have happened entries of their own");
     }
     if (k[RK_ACTUAL] && (st = parse_actual(c, k[RK_ACTUAL], r)))
@@ -1918,16 +864,16 @@ static enum hl_status run_err(struct hl_err *e, const struct camp_run *r, struct
                               const char *path, const char *fmt, ...) __attribute__((format(printf, 5, 6)));
 
 /* Where a computed date of run r is blamed: its start, or its repeat when a later copy moved it. */
-static enum hl_status run_date_err(struct vctx *c, const struct camp_run *r, const char *fmt, ...)
+static enum hl_status run_date_err(struct val_ctx *c, const struct camp_run *r, const char *fmt, ...)
     __attribute__((format(printf, 3, 4)));
-static enum hl_status run_date_err(struct vctx *c, const struct camp_run *r, const char *fmt, ...)
+static enum hl_status run_date_err(struct val_ctx *c, const struct camp_run *r, const char *fmt, ...)
 {
     char msg[400], idq[64];
     va_list ap;
     va_start(ap, fmt);
     vsnprintf(msg, sizeof msg, fmt, ap);
     va_end(ap);
-    quote(r->id, idq, sizeof idq);
+    val_quote(r->id, idq, sizeof idq);
     struct camp_pos p = r->repeat_no > 1 ? r->pos_every : r->pos_start;
     const char *path = r->repeat_no > 1 ? "repeat.every_days" : "start";
     if (r->repeat_no > 1)
@@ -1943,7 +889,7 @@ static enum hl_status run_date_err(struct vctx *c, const struct camp_run *r, con
  * first run (in file order) that breaks it, before any model runs. */
 static enum hl_status check_dates(struct reader *rd)
 {
-    struct vctx *c = &rd->c;
+    struct val_ctx *c = &rd->c;
     const struct campaign *cp = rd->camp;
     const struct camp_stock *lead[RG_COUNT] = {NULL};
     for (int j = 0; j < cp->nstock; j++)
@@ -1980,7 +926,7 @@ static enum hl_status check_dates(struct reader *rd)
             int si = (int)(s - cp->stock);
             run_where(r, where, sizeof where);
             snprintf(field, sizeof field, "stock[%d].lead_days", si);
-            quote(r->id, idq, sizeof idq);
+            val_quote(r->id, idq, sizeof idq);
             isodate_format(r->start_min, 0, when, sizeof when);
             return hl_err_at(c->e, HL_ERR_INPUT, s->pos_lead_days.line, s->pos_lead_days.col, field,
                              "%.15g days before run \"%s\" (%s, %s) falls before 0001-01-01, the "
@@ -2001,7 +947,7 @@ static enum hl_status check_dates(struct reader *rd)
             run_where(o, where, sizeof where);
             isodate_format(o->start_min, 0, ow, sizeof ow);
             isodate_format(r->start_min, 0, when, sizeof when);
-            quote(o->id, oq, sizeof oq);
+            val_quote(o->id, oq, sizeof oq);
             return run_date_err(c, r, "starting %s would make the campaign span more than %d days "
                                 "(20 years): run \"%s\" (%s) starts %s; split the campaign",
                                 when, SPAN_DAYS, oq, where, ow);
@@ -2050,16 +996,16 @@ static enum hl_status run_err(struct hl_err *e, const struct camp_run *r, struct
 /* One runs entry o (index idx) or schedule row (sched_file) into the campaign, repeats expanded. */
 static enum hl_status add_run(struct reader *rd, const cJSON *o, int idx, const char *sched_file)
 {
-    struct vctx *c = &rd->c;
+    struct val_ctx *c = &rd->c;
     struct campaign *cp = rd->camp;
     struct camp_run t;
     long count = 0;
     double every = 0;
     memset(&t, 0, sizeof t);
-    size_t o2 = push_index(c, idx);
+    size_t o2 = val_push_index(c, idx);
     enum hl_status st = parse_run(rd, o, idx, &t, &count, &every);
     if (!st && (size_t)cp->nruns + (size_t)(count ? count : 1) > MAX_RUNS)
-        st = verr(c, o, 0, "the campaign would hold more than %d runs", MAX_RUNS);
+        st = val_err(c, o, 0, "the campaign would hold more than %d runs", MAX_RUNS);
     if (!st)
         st = grow_runs(rd, (size_t)cp->nruns + (size_t)(count ? count : 1));
     if (st) {
@@ -2080,30 +1026,30 @@ static enum hl_status add_run(struct reader *rd, const cJSON *o, int idx, const 
         }
         run_free(&t);
     }
-    pop(c, o2);
+    val_pop(c, o2);
     return HL_OK;
 }
 
 static enum hl_status parse_runs(struct reader *rd, const cJSON *arr)
 {
-    struct vctx *c = &rd->c;
+    struct val_ctx *c = &rd->c;
     enum hl_status st = HL_OK;
-    size_t old = push_key(c, "runs");
-    const struct doc *top = c->d;
+    size_t old = val_push_key(c, "runs");
+    const struct jpos_doc *top = c->d;
     if ((size_t)arr->valueint == top->run_vi) {
         /* streamed: each element its own tree, freed before the next is built */
-        struct doc one;
+        struct jpos_doc one;
         memset(&one, 0, sizeof one);
         one.run_vi = (size_t)-1;
         size_t cap = 0;
         for (size_t i = 0; i < top->nel && !st; i++) {
-            if ((st = doc_parse_span(c->text, &top->el[i], &cap, &one, c->e)))
+            if ((st = jpos_parse_span(c->text, &top->el[i], &cap, &one, c->e)))
                 break;
             c->d = &one;
             st = add_run(rd, one.root, (int)i, NULL);
             c->d = top;
         }
-        doc_free(&one);
+        jpos_free(&one);
         if (st)
             return st;
     } else {
@@ -2113,7 +1059,7 @@ static enum hl_status parse_runs(struct reader *rd, const cJSON *arr)
         if (st)
             return st;
     }
-    pop(c, old);
+    val_pop(c, old);
     return HL_OK;
 }
 
@@ -2127,7 +1073,7 @@ static int bad_text(const char *s)
     return 0;
 }
 
-struct sched_ctx { struct reader *rd; const char *file; struct vpos *v; size_t vcap; };
+struct sched_ctx { struct reader *rd; const char *file; struct jpos_val *v; size_t vcap; };
 
 /* A row's error from the JSON-run checks: "runs[N].substrate.smiles" becomes
  * "column substrate_smiles" (the header's spelling), in the schedule file; a value that
@@ -2157,7 +1103,7 @@ static enum hl_status sched_row_cb(void *data, const struct sched_row *row, stru
     struct reader *rd = x->rd;
     if (row->npos > x->vcap) {
         size_t cap = row->npos * 2;
-        struct vpos *nv = hl_realloc(x->v, cap * sizeof *nv);
+        struct jpos_val *nv = hl_realloc(x->v, cap * sizeof *nv);
         if (!nv)
             return hl_err_set(e, HL_ERR_NOMEM, "out of memory reading the schedule");
         x->v = nv;
@@ -2165,22 +1111,22 @@ static enum hl_status sched_row_cb(void *data, const struct sched_row *row, stru
     }
     for (size_t k = 0; k < row->npos; k++) {
         const struct sched_pos *p = &row->pos[k];
-        x->v[k] = (struct vpos){p->off, p->line, p->col, p->line, p->col};
+        x->v[k] = (struct jpos_val){p->off, p->line, p->col, p->line, p->col};
     }
-    struct doc d;
+    struct jpos_doc d;
     memset(&d, 0, sizeof d);
     d.v = x->v;
     d.nv = row->npos;
     d.root = row->run;
     d.run_vi = (size_t)-1;
-    struct vctx saved = rd->c;
+    struct val_ctx saved = rd->c;
     rd->c.d = &d;
     rd->c.text = row->text;
     rd->c.prefix = "";
     rd->c.csv = 1;
     rd->c.plen = 0;
     rd->c.path[0] = '\0';
-    push_key(&rd->c, "runs");
+    val_push_key(&rd->c, "runs");
     enum hl_status st = add_run(rd, row->run, rd->nentries, x->file);
     if (st == HL_ERR_INPUT)
         sched_blame(e, row, x->file);
@@ -2208,22 +1154,22 @@ static enum hl_status read_schedule(struct reader *rd, const char *path)
 /* The campaign's "schedule" (one name or an array), each relative to the campaign's folder. */
 static enum hl_status parse_schedule_key(struct reader *rd, const cJSON *m)
 {
-    struct vctx *c = &rd->c;
+    struct val_ctx *c = &rd->c;
     enum hl_status st;
     int arr = cJSON_IsArray(m);
-    if (arr && (st = check_array(c, m, 1)))
+    if (arr && (st = val_array(c, m, 1)))
         return st;
     if (!arr && !cJSON_IsString(m)) {
-        push_key(c, "schedule");
-        return verr(c, m, 0, "must be a file name or an array of file names (got %s)", tname(m));
+        val_push_key(c, "schedule");
+        return val_err(c, m, 0, "must be a file name or an array of file names (got %s)", val_tname(m));
     }
-    size_t old = push_key(c, "schedule");
+    size_t old = val_push_key(c, "schedule");
     int idx = 0;
     for (const cJSON *x = arr ? m->child : m; x; x = arr ? x->next : NULL, idx++) {
         if (arr)
-            push_index(c, idx);
+            val_push_index(c, idx);
         if (!cJSON_IsString(x) || !x->valuestring[0] || bad_text(x->valuestring))
-            return verr(c, x, 0, "must be a file name: a non-empty string without control characters");
+            return val_err(c, x, 0, "must be a file name: a non-empty string without control characters");
         const char *name = x->valuestring;
         char *full;
         char *dir = NULL;
@@ -2240,8 +1186,8 @@ static enum hl_status parse_schedule_key(struct reader *rd, const cJSON *m)
         if (!full)
             return hl_err_set(c->e, HL_ERR_NOMEM, "out of memory reading the campaign");
         char field[160];
-        finish_field(field, sizeof field, c->prefix, c->path);
-        struct camp_pos at = pos_of(c, x);
+        jpos_field(field, sizeof field, c->prefix, c->path);
+        struct camp_pos at = val_pos(c, x);
         st = read_schedule(rd, full);
         hl_free(full);
         if (st == HL_ERR_INPUT && c->e && c->e->line == 0) {
@@ -2254,29 +1200,29 @@ static enum hl_status parse_schedule_key(struct reader *rd, const cJSON *m)
         if (st)
             return st;
         if (arr)
-            pop(c, old + strlen(".schedule"));
+            val_pop(c, old + strlen(".schedule"));
     }
-    pop(c, old);
+    val_pop(c, old);
     return HL_OK;
 }
 
 /* After every run is in: duplicate ids (also those made by repeat), then dates. */
 static enum hl_status finish_runs(struct reader *rd)
 {
-    struct vctx *c = &rd->c;
+    struct val_ctx *c = &rd->c;
     struct campaign *cp = rd->camp;
-    struct idset ids;
-    if (idset_init(&ids, (size_t)cp->nruns))
+    struct val_idset ids;
+    if (val_idset_init(&ids, (size_t)cp->nruns))
         return hl_err_set(c->e, HL_ERR_NOMEM, "out of memory reading the campaign");
     for (int j = 0; j < cp->nruns; j++) {
         const struct camp_run *r = &cp->runs[j];
-        int prev = idset_add(&ids, r->id, j);
+        int prev = val_idset_add(&ids, r->id, j);
         if (prev < 0)
             continue;
         const struct camp_run *p = &cp->runs[prev];
         char q[64], where[360];
-        quote(r->id, q, sizeof q);
-        idset_free(&ids);
+        val_quote(r->id, q, sizeof q);
+        val_idset_free(&ids);
         run_where(p, where, sizeof where);
         if (!p->sched_file) {
             size_t n = strlen(where);
@@ -2289,7 +1235,7 @@ static enum hl_status finish_runs(struct reader *rd)
                            q, where);
         return run_err(c->e, r, r->pos_id, "id", "run id \"%s\" is already used by %s", q, where);
     }
-    idset_free(&ids);
+    val_idset_free(&ids);
     return check_dates(rd);
 }
 
@@ -2306,25 +1252,25 @@ enum { DK_REAGENT, DK_KG, DK_DATE, DK_STATUS, DK_REF, DK_NOTE, DK_N };
 static const char *const deliv_keys[DK_N] = {"reagent", "kg", "date", "status", "ref", "note"};
 static const char *const deliv_status[2] = {"ordered", "received"};
 
-static enum hl_status parse_delivery(struct vctx *c, const cJSON *o, struct camp_delivery *d)
+static enum hl_status parse_delivery(struct val_ctx *c, const cJSON *o, struct camp_delivery *d)
 {
     const cJSON *k[DK_N];
-    enum hl_status st = members(c, o, deliv_keys, DK_N, k);
+    enum hl_status st = val_members(c, o, deliv_keys, DK_N, k);
     if (st)
         return st;
-    d->pos = pos_of(c, o);
+    d->pos = val_pos(c, o);
     int recv = 0;
     const char *note;
-    if ((!k[DK_REAGENT] && (st = missing(c, o, "reagent", NULL))) ||
-        (st = get_reagent(c, k[DK_REAGENT], 1, &d->reagent)) ||
-        (!k[DK_KG] && (st = missing(c, o, "kg", "the usable content delivered"))) ||
-        (st = get_num(c, k[DK_KG], R_CHARGE_KG, &d->kg)) ||
-        (!k[DK_DATE] && (st = missing(c, o, "date", "due date (ordered) or day received"))) ||
-        (st = get_date(c, k[DK_DATE], &d->date_min)) ||
-        (!k[DK_STATUS] && (st = missing(c, o, "status", "\"ordered\" or \"received\""))) ||
-        (st = get_enum(c, k[DK_STATUS], deliv_status, 2, &recv)) ||
-        (k[DK_REF] && (st = dup_str(c, k[DK_REF], T_TEXT | T_NONEMPTY, MAX_ID, &d->ref))) ||
-        (k[DK_NOTE] && (st = get_str(c, k[DK_NOTE], 0, MAX_TEXT, &note))))
+    if ((!k[DK_REAGENT] && (st = val_missing(c, o, "reagent", NULL))) ||
+        (st = val_reagent(c, k[DK_REAGENT], 1, &d->reagent)) ||
+        (!k[DK_KG] && (st = val_missing(c, o, "kg", "the usable content delivered"))) ||
+        (st = val_num(c, k[DK_KG], R_CHARGE_KG, &d->kg)) ||
+        (!k[DK_DATE] && (st = val_missing(c, o, "date", "due date (ordered) or day received"))) ||
+        (st = val_date(c, k[DK_DATE], &d->date_min)) ||
+        (!k[DK_STATUS] && (st = val_missing(c, o, "status", "\"ordered\" or \"received\""))) ||
+        (st = val_enum(c, k[DK_STATUS], deliv_status, 2, &recv)) ||
+        (k[DK_REF] && (st = val_dup_str(c, k[DK_REF], VAL_TEXT | VAL_NONEMPTY, MAX_ID, &d->ref))) ||
+        (k[DK_NOTE] && (st = val_str(c, k[DK_NOTE], 0, VAL_MAX_TEXT, &note))))
         return st;
     d->received = recv;
     return HL_OK;
@@ -2335,29 +1281,29 @@ static const char *const count_keys[CN_N] = {"reagent", "date", "kg", "note"};
 
 /* A count is a stock check against the book, which starts from stock[].on_hand_kg on the day
  * of the earliest run: a count before that day has no book to be held against. */
-static enum hl_status parse_count(struct vctx *c, const cJSON *o, int64_t first_day_min,
+static enum hl_status parse_count(struct val_ctx *c, const cJSON *o, int64_t first_day_min,
                                   struct camp_count *n)
 {
     const cJSON *k[CN_N];
-    enum hl_status st = members(c, o, count_keys, CN_N, k);
+    enum hl_status st = val_members(c, o, count_keys, CN_N, k);
     if (st)
         return st;
-    n->pos = pos_of(c, o);
+    n->pos = val_pos(c, o);
     const char *note;
-    if ((!k[CN_REAGENT] && (st = missing(c, o, "reagent", NULL))) ||
-        (st = get_reagent(c, k[CN_REAGENT], 0, &n->reagent)) ||
-        (!k[CN_DATE] && (st = missing(c, o, "date", NULL))) ||
-        (st = get_date(c, k[CN_DATE], &n->date_min)) ||
-        (!k[CN_KG] && (st = missing(c, o, "kg", "weighed containers less heel"))) ||
-        (st = get_num(c, k[CN_KG], R_NONNEG_KG, &n->kg)) ||
-        (k[CN_NOTE] && (st = get_str(c, k[CN_NOTE], 0, MAX_TEXT, &note))))
+    if ((!k[CN_REAGENT] && (st = val_missing(c, o, "reagent", NULL))) ||
+        (st = val_reagent(c, k[CN_REAGENT], 0, &n->reagent)) ||
+        (!k[CN_DATE] && (st = val_missing(c, o, "date", NULL))) ||
+        (st = val_date(c, k[CN_DATE], &n->date_min)) ||
+        (!k[CN_KG] && (st = val_missing(c, o, "kg", "weighed containers less heel"))) ||
+        (st = val_num(c, k[CN_KG], R_NONNEG_KG, &n->kg)) ||
+        (k[CN_NOTE] && (st = val_str(c, k[CN_NOTE], 0, VAL_MAX_TEXT, &note))))
         return st;
-    n->pos_date = pos_of(c, k[CN_DATE]);
+    n->pos_date = val_pos(c, k[CN_DATE]);
     if (n->date_min < first_day_min) {
         char day[24];
         isodate_format(first_day_min, 1, day, sizeof day);
-        push_key(c, "date");
-        return verr(c, k[CN_DATE], 0, "the count is dated before the campaign, which starts %s "
+        val_push_key(c, "date");
+        return val_err(c, k[CN_DATE], 0, "the count is dated before the campaign, which starts %s "
                     "(the day of its earliest run): the book starts from stock[].on_hand_kg then",
                     day);
     }
@@ -2367,50 +1313,50 @@ static enum hl_status parse_count(struct vctx *c, const cJSON *o, int64_t first_
 enum { TL_REAGENT, TL_PRODUCT, TL_STOCK, TL_NOTE, TL_N };
 static const char *const tol_keys[TL_N] = {"reagent_pct", "product_pct", "stock_pct", "note"};
 
-static enum hl_status parse_tolerances(struct vctx *c, const cJSON *m, struct camp_tolerances *t)
+static enum hl_status parse_tolerances(struct val_ctx *c, const cJSON *m, struct camp_tolerances *t)
 {
     const cJSON *k[TL_N];
-    size_t old = push_key(c, "tolerances");
-    enum hl_status st = members(c, m, tol_keys, TL_N, k);
+    size_t old = val_push_key(c, "tolerances");
+    enum hl_status st = val_members(c, m, tol_keys, TL_N, k);
     if (st)
         return st;
-    const struct rng rpct = {0, 1000, 0, 0, NULL, NULL};
+    const struct val_rng rpct = {0, 1000, 0, 0, NULL, NULL};
     const char *note;
-    if ((k[TL_REAGENT] && (st = get_num(c, k[TL_REAGENT], rpct, &t->reagent_pct))) ||
-        (k[TL_PRODUCT] && (st = get_num(c, k[TL_PRODUCT], rpct, &t->product_pct))) ||
-        (k[TL_STOCK] && (st = get_num(c, k[TL_STOCK], rpct, &t->stock_pct))) ||
-        (k[TL_NOTE] && (st = get_str(c, k[TL_NOTE], 0, MAX_TEXT, &note))))
+    if ((k[TL_REAGENT] && (st = val_num(c, k[TL_REAGENT], rpct, &t->reagent_pct))) ||
+        (k[TL_PRODUCT] && (st = val_num(c, k[TL_PRODUCT], rpct, &t->product_pct))) ||
+        (k[TL_STOCK] && (st = val_num(c, k[TL_STOCK], rpct, &t->stock_pct))) ||
+        (k[TL_NOTE] && (st = val_str(c, k[TL_NOTE], 0, VAL_MAX_TEXT, &note))))
         return st;
-    pop(c, old);
+    val_pop(c, old);
     return HL_OK;
 }
 
 /* deliveries[], counts[] and tolerances, read after the runs (a count needs the first run day) */
-static enum hl_status parse_close(struct vctx *c, struct campaign *cp, const cJSON *deliv,
+static enum hl_status parse_close(struct val_ctx *c, struct campaign *cp, const cJSON *deliv,
                                   const cJSON *counts, const cJSON *tol)
 {
     enum hl_status st;
     if (tol && (st = parse_tolerances(c, tol, &cp->tolerances)))
         return st;
     if (deliv) {
-        if ((st = check_array(c, deliv, 0)))
+        if ((st = val_array(c, deliv, 0)))
             return st;
         cp->deliveries = hl_calloc((size_t)cJSON_GetArraySize(deliv) + 1, sizeof *cp->deliveries);
         if (!cp->deliveries)
             return hl_err_set(c->e, HL_ERR_NOMEM, "out of memory reading the campaign");
-        size_t old = push_key(c, "deliveries");
+        size_t old = val_push_key(c, "deliveries");
         int idx = 0;
         for (const cJSON *o = deliv->child; o; o = o->next, idx++) {
-            size_t o2 = push_index(c, idx);
+            size_t o2 = val_push_index(c, idx);
             cp->ndeliveries = idx + 1; /* so camp_free sees a half-read entry */
             if ((st = parse_delivery(c, o, &cp->deliveries[idx])))
                 return st;
-            pop(c, o2);
+            val_pop(c, o2);
         }
-        pop(c, old);
+        val_pop(c, old);
     }
     if (counts) {
-        if ((st = check_array(c, counts, 0)))
+        if ((st = val_array(c, counts, 0)))
             return st;
         cp->counts = hl_calloc((size_t)cJSON_GetArraySize(counts) + 1, sizeof *cp->counts);
         if (!cp->counts)
@@ -2420,10 +1366,10 @@ static enum hl_status parse_close(struct vctx *c, struct campaign *cp, const cJS
             if (cp->runs[i].start_min < first)
                 first = cp->runs[i].start_min;
         first = floor_to(first, DAY_MIN);
-        size_t old = push_key(c, "counts");
+        size_t old = val_push_key(c, "counts");
         int idx = 0;
         for (const cJSON *o = counts->child; o; o = o->next, idx++) {
-            size_t o2 = push_index(c, idx);
+            size_t o2 = val_push_index(c, idx);
             struct camp_count *n = &cp->counts[idx];
             if ((st = parse_count(c, o, first, n)))
                 return st;
@@ -2432,14 +1378,14 @@ static enum hl_status parse_close(struct vctx *c, struct campaign *cp, const cJS
             for (int j = 0; j < idx; j++)
                 if (cp->counts[j].reagent == n->reagent && cp->counts[j].date_min == n->date_min) {
                     const cJSON *dn = cJSON_GetObjectItemCaseSensitive(o, "date");
-                    push_key(c, "date");
-                    return verr(c, dn, 0, "a second count of %s at this time (first at %d:%d)",
+                    val_push_key(c, "date");
+                    return val_err(c, dn, 0, "a second count of %s at this time (first at %d:%d)",
                                 reagent_get(n->reagent)->name, cp->counts[j].pos.line,
                                 cp->counts[j].pos.col);
                 }
-            pop(c, o2);
+            val_pop(c, o2);
         }
-        pop(c, old);
+        val_pop(c, old);
     }
     return HL_OK;
 }
@@ -2450,32 +1396,32 @@ static const char *const permit_keys[PMK_N] = {"scrubber", "species", "max_kg_h"
                                               "max_t_yr", "averaging", "note"};
 static const char *const averaging_names[2] = {"hour", "day"};
 
-static enum hl_status parse_permit(struct vctx *c, const struct idset *ids, const cJSON *o,
+static enum hl_status parse_permit(struct val_ctx *c, const struct val_idset *ids, const cJSON *o,
                                    struct camp_permit *p)
 {
     const cJSON *k[PMK_N];
-    enum hl_status st = members(c, o, permit_keys, PMK_N, k);
+    enum hl_status st = val_members(c, o, permit_keys, PMK_N, k);
     if (st)
         return st;
-    p->pos = pos_of(c, o);
+    p->pos = val_pos(c, o);
     if (!k[PMK_SCRUB])
-        return missing(c, o, "scrubber", NULL);
+        return val_missing(c, o, "scrubber", NULL);
     const char *sid;
-    if ((st = get_str(c, k[PMK_SCRUB], T_TEXT | T_NONEMPTY, MAX_ID, &sid)))
+    if ((st = val_str(c, k[PMK_SCRUB], VAL_TEXT | VAL_NONEMPTY, MAX_ID, &sid)))
         return st;
-    if ((p->scrubber = idset_find(ids, sid)) < 0) {
+    if ((p->scrubber = val_idset_find(ids, sid)) < 0) {
         char q[64];
-        quote(sid, q, sizeof q);
-        push_key(c, "scrubber");
-        return verr(c, k[PMK_SCRUB], 0, "unknown scrubber \"%s\"", q);
+        val_quote(sid, q, sizeof q);
+        val_push_key(c, "scrubber");
+        return val_err(c, k[PMK_SCRUB], 0, "unknown scrubber \"%s\"", q);
     }
     if (!k[PMK_SPECIES])
-        return missing(c, o, "species", NULL);
+        return val_missing(c, o, "species", NULL);
     const char *names[VS_COUNT];
     for (int v = 0; v < VS_COUNT; v++)
         names[v] = vent_name(v);
     const char *sp;
-    if ((st = get_str(c, k[PMK_SPECIES], 0, MAX_TEXT, &sp)))
+    if ((st = val_str(c, k[PMK_SPECIES], 0, VAL_MAX_TEXT, &sp)))
         return st;
     p->species = -1;
     for (int v = 0; v < VS_COUNT; v++)
@@ -2483,24 +1429,24 @@ static enum hl_status parse_permit(struct vctx *c, const struct idset *ids, cons
             p->species = v;
     if (p->species < 0) {
         char q[64];
-        quote(sp, q, sizeof q);
-        push_key(c, "species");
-        return verr(c, k[PMK_SPECIES], 0, "unknown species \"%s\" (known: HCl, HBr, Cl2, Br2, SO2)", q);
+        val_quote(sp, q, sizeof q);
+        val_push_key(c, "species");
+        return val_err(c, k[PMK_SPECIES], 0, "unknown species \"%s\" (known: HCl, HBr, Cl2, Br2, SO2)", q);
     }
     /* floors: a limit must be above zero; these are far below any permit (common practice) */
-    const struct rng rkg = {1e-6, 1e9, 0, 0, "a limit must be above zero (at least 1 mg/h)", NULL},
+    const struct val_rng rkg = {1e-6, 1e9, 0, 0, "a limit must be above zero (at least 1 mg/h)", NULL},
                      rmg = {1e-3, 1e9, 0, 0, "a limit must be above zero (at least 0.001 mg/Nm3)", NULL},
                      rt = {1e-6, 1e9, 0, 0, "a limit must be above zero (at least 1 g/yr)", NULL};
     int avg = 0;
     const char *note;
-    if ((k[PMK_KG_H] && (st = get_num(c, k[PMK_KG_H], rkg, &p->max_kg_h))) ||
-        (k[PMK_MG_NM3] && (st = get_num(c, k[PMK_MG_NM3], rmg, &p->max_mg_nm3))) ||
-        (k[PMK_T_YR] && (st = get_num(c, k[PMK_T_YR], rt, &p->max_t_yr))) ||
-        (k[PMK_AVG] && (st = get_enum(c, k[PMK_AVG], averaging_names, 2, &avg))) ||
-        (k[PMK_NOTE] && (st = get_str(c, k[PMK_NOTE], 0, MAX_TEXT, &note))))
+    if ((k[PMK_KG_H] && (st = val_num(c, k[PMK_KG_H], rkg, &p->max_kg_h))) ||
+        (k[PMK_MG_NM3] && (st = val_num(c, k[PMK_MG_NM3], rmg, &p->max_mg_nm3))) ||
+        (k[PMK_T_YR] && (st = val_num(c, k[PMK_T_YR], rt, &p->max_t_yr))) ||
+        (k[PMK_AVG] && (st = val_enum(c, k[PMK_AVG], averaging_names, 2, &avg))) ||
+        (k[PMK_NOTE] && (st = val_str(c, k[PMK_NOTE], 0, VAL_MAX_TEXT, &note))))
         return st;
     if (!k[PMK_KG_H] && !k[PMK_MG_NM3] && !k[PMK_T_YR])
-        return verr(c, o, 0, "a permit needs at least one limit: max_kg_h, max_mg_nm3 or max_t_yr");
+        return val_err(c, o, 0, "a permit needs at least one limit: max_kg_h, max_mg_nm3 or max_t_yr");
     p->averaging_day = avg;
     return HL_OK;
 }
@@ -2511,47 +1457,47 @@ enum { OK_PAPER, OK_MINFRAC, OK_NOTE, OK_N };
 static const char *const report_keys[OK_N] = {"paper", "min_mol_fraction", "note"};
 static const char *const paper_names[2] = {"A4", "Letter"};
 
-static enum hl_status parse_report(struct vctx *c, const cJSON *m, struct campaign *cp)
+static enum hl_status parse_report(struct val_ctx *c, const cJSON *m, struct campaign *cp)
 {
     const cJSON *k[OK_N];
     const char *note;
     int paper = 0;
-    size_t old = push_key(c, "report");
+    size_t old = val_push_key(c, "report");
     enum hl_status st;
-    if ((st = members(c, m, report_keys, OK_N, k)) ||
-        (k[OK_PAPER] && (st = get_enum(c, k[OK_PAPER], paper_names, 2, &paper))) ||
-        (k[OK_MINFRAC] && (st = get_num(c, k[OK_MINFRAC], (struct rng){0, 1, 0, 1, NULL, NULL},
+    if ((st = val_members(c, m, report_keys, OK_N, k)) ||
+        (k[OK_PAPER] && (st = val_enum(c, k[OK_PAPER], paper_names, 2, &paper))) ||
+        (k[OK_MINFRAC] && (st = val_num(c, k[OK_MINFRAC], (struct val_rng){0, 1, 0, 1, NULL, NULL},
                                         &cp->report_min_mol_fraction))) ||
-        (k[OK_NOTE] && (st = get_str(c, k[OK_NOTE], 0, MAX_TEXT, &note))))
+        (k[OK_NOTE] && (st = val_str(c, k[OK_NOTE], 0, VAL_MAX_TEXT, &note))))
         return st;
     cp->paper = paper ? CAMP_PAPER_LETTER : CAMP_PAPER_A4;
-    pop(c, old);
+    val_pop(c, old);
     return HL_OK;
 }
 enum { AK_FORMAT, AK_NOTE, AK_CONT, AK_N };
 static const char *const cat_keys[AK_N] = {"format", "note", "containers"};
 
-static enum hl_status check_format(struct vctx *c, const cJSON *obj, const cJSON *m, const char *want)
+static enum hl_status check_format(struct val_ctx *c, const cJSON *obj, const cJSON *m, const char *want)
 {
     if (!m)
-        return missing(c, obj, "format", NULL);
+        return val_missing(c, obj, "format", NULL);
     const char *s;
-    enum hl_status st = get_str(c, m, 0, MAX_TEXT, &s);
+    enum hl_status st = val_str(c, m, 0, VAL_MAX_TEXT, &s);
     if (st)
         return st;
     if (strcmp(s, want) == 0)
         return HL_OK;
     char q[64];
-    quote(s, q, sizeof q);
-    push_key(c, "format");
-    return verr(c, m, 0, "must be \"%s\" (got \"%s\")", want, q);
+    val_quote(s, q, sizeof q);
+    val_push_key(c, "format");
+    return val_err(c, m, 0, "must be \"%s\" (got \"%s\")", want, q);
 }
 
-static enum hl_status parse_containers(struct vctx *c, const cJSON *arr, struct campaign *cp,
+static enum hl_status parse_containers(struct val_ctx *c, const cJSON *arr, struct campaign *cp,
                                        int from_catalog, const unsigned char *skip_reagent)
 {
     enum hl_status st;
-    size_t old = push_key(c, "containers");
+    size_t old = val_push_key(c, "containers");
     int n = cJSON_GetArraySize(arr), idx = 0;
     struct camp_container *nc = hl_realloc(cp->containers, ((size_t)cp->ncontainers + (size_t)n + 1) * sizeof *nc);
     if (!nc)
@@ -2560,13 +1506,13 @@ static enum hl_status parse_containers(struct vctx *c, const cJSON *arr, struct 
     for (const cJSON *o = arr->child; o; o = o->next, idx++) {
         struct camp_container ct;
         memset(&ct, 0, sizeof ct);
-        size_t o2 = push_index(c, idx);
+        size_t o2 = val_push_index(c, idx);
         if ((st = parse_container(c, o, &ct))) {
             hl_free(ct.name);
             hl_free(ct.source);
             return st;
         }
-        pop(c, o2);
+        val_pop(c, o2);
         /* a catalog entry for a reagent the campaign lists, or sized in the other units */
         if ((skip_reagent && skip_reagent[ct.reagent]) ||
             (from_catalog && ct.units != CAMP_UNITS_ANY && ct.units != cp->units)) {
@@ -2577,7 +1523,7 @@ static enum hl_status parse_containers(struct vctx *c, const cJSON *arr, struct 
         ct.from_catalog = from_catalog;
         cp->containers[cp->ncontainers++] = ct;
     }
-    pop(c, old);
+    val_pop(c, old);
     return HL_OK;
 }
 
@@ -2586,11 +1532,11 @@ static enum hl_status parse_catalog(struct campaign *cp, const char *text, struc
     unsigned char have[RG_COUNT] = {0};
     for (int j = 0; j < cp->ncontainers; j++)
         have[cp->containers[j].reagent] = 1;
-    struct doc d;
-    enum hl_status st = doc_parse(text, strlen(text), "catalog", "catalog", 0, &d, e);
+    struct jpos_doc d;
+    enum hl_status st = jpos_parse(text, strlen(text), "catalog", "catalog", 0, &d, e);
     if (st)
         return st;
-    struct vctx c;
+    struct val_ctx c;
     memset(&c, 0, sizeof c);
     c.d = &d;
     c.text = text + 0;
@@ -2598,75 +1544,75 @@ static enum hl_status parse_catalog(struct campaign *cp, const char *text, struc
     c.e = e;
     const cJSON *k[AK_N];
     const char *note;
-    if ((st = members(&c, d.root, cat_keys, AK_N, k)) ||
+    if ((st = val_members(&c, d.root, cat_keys, AK_N, k)) ||
         (st = check_format(&c, d.root, k[AK_FORMAT], "haloledger-catalog/1")) ||
-        (k[AK_NOTE] && (st = get_str(&c, k[AK_NOTE], 0, MAX_TEXT, &note))) ||
-        (!k[AK_CONT] && (st = missing(&c, d.root, "containers", NULL))) ||
-        (st = check_array(&c, k[AK_CONT], 0)) ||
+        (k[AK_NOTE] && (st = val_str(&c, k[AK_NOTE], 0, VAL_MAX_TEXT, &note))) ||
+        (!k[AK_CONT] && (st = val_missing(&c, d.root, "containers", NULL))) ||
+        (st = val_array(&c, k[AK_CONT], 0)) ||
         (st = parse_containers(&c, k[AK_CONT], cp, 1, have))) {
-        doc_free(&d);
+        jpos_free(&d);
         return st;
     }
-    doc_free(&d);
+    jpos_free(&d);
     return st;
 }
 
 static enum hl_status parse_top(struct reader *rd, const cJSON *root)
 {
-    struct vctx *c = &rd->c;
+    struct val_ctx *c = &rd->c;
     struct campaign *cp = rd->camp;
     const cJSON *k[GK_N];
-    enum hl_status st = members(c, root, top_keys, GK_N, k);
+    enum hl_status st = val_members(c, root, top_keys, GK_N, k);
     if (st)
         return st;
     if ((st = check_format(c, root, k[GK_FORMAT], "haloledger-campaign/1")))
         return st;
     const char *note;
-    if ((k[GK_TITLE] && (st = dup_str(c, k[GK_TITLE], T_TEXT, MAX_TEXT, &cp->title))) ||
-        (k[GK_SITE] && (st = dup_str(c, k[GK_SITE], T_TEXT, MAX_TEXT, &cp->site))) ||
-        (k[GK_ISSUED] && (st = get_date(c, k[GK_ISSUED], &cp->issued_min))) ||
-        (k[GK_NOTE] && (st = get_str(c, k[GK_NOTE], 0, MAX_TEXT, &note))) ||
+    if ((k[GK_TITLE] && (st = val_dup_str(c, k[GK_TITLE], VAL_TEXT, VAL_MAX_TEXT, &cp->title))) ||
+        (k[GK_SITE] && (st = val_dup_str(c, k[GK_SITE], VAL_TEXT, VAL_MAX_TEXT, &cp->site))) ||
+        (k[GK_ISSUED] && (st = val_date(c, k[GK_ISSUED], &cp->issued_min))) ||
+        (k[GK_NOTE] && (st = val_str(c, k[GK_NOTE], 0, VAL_MAX_TEXT, &note))) ||
         (k[GK_MODEL] && (st = parse_model(c, k[GK_MODEL], &rd->model))) ||
         (k[GK_REPORT] && (st = parse_report(c, k[GK_REPORT], cp))))
         return st;
     int units = CAMP_UNITS_US;
-    if (k[GK_UNITS] && (st = get_enum(c, k[GK_UNITS], units_names, 2, &units)))
+    if (k[GK_UNITS] && (st = val_enum(c, k[GK_UNITS], units_names, 2, &units)))
         return st;
     cp->units = (enum camp_units)units;
     if (k[GK_MODEL]) {
         cp->has_model = 1;
-        cp->pos_model = pos_of(c, k[GK_MODEL]);
+        cp->pos_model = val_pos(c, k[GK_MODEL]);
     }
     if (k[GK_SCRUB]) {
         const cJSON *a = k[GK_SCRUB];
-        if ((st = check_array(c, a, 0)))
+        if ((st = val_array(c, a, 0)))
             return st;
         int n = cJSON_GetArraySize(a);
         cp->scrubbers = hl_calloc((size_t)n + 1, sizeof *cp->scrubbers);
-        if (!cp->scrubbers || idset_init(&rd->scrub_ids, (size_t)n))
+        if (!cp->scrubbers || val_idset_init(&rd->scrub_ids, (size_t)n))
             return hl_err_set(c->e, HL_ERR_NOMEM, "out of memory reading the campaign");
-        size_t old = push_key(c, "scrubbers");
+        size_t old = val_push_key(c, "scrubbers");
         int idx = 0;
         for (const cJSON *o = a->child; o; o = o->next, idx++) {
-            size_t o2 = push_index(c, idx);
+            size_t o2 = val_push_index(c, idx);
             struct camp_scrubber *s = &cp->scrubbers[idx];
             cp->nscrubbers = idx + 1; /* so camp_free sees a half-read entry */
             if ((st = parse_scrubber(c, o, s)))
                 return st;
-            int prev = idset_add(&rd->scrub_ids, s->id, idx);
+            int prev = val_idset_add(&rd->scrub_ids, s->id, idx);
             if (prev >= 0) {
                 const cJSON *idn = cJSON_GetObjectItemCaseSensitive(o, "id");
-                push_key(c, "id");
-                return verr(c, idn, 0, "duplicate scrubber id (first at %d:%d)",
+                val_push_key(c, "id");
+                return val_err(c, idn, 0, "duplicate scrubber id (first at %d:%d)",
                             cp->scrubbers[prev].pos.line, cp->scrubbers[prev].pos.col);
             }
-            pop(c, o2);
+            val_pop(c, o2);
         }
-        pop(c, old);
+        val_pop(c, old);
     }
     if (k[GK_STOCK]) {
         const cJSON *a = k[GK_STOCK];
-        if ((st = check_array(c, a, 0)))
+        if ((st = val_array(c, a, 0)))
             return st;
         int n = cJSON_GetArraySize(a);
         cp->stock = hl_calloc((size_t)n + 1, sizeof *cp->stock);
@@ -2675,28 +1621,28 @@ static enum hl_status parse_top(struct reader *rd, const cJSON *root)
         int first[RG_COUNT];
         for (int j = 0; j < RG_COUNT; j++)
             first[j] = -1;
-        size_t old = push_key(c, "stock");
+        size_t old = val_push_key(c, "stock");
         int idx = 0;
         for (const cJSON *o = a->child; o; o = o->next, idx++) {
-            size_t o2 = push_index(c, idx);
+            size_t o2 = val_push_index(c, idx);
             struct camp_stock *s = &cp->stock[idx];
             if ((st = parse_stock(c, o, s)))
                 return st;
             cp->nstock = idx + 1;
             if (first[s->reagent] >= 0) {
                 const cJSON *rn = cJSON_GetObjectItemCaseSensitive(o, "reagent");
-                push_key(c, "reagent");
-                return verr(c, rn, 0, "a second stock entry for %s (first at %d:%d)",
+                val_push_key(c, "reagent");
+                return val_err(c, rn, 0, "a second stock entry for %s (first at %d:%d)",
                             reagent_get(s->reagent) ? reagent_get(s->reagent)->name : "?",
                             cp->stock[first[s->reagent]].pos.line, cp->stock[first[s->reagent]].pos.col);
             }
             first[s->reagent] = idx;
-            pop(c, o2);
+            val_pop(c, o2);
         }
-        pop(c, old);
+        val_pop(c, old);
     }
     if (k[GK_CONT]) {
-        if ((st = check_array(c, k[GK_CONT], 0)) || (st = parse_containers(c, k[GK_CONT], cp, 0, NULL)))
+        if ((st = val_array(c, k[GK_CONT], 0)) || (st = parse_containers(c, k[GK_CONT], cp, 0, NULL)))
             return st;
     }
     if (k[GK_PERMITS] && (st = parse_permits(rd, k[GK_PERMITS])))
@@ -2706,8 +1652,8 @@ static enum hl_status parse_top(struct reader *rd, const cJSON *root)
     *cp->model = rd->model;
     int scheduled = k[GK_SCHED] || (rd->opts && rd->opts->nschedules > 0);
     if (!k[GK_RUNS] && !scheduled)
-        return missing(c, root, "runs", NULL);
-    if (k[GK_RUNS] && ((st = check_array(c, k[GK_RUNS], !scheduled)) || (st = parse_runs(rd, k[GK_RUNS]))))
+        return val_missing(c, root, "runs", NULL);
+    if (k[GK_RUNS] && ((st = val_array(c, k[GK_RUNS], !scheduled)) || (st = parse_runs(rd, k[GK_RUNS]))))
         return st;
     if (k[GK_SCHED] && (st = parse_schedule_key(rd, k[GK_SCHED])))
         return st;
@@ -2715,8 +1661,8 @@ static enum hl_status parse_top(struct reader *rd, const cJSON *root)
         if ((st = read_schedule(rd, rd->opts->schedules[j])))
             return st;
     if (!cp->nruns) {
-        push_key(c, k[GK_RUNS] ? "runs" : "schedule");
-        return verr(c, k[GK_RUNS] ? k[GK_RUNS] : k[GK_SCHED] ? k[GK_SCHED] : root, 0,
+        val_push_key(c, k[GK_RUNS] ? "runs" : "schedule");
+        return val_err(c, k[GK_RUNS] ? k[GK_RUNS] : k[GK_SCHED] ? k[GK_SCHED] : root, 0,
                     "no runs: the campaign and its schedules hold none");
     }
     if ((st = finish_runs(rd)))
@@ -2726,24 +1672,24 @@ static enum hl_status parse_top(struct reader *rd, const cJSON *root)
 
 static enum hl_status parse_permits(struct reader *rd, const cJSON *a)
 {
-    struct vctx *c = &rd->c;
+    struct val_ctx *c = &rd->c;
     struct campaign *cp = rd->camp;
     enum hl_status st;
-    if ((st = check_array(c, a, 0)))
+    if ((st = val_array(c, a, 0)))
         return st;
     int n = cJSON_GetArraySize(a), idx = 0;
     cp->permits = hl_calloc((size_t)n + 1, sizeof *cp->permits);
     if (!cp->permits)
         return hl_err_set(c->e, HL_ERR_NOMEM, "out of memory reading the campaign");
-    size_t old = push_key(c, "permits");
+    size_t old = val_push_key(c, "permits");
     for (const cJSON *o = a->child; o; o = o->next, idx++) {
-        size_t o2 = push_index(c, idx);
+        size_t o2 = val_push_index(c, idx);
         if ((st = parse_permit(c, &rd->scrub_ids, o, &cp->permits[idx])))
             return st;
         cp->npermits = idx + 1;
-        pop(c, o2);
+        val_pop(c, o2);
     }
-    pop(c, old);
+    val_pop(c, old);
     return HL_OK;
 }
 
@@ -2774,8 +1720,8 @@ enum hl_status camp_parse_opts(const char *text, size_t len, const char *path, c
         hl_free(cp);
         return hl_err_set(e, HL_ERR_NOMEM, "out of memory reading the campaign");
     }
-    struct doc d;
-    enum hl_status st = doc_parse(text, len, "", "campaign", 1, &d, e);
+    struct jpos_doc d;
+    enum hl_status st = jpos_parse(text, len, "", "campaign", 1, &d, e);
     if (!st) {
         rd.camp = cp;
         rd.opts = o;
@@ -2784,8 +1730,8 @@ enum hl_status camp_parse_opts(const char *text, size_t len, const char *path, c
         rd.c.prefix = "";
         rd.c.e = e;
         st = parse_top(&rd, d.root);
-        idset_free(&rd.scrub_ids);
-        doc_free(&d);
+        val_idset_free(&rd.scrub_ids);
+        jpos_free(&d);
     }
     if (!st && catalog_text && (st = parse_catalog(cp, catalog_text, e)) && e)
         e->doc = HL_DOC_CATALOG; /* its line:column are the catalog's, not the campaign's */
@@ -2815,9 +1761,9 @@ enum hl_status camp_load_opts(const char *path, const char *catalog_text, const 
     enum hl_status st = afile_read(path, &buf, &n, e);
     if (st)
         return st;
-    if (n > MAX_FILE) {
+    if (n > JPOS_MAX_FILE) {
         hl_free(buf);
-        return hl_err_at(e, HL_ERR_INPUT, 1, 1, "$", "the campaign is larger than %u bytes", MAX_FILE);
+        return hl_err_at(e, HL_ERR_INPUT, 1, 1, "$", "the campaign is larger than %u bytes", JPOS_MAX_FILE);
     }
     st = camp_parse_opts(buf, n, path, catalog_text, o, out, e);
     hl_free(buf);
@@ -2870,13 +1816,13 @@ enum hl_status camp_run_set(struct campaign *cp, int i, const char *key, const c
 {
     hl_err_clear(e);
     struct camp_run *r = &cp->runs[i];
-    struct vpos v = {0, 0, 0, 0, 0};
-    struct doc d;
+    struct jpos_val v = {0, 0, 0, 0, 0};
+    struct jpos_doc d;
     memset(&d, 0, sizeof d);
     d.v = &v;
     d.nv = 1;
     d.run_vi = (size_t)-1;
-    struct vctx c;
+    struct val_ctx c;
     memset(&c, 0, sizeof c);
     c.d = &d;
     c.text = value;
@@ -2891,12 +1837,12 @@ enum hl_status camp_run_set(struct campaign *cp, int i, const char *key, const c
         node.type = cJSON_String;
         node.valuestring = (char *)value;
         int mode = 0;
-        enum hl_status st = get_enum(&c, &node, mode_names, 2, &mode);
+        enum hl_status st = val_enum(&c, &node, mode_names, 2, &mode);
         if (!st)
             r->mode = mode ? CAMP_CSTR : CAMP_BATCH;
         return st;
     }
-    static const struct { const char *key; const struct rng *r; } num[] = {
+    static const struct { const char *key; const struct val_rng *r; } num[] = {
         {"reagent_eq", &req}, {"temp_c", &R_TEMP_C}, {"halogen_conversion", &rconv},
         {"feed_h", &rfeed}, {"overhalogenation_factor", &R_OVERHAL}};
     size_t k = 0;
@@ -2914,7 +1860,7 @@ enum hl_status camp_run_set(struct campaign *cp, int i, const char *key, const c
         node.type = cJSON_Number;
         node.valuedouble = x;
     }
-    enum hl_status st = get_num(&c, &node, *num[k].r, &x);
+    enum hl_status st = val_num(&c, &node, *num[k].r, &x);
     if (st)
         return st;
     switch (k) {
