@@ -12,7 +12,9 @@
  * (1-based) of a SMILES, formula or product_smiles, escapes counted at their raw
  * length (without escapes it is pos_smiles.col + k).
  *
- * Required (R) keys, defaults (=) and accepted ranges.  The top level and each
+ * Required (R) keys, defaults (=) and accepted ranges.  The defaults are set in one place,
+ * campaign.c (its "Defaults" section), before the keys are read: a campaign reaches the
+ * models with every value filled in, and no model substitutes a default of its own.  The top level and each
  * scrubbers/stock/containers/runs entry may also carry a free-text "note".  Text is UTF-8 without control characters, at most
  * 32767 bytes (ids: 1..100 bytes).  Every quantity the models divide by or scale with has a
  * physical floor rather than 0 (the message says why), so no result overflows to inf.
@@ -25,7 +27,7 @@
  *             liquor_kg [1, 1e9) R; min_naoh_wt_pct [0, naoh_wt_pct) = 2 (naoh only);
  *             max_acid_wt_pct [0.1,60] = 20 (water only); rated_acid_kmol_h [1e-3,1e6] R;
  *             makeup_naoh_wt_pct (0,100] = 50, >= naoh_wt_pct; liquor_cp_kj_kg_k [0.5,10]
- *             (absent = 0 = built-in); fresh_liquor_temp_c [-20,80] = 25;
+ *             (absent: the built-in tables, liquor_cp_given 0); fresh_liquor_temp_c [-20,80] = 25;
  *             max_liquor_temp_c (0,150] = 40; column {packing_factor_1_m [1,1e4] R, htu_m [0.01,20] R,
  *             removal_fraction [0.01,1) R, flood_fraction [0.1,1) = 0.7, carrier_kmol_h [1e-3,1e6] R,
  *             liquor_kg_h [1, 1e9) R, gas_temp_c [-40,200] = 25};
@@ -51,7 +53,7 @@
  *             halogen_conversion [1e-6,1] = 1; temp_c [-80,400] = 25; feed_h [1/60,8760] = 1;
  *             peak_factor [1,1000] = 1; vent_retained_fraction [0,1) = 0;
  *             reactor_mode "batch"|"cstr" = batch; solvent_kg [0, 1e9) = 0;
- *             mass_cp_kj_kg_k [0.5,10] (absent = built-in); accumulation [0,1] = 1;
+ *             mass_cp_kj_kg_k [0.5,10] = 1.8 (camp_origin_mass_cp); accumulation [0,1] = 1;
  *             mtt_c, td24_c [-80,1000], each >= temp_c (optional);
  *             repeat {count 1..10000 R, every_days [1/1440,3650] R}; model;
  *             actual (struct camp_actual; not on an entry with repeat: an actual is one batch's).
@@ -139,10 +141,12 @@ struct camp_scrubber {
     double naoh_wt_pct;         /* fresh liquor strength (naoh liquor) */
     double liquor_kg;           /* charge of fresh liquor */
     double min_naoh_wt_pct;     /* changeout before a run would go below it */
-    double max_acid_wt_pct;     /* water liquor: changeout before acid passes it */
+    double max_acid_wt_pct;     /* water liquor: changeout before HCl passes it */
+    double max_hbr_wt_pct;      /* water liquor: the same for HBr (no key: built in, 47) */
     double rated_acid_kmol_h;
     double makeup_naoh_wt_pct;  /* strength of purchased caustic, default 50 */
-    double liquor_cp_kj_kg_k;   /* 0 = the built-in correlation */
+    double liquor_cp_kj_kg_k;   /* given heat capacity of the liquor, where liquor_cp_given */
+    int liquor_cp_given;        /* 0: the built-in tables of the liquor (scrubber.h) */
     double fresh_liquor_temp_c; /* fresh liquor and idle-unit temperature, default 25 */
     double max_liquor_temp_c;   /* warn above it (no cooling modelled), default 40 */
     struct camp_column column;
@@ -207,6 +211,7 @@ struct camp_actual {
 
 #define CAMP_DEFAULT_FEED_H 1u /* feed_h not given: 1 h (sets the vent rate and peak) */
 #define CAMP_DEFAULT_TEMP 2u   /* temp_c not given: 25 C (sets isomer shares) */
+#define CAMP_DEFAULT_CP 4u     /* mass_cp_kj_kg_k not given: 1.8 (sets the adiabatic rise) */
 
 struct camp_run {
     char *id;                   /* with -1, -2 ... suffix when expanded from repeat */
@@ -228,7 +233,7 @@ struct camp_run {
     double vent_retained_fraction; /* default 0 */
     enum camp_mode mode;
     /* thermal screening (thermal.h): solvent in the reaction mass (default 0), its heat
-     * capacity (0 = built-in default), accumulation (default 1), MTT and TD24 when given */
+     * capacity (default 1.8), accumulation (default 1), MTT and TD24 when given */
     double solvent_kg, mass_cp_kj_kg_k, accumulation, mtt_c, td24_c;
     int has_mtt, has_td24;
     unsigned defaulted;         /* CAMP_DEFAULT_* bits: safety-relevant values not given */
@@ -266,9 +271,6 @@ struct camp_count {
 
 /* Flag limits of the month close, in per cent (defaults: common practice, see campaign.c). */
 struct camp_tolerances { double reagent_pct, product_pct, stock_pct; };
-#define CAMP_DEFAULT_REAGENT_PCT 5.0
-#define CAMP_DEFAULT_PRODUCT_PCT 10.0
-#define CAMP_DEFAULT_STOCK_PCT 2.0
 
 enum camp_paper { CAMP_PAPER_A4, CAMP_PAPER_LETTER };
 
@@ -278,7 +280,8 @@ struct campaign {
     int64_t issued_min;         /* optional "issued" date, -1 if absent */
     enum camp_paper paper;      /* report.paper: the workbook's print paper */
     enum camp_units units;      /* "units": which catalog containers are used (default US) */
-    double report_min_mol_fraction; /* report.min_mol_fraction, -1 if absent (ledger default) */
+    double report_min_mol_fraction; /* report.min_mol_fraction (default 1e-4) */
+    int report_min_mol_fraction_given; /* 0: the default (camp_origin_min_mol_fraction) */
     struct camp_scrubber *scrubbers; int nscrubbers;
     struct camp_permit *permits; int npermits;   /* in file order */
     struct camp_stock *stock; int nstock;
@@ -299,6 +302,11 @@ struct camp_opts {
     const char *const *schedules; int nschedules;
     char csv_sep;
 };
+
+/* Where the defaults of mass_cp_kj_kg_k and report.min_mol_fraction come from, as the
+ * Assumptions sheet names them (static text). */
+extern const char camp_origin_mass_cp[];
+extern const char camp_origin_min_mol_fraction[];
 
 /* Read and validate the campaign at path. catalog_text (may be NULL) is the default
  * container catalog JSON (templates/containers.json) merged under the campaign's

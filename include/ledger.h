@@ -173,10 +173,6 @@ struct ledger_opts {
     int64_t created_min;                 /* -1 = derive (campaign issued date or SOURCE_DATE_EPOCH) */
 };
 
-/* Reporting threshold when the campaign gives none: over-halogenated products below
- * this share of the substrate charged (mol/mol) are summed into one row per run. */
-#define LEDGER_DEFAULT_MIN_MOL_FRACTION 1e-4
-
 /* Build the ledger of a validated campaign. Each run's over-halogenated products below
  * the reporting threshold are replaced by one ROLE_OTHER row (their mol, kg and
  * mol_fraction summed; degree = the lowest degree summed) at the end of bal.products;

@@ -27,19 +27,19 @@ struct scrub_unit_in {
     int water_liquor;           /* 1: water absorbing HCl and HBr (hydrochloric and hydrobromic
                                  * acid); Cl2, Br2 and SO2 pass it */
     double naoh_wt_pct, liquor_kg, min_naoh_wt_pct;
-    double max_acid_wt_pct;     /* water: HCl strength of the changeout (0 -> 20 wt%) */
-    double max_hbr_wt_pct;      /* water: HBr strength of the changeout (0 -> 47 wt%); with both
+    double max_acid_wt_pct;     /* water: HCl strength of the changeout, wt% (> 0) */
+    double max_hbr_wt_pct;      /* water: HBr strength of the changeout, wt% (> 0); with both
                                  * acids, changeout before HCl/max_acid + HBr/max_hbr passes 1 */
-    double rated_acid_kmol_h, makeup_naoh_wt_pct, liquor_cp_kj_kg_k; /* cp 0 = built-in */
+    double rated_acid_kmol_h, makeup_naoh_wt_pct; /* caustic: makeup >= naoh_wt_pct */
+    double liquor_cp_kj_kg_k;   /* used where liquor_cp_given, else the built-in tables */
+    int liquor_cp_given;
     int has_column;
     double packing_factor_1_m, htu_m, removal_fraction, flood_fraction;
     double carrier_kmol_h, liquor_kg_h, gas_temp_c;
-    /* 0 = default: */
-    double fresh_liquor_temp_c; /* liquor at the first fill and every fresh charge; 0 -> 25 C
-                                 * unless fresh_temp_given (then 0 C is 0 C) */
-    int fresh_temp_given;
+    /* every value as given (the campaign reader fills the defaults; none is taken here): */
+    double fresh_liquor_temp_c; /* liquor at the first fill and every fresh charge */
     double max_liquor_temp_c;   /* hottest liquor allowed (caustic: hypochlorite turns to
-                                 * chlorate and absorbs Cl2 worse above it); 0 -> 40 C */
+                                 * chlorate and absorbs Cl2 worse above it) */
     /* What the unit removes of each vent species (emissions): removal[v] where bit
      * (1u << v) of removal_given is set, else from the column's transfer units (has_column),
      * else scrub_removal_default.  Fractions 0..1. */
@@ -165,8 +165,8 @@ double scrub_liquor_cp_kj_kg_k(double naoh_wt_pct);
  * check uses the instantaneous peak (flooding is an instantaneous limit).
  * run_out[nruns] and unit_out[nunits] are filled; free unit_out with
  * scrub_unit_out_free. Errors only for allocation or bad arguments.
- * Defaults: peak_factor <= 0 -> 1, makeup_naoh_wt_pct <= 0 -> 50, water liquor
- * max_acid_wt_pct <= 0 -> 20, max_hbr_wt_pct <= 0 -> 47. A changeout needs the unit idle (no run still venting
+ * Every input is used as given (no defaults here: the campaign reader sets them); a
+ * peak_factor, makeup or water-liquor limit that is not > 0 is HL_ERR_INPUT. A changeout needs the unit idle (no run still venting
  * into it); the first fill is in place already (makeup_kg counts changeouts only).
  * A unit with no runs gets no profile and no spent batch (its liquor is unused). */
 enum hl_status scrub_campaign(const struct scrub_unit_in *units, int nunits,
@@ -177,7 +177,7 @@ enum hl_status scrub_campaign(const struct scrub_unit_in *units, int nunits,
 /* One fresh charge of liquor_kg made up from purchased caustic (issue 15.4): solution
  * bought = liquor_kg x naoh_wt_pct / makeup_naoh_wt_pct [kg of makeup strength], dilution
  * water = liquor_kg - solution [kg]. Water liquor: no caustic, all liquor_kg is water.
- * makeup_naoh_wt_pct <= 0 -> 50. */
+ * makeup_naoh_wt_pct must be > 0 for a caustic liquor (no default is taken). */
 void scrub_fresh_charge(double liquor_kg, double naoh_wt_pct, double makeup_naoh_wt_pct,
                         int water_liquor, double *caustic_solution_kg, double *water_kg);
 

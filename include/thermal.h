@@ -26,9 +26,6 @@ enum therm_site {
     THERM_ALLYLIC, THERM_NSITE
 };
 
-/* Default heat capacity of a reaction mass [kJ/(kg K)] and its origin text. */
-#define THERM_DEFAULT_CP_KJ_KG_K 1.8
-extern const char therm_cp_origin[];
 /* Where the bond enthalpies come from (one compilation), for the ledger's Assumptions. */
 extern const char therm_bde_origin[];
 /* Most containers one manifold takes for gas withdrawal before liquid withdrawal through

@@ -48,6 +48,77 @@ int camp_string_col(const struct camp_strpos *p, int k)
 /* The schema                                                          */
 /* ------------------------------------------------------------------ */
 
+/* ---- Defaults: the one place where a value the file may leave out is set.  Each object
+ * is filled here before its keys are read, so the campaign reaches the models with every
+ * value in place and no model reads 0 as "use the default" (issue 9).  campaign.h lists
+ * them with the keys; the Assumptions sheet names the origins given here. ---- */
+
+const char camp_origin_mass_cp[] =
+    "typical of organic reaction masses, 1.8-2.0 kJ/(kg K) (Stoessel, Thermal Safety of "
+    "Chemical Processes, 2008); lower end taken (larger rise); from memory";
+const char camp_origin_min_mol_fraction[] =
+    "default: 1e-4 (0.01 %), a fifth of the 0.05 % impurity reporting threshold of ICH "
+    "Q3A(R2) (from memory)";
+
+/* Top level: no issue date, A4 paper, US container sizes (so that older campaigns order as
+ * before), the reporting threshold of camp_origin_min_mol_fraction, and the month-close
+ * tolerances: common practice, a container weighing reads to about 1 % of a draw, a batch
+ * isolation varies by several per cent, a monthly stock count to about 1 %; the defaults flag
+ * twice those. */
+static void campaign_defaults(struct campaign *cp)
+{
+    cp->issued_min = -1;
+    cp->paper = CAMP_PAPER_A4;
+    cp->units = CAMP_UNITS_US;
+    cp->report_min_mol_fraction = 1e-4;
+    cp->tolerances = (struct camp_tolerances){5.0, 10.0, 2.0};
+}
+
+static void scrubber_defaults(struct camp_scrubber *s)
+{
+    s->liquor = CAMP_LIQUOR_NAOH;
+    s->min_naoh_wt_pct = 2;      /* common practice: keep a few % free caustic */
+    s->max_acid_wt_pct = 20;     /* near the HCl-water azeotrope, 20.2 wt% at 1 atm (from memory) */
+    /* not a key: built in, under the HBr-water azeotrope, about 47.6 wt% (from memory) */
+    s->max_hbr_wt_pct = 47;
+    s->makeup_naoh_wt_pct = 50;  /* the usual commercial caustic strength (common practice) */
+    s->liquor_cp_given = 0;      /* the liquor's heat capacity from the built-in tables */
+    s->fresh_liquor_temp_c = 25; /* ambient (common practice) */
+    /* Hypochlorite liquor is kept below about 40 C: above it hypochlorite disproportionates
+     * to chlorate faster and the liquor absorbs Cl2 worse (common practice; hot water also
+     * holds less HCl, so the same default serves a water liquor). */
+    s->max_liquor_temp_c = 40;
+}
+
+static void column_defaults(struct camp_column *col)
+{
+    col->flood_fraction = 0.7; /* common practice: design at 60-80 % of flooding */
+    col->gas_temp_c = 25;
+}
+
+/* A run: no scrubber, every halogen charged reacts, 25 C, a 1 h feed vented at its mean
+ * rate, nothing retained, batch, no solvent, the whole charge able to accumulate (batch,
+ * worst case) and the reaction mass's heat capacity of camp_origin_mass_cp. */
+static void run_defaults(struct camp_run *r)
+{
+    r->scrubber = -1;
+    r->halogen_conversion = 1;
+    r->temp_c = 25;
+    r->feed_h = 1;
+    r->peak_factor = 1;
+    r->vent_retained_fraction = 0;
+    r->mode = CAMP_BATCH;
+    r->solvent_kg = 0;
+    r->mass_cp_kj_kg_k = 1.8;
+    r->accumulation = 1;
+}
+
+/* stock: no safety stock, no lead time; containers: no heel, for both unit systems;
+ * permits: kg/h and mg/Nm3 over the clock hour */
+static void stock_defaults(struct camp_stock *s) { s->safety_kg = 0; s->lead_days = 0; }
+static void container_defaults(struct camp_container *ct) { ct->heel_kg = 0; ct->units = CAMP_UNITS_ANY; }
+static void permit_defaults(struct camp_permit *p) { p->averaging_day = 0; }
+
 /* Lower bounds (issue 16.2).  Each is far below any real value and far above the
  * underflow that made the models print inf; the reason is given in the message. */
 static const struct val_rng R_CHARGE_KG = {1e-3, 1e9, 0, 1,  /* [1 g, 1e9) kg */
@@ -174,8 +245,7 @@ static enum hl_status parse_column(struct val_ctx *c, const cJSON *m, struct cam
         return st;
     col->present = 1;
     col->pos = val_pos(c, m);
-    col->flood_fraction = 0.7; /* common practice: design at 60-80 % of flooding */
-    col->gas_temp_c = 25;
+    column_defaults(col);
     static const int required[] = {CK_FP, CK_HTU, CK_REMOVAL, CK_CARRIER, CK_LIQ};
     for (size_t j = 0; j < sizeof required / sizeof required[0]; j++)
         if (!k[required[j]])
@@ -249,18 +319,12 @@ static enum hl_status parse_scrubber(struct val_ctx *c, const cJSON *o, struct c
     if (st)
         return st;
     s->pos = val_pos(c, o);
-    s->liquor = CAMP_LIQUOR_NAOH;
-    s->min_naoh_wt_pct = 2;      /* common practice: keep a few % free caustic */
-    s->max_acid_wt_pct = 20;     /* near the HCl-water azeotrope, 20.2 wt% at 1 atm (from memory) */
-    s->makeup_naoh_wt_pct = 50;  /* the usual commercial caustic strength (common practice) */
-    s->liquor_cp_kj_kg_k = 0;
-    s->fresh_liquor_temp_c = 25; /* ambient (common practice) */
-    s->max_liquor_temp_c = 40;   /* hypochlorite liquor kept below about 40 C (common practice) */
+    scrubber_defaults(s);
     if (!k[SK_ID])
         return val_missing(c, o, "id", NULL);
     if ((st = val_dup_str(c, k[SK_ID], VAL_TEXT | VAL_NONEMPTY, MAX_ID, &s->id)))
         return st;
-    int liq = 0;
+    int liq = s->liquor == CAMP_LIQUOR_WATER;
     if (k[SK_LIQUOR] && (st = val_enum(c, k[SK_LIQUOR], liquor_names, 2, &liq)))
         return st;
     s->liquor = liq ? CAMP_LIQUOR_WATER : CAMP_LIQUOR_NAOH;
@@ -315,6 +379,7 @@ static enum hl_status parse_scrubber(struct val_ctx *c, const cJSON *o, struct c
                         "liquor (%.15g wt%%)", s->makeup_naoh_wt_pct, s->naoh_wt_pct);
         }
     }
+    s->liquor_cp_given = k[SK_CP] != NULL;
     if (k[SK_COLUMN] && (st = parse_column(c, k[SK_COLUMN], &s->column)))
         return st;
     if ((st = parse_emission_keys(c, k[SK_STACK], k[SK_REMOVAL], s)))
@@ -336,6 +401,7 @@ static enum hl_status parse_stock(struct val_ctx *c, const cJSON *o, struct camp
     if (st)
         return st;
     s->pos = val_pos(c, o);
+    stock_defaults(s);
     const struct val_rng rlead = {0, 3650, 0, 0, NULL, NULL};
     s->pos_lead_days = k[TK_LEAD] ? val_pos(c, k[TK_LEAD]) : s->pos;
     const char *note;
@@ -364,6 +430,7 @@ static enum hl_status parse_container(struct val_ctx *c, const cJSON *o, struct 
     if (st)
         return st;
     ct->pos = val_pos(c, o);
+    container_defaults(ct);
     /* containers hold at least 100 g usable: laboratory bottles of NBS start there (common
      * practice); smaller would only inflate the container counts */
     const struct val_rng rnet = {0.1, 1e6, 0, 0, "no container holds less than 100 g", NULL};
@@ -380,7 +447,7 @@ static enum hl_status parse_container(struct val_ctx *c, const cJSON *o, struct 
         (k[NK_WITHDRAW] && (st = val_num(c, k[NK_WITHDRAW], rdraw, &ct->gas_withdrawal_kg_h))) ||
         (k[NK_NOTE] && (st = val_str(c, k[NK_NOTE], 0, VAL_MAX_TEXT, &note))))
         return st;
-    int units = CAMP_UNITS_ANY;
+    int units = ct->units;
     if ((k[NK_UNITS] && (st = val_enum(c, k[NK_UNITS], units_names, 2, &units))) ||
         (k[NK_SOURCE] && (st = val_dup_str(c, k[NK_SOURCE], VAL_TEXT | VAL_NONEMPTY, VAL_MAX_TEXT, &ct->source))))
         return st;
@@ -608,7 +675,8 @@ static enum hl_status parse_run_thermal(struct val_ctx *c, const cJSON *const *k
     const struct val_rng rcp = {0.5, 10, 0, 0, "no liquid reaction mass holds less heat (common practice)", NULL},
                      racc = {0, 1, 0, 0, NULL, NULL}, rt = {-80, 1000, 0, 0, NULL, NULL};
     enum hl_status st;
-    r->accumulation = 1;
+    if (!k[1])
+        r->defaulted |= CAMP_DEFAULT_CP;
     if ((k[0] && (st = val_num(c, k[0], R_NONNEG_KG, &r->solvent_kg))) ||
         (k[1] && (st = val_num(c, k[1], rcp, &r->mass_cp_kj_kg_k))) ||
         (k[2] && (st = val_num(c, k[2], racc, &r->accumulation))) ||
@@ -647,13 +715,7 @@ static enum hl_status parse_run(struct reader *rd, const cJSON *o, int idx, stru
     if (st)
         return st;
     r->src_index = idx;
-    r->scrubber = -1;
-    r->halogen_conversion = 1;
-    r->temp_c = 25;
-    r->feed_h = 1;
-    r->peak_factor = 1;
-    r->vent_retained_fraction = 0;
-    r->mode = CAMP_BATCH;
+    run_defaults(r);
     r->pos = val_pos(c, o);
     *count = 0;
     if (!k[RK_ID])
@@ -730,7 +792,7 @@ static enum hl_status parse_run(struct reader *rd, const cJSON *o, int idx, stru
         r->amount_is_kg = 1;
         r->pos_amount = val_pos(c, k[RK_KG]);
     }
-    int mode = 0;
+    int mode = r->mode == CAMP_CSTR;
     r->defaulted = (k[RK_FEED] ? 0u : CAMP_DEFAULT_FEED_H) | (k[RK_TEMP] ? 0u : CAMP_DEFAULT_TEMP);
     r->pos_feed = k[RK_FEED] ? val_pos(c, k[RK_FEED]) : r->pos;
     if ((k[RK_CONV] && (st = val_num(c, k[RK_CONV], rconv, &r->halogen_conversion))) ||
@@ -1404,6 +1466,7 @@ static enum hl_status parse_permit(struct val_ctx *c, const struct val_idset *id
     if (st)
         return st;
     p->pos = val_pos(c, o);
+    permit_defaults(p);
     if (!k[PMK_SCRUB])
         return val_missing(c, o, "scrubber", NULL);
     const char *sid;
@@ -1437,7 +1500,7 @@ static enum hl_status parse_permit(struct val_ctx *c, const struct val_idset *id
     const struct val_rng rkg = {1e-6, 1e9, 0, 0, "a limit must be above zero (at least 1 mg/h)", NULL},
                      rmg = {1e-3, 1e9, 0, 0, "a limit must be above zero (at least 0.001 mg/Nm3)", NULL},
                      rt = {1e-6, 1e9, 0, 0, "a limit must be above zero (at least 1 g/yr)", NULL};
-    int avg = 0;
+    int avg = p->averaging_day;
     const char *note;
     if ((k[PMK_KG_H] && (st = val_num(c, k[PMK_KG_H], rkg, &p->max_kg_h))) ||
         (k[PMK_MG_NM3] && (st = val_num(c, k[PMK_MG_NM3], rmg, &p->max_mg_nm3))) ||
@@ -1461,7 +1524,7 @@ static enum hl_status parse_report(struct val_ctx *c, const cJSON *m, struct cam
 {
     const cJSON *k[OK_N];
     const char *note;
-    int paper = 0;
+    int paper = cp->paper == CAMP_PAPER_LETTER;
     size_t old = val_push_key(c, "report");
     enum hl_status st;
     if ((st = val_members(c, m, report_keys, OK_N, k)) ||
@@ -1471,6 +1534,7 @@ static enum hl_status parse_report(struct val_ctx *c, const cJSON *m, struct cam
         (k[OK_NOTE] && (st = val_str(c, k[OK_NOTE], 0, VAL_MAX_TEXT, &note))))
         return st;
     cp->paper = paper ? CAMP_PAPER_LETTER : CAMP_PAPER_A4;
+    cp->report_min_mol_fraction_given = k[OK_MINFRAC] != NULL;
     val_pop(c, old);
     return HL_OK;
 }
@@ -1575,7 +1639,7 @@ static enum hl_status parse_top(struct reader *rd, const cJSON *root)
         (k[GK_MODEL] && (st = parse_model(c, k[GK_MODEL], &rd->model))) ||
         (k[GK_REPORT] && (st = parse_report(c, k[GK_REPORT], cp))))
         return st;
-    int units = CAMP_UNITS_US;
+    int units = cp->units;
     if (k[GK_UNITS] && (st = val_enum(c, k[GK_UNITS], units_names, 2, &units)))
         return st;
     cp->units = (enum camp_units)units;
@@ -1709,13 +1773,7 @@ enum hl_status camp_parse_opts(const char *text, size_t len, const char *path, c
     struct campaign *cp = hl_calloc(1, sizeof *cp);
     if (!cp)
         return hl_err_set(e, HL_ERR_NOMEM, "out of memory reading the campaign");
-    cp->issued_min = -1;
-    cp->report_min_mol_fraction = -1;
-    /* common practice: a container weighing reads to about 1 % of a draw, a batch isolation
-     * varies by several per cent, a monthly stock count to about 1 %; the defaults flag
-     * twice those */
-    cp->tolerances = (struct camp_tolerances){CAMP_DEFAULT_REAGENT_PCT, CAMP_DEFAULT_PRODUCT_PCT,
-                                              CAMP_DEFAULT_STOCK_PCT};
+    campaign_defaults(cp);
     if (path && !(cp->file = hl_strdup(path))) {
         hl_free(cp);
         return hl_err_set(e, HL_ERR_NOMEM, "out of memory reading the campaign");

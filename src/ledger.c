@@ -310,7 +310,7 @@ static enum hl_status run_thermal(const struct campaign *c, const struct camp_ru
 {
     enum hl_status st = HL_OK;
     lr->therm_mass_kg = r->substrate_kg + lr->bal.reagent_kg + r->solvent_kg;
-    lr->therm_cp_kj_kg_k = r->mass_cp_kj_kg_k > 0 ? r->mass_cp_kj_kg_k : THERM_DEFAULT_CP_KJ_KG_K;
+    lr->therm_cp_kj_kg_k = r->mass_cp_kj_kg_k;
     lr->therm_accumulation = r->accumulation;
     lr->has_mtt = r->has_mtt;
     lr->mtt_c = r->mtt_c;
@@ -344,9 +344,9 @@ static enum hl_status run_thermal(const struct campaign *c, const struct camp_ru
             st = assume(l, e, "Site of a substrate given by formula only", 0, 0, NULL,
                         "reaction heat taken at a secondary C-H (NBS: benzylic); give a SMILES "
                         "for the site classes (common practice assumption)");
-        if (!st && !(r->mass_cp_kj_kg_k > 0))
+        if (!st && (r->defaulted & CAMP_DEFAULT_CP))
             st = assume(l, e, "Heat capacity of the reaction mass (mass_cp_kj_kg_k)", 1,
-                        THERM_DEFAULT_CP_KJ_KG_K, "kJ/(kg K)", therm_cp_origin);
+                        r->mass_cp_kj_kg_k, "kJ/(kg K)", camp_origin_mass_cp);
         if (!st && r->accumulation == 1)
             st = assume(l, e, "Accumulation of unreacted halogen (accumulation)", 1, 1, "fraction",
                         "default: the whole charge present unreacted (batch, worst case)");
@@ -705,13 +705,15 @@ static enum hl_status run_scrubbers(const struct campaign *c, struct ledger *l, 
             .id = s->id, .water_liquor = s->liquor == CAMP_LIQUOR_WATER,
             .naoh_wt_pct = s->naoh_wt_pct, .liquor_kg = s->liquor_kg,
             .min_naoh_wt_pct = s->min_naoh_wt_pct, .max_acid_wt_pct = s->max_acid_wt_pct,
+            .max_hbr_wt_pct = s->max_hbr_wt_pct,
             .rated_acid_kmol_h = s->rated_acid_kmol_h, .makeup_naoh_wt_pct = s->makeup_naoh_wt_pct,
-            .liquor_cp_kj_kg_k = s->liquor_cp_kj_kg_k, .has_column = s->column.present,
+            .liquor_cp_kj_kg_k = s->liquor_cp_kj_kg_k, .liquor_cp_given = s->liquor_cp_given,
+            .has_column = s->column.present,
             .packing_factor_1_m = s->column.packing_factor_1_m, .htu_m = s->column.htu_m,
             .removal_fraction = s->column.removal_fraction, .flood_fraction = s->column.flood_fraction,
             .carrier_kmol_h = s->column.carrier_kmol_h, .liquor_kg_h = s->column.liquor_kg_h,
             .gas_temp_c = s->column.gas_temp_c,
-            .fresh_liquor_temp_c = s->fresh_liquor_temp_c, .fresh_temp_given = 1,
+            .fresh_liquor_temp_c = s->fresh_liquor_temp_c,
             .max_liquor_temp_c = s->max_liquor_temp_c, .removal_given = s->removal_given};
         memcpy(units[u].removal, s->removal, sizeof units[u].removal);
     }
@@ -1521,12 +1523,10 @@ static enum hl_status report_threshold(const struct campaign *c, const struct le
         l->report_min_mol_fraction = 0;
         return assume(l, e, what, 1, 0, "mol/mol", "--all-products: every product listed");
     }
-    int given = c->report_min_mol_fraction >= 0;
-    l->report_min_mol_fraction = given ? c->report_min_mol_fraction : LEDGER_DEFAULT_MIN_MOL_FRACTION;
+    l->report_min_mol_fraction = c->report_min_mol_fraction;
     return assume(l, e, what, 1, l->report_min_mol_fraction, "mol/mol",
-                  given ? "campaign report.min_mol_fraction"
-                        : "default: 1e-4 (0.01 %), a fifth of the 0.05 % impurity reporting "
-                          "threshold of ICH Q3A(R2) (from memory)");
+                  c->report_min_mol_fraction_given ? "campaign report.min_mol_fraction"
+                                                   : camp_origin_min_mol_fraction);
 }
 
 static enum hl_status copy_identity(const struct campaign *c, const struct ledger_opts *o,

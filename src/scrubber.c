@@ -343,27 +343,18 @@ static void column_check(const struct scrub_unit_in *u, double peak_kmol_h, doub
 /* ---- campaign ---- */
 
 #define MAX_HOURS (20L * 366 * 24) /* a load profile longer than 20 years is a bad input */
-#define DEFAULT_MAX_ACID_WT_PCT 20.0 /* same default as campaign.c (HCl-water azeotrope, from memory) */
 /* A water liquor is taken to boil at 100 C, water at 1 atm: hydrochloric and hydrobromic
  * acid boil higher up to their maximum-boiling azeotropes (about 108.6 C at 20.2 wt% HCl,
  * 124.3 C at 47.6 wt% HBr, CRC Handbook azeotrope table, from memory), so below them
  * the alarm comes early, never late.  Past an azeotrope the acid boils lower and gives off
  * its gas: the changeout strengths keep a liquor under them by default. */
 #define ACID_BOIL_C 100.0
-#define DEFAULT_MAX_HBR_WT_PCT 47.0  /* under the HBr-water azeotrope, about 47.6 wt% (from memory) */
-#define DEFAULT_MAKEUP_WT_PCT 50.0   /* purchased caustic soda 50 %: common practice */
-#define DEFAULT_FRESH_TEMP_C 25.0    /* liquor charged at about room temperature: common practice */
-/* Hypochlorite liquor is kept below about 40 C: above it hypochlorite disproportionates to
- * chlorate faster and the liquor absorbs Cl2 worse (common practice; hot water also holds
- * less HCl, so the same default serves a water liquor). */
-#define DEFAULT_MAX_TEMP_C 40.0
 
 void scrub_fresh_charge(double liquor_kg, double naoh_wt_pct, double makeup_naoh_wt_pct,
                         int water_liquor, double *caustic_solution_kg, double *water_kg)
 {
-    double mk = makeup_naoh_wt_pct > 0 ? makeup_naoh_wt_pct : DEFAULT_MAKEUP_WT_PCT;
     /* NaOH is conserved on dilution: liquor_kg x w_fresh = solution x w_makeup */
-    double sol = water_liquor ? 0.0 : liquor_kg * naoh_wt_pct / mk;
+    double sol = water_liquor ? 0.0 : liquor_kg * naoh_wt_pct / makeup_naoh_wt_pct;
     *caustic_solution_kg = sol;
     *water_kg = liquor_kg - sol;
 }
@@ -390,19 +381,13 @@ static double liq_mass(const struct liq *q)
     return m;
 }
 
-static double fresh_temp_c(const struct scrub_unit_in *u)
-{
-    return u->fresh_temp_given || u->fresh_liquor_temp_c != 0 ? u->fresh_liquor_temp_c
-                                                              : DEFAULT_FRESH_TEMP_C;
-}
-
 static void fill(const struct scrub_unit_in *u, struct liq *q)
 {
     q->naoh = u->water_liquor ? 0 : u->liquor_kg * u->naoh_wt_pct / 100.0;
     q->water = u->liquor_kg - q->naoh;
     q->hcl = q->hbr = 0;
     memset(q->salt, 0, sizeof q->salt);
-    q->temp_c = fresh_temp_c(u);
+    q->temp_c = u->fresh_liquor_temp_c;
     q->dirty = 0;
 }
 
@@ -430,16 +415,14 @@ static enum hl_status push_spent(struct scrub_unit_out *o, struct liq *q, int64_
 }
 
 /* Water liquor: how far the acid has gone towards its changeout strength, as the sum of
- * each acid's strength over its own limit (HCl: max_acid_wt_pct, default 20, near its
- * azeotrope of 20.2 wt%; HBr: max_hbr_wt_pct, default 47, under its azeotrope of about
- * 47.6 wt% - both azeotropes at 1 atm, CRC Handbook azeotrope table, from memory).  A
+ * each acid's strength over its own limit (HCl: max_acid_wt_pct, campaign default 20, near
+ * its azeotrope of 20.2 wt%; HBr: max_hbr_wt_pct, built in at 47, under its azeotrope of
+ * about 47.6 wt% - both azeotropes at 1 atm, CRC Handbook azeotrope table, from memory).  A
  * linear share rule for a mixed acid (assumption); 1 is the limit.  Strengths in wt% of
  * the whole liquor. */
 static double acid_load(const struct scrub_unit_in *u, double hcl_wt_pct, double hbr_wt_pct)
 {
-    double max_hcl = u->max_acid_wt_pct > 0 ? u->max_acid_wt_pct : DEFAULT_MAX_ACID_WT_PCT;
-    double max_hbr = u->max_hbr_wt_pct > 0 ? u->max_hbr_wt_pct : DEFAULT_MAX_HBR_WT_PCT;
-    return hcl_wt_pct / max_hcl + hbr_wt_pct / max_hbr;
+    return hcl_wt_pct / u->max_acid_wt_pct + hbr_wt_pct / u->max_hbr_wt_pct;
 }
 
 /* Would absorbing vent (mol) break the liquor limit? Caustic: NaOH wt% below the
@@ -505,8 +488,7 @@ static double water_capacity(const struct scrub_unit_in *u, const struct liq *q,
     double hcl = vent[VS_HCL] * gas_mm(VS_HCL) / 1000.0, hbr = vent[VS_HBR] * gas_mm(VS_HBR) / 1000.0;
     if (!(hcl + hbr > 0))
         return 1.0;
-    double mh = u->max_acid_wt_pct > 0 ? u->max_acid_wt_pct : DEFAULT_MAX_ACID_WT_PCT;
-    double mb = u->max_hbr_wt_pct > 0 ? u->max_hbr_wt_pct : DEFAULT_MAX_HBR_WT_PCT;
+    double mh = u->max_acid_wt_pct, mb = u->max_hbr_wt_pct;
     /* 100 (q_hcl + g hcl) / mh + 100 (q_hbr + g hbr) / mb <= mass + g (hcl + hbr) */
     double room = liq_mass(q) - 100.0 * q->hcl / mh - 100.0 * q->hbr / mb;
     double per_g = 100.0 * hcl / mh + 100.0 * hbr / mb - (hcl + hbr);
@@ -578,14 +560,13 @@ static void absorb(const struct scrub_unit_in *u, struct liq *q, const double *v
     /* The heat warms the whole liquor after absorption; cp at the strength the run
      * starts with (an input cp overrides the built-in tables).  No cooling: the rises
      * add up until the next fresh charge (pessimistic). */
-    double cp = u->liquor_cp_kj_kg_k > 0 ? u->liquor_cp_kj_kg_k
+    double cp = u->liquor_cp_given ? u->liquor_cp_kj_kg_k
                 : u->water_liquor ? scrub_acid_cp_kj_kg_k(hcl_before, hbr_before)
                                   : scrub_liquor_cp_kj_kg_k(wt_before);
     r->temp_rise_k = mass > 0 ? r->heat_kj / (mass * cp) : 0;
     q->temp_c += r->temp_rise_k;
     r->liquor_temp_c_after = q->temp_c;
-    double max_t = u->max_liquor_temp_c != 0 ? u->max_liquor_temp_c : DEFAULT_MAX_TEMP_C;
-    r->too_hot = q->temp_c > max_t;
+    r->too_hot = q->temp_c > u->max_liquor_temp_c;
     r->naoh_left_kg = q->naoh;
     r->liquor_kg_after = mass;
     r->naoh_wt_pct_after = mass > 0 ? q->naoh / mass * 100.0 : 0;
@@ -639,6 +620,11 @@ static enum hl_status check_inputs(const struct scrub_unit_in *units, int nunits
             return hl_err_set(e, HL_ERR_INPUT,
                               "scrubber %s: need 0 < naoh_wt_pct < 100 and 0 <= min_naoh_wt_pct < "
                               "naoh_wt_pct", id);
+        if (!u->water_liquor && !(u->makeup_naoh_wt_pct >= u->naoh_wt_pct && u->makeup_naoh_wt_pct <= 100))
+            return hl_err_set(e, HL_ERR_INPUT,
+                              "scrubber %s: need naoh_wt_pct <= makeup_naoh_wt_pct <= 100", id);
+        if (u->liquor_cp_given && !(u->liquor_cp_kj_kg_k > 0 && isfinite(u->liquor_cp_kj_kg_k)))
+            return hl_err_set(e, HL_ERR_INPUT, "scrubber %s: liquor_cp_kj_kg_k must be > 0", id);
         if (!isfinite(u->fresh_liquor_temp_c) || !(u->fresh_liquor_temp_c > -273.15) ||
             !isfinite(u->max_liquor_temp_c))
             return hl_err_set(e, HL_ERR_INPUT,
@@ -650,9 +636,10 @@ static enum hl_status check_inputs(const struct scrub_unit_in *units, int nunits
                  (u->water_liquor && v != VS_HCL && v != VS_HBR && u->removal[v] > 0)))
                 return hl_err_set(e, HL_ERR_INPUT, "scrubber %s: removal of %s must lie in [0, 1] "
                                   "(0 for Cl2, Br2, SO2 on a water liquor)", id, vent_name(v));
-        if (u->water_liquor && (!(u->max_acid_wt_pct < 100) || !(u->max_hbr_wt_pct < 100)))
+        if (u->water_liquor && (!(u->max_acid_wt_pct > 0 && u->max_acid_wt_pct < 100) ||
+                                !(u->max_hbr_wt_pct > 0 && u->max_hbr_wt_pct < 100)))
             return hl_err_set(e, HL_ERR_INPUT,
-                              "scrubber %s: max_acid_wt_pct and max_hbr_wt_pct must be < 100", id);
+                              "scrubber %s: max_acid_wt_pct and max_hbr_wt_pct must be > 0 and < 100", id);
         if (u->has_column &&
             (!(u->packing_factor_1_m > 0) || !(u->htu_m > 0) || !(u->removal_fraction > 0) ||
              !(u->removal_fraction < 1) || !(u->flood_fraction > 0) || !(u->flood_fraction <= 1) ||
@@ -665,8 +652,10 @@ static enum hl_status check_inputs(const struct scrub_unit_in *units, int nunits
         const struct scrub_run_in *r = &runs[i];
         if (r->unit < -1 || r->unit >= nunits)
             return hl_err_set(e, HL_ERR_INPUT, "run %d: scrubber index %d out of range", i, r->unit);
-        if (!(r->feed_h > 0) || !isfinite(r->feed_h) || !isfinite(r->peak_factor))
+        if (!(r->feed_h > 0) || !isfinite(r->feed_h))
             return hl_err_set(e, HL_ERR_INPUT, "run %d: feed_h must be > 0", i);
+        if (!(r->peak_factor > 0) || !isfinite(r->peak_factor))
+            return hl_err_set(e, HL_ERR_INPUT, "run %d: peak_factor must be > 0", i);
         double gas = 0;
         for (int v = 0; v < VS_COUNT; v++) {
             if (!(r->vent_mol[v] >= 0) || !isfinite(r->vent_mol[v]))
@@ -674,7 +663,7 @@ static enum hl_status check_inputs(const struct scrub_unit_in *units, int nunits
             gas += r->vent_mol[v];
         }
         /* a rate that overflows would hide the overload it stands for: refuse it */
-        double pf = r->peak_factor > 0 ? r->peak_factor : 1.0, window_s = r->feed_h / pf * 3600.0;
+        double pf = r->peak_factor, window_s = r->feed_h / pf * 3600.0;
         if (!isfinite(gas / 1000.0 / r->feed_h * pf) || !isfinite(window_s) || !(window_s > 0) ||
             !isfinite(gas * 1000.0 / window_s)) /* heat_kw stays finite: < 1000 kJ/mol */
             return hl_err_set(e, HL_ERR_INPUT,
@@ -692,8 +681,6 @@ static enum hl_status check_inputs(const struct scrub_unit_in *units, int nunits
     return HL_OK;
 }
 
-static double pf_of(const struct scrub_run_in *r) { return r->peak_factor > 0 ? r->peak_factor : 1.0; }
-
 /* End of a run's vent window [min].  feed_h / peak_factor x 60 is rarely an exact binary
  * number (2 h / 1.5 = 80 min), so an end within 1e-6 min of a whole minute is that minute:
  * "ends at 08:50" and "starts at 08:50" must compare equal (no overlap).  The snap never
@@ -701,7 +688,7 @@ static double pf_of(const struct scrub_run_in *r) { return r->peak_factor > 0 ? 
  * after its start: a safety check must not lose the load of the shortest vent. */
 static double vent_end_min(const struct scrub_run_in *r)
 {
-    double start = (double)r->start_min, end = start + r->feed_h / pf_of(r) * 60.0;
+    double start = (double)r->start_min, end = start + r->feed_h / r->peak_factor * 60.0;
     double whole = round(end);
     if (fabs(end - whole) < 1e-6 && whole > start)
         end = whole;
@@ -988,7 +975,7 @@ static void bin_run(struct bins *bn, const struct scrub_run_in *r, const struct 
                     double rate)
 {
     double a = (double)(r->start_min - o->hour0_min);
-    double b = a + r->feed_h / pf_of(r) * 60.0; /* minutes from hour0 */
+    double b = a + r->feed_h / r->peak_factor * 60.0; /* minutes from hour0 */
     /* b <= nhours x 60 up to round-off, so ib <= nhours: an entry at hour nhours
      * is never reported */
     int64_t ia = (r->start_min - o->hour0_min) / 60, ib = (int64_t)floor(b / 60.0);
@@ -1042,7 +1029,7 @@ static enum hl_status emission_profiles(const struct scrub_run_in *runs, int nru
             if (r->unit < 0 || !(kg > 0))
                 continue;
             unit_out[r->unit].emis[v].kg += kg;
-            double rate = kg / (r->feed_h / pf_of(r)); /* kg/h over the vent window */
+            double rate = kg / (r->feed_h / r->peak_factor); /* kg/h over the vent window */
             if (rate > q[r->unit].max_rate)
                 q[r->unit].max_rate = rate;
             bin_run(bn, r, &unit_out[r->unit], rate);
@@ -1112,11 +1099,11 @@ enum hl_status scrub_campaign(const struct scrub_unit_in *units, int nunits,
         double gas = 0;
         for (int v = 0; v < VS_COUNT; v++)
             gas += r->vent_mol[v];
-        run_out[i].acid_kmol_h = gas / 1000.0 / r->feed_h * pf_of(r);
+        run_out[i].acid_kmol_h = gas / 1000.0 / r->feed_h * r->peak_factor;
         if (r->unit < 0)
             continue;
         struct liq *l = &q[r->unit];
-        double end = (double)r->start_min + r->feed_h / pf_of(r) * 60.0;
+        double end = (double)r->start_min + r->feed_h / r->peak_factor * 60.0;
         if (!l->used || r->start_min < l->first_min)
             l->first_min = r->start_min;
         if (!l->used || end > l->last_end_min)
@@ -1202,7 +1189,7 @@ enum hl_status scrub_campaign(const struct scrub_unit_in *units, int nunits,
             /* between groups the unit stands idle (hours to days here): the liquor is taken
              * back at the fresh-liquor temperature, so heat piles up only within a group of
              * overlapping runs (common practice assumption; no cooler is modelled) */
-            l->temp_c = fresh_temp_c(u);
+            l->temp_c = u->fresh_liquor_temp_c;
             if (l->dirty && over_limit(u, l, &gvent[(size_t)grp[i] * VS_COUNT])) {
                 if ((st = push_spent(o, l, r->start_min, 0))) {
                     hl_err_set(e, st, "out of memory in the scrubber model");
@@ -1218,7 +1205,7 @@ enum hl_status scrub_campaign(const struct scrub_unit_in *units, int nunits,
         double taken[VS_COUNT];
         absorb(u, l, r->vent_mol, ro, taken);
         emit(o->removal, r->vent_mol, taken, ro);
-        ro->heat_kw = ro->heat_kj / (r->feed_h / pf_of(r) * 3600.0);
+        ro->heat_kw = ro->heat_kj / (r->feed_h / r->peak_factor * 3600.0);
         o->naoh_kg += ro->naoh_kg;
         o->heat_kj += ro->heat_kj;
         if (ro->liquor_temp_c_after > o->max_liquor_temp_c)

@@ -49,9 +49,6 @@ static const struct bde E_PI = {271.6, 2.0};
 const char therm_bde_origin[] =
     "Luo, Comprehensive Handbook of Chemical Bond Energies, CRC Press, 2007 (small alkyls as "
     "Blanksby & Ellison, Acc. Chem. Res. 2003, 36, 255), 298 K, gas phase; from memory";
-const char therm_cp_origin[] =
-    "typical of organic reaction masses, 1.8-2.0 kJ/(kg K) (Stoessel, Thermal Safety of "
-    "Chemical Processes, 2008); lower end taken (larger rise); from memory";
 const char therm_manifold_origin[] =
     "common practice: more containers than this on one gas manifold draw unevenly; feed "
     "liquid through an evaporator instead (ask the supplier)";

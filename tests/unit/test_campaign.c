@@ -88,6 +88,7 @@ static void demo_fields(void)
     ASSERT_REL(s->rated_acid_kmol_h, 2.0, 1e-15);
     ASSERT_REL(s->makeup_naoh_wt_pct, 32, 1e-15);
     ASSERT_REL(s->liquor_cp_kj_kg_k, 3.6, 1e-15);
+    CU_ASSERT_EQUAL(s->liquor_cp_given, 1);
     CU_ASSERT_EQUAL(s->column.present, 1);
     ASSERT_REL(s->column.packing_factor_1_m, 300, 1e-15);
     ASSERT_REL(s->column.htu_m, 0.6, 1e-15);
@@ -187,10 +188,24 @@ static void defaults(void)
     CU_ASSERT_EQUAL(s->liquor, CAMP_LIQUOR_NAOH);
     ASSERT_REL(s->min_naoh_wt_pct, 2, 1e-15);
     ASSERT_REL(s->makeup_naoh_wt_pct, 50, 1e-15);
-    ASSERT_ABS(s->liquor_cp_kj_kg_k, 0, 0);
+    CU_ASSERT_EQUAL(s->liquor_cp_given, 0);
     CU_ASSERT_EQUAL(s->column.present, 0);
+    /* the liquor temperatures of design section 3 / campaign.h: fresh 25 C, limit 40 C */
+    ASSERT_REL(s->fresh_liquor_temp_c, 25, 1e-15);
+    ASSERT_REL(s->max_liquor_temp_c, 40, 1e-15);
     CU_ASSERT_EQUAL(c->scrubbers[1].liquor, CAMP_LIQUOR_WATER);
     ASSERT_REL(c->scrubbers[1].max_acid_wt_pct, 20, 1e-15);
+    ASSERT_REL(c->scrubbers[1].max_hbr_wt_pct, 47, 1e-15); /* design section 5: 47 wt% built in */
+    ASSERT_REL(c->scrubbers[1].fresh_liquor_temp_c, 25, 1e-15);
+    ASSERT_REL(c->scrubbers[1].max_liquor_temp_c, 40, 1e-15);
+    /* top level: US container sizes, the 1e-4 reporting threshold and the month-close
+     * tolerances 5 / 10 / 2 % of design section 3 */
+    CU_ASSERT_EQUAL(c->units, CAMP_UNITS_US);
+    ASSERT_REL(c->report_min_mol_fraction, 1e-4, 1e-15);
+    CU_ASSERT_EQUAL(c->report_min_mol_fraction_given, 0);
+    ASSERT_REL(c->tolerances.reagent_pct, 5, 1e-15);
+    ASSERT_REL(c->tolerances.product_pct, 10, 1e-15);
+    ASSERT_REL(c->tolerances.stock_pct, 2, 1e-15);
     ASSERT_ABS(c->stock[0].safety_kg, 0, 0);
     ASSERT_ABS(c->stock[0].lead_days, 0, 0);
     ASSERT_ABS(c->containers[0].heel_kg, 0, 0);
@@ -205,6 +220,11 @@ static void defaults(void)
     CU_ASSERT_EQUAL(r->mode, CAMP_BATCH);
     CU_ASSERT_EQUAL(r->model->set_mask, 0u);
     CU_ASSERT_PTR_NULL(r->substrate_name);
+    /* thermal screening defaults of design section 3: no solvent, cp 1.8, accumulation 1 */
+    ASSERT_ABS(r->solvent_kg, 0, 0);
+    ASSERT_REL(r->mass_cp_kj_kg_k, 1.8, 1e-15);
+    ASSERT_REL(r->accumulation, 1, 1e-15);
+    CU_ASSERT_EQUAL(r->defaulted, CAMP_DEFAULT_FEED_H | CAMP_DEFAULT_TEMP | CAMP_DEFAULT_CP);
     camp_free(c);
 }
 

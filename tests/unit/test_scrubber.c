@@ -25,10 +25,21 @@ static int64_t t(const char *s)
     return m;
 }
 
+/* The model takes every value as given (no defaults of its own): the units here carry the
+ * campaign defaults of design section 3 / campaign.h (fresh liquor 25 C, limit 40 C, make-up
+ * 50 wt%; a water liquor's HBr limit 47 wt%). */
 static struct scrub_unit_in caustic(double kg, double wt, double min_wt)
 {
     return (struct scrub_unit_in){.id = "VS-T", .naoh_wt_pct = wt, .liquor_kg = kg,
-                                  .min_naoh_wt_pct = min_wt, .makeup_naoh_wt_pct = 50};
+                                  .min_naoh_wt_pct = min_wt, .makeup_naoh_wt_pct = 50,
+                                  .fresh_liquor_temp_c = 25, .max_liquor_temp_c = 40};
+}
+
+static struct scrub_unit_in water(double kg, double max_acid_wt_pct)
+{
+    return (struct scrub_unit_in){.id = "W", .water_liquor = 1, .liquor_kg = kg,
+                                  .max_acid_wt_pct = max_acid_wt_pct, .max_hbr_wt_pct = 47,
+                                  .fresh_liquor_temp_c = 25, .max_liquor_temp_c = 40};
 }
 
 static struct scrub_run_in run_at(const char *start, double feed_h, int vs, double mol)
@@ -200,6 +211,7 @@ static void default_temperature_limit(void)
 {
     struct scrub_unit_in u = caustic(6000, 18, 2);
     u.liquor_cp_kj_kg_k = 3.6;
+    u.liquor_cp_given = 1;
     struct scrub_run_in r = run_at("2027-03-02T06:00", 5, VS_HCL, 3000);
     struct scrub_run_out ro;
     struct scrub_unit_out uo;
@@ -220,6 +232,7 @@ static void one_run_by_hand(void)
     /* 6000 kg of 18 % NaOH, 10 kmol HCl, cp given as 3.6 kJ/(kg K) */
     struct scrub_unit_in u = caustic(6000, 18, 2);
     u.liquor_cp_kj_kg_k = 3.6;
+    u.liquor_cp_given = 1;
     struct scrub_run_in r = run_at("2027-03-02T06:00", 5, VS_HCL, 10000);
     struct scrub_run_out ro;
     struct scrub_unit_out uo;
@@ -273,10 +286,11 @@ static void one_run_by_hand(void)
     ASSERT_REL(ro.heat_kw, heat / (2.5 * 3600.0), 1e-12);
     scrub_unit_out_free(&uo, 1);
     r.peak_factor = 1;
-    u.fresh_liquor_temp_c = u.max_liquor_temp_c = 0;
+    u.fresh_liquor_temp_c = 25;
+    u.max_liquor_temp_c = 40;
     /* built-in cp: 18 % by hand between the table's 10 % and 20 % rows, 3.78 and 3.59
      * kJ/(kg K) (the values scrubber.c cites, from memory): 3.78 - 0.8 x 0.19 = 3.628 */
-    u.liquor_cp_kj_kg_k = 0;
+    u.liquor_cp_given = 0;
     CU_ASSERT_EQUAL(go(&u, 1, &r, 1, &ro, &uo), HL_OK);
     ASSERT_REL(ro.temp_rise_k, heat / ((6000 + gas) * 3.628), 1e-9);
     scrub_unit_out_free(&uo, 1);
@@ -286,7 +300,7 @@ static void all_salts(void)
 {
     /* one mol of each gas: salts and NaOH follow design section 4 */
     struct scrub_unit_in u = caustic(10000, 20, 1); /* 2000 kg NaOH, 320 kg needed */
-    struct scrub_run_in r = {.unit = 0, .start_min = t("2027-03-02"), .feed_h = 1};
+    struct scrub_run_in r = {.unit = 0, .start_min = t("2027-03-02"), .feed_h = 1, .peak_factor = 1};
     for (int v = 0; v < VS_COUNT; v++)
         r.vent_mol[v] = 1000;
     struct scrub_run_out ro;
@@ -531,7 +545,7 @@ static void many_runs_linear(void)
     struct scrub_unit_in u = caustic(1e9, 18, 2);
     int64_t t0 = t("2027-01-01T00:00");
     for (int i = 0; i < N; i++) {
-        r[i] = (struct scrub_run_in){.unit = 0, .start_min = t0 + 120LL * i, .feed_h = 4};
+        r[i] = (struct scrub_run_in){.unit = 0, .start_min = t0 + 120LL * i, .feed_h = 4, .peak_factor = 1};
         r[i].vent_mol[VS_HCL] = 4000;
         order[i] = i;
     }
@@ -558,7 +572,7 @@ static void many_runs_linear(void)
 static void water_liquor(void)
 {
     /* 1000 kg water absorbs 2000 mol HCl; chlorine passes through and is flagged */
-    struct scrub_unit_in u = {.id = "W", .water_liquor = 1, .liquor_kg = 1000, .max_acid_wt_pct = 30};
+    struct scrub_unit_in u = water(1000, 30);
     struct scrub_run_in r[2] = {run_at("2027-03-02T06:00", 2, VS_HCL, 2000),
                                 run_at("2027-03-03T06:00", 2, VS_HCL, 2000)};
     r[1].vent_mol[VS_CL2] = 50;
@@ -605,10 +619,16 @@ static void column(void)
     /* water liquor, air carrier 100 kmol/h at 20 C, one run 2 kmol/h HCl, 99 % removal,
      * HTU 0.6 m, Fp 525 1/m (1 in ceramic Raschig rings, Perry's table: 160 1/ft, from
      * memory), 70 % of flooding, 3000 kg/h liquor */
-    struct scrub_unit_in u = {.id = "C", .water_liquor = 1, .liquor_kg = 5000, .has_column = 1,
-                              .packing_factor_1_m = 525, .htu_m = 0.6, .removal_fraction = 0.99,
-                              .flood_fraction = 0.7, .carrier_kmol_h = 100, .liquor_kg_h = 3000,
-                              .gas_temp_c = 20};
+    struct scrub_unit_in u = water(5000, 20);
+    u.id = "C";
+    u.has_column = 1;
+    u.packing_factor_1_m = 525;
+    u.htu_m = 0.6;
+    u.removal_fraction = 0.99;
+    u.flood_fraction = 0.7;
+    u.carrier_kmol_h = 100;
+    u.liquor_kg_h = 3000;
+    u.gas_temp_c = 20;
     struct scrub_run_in r = run_at("2027-03-02T06:00", 5, VS_HCL, 10000);
     struct scrub_run_out ro;
     struct scrub_unit_out uo;
@@ -658,6 +678,7 @@ static void column(void)
         k.water_liquor = 0;
         k.naoh_wt_pct = 20;
         k.min_naoh_wt_pct = 2;
+        k.makeup_naoh_wt_pct = 50;
         k.liquor_kg_h = 3000 * sqrt(1219.1 / 998.2);
         struct scrub_unit_out ko;
         CU_ASSERT_EQUAL(go(&k, 1, &r, 1, &ro, &ko), HL_OK);
@@ -700,12 +721,32 @@ static void bad_inputs(void)
     r[0].unit = 0;
     u.fresh_liquor_temp_c = -300; /* below absolute zero */
     CU_ASSERT_EQUAL(go(&u, 1, r, 2, ro, &uo), HL_ERR_INPUT);
-    u.fresh_liquor_temp_c = 0;
+    u.fresh_liquor_temp_c = 25;
     u.max_liquor_temp_c = NAN;
     CU_ASSERT_EQUAL(go(&u, 1, r, 2, ro, &uo), HL_ERR_INPUT);
-    u.max_liquor_temp_c = 0;
+    u.max_liquor_temp_c = 40;
     u.min_naoh_wt_pct = 20;
     CU_ASSERT_EQUAL(go(&u, 1, r, 2, ro, &uo), HL_ERR_INPUT);
+    u.min_naoh_wt_pct = 2;
+    /* the model takes no default (the campaign reader sets them): a 0 that once stood for
+     * "the default" is refused, never replaced */
+    CU_ASSERT_EQUAL_FATAL(go(&u, 1, r, 2, ro, &uo), HL_OK);
+    scrub_unit_out_free(&uo, 1);
+    u.makeup_naoh_wt_pct = 0;
+    CU_ASSERT_EQUAL(go(&u, 1, r, 2, ro, &uo), HL_ERR_INPUT);
+    u.makeup_naoh_wt_pct = 50;
+    r[0].peak_factor = 0;
+    CU_ASSERT_EQUAL(go(&u, 1, r, 2, ro, &uo), HL_ERR_INPUT);
+    r[0].peak_factor = 1;
+    struct scrub_unit_in w = water(1000, 20);
+    w.max_hbr_wt_pct = 0;
+    CU_ASSERT_EQUAL(go(&w, 1, r, 2, ro, &uo), HL_ERR_INPUT);
+    w.max_hbr_wt_pct = 47;
+    w.max_acid_wt_pct = 0;
+    CU_ASSERT_EQUAL(go(&w, 1, r, 2, ro, &uo), HL_ERR_INPUT);
+    w.max_acid_wt_pct = 20;
+    CU_ASSERT_EQUAL_FATAL(go(&w, 1, r, 2, ro, &uo), HL_OK);
+    scrub_unit_out_free(&uo, 1);
 }
 
 static void alloc_failures(void)
@@ -958,7 +999,7 @@ static void sulfite_meets_hypochlorite(void)
     scrub_unit_out_free(&uo, 1);
 
     /* a water liquor absorbs no SO2: nothing to react */
-    struct scrub_unit_in w = {.id = "W", .water_liquor = 1, .liquor_kg = 1000, .max_acid_wt_pct = 30};
+    struct scrub_unit_in w = water(1000, 30);
     CU_ASSERT_EQUAL(go(&w, 1, a, 2, ro, &uo), HL_OK);
     ASSERT_ABS(ro[1].sulfite_oxidised_mol, 0, 0);
     scrub_unit_out_free(&uo, 1);
@@ -1039,7 +1080,7 @@ static void shortest_window(void)
 static void water_liquor_hbr(void)
 {
     ASSERT_ABS(scrub_heat_kj_per_mol(VS_HBR, 1), 85.15, 1e-9);
-    struct scrub_unit_in u = {.id = "W", .water_liquor = 1, .liquor_kg = 1000};
+    struct scrub_unit_in u = water(1000, 20);
     struct scrub_run_in r[2] = {run_at("2027-03-02T06:00", 2, VS_HBR, 2000),
                                 run_at("2027-03-03T06:00", 2, VS_HBR, 2000)};
     r[1].vent_mol[VS_CL2] = 30;
@@ -1081,7 +1122,8 @@ static void water_liquor_hbr(void)
     CU_ASSERT_EQUAL_FATAL(go(&u, 1, m, 2, ro, &uo), HL_OK);
     CU_ASSERT_EQUAL(ro[1].changeout_before, 1);
     scrub_unit_out_free(&uo, 1);
-    u.max_acid_wt_pct = u.max_hbr_wt_pct = 0;
+    u.max_acid_wt_pct = 20;
+    u.max_hbr_wt_pct = 47;
     CU_ASSERT_EQUAL_FATAL(go(&u, 1, m, 2, ro, &uo), HL_OK);
     CU_ASSERT_EQUAL(ro[1].changeout_before, 0);
     ASSERT_ABS(ro[1].acid_wt_pct_after, (72.916 + 161.824) / 1234.740 * 100, 1e-9);
@@ -1108,8 +1150,8 @@ static void boiling_liquor(void)
     const double mol[2] = {4900, 5000};
     const double want_t[2] = {99.44, 100.73};
     for (int k = 0; k < 2; k++) {
-        struct scrub_unit_in u = {.id = "W", .water_liquor = 1, .liquor_kg = 1000,
-                                  .max_acid_wt_pct = 30, .max_liquor_temp_c = 150};
+        struct scrub_unit_in u = water(1000, 30);
+        u.max_liquor_temp_c = 150;
         struct scrub_run_in r = run_at("2027-03-02T06:00", 2, VS_HCL, mol[k]);
         struct scrub_run_out ro;
         struct scrub_unit_out uo;
