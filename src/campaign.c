@@ -706,66 +706,42 @@ static const struct val_rng req = {1e-6, 1000, 0, 0, "below a millionth of an eq
                  rfeed = {1.0 / 60.0, 8760, 0, 0, "start times are kept to the minute", "1/60 (one minute)"},
                  rpeak = {1, 1000, 0, 0, NULL, NULL}, rvent = {0, 1, 0, 1, NULL, NULL};
 
-static enum hl_status parse_run(struct reader *rd, const cJSON *o, int idx, struct camp_run *r,
-                                long *count, double *every_days)
+/* The run's "scrubber" m: an id of scrubbers[] into r->scrubber; an unknown id gets the
+ * nearest known one (within 2 edits). */
+static enum hl_status parse_run_scrubber(struct reader *rd, const cJSON *m, struct camp_run *r)
 {
     struct val_ctx *c = &rd->c;
-    const cJSON *k[RK_N];
-    enum hl_status st = val_members(c, o, run_keys, RK_N, k);
-    if (st)
+    enum hl_status st;
+    const char *sid;
+    if ((st = val_str(c, m, VAL_TEXT | VAL_NONEMPTY, MAX_ID, &sid)))
         return st;
-    r->src_index = idx;
-    run_defaults(r);
-    r->pos = val_pos(c, o);
-    *count = 0;
-    if (!k[RK_ID])
-        return val_missing(c, o, "id", NULL);
-    if ((st = val_dup_str(c, k[RK_ID], VAL_TEXT | VAL_NONEMPTY, MAX_ID, &r->id)))
-        return st;
-    r->pos_id = val_pos(c, k[RK_ID]);
-    if (!k[RK_START])
-        return val_missing(c, o, "start", NULL);
-    if ((st = val_date(c, k[RK_START], &r->start_min)))
-        return st;
-    r->pos_start = val_pos(c, k[RK_START]);
-    if (k[RK_REACTOR] && (st = val_dup_str(c, k[RK_REACTOR], VAL_TEXT | VAL_NONEMPTY, MAX_ID, &r->reactor)))
-        return st;
-    if (k[RK_SCRUB]) {
-        const char *sid;
-        if ((st = val_str(c, k[RK_SCRUB], VAL_TEXT | VAL_NONEMPTY, MAX_ID, &sid)))
-            return st;
-        r->scrubber = val_idset_find(&rd->scrub_ids, sid);
-        if (r->scrubber < 0) {
-            char q[64];
-            val_quote(sid, q, sizeof q);
-            val_push_key(c, "scrubber");
-            /* suggestion only on this error path: a scan of the (few) scrubber ids */
-            const char *best = NULL;
-            int bd = 1000;
-            for (int j = 0; j < rd->camp->nscrubbers; j++) {
-                int d = hl_edit_distance(sid, rd->camp->scrubbers[j].id, 1);
-                if (d < bd) { bd = d; best = rd->camp->scrubbers[j].id; }
-            }
-            if (!rd->camp->nscrubbers)
-                return val_err(c, k[RK_SCRUB], 0, "unknown scrubber \"%s\" (the campaign lists no scrubbers)", q);
-            if (best && bd <= 2)
-                return val_err(c, k[RK_SCRUB], 0, "unknown scrubber \"%s\" (did you mean \"%s\"?)", q, best);
-            return val_err(c, k[RK_SCRUB], 0, "unknown scrubber \"%s\"", q);
+    r->scrubber = val_idset_find(&rd->scrub_ids, sid);
+    if (r->scrubber < 0) {
+        char q[64];
+        val_quote(sid, q, sizeof q);
+        val_push_key(c, "scrubber");
+        /* suggestion only on this error path: a scan of the (few) scrubber ids */
+        const char *best = NULL;
+        int bd = 1000;
+        for (int j = 0; j < rd->camp->nscrubbers; j++) {
+            int d = hl_edit_distance(sid, rd->camp->scrubbers[j].id, 1);
+            if (d < bd) { bd = d; best = rd->camp->scrubbers[j].id; }
         }
+        if (!rd->camp->nscrubbers)
+            return val_err(c, m, 0, "unknown scrubber \"%s\" (the campaign lists no scrubbers)", q);
+        if (best && bd <= 2)
+            return val_err(c, m, 0, "unknown scrubber \"%s\" (did you mean \"%s\"?)", q, best);
+        return val_err(c, m, 0, "unknown scrubber \"%s\"", q);
     }
-    if (!k[RK_SUBSTRATE])
-        return val_missing(c, o, "substrate", NULL);
-    if ((st = parse_substrate(c, k[RK_SUBSTRATE], r)))
-        return st;
-    if (k[RK_PRODUCT]) {
-        if ((st = val_dup_str(c, k[RK_PRODUCT], VAL_TEXT | VAL_NONEMPTY, VAL_MAX_TEXT, &r->product_smiles)))
-            return st;
-        r->pos_product_smiles = val_pos(c, k[RK_PRODUCT]);
-        if ((st = val_esc_map(c, k[RK_PRODUCT], &r->sp_product_smiles)) ||
-            (st = check_smiles_size(c, k[RK_PRODUCT], &r->sp_product_smiles, r->product_smiles,
-                                    "product_smiles")))
-            return st;
-    }
+    return HL_OK;
+}
+
+/* substrate_kg, reagent and its amount (reagent_eq or reagent_kg, exactly one) of run
+ * entry o (k = its members by RK_*). */
+static enum hl_status parse_run_amounts(struct val_ctx *c, const cJSON *o, const cJSON *const *k,
+                                        struct camp_run *r)
+{
+    enum hl_status st;
     if (!k[RK_SUBKG])
         return val_missing(c, o, "substrate_kg", NULL);
     if ((st = val_num(c, k[RK_SUBKG], R_CHARGE_KG, &r->substrate_kg)))
@@ -792,6 +768,95 @@ static enum hl_status parse_run(struct reader *rd, const cJSON *o, int idx, stru
         r->amount_is_kg = 1;
         r->pos_amount = val_pos(c, k[RK_KG]);
     }
+    return HL_OK;
+}
+
+/* The run's "repeat" m: count and every_days, and the campaign must stay within MAX_RUNS. */
+static enum hl_status parse_run_repeat(struct reader *rd, const cJSON *m, struct camp_run *r,
+                                       long *count, double *every_days)
+{
+    struct val_ctx *c = &rd->c;
+    enum hl_status st;
+    const cJSON *p[PK_N];
+    size_t old = val_push_key(c, "repeat");
+    if ((st = val_members(c, m, rep_keys, PK_N, p)))
+        return st;
+    const struct val_rng revery = {1.0 / 1440.0, 3650, 0, 0, "start times are kept to the minute",
+                               "1/1440 (one minute)"};
+    if ((!p[PK_COUNT] && (st = val_missing(c, m, "count", NULL))) ||
+        (st = val_int(c, p[PK_COUNT], 1, 10000, count)) ||
+        (!p[PK_EVERY] && (st = val_missing(c, m, "every_days", NULL))) ||
+        (st = val_num(c, p[PK_EVERY], revery, every_days)))
+        return st;
+    r->pos_repeat = val_pos(c, p[PK_COUNT]);
+    r->pos_every = val_pos(c, p[PK_EVERY]);
+    size_t total = (size_t)rd->camp->nruns + (size_t)*count;
+    if (total > MAX_RUNS) {
+        val_push_key(c, "count");
+        return val_err(c, p[PK_COUNT], 0, "the campaign would hold more than %d runs", MAX_RUNS);
+    }
+    val_pop(c, old);
+    return HL_OK;
+}
+
+/* The run's model block m (NULL: none): a run without one shares the campaign's block
+ * (584 bytes a run saved), a run with one gets its own copy with the campaign's merged under. */
+static enum hl_status parse_run_model(struct reader *rd, const cJSON *m, struct camp_run *r)
+{
+    struct val_ctx *c = &rd->c;
+    enum hl_status st;
+    r->own_model = m != NULL;
+    r->model = rd->camp->model;
+    if (r->own_model && !(r->model = hl_calloc(1, sizeof *r->model)))
+        return hl_err_set(c->e, HL_ERR_NOMEM, "out of memory reading the campaign");
+    if (m && (st = parse_model(c, m, r->model)))
+        return st;
+    if (r->own_model)
+        merge_model(r->model, &rd->model);
+    return HL_OK;
+}
+
+static enum hl_status parse_run(struct reader *rd, const cJSON *o, int idx, struct camp_run *r,
+                                long *count, double *every_days)
+{
+    struct val_ctx *c = &rd->c;
+    const cJSON *k[RK_N];
+    enum hl_status st = val_members(c, o, run_keys, RK_N, k);
+    if (st)
+        return st;
+    r->src_index = idx;
+    run_defaults(r);
+    r->pos = val_pos(c, o);
+    *count = 0;
+    if (!k[RK_ID])
+        return val_missing(c, o, "id", NULL);
+    if ((st = val_dup_str(c, k[RK_ID], VAL_TEXT | VAL_NONEMPTY, MAX_ID, &r->id)))
+        return st;
+    r->pos_id = val_pos(c, k[RK_ID]);
+    if (!k[RK_START])
+        return val_missing(c, o, "start", NULL);
+    if ((st = val_date(c, k[RK_START], &r->start_min)))
+        return st;
+    r->pos_start = val_pos(c, k[RK_START]);
+    if (k[RK_REACTOR] && (st = val_dup_str(c, k[RK_REACTOR], VAL_TEXT | VAL_NONEMPTY, MAX_ID, &r->reactor)))
+        return st;
+    if (k[RK_SCRUB] && (st = parse_run_scrubber(rd, k[RK_SCRUB], r)))
+        return st;
+    if (!k[RK_SUBSTRATE])
+        return val_missing(c, o, "substrate", NULL);
+    if ((st = parse_substrate(c, k[RK_SUBSTRATE], r)))
+        return st;
+    if (k[RK_PRODUCT]) {
+        if ((st = val_dup_str(c, k[RK_PRODUCT], VAL_TEXT | VAL_NONEMPTY, VAL_MAX_TEXT, &r->product_smiles)))
+            return st;
+        r->pos_product_smiles = val_pos(c, k[RK_PRODUCT]);
+        if ((st = val_esc_map(c, k[RK_PRODUCT], &r->sp_product_smiles)) ||
+            (st = check_smiles_size(c, k[RK_PRODUCT], &r->sp_product_smiles, r->product_smiles,
+                                    "product_smiles")))
+            return st;
+    }
+    if ((st = parse_run_amounts(c, o, k, r)))
+        return st;
     int mode = r->mode == CAMP_CSTR;
     r->defaulted = (k[RK_FEED] ? 0u : CAMP_DEFAULT_FEED_H) | (k[RK_TEMP] ? 0u : CAMP_DEFAULT_TEMP);
     r->pos_feed = k[RK_FEED] ? val_pos(c, k[RK_FEED]) : r->pos;
@@ -805,36 +870,10 @@ static enum hl_status parse_run(struct reader *rd, const cJSON *o, int idx, stru
     r->mode = mode ? CAMP_CSTR : CAMP_BATCH;
     if ((st = parse_run_thermal(c, k + RK_SOLVENT, r)))
         return st;
-    if (k[RK_REPEAT]) {
-        const cJSON *p[PK_N];
-        size_t old = val_push_key(c, "repeat");
-        if ((st = val_members(c, k[RK_REPEAT], rep_keys, PK_N, p)))
-            return st;
-        const struct val_rng revery = {1.0 / 1440.0, 3650, 0, 0, "start times are kept to the minute",
-                                   "1/1440 (one minute)"};
-        if ((!p[PK_COUNT] && (st = val_missing(c, k[RK_REPEAT], "count", NULL))) ||
-            (st = val_int(c, p[PK_COUNT], 1, 10000, count)) ||
-            (!p[PK_EVERY] && (st = val_missing(c, k[RK_REPEAT], "every_days", NULL))) ||
-            (st = val_num(c, p[PK_EVERY], revery, every_days)))
-            return st;
-        r->pos_repeat = val_pos(c, p[PK_COUNT]);
-        r->pos_every = val_pos(c, p[PK_EVERY]);
-        size_t total = (size_t)rd->camp->nruns + (size_t)*count;
-        if (total > MAX_RUNS) {
-            val_push_key(c, "count");
-            return val_err(c, p[PK_COUNT], 0, "the campaign would hold more than %d runs", MAX_RUNS);
-        }
-        val_pop(c, old);
-    }
-    /* a run without a model block of its own shares the campaign's (584 bytes a run saved) */
-    r->own_model = k[RK_MODEL] != NULL;
-    r->model = rd->camp->model;
-    if (r->own_model && !(r->model = hl_calloc(1, sizeof *r->model)))
-        return hl_err_set(c->e, HL_ERR_NOMEM, "out of memory reading the campaign");
-    if (k[RK_MODEL] && (st = parse_model(c, k[RK_MODEL], r->model)))
+    if (k[RK_REPEAT] && (st = parse_run_repeat(rd, k[RK_REPEAT], r, count, every_days)))
         return st;
-    if (r->own_model)
-        merge_model(r->model, &rd->model);
+    if ((st = parse_run_model(rd, k[RK_MODEL], r)))
+        return st;
     const char *note;
     if (k[RK_NOTE] && (st = val_str(c, k[RK_NOTE], 0, VAL_MAX_TEXT, &note)))
         return st;
@@ -1621,6 +1660,74 @@ static enum hl_status parse_catalog(struct campaign *cp, const char *text, struc
     return st;
 }
 
+/* scrubbers[] a, each id once (rd->scrub_ids, for the runs' and permits' references). */
+static enum hl_status parse_scrubbers(struct reader *rd, const cJSON *a)
+{
+    struct val_ctx *c = &rd->c;
+    struct campaign *cp = rd->camp;
+    enum hl_status st;
+    if ((st = val_array(c, a, 0)))
+        return st;
+    int n = cJSON_GetArraySize(a);
+    cp->scrubbers = hl_calloc((size_t)n + 1, sizeof *cp->scrubbers);
+    if (!cp->scrubbers || val_idset_init(&rd->scrub_ids, (size_t)n))
+        return hl_err_set(c->e, HL_ERR_NOMEM, "out of memory reading the campaign");
+    size_t old = val_push_key(c, "scrubbers");
+    int idx = 0;
+    for (const cJSON *o = a->child; o; o = o->next, idx++) {
+        size_t o2 = val_push_index(c, idx);
+        struct camp_scrubber *s = &cp->scrubbers[idx];
+        cp->nscrubbers = idx + 1; /* so camp_free sees a half-read entry */
+        if ((st = parse_scrubber(c, o, s)))
+            return st;
+        int prev = val_idset_add(&rd->scrub_ids, s->id, idx);
+        if (prev >= 0) {
+            const cJSON *idn = cJSON_GetObjectItemCaseSensitive(o, "id");
+            val_push_key(c, "id");
+            return val_err(c, idn, 0, "duplicate scrubber id (first at %d:%d)",
+                        cp->scrubbers[prev].pos.line, cp->scrubbers[prev].pos.col);
+        }
+        val_pop(c, o2);
+    }
+    val_pop(c, old);
+    return HL_OK;
+}
+
+/* stock[] a, one entry per reagent. */
+static enum hl_status parse_stocks(struct val_ctx *c, struct campaign *cp, const cJSON *a)
+{
+    enum hl_status st;
+    if ((st = val_array(c, a, 0)))
+        return st;
+    int n = cJSON_GetArraySize(a);
+    cp->stock = hl_calloc((size_t)n + 1, sizeof *cp->stock);
+    if (!cp->stock)
+        return hl_err_set(c->e, HL_ERR_NOMEM, "out of memory reading the campaign");
+    int first[RG_COUNT];
+    for (int j = 0; j < RG_COUNT; j++)
+        first[j] = -1;
+    size_t old = val_push_key(c, "stock");
+    int idx = 0;
+    for (const cJSON *o = a->child; o; o = o->next, idx++) {
+        size_t o2 = val_push_index(c, idx);
+        struct camp_stock *s = &cp->stock[idx];
+        if ((st = parse_stock(c, o, s)))
+            return st;
+        cp->nstock = idx + 1;
+        if (first[s->reagent] >= 0) {
+            const cJSON *rn = cJSON_GetObjectItemCaseSensitive(o, "reagent");
+            val_push_key(c, "reagent");
+            return val_err(c, rn, 0, "a second stock entry for %s (first at %d:%d)",
+                        reagent_get(s->reagent) ? reagent_get(s->reagent)->name : "?",
+                        cp->stock[first[s->reagent]].pos.line, cp->stock[first[s->reagent]].pos.col);
+        }
+        first[s->reagent] = idx;
+        val_pop(c, o2);
+    }
+    val_pop(c, old);
+    return HL_OK;
+}
+
 static enum hl_status parse_top(struct reader *rd, const cJSON *root)
 {
     struct val_ctx *c = &rd->c;
@@ -1647,64 +1754,10 @@ static enum hl_status parse_top(struct reader *rd, const cJSON *root)
         cp->has_model = 1;
         cp->pos_model = val_pos(c, k[GK_MODEL]);
     }
-    if (k[GK_SCRUB]) {
-        const cJSON *a = k[GK_SCRUB];
-        if ((st = val_array(c, a, 0)))
-            return st;
-        int n = cJSON_GetArraySize(a);
-        cp->scrubbers = hl_calloc((size_t)n + 1, sizeof *cp->scrubbers);
-        if (!cp->scrubbers || val_idset_init(&rd->scrub_ids, (size_t)n))
-            return hl_err_set(c->e, HL_ERR_NOMEM, "out of memory reading the campaign");
-        size_t old = val_push_key(c, "scrubbers");
-        int idx = 0;
-        for (const cJSON *o = a->child; o; o = o->next, idx++) {
-            size_t o2 = val_push_index(c, idx);
-            struct camp_scrubber *s = &cp->scrubbers[idx];
-            cp->nscrubbers = idx + 1; /* so camp_free sees a half-read entry */
-            if ((st = parse_scrubber(c, o, s)))
-                return st;
-            int prev = val_idset_add(&rd->scrub_ids, s->id, idx);
-            if (prev >= 0) {
-                const cJSON *idn = cJSON_GetObjectItemCaseSensitive(o, "id");
-                val_push_key(c, "id");
-                return val_err(c, idn, 0, "duplicate scrubber id (first at %d:%d)",
-                            cp->scrubbers[prev].pos.line, cp->scrubbers[prev].pos.col);
-            }
-            val_pop(c, o2);
-        }
-        val_pop(c, old);
-    }
-    if (k[GK_STOCK]) {
-        const cJSON *a = k[GK_STOCK];
-        if ((st = val_array(c, a, 0)))
-            return st;
-        int n = cJSON_GetArraySize(a);
-        cp->stock = hl_calloc((size_t)n + 1, sizeof *cp->stock);
-        if (!cp->stock)
-            return hl_err_set(c->e, HL_ERR_NOMEM, "out of memory reading the campaign");
-        int first[RG_COUNT];
-        for (int j = 0; j < RG_COUNT; j++)
-            first[j] = -1;
-        size_t old = val_push_key(c, "stock");
-        int idx = 0;
-        for (const cJSON *o = a->child; o; o = o->next, idx++) {
-            size_t o2 = val_push_index(c, idx);
-            struct camp_stock *s = &cp->stock[idx];
-            if ((st = parse_stock(c, o, s)))
-                return st;
-            cp->nstock = idx + 1;
-            if (first[s->reagent] >= 0) {
-                const cJSON *rn = cJSON_GetObjectItemCaseSensitive(o, "reagent");
-                val_push_key(c, "reagent");
-                return val_err(c, rn, 0, "a second stock entry for %s (first at %d:%d)",
-                            reagent_get(s->reagent) ? reagent_get(s->reagent)->name : "?",
-                            cp->stock[first[s->reagent]].pos.line, cp->stock[first[s->reagent]].pos.col);
-            }
-            first[s->reagent] = idx;
-            val_pop(c, o2);
-        }
-        val_pop(c, old);
-    }
+    if (k[GK_SCRUB] && (st = parse_scrubbers(rd, k[GK_SCRUB])))
+        return st;
+    if (k[GK_STOCK] && (st = parse_stocks(c, cp, k[GK_STOCK])))
+        return st;
     if (k[GK_CONT]) {
         if ((st = val_array(c, k[GK_CONT], 0)) || (st = parse_containers(c, k[GK_CONT], cp, 0, NULL)))
             return st;
