@@ -294,13 +294,17 @@ struct campaign {
     struct camp_model *model;   /* that block (all zero when absent), owned */
     struct camp_pos pos_model;  /* of that block's opening brace */
     char **schedules; int nschedules; /* CSV schedules read, as opened (owned) */
+    char **sets; int nsets;     /* the --set KEY=VALUE applied (override.h), as given (owned) */
 };
 
 /* How to read: CSV schedules named on the command line (besides the campaign's
- * "schedule" key; their runs come after) and the CSV separator (0 = detect). */
+ * "schedule" key; their runs come after), the CSV separator (0 = detect) and the --set
+ * overrides, put into the tree before it is validated (their errors name the --set). */
+struct ovr_list;
 struct camp_opts {
     const char *const *schedules; int nschedules;
     char csv_sep;
+    struct ovr_list *sets;      /* --set overrides (override.h; NULL = none); hits recorded */
 };
 
 /* Where the defaults of mass_cp_kj_kg_k and report.min_mol_fraction come from, as the

@@ -146,6 +146,7 @@ struct ledger_assumption { char *what; int has_value; double value; char *unit; 
 
 struct ledger {
     char *title, *site, *file;
+    char **overrides; int noverrides;    /* --set KEY=VALUE the campaign was read with: a what-if */
     int64_t created_min;                 /* document time: issued date, SOURCE_DATE_EPOCH, or 0 */
     int64_t today_min;                   /* --today, -1 if not given */
     int paper_letter;                    /* campaign report.paper: 1 = US Letter, 0 = ISO A4 */

@@ -21,6 +21,7 @@
 #include "hlmem.h"
 #include "isodate.h"
 #include "jsonpos.h"
+#include "override.h"
 #include "reagents.h"
 #include "sched.h"
 #include "validate.h"
@@ -706,6 +707,13 @@ static const struct val_rng req = {1e-6, 1000, 0, 0, "below a millionth of an eq
                  rfeed = {1.0 / 60.0, 8760, 0, 0, "start times are kept to the minute", "1/60 (one minute)"},
                  rpeak = {1, 1000, 0, 0, NULL, NULL}, rvent = {0, 1, 0, 1, NULL, NULL};
 
+/* The later in the file of two given values; one a --set put in (no position) counts later. */
+static const cJSON *later_of(const struct val_ctx *c, const cJSON *a, const cJSON *b)
+{
+    const struct jpos_val *pa = val_vp(c, a), *pb = val_vp(c, b);
+    return !pa || (pb && pa->off > pb->off) ? a : b;
+}
+
 /* The run's "scrubber" m: an id of scrubbers[] into r->scrubber; an unknown id gets the
  * nearest known one (within 2 edits). */
 static enum hl_status parse_run_scrubber(struct reader *rd, const cJSON *m, struct camp_run *r)
@@ -754,7 +762,7 @@ static enum hl_status parse_run_amounts(struct val_ctx *c, const cJSON *o, const
     if (!k[RK_EQ] && !k[RK_KG])
         return val_missing(c, o, "reagent_eq", "give reagent_eq (mol per mol substrate) or reagent_kg");
     if (k[RK_EQ] && k[RK_KG]) {
-        const cJSON *later = val_vp(c, k[RK_EQ])->off > val_vp(c, k[RK_KG])->off ? k[RK_EQ] : k[RK_KG];
+        const cJSON *later = later_of(c, k[RK_EQ], k[RK_KG]);
         val_push_key(c, later->string);
         return val_err(c, later, 1, "give reagent_eq or reagent_kg, not both");
     }
@@ -1104,7 +1112,12 @@ static enum hl_status add_run(struct reader *rd, const cJSON *o, int idx, const 
     double every = 0;
     memset(&t, 0, sizeof t);
     size_t o2 = val_push_index(c, idx);
-    enum hl_status st = parse_run(rd, o, idx, &t, &count, &every);
+    enum hl_status st = HL_OK;
+    /* --set on this entry: o is the reader's own tree (a runs element or a schedule row) */
+    if (rd->opts && rd->opts->sets)
+        st = ovr_apply_run(rd->opts->sets, (cJSON *)o, c->e);
+    if (!st)
+        st = parse_run(rd, o, idx, &t, &count, &every);
     if (!st && (size_t)cp->nruns + (size_t)(count ? count : 1) > MAX_RUNS)
         st = val_err(c, o, 0, "the campaign would hold more than %d runs", MAX_RUNS);
     if (!st)
@@ -1229,7 +1242,7 @@ static enum hl_status sched_row_cb(void *data, const struct sched_row *row, stru
     rd->c.path[0] = '\0';
     val_push_key(&rd->c, "runs");
     enum hl_status st = add_run(rd, row->run, rd->nentries, x->file);
-    if (st == HL_ERR_INPUT)
+    if (st == HL_ERR_INPUT && e->line >= 0) /* not a --set value's (ovr_blame) */
         sched_blame(e, row, x->file);
     rd->c = saved;
     return st;
@@ -1313,6 +1326,9 @@ static enum hl_status finish_runs(struct reader *rd)
     struct val_ctx *c = &rd->c;
     struct campaign *cp = rd->camp;
     struct val_idset ids;
+    enum hl_status st;
+    if (rd->opts && rd->opts->sets && (st = ovr_check_runs(rd->opts->sets, cp, c->e)))
+        return st; /* a --set on a run id that is not there */
     if (val_idset_init(&ids, (size_t)cp->nruns))
         return hl_err_set(c->e, HL_ERR_NOMEM, "out of memory reading the campaign");
     for (int j = 0; j < cp->nruns; j++) {
@@ -1816,6 +1832,19 @@ enum hl_status camp_parse(const char *text, size_t len, const char *path, const 
     return camp_parse_opts(text, len, path, catalog_text, NULL, out, e);
 }
 
+/* The --set arguments as given, for the ledger to show that it is a what-if. */
+static enum hl_status keep_sets(struct campaign *cp, const struct ovr_list *l, struct hl_err *e)
+{
+    if (!l->n)
+        return HL_OK;
+    if (!(cp->sets = hl_calloc((size_t)l->n, sizeof *cp->sets)))
+        return hl_err_set(e, HL_ERR_NOMEM, "out of memory reading the campaign");
+    for (; cp->nsets < l->n; cp->nsets++)
+        if (!(cp->sets[cp->nsets] = hl_strdup(l->v[cp->nsets].arg)))
+            return hl_err_set(e, HL_ERR_NOMEM, "out of memory reading the campaign");
+    return HL_OK;
+}
+
 enum hl_status camp_parse_opts(const char *text, size_t len, const char *path, const char *catalog_text,
                                const struct camp_opts *o, struct campaign **out, struct hl_err *e)
 {
@@ -1833,6 +1862,10 @@ enum hl_status camp_parse_opts(const char *text, size_t len, const char *path, c
     }
     struct jpos_doc d;
     enum hl_status st = jpos_parse(text, len, "", "campaign", 1, &d, e);
+    if (!st && o && o->sets && (st = keep_sets(cp, o->sets, e)))
+        jpos_free(&d);
+    if (!st && o && o->sets && (st = ovr_apply_top(o->sets, d.root, e)))
+        jpos_free(&d); /* the values go into the tree before it is validated */
     if (!st) {
         rd.camp = cp;
         rd.opts = o;
@@ -1850,6 +1883,8 @@ enum hl_status camp_parse_opts(const char *text, size_t len, const char *path, c
         camp_free(cp);
         if (e)
             e->status = st;
+        if (o)
+            ovr_blame(o->sets, e); /* an error in a --set value names the --set */
         return st;
     }
     *out = cp;
@@ -1914,6 +1949,9 @@ void camp_free(struct campaign *c)
     for (int i = 0; i < c->nschedules; i++)
         hl_free(c->schedules[i]);
     hl_free(c->schedules);
+    for (int i = 0; i < c->nsets; i++)
+        hl_free(c->sets[i]);
+    hl_free(c->sets);
     hl_free(c->model);
     hl_free(c->title);
     hl_free(c->site);

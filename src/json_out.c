@@ -1249,6 +1249,19 @@ static void jo_document(struct jo *w, const struct ledger *l)
     jo_str(w, "file", l->file);
     jo_end(w);
     jo_puts(w, ",\n");
+    if (l->noverrides) {
+        /* a what-if: the --set values it was computed with (only then, so a plan's ledger
+         * stays as it was) */
+        jo_puts(w, "\"overrides\": [");
+        for (int i = 0; i < l->noverrides; i++) {
+            jo_puts(w, i ? ", " : "");
+            if (!jo_utf8_ok((const unsigned char *)l->overrides[i]))
+                jo_bad(w, "overrides", "text that is not valid UTF-8");
+            else
+                jo_quoted(w, l->overrides[i]);
+        }
+        jo_puts(w, "],\n");
+    }
 
     jo_list(w, l, "runs", l->nruns, NULL, jo_run);
     jo_list(w, l, "months", l->nmonths, NULL, jo_month);

@@ -1538,6 +1538,11 @@ static enum hl_status copy_identity(const struct campaign *c, const struct ledge
     l->file = hl_strdup(c->file);
     if ((c->title && !l->title) || (c->site && !l->site) || (c->file && !l->file))
         return nomem(e);
+    if (c->nsets && !(l->overrides = hl_calloc((size_t)c->nsets, sizeof *l->overrides)))
+        return nomem(e);
+    for (; l->noverrides < c->nsets; l->noverrides++)
+        if (!(l->overrides[l->noverrides] = hl_strdup(c->sets[l->noverrides])))
+            return nomem(e);
     l->today_min = o ? o->today_min : -1;
     /* Document time: the campaign's issued date wins, then the caller's (SOURCE_DATE_EPOCH),
      * else 0 = a fixed stamp chosen by the writers. Never the wall clock. */
@@ -1632,5 +1637,8 @@ void ledger_free(struct ledger *l)
     hl_free(l->title);
     hl_free(l->site);
     hl_free(l->file);
+    for (int i = 0; i < l->noverrides; i++)
+        hl_free(l->overrides[i]);
+    hl_free(l->overrides);
     hl_free(l);
 }

@@ -16,6 +16,7 @@
 #include "json_out.h"
 #include "ledger.h"
 #include "reagents.h"
+#include "override.h"
 #include "sched.h"
 #include "sweep.h"
 #include "compare.h"
@@ -46,9 +47,9 @@ enum { EXIT_OK = 0, EXIT_RUNTIME = 1, EXIT_INPUT = 2, EXIT_WARNINGS = 3 };
 
 static const char usage_text[] =
     "Usage: haloledger check CAMPAIGN [--today DATE] [--strict] [--catalog FILE]\n"
-    "                        [--schedule FILE.csv ...] [--csv-sep SEP]\n"
+    "                        [--schedule FILE.csv ...] [--csv-sep SEP] [--set KEY=VALUE ...]\n"
     "       haloledger report CAMPAIGN -o OUT.xlsx|OUT.json [-o ...] [--today DATE]\n"
-    "                         [--strict] [--catalog FILE] [--all-products]\n"
+    "                         [--strict] [--catalog FILE] [--all-products] [--set KEY=VALUE ...]\n"
     "       haloledger sweep CAMPAIGN --run ID --vary KEY=FROM:TO:STEP|KEY=V1,V2,...\n"
     "                        [--objective max:KEY|min:KEY] [-o OUT.json|OUT.xlsx]\n"
     "       haloledger compare A B [-o OUT.json]   (campaigns or JSON ledgers)\n"
@@ -87,6 +88,14 @@ static const char usage_text[] =
     "                      keys (substrate_smiles, reagent_eq, ...); after the campaign's\n"
     "                      own runs and \"schedule\" files; may be given several times\n"
     "      --csv-sep SEP   CSV separator: ',' ';' or 'tab' (default: from the header)\n"
+    "      --set KEY=VALUE check, report, sweep: a what-if without editing the file;\n"
+    "                      KEY a path in the campaign: model.overhalogenation_factor,\n"
+    "                      runs.ID.reagent_eq (a runs entry or schedule row by its id; an\n"
+    "                      entry with repeat changes in every copy), scrubbers.ID.liquor_kg,\n"
+    "                      stock.REAGENT.on_hand_kg, runs[ID.WITH.DOTS].temp_c; VALUE is\n"
+    "                      read as JSON (1.2, \"R-3\", {...}); a bare word that is not JSON\n"
+    "                      is taken as a string (cstr, 2027-03-02T06:00); null removes the\n"
+    "                      key. Checked as the file is; each key once; the ledger lists them\n"
     "      --example       schedule-template: add filled example rows\n"
     "      --all-products  list every product; by default over-halogenated traces below\n"
     "                      report.min_mol_fraction (1e-4) are summed into one row per run\n"
@@ -169,6 +178,8 @@ static void print_summary(const struct ledger *l)
     char month[16], when[20];
     printf("%s%s%s: %d runs\n", l->title ? l->title : "(untitled campaign)", l->site ? ", " : "",
            l->site ? l->site : "", l->nruns);
+    for (int i = 0; i < l->noverrides; i++)
+        printf("  what-if: --set %s (not the campaign file as written)\n", l->overrides[i]);
     for (int i = 0; i < l->nmonths; i++) {
         const struct ledger_month *m = &l->months[i];
         isodate_month_text(m->month_index, month, sizeof month);
@@ -620,7 +631,8 @@ static int schedule_template(int argc, char **argv, const char *const *outputs, 
 
 /* haloledger sweep: the table on standard output, and each -o file. */
 static int do_sweep(struct campaign *c, const struct ledger_opts *lo, const char *run_id,
-                    const char *vary, const char *objective, const char *const *outputs, int nout)
+                    const char *vary, const char *objective, const char *const *outputs, int nout,
+                    const struct ovr_list *sets)
 {
     const char *eq = strchr(vary, '=');
     if (!eq || eq == vary)
@@ -638,6 +650,7 @@ static int do_sweep(struct campaign *c, const struct ledger_opts *lo, const char
     for (int i = 0; i < nv; i++)
         hl_free(values[i]);
     hl_free(values);
+    ovr_blame(sets, &e);
     if (st) {
         if (e.line > 0 || e.file[0])
             print_err(err_file(&e, c->file, NULL), &e);
@@ -655,11 +668,50 @@ static int do_sweep(struct campaign *c, const struct ledger_opts *lo, const char
         sweep_free(s);
         return exit_for(st);
     }
+    for (int i = 0; i < c->nsets; i++)
+        printf("what-if: --set %s (not the campaign file as written)\n", c->sets[i]);
     sweep_print(s, stdout);
     for (int i = 0; i < nout; i++)
         printf("wrote %s\n", outputs[i]);
     sweep_free(s);
     return EXIT_OK;
+}
+
+/* Read the catalog (catalog_path, else the built-in one) and the campaign with the
+ * --set values parsed into *sets (ovr_free it; empty on failure too; co->sets is sets or
+ * NULL); EXIT_OK, or the exit status after a message. */
+static int load_campaign(const char *campaign_path, const char *catalog_path, const struct camp_opts *co,
+                         const char *const *set_args, int nset, struct ovr_list *sets, struct campaign **c)
+{
+    struct hl_err e;
+    hl_err_clear(&e);
+    enum hl_status st;
+    char *catalog = NULL;
+    if ((st = ovr_parse(set_args, nset, sets, &e)) ||
+        (catalog_path && (st = afile_read_max(catalog_path, CATALOG_MAX_BYTES, &catalog, NULL, &e)))) {
+        print_err(e.file[0] ? e.file : catalog_path, &e);
+        ovr_free(sets);
+        return exit_for(st);
+    }
+    st = camp_load_opts(campaign_path, catalog ? catalog : catalog_default_json, co, c, &e);
+    hl_free(catalog);
+    if (st) {
+        print_err(err_file(&e, campaign_path, catalog_path), &e);
+        ovr_free(sets);
+        return exit_for(st);
+    }
+    return EXIT_OK;
+}
+
+static void print_warnings(const struct ledger *l)
+{
+    for (int i = 0; i < l->nwarnings; i++) {
+        const struct ledger_warning *w = &l->warnings[i];
+        if (w->run)
+            fprintf(stderr, "haloledger: warning: run %s: %s\n", w->run, w->message);
+        else
+            fprintf(stderr, "haloledger: warning: %s\n", w->message);
+    }
 }
 
 static int run(int argc, char **argv)
@@ -673,7 +725,10 @@ static int run(int argc, char **argv)
         {"example", no_argument, NULL, 'x'},
         {"run", required_argument, NULL, 'r'}, {"vary", required_argument, NULL, 'v'},
         {"objective", required_argument, NULL, 'j'},
+        {"set", required_argument, NULL, 'e'},
         {NULL, 0, NULL, 0}};
+    const char *set_args[OVR_MAX];
+    int nset = 0;
     const char *schedules[MAX_SCHEDULES];
     int nsched = 0, example = 0;
     char csv_sep = 0;
@@ -712,6 +767,11 @@ static int run(int argc, char **argv)
         case 'r': sweep_run_id = optarg; break;
         case 'v': vary = optarg; break;
         case 'j': objective = optarg; break;
+        case 'e':
+            if (nset == OVR_MAX)
+                return usage_error("at most %s --set options", "64");
+            set_args[nset++] = optarg;
+            break;
         case 'h': fputs(usage_text, stdout); return EXIT_OK;
         case 'V':
             printf("haloledger %s (libxlsxwriter %s, cJSON %s)\n", HALOLEDGER_VERSION, LXW_VERSION,
@@ -724,6 +784,9 @@ static int run(int argc, char **argv)
     if (optind >= argc)
         return usage_error("%s", "missing command: check or report");
     const char *cmd = argv[optind++];
+    if (nset && (!strcmp(cmd, "compare") || !strcmp(cmd, "schedule-template")))
+        return usage_error("--set belongs to check, report and sweep (%s: write the what-if's "
+                           "ledger with report --set -o and compare that)", cmd);
     if (!strcmp(cmd, "compare"))
         return do_compare(argc, argv, outputs, nout, catalog_path, today_text);
     if (!strcmp(cmd, "schedule-template"))
@@ -761,45 +824,34 @@ static int run(int argc, char **argv)
             return usage_error("--today: '%s' is not an ISO 8601 date (YYYY-MM-DD)", today_text);
     }
 
-    struct hl_err e;
-    hl_err_clear(&e);
-    enum hl_status st;
-    char *catalog = NULL;
-    if (catalog_path && (st = afile_read_max(catalog_path, CATALOG_MAX_BYTES, &catalog, NULL, &e))) {
-        print_err(catalog_path, &e);
-        return exit_for(st);
-    }
     struct campaign *c = NULL;
     for (int i = 0; i < nout; i++)
         for (int j = 0; j < nsched; j++)
             if (afile_same(outputs[i], schedules[j]))
                 return usage_error("output '%s' is a --schedule file; choose another name", outputs[i]);
-    struct camp_opts co = {schedules, nsched, csv_sep};
-    st = camp_load_opts(campaign_path, catalog ? catalog : catalog_default_json, &co, &c, &e);
-    hl_free(catalog);
-    if (st) {
-        print_err(err_file(&e, campaign_path, catalog_path), &e);
-        return exit_for(st);
-    }
+    struct ovr_list sets;
+    struct camp_opts co = {schedules, nsched, csv_sep, nset ? &sets : NULL};
+    if ((rc = load_campaign(campaign_path, catalog_path, &co, set_args, nset, &sets, &c)) != EXIT_OK)
+        return rc;
+    struct hl_err e;
+    hl_err_clear(&e);
+    enum hl_status st;
     if (sweep) {
-        rc = do_sweep(c, &lo, sweep_run_id, vary, objective, outputs, nout);
+        rc = do_sweep(c, &lo, sweep_run_id, vary, objective, outputs, nout, &sets);
         camp_free(c);
+        ovr_free(&sets);
         return rc;
     }
     struct ledger *l = NULL;
     st = ledger_build_consuming(c, &lo, &l, &e); /* the runs are freed once balanced */
     camp_free(c);
+    ovr_blame(&sets, &e); /* a model's error in a --set value (a SMILES) names the --set */
+    ovr_free(&sets);
     if (st) {
         print_err(err_file(&e, campaign_path, catalog_path), &e);
         return exit_for(st);
     }
-    for (int i = 0; i < l->nwarnings; i++) {
-        const struct ledger_warning *w = &l->warnings[i];
-        if (w->run)
-            fprintf(stderr, "haloledger: warning: run %s: %s\n", w->run, w->message);
-        else
-            fprintf(stderr, "haloledger: warning: %s\n", w->message);
-    }
+    print_warnings(l);
     /* report writes first and prints after: a reader that stops early (| head) cannot
      * keep the ledger from being written */
     if (report)

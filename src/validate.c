@@ -52,10 +52,13 @@ const struct jpos_val *val_vp(const struct val_ctx *c, const cJSON *n)
     return &c->d->v[n->valueint];
 }
 
+/* A value put in by --set k has no place in the file: line -(k+1) (override.h). */
+static int set_line(const cJSON *n) { return n && n->valueint < 0 ? n->valueint : 0; }
+
 struct camp_pos val_pos(const struct val_ctx *c, const cJSON *n)
 {
     const struct jpos_val *p = val_vp(c, n);
-    struct camp_pos r = {p ? p->line : 0, p ? p->col : 0};
+    struct camp_pos r = {p ? p->line : set_line(n), p ? p->col : 0};
     return r;
 }
 
@@ -141,7 +144,7 @@ enum hl_status val_err(struct val_ctx *c, const cJSON *n, int at_key, const char
     va_end(ap);
     jpos_field(field, sizeof field, c->prefix, c->path);
     const struct jpos_val *p = val_vp(c, n);
-    int line = 0, col = 0;
+    int line = set_line(n), col = 0;
     if (p) {
         line = at_key && p->kline ? p->kline : p->line;
         col = at_key && p->kline ? p->kcol : p->col;

@@ -480,7 +480,12 @@ static void xo_page(struct xw *w)
     worksheet_set_margins(w->ws, 0.5, 0.5, 0.75, 0.75);
     char site[100], title[100], date[24] = "", hf[LXW_HEADER_FOOTER_MAX + 1];
     xo_hf_text(site, sizeof site, l->site ? l->site : "");
-    xo_hf_text(title, sizeof title, l->title ? l->title : "haloledger ledger");
+    static const char what_if[] = " - WHAT-IF (--set: see Assumptions)";
+    /* a what-if says so on every printed page (its --set values are on Assumptions) */
+    xo_hf_text(title, sizeof title - (l->noverrides ? sizeof what_if : 0),
+               l->title ? l->title : "haloledger ledger");
+    if (l->noverrides)
+        strcat(title, what_if);
     /* &L &C &R: left, centre, right sections; &A the sheet, &P the page, &N the pages */
     /* &B toggles bold: a font code &"..." would be misread when the title holds a quote */
     snprintf(hf, sizeof hf, "&L%s&C&B%s&B&R&A", site, title);
@@ -2451,6 +2456,17 @@ static void xo_cautions(struct xw *w)
 
 static void row_assumption(struct xw *w, struct xtable *b, lxw_row_t row, int i)
 {
+    if (i < w->l->noverrides) {
+        /* a what-if first, so a printed page is not taken for the plan */
+        char what[600];
+        snprintf(what, sizeof what, "!! WHAT-IF: --set %s", w->l->overrides[i]);
+        xo_text(w, row, 0, what, w->wrap);
+        xo_text(w, row, 2, "", w->top);
+        xo_text(w, row, 3, "given on the command line: this ledger is not the campaign file as "
+                "written", w->wrap);
+        return;
+    }
+    i -= w->l->noverrides;
     const struct ledger_assumption *a = &w->l->assumptions[i];
     xo_text(w, row, 0, a->what, w->wrap);
     if (a->has_value) {
@@ -2464,7 +2480,7 @@ static void row_assumption(struct xw *w, struct xtable *b, lxw_row_t row, int i)
 
 static void xo_assumptions(struct xw *w)
 {
-    struct xtable b = {.fn = row_assumption, .nrows = w->l->nassumptions,
+    struct xtable b = {.fn = row_assumption, .nrows = w->l->noverrides + w->l->nassumptions,
                        .empty_note = "No assumptions recorded."};
     xt_col(&b, XK_TEXT, 0, "What");
     xt_col(&b, XK_GEN, 0, "Value");

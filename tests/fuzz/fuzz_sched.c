@@ -69,7 +69,7 @@ int LLVMFuzzerTestOneInput(const uint8_t *data, size_t size)
     fwrite(data, 1, size, f);
     fclose(f);
     const char *scheds[1] = {path};
-    struct camp_opts o = {scheds, 1, 0};
+    struct camp_opts o = {scheds, 1, 0, NULL};
     struct campaign *c = NULL;
     enum hl_status st = camp_parse_opts(plant, sizeof plant - 1, "plant.json", NULL, &o, &c, &e);
     if (st == HL_OK) {
