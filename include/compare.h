@@ -25,6 +25,14 @@ enum hl_status cmp_ledgers(const cJSON *a, const cJSON *b, struct cmp_result *ou
  * the caller. */
 cJSON *cmp_to_json(const struct cmp_result *r, const char *a_name, const char *b_name);
 
+/* The differences as a workbook at path (written there directly: the caller stages it with
+ * afile_tmpname and commits it; tmpdir for the library's scratch files, NULL = default):
+ * sheet Compared (the two inputs, the count, what is matched, the caution) and sheet
+ * Differences (Where, What, A, B: the rows of cmp_to_json, numbers as numbers), printable. */
+enum hl_status cmp_write_xlsx(const struct cmp_result *r, const char *a_name, const char *b_name,
+                              const char *path, const char *tmpdir, struct hl_err *e);
+
+/* Free the differences; the result is empty afterwards. */
 void cmp_free(struct cmp_result *r);
 
 #endif

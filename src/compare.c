@@ -10,8 +10,67 @@
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
+#include <time.h>
+#include <xlsxwriter.h>
 
 #include "hlmem.h"
+
+/* Length of the UTF-8 character at p (RFC 3629; 0 = not one, or a control character). */
+static int char_len(const unsigned char *p)
+{
+    if (*p < 0x80)
+        return *p >= 0x20 && *p != 0x7f;
+    int n = *p >= 0xC2 && *p <= 0xDF ? 2 : (*p & 0xF0) == 0xE0 ? 3 : *p >= 0xF0 && *p <= 0xF4 ? 4 : 0;
+    for (int k = 1; k < n; k++)
+        if ((p[k] & 0xC0) != 0x80)
+            return 0;
+    if ((n == 3 && ((*p == 0xE0 && p[1] < 0xA0) || (*p == 0xED && p[1] >= 0xA0))) ||
+        (n == 4 && ((*p == 0xF0 && p[1] < 0x90) || (*p == 0xF4 && p[1] >= 0x90))))
+        return 0;
+    if (n == 3 && *p == 0xEF && p[1] == 0xBF && p[2] >= 0xBE)
+        return 0; /* U+FFFE, U+FFFF: not XML 1.0 characters */
+    return n;
+}
+
+/* s into buf (cap bytes) cut at a character, never inside one; a byte that is not UTF-8
+ * text (a ledger file given by hand may hold any) becomes '?', so the JSON and the
+ * workbook written from it stay valid. */
+static void put_text(char *buf, size_t cap, const char *s)
+{
+    size_t k = 0;
+    for (const unsigned char *p = (const unsigned char *)s; *p;) {
+        int n = char_len(p);
+        size_t w = n ? (size_t)n : 1;
+        if (k + w >= cap)
+            break;
+        if (n)
+            memcpy(buf + k, p, w);
+        else
+            buf[k] = '?';
+        k += w;
+        p += w;
+    }
+    buf[k] = '\0';
+}
+
+/* Text for a page header: as put_text, '&' doubled (a lone one starts a header code). */
+static void put_hf(char *buf, size_t cap, const char *s)
+{
+    char t[256];
+    put_text(t, sizeof t, s);
+    size_t k = 0;
+    for (const unsigned char *p = (const unsigned char *)t; *p;) {
+        size_t n = (size_t)char_len(p), w = n + (*p == '&');
+        if (k + w >= cap)
+            break;
+        if (*p == '&')
+            buf[k++] = '&';
+        memcpy(buf + k, p, n);
+        k += n;
+        p += n;
+    }
+    buf[k] = '\0';
+}
 
 static int add(struct cmp_result *r, const char *where, const char *what, const char *a, const char *b)
 {
@@ -24,10 +83,10 @@ static int add(struct cmp_result *r, const char *where, const char *what, const 
         r->cap = cap;
     }
     struct cmp_diff *d = &r->d[r->n++];
-    snprintf(d->where, sizeof d->where, "%s", where);
-    snprintf(d->what, sizeof d->what, "%s", what);
-    snprintf(d->a, sizeof d->a, "%s", a);
-    snprintf(d->b, sizeof d->b, "%s", b);
+    put_text(d->where, sizeof d->where, where);
+    put_text(d->what, sizeof d->what, what);
+    put_text(d->a, sizeof d->a, a);
+    put_text(d->b, sizeof d->b, b);
     return 0;
 }
 
@@ -308,6 +367,113 @@ cJSON *cmp_to_json(const struct cmp_result *r, const char *a_name, const char *b
         cJSON_AddItemToArray(arr, o);
     }
     return root;
+}
+
+/* A value cell: a number when the text is one (so the sheet sorts and sums), else text. */
+static void value_cell(lxw_worksheet *ws, lxw_row_t r, lxw_col_t c, const char *t, lxw_format *f)
+{
+    char *end;
+    double x = strtod(t, &end);
+    if (t[0] && strchr("+-.0123456789", t[0]) && !*end && isfinite(x) && !strpbrk(t, "xX"))
+        worksheet_write_number(ws, r, c, x, f);
+    else
+        worksheet_write_string(ws, r, c, t, f);
+}
+
+/* Page set-up of both sheets: landscape A4, one page wide, the header row repeated, a
+ * header and footer on every page (the workbook conventions of the ledger). */
+static void page(lxw_worksheet *ws, const char *a_name, const char *b_name)
+{
+    char hf[LXW_HEADER_FOOTER_MAX + 1], an[72], bn[72];
+    put_hf(an, sizeof an, a_name);
+    put_hf(bn, sizeof bn, b_name);
+    worksheet_set_landscape(ws);
+    worksheet_set_paper(ws, 9); /* 9 = A4 */
+    worksheet_set_margins(ws, 0.5, 0.5, 0.75, 0.75);
+    worksheet_fit_to_pages(ws, 1, 0);
+    worksheet_repeat_rows(ws, 0, 0);
+    worksheet_freeze_panes(ws, 1, 0);
+    snprintf(hf, sizeof hf, "&LCompared: A %s, B %s&R&A", an, bn);
+    worksheet_set_header(ws, hf);
+    worksheet_set_footer(ws, "&LPlanning estimates: see Compared&RPage &P of &N");
+}
+
+static void sheet_compared(lxw_workbook *wb, const struct cmp_result *r, const char *a_name,
+                           const char *b_name, lxw_format *head, lxw_format *wrap)
+{
+    lxw_worksheet *ws = workbook_add_worksheet(wb, "Compared");
+    page(ws, a_name, b_name);
+    worksheet_set_column(ws, 0, 0, 24, wrap);
+    worksheet_set_column(ws, 1, 1, 90, wrap);
+    worksheet_write_string(ws, 0, 0, "Item", head);
+    worksheet_write_string(ws, 0, 1, "Value", head);
+    char a[600], b[600];
+    put_text(a, sizeof a, a_name);
+    put_text(b, sizeof b, b_name);
+    worksheet_write_string(ws, 1, 0, "A", NULL);
+    worksheet_write_string(ws, 1, 1, a, NULL);
+    worksheet_write_string(ws, 2, 0, "B", NULL);
+    worksheet_write_string(ws, 2, 1, b, NULL);
+    worksheet_write_string(ws, 3, 0, "Differences [count]", NULL);
+    worksheet_write_number(ws, 3, 1, r->n, NULL);
+    worksheet_write_string(ws, 4, 0, "Matched by", NULL);
+    worksheet_write_string(ws, 4, 1, "month and reagent, order line (month and reagent), scrubber id, "
+                           "run id, warning text; numbers differing by more than 1e-9 relative", NULL);
+    worksheet_write_string(ws, 5, 0, "Caution", NULL);
+    worksheet_write_string(ws, 5, 1, "Planning estimates: check them against the SDS, local "
+                           "regulations and a licensed engineer's review before acting on them.", NULL);
+}
+
+static void sheet_differences(lxw_workbook *wb, const struct cmp_result *r, const char *a_name,
+                              const char *b_name, lxw_format *head, lxw_format *wrap)
+{
+    lxw_worksheet *ws = workbook_add_worksheet(wb, "Differences");
+    page(ws, a_name, b_name);
+    static const char *const cols[] = {"Where", "What", "A", "B"};
+    static const double width[] = {30, 30, 24, 24};
+    for (lxw_col_t c = 0; c < 4; c++) {
+        worksheet_set_column(ws, c, c, width[c], wrap);
+        worksheet_write_string(ws, 0, c, cols[c], head);
+    }
+    if (!r->n) {
+        worksheet_write_string(ws, 1, 0, "No differences.", NULL);
+        return;
+    }
+    for (int i = 0; i < r->n; i++) {
+        lxw_row_t row = (lxw_row_t)(i + 1);
+        worksheet_write_string(ws, row, 0, r->d[i].where, NULL);
+        worksheet_write_string(ws, row, 1, r->d[i].what, NULL);
+        value_cell(ws, row, 2, r->d[i].a, NULL);
+        value_cell(ws, row, 3, r->d[i].b, NULL);
+    }
+    worksheet_autofilter(ws, 0, 0, (lxw_row_t)r->n, 3);
+}
+
+enum hl_status cmp_write_xlsx(const struct cmp_result *r, const char *a_name, const char *b_name,
+                              const char *path, const char *tmpdir, struct hl_err *e)
+{
+    lxw_workbook_options wo = {.constant_memory = LXW_FALSE, .tmpdir = (char *)tmpdir};
+    lxw_workbook *wb = workbook_new_opt(path, &wo);
+    if (!wb)
+        return hl_err_set(e, HL_ERR_IO, "cannot write %s", path);
+    /* reproducible bytes (docs/library-notes.md): a fixed creation time, SOURCE_DATE_EPOCH if set */
+    const char *sde = getenv("SOURCE_DATE_EPOCH");
+    lxw_doc_properties props = {.title = "haloledger compare",
+                                .created = sde && *sde ? (time_t)strtoll(sde, NULL, 10) : (time_t)946684800};
+    workbook_set_properties(wb, &props);
+    lxw_format *head = workbook_add_format(wb), *wrap = workbook_add_format(wb);
+    format_set_bold(head);
+    format_set_bg_color(head, 0xDDE8E1); /* the header fill of the palette (DEVELOPERS.md) */
+    format_set_bottom(head, LXW_BORDER_MEDIUM);
+    format_set_text_wrap(head);
+    format_set_text_wrap(wrap);
+    format_set_align(wrap, LXW_ALIGN_VERTICAL_TOP);
+    sheet_compared(wb, r, a_name, b_name, head, wrap);
+    sheet_differences(wb, r, a_name, b_name, head, wrap);
+    lxw_error le = workbook_close(wb);
+    if (le != LXW_NO_ERROR)
+        return hl_err_set(e, HL_ERR_IO, "cannot write %s: %s", path, lxw_strerror(le));
+    return HL_OK;
 }
 
 void cmp_free(struct cmp_result *r)

@@ -52,7 +52,7 @@ static const char usage_text[] =
     "                         [--strict] [--catalog FILE] [--all-products] [--set KEY=VALUE ...]\n"
     "       haloledger sweep CAMPAIGN --run ID --vary KEY=FROM:TO:STEP|KEY=V1,V2,...\n"
     "                        [--objective max:KEY|min:KEY] [-o OUT.json|OUT.xlsx]\n"
-    "       haloledger compare A B [-o OUT.json]   (campaigns or JSON ledgers)\n"
+    "       haloledger compare A B [-o OUT.json] [-o OUT.xlsx]   (campaigns or JSON ledgers)\n"
     "       haloledger schedule-template [--example] [-o FILE.csv]\n"
     "       haloledger --help | --version\n"
     "\n"
@@ -73,7 +73,8 @@ static const char usage_text[] =
     "            and the trade-off in words; -o writes it as JSON or a workbook\n"
     "  compare   what differs between A and B (two campaigns or JSON ledgers): charged\n"
     "            per month and reagent, orders, scrubbers (peak, changeouts, NaOH, hottest\n"
-    "            liquor, overload), runs in both or one, warnings that appear or vanish\n"
+    "            liquor, overload), runs in both or one, warnings that appear or vanish;\n"
+    "            -o writes them as JSON and/or a printable workbook (.xlsx)\n"
     "  schedule-template  a CSV header of every run column (with --example, three\n"
     "            filled rows of an invented plant) to FILE.csv or standard output\n"
     "\n"
@@ -534,17 +535,69 @@ static cJSON *ledger_tree(const char *path, const char *catalog, const struct le
     return t;
 }
 
-/* haloledger compare A B [-o OUT.json]: the differences as text, and as JSON with -o. */
+/* Every compare output or none: each staged beside its target (the JSON text, or the
+ * workbook written straight to the staged name), all renamed into place at the end. */
+static enum hl_status compare_outputs(const struct cmp_result *r, const char *a, const char *b,
+                                      const char *const *outputs, int nout, struct hl_err *e)
+{
+    char *staged[MAX_OUTPUTS] = {NULL};
+    char *text = NULL;
+    enum hl_status st = HL_OK;
+    int i, failed = -1;
+    for (i = 0; i < nout && !st; i++) {
+        char *dir = NULL;
+        failed = i;
+        if ((st = afile_check_target(outputs[i], e)) || (st = afile_tmpname(outputs[i], &staged[i], e)))
+            break;
+        if (has_ext(outputs[i], ".xlsx")) {
+            if (!(st = afile_dirname(outputs[i], &dir, e)))
+                st = cmp_write_xlsx(r, a, b, staged[i], dir, e);
+            hl_free(dir);
+            continue;
+        }
+        if (!text) {
+            cJSON *j = cmp_to_json(r, a, b);
+            text = j ? cJSON_Print(j) : NULL;
+            cJSON_Delete(j);
+        }
+        st = text ? afile_write(staged[i], text, strlen(text), e) : hl_err_set(e, HL_ERR_NOMEM, "out of memory");
+    }
+    cJSON_free(text);
+    for (i = 0; i < nout && !st; i++)
+        if ((st = afile_commit(staged[i], outputs[i], e)))
+            failed = i;
+    /* the messages name the staged file: show the output the user asked for */
+    char *at = st && staged[failed] ? strstr(e->msg, staged[failed]) : NULL;
+    if (at) {
+        char msg[sizeof e->msg];
+        snprintf(msg, sizeof msg, "%.*s%s%s", (int)(at - e->msg), e->msg, outputs[failed],
+                 at + strlen(staged[failed]));
+        memcpy(e->msg, msg, sizeof msg);
+    }
+    for (i = 0; i < nout; i++) {
+        if (st && staged[i])
+            afile_discard(staged[i]);
+        hl_free(staged[i]);
+    }
+    return st;
+}
+
+/* haloledger compare A B [-o OUT.json] [-o OUT.xlsx]: the differences as text, and as JSON
+ * or a workbook with -o. */
 static int do_compare(int argc, char **argv, const char *const *outputs, int nout, const char *catalog_path,
                       const char *today_text)
 {
     if (argc - optind != 2)
         return usage_error("%s", "compare needs two files: A B");
-    if (nout > 1 || (nout == 1 && !has_ext(outputs[0], ".json")))
-        return usage_error("%s", "compare writes one -o OUT.json");
-    for (int i = 0; i < nout; i++)
+    for (int i = 0; i < nout; i++) {
+        if (!has_ext(outputs[i], ".json") && !has_ext(outputs[i], ".xlsx"))
+            return usage_error("compare writes -o OUT.json or -o OUT.xlsx (not '%s')", outputs[i]);
         if (afile_same(outputs[i], argv[optind]) || afile_same(outputs[i], argv[optind + 1]))
             return usage_error("output '%s' is one of the files compared", outputs[i]);
+    }
+    int rc = outputs_clash(outputs, nout, argv[optind], catalog_path);
+    if (rc != EXIT_OK)
+        return rc;
     struct ledger_opts lo = {.today_min = -1, .created_min = 0};
     int bad;
     if (today_text && isodate_parse(today_text, &lo.today_min, &bad))
@@ -557,7 +610,6 @@ static int do_compare(int argc, char **argv, const char *const *outputs, int nou
         print_err(catalog_path, &e);
         return exit_for(st);
     }
-    int rc = EXIT_OK;
     const char *cat = catalog ? catalog : catalog_default_json;
     cJSON *a = ledger_tree(argv[optind], cat, &lo, &rc);
     cJSON *b = a ? ledger_tree(argv[optind + 1], cat, &lo, &rc) : NULL;
@@ -574,19 +626,10 @@ static int do_compare(int argc, char **argv, const char *const *outputs, int nou
         fprintf(stderr, "haloledger: %s\n", e.msg);
         return exit_for(st);
     }
-    if (nout == 1) {
-        cJSON *j = cmp_to_json(&r, argv[optind], argv[optind + 1]);
-        char *text = j ? cJSON_Print(j) : NULL;
-        cJSON_Delete(j);
-        st = text ? afile_check_target(outputs[0], &e) : hl_err_set(&e, HL_ERR_NOMEM, "out of memory");
-        if (!st)
-            st = afile_write(outputs[0], text, strlen(text), &e);
-        cJSON_free(text);
-        if (st) {
-            fprintf(stderr, "haloledger: %s\n", e.msg);
-            cmp_free(&r);
-            return exit_for(st);
-        }
+    if (nout > 0 && (st = compare_outputs(&r, argv[optind], argv[optind + 1], outputs, nout, &e))) {
+        fprintf(stderr, "haloledger: %s\n", e.msg);
+        cmp_free(&r);
+        return exit_for(st);
     }
     printf("A: %s\nB: %s\n", argv[optind], argv[optind + 1]);
     if (!r.n)
