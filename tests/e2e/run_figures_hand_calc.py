@@ -150,7 +150,10 @@ nco = len(changed)
 close(m.get("caustic_solution_kg"), nco * sol, "month caustic_solution_kg")
 close(m.get("caustic_solution_naoh_kg"), nco * sol * MAKEUP_PCT / 100, "month NaOH in the solution")
 close(m.get("dilution_water_kg"), nco * water, "month dilution_water_kg")
-close(m.get("naoh_kg"), sum(r["scrubber"]["naoh_kg"] for r in runs.values()), "month NaOH consumed")
+# NaOH by hand, 1 per acid: 400 mol HCl from each methane run; H-1 vents the 5 % of its 1000 mol
+# HBr that does not react (50 mol); H-2's HBr all reacts; N-1 has no scrubber
+close(runs["H-1"]["scrubber"]["naoh_kg"], 50 * MM_NAOH / 1000, "H-1 NaOH for the unreacted HBr")
+close(m.get("naoh_kg"), (3 * 400 + 50) * MM_NAOH / 1000, "month NaOH consumed")
 s = L["scrubbers"][0] if L["scrubbers"] else {}
 close(s.get("changeout_caustic_solution_kg"), sol, "scrubber solution per changeout")
 close(s.get("changeout_water_kg"), water, "scrubber water per changeout")
