@@ -58,7 +58,9 @@ make -s -j2 --no-print-directory all unit >"$S/.build.log" 2>&1 || {
 ALL=""
 for t in build/test_*; do [ -x "$t" ] && ALL="$ALL $t"; done
 for t in tests/e2e/*.sh tests/e2e/*.py; do
-    case "${t##*/}" in _*) continue ;; esac
+    # mutations_apply.py checks the list against the sources: every mutant makes its own entry
+    # stale, so it would "catch" them all
+    case "${t##*/}" in _*|mutations_apply.py) continue ;; esac
     [ -f "$t" ] && ALL="$ALL $t"
 done
 : >"$S/.times"
