@@ -631,10 +631,15 @@ static void ntu_values(void)
 static void column_textbook(void)
 {
     const double fp = 92 * 3.2808; /* 1/ft -> 1/m */
-    struct scrub_unit_in u = {.id = "MSH", .water_liquor = 1, .liquor_kg = 50000, .has_column = 1,
-                              .packing_factor_1_m = fp, .htu_m = 0.6, .removal_fraction = 0.99,
-                              .flood_fraction = 0.5, .carrier_kmol_h = 28.84,
-                              .liquor_kg_h = 856.8, .gas_temp_c = 20};
+    struct scrub_unit_in u = water(50000, 20);
+    u.has_column = 1;
+    u.packing_factor_1_m = fp;
+    u.htu_m = 0.6;
+    u.removal_fraction = 0.99;
+    u.flood_fraction = 0.5;
+    u.carrier_kmol_h = 28.84;
+    u.liquor_kg_h = 856.8;
+    u.gas_temp_c = 20;
     struct scrub_run_in r = run_at("2027-03-02T06:00", 5, VS_HCL, 0.5886 * 5 * 1000);
     struct scrub_run_out ro;
     struct scrub_unit_out uo;
