@@ -151,9 +151,12 @@ static enum hl_status parse_key(struct ovr *o, const char *key, size_t n, struct
                         "or stock", o->path[o->npath - 1]);
         p = stop + 1;
     }
-    if (b >= 0 && !strcmp(o->path[0], id_blocks[b].idkey))
-        return serr(e, o->arg, o->block, "the %s selects the %s and cannot be set", id_blocks[b].idkey,
+    if (b >= 0 && !strcmp(o->path[0], id_blocks[b].idkey)) {
+        char f[160];
+        snprintf(f, sizeof f, "%s.%.100s.%s", o->block, o->id, o->path[0]);
+        return serr(e, o->arg, f, "the %s selects the %s and cannot be set", id_blocks[b].idkey,
                     id_blocks[b].noun);
+    }
     if (b < 0 && !strcmp(o->path[0], "runs"))
         return serr(e, o->arg, NULL, "give runs.ID.KEY");
     return HL_OK;
@@ -438,9 +441,41 @@ enum hl_status ovr_check_runs(const struct ovr_list *l, const struct campaign *c
     return HL_OK;
 }
 
+/* The null override whose removal left the key e says is missing ("runs[3].substrate_kg",
+ * or "column substrate_kg" in a schedule), or -1. */
+static int removed_key(const struct ovr_list *l, const struct hl_err *e)
+{
+    if (strncmp(e->msg, "missing", 7))
+        return -1;
+    for (int k = 0; k < l->n; k++) {
+        const struct ovr *o = &l->v[k];
+        char local[160], col[168];
+        path_text(o, o->npath, local, sizeof local);
+        const char *last = strrchr(local, '.') ? strrchr(local, '.') + 1 : local;
+        size_t nf = strlen(e->field), nl = strlen(last);
+        snprintf(col, sizeof col, "column %s", last);
+        for (char *q = col; *q; q++)
+            *q = *q == '.' ? '_' : *q;
+        if (!o->value && ((nf > nl && e->field[nf - nl - 1] == '.' && !strcmp(e->field + nf - nl, last)) ||
+                          (o->npath == 1 && !strcmp(e->field, col))))
+            return k;
+        /* reagent_kg removed: the reader asks for the amount under the name reagent_eq */
+        const char *other = o->value ? NULL : partner(o, o->npath, o->path);
+        size_t no = other ? strlen(other) : 0;
+        if (other && nf > no && !strcmp(e->field + nf - no, other) && strchr(".  ", e->field[nf - no - 1]))
+            return k;
+    }
+    return -1;
+}
+
 void ovr_blame(const struct ovr_list *l, struct hl_err *e)
 {
-    if (!l || !e || e->line >= 0 || -e->line > l->n)
+    if (!l || !e)
+        return;
+    int removed = e->line >= 0 ? removed_key(l, e) : -1;
+    if (removed >= 0)
+        e->line = -(removed + 1);
+    if (e->line >= 0 || -e->line > l->n)
         return;
     const struct ovr *o = &l->v[-e->line - 1];
     char local[160], head[160], field[sizeof e->field];

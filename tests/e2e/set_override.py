@@ -174,7 +174,9 @@ BAD = [
     (["model.overhalogenation_factor=0"], r"--set model\.overhalogenation_factor=0: model\.overhalogenation_factor: must be >= 0\.001"),
     (["scrubbers.SC-B.liquor_kg=5000"], r"--set scrubbers\.SC-B\.liquor_kg=5000: scrubbers\.SC-B: no scrubber has id \"SC-B\" \(did you mean \"SC-A\"\?\)"),
     (["runs.CH-1.substrate_kg.x=1"], r"--set runs\.CH-1\.substrate_kg\.x=1: runs\.CH-1\.substrate_kg: is not an object"),
-    (["runs.CH-1.id=X"], r"--set runs\.CH-1\.id=X: .*the id selects the run and cannot be set"),
+    (["runs.CH-1.id=X"], r"--set runs\.CH-1\.id=X: runs\.CH-1\.id: the id selects the run and cannot be set"),
+    (["runs.CH-1.substrate_kg=null"], r"--set runs\.CH-1\.substrate_kg=null: runs\.CH-1\.substrate_kg: missing \(required\)"),
+    (["runs.CH-1.reagent_kg=null"], r"--set runs\.CH-1\.reagent_kg=null: runs\.CH-1\.reagent_kg: missing: give reagent_eq"),
     (["runs.CH-1.temp_c="], r"--set runs\.CH-1\.temp_c=: no VALUE after '='"),
     (["runs.CH-1.temp_c=1e400"], r"--set runs\.CH-1\.temp_c=1e400: the value holds a number that is not finite"),
     (["runs.CH-1.substrate.smiles=C1CC"], r"--set runs\.CH-1\.substrate\.smiles=C1CC: runs\.CH-1\.substrate\.smiles: ring bond 1 is not closed"),
@@ -206,6 +208,9 @@ def bad_cases(t, tmp):
     rc, _, err = run(["check", "sched.json", "--set", "runs.EB.reagent_eq=0"], folder)
     t.check(rc == 2 and re.search(r"^haloledger: --set runs\.EB\.reagent_eq=0: runs\.EB\.reagent_eq: must be >= 1e-06", err, re.M),
             "schedule row: exit %d, %r" % (rc, err))
+    rc, _, err = run(["check", "sched.json", "--set", "runs.EB.substrate_kg=null"], folder)
+    t.check(rc == 2 and re.search(r"^haloledger: --set runs\.EB\.substrate_kg=null: runs\.EB\.substrate_kg: missing", err, re.M),
+            "schedule row, key removed: exit %d, %r" % (rc, err))
     rc, _, err = run(["compare", "camp.json", "camp.json", "--set", "runs.CH-1.temp_c=30"], folder)
     t.check(rc == 2 and "--set belongs to check, report and sweep" in err, "compare --set: exit %d %r" % (rc, err))
 
