@@ -41,6 +41,7 @@ struct sweep {
     int minimise;
     int best;                            /* index of the best point, -1 if none is defined */
     char *tradeoff;                      /* the trade-off in words (owned) */
+    char **overrides; int noverrides;    /* the campaign's --set KEY=VALUE, as given (owned) */
 };
 
 /* Parse "FROM:TO:STEP" (STEP > 0, at most SWEEP_MAX_POINTS values; each value rounded to
@@ -58,8 +59,9 @@ enum hl_status sweep_run(struct campaign *c, const struct ledger_opts *lo, const
 /* The table as text on f (one line a point, then the best value and the trade-off). */
 void sweep_print(const struct sweep *s, FILE *f);
 
-/* Write the sweep as JSON ("format": "haloledger-sweep/1") or as a workbook with a table and
- * a line chart, atomically (afile). */
+/* Write the sweep as JSON ("format": "haloledger-sweep/1"; an "overrides" list when the
+ * campaign was read with --set) or as a workbook with a table and a line chart (a what-if
+ * line and page header under --set), atomically (afile).  Nothing is written on failure. */
 enum hl_status sweep_write_json(const struct sweep *s, const char *path, struct hl_err *e);
 enum hl_status sweep_write_xlsx(const struct sweep *s, const char *path, struct hl_err *e);
 

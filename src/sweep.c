@@ -237,7 +237,11 @@ enum hl_status sweep_run(struct campaign *c, const struct ledger_opts *lo, const
     snprintf(s->objective, sizeof s->objective, "%s", obj + 4);
     s->minimise = minimise;
     s->best = -1;
-    if (!s->run || !s->key || (rg && !s->reagent) || !s->points) {
+    if (c->nsets && (s->overrides = hl_calloc((size_t)c->nsets, sizeof *s->overrides)))
+        for (; s->noverrides < c->nsets; s->noverrides++)
+            if (!(s->overrides[s->noverrides] = hl_strdup(c->sets[s->noverrides])))
+                break;
+    if (!s->run || !s->key || (rg && !s->reagent) || !s->points || s->noverrides < c->nsets) {
         sweep_free(s);
         return nomem(e);
     }
@@ -303,39 +307,63 @@ static cJSON *value_node(const struct sweep_point *p)
     return *end || !p->value[0] ? cJSON_CreateString(p->value) : cJSON_CreateNumber(p->x);
 }
 
-enum hl_status sweep_write_json(const struct sweep *s, const char *path, struct hl_err *e)
+/* Add item to obj (or to the array when name is NULL); a NULL item (its allocation failed)
+ * clears *ok, so the writer refuses a document with a part missing. */
+static void add(cJSON *obj, const char *name, cJSON *item, int *ok)
+{
+    if (!item || !(name ? cJSON_AddItemToObject(obj, name, item) : cJSON_AddItemToArray(obj, item))) {
+        cJSON_Delete(item);
+        *ok = 0;
+    }
+}
+
+static cJSON *sweep_json(const struct sweep *s, int *ok)
 {
     cJSON *root = cJSON_CreateObject(), *pts = cJSON_CreateArray();
     if (!root || !pts) {
         cJSON_Delete(root);
         cJSON_Delete(pts);
-        return nomem(e);
+        *ok = 0;
+        return NULL;
     }
-    cJSON_AddItemToObject(root, "format", cJSON_CreateString("haloledger-sweep/1"));
-    cJSON_AddItemToObject(root, "run", cJSON_CreateString(s->run));
-    cJSON_AddItemToObject(root, "key", cJSON_CreateString(s->key));
-    cJSON_AddItemToObject(root, "reagent", s->reagent ? cJSON_CreateString(s->reagent) : cJSON_CreateNull());
-    cJSON_AddItemToObject(root, "objective", cJSON_CreateString(s->objective));
-    cJSON_AddItemToObject(root, "minimise", cJSON_CreateBool(s->minimise));
-    cJSON_AddItemToObject(root, "points", pts);
-    for (int i = 0; i < s->npoints; i++) {
+    add(root, "format", cJSON_CreateString("haloledger-sweep/1"), ok);
+    if (s->noverrides) { /* a what-if of a what-if: say so, as the ledger does */
+        cJSON *ov = cJSON_CreateArray();
+        for (int i = 0; ov && i < s->noverrides; i++)
+            add(ov, NULL, cJSON_CreateString(s->overrides[i]), ok);
+        add(root, "overrides", ov, ok);
+    }
+    add(root, "run", cJSON_CreateString(s->run), ok);
+    add(root, "key", cJSON_CreateString(s->key), ok);
+    add(root, "reagent", s->reagent ? cJSON_CreateString(s->reagent) : cJSON_CreateNull(), ok);
+    add(root, "objective", cJSON_CreateString(s->objective), ok);
+    add(root, "minimise", cJSON_CreateBool(s->minimise), ok);
+    add(root, "points", pts, ok);
+    for (int i = 0; i < s->npoints && *ok; i++) {
         const struct sweep_point *p = &s->points[i];
         cJSON *o = cJSON_CreateObject();
+        add(pts, NULL, o, ok);
         if (!o)
             break;
-        cJSON_AddItemToObject(o, "value", value_node(p));
+        add(o, "value", value_node(p), ok);
         for (int k = 0; k < NKEYS; k++) {
             double v = key_value(p, k);
             int defined = v >= 0 && (k != NKEYS - 1 || p->has_scrubber);
-            cJSON_AddItemToObject(o, keys[k].name, num_or_null(v, defined));
+            add(o, keys[k].name, num_or_null(v, defined), ok);
         }
-        cJSON_AddItemToObject(o, "reagent_kg", cJSON_CreateNumber(p->reagent_kg));
-        cJSON_AddItemToObject(o, "containers", cJSON_CreateNumber(p->containers));
-        cJSON_AddItemToArray(pts, o);
+        add(o, "reagent_kg", cJSON_CreateNumber(p->reagent_kg), ok);
+        add(o, "containers", cJSON_CreateNumber(p->containers), ok);
     }
-    cJSON_AddItemToObject(root, "best", s->best >= 0 ? value_node(&s->points[s->best]) : cJSON_CreateNull());
-    cJSON_AddItemToObject(root, "tradeoff", cJSON_CreateString(s->tradeoff));
-    char *text = cJSON_Print(root);
+    add(root, "best", s->best >= 0 ? value_node(&s->points[s->best]) : cJSON_CreateNull(), ok);
+    add(root, "tradeoff", cJSON_CreateString(s->tradeoff), ok);
+    return root;
+}
+
+enum hl_status sweep_write_json(const struct sweep *s, const char *path, struct hl_err *e)
+{
+    int ok = 1;
+    cJSON *root = sweep_json(s, &ok);
+    char *text = ok ? cJSON_Print(root) : NULL;
     cJSON_Delete(root);
     if (!text)
         return nomem(e);
@@ -411,6 +439,15 @@ enum hl_status sweep_write_xlsx(const struct sweep *s, const char *path, struct 
     worksheet_write_string(ws, last + 2, 0, s->tradeoff, NULL);
     worksheet_write_string(ws, last + 3, 0, "Planning estimates: check them against the SDS, local "
                            "regulations and a licensed engineer's review before acting on them.", NULL);
+    /* under --set the sweep is not of the campaign as written: say so on the sheet and on
+     * every printed page (a fixed header text: no user text reaches the header codes) */
+    for (int i = 0; i < s->noverrides; i++) {
+        char what[600];
+        snprintf(what, sizeof what, "!! WHAT-IF: --set %s (not the campaign file as written)", s->overrides[i]);
+        worksheet_write_string(ws, last + 4 + (lxw_row_t)i, 0, what, head);
+    }
+    if (s->noverrides)
+        worksheet_set_header(ws, "&LWHAT-IF: computed with --set (see the rows under the table)");
     if (s->npoints > 0) {
         lxw_chart *ch = workbook_add_chart(wb, LXW_CHART_LINE);
         for (int k = 1; k <= 4; k++) {
@@ -422,7 +459,7 @@ enum hl_status sweep_write_xlsx(const struct sweep *s, const char *path, struct 
         chart_title_set_name(ch, "Products of the run");
         chart_axis_set_name(ch->x_axis, s->key);
         chart_axis_set_name(ch->y_axis, "kg");
-        worksheet_insert_chart(ws, last + 5, 1, ch);
+        worksheet_insert_chart(ws, last + 5 + (lxw_row_t)s->noverrides, 1, ch);
     }
     lxw_error le = workbook_close(wb);
     hl_free(dir);
@@ -445,5 +482,8 @@ void sweep_free(struct sweep *s)
     hl_free(s->reagent);
     hl_free(s->points);
     hl_free(s->tradeoff);
+    for (int i = 0; i < s->noverrides; i++)
+        hl_free(s->overrides[i]);
+    hl_free(s->overrides);
     hl_free(s);
 }

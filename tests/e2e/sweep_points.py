@@ -14,6 +14,9 @@ and the points follow an analytic limit.
    reported to JSON; the point's figures must equal that ledger's run, month orders and
    scrubber peak.
 3. A value outside the file's range is refused as the file would refuse it (exit 2).
+4. Under --set the sweep is a what-if of a what-if: its JSON lists the overrides (a plain
+   sweep has no such key), its workbook says so in a row and in the page header, and each
+   point equals a report with the same --set and that value.
 Env: HALOLEDGER (binary), HL_ROOT (repo root), HL_WRAP (optional prefix).
 """
 import json
@@ -113,6 +116,34 @@ def main():
                     t.check(same, "%s=%s: %s sweep %r, report %r" % (key, pt["value"], k, got, v))
             t.check(os.path.getsize(os.path.join(tmp, "sw.xlsx")) > 0, "sweep workbook written")
             t.check(sw["best"] in [pt["value"] for pt in sw["points"]] and sw["tradeoff"], "best and trade-off given")
+        t.check("overrides" not in sw, "a plain sweep lists no overrides")
+        # 4. a sweep under --set
+        camp_path = os.path.join(ROOT, "campaigns", "harrowmere-march.json")
+        setting = "model.overhalogenation_factor=0.5"
+        p = run(["sweep", camp_path, "--run", "CH-1", "--vary", "temp_c=20,60", "--set", setting,
+                 "-o", "ws.json", "-o", "ws.xlsx"], tmp)
+        t.check(p.returncode == 0, "sweep --set: exit %d %r" % (p.returncode, p.stderr))
+        sw = json.load(open(os.path.join(tmp, "ws.json"))) if p.returncode == 0 else {"points": []}
+        t.check(sw.get("overrides") == [setting], "sweep --set overrides %r" % sw.get("overrides"))
+        t.check(len(sw["points"]) == 2, "sweep --set: %d points" % len(sw["points"]))
+        for pt in sw["points"]:
+            c = json.loads(json.dumps(src))
+            next(x for x in c["runs"] if x["id"] == "CH-1")["temp_c"] = pt["value"]
+            with open(os.path.join(tmp, "one.json"), "w") as f:
+                json.dump(c, f)
+            q = run(["report", "one.json", "--set", setting, "-o", "one-ledger.json"], tmp)
+            if not t.check(q.returncode == 0, "report --set: %s" % q.stderr.decode()):
+                continue
+            ref = from_ledger(json.load(open(os.path.join(tmp, "one-ledger.json"))), "CH-1")
+            for k, v in ref.items():
+                got = pt[k]
+                same = got == v if isinstance(v, int) or v is None else (got is not None and rel(got, v))
+                t.check(same, "--set, temp_c=%s: %s sweep %r, report %r" % (pt["value"], k, got, v))
+        import openpyxl  # python3-openpyxl (make deps)
+        ws = openpyxl.load_workbook(os.path.join(tmp, "ws.xlsx"))["Sweep"]
+        texts = [str(c.value) for row in ws.iter_rows() for c in row if isinstance(c.value, str)]
+        t.check(any(x.startswith("!! WHAT-IF: --set " + setting) for x in texts), "what-if row in the workbook")
+        t.check("WHAT-IF" in (ws.oddHeader.left.text or ""), "what-if page header %r" % ws.oddHeader.left.text)
         # 3. out of range, as the file refuses it
         p = run(["sweep", os.path.join(ROOT, "campaigns", "harrowmere-march.json"), "--run", "CH-1",
                  "--vary", "halogen_conversion=0.5:1.5:0.5"], tmp)
