@@ -14,6 +14,7 @@
 #include <xlsxwriter.h>
 
 #include "hlmem.h"
+#include "jtree.h"
 
 /* Length of the UTF-8 character at p (RFC 3629; 0 = not one, or a control character). */
 static int char_len(const unsigned char *p)
@@ -346,25 +347,23 @@ enum hl_status cmp_ledgers(const cJSON *a, const cJSON *b, struct cmp_result *ou
 
 cJSON *cmp_to_json(const struct cmp_result *r, const char *a_name, const char *b_name)
 {
+    int ok = 1;
     cJSON *root = cJSON_CreateObject(), *arr = cJSON_CreateArray();
-    if (!root || !arr) {
-        cJSON_Delete(root);
-        cJSON_Delete(arr);
-        return NULL;
-    }
-    cJSON_AddItemToObject(root, "format", cJSON_CreateString("haloledger-compare/1"));
-    cJSON_AddItemToObject(root, "a", cJSON_CreateString(a_name));
-    cJSON_AddItemToObject(root, "b", cJSON_CreateString(b_name));
-    cJSON_AddItemToObject(root, "differences", arr);
-    for (int i = 0; i < r->n; i++) {
+    jt_add(root, "format", cJSON_CreateString("haloledger-compare/1"), &ok);
+    jt_add(root, "a", cJSON_CreateString(a_name), &ok);
+    jt_add(root, "b", cJSON_CreateString(b_name), &ok);
+    jt_add(root, "differences", arr, &ok);
+    for (int i = 0; i < r->n && ok; i++) {
         cJSON *o = cJSON_CreateObject();
-        if (!o)
-            break;
-        cJSON_AddItemToObject(o, "where", cJSON_CreateString(r->d[i].where));
-        cJSON_AddItemToObject(o, "what", cJSON_CreateString(r->d[i].what));
-        cJSON_AddItemToObject(o, "a", cJSON_CreateString(r->d[i].a));
-        cJSON_AddItemToObject(o, "b", cJSON_CreateString(r->d[i].b));
-        cJSON_AddItemToArray(arr, o);
+        jt_add(arr, NULL, o, &ok);
+        jt_add(o, "where", cJSON_CreateString(r->d[i].where), &ok);
+        jt_add(o, "what", cJSON_CreateString(r->d[i].what), &ok);
+        jt_add(o, "a", cJSON_CreateString(r->d[i].a), &ok);
+        jt_add(o, "b", cJSON_CreateString(r->d[i].b), &ok);
+    }
+    if (!ok) { /* a document with a row left out would read as "no such difference" */
+        cJSON_Delete(root);
+        return NULL;
     }
     return root;
 }

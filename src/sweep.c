@@ -13,6 +13,7 @@
 
 #include "afile.h"
 #include "hlmem.h"
+#include "jtree.h"
 #include "isodate.h"
 #include "reagents.h"
 
@@ -307,16 +308,6 @@ static cJSON *value_node(const struct sweep_point *p)
     return *end || !p->value[0] ? cJSON_CreateString(p->value) : cJSON_CreateNumber(p->x);
 }
 
-/* Add item to obj (or to the array when name is NULL); a NULL item (its allocation failed)
- * clears *ok, so the writer refuses a document with a part missing. */
-static void add(cJSON *obj, const char *name, cJSON *item, int *ok)
-{
-    if (!item || !(name ? cJSON_AddItemToObject(obj, name, item) : cJSON_AddItemToArray(obj, item))) {
-        cJSON_Delete(item);
-        *ok = 0;
-    }
-}
-
 static cJSON *sweep_json(const struct sweep *s, int *ok)
 {
     cJSON *root = cJSON_CreateObject(), *pts = cJSON_CreateArray();
@@ -326,36 +317,36 @@ static cJSON *sweep_json(const struct sweep *s, int *ok)
         *ok = 0;
         return NULL;
     }
-    add(root, "format", cJSON_CreateString("haloledger-sweep/1"), ok);
+    jt_add(root, "format", cJSON_CreateString("haloledger-sweep/1"), ok);
     if (s->noverrides) { /* a what-if of a what-if: say so, as the ledger does */
         cJSON *ov = cJSON_CreateArray();
         for (int i = 0; ov && i < s->noverrides; i++)
-            add(ov, NULL, cJSON_CreateString(s->overrides[i]), ok);
-        add(root, "overrides", ov, ok);
+            jt_add(ov, NULL, cJSON_CreateString(s->overrides[i]), ok);
+        jt_add(root, "overrides", ov, ok);
     }
-    add(root, "run", cJSON_CreateString(s->run), ok);
-    add(root, "key", cJSON_CreateString(s->key), ok);
-    add(root, "reagent", s->reagent ? cJSON_CreateString(s->reagent) : cJSON_CreateNull(), ok);
-    add(root, "objective", cJSON_CreateString(s->objective), ok);
-    add(root, "minimise", cJSON_CreateBool(s->minimise), ok);
-    add(root, "points", pts, ok);
+    jt_add(root, "run", cJSON_CreateString(s->run), ok);
+    jt_add(root, "key", cJSON_CreateString(s->key), ok);
+    jt_add(root, "reagent", s->reagent ? cJSON_CreateString(s->reagent) : cJSON_CreateNull(), ok);
+    jt_add(root, "objective", cJSON_CreateString(s->objective), ok);
+    jt_add(root, "minimise", cJSON_CreateBool(s->minimise), ok);
+    jt_add(root, "points", pts, ok);
     for (int i = 0; i < s->npoints && *ok; i++) {
         const struct sweep_point *p = &s->points[i];
         cJSON *o = cJSON_CreateObject();
-        add(pts, NULL, o, ok);
+        jt_add(pts, NULL, o, ok);
         if (!o)
             break;
-        add(o, "value", value_node(p), ok);
+        jt_add(o, "value", value_node(p), ok);
         for (int k = 0; k < NKEYS; k++) {
             double v = key_value(p, k);
             int defined = v >= 0 && (k != NKEYS - 1 || p->has_scrubber);
-            add(o, keys[k].name, num_or_null(v, defined), ok);
+            jt_add(o, keys[k].name, num_or_null(v, defined), ok);
         }
-        add(o, "reagent_kg", cJSON_CreateNumber(p->reagent_kg), ok);
-        add(o, "containers", cJSON_CreateNumber(p->containers), ok);
+        jt_add(o, "reagent_kg", cJSON_CreateNumber(p->reagent_kg), ok);
+        jt_add(o, "containers", cJSON_CreateNumber(p->containers), ok);
     }
-    add(root, "best", s->best >= 0 ? value_node(&s->points[s->best]) : cJSON_CreateNull(), ok);
-    add(root, "tradeoff", cJSON_CreateString(s->tradeoff), ok);
+    jt_add(root, "best", s->best >= 0 ? value_node(&s->points[s->best]) : cJSON_CreateNull(), ok);
+    jt_add(root, "tradeoff", cJSON_CreateString(s->tradeoff), ok);
     return root;
 }
 
