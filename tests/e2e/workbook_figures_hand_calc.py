@@ -113,6 +113,25 @@ with tempfile.TemporaryDirectory() as d:
         sys.exit(1)
     wb = openpyxl.load_workbook(book)
 
+# Hourly load: every run vents over its 2 h from 06:00 (peak factor 1), so the clock hours 06:00
+# and 07:00 of its day carry vent mol / 2 h and every other hour between is 0.  Vent by hand:
+# CL-1 400 mol HCl, CL-2 1600, BR-1 200 mol HBr, SC-1 400 HCl + 400 SO2, HB-1 the 5 % of 1000
+# mol HBr left unreacted (50); NB-1 has no scrubber.
+ws = wb["Hourly load"]
+h = header(ws)
+vent_mol = {1: 400, 3: 1600, 5: 200, 7: 800, 11: 50}
+rows = [(ws.cell(r, h["Hour start (plant time)"]).value,
+         ws.cell(r, h["Vent gas load, mean over the hour [kmol/h]"]).value) for r in range(2, ws.max_row + 1)]
+T.check(len(rows) == 10 * 24 + 2 and rows[0][0].isoformat() == "2027-06-01T06:00:00" and
+        rows[-1][0].isoformat() == "2027-06-11T07:00:00",
+        f"Hourly load: {len(rows)} rows from {rows[0][0] if rows else None} to {rows[-1][0] if rows else None}")
+for at, kmol_h in rows:
+    want = vent_mol.get(at.day, 0) / 2 / 1000 if at.hour in (6, 7) else 0.0
+    if want:
+        close(kmol_h, want, f"Hourly load at {at.isoformat()}")
+    else:
+        T.check(kmol_h == 0, f"Hourly load at {at.isoformat()}: {kmol_h!r}, by hand 0")
+
 # Runs: one row a run
 ws = wb["Runs"]
 h = header(ws)
