@@ -18,6 +18,9 @@ TOOL_BIN := $(patsubst tests/tools/%.c,$(BUILD)/%,$(TOOL_SRC))
 SHIM_SRC := $(wildcard tests/tools/shim_*.c)
 SHIM_BIN := $(patsubst tests/tools/%.c,$(BUILD)/%.so,$(SHIM_SRC))
 HEADERS  := $(wildcard include/*.h) $(wildcard tests/unit/*.h)
+# objects of the programs, kept between builds (make would delete them as intermediates)
+.SECONDARY: $(BUILD)/obj/main.o $(patsubst tests/unit/%.c,$(BUILD)/obj/t_%.o,$(UNIT_SRC)) \
+            $(patsubst tests/tools/%.c,$(BUILD)/obj/tt_%.o,$(TOOL_SRC))
 
 .PHONY: all deps demo test unit sanitize valgrind fuzz mutate bench clean print-link-flags fresh-debian
 all: $(BUILD)/haloledger
@@ -45,15 +48,21 @@ $(BUILD)/obj/catalog_data.o: $(BUILD)/catalog_data.c
 $(BUILD)/libhalo.a: $(LIB_OBJ)
 	rm -f $@ && ar rcs $@ $^
 
-$(BUILD)/haloledger: src/main.c $(BUILD)/libhalo.a $(HEADERS)
-	$(CC) $(CFLAGS_ALL) src/main.c $(BUILD)/libhalo.a $(LDLIBS_ALL) -o $@
+# Programs are compiled to objects and linked apart, so a change in one library source
+# relinks them without recompiling each (tools/mutate.sh rebuilds once per seeded error).
+$(BUILD)/haloledger: $(BUILD)/obj/main.o $(BUILD)/libhalo.a
+	$(CC) $(CFLAGS_ALL) $< $(BUILD)/libhalo.a $(LDLIBS_ALL) -o $@
 
-$(BUILD)/test_%: tests/unit/test_%.c $(BUILD)/libhalo.a $(HEADERS)
-	$(CC) $(CFLAGS_ALL) -Itests/unit $< $(BUILD)/libhalo.a $(CUNIT_LIBS) $(LDLIBS_ALL) -o $@
+$(BUILD)/obj/t_%.o: tests/unit/%.c $(HEADERS) | $(BUILD)/obj
+	$(CC) $(CFLAGS_ALL) -Itests/unit -c $< -o $@
+$(BUILD)/test_%: $(BUILD)/obj/t_test_%.o $(BUILD)/libhalo.a
+	$(CC) $(CFLAGS_ALL) $< $(BUILD)/libhalo.a $(CUNIT_LIBS) $(LDLIBS_ALL) -o $@
 
 # Test-only command-line probes that end-to-end scripts compare with RDKit/openpyxl.
-$(BUILD)/tool_%: tests/tools/tool_%.c $(BUILD)/libhalo.a $(HEADERS)
-	$(CC) $(CFLAGS_ALL) -Itests/unit $< $(BUILD)/libhalo.a $(LDLIBS_ALL) -o $@
+$(BUILD)/obj/tt_%.o: tests/tools/%.c $(HEADERS) | $(BUILD)/obj
+	$(CC) $(CFLAGS_ALL) -Itests/unit -c $< -o $@
+$(BUILD)/tool_%: $(BUILD)/obj/tt_tool_%.o $(BUILD)/libhalo.a
+	$(CC) $(CFLAGS_ALL) $< $(BUILD)/libhalo.a $(LDLIBS_ALL) -o $@
 
 # LD_PRELOAD shims for fault injection: no EXTRA_CFLAGS, since a sanitizer-instrumented
 # preload would have to come after the sanitizer runtime it needs.
