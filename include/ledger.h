@@ -42,14 +42,46 @@ struct ledger_variance {
     int flagged;                         /* reagent or product outside its tolerance */
 };
 
+/* A run's balance as the ledger keeps it: struct bal_out (balance.h, same names and
+ * meanings) less what only the build needs (the warning text, which goes to warnings[], and
+ * the selectivity detail), so that 10^5 runs stay small. products[].smiles are the
+ * ledger's shared strings (not owned by the run). */
+struct ledger_bal {
+    char substrate_formula[64];
+    double substrate_molar_mass_g_mol, substrate_mol;
+    double reagent_mol, reagent_kg;
+    double reagent_reacted_mol, reagent_unreacted_mol;
+    double halogen_reacted_mol;
+    int capped;
+    int isomers_resolved;
+    double mean_degree;
+    struct bal_product *products; int nproducts;
+    double hx_kg[2];
+    double so2_kg, succinimide_kg;
+    double vent_mol[VS_COUNT];
+    double retained_mol[VS_COUNT];
+    double reagent_left_kg;
+    double wanted_kg, isomer_kg, overhal_kg, unreacted_substrate_kg;
+    double wanted_mol, converted_mol;
+    double halogen_charged_mol, halogen_in_wanted_mol;
+    double yield_pct, conversion_pct, selectivity_pct;
+    int selectivity_defined;
+    double halogen_efficiency_pct;
+    double el_in_mol[BAL_NEL], el_out_mol[BAL_NEL];
+    double max_rel_error;
+    char *warning;                       /* bal_out.warning (also in warnings[]): a shared
+                                          * string, NULL when there is none */
+};
+
 struct ledger_run {
-    char *id, *reactor, *scrubber, *substrate_name, *smiles; /* owned; reactor/scrubber/name/smiles may be NULL */
+    char *id, *reactor, *scrubber, *substrate_name, *smiles; /* the ledger's shared strings
+                                          * (ledger.strings); reactor/scrubber/name/smiles may be NULL */
     int scrubber_index;                  /* into ledger.scrubbers, -1 = none */
     int64_t start_min;
     double feed_h, temp_c, substrate_kg, peak_factor;
     int reagent;
     enum kin_mode mode;
-    struct bal_out bal;                  /* also yield, conversion, selectivity, halogen efficiency;
+    struct ledger_bal bal;               /* also yield, conversion, selectivity, halogen efficiency;
                                           * products: see ledger_build (reporting threshold) */
     struct scrub_run_out scrub;
     /* the fresh charge before this run (0 without changeout_before): purchased caustic
@@ -62,7 +94,7 @@ struct ledger_run {
     double therm_mass_kg, therm_cp_kj_kg_k, therm_accumulation;
     int has_mtt, has_td24; double mtt_c, td24_c;
     /* gas fed from containers (Cl2, HBr with a container rate known); withdrawal_container
-     * owned, NULL when has_withdrawal is 0 */
+     * a shared string, NULL when has_withdrawal is 0 */
     int has_withdrawal;
     struct therm_withdrawal withdrawal;
     char *withdrawal_container;
@@ -141,10 +173,14 @@ struct ledger_scrubber {
     struct scrub_unit_out out;
 };
 
-struct ledger_warning { char *run; char *message; };            /* run may be NULL */
+struct ledger_warning { char *run; char *message; };            /* shared strings; run may be NULL */
 struct ledger_assumption { char *what; int has_value; double value; char *unit; char *origin; }; /* has_value 0: text only */
 
+struct ledger_strings; /* ledger.c: one arena for the texts of runs and warnings */
+
 struct ledger {
+    struct ledger_strings *strings;      /* owns the run, product and warning texts; repeated
+                                          * ones (reactor, substrate, structures) are stored once */
     char *title, *site, *file;
     char **overrides; int noverrides;    /* --set KEY=VALUE the campaign was read with: a what-if */
     int64_t created_min;                 /* document time: issued date, SOURCE_DATE_EPOCH, or 0 */

@@ -73,8 +73,19 @@ struct therm_out {
     double delta_t_ad_k, mtsr_c; /* adiabatic rise of the mass; Tp + accumulation x rise (>= Tp) */
     int crit_class;              /* 1..5; 0 when mtt_c or td24_c is missing */
     int mtsr_over_mtt, mtsr_over_td24; /* MTSR reaches MTT / TD24 (when given) */
-    char reason[480];            /* the class reasoning, or what is missing */
+    int reason;                  /* enum therm_reason: what therm_reason_text says; kept as a
+                                  * code so that a ledger of 10^5 runs holds no text per run */
 };
+
+/* What the class reasoning of a therm_out says: nothing (a zeroed result), the class with
+ * its reasoning (MTT and TD24 given), or which of them is missing. */
+enum therm_reason { THERM_REASON_NONE = 0, THERM_REASON_CLASSED, THERM_REASON_NO_BOTH,
+                    THERM_REASON_NO_MTT, THERM_REASON_NO_TD24 };
+
+/* The class reasoning of t in words into why (n bytes; "" for THERM_REASON_NONE), from the
+ * process temperature, MTT and TD24 [C] that therm_compute was given. */
+void therm_reason_text(const struct therm_out *t, double temp_c, double mtt_c, double td24_c,
+                       char *why, size_t n);
 
 /* Reaction heat, rise, MTSR and class of one run. Without site shares a substitution is
  * taken at a secondary C-H and NBS at a benzylic C-H (site_assumed = 1). Plain data out. */

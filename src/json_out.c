@@ -623,7 +623,9 @@ static void jo_reaction(struct jo *w, const struct ledger_run *r)
         jo_num(w, "criticality_class", t->crit_class);
     else
         jo_null(w, "criticality_class");
-    jo_str(w, "class_reason", t->reason);
+    char why[480];
+    therm_reason_text(t, r->temp_c, r->mtt_c, r->td24_c, why, sizeof why);
+    jo_str(w, "class_reason", why);
     jo_num(w, "dh_kj_mol", t->dh_kj_mol);
     jo_num(w, "dh_uncertainty_kj_mol", t->dh_unc_kj_mol);
     jo_bool(w, "site_assumed", t->site_assumed);
@@ -669,7 +671,7 @@ static void jo_reaction(struct jo *w, const struct ledger_run *r)
 static void jo_run(struct jo *w, const struct ledger *l, int i)
 {
     const struct ledger_run *r = &l->runs[i];
-    const struct bal_out *b = &r->bal;
+    const struct ledger_bal *b = &r->bal;
     const struct scrub_run_out *s = &r->scrub;
     jo_begin(w, "runs", i);
     jo_str(w, "id", r->id);
@@ -804,7 +806,7 @@ static void jo_run(struct jo *w, const struct ledger *l, int i)
         jo_null(w, "selectivity_pct"); /* nothing converted: no selectivity */
     jo_num(w, "halogen_efficiency_pct", b->halogen_efficiency_pct);
     jo_reaction(w, r);
-    if (b->warning[0])
+    if (b->warning)
         jo_str(w, "warning", b->warning);
     jo_actual(w, r);
     jo_open(w, "emissions_kg", '{'); /* what leaves the stack after the scrubber */

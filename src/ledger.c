@@ -44,6 +44,106 @@ static enum hl_status nomem(struct hl_err *e) { return hl_err_set(e, HL_ERR_NOME
 static int grow_due(int n) { return n == 0 || (n >= 8 && (n & (n - 1)) == 0); }
 static size_t grown(int n) { return n == 0 ? 8 : 2 * (size_t)n; }
 
+/* ---- shared strings ----
+ * The texts of runs and warnings live in blocks of one arena (no allocation and no malloc
+ * header per string: at 10^5 runs these were some 30 allocations a run). A text met before
+ * (a reactor, a substrate, a product structure, a run id named by several warnings) is
+ * stored once, found through an open-addressing table of FNV-1a hashes. */
+#define POOL_BLOCK 65536
+struct pool_block { struct pool_block *next; size_t used, cap; char data[]; };
+struct ledger_strings {
+    struct pool_block *blocks;
+    char **slots; size_t nslots, nused;      /* nslots a power of two, at most half full */
+};
+
+static uint64_t pool_hash(const char *s, size_t len)
+{
+    uint64_t h = 1469598103934665603u;
+    for (size_t i = 0; i < len; i++)
+        h = (h ^ (unsigned char)s[i]) * 1099511628211u;
+    return h;
+}
+
+/* A copy of s (len bytes) in the arena; NULL when out of memory. */
+static char *pool_store(struct ledger_strings *p, const char *s, size_t len)
+{
+    struct pool_block *b = p->blocks;
+    if (!b || b->cap - b->used < len + 1) {
+        size_t cap = len + 1 > POOL_BLOCK ? len + 1 : POOL_BLOCK;
+        if (!(b = hl_malloc(sizeof *b + cap)))
+            return NULL;
+        b->next = p->blocks;
+        b->used = 0;
+        b->cap = cap;
+        p->blocks = b;
+    }
+    char *q = b->data + b->used;
+    memcpy(q, s, len);
+    q[len] = '\0';
+    b->used += len + 1;
+    return q;
+}
+
+static int pool_grow(struct ledger_strings *p)
+{
+    size_t n = p->nslots ? 2 * p->nslots : 1024;
+    char **v = hl_calloc(n, sizeof *v);
+    if (!v)
+        return -1;
+    for (size_t i = 0; i < p->nslots; i++) {
+        if (!p->slots[i])
+            continue;
+        size_t k = pool_hash(p->slots[i], strlen(p->slots[i])) & (n - 1);
+        while (v[k])
+            k = (k + 1) & (n - 1);
+        v[k] = p->slots[i];
+    }
+    hl_free(p->slots);
+    p->slots = v;
+    p->nslots = n;
+    return 0;
+}
+
+/* The ledger's copy of s into *out: NULL for NULL (not a failure); shared 1 stores a text
+ * met before once (texts that repeat), 0 always stores (texts that do not). */
+static enum hl_status pool_dup(struct ledger *l, const char *s, int shared, char **out,
+                               struct hl_err *e)
+{
+    *out = NULL;
+    if (!s)
+        return HL_OK;
+    if (!l->strings && !(l->strings = hl_calloc(1, sizeof *l->strings)))
+        return nomem(e);
+    struct ledger_strings *p = l->strings;
+    size_t len = strlen(s);
+    if (!shared)
+        return (*out = pool_store(p, s, len)) ? HL_OK : nomem(e);
+    if (2 * (p->nused + 1) > p->nslots && pool_grow(p))
+        return nomem(e);
+    size_t k = pool_hash(s, len) & (p->nslots - 1);
+    for (; p->slots[k]; k = (k + 1) & (p->nslots - 1))
+        if (!strcmp(p->slots[k], s))
+            return *out = p->slots[k], HL_OK;
+    if (!(*out = pool_store(p, s, len)))
+        return nomem(e);
+    p->slots[k] = *out;
+    p->nused++;
+    return HL_OK;
+}
+
+static void pool_free(struct ledger_strings *p)
+{
+    if (!p)
+        return;
+    while (p->blocks) {
+        struct pool_block *b = p->blocks;
+        p->blocks = b->next;
+        hl_free(b);
+    }
+    hl_free(p->slots);
+    hl_free(p);
+}
+
 static enum hl_status warn(struct ledger *l, struct hl_err *e, const char *run, const char *fmt, ...)
     __attribute__((format(printf, 4, 5)));
 
@@ -62,13 +162,9 @@ static enum hl_status warn(struct ledger *l, struct hl_err *e, const char *run, 
         l->warnings = w;
     }
     w += l->nwarnings;
-    w->run = hl_strdup(run);
-    w->message = hl_strdup(buf);
-    if ((run && !w->run) || !w->message) {
-        hl_free(w->run);
-        hl_free(w->message);
-        return nomem(e);
-    }
+    enum hl_status st;
+    if ((st = pool_dup(l, run, 1, &w->run, e)) || (st = pool_dup(l, buf, 0, &w->message, e)))
+        return st;
     l->nwarnings++;
     return HL_OK;
 }
@@ -274,18 +370,18 @@ static enum hl_status warn_defaults(struct ledger *l, const struct camp_run *r,
 /* Share of the first-step C-X bonds at each bond-table site, from the selectivity
  * result (bal.sel, still set): a one-carbon substrate is a methyl site; no isomers
  * (formula input) leaves every share 0 and thermal.c takes its default site. */
-static void therm_shares(const struct bal_out *b, double *share)
+static void therm_shares(const struct sel_result *sel, double *share)
 {
     static const int map[SITE_CLASS_COUNT] = {THERM_PRIMARY, THERM_SECONDARY, THERM_TERTIARY,
                                               THERM_BENZYLIC, THERM_ALLYLIC, -1};
-    if (!b->sel)
+    if (!sel)
         return;
-    int one_carbon = b->sel->substrate.n[EL_C] == 1;
-    for (int j = 0; j < b->sel->niso; j++) {
-        int c = b->sel->iso[j].site_class;
+    int one_carbon = sel->substrate.n[EL_C] == 1;
+    for (int j = 0; j < sel->niso; j++) {
+        int c = sel->iso[j].site_class;
         int t = c >= 0 && c < SITE_CLASS_COUNT ? map[c] : -1;
         if (t >= 0)
-            share[one_carbon ? THERM_METHYL : t] += b->sel->iso[j].fraction;
+            share[one_carbon ? THERM_METHYL : t] += sel->iso[j].fraction;
     }
 }
 
@@ -303,10 +399,11 @@ static const struct camp_container *gas_container(const struct campaign *c, int 
 }
 
 /* Heat, MTSR and class of one run (twin >= 0: a repeat, the same batch: copied), its gas
- * withdrawal, the warnings they raise and the values they used. Call while bal.sel is set. */
+ * withdrawal, the warnings they raise and the values they used. sel: the run's selectivity
+ * prediction (the cache's), NULL when the balance carries none. */
 static enum hl_status run_thermal(const struct campaign *c, const struct camp_run *r,
-                                  struct ledger *l, struct ledger_run *lr, int twin,
-                                  struct hl_err *e)
+                                  struct ledger *l, struct ledger_run *lr,
+                                  const struct sel_result *sel, int twin, struct hl_err *e)
 {
     enum hl_status st = HL_OK;
     lr->therm_mass_kg = r->substrate_kg + lr->bal.reagent_kg + r->solvent_kg;
@@ -325,7 +422,7 @@ static enum hl_status run_thermal(const struct campaign *c, const struct camp_ru
                               .feed_h = r->feed_h, .peak_factor = r->peak_factor,
                               .has_mtt = r->has_mtt, .mtt_c = r->mtt_c,
                               .has_td24 = r->has_td24, .td24_c = r->td24_c};
-        therm_shares(&lr->bal, ti.share);
+        therm_shares(sel, ti.share);
         therm_compute(&ti, &lr->therm);
         const char *rg = reagent_get(r->reagent)->name;
         char what[160];
@@ -368,8 +465,8 @@ static enum hl_status run_thermal(const struct campaign *c, const struct camp_ru
     if (st || !ct)
         return st;
     lr->has_withdrawal = 1;
-    if (!(lr->withdrawal_container = hl_strdup(ct->name)))
-        return nomem(e);
+    if ((st = pool_dup(l, ct->name, 1, &lr->withdrawal_container, e)))
+        return st;
     therm_withdrawal(lr->bal.reagent_kg, r->feed_h, r->peak_factor, ct->gas_withdrawal_kg_h,
                      &lr->withdrawal);
     char what[200];
@@ -395,9 +492,9 @@ static enum hl_status run_thermal(const struct campaign *c, const struct camp_ru
  * Why only over-halogenated ones: a run has a handful of monohalides and one unreacted
  * substrate, but a long tail of traces of high degree (down to 1e-14 mol/mol), which
  * is what nobody reads. The sums keep the mass and element balances closed. */
-static enum hl_status lump_products(struct ledger_run *lr, double min_frac, struct hl_err *e)
+static enum hl_status lump_products(struct ledger_run *lr, struct bal_out *b, double min_frac,
+                                    struct hl_err *e)
 {
-    struct bal_out *b = &lr->bal;
     struct bal_product other = {.smiles = NULL, .degree = 0, .role = ROLE_OTHER};
     double degree_mol = 0;
     int kept = 0, lumped = 0;
@@ -467,18 +564,19 @@ static void cancel_balance(struct bal_out *b)
 }
 
 /* The plan side of a run's variance, from its planned balance; NaOH only on a caustic unit. */
-static void variance_plan(const struct campaign *c, const struct camp_run *r, struct ledger_run *lr)
+static void variance_plan(const struct campaign *c, const struct camp_run *r, struct ledger_run *lr,
+                          const struct bal_out *b)
 {
     struct ledger_variance *v = &lr->var;
-    v->reagent_kg_plan = lr->bal.reagent_kg;
-    v->product_kg_plan = lr->bal.wanted_kg;
-    v->yield_pct_plan = lr->bal.yield_pct;
+    v->reagent_kg_plan = b->reagent_kg;
+    v->product_kg_plan = b->wanted_kg;
+    v->yield_pct_plan = b->yield_pct;
     int caustic = r->scrubber >= 0 && c->scrubbers[r->scrubber].liquor == CAMP_LIQUOR_NAOH;
-    v->naoh_kg_plan = caustic ? vent_naoh_kg(&lr->bal) : 0.0;
+    v->naoh_kg_plan = caustic ? vent_naoh_kg(b) : 0.0;
 }
 
 /* actual - plan of a done run, each where the actual gives it; flagged outside tolerance. */
-static void variance_actual(const struct campaign *c, struct ledger_run *lr)
+static void variance_actual(const struct campaign *c, struct ledger_run *lr, const struct bal_out *b)
 {
     struct ledger_variance *v = &lr->var;
     const struct ledger_actual *a = &lr->actual;
@@ -495,11 +593,11 @@ static void variance_actual(const struct campaign *c, struct ledger_run *lr)
         v->product_kg = a->product_kg - v->product_kg_plan;
         v->product_pct = v->product_kg_plan > 0 ? 100.0 * v->product_kg / v->product_kg_plan : 0.0;
         const struct bal_product *w = NULL;
-        for (int p = 0; p < lr->bal.nproducts && !w; p++)
-            if (lr->bal.products[p].role == ROLE_WANTED)
-                w = &lr->bal.products[p];
+        for (int p = 0; p < b->nproducts && !w; p++)
+            if (b->products[p].role == ROLE_WANTED)
+                w = &b->products[p];
         /* substrate charged as planned: no actual substrate figure is taken */
-        double sub_mol = lr->substrate_kg * 1000.0 / lr->bal.substrate_molar_mass_g_mol;
+        double sub_mol = lr->substrate_kg * 1000.0 / b->substrate_molar_mass_g_mol;
         v->yield_pct_actual = w && w->molar_mass_g_mol > 0
                                   ? 100.0 * (a->product_kg * 1000.0 / w->molar_mass_g_mol) / sub_mol
                                   : 0.0;
@@ -519,7 +617,8 @@ static void variance_actual(const struct campaign *c, struct ledger_run *lr)
  * is zeroed after the plan side of its figures is kept. */
 static enum hl_status apply_actual(const struct campaign *c, const struct ledger_opts *o,
                                    const struct camp_run *r, struct bal_in *in, struct ledger_run *lr,
-                                   double min_frac, struct bal_cache *cache, struct hl_err *e)
+                                   struct bal_out *b, double min_frac, struct bal_cache *cache,
+                                   struct hl_err *e)
 {
     const struct camp_actual *a = &r->actual;
     lr->actual = (struct ledger_actual){
@@ -543,9 +642,9 @@ static enum hl_status apply_actual(const struct campaign *c, const struct ledger
                          "run %s is done but starts %s, after --today %s: an actual needs a run "
                          "that has started", idq, when, today);
     }
-    variance_plan(c, r, lr);
+    variance_plan(c, r, lr, b);
     if (a->status == CAMP_CANCELLED) {
-        cancel_balance(&lr->bal);
+        cancel_balance(b);
         lr->substrate_kg = 0;
         return HL_OK;
     }
@@ -560,14 +659,14 @@ static enum hl_status apply_actual(const struct campaign *c, const struct ledger
         if (st)
             return st;
         actual.sel = NULL; /* the cache's */
-        bal_free(&lr->bal);
-        lr->bal = actual;
+        bal_free(b);
+        *b = actual;
         lr->other_rows = 0;
         lr->other_mean_degree = 0;
-        if (min_frac > 0 && (st = lump_products(lr, min_frac, e)))
+        if (min_frac > 0 && (st = lump_products(lr, b, min_frac, e)))
             return st;
     }
-    variance_actual(c, lr);
+    variance_actual(c, lr, b);
     return HL_OK;
 }
 
@@ -582,6 +681,142 @@ static int by_start(const void *a, const void *b)
     if (x->start_min != y->start_min)
         return x->start_min < y->start_min ? -1 : 1;
     return (x > y) - (x < y); /* file order: runs[] is contiguous */
+}
+
+/* The scalar fields struct ledger_bal shares with struct bal_out (ledger.h). */
+#define LEDGER_BAL_SCALARS(X) X(substrate_molar_mass_g_mol) X(substrate_mol) X(reagent_mol) \
+    X(reagent_kg) X(reagent_reacted_mol) X(reagent_unreacted_mol) X(halogen_reacted_mol) \
+    X(capped) X(isomers_resolved) X(mean_degree) X(so2_kg) X(succinimide_kg) \
+    X(reagent_left_kg) X(wanted_kg) X(isomer_kg) X(overhal_kg) X(unreacted_substrate_kg) \
+    X(wanted_mol) X(converted_mol) X(halogen_charged_mol) X(halogen_in_wanted_mol) \
+    X(yield_pct) X(conversion_pct) X(selectivity_pct) X(selectivity_defined) \
+    X(halogen_efficiency_pct) X(max_rel_error)
+#define LEDGER_BAL_ARRAYS(X) X(substrate_formula) X(hx_kg) X(vent_mol) X(retained_mol) \
+    X(el_in_mol) X(el_out_mol)
+
+/* Move balance b into the run's ledger_bal d: the product table moves (b keeps none), each
+ * structure becomes a shared string (its own copy freed), the warning too. On failure
+ * every structure left is shared or NULL, so freeing d frees all. */
+static enum hl_status keep_bal(struct ledger *l, struct ledger_bal *d, struct bal_out *b,
+                               struct hl_err *e)
+{
+#define COPY_S(f) d->f = b->f;
+#define COPY_A(f) memcpy(d->f, b->f, sizeof d->f);
+    LEDGER_BAL_SCALARS(COPY_S)
+    LEDGER_BAL_ARRAYS(COPY_A)
+#undef COPY_S
+#undef COPY_A
+    d->products = b->products;
+    d->nproducts = b->nproducts;
+    b->products = NULL;
+    b->nproducts = 0;
+    enum hl_status st = HL_OK;
+    for (int p = 0; p < d->nproducts; p++) {
+        char *own = d->products[p].smiles;
+        if (!st)
+            st = pool_dup(l, own, 1, &d->products[p].smiles, e);
+        else
+            d->products[p].smiles = NULL;
+        hl_free(own);
+    }
+    if (!st && b->warning[0])
+        st = pool_dup(l, b->warning, 1, &d->warning, e);
+    return st;
+}
+
+/* A balance of its own from a kept one (a repeat of an entry: the same batch), as bal_copy
+ * gives: structures duplicated, no selectivity detail. */
+static enum hl_status unkeep_bal(struct bal_out *b, const struct ledger_bal *s, struct hl_err *e)
+{
+    memset(b, 0, sizeof *b);
+#define COPY_S(f) b->f = s->f;
+#define COPY_A(f) memcpy(b->f, s->f, sizeof b->f);
+    LEDGER_BAL_SCALARS(COPY_S)
+    LEDGER_BAL_ARRAYS(COPY_A)
+#undef COPY_S
+#undef COPY_A
+    snprintf(b->warning, sizeof b->warning, "%s", s->warning ? s->warning : "");
+    if (!(b->products = hl_calloc((size_t)(s->nproducts ? s->nproducts : 1), sizeof *b->products)))
+        return nomem(e);
+    for (int i = 0; i < s->nproducts; i++) {
+        b->products[i] = s->products[i];
+        b->products[i].smiles = NULL;
+        b->nproducts = i + 1;
+        if (s->products[i].smiles && !(b->products[i].smiles = hl_strdup(s->products[i].smiles)))
+            return nomem(e); /* the caller frees b */
+    }
+    return HL_OK;
+}
+
+/* The balance of run r into ledger run i, with its assumptions, warnings and reaction heat.
+ * The balance is worked on as a struct bal_out and kept as a ledger_bal at the end. */
+static enum hl_status balance_one(const struct campaign *c, const struct ledger_opts *o,
+                                  struct ledger *l, const struct camp_run *r, int i, int *first,
+                                  struct assumed *assumed, struct bal_cache *cache,
+                                  double min_frac, struct hl_err *e)
+{
+    struct ledger_run *lr = &l->runs[i];
+    enum hl_status st;
+    if ((st = pool_dup(l, r->id, 0, &lr->id, e)) || (st = pool_dup(l, r->reactor, 1, &lr->reactor, e)) ||
+        (st = pool_dup(l, r->scrubber >= 0 ? c->scrubbers[r->scrubber].id : NULL, 1, &lr->scrubber, e)) ||
+        (st = pool_dup(l, r->substrate_name, 1, &lr->substrate_name, e)) ||
+        (st = pool_dup(l, r->smiles, 1, &lr->smiles, e)))
+        return st;
+    lr->scrubber_index = r->scrubber;
+    lr->peak_factor = r->peak_factor;
+    lr->start_min = r->start_min;
+    lr->feed_h = r->feed_h;
+    lr->temp_c = r->temp_c;
+    lr->substrate_kg = r->substrate_kg;
+    lr->reagent = r->reagent;
+    lr->mode = r->mode == CAMP_CSTR ? KIN_CSTR : KIN_BATCH;
+    struct bal_in in = {
+        .smiles = r->smiles, .formula = r->formula, .product_smiles = r->product_smiles,
+        .substrate_kg = r->substrate_kg, .reagent = r->reagent,
+        .amount_is_kg = r->amount_is_kg, .reagent_eq = r->reagent_eq,
+        .reagent_kg = r->reagent_kg, .halogen_conversion = r->halogen_conversion,
+        .temp_c = r->temp_c, .mode = lr->mode,
+        .vent_retained_fraction = r->vent_retained_fraction};
+    model_to_input(r->model, &in);
+    hl_err_clear(e);
+    struct bal_out b;
+    memset(&b, 0, sizeof b);
+    int twin = first[r->src_index];
+    if (twin >= 0) {
+        st = unkeep_bal(&b, &l->runs[twin].bal, e); /* already lumped */
+        lr->other_rows = l->runs[twin].other_rows;
+        lr->other_mean_degree = l->runs[twin].other_mean_degree;
+    } else {
+        st = bal_compute_cached(&in, cache, &b, e);
+        if (st == HL_ERR_INPUT)
+            st = blame_run(c, r, e);
+        if (!st) {
+            first[r->src_index] = i;
+            /* the same prediction under the same model lists the same values again,
+             * which assume() would find listed: skip the scan (a few dozen strcmp) */
+            struct assumed *m = &assumed[((uintptr_t)b.sel / 64u) % ASSUMED_SLOTS];
+            if (m->sel != b.sel || m->model != r->model || m->reagent != r->reagent) {
+                st = run_assumptions(l, &in, &b, e);
+                if (!st)
+                    *m = (struct assumed){b.sel, r->model, r->reagent};
+            }
+        }
+        if (!st)
+            st = warn_defaults(l, r, &b, e);
+        if (!st && min_frac > 0)
+            st = lump_products(lr, &b, min_frac, e);
+    }
+    if (!st)
+        st = apply_actual(c, o, r, &in, lr, &b, min_frac, cache, e);
+    const struct sel_result *sel = b.sel; /* the cache's: outlives b */
+    if (!st)
+        st = keep_bal(l, &lr->bal, &b, e);
+    bal_free(&b);
+    if (!st && lr->bal.warning)
+        st = warn(l, e, lr->id, "%s", lr->bal.warning);
+    if (!st)
+        st = run_thermal(c, r, l, lr, sel, twin, e);
+    return st;
 }
 
 static enum hl_status balance_runs(const struct campaign *c, const struct ledger_opts *o,
@@ -614,68 +849,8 @@ static enum hl_status balance_runs(const struct campaign *c, const struct ledger
     qsort(sorted, (size_t)c->nruns, sizeof *sorted, by_start);
     enum hl_status st = HL_OK;
     for (int i = 0; i < c->nruns && !st; i++) {
-        const struct camp_run *r = sorted[i];
-        struct ledger_run *lr = &l->runs[i];
         l->nruns = i + 1;
-        lr->id = hl_strdup(r->id);
-        lr->reactor = hl_strdup(r->reactor);
-        lr->scrubber = r->scrubber >= 0 ? hl_strdup(c->scrubbers[r->scrubber].id) : NULL;
-        lr->substrate_name = hl_strdup(r->substrate_name);
-        lr->smiles = hl_strdup(r->smiles);
-        if (!lr->id || (r->reactor && !lr->reactor) || (r->scrubber >= 0 && !lr->scrubber) ||
-            (r->substrate_name && !lr->substrate_name) || (r->smiles && !lr->smiles)) {
-            st = nomem(e);
-            break;
-        }
-        lr->scrubber_index = r->scrubber;
-        lr->peak_factor = r->peak_factor;
-        lr->start_min = r->start_min;
-        lr->feed_h = r->feed_h;
-        lr->temp_c = r->temp_c;
-        lr->substrate_kg = r->substrate_kg;
-        lr->reagent = r->reagent;
-        lr->mode = r->mode == CAMP_CSTR ? KIN_CSTR : KIN_BATCH;
-        struct bal_in in = {
-            .smiles = r->smiles, .formula = r->formula, .product_smiles = r->product_smiles,
-            .substrate_kg = r->substrate_kg, .reagent = r->reagent,
-            .amount_is_kg = r->amount_is_kg, .reagent_eq = r->reagent_eq,
-            .reagent_kg = r->reagent_kg, .halogen_conversion = r->halogen_conversion,
-            .temp_c = r->temp_c, .mode = lr->mode,
-            .vent_retained_fraction = r->vent_retained_fraction};
-        model_to_input(r->model, &in);
-        hl_err_clear(e);
-        int twin = first[r->src_index];
-        if (twin >= 0) {
-            st = bal_copy(&lr->bal, &l->runs[twin].bal, e); /* already lumped */
-            lr->other_rows = l->runs[twin].other_rows;
-            lr->other_mean_degree = l->runs[twin].other_mean_degree;
-        } else {
-            st = bal_compute_cached(&in, cache, &lr->bal, e);
-            if (st == HL_ERR_INPUT)
-                st = blame_run(c, r, e);
-            if (!st) {
-                first[r->src_index] = i;
-                /* the same prediction under the same model lists the same values again,
-                 * which assume() would find listed: skip the scan (a few dozen strcmp) */
-                struct assumed *m = &assumed[((uintptr_t)lr->bal.sel / 64u) % ASSUMED_SLOTS];
-                if (m->sel != lr->bal.sel || m->model != r->model || m->reagent != r->reagent) {
-                    st = run_assumptions(l, &in, &lr->bal, e);
-                    if (!st)
-                        *m = (struct assumed){lr->bal.sel, r->model, r->reagent};
-                }
-            }
-            if (!st)
-                st = warn_defaults(l, r, &lr->bal, e);
-            if (!st && min_frac > 0)
-                st = lump_products(lr, min_frac, e);
-        }
-        if (!st)
-            st = apply_actual(c, o, r, &in, lr, min_frac, cache, e);
-        if (!st && lr->bal.warning[0])
-            st = warn(l, e, lr->id, "%s", lr->bal.warning);
-        if (!st)
-            st = run_thermal(c, r, l, lr, twin, e);
-        lr->bal.sel = NULL; /* the cache's; the products hold what the writers need */
+        st = balance_one(c, o, l, sorted[i], i, first, assumed, cache, min_frac, e);
     }
     hl_free(sorted);
     hl_free(first);
@@ -1143,7 +1318,7 @@ static struct ledger_month *month_of(struct ledger *l, int64_t t)
 
 /* Identity of a run's wanted product: its SMILES, else its formula; NULL when the run
  * lists none (no product carries the role). */
-static const struct bal_product *wanted_of(const struct bal_out *b)
+static const struct bal_product *wanted_of(const struct ledger_bal *b)
 {
     for (int i = 0; i < b->nproducts; i++)
         if (b->products[i].role == ROLE_WANTED)
@@ -1166,7 +1341,7 @@ static void month_product_figures(struct ledger_month_product *p)
 static enum hl_status month_product(struct ledger_month *m, const struct ledger_run *r,
                                     struct hl_err *e)
 {
-    const struct bal_out *b = &r->bal;
+    const struct ledger_bal *b = &r->bal;
     const struct bal_product *w = wanted_of(b);
     const char *sub = r->smiles ? r->smiles : b->substrate_formula;
     const char *want = w ? (w->smiles ? w->smiles : w->formula) : "";
@@ -1258,7 +1433,7 @@ static enum hl_status build_months(struct ledger *l, struct hl_err *e)
     enum hl_status st = HL_OK;
     for (int i = 0; i < l->nruns; i++) {
         const struct ledger_run *r = &l->runs[i];
-        const struct bal_out *b = &r->bal;
+        const struct ledger_bal *b = &r->bal;
         struct ledger_month *m = month_of(l, r->start_min);
         m->runs++;
         m->product_kg += b->wanted_kg;
@@ -1594,14 +1769,7 @@ void ledger_free(struct ledger *l)
     if (!l)
         return;
     for (int i = 0; i < l->nruns; i++) {
-        struct ledger_run *r = &l->runs[i];
-        hl_free(r->id);
-        hl_free(r->reactor);
-        hl_free(r->scrubber);
-        hl_free(r->substrate_name);
-        hl_free(r->smiles);
-        hl_free(r->withdrawal_container);
-        bal_free(&r->bal);
+        hl_free(l->runs[i].bal.products); /* texts: l->strings */
     }
     hl_free(l->runs);
     for (int i = 0; i < l->nmonths; i++) {
@@ -1622,10 +1790,6 @@ void ledger_free(struct ledger *l)
     }
     emis_free(l->emis, l->nscrubbers, l->permit_checks, l->npermit_checks);
     hl_free(l->scrubbers);
-    for (int i = 0; i < l->nwarnings; i++) {
-        hl_free(l->warnings[i].run);
-        hl_free(l->warnings[i].message);
-    }
     hl_free(l->warnings);
     hl_free(l->stock_checks);
     for (int i = 0; i < l->nassumptions; i++) {
@@ -1640,5 +1804,6 @@ void ledger_free(struct ledger *l)
     for (int i = 0; i < l->noverrides; i++)
         hl_free(l->overrides[i]);
     hl_free(l->overrides);
+    pool_free(l->strings);
     hl_free(l);
 }

@@ -120,7 +120,7 @@ static void pick(const struct ledger *l, const char *id, struct sweep_point *p)
             lr = &l->runs[i];
     if (!lr)
         return;
-    const struct bal_out *b = &lr->bal;
+    const struct ledger_bal *b = &lr->bal;
     p->wanted_kg = b->wanted_kg;
     p->isomer_kg = b->isomer_kg;
     p->overhalogenated_kg = b->overhal_kg;

@@ -180,14 +180,29 @@ void therm_compute(const struct therm_in *in, struct therm_out *out)
     out->mtsr_over_mtt = in->has_mtt && out->mtsr_c >= in->mtt_c;
     out->mtsr_over_td24 = in->has_td24 && out->mtsr_c >= in->td24_c;
     if (in->has_mtt && in->has_td24) {
-        out->crit_class = therm_class(in->temp_c, out->mtsr_c, in->mtt_c, in->td24_c,
-                                      out->reason, sizeof out->reason);
+        out->crit_class = therm_class(in->temp_c, out->mtsr_c, in->mtt_c, in->td24_c, NULL, 0);
+        out->reason = THERM_REASON_CLASSED;
     } else {
-        snprintf(out->reason, sizeof out->reason,
+        out->reason = !in->has_mtt && !in->has_td24 ? THERM_REASON_NO_BOTH
+                      : !in->has_mtt ? THERM_REASON_NO_MTT : THERM_REASON_NO_TD24;
+    }
+}
+
+void therm_reason_text(const struct therm_out *t, double temp_c, double mtt_c, double td24_c,
+                       char *why, size_t n)
+{
+    if (n == 0)
+        return;
+    why[0] = '\0';
+    if (t->reason == THERM_REASON_CLASSED) {
+        therm_class(temp_c, t->mtsr_c, mtt_c, td24_c, why, n);
+    } else if (t->reason >= THERM_REASON_NO_BOTH && t->reason <= THERM_REASON_NO_TD24) {
+        snprintf(why, n,
                  "not classed: %s not given (the criticality class needs MTT, the highest "
                  "temperature the equipment tolerates, and TD24, the decomposition onset with 24 h "
                  "to maximum rate)",
-                 !in->has_mtt && !in->has_td24 ? "mtt_c and td24_c" : !in->has_mtt ? "mtt_c" : "td24_c");
+                 t->reason == THERM_REASON_NO_BOTH ? "mtt_c and td24_c"
+                 : t->reason == THERM_REASON_NO_MTT ? "mtt_c" : "td24_c");
     }
 }
 

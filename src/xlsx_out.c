@@ -702,7 +702,7 @@ static void xo_caustic_basis(const struct ledger *l, char *buf, size_t n)
 }
 
 /* The wanted product of a run (NULL when it has none, as with nothing converted). */
-static const struct bal_product *xo_wanted(const struct bal_out *o)
+static const struct bal_product *xo_wanted(const struct ledger_bal *o)
 {
     for (int j = 0; j < o->nproducts; j++)
         if (o->products[j].role == ROLE_WANTED)
@@ -1120,7 +1120,7 @@ static const char xo_formula_note[] =
 static void row_run(struct xw *w, struct xtable *b, lxw_row_t row, int i)
 {
     const struct ledger_run *r = &w->l->runs[i];
-    const struct bal_out *o = &r->bal;
+    const struct ledger_bal *o = &r->bal;
     int k = 0;
     xt_text(w, b, row, k++, r->id);
     xt_date(w, b, row, k++, r->start_min);
@@ -1165,7 +1165,7 @@ static void row_run(struct xw *w, struct xtable *b, lxw_row_t row, int i)
     xt_num(w, b, row, k++, r->scrub.temp_rise_k);
     xt_flag(w, b, row, k++, r->scrub.changeout_before);
     xt_num(w, b, row, k++, o->max_rel_error);
-    xt_text(w, b, row, k++, o->warning[0] ? o->warning : o->isomers_resolved ? NULL : xo_formula_note);
+    xt_text(w, b, row, k++, o->warning ? o->warning : o->isomers_resolved ? NULL : xo_formula_note);
 }
 
 static void xo_runs(struct xw *w)
@@ -2026,7 +2026,9 @@ static void row_heat(struct xw *w, struct xtable *b, lxw_row_t row, int i)
     k++;
     xt_raise(w, b, row, k++, t->mtsr_over_mtt || t->mtsr_over_td24,
              t->mtsr_over_td24 ? "REACHES TD24" : "REACHES MTT");
-    xt_text(w, b, row, k++, t->reason);
+    char why[480];
+    therm_reason_text(t, r->temp_c, r->mtt_c, r->td24_c, why, sizeof why);
+    xt_text(w, b, row, k++, why);
     if (r->has_withdrawal) {
         xt_text(w, b, row, k++, r->withdrawal_container);
         xt_num(w, b, row, k++, r->withdrawal.kg_h);
@@ -2071,7 +2073,7 @@ static void xo_heat(struct xw *w)
 static void row_waste_run(struct xw *w, struct xtable *b, lxw_row_t row, int i)
 {
     const struct ledger_run *r = &w->l->runs[i];
-    const struct bal_out *o = &r->bal;
+    const struct ledger_bal *o = &r->bal;
     int k = 0;
     xt_text(w, b, row, k++, r->id);
     xt_date(w, b, row, k++, r->start_min);

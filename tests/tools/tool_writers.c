@@ -71,7 +71,7 @@ static void make_run(struct ledger_run *r, const struct spec *s, const char *id,
     int br = s->reagent == RG_BR2;
     double mx = br ? M_BR : M_CL, mhx = M_H + mx, mx2 = 2 * mx;
     double msub = s->c * M_C + s->h * M_H;
-    struct bal_out *b = &r->bal;
+    struct ledger_bal *b = &r->bal;
     r->id = dup(id);
     r->reactor = dup(s->reactor);
     r->scrubber = dup("VS-1");

@@ -57,7 +57,7 @@ static void make(void)
     run.substrate_kg = 5.8124;
     run.reagent = RG_CL2;
     run.mode = KIN_CSTR;
-    struct bal_out *b = &run.bal;
+    struct ledger_bal *b = &run.bal;
     strcpy(b->substrate_formula, "C4H10");
     b->substrate_molar_mass_g_mol = 58.124;
     b->substrate_mol = 100;

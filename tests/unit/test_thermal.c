@@ -100,7 +100,9 @@ static void test_rise_and_mtsr_by_hand(void)
     ASSERT_ABS(o.mean_kw, 13.80, 0.42);
     ASSERT_ABS(o.peak_kw, 20.70, 0.63);
     CU_ASSERT_EQUAL(o.crit_class, 0);
-    CU_ASSERT(strstr(o.reason, "mtt_c and td24_c") != NULL);
+    char why[480];
+    therm_reason_text(&o, in.temp_c, in.mtt_c, in.td24_c, why, sizeof why);
+    CU_ASSERT(strstr(why, "mtt_c and td24_c") != NULL);
     /* the same mass and heat: the rise scales as 1/cp and MTSR as the accumulation (analytic) */
     struct therm_in in2 = in;
     in2.cp_kj_kg_k = 4.0;
@@ -172,10 +174,16 @@ static void test_criticality_boundaries(void)
     therm_compute(&in, &o);
     CU_ASSERT_EQUAL(o.crit_class, 4);
     CU_ASSERT_EQUAL(o.mtsr_over_td24, 1);
+    /* the reasoning is written from the code and the temperatures at write time */
+    char why[480];
+    therm_reason_text(&o, in.temp_c, in.mtt_c, in.td24_c, why, sizeof why);
+    CU_ASSERT(strncmp(why, "class 4: Tp 30.0 C, MTSR ", 25) == 0);
+    CU_ASSERT(strstr(why, "MTT 110.0 C, TD24 120.0 C.") != NULL);
     in.has_td24 = 0;
     therm_compute(&in, &o);
     CU_ASSERT_EQUAL(o.crit_class, 0);
-    CU_ASSERT(strstr(o.reason, "td24_c not given") != NULL);
+    therm_reason_text(&o, in.temp_c, in.mtt_c, in.td24_c, why, sizeof why);
+    CU_ASSERT(strstr(why, "td24_c not given") != NULL);
 }
 
 /* Containers on line: 90 kg over 4 h = 22.5 kg/h; at 7.5 kg/h a container that is exactly 3
