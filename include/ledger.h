@@ -44,10 +44,20 @@ struct ledger_variance {
 
 /* A run's balance as the ledger keeps it: struct bal_out (balance.h, same names and
  * meanings) less what only the build needs (the warning text, which goes to warnings[], and
- * the selectivity detail), so that 10^5 runs stay small. products[].smiles are the
- * ledger's shared strings (not owned by the run). */
+ * the selectivity detail), so that 10^5 runs stay small. products (sized to the rows
+ * listed) and products[].smiles are the ledger's (ledger.strings), not the run's. */
+/* A product row as the ledger keeps it: struct bal_product (balance.h, same names and
+ * meanings) with its texts as the ledger's shared strings (56 bytes instead of 120). */
+struct ledger_product {
+    char *smiles;                /* NULL when no unambiguous structure */
+    char *formula;               /* never NULL */
+    int degree;
+    enum bal_role role;
+    double molar_mass_g_mol, mol, kg, mol_fraction;
+};
+
 struct ledger_bal {
-    char substrate_formula[64];
+    char *substrate_formula;             /* a shared string, never NULL */
     double substrate_molar_mass_g_mol, substrate_mol;
     double reagent_mol, reagent_kg;
     double reagent_reacted_mol, reagent_unreacted_mol;
@@ -55,7 +65,7 @@ struct ledger_bal {
     int capped;
     int isomers_resolved;
     double mean_degree;
-    struct bal_product *products; int nproducts;
+    struct ledger_product *products; int nproducts;
     double hx_kg[2];
     double so2_kg, succinimide_kg;
     double vent_mol[VS_COUNT];
@@ -230,7 +240,7 @@ enum hl_status ledger_build_consuming(struct campaign *c, const struct ledger_op
 void ledger_free(struct ledger *l);
 
 /* Row label of a ROLE_OTHER product, "other over-halogenated (degree >= N)", into buf. */
-void ledger_other_label(const struct bal_product *p, char *buf, size_t n);
+void ledger_other_label(const struct ledger_product *p, char *buf, size_t n);
 
 /* Text of a role ("wanted", "isomer", "overhalogenated", "unreacted", "other"). */
 const char *ledger_role_name(enum bal_role r);

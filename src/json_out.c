@@ -708,7 +708,7 @@ static void jo_run(struct jo *w, const struct ledger *l, int i)
 
     jo_open(w, "products", '[');
     for (int p = 0; p < b->nproducts && w->st == HL_OK; p++) {
-        const struct bal_product *bp = &b->products[p];
+        const struct ledger_product *bp = &b->products[p];
         jo_open(w, NULL, '{');
         jo_str(w, "smiles", bp->smiles);
         jo_str(w, "formula", bp->role == ROLE_OTHER ? NULL : bp->formula); /* a mixture */

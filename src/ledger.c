@@ -30,7 +30,7 @@ const char *ledger_role_name(enum bal_role r)
     return "?";
 }
 
-void ledger_other_label(const struct bal_product *p, char *buf, size_t n)
+void ledger_other_label(const struct ledger_product *p, char *buf, size_t n)
 {
     snprintf(buf, n, "other over-halogenated (degree >= %d)", p->degree);
 }
@@ -64,23 +64,34 @@ static uint64_t pool_hash(const char *s, size_t len)
     return h;
 }
 
-/* A copy of s (len bytes) in the arena; NULL when out of memory. */
-static char *pool_store(struct ledger_strings *p, const char *s, size_t len)
+/* n bytes of the arena, aligned for any member of a table when align is 1; NULL when out
+ * of memory. (data[] starts 8-aligned: three 8-byte members before it.) */
+static void *pool_alloc(struct ledger_strings *p, size_t n, int align)
 {
     struct pool_block *b = p->blocks;
-    if (!b || b->cap - b->used < len + 1) {
-        size_t cap = len + 1 > POOL_BLOCK ? len + 1 : POOL_BLOCK;
+    size_t at = b ? (align ? (b->used + 7u) & ~(size_t)7u : b->used) : 0;
+    if (!b || at > b->cap || b->cap - at < n) {
+        size_t cap = n > POOL_BLOCK ? n : POOL_BLOCK;
         if (!(b = hl_malloc(sizeof *b + cap)))
             return NULL;
         b->next = p->blocks;
         b->used = 0;
         b->cap = cap;
         p->blocks = b;
+        at = 0;
     }
-    char *q = b->data + b->used;
-    memcpy(q, s, len);
-    q[len] = '\0';
-    b->used += len + 1;
+    b->used = at + n;
+    return b->data + at;
+}
+
+/* A copy of s (len bytes) in the arena; NULL when out of memory. */
+static char *pool_store(struct ledger_strings *p, const char *s, size_t len)
+{
+    char *q = pool_alloc(p, len + 1, 0);
+    if (q) {
+        memcpy(q, s, len);
+        q[len] = '\0';
+    }
     return q;
 }
 
@@ -691,12 +702,12 @@ static int by_start(const void *a, const void *b)
     X(wanted_mol) X(converted_mol) X(halogen_charged_mol) X(halogen_in_wanted_mol) \
     X(yield_pct) X(conversion_pct) X(selectivity_pct) X(selectivity_defined) \
     X(halogen_efficiency_pct) X(max_rel_error)
-#define LEDGER_BAL_ARRAYS(X) X(substrate_formula) X(hx_kg) X(vent_mol) X(retained_mol) \
+#define LEDGER_BAL_ARRAYS(X) X(hx_kg) X(vent_mol) X(retained_mol) \
     X(el_in_mol) X(el_out_mol)
 
-/* Move balance b into the run's ledger_bal d: the product table moves (b keeps none), each
- * structure becomes a shared string (its own copy freed), the warning too. On failure
- * every structure left is shared or NULL, so freeing d frees all. */
+/* Balance b as the run's ledger_bal d: the product table copied into the arena (sized to
+ * its rows, no allocation of its own), each structure and the warning as shared strings.
+ * b keeps what it owns (the caller frees it); on failure d's structures are shared or NULL. */
 static enum hl_status keep_bal(struct ledger *l, struct ledger_bal *d, struct bal_out *b,
                                struct hl_err *e)
 {
@@ -706,18 +717,29 @@ static enum hl_status keep_bal(struct ledger *l, struct ledger_bal *d, struct ba
     LEDGER_BAL_ARRAYS(COPY_A)
 #undef COPY_S
 #undef COPY_A
-    d->products = b->products;
-    d->nproducts = b->nproducts;
-    b->products = NULL;
-    b->nproducts = 0;
-    enum hl_status st = HL_OK;
-    for (int p = 0; p < d->nproducts; p++) {
-        char *own = d->products[p].smiles;
-        if (!st)
-            st = pool_dup(l, own, 1, &d->products[p].smiles, e);
-        else
-            d->products[p].smiles = NULL;
-        hl_free(own);
+    d->products = NULL;
+    d->nproducts = 0;
+    enum hl_status st;
+    if ((st = pool_dup(l, b->substrate_formula, 1, &d->substrate_formula, e)))
+        return st;
+    if (b->nproducts > 0) {
+        size_t n = (size_t)b->nproducts * sizeof *d->products;
+        if (!(d->products = pool_alloc(l->strings, n, 1)))
+            return nomem(e);
+        memset(d->products, 0, n);
+        d->nproducts = b->nproducts;
+        for (int p = 0; p < d->nproducts && !st; p++) {
+            const struct bal_product *s = &b->products[p];
+            struct ledger_product *q = &d->products[p];
+            q->degree = s->degree;
+            q->role = s->role;
+            q->molar_mass_g_mol = s->molar_mass_g_mol;
+            q->mol = s->mol;
+            q->kg = s->kg;
+            q->mol_fraction = s->mol_fraction;
+            if (!(st = pool_dup(l, s->smiles, 1, &q->smiles, e)))
+                st = pool_dup(l, s->formula, 1, &q->formula, e);
+        }
     }
     if (!st && b->warning[0])
         st = pool_dup(l, b->warning, 1, &d->warning, e);
@@ -736,11 +758,15 @@ static enum hl_status unkeep_bal(struct bal_out *b, const struct ledger_bal *s, 
 #undef COPY_S
 #undef COPY_A
     snprintf(b->warning, sizeof b->warning, "%s", s->warning ? s->warning : "");
+    snprintf(b->substrate_formula, sizeof b->substrate_formula, "%s", s->substrate_formula);
     if (!(b->products = hl_calloc((size_t)(s->nproducts ? s->nproducts : 1), sizeof *b->products)))
         return nomem(e);
     for (int i = 0; i < s->nproducts; i++) {
-        b->products[i] = s->products[i];
-        b->products[i].smiles = NULL;
+        const struct ledger_product *q = &s->products[i];
+        b->products[i] = (struct bal_product){.degree = q->degree, .role = q->role,
+            .molar_mass_g_mol = q->molar_mass_g_mol, .mol = q->mol, .kg = q->kg,
+            .mol_fraction = q->mol_fraction};
+        snprintf(b->products[i].formula, sizeof b->products[i].formula, "%s", q->formula);
         b->nproducts = i + 1;
         if (s->products[i].smiles && !(b->products[i].smiles = hl_strdup(s->products[i].smiles)))
             return nomem(e); /* the caller frees b */
@@ -1318,7 +1344,7 @@ static struct ledger_month *month_of(struct ledger *l, int64_t t)
 
 /* Identity of a run's wanted product: its SMILES, else its formula; NULL when the run
  * lists none (no product carries the role). */
-static const struct bal_product *wanted_of(const struct ledger_bal *b)
+static const struct ledger_product *wanted_of(const struct ledger_bal *b)
 {
     for (int i = 0; i < b->nproducts; i++)
         if (b->products[i].role == ROLE_WANTED)
@@ -1342,7 +1368,7 @@ static enum hl_status month_product(struct ledger_month *m, const struct ledger_
                                     struct hl_err *e)
 {
     const struct ledger_bal *b = &r->bal;
-    const struct bal_product *w = wanted_of(b);
+    const struct ledger_product *w = wanted_of(b);
     const char *sub = r->smiles ? r->smiles : b->substrate_formula;
     const char *want = w ? (w->smiles ? w->smiles : w->formula) : "";
     struct ledger_month_product *p = NULL;
@@ -1768,10 +1794,7 @@ void ledger_free(struct ledger *l)
 {
     if (!l)
         return;
-    for (int i = 0; i < l->nruns; i++) {
-        hl_free(l->runs[i].bal.products); /* texts: l->strings */
-    }
-    hl_free(l->runs);
+    hl_free(l->runs); /* their texts and product tables: l->strings */
     for (int i = 0; i < l->nmonths; i++) {
         for (int j = 0; j < l->months[i].nproducts; j++) {
             hl_free(l->months[i].products[j].substrate_name);

@@ -702,7 +702,7 @@ static void xo_caustic_basis(const struct ledger *l, char *buf, size_t n)
 }
 
 /* The wanted product of a run (NULL when it has none, as with nothing converted). */
-static const struct bal_product *xo_wanted(const struct ledger_bal *o)
+static const struct ledger_product *xo_wanted(const struct ledger_bal *o)
 {
     for (int j = 0; j < o->nproducts; j++)
         if (o->products[j].role == ROLE_WANTED)
@@ -1144,7 +1144,7 @@ static void row_run(struct xw *w, struct xtable *b, lxw_row_t row, int i)
     xt_num(w, b, row, k++, o->halogen_reacted_mol);
     xt_raise(w, b, row, k++, o->capped, "capped");
     xt_num(w, b, row, k++, o->mean_degree);
-    const struct bal_product *want = xo_wanted(o);
+    const struct ledger_product *want = xo_wanted(o);
     xt_text(w, b, row, k++, want ? want->formula : NULL);
     xt_num(w, b, row, k++, want ? want->kg : 0.0);
     xt_num(w, b, row, k++, o->yield_pct);
@@ -1229,7 +1229,7 @@ static void row_product(struct xw *w, struct xtable *b, lxw_row_t row, int i)
     if (b->cur >= l->nruns)
         return;
     const struct ledger_run *r = &l->runs[b->cur];
-    const struct bal_product *p = &r->bal.products[b->sub++];
+    const struct ledger_product *p = &r->bal.products[b->sub++];
     int k = 0;
     xt_text(w, b, row, k++, r->id);
     xt_text(w, b, row, k++, xo_item(r->reagent));

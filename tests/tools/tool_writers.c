@@ -83,7 +83,9 @@ static void make_run(struct ledger_run *r, const struct spec *s, const char *id,
     r->substrate_kg = s->kg;
     r->reagent = s->reagent;
     r->mode = KIN_BATCH;
-    formula_text(b->substrate_formula, sizeof b->substrate_formula, s->c, s->h, 0, "");
+    char text[64];
+    formula_text(text, sizeof text, s->c, s->h, 0, "");
+    b->substrate_formula = dup(text);
     b->substrate_molar_mass_g_mol = msub;
     b->substrate_mol = s->kg * 1000 / msub;
     b->reagent_mol = s->eq * b->substrate_mol;
@@ -101,9 +103,10 @@ static void make_run(struct ledger_run *r, const struct spec *s, const char *id,
     b->products = need(hl_calloc(4, sizeof *b->products));
     double el_out_c = 0, el_out_h = 0, el_out_x = 0;
     for (int p = 0; p < 4; p++) {
-        struct bal_product *q = &b->products[p];
+        struct ledger_product *q = &b->products[p];
         q->smiles = dup(smi[p]);
-        formula_text(q->formula, sizeof q->formula, s->c, s->h - deg[p], deg[p], br ? "Br" : "Cl");
+        formula_text(text, sizeof text, s->c, s->h - deg[p], deg[p], br ? "Br" : "Cl");
+        q->formula = dup(text);
         q->degree = deg[p];
         q->molar_mass_g_mol = msub - deg[p] * M_H + deg[p] * mx;
         q->mol_fraction = share[p];
@@ -374,9 +377,12 @@ static void destroy(struct ledger *l)
         struct ledger_run *r = &l->runs[i];
         hl_free(r->id); hl_free(r->reactor); hl_free(r->scrubber);
         hl_free(r->substrate_name); hl_free(r->smiles);
-        for (int p = 0; p < r->bal.nproducts; p++)
+        for (int p = 0; p < r->bal.nproducts; p++) {
             hl_free(r->bal.products[p].smiles);
+            hl_free(r->bal.products[p].formula);
+        }
         hl_free(r->bal.products);
+        hl_free(r->bal.substrate_formula);
     }
     for (int u = 0; u < l->nscrubbers; u++) {
         struct scrub_unit_out *o = &l->scrubbers[u].out;

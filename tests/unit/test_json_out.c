@@ -17,7 +17,7 @@
 #include <string.h>
 #include <unistd.h>
 
-static struct bal_product prods[2];
+static struct ledger_product prods[2];
 static struct ledger_run run;
 static struct ledger_month month;
 static struct ord_line order;
@@ -40,10 +40,10 @@ static void make(void)
 {
     memset(&run, 0, sizeof run);
     memset(prods, 0, sizeof prods);
-    prods[0] = (struct bal_product){.smiles = "CC(C)C", .formula = "C4H10", .degree = 0,
+    prods[0] = (struct ledger_product){.smiles = "CC(C)C", .formula = "C4H10", .degree = 0,
                                     .molar_mass_g_mol = 58.124, .mol = 52, .kg = 3.022448,
                                     .mol_fraction = 0.52, .role = ROLE_UNREACTED};
-    prods[1] = (struct bal_product){.smiles = NULL, .formula = "C4H9Cl", .degree = 1,
+    prods[1] = (struct ledger_product){.smiles = NULL, .formula = "C4H9Cl", .degree = 1,
                                     .molar_mass_g_mol = 92.566, .mol = 48, .kg = 4.443168,
                                     .mol_fraction = 0.48, .role = ROLE_WANTED};
     run.id = "=1+1";
@@ -58,7 +58,7 @@ static void make(void)
     run.reagent = RG_CL2;
     run.mode = KIN_CSTR;
     struct ledger_bal *b = &run.bal;
-    strcpy(b->substrate_formula, "C4H10");
+    b->substrate_formula = "C4H10";
     b->substrate_molar_mass_g_mol = 58.124;
     b->substrate_mol = 100;
     b->reagent_mol = 50;
