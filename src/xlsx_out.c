@@ -101,6 +101,8 @@ struct xtable {
     double fixw[48];           /* fixed column widths (0 = from content), for wrapped text */
 };
 
+#define XO_NSAME (2 * XK_COUNT + XO_NSIG + 1)
+#define XO_NCANON 256                  /* power of two, above every format made */
 struct xw {
     const struct ledger *l;
     lxw_workbook *wb;
@@ -116,6 +118,12 @@ struct xw {
     int row_lines;             /* wrapped lines the current row needs */
     struct xtable *tab;        /* table whose row is being written (for sums) */
     char caustic[48];          /* basis of the caustic bought: "50 wt% NaOH" (xo_caustic_basis) */
+    /* Formats made by the same calls (xo_formats: like numbers in like columns) are one style
+     * to the library, which finds a copy's index through a hash of the whole format, with a
+     * malloc and a free, at every cell: a copy is written as the one of its group that holds
+     * the index (xo_canon), which gives the same index and the same bytes. */
+    lxw_format *same[XO_NSAME]; int same_group[XO_NSAME]; int nsame;
+    struct { lxw_format *f, *c; } canon[XO_NCANON];
     char clean[XO_STR_MAX + 4];
 };
 
@@ -143,6 +151,38 @@ static void xo_check(struct xw *w, lxw_error err, lxw_row_t row, lxw_col_t col)
     lxw_rowcol_to_cell(cell, row, col);
     xo_fail(w, err == LXW_ERROR_MEMORY_MALLOC_FAILED ? HL_ERR_NOMEM : HL_ERR_INTERNAL,
             "sheet %s cell %s: %s", w->sheet, cell, lxw_strerror(err));
+}
+
+/* --- formats ------------------------------------------------------------- */
+
+/* The format to hand to the library for f: f itself once it holds its style's index, the
+ * member of its group (xo_formats) that holds it, else f (no index yet: the library gives
+ * one when the row is flushed; nothing here asks for an index, so none is given earlier or
+ * to another format than before). Resolved pairs are remembered in w->canon. */
+static lxw_format *xo_canon(struct xw *w, lxw_format *f)
+{
+    if (!f)
+        return f;
+    size_t h = ((uintptr_t)f >> 4) & (XO_NCANON - 1);
+    for (size_t n = 0; n < XO_NCANON && w->canon[h].f; n++, h = (h + 1) & (XO_NCANON - 1))
+        if (w->canon[h].f == f)
+            return w->canon[h].c;
+    lxw_format *c = f->xf_index != LXW_PROPERTY_UNSET ? f : NULL;
+    for (int i = 0; !c && i < w->nsame; i++) {
+        if (w->same[i] != f)
+            continue;
+        for (int j = 0; j < w->nsame && !c; j++)
+            if (w->same_group[j] == w->same_group[i] && w->same[j]->xf_index != LXW_PROPERTY_UNSET)
+                c = w->same[j];
+        break;
+    }
+    if (!c)
+        return f;
+    if (!w->canon[h].f) { /* the table has room for every format; a full one only misses */
+        w->canon[h].f = f;
+        w->canon[h].c = c;
+    }
+    return c;
 }
 
 /* --- text ---------------------------------------------------------------- */
@@ -274,7 +314,7 @@ static void xo_text(struct xw *w, lxw_row_t row, lxw_col_t col, const char *s, l
             w->row_lines = n;
     }
     /* worksheet_write_string never makes a formula, whatever the first character */
-    xo_check(w, worksheet_write_string(w->ws, row, col, t, f), row, col);
+    xo_check(w, worksheet_write_string(w->ws, row, col, t, xo_canon(w, f)), row, col);
     if (f != w->wrap && f != w->head && f != w->noted)
         xo_widen(w, col, chars > 60 ? 60 : chars);
 }
@@ -326,7 +366,7 @@ static void xo_num(struct xw *w, lxw_row_t row, lxw_col_t col, enum xk k, double
         f = (a != 0 && (a < 1e-4 || a >= 1e9)) ? w->sig[XO_NSIG - 1]
                                                 : w->sig[d < 0 ? 0 : d > 6 ? 6 : d];
     }
-    xo_check(w, worksheet_write_number(w->ws, row, col, v + 0.0, f), row, col);
+    xo_check(w, worksheet_write_number(w->ws, row, col, v + 0.0, xo_canon(w, f)), row, col);
     xo_widen(w, col, xo_num_chars(k, v));
 }
 
@@ -360,7 +400,8 @@ static void xo_sum(struct xw *w, lxw_row_t row, lxw_col_t col, lxw_row_t r0, lxw
     char range[40], formula[64];
     lxw_rowcol_to_range(range, r0, col, r1, col);
     snprintf(formula, sizeof formula, "=SUM(%s)", range);
-    xo_check(w, worksheet_write_formula_num(w->ws, row, col, formula, w->fmt[k][1], cached + 0.0),
+    xo_check(w, worksheet_write_formula_num(w->ws, row, col, formula, xo_canon(w, w->fmt[k][1]),
+                                            cached + 0.0),
              row, col);
     xo_widen(w, col, xo_num_chars(k, cached));
 }
@@ -2563,6 +2604,26 @@ static int xo_formats(struct xw *w)
     format_set_align(w->bold_top, LXW_ALIGN_VERTICAL_TOP);
     format_set_bold(w->bold);
     format_set_italic(w->note);
+    /* the groups of formats made by the same calls: a number format (or none) and vertical
+     * top alignment, bold with a thin top rule for totals (xo_canon) */
+    struct xo_made { lxw_format *f; const char *num; int bold; } made[XO_NSAME];
+    int n = 0;
+    for (int k = 0; k < XK_COUNT; k++)
+        for (int t = 0; t < 2; t++)
+            made[n++] = (struct xo_made){w->fmt[k][t], xo_numfmt[k] ? xo_numfmt[k] : "", t};
+    for (int d = 0; d < XO_NSIG; d++)
+        made[n++] = (struct xo_made){w->sig[d], xo_sigfmt[d], 0};
+    made[n++] = (struct xo_made){w->top, "", 0};
+    for (int i = 0; i < n; i++) {
+        w->same[i] = made[i].f;
+        w->same_group[i] = i;
+        for (int j = 0; j < i; j++)
+            if (made[j].bold == made[i].bold && !strcmp(made[j].num, made[i].num)) {
+                w->same_group[i] = w->same_group[j];
+                break;
+            }
+    }
+    w->nsame = n;
     return 1;
 }
 
