@@ -111,7 +111,9 @@ struct ledger_run {
     /* The balance (bal) is that of the actual draw where a done run gives reagent_kg, all zero
      * for a cancelled run (nothing charged, drawn or vented), else the plan. */
     struct ledger_actual actual;
-    struct ledger_variance var;          /* status LEDGER_DONE only */
+    struct ledger_variance *var;         /* status LEDGER_DONE only (also set, with the plan side
+                                          * only, for a cancelled run); in the ledger's arena,
+                                          * NULL while the run is planned (most runs) */
 };
 
 /* A stock count held against the book (stock_checks[]). The book starts from the previous

@@ -571,7 +571,7 @@ static void jo_num_or_null(struct jo *w, const char *key, int has, double v)
 static void jo_actual(struct jo *w, const struct ledger_run *r)
 {
     const struct ledger_actual *a = &r->actual;
-    const struct ledger_variance *v = &r->var;
+    const struct ledger_variance *v = r->var;
     if (a->status == LEDGER_PLANNED) {
         jo_null(w, "actual");
         jo_null(w, "variance");

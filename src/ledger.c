@@ -578,7 +578,7 @@ static void cancel_balance(struct bal_out *b)
 static void variance_plan(const struct campaign *c, const struct camp_run *r, struct ledger_run *lr,
                           const struct bal_out *b)
 {
-    struct ledger_variance *v = &lr->var;
+    struct ledger_variance *v = lr->var;
     v->reagent_kg_plan = b->reagent_kg;
     v->product_kg_plan = b->wanted_kg;
     v->yield_pct_plan = b->yield_pct;
@@ -589,7 +589,7 @@ static void variance_plan(const struct campaign *c, const struct camp_run *r, st
 /* actual - plan of a done run, each where the actual gives it; flagged outside tolerance. */
 static void variance_actual(const struct campaign *c, struct ledger_run *lr, const struct bal_out *b)
 {
-    struct ledger_variance *v = &lr->var;
+    struct ledger_variance *v = lr->var;
     const struct ledger_actual *a = &lr->actual;
     const struct camp_tolerances *t = &c->tolerances;
     if (a->given & LEDGER_ACT_REAGENT) {
@@ -627,9 +627,9 @@ static void variance_actual(const struct campaign *c, struct ledger_run *lr, con
  * halogen drawn is what reached the reactor and then the vent); a cancelled run's balance
  * is zeroed after the plan side of its figures is kept. */
 static enum hl_status apply_actual(const struct campaign *c, const struct ledger_opts *o,
-                                   const struct camp_run *r, struct bal_in *in, struct ledger_run *lr,
-                                   struct bal_out *b, double min_frac, struct bal_cache *cache,
-                                   struct hl_err *e)
+                                   struct ledger *l, const struct camp_run *r, struct bal_in *in,
+                                   struct ledger_run *lr, struct bal_out *b, double min_frac,
+                                   struct bal_cache *cache, struct hl_err *e)
 {
     const struct camp_actual *a = &r->actual;
     lr->actual = (struct ledger_actual){
@@ -653,6 +653,10 @@ static enum hl_status apply_actual(const struct campaign *c, const struct ledger
                          "run %s is done but starts %s, after --today %s: an actual needs a run "
                          "that has started", idq, when, today);
     }
+    /* only runs with an actual carry a variance: in the arena (the run id made it) */
+    if (!(lr->var = pool_alloc(l->strings, sizeof *lr->var, 1)))
+        return nomem(e);
+    memset(lr->var, 0, sizeof *lr->var);
     variance_plan(c, r, lr, b);
     if (a->status == CAMP_CANCELLED) {
         cancel_balance(b);
@@ -833,7 +837,7 @@ static enum hl_status balance_one(const struct campaign *c, const struct ledger_
             st = lump_products(lr, &b, min_frac, e);
     }
     if (!st)
-        st = apply_actual(c, o, r, &in, lr, &b, min_frac, cache, e);
+        st = apply_actual(c, o, l, r, &in, lr, &b, min_frac, cache, e);
     const struct sel_result *sel = b.sel; /* the cache's: outlives b */
     if (!st)
         st = keep_bal(l, &lr->bal, &b, e);
@@ -1414,7 +1418,7 @@ static enum hl_status month_product(struct ledger_month *m, const struct ledger_
 static void month_close_run(struct ledger_month *m, const struct ledger_run *r)
 {
     struct ledger_month_close *k = &m->close;
-    const struct ledger_variance *v = &r->var;
+    const struct ledger_variance *v = r->var;
     const struct ledger_actual *a = &r->actual;
     if (a->status == LEDGER_PLANNED) {
         k->planned++;
@@ -1611,7 +1615,7 @@ static enum hl_status close_warnings(struct ledger *l, struct hl_err *e)
     enum hl_status st = HL_OK;
     for (int i = 0; i < l->nruns && !st; i++) {
         const struct ledger_run *r = &l->runs[i];
-        const struct ledger_variance *v = &r->var;
+        const struct ledger_variance *v = r->var;
         if (r->actual.status != LEDGER_DONE || !v->flagged)
             continue;
         const char *rg = reagent_get(r->reagent)->name;

@@ -218,13 +218,16 @@ static const char *xo_clean(struct xw *w, const char *s, int *chars)
     int changed = 0, line = 0, longest = 0;
     while (p[i]) {
         int n = xo_utf8_len(p + i);
-        if (o + (n ? n : 1) > XO_STR_MAX) {
+        int bad = n == 0 || (p[i] < 0x20 && p[i] != '\t' && p[i] != '\n') || p[i] == 0x7F;
+        int cut = o + (n ? n : 1) > XO_STR_MAX;
+        if ((bad || cut) && !changed) { /* the first change: the text so far is s itself */
+            memcpy(w->clean, s, i);
             changed = 1;
-            break;
         }
-        if (n == 0 || (p[i] < 0x20 && p[i] != '\t' && p[i] != '\n') || p[i] == 0x7F) {
+        if (cut)
+            break;
+        if (bad) {
             w->clean[o++] = n == 0 ? '?' : ' ';
-            changed = 1;
             i += n ? (size_t)n : 1;
             line++;
             continue;
@@ -233,7 +236,8 @@ static const char *xo_clean(struct xw *w, const char *s, int *chars)
             longest = line > longest ? line : longest;
             line = -1;
         }
-        memcpy(w->clean + o, p + i, (size_t)n);
+        if (changed) /* a clean text is only copied once it differs */
+            memcpy(w->clean + o, p + i, (size_t)n);
         o += (size_t)n;
         i += (size_t)n;
         line++;
@@ -1913,7 +1917,7 @@ static void row_actual(struct xw *w, struct xtable *b, lxw_row_t row, int i)
         return;
     const struct ledger_run *r = &l->runs[b->cur++];
     const struct ledger_actual *a = &r->actual;
-    const struct ledger_variance *v = &r->var;
+    const struct ledger_variance *v = r->var;
     int done = a->status == LEDGER_DONE, k = 0;
     xt_text(w, b, row, k++, r->id);
     xt_date(w, b, row, k++, r->start_min);
