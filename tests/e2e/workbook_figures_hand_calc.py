@@ -101,6 +101,9 @@ def header(ws):
     return {c.value: c.column for c in ws[1] if isinstance(c.value, str)}
 
 
+COLUMN = {"packing_factor_1_m": 300, "htu_m": 0.6, "removal_fraction": 0.99, "flood_fraction": 0.7,
+          "carrier_kmol_h": 20, "liquor_kg_h": 2000, "gas_temp_c": 20}
+
 with tempfile.TemporaryDirectory() as d:
     camp = os.path.join(d, "figures.json")
     book = os.path.join(d, "figures.xlsx")
@@ -112,6 +115,14 @@ with tempfile.TemporaryDirectory() as d:
         print("workbook_figures_hand_calc: FAILED, no workbook")
         sys.exit(1)
     wb = openpyxl.load_workbook(book)
+    # the same campaign with a packed column on S1, for the Column check sheet
+    camp_c = json.loads(json.dumps(CAMPAIGN))
+    camp_c["scrubbers"][0]["column"] = COLUMN
+    with open(camp, "w") as f:
+        json.dump(camp_c, f, indent=1)
+    book_c = os.path.join(d, "figures-column.xlsx")
+    p = subprocess.run(WRAP + [BIN, "report", camp, "-o", book_c], capture_output=True, text=True)
+    wb_c = openpyxl.load_workbook(book_c) if T.check(p.returncode == 0, f"column report exit {p.returncode}") else None
 
 # Hourly load: every run vents over its 2 h from 06:00 (peak factor 1), so the clock hours 06:00
 # and 07:00 of its day carry vent mol / 2 h and every other hour between is 0.  Vent by hand:
@@ -131,6 +142,21 @@ for at, kmol_h in rows:
         close(kmol_h, want, f"Hourly load at {at.isoformat()}")
     else:
         T.check(kmol_h == 0, f"Hourly load at {at.isoformat()}: {kmol_h!r}, by hand 0")
+
+# Column check by hand (design section 4): the gas at the instantaneous peak is the carrier plus
+# CL-2's 1600 mol over 2 h (0.8 kmol/h, the largest vent rate; no runs overlap): 20.8 kmol/h,
+# y_in = 0.8 / 20.8, y_out = y_in (1 - 0.99), NTU = ln(1 / (1 - 0.99)) = ln 100, height = HTU x NTU
+if wb_c is not None:
+    ws = wb_c["Column check"]
+    h = header(ws)
+    cells = {k: ws.cell(2, c).value for k, c in h.items()}
+    T.check(cells.get("Scrubber") == "S1", f"Column check row 2: {cells}")
+    for head, want in (("Gas flow at the instantaneous peak [kmol/h]", 20.8),
+                       ("Acid gas in [mol/mol]", 0.8 / 20.8),
+                       ("Acid gas out [mol/mol]", 0.8 / 20.8 * 0.01),
+                       ("Transfer units, NTU (dimensionless)", math.log(100)),
+                       ("Packed height [m]", 0.6 * math.log(100))):
+        close(cells.get(head), want, f"Column check {head}")
 
 # Runs: one row a run
 ws = wb["Runs"]
