@@ -673,7 +673,8 @@ static enum hl_status apply_actual(const struct campaign *c, const struct ledger
             return blame_run(c, r, e);
         if (st)
             return st;
-        actual.sel = NULL; /* the cache's */
+        /* actual.sel is the cache's (sel_owned 0): it outlives b, and the reaction heat
+         * takes its site shares from it (the weighed draw changes no site) */
         bal_free(b);
         *b = actual;
         lr->other_rows = 0;

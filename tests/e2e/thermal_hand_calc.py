@@ -174,6 +174,35 @@ est = [c for c in L.get("estimate_cautions", []) if c.get("topic") == "Reaction 
 T.check(len(est) == 1 and all(w in est[0].get("text", "") for w in ("screening estimate", "calorimetry",
         "qualified people")), f"JSON estimate_cautions on reaction heat: {est}")
 
+# a done run with a weighed draw keeps its sites: toluene's only sp3 C-H are the three of its
+# methyl group, all benzylic (the structure C6H5-CH3), so the weighed run's heat is a benzylic
+# step exactly as the planned run's with the same charge (it was a secondary C-H "site assumed")
+def toluene_run(rid, day, actual=None):
+    r = {"id": rid, "start": f"2027-06-{day:02d}T06:00", "substrate": {"name": "toluene", "smiles": "Cc1ccccc1"},
+         "substrate_kg": 92.141, "reagent": "Cl2", "reagent_kg": 30.0, "temp_c": 80, "feed_h": 2}
+    if actual:
+        r["actual"] = actual
+    return r
+
+
+with tempfile.TemporaryDirectory() as d:
+    camp = {"format": "haloledger-campaign/1", "runs": [
+        toluene_run("TP", 1), toluene_run("TD", 2, {"status": "done", "reagent_kg": 30.0})]}
+    with open(os.path.join(d, "tol.json"), "w") as f:
+        json.dump(camp, f)
+    out = os.path.join(d, "tol-ledger.json")
+    p = subprocess.run(WRAP + [BIN, "report", os.path.join(d, "tol.json"), "-o", out, "--today", "2027-06-03"],
+                       capture_output=True, text=True)
+    T.check(p.returncode == 0, f"toluene report exit {p.returncode}: {p.stderr[-300:]}")
+    tr = {r["id"]: r["reaction"] for r in json.load(open(out))["runs"]} if p.returncode == 0 else {}
+    for rid in ("TP", "TD"):
+        x = tr.get(rid, {})
+        T.check([(s.get("site"), s.get("share")) for s in x.get("steps", [])] == [("benzylic", 1)]
+                and x.get("site_assumed") is False, f"{rid}: toluene steps {x.get('steps')!r}, "
+                f"site assumed {x.get('site_assumed')!r} (benzylic only, from the SMILES)")
+    T.check(tr.get("TD", {}).get("heat_kj") == tr.get("TP", {}).get("heat_kj"),
+            f"weighed 30 kg heat {tr.get('TD', {}).get('heat_kj')!r} = planned 30 kg {tr.get('TP', {}).get('heat_kj')!r}")
+
 for f in T.fails:
     print("FAIL:", f)
 print(f"thermal_hand_calc: {T.n - len(T.fails)}/{T.n} checks passed")
