@@ -1,13 +1,15 @@
 /*
  * scrubber.h - vent scrubber liquor, heat, hourly load and column check.
  *
- * Liquor reactions (design section 4), caustic liquor:
+ * What each liquor does with each vent gas (reacts with its base, dissolves, passes), the
+ * salts, heats and property tables are rows of liquor.c (liquor.h); this model only reads
+ * them.  Caustic liquor (design section 4):
  *   HCl + NaOH -> NaCl + H2O          HBr + NaOH -> NaBr + H2O
  *   Cl2 + 2 NaOH -> NaCl + NaOCl + H2O Br2 + 2 NaOH -> NaBr + NaOBr + H2O
  *   SO2 + 2 NaOH -> Na2SO3 + H2O
  * and in the liquor, sulfite never coexists with hypohalite (stronger oxidant first):
  *   Na2SO3 + NaOCl -> Na2SO4 + NaCl    Na2SO3 + NaOBr -> Na2SO4 + NaBr
- * Heats from standard enthalpies of formation (NBS tables, see scrubber.c).
+ * Heats from standard enthalpies of formation (NBS tables, liquor.c).
  * Runs are processed in start order; each scrubber's liquor is tracked run by
  * run with changeouts, and its acid-gas load is binned hour by hour with a sparse
  * difference array (one sort of four entries per run), so the cost is n log n in runs
@@ -24,12 +26,11 @@
 
 struct scrub_unit_in {
     const char *id;
-    int water_liquor;           /* 1: water absorbing HCl and HBr (hydrochloric and hydrobromic
-                                 * acid); Cl2, Br2 and SO2 pass it */
-    double naoh_wt_pct, liquor_kg, min_naoh_wt_pct;
-    double max_acid_wt_pct;     /* water: HCl strength of the changeout, wt% (> 0) */
-    double max_hbr_wt_pct;      /* water: HBr strength of the changeout, wt% (> 0); with both
-                                 * acids, changeout before HCl/max_acid + HBr/max_hbr passes 1 */
+    int liquor;                 /* enum liquor_id: its row says what it does with each gas */
+    double naoh_wt_pct, liquor_kg, min_naoh_wt_pct; /* the base of a liquor that has one */
+    double max_gas_wt_pct[VS_COUNT]; /* changeout strength [wt%, > 0] of each gas the liquor
+                                 * dissolves (water: HCl, HBr); with several acids, changeout
+                                 * before the sum of strength / limit passes 1 */
     double rated_acid_kmol_h, makeup_naoh_wt_pct; /* caustic: makeup >= naoh_wt_pct */
     double liquor_cp_kj_kg_k;   /* used where liquor_cp_given, else the built-in tables */
     int liquor_cp_given;
@@ -149,12 +150,11 @@ struct scrub_unit_out {
     struct scrub_emis emis[VS_COUNT]; /* what leaves the stack, per vent species */
 };
 
-/* Heat released per mole of gas absorbed [kJ/mol] (positive), caustic or water liquor. */
-double scrub_heat_kj_per_mol(int vent_species, int water_liquor);
-/* NaOH consumed per mole of gas [mol/mol]. */
+/* Heat released per mole of gas absorbed [kJ/mol] (positive) in a liquor (enum liquor_id),
+ * from the formation enthalpies of its row; 0 for a gas it passes. */
+double scrub_heat_kj_per_mol(int vent_species, int liquor);
+/* NaOH consumed per mole of gas in the caustic liquor [mol/mol]. */
 double scrub_naoh_per_mol(int vent_species);
-/* Heat capacity of caustic liquor [kJ/(kg K)] at a NaOH mass fraction (see source in .c). */
-double scrub_liquor_cp_kj_kg_k(double naoh_wt_pct);
 
 /* Run the whole campaign. order[0..nruns-1] lists run indices by start time.
  * A vent window is [start, start + feed_h / peak_factor); a window ending at the very
@@ -176,10 +176,10 @@ enum hl_status scrub_campaign(const struct scrub_unit_in *units, int nunits,
 
 /* One fresh charge of liquor_kg made up from purchased caustic (issue 15.4): solution
  * bought = liquor_kg x naoh_wt_pct / makeup_naoh_wt_pct [kg of makeup strength], dilution
- * water = liquor_kg - solution [kg]. Water liquor: no caustic, all liquor_kg is water.
- * makeup_naoh_wt_pct must be > 0 for a caustic liquor (no default is taken). */
+ * water = liquor_kg - solution [kg]. A liquor without a base (water): all liquor_kg is
+ * water.  makeup_naoh_wt_pct must be > 0 for a liquor with a base (no default is taken). */
 void scrub_fresh_charge(double liquor_kg, double naoh_wt_pct, double makeup_naoh_wt_pct,
-                        int water_liquor, double *caustic_solution_kg, double *water_kg);
+                        int liquor, double *caustic_solution_kg, double *water_kg);
 
 /* Heat released [kJ] per mol Na2SO3 oxidised in the liquor by SALT_NAOCL or
  * SALT_NAOBR (Na2SO3 + NaOX -> Na2SO4 + NaX); 0 for any other salt. */
@@ -195,10 +195,10 @@ double scrub_hourly_kmol_h(const struct scrub_unit_out *u, int h);
 /* Mean emission [kg/h] of species vs in hour h of a unit's profile; 0 where none. O(log n). */
 double scrub_hourly_emis_kg_h(const struct scrub_unit_out *u, int vs, int h);
 
-/* Default removal fraction of a vent species for a liquor without column data or a given
- * value, and its origin text (static; "common practice" / "from memory"). 0 for what the
- * liquor does not absorb (Cl2, Br2, SO2 on water). */
-double scrub_removal_default(int vs, int water_liquor, const char **origin);
+/* Default removal fraction of a vent species for a liquor (enum liquor_id) without column
+ * data or a given value, and its origin text (static, from the liquor row). 0 for what the
+ * liquor passes (Cl2, Br2, SO2 on water). */
+double scrub_removal_default(int vs, int liquor, const char **origin);
 
 /* Fraction removed by a column of ntu gas-phase transfer units, fast irreversible reaction
  * under gas-film control (no back-pressure): 1 - exp(-ntu). */
@@ -211,30 +211,8 @@ double scrub_vent_end_min(const struct scrub_run_in *r);
 /* Free what scrub_campaign allocated in unit_out[0..nunits-1] and zero it. */
 void scrub_unit_out_free(struct scrub_unit_out *u, int nunits);
 
-/* ---- property tables and correlations (also shown on the Assumptions sheet) ---- */
+/* ---- correlations (the liquor property tables are in liquor.h) ---- */
 
-/* Standard enthalpy of formation used by the heats, with its source (Assumptions sheet). */
-struct scrub_dfh { const char *species; double dfh_kj_mol; const char *source; };
-/* Row i of the table, NULL past the end. Static data. */
-const struct scrub_dfh *scrub_dfh_get(int i);
-/* Molar mass [g/mol] of a salt (CIAAW 2021 abridged weights), 0 out of range. */
-double scrub_salt_molar_mass_g_mol(int salt);
-/* Salt formula text ("NaOCl"), NULL out of range. Static string. */
-const char *scrub_salt_name(int salt);
-/* Density [kg/m3] of hydrochloric acid at 20 C and a HCl mass percent 0..40 (clamped). */
-double scrub_hcl_acid_density_kg_m3(double hcl_wt_pct);
-/* Density [kg/m3] of caustic soda solution at 20 C and a NaOH mass percent 0..50 (clamped). */
-double scrub_naoh_density_kg_m3(double naoh_wt_pct);
-/* Heat capacity [kJ/(kg K)] of hydrochloric acid at a HCl mass percent 0..40 (clamped). */
-double scrub_hcl_acid_cp_kj_kg_k(double hcl_wt_pct);
-/* Density [kg/m3] of hydrobromic acid at 20 C and a HBr mass percent 0..60 (clamped). */
-double scrub_hbr_acid_density_kg_m3(double hbr_wt_pct);
-/* Density [kg/m3] of a water liquor holding both acids (additive increments over water). */
-double scrub_acid_density_kg_m3(double hcl_wt_pct, double hbr_wt_pct);
-/* Heat capacity [kJ/(kg K)] of a water liquor holding HCl and HBr (mass percents; see .c). */
-double scrub_acid_cp_kj_kg_k(double hcl_wt_pct, double hbr_wt_pct);
-/* Boiling point at 1 atm [C] of caustic soda solution at a NaOH mass percent 0..50. */
-double scrub_naoh_boiling_point_c(double naoh_wt_pct);
 /* Generalized pressure-drop correlation flooding ordinate Y at flow parameter X (see .c). */
 double scrub_gpdc_flood_y(double flow_parameter);
 

@@ -11,6 +11,11 @@
 #include "campaign.h"
 #include "hlmem.h"
 #include "isodate.h"
+#include "liquor.h"
+
+/* The campaign's liquor spellings index the liquor table (liquor.c). */
+_Static_assert((int)CAMP_LIQUOR_NAOH == (int)LQ_NAOH && (int)CAMP_LIQUOR_WATER == (int)LQ_WATER,
+               "enum camp_liquor follows enum liquor_id");
 
 #include <math.h>
 #include <stdarg.h>
@@ -197,8 +202,8 @@ static void join_run_ids(const struct ledger *l, const int *idx, int n, char *bu
 
 /* A liquor reaching its boiling point (issue: an alarm of its own, apart from cooling):
  * the runs whose adiabatic liquor temperature reaches the boiling point of the liquor at
- * 1 atm, the basis named (scrubber.h), the worst margin quoted. */
-static enum hl_status warn_boiling(struct ledger *l, struct hl_err *e, int u, int water)
+ * 1 atm, the basis named (the liquor's row), the worst margin quoted. */
+static enum hl_status warn_boiling(struct ledger *l, struct hl_err *e, int u, int liquor)
 {
     const struct ledger_scrubber *s = &l->scrubbers[u];
     char runs[240];
@@ -229,8 +234,7 @@ static enum hl_status warn_boiling(struct ledger *l, struct hl_err *e, int u, in
                 "reaches %.0f C against a boiling point of %.0f C at 1 atm (%s); acid gas and "
                 "steam would leave the scrubber",
                 s->id, n, n == 1 ? "" : "s", runs, worst_t, worst_bp,
-                water ? "water: the acids boil higher up to their azeotropes"
-                                           : "NaOH solution at the liquor's strength, salts ignored");
+                liquor_get(liquor)->bp_basis);
 }
 
 /* Add an assumption unless one with the same text is listed (the list stays short:
@@ -582,7 +586,7 @@ static void variance_plan(const struct campaign *c, const struct camp_run *r, st
     v->reagent_kg_plan = b->reagent_kg;
     v->product_kg_plan = b->wanted_kg;
     v->yield_pct_plan = b->yield_pct;
-    int caustic = r->scrubber >= 0 && c->scrubbers[r->scrubber].liquor == CAMP_LIQUOR_NAOH;
+    int caustic = r->scrubber >= 0 && liquor_get(c->scrubbers[r->scrubber].liquor)->base == RG_NAOH;
     v->naoh_kg_plan = caustic ? vent_naoh_kg(b) : 0.0;
 }
 
@@ -908,10 +912,11 @@ static enum hl_status run_scrubbers(const struct campaign *c, struct ledger *l, 
     for (int u = 0; u < nu; u++) {
         const struct camp_scrubber *s = &c->scrubbers[u];
         units[u] = (struct scrub_unit_in){
-            .id = s->id, .water_liquor = s->liquor == CAMP_LIQUOR_WATER,
+            .id = s->id, .liquor = s->liquor,
             .naoh_wt_pct = s->naoh_wt_pct, .liquor_kg = s->liquor_kg,
-            .min_naoh_wt_pct = s->min_naoh_wt_pct, .max_acid_wt_pct = s->max_acid_wt_pct,
-            .max_hbr_wt_pct = s->max_hbr_wt_pct,
+            .min_naoh_wt_pct = s->min_naoh_wt_pct,
+            /* the campaign's changeout strengths of the acids a water liquor dissolves */
+            .max_gas_wt_pct = {[VS_HCL] = s->max_acid_wt_pct, [VS_HBR] = s->max_hbr_wt_pct},
             .rated_acid_kmol_h = s->rated_acid_kmol_h, .makeup_naoh_wt_pct = s->makeup_naoh_wt_pct,
             .liquor_cp_kj_kg_k = s->liquor_cp_kj_kg_k, .liquor_cp_given = s->liquor_cp_given,
             .has_column = s->column.present,
@@ -947,9 +952,9 @@ static enum hl_status run_scrubbers(const struct campaign *c, struct ledger *l, 
     for (int u = 0; u < nu; u++) {
         const struct camp_scrubber *cs = &c->scrubbers[u];
         struct ledger_scrubber *ls = &l->scrubbers[u];
-        int water = cs->liquor == CAMP_LIQUOR_WATER;
-        ls->makeup_naoh_wt_pct = water ? 0.0 : cs->makeup_naoh_wt_pct;
-        scrub_fresh_charge(cs->liquor_kg, cs->naoh_wt_pct, cs->makeup_naoh_wt_pct, water,
+        int no_base = liquor_get(cs->liquor)->base < 0;
+        ls->makeup_naoh_wt_pct = no_base ? 0.0 : cs->makeup_naoh_wt_pct;
+        scrub_fresh_charge(cs->liquor_kg, cs->naoh_wt_pct, cs->makeup_naoh_wt_pct, cs->liquor,
                            &ls->changeout_caustic_solution_kg, &ls->changeout_water_kg);
         ls->dilution_water_kg = ls->out.changeouts * ls->changeout_water_kg;
     }
@@ -1023,10 +1028,9 @@ static enum hl_status report_emissions(const struct campaign *c, struct ledger *
     char what[200], when[20], runs[200];
     for (int u = 0; u < l->nscrubbers && !st; u++) {
         const struct scrub_unit_out *o = &l->scrubbers[u].out;
-        int water = c->scrubbers[u].liquor == CAMP_LIQUOR_WATER;
         for (int v = 0; v < VS_COUNT && !st; v++) {
             const char *origin = NULL;
-            scrub_removal_default(v, water, &origin);
+            scrub_removal_default(v, c->scrubbers[u].liquor, &origin);
             if (o->removal_origin[v] == SCRUB_REM_GIVEN)
                 origin = "campaign scrubbers[].removal";
             else if (o->removal_origin[v] == SCRUB_REM_COLUMN)
@@ -1575,7 +1579,7 @@ static enum hl_status collect_warnings(const struct campaign *c, struct ledger *
                       o->too_hot_runs, o->peak_heat_kw, when_heat, runs);
         }
         if (!st && o->boiling_runs > 0)
-            st = warn_boiling(l, e, u, c->scrubbers[u].liquor == CAMP_LIQUOR_WATER);
+            st = warn_boiling(l, e, u, c->scrubbers[u].liquor);
     }
     /* NaOH order lines add the solution every unit buys: one strength or the sum mixes
      * unlike things */

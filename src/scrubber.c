@@ -17,226 +17,64 @@
 #include "elements.h"
 #include "hlmem.h"
 
-/* ---- molar masses: CIAAW 2021 conventional weights (elements.h) ---- */
-
-#define M_NAOH (ELEM_W_NA + ELEM_W_O + ELEM_W_H)
+/* ---- molar masses: the vent-gas, salt and reagent tables (reagents.c, liquor.c) ---- */
 #define M_H2O (2 * ELEM_W_H + ELEM_W_O)
 #define M_AIR 28.9644 /* dry air, U.S. Standard Atmosphere 1976 */
 
-/* molar masses: the vent-gas and salt tables (reagents.c, liquor.c) */
 static double gas_mm(int v) { return vent_molar_mass_g_mol(v); }
 static double salt_mm(int k) { return liquor_salt_get(k)->molar_mass_g_mol; }
-
-/* ---- standard enthalpies of formation at 298.15 K, 1 bar [kJ/mol] ----
- * NBS = Wagman et al., "The NBS tables of chemical thermodynamic properties",
- *       J. Phys. Chem. Ref. Data 11, Suppl. 2 (1982).
- * CODATA = Cox, Wagman & Medvedev, CODATA Key Values for Thermodynamics (1989).
- * "aq" is the hypothetical 1 mol/kg standard state (infinite dilution); the
- * heats are therefore those of absorption into dilute liquor.  Salts whose
- * neutral aqueous value we could not confirm are sums of NBS ion values, and
- * ion values recalled without the table in hand are marked "from memory". */
-enum tsp {
-    T_H2O, T_HCL_G, T_HCL_AQ, T_HBR_G, T_CL2_G, T_BR2_G, T_SO2_G, T_NAOH_AQ,
-    T_NACL_AQ, T_NABR_AQ, T_NAOCL_AQ, T_NAOBR_AQ, T_NA2SO3_AQ, T_NA2SO4_AQ,
-    T_HBR_G_NBS, T_HBR_AQ, T_COUNT
-};
-/* ion values (NBS 1982): Na+(aq) -240.12; ClO-(aq) -107.1, BrO-(aq) -94.1, SO3^2-(aq) -635.5,
- * SO4^2-(aq) -909.27 (from memory; the CODATA 1989 key value is -909.34, from memory) */
-#define DFH_NA_ION (-240.12)
-static const struct scrub_dfh dfh[T_COUNT] = {
-    [T_H2O] = {"H2O(l)", -285.830, "NBS 1982 (CODATA 1989 -285.830)"},
-    [T_HCL_G] = {"HCl(g)", -92.307, "NBS 1982 (CODATA 1989 -92.31)"},
-    [T_HCL_AQ] = {"HCl(aq)", -167.159, "NBS 1982"},
-    [T_HBR_G] = {"HBr(g)", -36.29, "CODATA 1989 (NBS 1982 lists -36.40)"},
-    [T_CL2_G] = {"Cl2(g)", 0.0, "reference state"},
-    [T_BR2_G] = {"Br2(g)", 30.907, "NBS 1982 (Br2(l) = 0, reference state)"},
-    [T_SO2_G] = {"SO2(g)", -296.830, "NBS 1982"},
-    [T_NAOH_AQ] = {"NaOH(aq)", -470.114, "NBS 1982"},
-    [T_NACL_AQ] = {"NaCl(aq)", -407.27, "NBS 1982"},
-    [T_NABR_AQ] = {"NaBr(aq)", -361.67, "NBS 1982"},
-    [T_NAOCL_AQ] = {"NaOCl(aq)", DFH_NA_ION - 107.1,
-                    "Na+(aq) -240.12 (NBS 1982) + ClO-(aq) -107.1 (NBS 1982, from memory)"},
-    [T_NAOBR_AQ] = {"NaOBr(aq)", DFH_NA_ION - 94.1,
-                    "Na+(aq) -240.12 (NBS 1982) + BrO-(aq) -94.1 (NBS 1982, from memory)"},
-    [T_NA2SO3_AQ] = {"Na2SO3(aq)", 2 * DFH_NA_ION - 635.5,
-                     "2 Na+(aq) (NBS 1982) + SO3^2-(aq) -635.5 (NBS 1982, from memory)"},
-    [T_NA2SO4_AQ] = {"Na2SO4(aq)", 2 * DFH_NA_ION - 909.27,
-                     "2 Na+(aq) (NBS 1982) + SO4^2-(aq) -909.27 (NBS 1982, from memory); the "
-                     "NBS entry Na2SO4(aq) -1389.51 is the same sum (from memory)"},
-    /* HBr dissolving in a water liquor: both values from the NBS tables, so the heat of
-     * solution is that of one table (as HCl(g) -> HCl(aq) above) */
-    [T_HBR_G_NBS] = {"HBr(g), with HBr(ao)", -36.40,
-                     "NBS 1982 (used with HBr(ao) for the heat of solution in water)"},
-    [T_HBR_AQ] = {"HBr(ao)", -121.55, "NBS 1982, equal to Br-(ao) (H+(ao) = 0) (from memory)"},
-};
-
-const struct scrub_dfh *scrub_dfh_get(int i)
+static double dfh_of(int i) { return liquor_dfh_get(i)->dfh_kj_mol; }
+/* Molar mass of a liquor's base [g/mol] (its reagent row); 0 for a liquor without one. */
+static double base_mm(const struct liquor_info *l)
 {
-    return i >= 0 && i < T_COUNT ? &dfh[i] : NULL;
+    return l->base >= 0 ? reagent_get(l->base)->molar_mass_g_mol : 0;
 }
 
-/* Caustic liquor reactions of design section 4, per mole of vent gas. */
-struct rxn {
-    int gas;                   /* table species of the gas */
-    double naoh;               /* NaOH used */
-    int salt[2]; double nsalt[2]; /* salts formed (-1 = none) */
-};
-static const struct rxn rxns[VS_COUNT] = {
-    [VS_HCL] = {T_HCL_G, 1, {SALT_NACL, -1}, {1, 0}},
-    [VS_HBR] = {T_HBR_G, 1, {SALT_NABR, -1}, {1, 0}},
-    [VS_CL2] = {T_CL2_G, 2, {SALT_NACL, SALT_NAOCL}, {1, 1}},
-    [VS_BR2] = {T_BR2_G, 2, {SALT_NABR, SALT_NAOBR}, {1, 1}},
-    [VS_SO2] = {T_SO2_G, 2, {SALT_NA2SO3, -1}, {1, 0}},
-};
-static const int salt_tsp[SALT_COUNT] = {T_NACL_AQ, T_NABR_AQ, T_NAOCL_AQ, T_NAOBR_AQ,
-                                         T_NA2SO3_AQ, T_NA2SO4_AQ};
+/* ---- heats, from the formation enthalpies of liquor.c ---- */
 
-double scrub_heat_kj_per_mol(int vs, int water_liquor)
+double scrub_heat_kj_per_mol(int vs, int liquor)
 {
-    if (vs < 0 || vs >= VS_COUNT)
+    const struct liquor_info *l = liquor_get(liquor);
+    if (!l || vs < 0 || vs >= VS_COUNT)
         return 0;
-    if (water_liquor)
-        /* Water absorbs the acid gases (HCl(g) -> HCl(aq), HBr(g) -> HBr(ao)); Cl2, Br2
-         * and SO2 pass through and the run is flagged. */
-        return vs == VS_HCL   ? -(dfh[T_HCL_AQ].dfh_kj_mol - dfh[T_HCL_G].dfh_kj_mol)
-               : vs == VS_HBR ? -(dfh[T_HBR_AQ].dfh_kj_mol - dfh[T_HBR_G_NBS].dfh_kj_mol)
-                              : 0;
-    const struct rxn *r = &rxns[vs];
-    double h = dfh[T_H2O].dfh_kj_mol - dfh[r->gas].dfh_kj_mol - r->naoh * dfh[T_NAOH_AQ].dfh_kj_mol;
+    const struct liquor_gas *g = &l->gas[vs];
+    if (g->uptake == LQ_DISSOLVES) /* gas -> its solution */
+        return -(dfh_of(g->dfh_taken) - dfh_of(g->dfh_gas));
+    if (g->uptake != LQ_REACTS)
+        return 0; /* passes: the run is flagged */
+    double h = g->water_mol * dfh_of(DFH_H2O) - dfh_of(g->dfh_gas) - g->base_mol * dfh_of(l->dfh_base);
     for (int k = 0; k < 2; k++)
-        if (r->salt[k] >= 0)
-            h += r->nsalt[k] * dfh[salt_tsp[r->salt[k]]].dfh_kj_mol;
+        if (g->salt[k] >= 0)
+            h += g->salt_mol[k] * dfh_of(liquor_salt_get(g->salt[k])->dfh);
     return -h; /* released */
 }
 
-/* Sulfite and hypohalite cannot coexist in the liquor: SO3^2- + OX^- -> SO4^2- + X^-
- * (fast in alkaline solution; the same reaction that dechlorinates water with sulfite).
- * Na+ is a spectator, so the heat is that of the ions. */
+/* The reductant of the liquor's redox step (the sulfite), -1 when the table has none. */
+static int reductant(void)
+{
+    for (int k = 0; k < SALT_COUNT; k++)
+        if (liquor_salt_get(k)->oxidised_to >= 0)
+            return k;
+    return -1;
+}
+
+/* Na+ is a spectator, so the heat is that of the ions. */
 double scrub_sulfite_redox_kj_per_mol(int salt)
 {
-    int halide = salt == SALT_NAOCL ? SALT_NACL : salt == SALT_NAOBR ? SALT_NABR : -1;
-    if (halide < 0)
+    const struct liquor_salt *ox = liquor_salt_get(salt);
+    int red = reductant();
+    if (!ox || ox->reduced_to < 0 || red < 0)
         return 0;
-    double h = dfh[T_NA2SO4_AQ].dfh_kj_mol + dfh[salt_tsp[halide]].dfh_kj_mol -
-               dfh[T_NA2SO3_AQ].dfh_kj_mol - dfh[salt_tsp[salt]].dfh_kj_mol;
+    const struct liquor_salt *rs = liquor_salt_get(red);
+    double h = dfh_of(liquor_salt_get(rs->oxidised_to)->dfh) + dfh_of(liquor_salt_get(ox->reduced_to)->dfh) -
+               dfh_of(rs->dfh) - dfh_of(ox->dfh);
     return -h; /* released */
 }
 
 double scrub_naoh_per_mol(int vs)
 {
-    return vs >= 0 && vs < VS_COUNT ? rxns[vs].naoh : 0;
+    return vs >= 0 && vs < VS_COUNT ? liquor_get(LQ_NAOH)->gas[vs].base_mol : 0;
 }
-
-double scrub_salt_molar_mass_g_mol(int salt)
-{
-    return salt >= 0 && salt < SALT_COUNT ? salt_mm(salt) : 0;
-}
-
-const char *scrub_salt_name(int salt)
-{
-    return salt >= 0 && salt < SALT_COUNT ? liquor_salt_get(salt)->name : NULL;
-}
-
-/* ---- property tables (linear interpolation, clamped at the ends) ---- */
-struct pt { double x, y; };
-
-static double interp(const struct pt *t, int n, double x)
-{
-    if (!(x > t[0].x))
-        return t[0].y;
-    if (x >= t[n - 1].x)
-        return t[n - 1].y;
-    int i = 1;
-    while (t[i].x < x)
-        i++;
-    double f = (x - t[i - 1].x) / (t[i].x - t[i - 1].x);
-    return t[i - 1].y + f * (t[i].y - t[i - 1].y);
-}
-#define NPT(t) ((int)(sizeof(t) / sizeof(t[0])))
-
-/* Hydrochloric acid, density at 20 C [g/cm3] vs HCl mass percent: CRC Handbook of
- * Chemistry and Physics, "Concentrative properties of aqueous solutions" (the same
- * figures appear in Perry's Chemical Engineers' Handbook).  Values from memory of that
- * table; 0 % is water at 20 C, 0.99820 g/cm3. */
-static const struct pt hcl_rho[] = {
-    {0, 0.99820},  {2, 1.0082},  {4, 1.0181},  {6, 1.0279},  {8, 1.0376},  {10, 1.0474},
-    {12, 1.0574},  {14, 1.0675}, {16, 1.0776}, {18, 1.0878}, {20, 1.0980}, {22, 1.1083},
-    {24, 1.1187},  {26, 1.1290}, {28, 1.1392}, {30, 1.1493}, {32, 1.1593}, {34, 1.1691},
-    {36, 1.1789},  {38, 1.1885}, {40, 1.1980}};
-
-double scrub_hcl_acid_density_kg_m3(double wt) { return 1000.0 * interp(hcl_rho, NPT(hcl_rho), wt); }
-
-/* Caustic soda solution, density at 20 C [g/cm3]: CRC Handbook, "Concentrative
- * properties of aqueous solutions"; values from memory of that table. */
-static const struct pt naoh_rho[] = {{0, 0.99820}, {10, 1.1089}, {20, 1.2191},
-                                     {30, 1.3277}, {40, 1.4300}, {50, 1.5253}};
-
-double scrub_naoh_density_kg_m3(double wt) { return 1000.0 * interp(naoh_rho, NPT(naoh_rho), wt); }
-
-/* Caustic soda solution heat capacity near 20 C [kJ/(kg K)] vs NaOH mass percent.
- * From memory (caustic producers' data sheets give about 0.78 Btu/(lb F) = 3.27 at
- * 50 %); about +-3 %.  0 % is liquid water, 4.18 (IAPWS-95 near 20 C).  Salts in
- * spent liquor lower it a little more; the rise is then slightly understated. */
-static const struct pt naoh_cp[] = {{0, 4.18}, {10, 3.78}, {20, 3.59},
-                                    {30, 3.48}, {40, 3.38}, {50, 3.27}};
-
-double scrub_liquor_cp_kj_kg_k(double wt) { return interp(naoh_cp, NPT(naoh_cp), wt); }
-
-/* Hydrochloric acid heat capacity [kJ/(kg K)]: from memory of Perry's table of heat
- * capacities of aqueous HCl (cal/(g K) 1.00, 0.72, 0.61, 0.58, 0.55 at 0, 9.09, 16.7,
- * 20.0, 25.9 mol % HCl), converted to mass percent and kJ/(kg K). */
-static const struct pt hcl_cp[] = {{0, 4.18}, {16.8, 3.01}, {28.8, 2.55}, {33.6, 2.43},
-                                   {41.5, 2.30}};
-
-double scrub_hcl_acid_cp_kj_kg_k(double wt) { return interp(hcl_cp, NPT(hcl_cp), wt); }
-
-/* Hydrobromic acid, density at 20 C [g/cm3] vs HBr mass percent: CRC Handbook of
- * Chemistry and Physics, "Concentrative properties of aqueous solutions"; values from
- * memory of that table (suppliers give about 1.49 for the 48 % commercial acid). */
-static const struct pt hbr_rho[] = {{0, 0.99820}, {10, 1.0723}, {20, 1.1579}, {30, 1.2580},
-                                    {40, 1.3772}, {50, 1.5173}, {60, 1.6787}};
-
-double scrub_hbr_acid_density_kg_m3(double wt) { return 1000.0 * interp(hbr_rho, NPT(hbr_rho), wt); }
-
-/* A water liquor holding both acids: each acid adds its own density increment over water
- * at its own strength (additive increments, an assumption good at the low strengths of a
- * scrubber liquor). */
-double scrub_acid_density_kg_m3(double hcl_wt_pct, double hbr_wt_pct)
-{
-    double w = 1000.0 * hcl_rho[0].y;
-    return scrub_hcl_acid_density_kg_m3(hcl_wt_pct) + scrub_hbr_acid_density_kg_m3(hbr_wt_pct) - w;
-}
-
-/* Heat capacity of a water liquor holding HCl and HBr.  No hydrobromic acid table was at
- * hand, so the hydrochloric acid table is read at the same acid mole fraction and the
- * molar heat capacity of the solution taken as equal (assumption): cp = cp_HCl(w') x
- * M' / M, w' the HCl mass fraction of that equivalent acid, M' and M the mean molar masses
- * of the equivalent and the real solution.  Without HBr this is the HCl table itself. */
-double scrub_acid_cp_kj_kg_k(double hcl_wt_pct, double hbr_wt_pct)
-{
-    double m_hcl = ELEM_W_H + ELEM_W_CL, m_hbr = ELEM_W_H + ELEM_W_BR;
-    double n1 = hcl_wt_pct / m_hcl, n2 = hbr_wt_pct / m_hbr;
-    double nw = (100.0 - hcl_wt_pct - hbr_wt_pct) / M_H2O, n = n1 + n2 + nw;
-    if (!(hbr_wt_pct > 0) || !(n > 0))
-        return scrub_hcl_acid_cp_kj_kg_k(hcl_wt_pct);
-    double x = (n1 + n2) / n;
-    double m_eq = x * m_hcl + (1 - x) * M_H2O, m_real = (n1 * m_hcl + n2 * m_hbr + nw * M_H2O) / n;
-    return scrub_hcl_acid_cp_kj_kg_k(100.0 * x * m_hcl / m_eq) * m_eq / m_real;
-}
-
-/* Boiling point at 1 atm [C] of caustic soda solution vs NaOH mass percent: from memory of
- * the CRC Handbook / Perry's tables of boiling points of aqueous NaOH (50 % boils near
- * 143 C).  The liquor is judged at its NaOH strength alone: the salts formed raise its
- * boiling point further, so the alarm comes early, never late (conservative). */
-static const struct pt naoh_bp[] = {{0, 100.0}, {10, 102.8}, {20, 108.0}, {30, 117.0},
-                                    {40, 128.0}, {50, 143.0}};
-
-double scrub_naoh_boiling_point_c(double naoh_wt_pct) { return interp(naoh_bp, NPT(naoh_bp), naoh_wt_pct); }
-
-/* Caustic soda viscosity at 20 C [mPa s], from memory (approximate); it enters the
- * flooding correlation only as mu^0.2, so a 2x error moves the diameter by ~4 %. */
-static const struct pt naoh_mu[] = {{0, 1.00}, {10, 1.9}, {20, 4.5}, {30, 11.0},
-                                    {40, 30.0}, {50, 80.0}};
 
 /* ---- packed column ----
  * Flooding line of Eckert's generalized pressure-drop correlation (J. S. Eckert,
@@ -264,28 +102,18 @@ double scrub_ntu(double y_in, double y_out)
     return log(y_in / y_out);
 }
 
-/* ---- removal credited to a unit (emissions) ----
- * Without column data or a given value: a packed caustic scrubber on a halogenation vent
- * is commonly specified for 99 % removal of HCl and HBr and 98 % of Cl2, Br2 and SO2
- * (common practice: typical guarantee figures, not a design); a water scrubber for 95 %
- * of HCl and HBr (from memory).  Cl2, Br2 and SO2 pass a water liquor (the liquor model
- * above), so it removes none of them. */
-static const double removal_caustic[VS_COUNT] = {[VS_HCL] = 0.99, [VS_HBR] = 0.99,
-                                                 [VS_CL2] = 0.98, [VS_BR2] = 0.98, [VS_SO2] = 0.98};
-static const double removal_water[VS_COUNT] = {[VS_HCL] = 0.95, [VS_HBR] = 0.95};
-
-double scrub_removal_default(int vs, int water_liquor, const char **origin)
+/* ---- removal credited to a unit (emissions): the liquor row's default ---- */
+double scrub_removal_default(int vs, int liquor, const char **origin)
 {
-    if (vs < 0 || vs >= VS_COUNT) {
+    const struct liquor_info *l = liquor_get(liquor);
+    if (!l || vs < 0 || vs >= VS_COUNT) {
         if (origin)
             *origin = "";
         return 0;
     }
     if (origin)
-        *origin = !water_liquor ? "packed caustic scrubber, typical specification (common practice)"
-                  : (vs == VS_HCL || vs == VS_HBR) ? "water scrubber, typical specification (from memory)"
-                                                   : "a water liquor does not absorb it (liquor model)";
-    return water_liquor ? removal_water[vs] : removal_caustic[vs];
+        *origin = l->gas[vs].removal_origin;
+    return l->gas[vs].removal;
 }
 
 /* A fast irreversible reaction keeps the gas-liquid interface free of the gas (no
@@ -299,7 +127,7 @@ double scrub_removal_from_ntu(double ntu)
 #define P_ATM 101325.0        /* the column runs near atmospheric: common practice */
 #define R_GAS 8.314462618     /* J/(mol K), CODATA 2018 */
 #define G_STD 9.80665         /* m/s2, standard gravity */
-#define RHO_WATER 998.20      /* kg/m3 at 20 C */
+#define RHO_WATER LIQUOR_RHO_WATER_KG_M3
 #define PI 3.14159265358979323846
 
 static void column_check(const struct scrub_unit_in *u, double peak_kmol_h, double acid_mm,
@@ -318,13 +146,11 @@ static void column_check(const struct scrub_unit_in *u, double peak_kmol_h, doub
     double gas_kg_h = u->carrier_kmol_h * M_AIR + peak_kmol_h * acid_mm;
     double mix_mm = gas_kg_h / c->gas_kmol_h; /* kg/kmol = g/mol */
     c->gas_density_kg_m3 = P_ATM * mix_mm / 1000.0 / (R_GAS * (u->gas_temp_c + 273.15));
-    double mu = 1.0;
-    if (u->water_liquor) {
-        c->liquid_density_kg_m3 = RHO_WATER;
-    } else {
-        c->liquid_density_kg_m3 = scrub_naoh_density_kg_m3(u->naoh_wt_pct);
-        mu = interp(naoh_mu, NPT(naoh_mu), u->naoh_wt_pct);
-    }
+    /* the fresh liquor's properties (its row in liquor.c) */
+    const struct liquor_info *l = liquor_get(u->liquor);
+    const struct liquor_comp fresh = {.base_wt_pct = l->base >= 0 ? u->naoh_wt_pct : 0};
+    c->liquid_density_kg_m3 = l->density_kg_m3(&fresh);
+    double mu = l->viscosity_mpa_s(&fresh);
     double rg = c->gas_density_kg_m3, rl = c->liquid_density_kg_m3;
     double x = u->liquor_kg_h / gas_kg_h * sqrt(rg / rl);
     c->flow_parameter = x;
@@ -343,24 +169,20 @@ static void column_check(const struct scrub_unit_in *u, double peak_kmol_h, doub
 /* ---- campaign ---- */
 
 #define MAX_HOURS (20L * 366 * 24) /* a load profile longer than 20 years is a bad input */
-/* A water liquor is taken to boil at 100 C, water at 1 atm: hydrochloric and hydrobromic
- * acid boil higher up to their maximum-boiling azeotropes (about 108.6 C at 20.2 wt% HCl,
- * 124.3 C at 47.6 wt% HBr, CRC Handbook azeotrope table, from memory), so below them
- * the alarm comes early, never late.  Past an azeotrope the acid boils lower and gives off
- * its gas: the changeout strengths keep a liquor under them by default. */
-#define ACID_BOIL_C 100.0
 
 void scrub_fresh_charge(double liquor_kg, double naoh_wt_pct, double makeup_naoh_wt_pct,
-                        int water_liquor, double *caustic_solution_kg, double *water_kg)
+                        int liquor, double *caustic_solution_kg, double *water_kg)
 {
     /* NaOH is conserved on dilution: liquor_kg x w_fresh = solution x w_makeup */
-    double sol = water_liquor ? 0.0 : liquor_kg * naoh_wt_pct / makeup_naoh_wt_pct;
+    double sol = liquor_get(liquor)->base < 0 ? 0.0 : liquor_kg * naoh_wt_pct / makeup_naoh_wt_pct;
     *caustic_solution_kg = sol;
     *water_kg = liquor_kg - sol;
 }
 
 struct liq {
-    double naoh, water, hcl, hbr, salt[SALT_COUNT]; /* kg in the unit */
+    double naoh, water;      /* kg of base (as 100 %) and of water in the unit */
+    double gas[VS_COUNT];    /* kg of each gas held dissolved (LQ_DISSOLVES) */
+    double salt[SALT_COUNT]; /* kg of each salt */
     double temp_c;           /* adiabatic liquor temperature: no cooling since the last fill */
     int dirty;               /* something absorbed since the last fill */
     int used;                /* any run on this unit */
@@ -375,7 +197,9 @@ struct liq {
 
 static double liq_mass(const struct liq *q)
 {
-    double m = q->naoh + q->water + q->hcl + q->hbr;
+    double m = q->naoh + q->water;
+    for (int v = 0; v < VS_COUNT; v++)
+        m += q->gas[v];
     for (int s = 0; s < SALT_COUNT; s++)
         m += q->salt[s];
     return m;
@@ -383,9 +207,9 @@ static double liq_mass(const struct liq *q)
 
 static void fill(const struct scrub_unit_in *u, struct liq *q)
 {
-    q->naoh = u->water_liquor ? 0 : u->liquor_kg * u->naoh_wt_pct / 100.0;
+    q->naoh = liquor_get(u->liquor)->base < 0 ? 0 : u->liquor_kg * u->naoh_wt_pct / 100.0;
     q->water = u->liquor_kg - q->naoh;
-    q->hcl = q->hbr = 0;
+    memset(q->gas, 0, sizeof q->gas);
     memset(q->salt, 0, sizeof q->salt);
     q->temp_c = u->fresh_liquor_temp_c;
     q->dirty = 0;
@@ -407,41 +231,65 @@ static enum hl_status push_spent(struct scrub_unit_out *o, struct liq *q, int64_
     s->mass_kg = liq_mass(q);
     s->naoh_kg = q->naoh;
     s->water_kg = q->water;
-    s->hcl_kg = q->hcl;
-    s->hbr_kg = q->hbr;
+    s->hcl_kg = q->gas[VS_HCL]; /* the spent-liquor fields of the ledger */
+    s->hbr_kg = q->gas[VS_HBR];
     memcpy(s->salt_kg, q->salt, sizeof s->salt_kg);
     s->final = final;
     return HL_OK;
 }
 
-/* Water liquor: how far the acid has gone towards its changeout strength, as the sum of
- * each acid's strength over its own limit (HCl: max_acid_wt_pct, campaign default 20, near
- * its azeotrope of 20.2 wt%; HBr: max_hbr_wt_pct, built in at 47, under its azeotrope of
- * about 47.6 wt% - both azeotropes at 1 atm, CRC Handbook azeotrope table, from memory).  A
- * linear share rule for a mixed acid (assumption); 1 is the limit.  Strengths in wt% of
- * the whole liquor. */
-static double acid_load(const struct scrub_unit_in *u, double hcl_wt_pct, double hbr_wt_pct)
+/* Changeout strength [wt%] of a gas the liquor dissolves, as the unit gives it. */
+static double max_wt(const struct scrub_unit_in *u, const struct liquor_info *l, int v)
 {
-    return hcl_wt_pct / u->max_acid_wt_pct + hbr_wt_pct / u->max_hbr_wt_pct;
+    (void)l;
+    return u->max_gas_wt_pct[v];
 }
 
-/* Would absorbing vent (mol) break the liquor limit? Caustic: NaOH wt% below the
- * minimum (or NaOH short); water: HCl wt% above the maximum.  Both strengths move
- * one way only as gas is absorbed, so the test on a group's total holds for every
- * run of the group. */
+/* Dissolving: how far the acid has gone towards its changeout strength, as the sum of each
+ * acid's strength over its own limit (the campaign's defaults sit under the azeotropes).
+ * A linear share rule for a mixed acid (assumption); above 1 is past the limit.  add_kg[v]
+ * is what would be added; strengths in wt% of the whole liquor after it. */
+static double acid_load(const struct scrub_unit_in *u, const struct liquor_info *l,
+                        const struct liq *q, const double *add_kg)
+{
+    double m = liq_mass(q), load = 0;
+    for (int v = 0; v < VS_COUNT; v++)
+        if (l->gas[v].uptake == LQ_DISSOLVES)
+            m += add_kg[v];
+    for (int v = 0; v < VS_COUNT; v++)
+        if (l->gas[v].uptake == LQ_DISSOLVES)
+            load += (q->gas[v] + add_kg[v]) / m * 100.0 / max_wt(u, l, v);
+    return load;
+}
+
+/* kg of each gas of vent (mol) the liquor would take up by uptake u; their sum returned. */
+static double uptake_kg(const struct liquor_info *l, int u, const double *vent, double *kg)
+{
+    double sum = 0;
+    for (int v = 0; v < VS_COUNT; v++) {
+        kg[v] = l->gas[v].uptake == u ? vent[v] * gas_mm(v) / 1000.0 : 0;
+        sum += kg[v];
+    }
+    return sum;
+}
+
+/* Would absorbing vent (mol) break the liquor limit? Reacting gases: base wt% below the
+ * minimum (or base short); dissolving gases: the acid past its changeout strength.  Both
+ * strengths move one way only as gas is absorbed, so the test on a group's total holds for
+ * every run of the group. */
 static int over_limit(const struct scrub_unit_in *u, const struct liq *q, const double *vent)
 {
+    const struct liquor_info *l = liquor_get(u->liquor);
+    double kg[VS_COUNT];
+    if (liquor_has(u->liquor, LQ_DISSOLVES) && uptake_kg(l, LQ_DISSOLVES, vent, kg) > 0 &&
+        acid_load(u, l, q, kg) > 1.0)
+        return 1;
     double gas_kg = 0, naoh_kg = 0;
-    if (u->water_liquor) {
-        double hcl = vent[VS_HCL] * gas_mm(VS_HCL) / 1000.0, hbr = vent[VS_HBR] * gas_mm(VS_HBR) / 1000.0;
-        if (!(hcl + hbr > 0))
-            return 0;
-        double m = liq_mass(q) + hcl + hbr;
-        return acid_load(u, (q->hcl + hcl) / m * 100.0, (q->hbr + hbr) / m * 100.0) > 1.0;
-    }
     for (int v = 0; v < VS_COUNT; v++) {
+        if (l->gas[v].uptake != LQ_REACTS)
+            continue;
         gas_kg += vent[v] * gas_mm(v) / 1000.0;
-        naoh_kg += vent[v] * rxns[v].naoh * M_NAOH / 1000.0;
+        naoh_kg += vent[v] * l->gas[v].base_mol * base_mm(l) / 1000.0;
     }
     if (!(naoh_kg > 0))
         return 0;
@@ -449,49 +297,59 @@ static int over_limit(const struct scrub_unit_in *u, const struct liq *q, const 
     return left < 0 || left / (liq_mass(q) + gas_kg) * 100.0 < u->min_naoh_wt_pct;
 }
 
-/* Sulfite meets hypohalite in the liquor: Na2SO3 + NaOX -> Na2SO4 + NaX, whichever is
- * in excess remains.  Hypochlorite goes first, being the stronger oxidant (standard
- * potentials in base ClO-/Cl- +0.89 V, BrO-/Br- +0.76 V, from memory).  No NaOH is used
- * and the mass is unchanged (same atoms).  Amounts in kmol = kg / (g/mol). */
-static void sulfite_redox(struct liq *q, struct scrub_run_out *r)
+/* One oxidant salt (hypohalite) meets the reductant (sulfite) in the liquor: red + ox ->
+ * red's oxidised form + ox's reduced form, one to one, whichever is in excess remains.  No
+ * base is used and the mass is unchanged (same atoms).  Amounts in kmol = kg / (g/mol). */
+static void redox_pair(struct liq *q, struct scrub_run_out *r, int red, int hypo)
 {
-    static const int hypo[2] = {SALT_NAOCL, SALT_NAOBR}, halide[2] = {SALT_NACL, SALT_NABR};
-    for (int k = 0; k < 2; k++) {
-        double so3 = q->salt[SALT_NA2SO3] / salt_mm(SALT_NA2SO3);
-        double ox = q->salt[hypo[k]] / salt_mm(hypo[k]);
-        double n = so3 < ox ? so3 : ox;
-        if (!(n > 0))
-            continue;
-        double d_so3 = -n * salt_mm(SALT_NA2SO3), d_ox = -n * salt_mm(hypo[k]);
-        /* the limiting one is used up exactly (no round-off residue left behind) */
-        if (so3 <= ox)
-            d_so3 = -q->salt[SALT_NA2SO3];
-        else
-            d_ox = -q->salt[hypo[k]];
-        const int sp[4] = {SALT_NA2SO3, hypo[k], SALT_NA2SO4, halide[k]};
-        const double d[4] = {d_so3, d_ox, n * salt_mm(SALT_NA2SO4), n * salt_mm(halide[k])};
-        for (int j = 0; j < 4; j++) {
-            q->salt[sp[j]] += d[j];
-            r->salt_kg[sp[j]] += d[j];
-        }
-        r->heat_kj += n * 1000.0 * scrub_sulfite_redox_kj_per_mol(hypo[k]);
-        r->sulfite_oxidised_mol += n * 1000.0;
+    int sulfate = liquor_salt_get(red)->oxidised_to, halide = liquor_salt_get(hypo)->reduced_to;
+    double so3 = q->salt[red] / salt_mm(red);
+    double ox = q->salt[hypo] / salt_mm(hypo);
+    double n = so3 < ox ? so3 : ox;
+    if (!(n > 0))
+        return;
+    double d_so3 = -n * salt_mm(red), d_ox = -n * salt_mm(hypo);
+    /* the limiting one is used up exactly (no round-off residue left behind) */
+    if (so3 <= ox)
+        d_so3 = -q->salt[red];
+    else
+        d_ox = -q->salt[hypo];
+    const int sp[4] = {red, hypo, sulfate, halide};
+    const double d[4] = {d_so3, d_ox, n * salt_mm(sulfate), n * salt_mm(halide)};
+    for (int j = 0; j < 4; j++) {
+        q->salt[sp[j]] += d[j];
+        r->salt_kg[sp[j]] += d[j];
     }
+    r->heat_kj += n * 1000.0 * scrub_sulfite_redox_kj_per_mol(hypo);
+    r->sulfite_oxidised_mol += n * 1000.0;
 }
 
-/* Absorb one run's vent into the liquor and fill the run's liquor figures. */
-/* Water liquor: the share g of this run's HCl and HBr it can take before its acid reaches
- * the changeout strength (acid_load = 1), with the acids in the run's proportion.  The
- * load after taking g is linear-fractional in g, so the bound is one division. */
-static double water_capacity(const struct scrub_unit_in *u, const struct liq *q, const double *vent)
+/* The oxidants of the salt table, stronger first (table order), on the reductant. */
+static void sulfite_redox(struct liq *q, struct scrub_run_out *r)
 {
-    double hcl = vent[VS_HCL] * gas_mm(VS_HCL) / 1000.0, hbr = vent[VS_HBR] * gas_mm(VS_HBR) / 1000.0;
-    if (!(hcl + hbr > 0))
+    int red = reductant();
+    for (int k = 0; red >= 0 && k < SALT_COUNT; k++)
+        if (liquor_salt_get(k)->reduced_to >= 0)
+            redox_pair(q, r, red, k);
+}
+
+/* Dissolving gases: the share g of this run's acid gases the liquor can take before its acid
+ * reaches the changeout strength (acid_load = 1), with the acids in the run's proportion.
+ * The load after taking g is linear-fractional in g, so the bound is one division. */
+static double acid_capacity(const struct scrub_unit_in *u, const struct liq *q, const double *vent)
+{
+    const struct liquor_info *l = liquor_get(u->liquor);
+    double kg[VS_COUNT], sum = uptake_kg(l, LQ_DISSOLVES, vent, kg);
+    if (!(sum > 0))
         return 1.0;
-    double mh = u->max_acid_wt_pct, mb = u->max_hbr_wt_pct;
-    /* 100 (q_hcl + g hcl) / mh + 100 (q_hbr + g hbr) / mb <= mass + g (hcl + hbr) */
-    double room = liq_mass(q) - 100.0 * q->hcl / mh - 100.0 * q->hbr / mb;
-    double per_g = 100.0 * hcl / mh + 100.0 * hbr / mb - (hcl + hbr);
+    /* sum over acids of 100 (q_v + g kg_v) / max_v <= mass + g sum */
+    double room = liq_mass(q), per_g = 0;
+    for (int v = 0; v < VS_COUNT; v++)
+        if (l->gas[v].uptake == LQ_DISSOLVES) {
+            room -= 100.0 * q->gas[v] / max_wt(u, l, v);
+            per_g += 100.0 * kg[v] / max_wt(u, l, v);
+        }
+    per_g -= sum;
     if (!(room > 0))
         return 0.0;
     if (!(per_g > room))
@@ -499,70 +357,103 @@ static double water_capacity(const struct scrub_unit_in *u, const struct liq *q,
     return room / per_g;
 }
 
+/* Dissolving gases into the liquor: taken[v] for them, their heat; the gases the liquor
+ * passes are counted as unabsorbed (a warning). */
+static void absorb_dissolved(const struct scrub_unit_in *u, struct liq *q, const double *vent,
+                             struct scrub_run_out *r, double *taken)
+{
+    const struct liquor_info *l = liquor_get(u->liquor);
+    /* past the changeout strength the acid's vapour pressure stops absorption; the liquor
+     * figures still count the whole vent (the changeout warning covers it) */
+    double g = acid_capacity(u, q, vent);
+    for (int v = 0; v < VS_COUNT; v++) {
+        if (l->gas[v].uptake == LQ_DISSOLVES) {
+            taken[v] = g;
+            q->gas[v] += vent[v] * gas_mm(v) / 1000.0;
+            r->heat_kj += vent[v] * scrub_heat_kj_per_mol(v, u->liquor);
+        }
+    }
+    for (int v = 0; v < VS_COUNT; v++)
+        if (l->gas[v].uptake == LQ_PASSES)
+            r->unabsorbed_mol += vent[v];
+    r->unabsorbed = r->unabsorbed_mol > 0;
+}
+
+/* Reacting gases on the base: salts, water, base used and heat.  When the base runs out,
+ * every gas is neutralised in the same proportion f and the rest breaks through: a simple
+ * bound, flagged as exhausted. */
+static void absorb_base(const struct scrub_unit_in *u, struct liq *q, const double *vent,
+                        struct scrub_run_out *r, double *taken)
+{
+    const struct liquor_info *l = liquor_get(u->liquor);
+    double mm = base_mm(l), need_kg = 0, total_mol = 0;
+    for (int v = 0; v < VS_COUNT; v++) {
+        if (l->gas[v].uptake != LQ_REACTS)
+            continue;
+        need_kg += vent[v] * l->gas[v].base_mol * mm / 1000.0;
+        total_mol += vent[v];
+    }
+    double f = need_kg > q->naoh ? (q->naoh > 0 ? q->naoh / need_kg : 0) : 1.0;
+    r->breakthrough_mol = (1.0 - f) * total_mol;
+    for (int v = 0; v < VS_COUNT; v++) {
+        const struct liquor_gas *g = &l->gas[v];
+        double n = f * vent[v];
+        if (g->uptake != LQ_REACTS)
+            continue;
+        taken[v] = f;
+        if (!(n > 0))
+            continue;
+        q->naoh -= n * g->base_mol * mm / 1000.0;
+        q->water += n * g->water_mol * M_H2O / 1000.0;
+        r->water_formed_kg += n * g->water_mol * M_H2O / 1000.0;
+        for (int k = 0; k < 2; k++)
+            if (g->salt[k] >= 0) {
+                double kg = n * g->salt_mol[k] * salt_mm(g->salt[k]) / 1000.0;
+                q->salt[g->salt[k]] += kg;
+                r->salt_kg[g->salt[k]] += kg;
+            }
+        r->naoh_kg += n * g->base_mol * mm / 1000.0;
+        r->heat_kj += n * scrub_heat_kj_per_mol(v, u->liquor);
+    }
+    if (q->naoh < 0)
+        q->naoh = 0; /* round-off only: f caps the use at what is there */
+    sulfite_redox(q, r);
+}
+
+/* Composition of the liquor in q [wt%]. */
+static struct liquor_comp comp_of(const struct liq *q)
+{
+    struct liquor_comp c = {0};
+    double m = liq_mass(q);
+    if (m > 0) {
+        c.base_wt_pct = q->naoh / m * 100.0;
+        for (int v = 0; v < VS_COUNT; v++)
+            c.gas_wt_pct[v] = q->gas[v] / m * 100.0;
+    }
+    return c;
+}
+
 /* Absorb one run's vent into the liquor and fill the run's liquor figures; taken[v] is
  * the share of each gas the liquor could take (the rest breaks through). */
 static void absorb(const struct scrub_unit_in *u, struct liq *q, const double *vent,
                    struct scrub_run_out *r, double *taken)
 {
+    const struct liquor_info *l = liquor_get(u->liquor);
     for (int v = 0; v < VS_COUNT; v++)
         taken[v] = 1.0;
-    double wt_before = 0, hcl_before = 0, hbr_before = 0, mass_before = liq_mass(q);
-    if (u->water_liquor) {
-        hcl_before = mass_before > 0 ? q->hcl / mass_before * 100.0 : 0;
-        hbr_before = mass_before > 0 ? q->hbr / mass_before * 100.0 : 0;
-        /* past the changeout strength the acid's vapour pressure stops absorption; the
-         * liquor figures still count the whole vent (the changeout warning covers it) */
-        taken[VS_HCL] = taken[VS_HBR] = water_capacity(u, q, vent);
-        q->hcl += vent[VS_HCL] * gas_mm(VS_HCL) / 1000.0;
-        q->hbr += vent[VS_HBR] * gas_mm(VS_HBR) / 1000.0;
-        r->heat_kj = vent[VS_HCL] * scrub_heat_kj_per_mol(VS_HCL, 1) +
-                     vent[VS_HBR] * scrub_heat_kj_per_mol(VS_HBR, 1);
-        for (int v = 0; v < VS_COUNT; v++)
-            if (v != VS_HCL && v != VS_HBR)
-                r->unabsorbed_mol += vent[v];
-        r->unabsorbed = r->unabsorbed_mol > 0;
-    } else {
-        wt_before = mass_before > 0 ? q->naoh / mass_before * 100.0 : 0;
-        double need_kg = 0, total_mol = 0;
-        for (int v = 0; v < VS_COUNT; v++) {
-            need_kg += vent[v] * rxns[v].naoh * M_NAOH / 1000.0;
-            total_mol += vent[v];
-        }
-        /* When the NaOH runs out, every gas is neutralised in the same proportion and
-         * the rest breaks through: a simple bound, flagged as exhausted. */
-        double f = need_kg > q->naoh ? (q->naoh > 0 ? q->naoh / need_kg : 0) : 1.0;
-        r->breakthrough_mol = (1.0 - f) * total_mol;
-        for (int v = 0; v < VS_COUNT; v++)
-            taken[v] = f;
-        for (int v = 0; v < VS_COUNT; v++) {
-            double n = f * vent[v];
-            if (!(n > 0))
-                continue;
-            q->naoh -= n * rxns[v].naoh * M_NAOH / 1000.0;
-            q->water += n * M_H2O / 1000.0;
-            r->water_formed_kg += n * M_H2O / 1000.0;
-            for (int k = 0; k < 2; k++)
-                if (rxns[v].salt[k] >= 0) {
-                    double kg = n * rxns[v].nsalt[k] * salt_mm(rxns[v].salt[k]) / 1000.0;
-                    q->salt[rxns[v].salt[k]] += kg;
-                    r->salt_kg[rxns[v].salt[k]] += kg;
-                }
-            r->naoh_kg += n * rxns[v].naoh * M_NAOH / 1000.0;
-            r->heat_kj += n * scrub_heat_kj_per_mol(v, 0);
-        }
-        if (q->naoh < 0)
-            q->naoh = 0; /* round-off only: f caps the use at what is there */
-        sulfite_redox(q, r);
-    }
+    double mass_before = liq_mass(q);
+    struct liquor_comp before = comp_of(q);
+    if (liquor_has(u->liquor, LQ_DISSOLVES))
+        absorb_dissolved(u, q, vent, r, taken);
+    if (liquor_has(u->liquor, LQ_REACTS))
+        absorb_base(u, q, vent, r, taken);
     double mass = liq_mass(q);
     if (mass > mass_before)
         q->dirty = 1;
-    /* The heat warms the whole liquor after absorption; cp at the strength the run
-     * starts with (an input cp overrides the built-in tables).  No cooling: the rises
-     * add up until the next fresh charge (pessimistic). */
-    double cp = u->liquor_cp_given ? u->liquor_cp_kj_kg_k
-                : u->water_liquor ? scrub_acid_cp_kj_kg_k(hcl_before, hbr_before)
-                                  : scrub_liquor_cp_kj_kg_k(wt_before);
+    /* The heat warms the whole liquor after absorption; cp at the composition the run
+     * starts with (an input cp overrides the liquor's tables).  No cooling: the rises add
+     * up until the next fresh charge (pessimistic). */
+    double cp = u->liquor_cp_given ? u->liquor_cp_kj_kg_k : l->cp_kj_kg_k(&before);
     r->temp_rise_k = mass > 0 ? r->heat_kj / (mass * cp) : 0;
     q->temp_c += r->temp_rise_k;
     r->liquor_temp_c_after = q->temp_c;
@@ -570,9 +461,14 @@ static void absorb(const struct scrub_unit_in *u, struct liq *q, const double *v
     r->naoh_left_kg = q->naoh;
     r->liquor_kg_after = mass;
     r->naoh_wt_pct_after = mass > 0 ? q->naoh / mass * 100.0 : 0;
-    r->acid_wt_pct_after = u->water_liquor && mass > 0 ? (q->hcl + q->hbr) / mass * 100.0 : 0;
-    r->hbr_wt_pct_after = u->water_liquor && mass > 0 ? q->hbr / mass * 100.0 : 0;
-    r->boiling_point_c = u->water_liquor ? ACID_BOIL_C : scrub_naoh_boiling_point_c(r->naoh_wt_pct_after);
+    struct liquor_comp after = comp_of(q);
+    after.base_wt_pct = r->naoh_wt_pct_after;
+    double acid_kg = 0;
+    for (int v = 0; v < VS_COUNT; v++)
+        acid_kg += q->gas[v];
+    r->acid_wt_pct_after = mass > 0 ? acid_kg / mass * 100.0 : 0;
+    r->hbr_wt_pct_after = after.gas_wt_pct[VS_HBR]; /* the ledger's own HBr figure */
+    r->boiling_point_c = l->boiling_point_c(&after);
     r->boils = q->temp_c >= r->boiling_point_c;
 }
 /* What leaves the stack: of the share the liquor takes, 1 - removal; the rest whole. */
@@ -592,7 +488,7 @@ static void emit(const double *removal, const double *vent, const double *taken,
 static void removal_in_force(const struct scrub_unit_in *u, struct scrub_unit_out *o)
 {
     for (int v = 0; v < VS_COUNT; v++) {
-        double def = scrub_removal_default(v, u->water_liquor, NULL);
+        double def = scrub_removal_default(v, u->liquor, NULL);
         if (u->removal_given & (1u << v)) {
             o->removal[v] = u->removal[v];
             o->removal_origin[v] = SCRUB_REM_GIVEN;
@@ -615,12 +511,15 @@ static enum hl_status check_inputs(const struct scrub_unit_in *units, int nunits
         const char *id = u->id ? u->id : "?";
         if (!(u->liquor_kg > 0) || !isfinite(u->liquor_kg))
             return hl_err_set(e, HL_ERR_INPUT, "scrubber %s: liquor_kg must be > 0", id);
-        if (!u->water_liquor && (!(u->naoh_wt_pct > 0 && u->naoh_wt_pct < 100) ||
+        const struct liquor_info *l = liquor_get(u->liquor);
+        if (!l)
+            return hl_err_set(e, HL_ERR_INPUT, "scrubber %s: unknown liquor %d", id, u->liquor);
+        if (l->base >= 0 && (!(u->naoh_wt_pct > 0 && u->naoh_wt_pct < 100) ||
                                  !(u->min_naoh_wt_pct >= 0 && u->min_naoh_wt_pct < u->naoh_wt_pct)))
             return hl_err_set(e, HL_ERR_INPUT,
                               "scrubber %s: need 0 < naoh_wt_pct < 100 and 0 <= min_naoh_wt_pct < "
                               "naoh_wt_pct", id);
-        if (!u->water_liquor && !(u->makeup_naoh_wt_pct >= u->naoh_wt_pct && u->makeup_naoh_wt_pct <= 100))
+        if (l->base >= 0 && !(u->makeup_naoh_wt_pct >= u->naoh_wt_pct && u->makeup_naoh_wt_pct <= 100))
             return hl_err_set(e, HL_ERR_INPUT,
                               "scrubber %s: need naoh_wt_pct <= makeup_naoh_wt_pct <= 100", id);
         if (u->liquor_cp_given && !(u->liquor_cp_kj_kg_k > 0 && isfinite(u->liquor_cp_kj_kg_k)))
@@ -633,13 +532,14 @@ static enum hl_status check_inputs(const struct scrub_unit_in *units, int nunits
         for (int v = 0; v < VS_COUNT; v++)
             if ((u->removal_given & (1u << v)) &&
                 (!(u->removal[v] >= 0 && u->removal[v] <= 1) ||
-                 (u->water_liquor && v != VS_HCL && v != VS_HBR && u->removal[v] > 0)))
+                 (l->gas[v].uptake == LQ_PASSES && u->removal[v] > 0)))
                 return hl_err_set(e, HL_ERR_INPUT, "scrubber %s: removal of %s must lie in [0, 1] "
                                   "(0 for Cl2, Br2, SO2 on a water liquor)", id, vent_name(v));
-        if (u->water_liquor && (!(u->max_acid_wt_pct > 0 && u->max_acid_wt_pct < 100) ||
-                                !(u->max_hbr_wt_pct > 0 && u->max_hbr_wt_pct < 100)))
-            return hl_err_set(e, HL_ERR_INPUT,
-                              "scrubber %s: max_acid_wt_pct and max_hbr_wt_pct must be > 0 and < 100", id);
+        for (int v = 0; v < VS_COUNT; v++)
+            if (l->gas[v].uptake == LQ_DISSOLVES &&
+                !(u->max_gas_wt_pct[v] > 0 && u->max_gas_wt_pct[v] < 100))
+                return hl_err_set(e, HL_ERR_INPUT,
+                                  "scrubber %s: max_acid_wt_pct and max_hbr_wt_pct must be > 0 and < 100", id);
         if (u->has_column &&
             (!(u->packing_factor_1_m > 0) || !(u->htu_m > 0) || !(u->removal_fraction > 0) ||
              !(u->removal_fraction < 1) || !(u->flood_fraction > 0) || !(u->flood_fraction <= 1) ||
@@ -1065,44 +965,32 @@ double scrub_hourly_kmol_h(const struct scrub_unit_out *u, int h)
     return sparse_at(u->hourly_kmol_h, u->hourly_hour, u->nhourly, h);
 }
 
-enum hl_status scrub_campaign(const struct scrub_unit_in *units, int nunits,
-                              const struct scrub_run_in *runs, int nruns, const int *order,
-                              struct scrub_run_out *run_out, struct scrub_unit_out *unit_out,
-                              struct hl_err *e)
+/* What the campaign passes share: the inputs, the outputs and the working arrays. */
+struct pass {
+    const struct scrub_unit_in *units; int nunits;
+    const struct scrub_run_in *runs; int nruns;
+    const int *order;
+    struct scrub_run_out *run_out;
+    struct scrub_unit_out *unit_out;
+    struct liq *q;           /* per unit */
+    struct bins bn;          /* sparse hourly bins of the load */
+    int *grp;                /* per run: its group */
+    double *gvent;           /* per group and gas: the group's vent [mol] */
+};
+
+/* Pass 1: each run's gas rate, each unit's time span (the size of its hourly profile) and
+ * gas totals, and the first fill.  A span over 20 years is a bad input. */
+static enum hl_status pass_spans(struct pass *p, struct hl_err *e)
 {
-    if (nunits < 0 || nruns < 0 || (nunits && (!units || !unit_out)) ||
-        (nruns && (!runs || !order || !run_out)))
-        return hl_err_set(e, HL_ERR_INPUT, "scrub_campaign: bad arguments");
-    if (nunits)
-        memset(unit_out, 0, (size_t)nunits * sizeof *unit_out);
-    if (nruns)
-        memset(run_out, 0, (size_t)nruns * sizeof *run_out);
-
-    enum hl_status st = HL_OK;
-    char *seen = hl_calloc((size_t)(nruns ? nruns : 1), 1);
-    struct liq *q = hl_calloc((size_t)(nunits ? nunits : 1), sizeof *q);
-    struct bins bn = {hl_malloc((size_t)(4 * nruns + 1) * sizeof *bn.ev), 0};
-    int *grp = hl_malloc((size_t)(nruns ? nruns : 1) * sizeof *grp);
-    double *gvent = hl_calloc((size_t)(nruns ? nruns : 1) * VS_COUNT, sizeof *gvent);
-    if (!seen || !q || !bn.ev || !grp || !gvent) {
-        st = hl_err_set(e, HL_ERR_NOMEM, "out of memory in the scrubber model");
-        goto out;
-    }
-    if ((st = check_inputs(units, nunits, runs, nruns, order, seen, e)))
-        goto out;
-    for (int u = 0; u < nunits; u++)
-        removal_in_force(&units[u], &unit_out[u]);
-
-    /* Pass 1: each unit's time span, for the size of its hourly profile. */
-    for (int i = 0; i < nruns; i++) {
-        const struct scrub_run_in *r = &runs[i];
+    for (int i = 0; i < p->nruns; i++) {
+        const struct scrub_run_in *r = &p->runs[i];
         double gas = 0;
         for (int v = 0; v < VS_COUNT; v++)
             gas += r->vent_mol[v];
-        run_out[i].acid_kmol_h = gas / 1000.0 / r->feed_h * r->peak_factor;
+        p->run_out[i].acid_kmol_h = gas / 1000.0 / r->feed_h * r->peak_factor;
         if (r->unit < 0)
             continue;
-        struct liq *l = &q[r->unit];
+        struct liq *l = &p->q[r->unit];
         double end = (double)r->start_min + r->feed_h / r->peak_factor * 60.0;
         if (!l->used || r->start_min < l->first_min)
             l->first_min = r->start_min;
@@ -1114,35 +1002,38 @@ enum hl_status scrub_campaign(const struct scrub_unit_in *units, int nunits,
             l->gas_g += r->vent_mol[v] * gas_mm(v);
         }
     }
-    for (int u = 0; u < nunits; u++) {
-        struct scrub_unit_out *o = &unit_out[u];
-        q[u].group = -1;
-        q[u].group_busy_min = -HUGE_VAL;
-        if (!q[u].used)
+    for (int u = 0; u < p->nunits; u++) {
+        struct scrub_unit_out *o = &p->unit_out[u];
+        struct liq *q = &p->q[u];
+        q->group = -1;
+        q->group_busy_min = -HUGE_VAL;
+        if (!q->used)
             continue;
-        o->hour0_min = floor_div(q[u].first_min, 60) * 60;
-        double hours = ceil((q[u].last_end_min - (double)o->hour0_min) / 60.0);
-        if (!(hours <= MAX_HOURS)) {
-            st = hl_err_set(e, HL_ERR_INPUT,
-                            "scrubber %s: load profile would span %.0f hours (more than 20 years)",
-                            units[u].id ? units[u].id : "?", hours);
-            goto out;
-        }
+        o->hour0_min = floor_div(q->first_min, 60) * 60;
+        double hours = ceil((q->last_end_min - (double)o->hour0_min) / 60.0);
+        if (!(hours <= MAX_HOURS))
+            return hl_err_set(e, HL_ERR_INPUT,
+                              "scrubber %s: load profile would span %.0f hours (more than 20 years)",
+                              p->units[u].id ? p->units[u].id : "?", hours);
         o->nhours = hours < 1 ? 1 : (int)hours;
-        fill(&units[u], &q[u]);
-        o->max_liquor_temp_c = q[u].temp_c;
+        fill(&p->units[u], q);
+        o->max_liquor_temp_c = q->temp_c;
     }
+    return HL_OK;
+}
 
-    /* Pass 1b, in start order: groups of runs whose vent windows chain into each other on
-     * a unit (a run joins the group when it starts before the group's latest end), and
-     * each group's total vent, so the changeout is decided once for the whole group. */
+/* Pass 1b, in start order: groups of runs whose vent windows chain into each other on a
+ * unit (a run joins the group when it starts before the group's latest end), and each
+ * group's total vent, so the changeout is decided once for the whole group. */
+static void pass_groups(struct pass *p)
+{
     int ngroups = 0;
-    for (int k = 0; k < nruns; k++) {
-        int i = order[k];
-        const struct scrub_run_in *r = &runs[i];
+    for (int k = 0; k < p->nruns; k++) {
+        int i = p->order[k];
+        const struct scrub_run_in *r = &p->runs[i];
         if (r->unit < 0)
             continue;
-        struct liq *l = &q[r->unit];
+        struct liq *l = &p->q[r->unit];
         double end = vent_end_min(r);
         if (l->group < 0 || (double)r->start_min >= l->group_busy_min) {
             l->group = ngroups++;
@@ -1150,51 +1041,52 @@ enum hl_status scrub_campaign(const struct scrub_unit_in *units, int nunits,
         } else if (end > l->group_busy_min) {
             l->group_busy_min = end;
         }
-        grp[i] = l->group;
+        p->grp[i] = l->group;
         for (int v = 0; v < VS_COUNT; v++)
-            gvent[(size_t)l->group * VS_COUNT + (size_t)v] += r->vent_mol[v];
+            p->gvent[(size_t)l->group * VS_COUNT + (size_t)v] += r->vent_mol[v];
     }
-    for (int u = 0; u < nunits; u++)
-        q[u].group = -1;
+    for (int u = 0; u < p->nunits; u++)
+        p->q[u].group = -1;
+}
 
-    /* Pass 2, in start order: liquor run by run, and each run's vent into the bins.
-     * The vent leaves at rate = amount / feed_h x peak_factor over [start, start +
-     * feed_h / peak_factor], so the amount is conserved.  Bin k holds the kmol entering
-     * in clock hour k (per 1 h): the partial first and last hours go straight into the
-     * bin, the whole hours between into a difference array - O(1) per run.  Both are kept
-     * as sparse entries (bin_add), summed per hour after one sort: memory follows the hours
-     * with load, not the span. */
-    for (int k = 0; k < nruns; k++) {
-        int i = order[k];
-        const struct scrub_run_in *r = &runs[i];
-        struct scrub_run_out *ro = &run_out[i];
+/* Pass 2, in start order: liquor run by run, and each run's vent into the bins.
+ * The vent leaves at rate = amount / feed_h x peak_factor over [start, start +
+ * feed_h / peak_factor], so the amount is conserved.  Bin k holds the kmol entering
+ * in clock hour k (per 1 h): the partial first and last hours go straight into the
+ * bin, the whole hours between into a difference array - O(1) per run.  Both are kept
+ * as sparse entries (bin_add), summed per hour after one sort: memory follows the hours
+ * with load, not the span. */
+static enum hl_status pass_liquor(struct pass *p, struct hl_err *e)
+{
+    for (int k = 0; k < p->nruns; k++) {
+        int i = p->order[k];
+        const struct scrub_run_in *r = &p->runs[i];
+        struct scrub_run_out *ro = &p->run_out[i];
         if (r->unit < 0)
             continue;
-        const struct scrub_unit_in *u = &units[r->unit];
-        struct scrub_unit_out *o = &unit_out[r->unit];
-        struct liq *l = &q[r->unit];
+        const struct scrub_unit_in *u = &p->units[r->unit];
+        struct scrub_unit_out *o = &p->unit_out[r->unit];
+        struct liq *l = &p->q[r->unit];
 
         double rate = ro->acid_kmol_h;
         if (rate > 0) {
             if (rate > l->max_rate)
                 l->max_rate = rate;
-            bin_run(&bn, r, o, rate);
+            bin_run(&p->bn, r, o, rate);
         }
 
         /* At a group's first run the unit is idle: charge fresh liquor when the liquor in
          * the unit cannot carry the whole group (pointless on fresh liquor).  Inside a
          * group no changeout is possible; a run past the limit is flagged. */
-        if (grp[i] != l->group) {
-            l->group = grp[i];
+        if (p->grp[i] != l->group) {
+            l->group = p->grp[i];
             /* between groups the unit stands idle (hours to days here): the liquor is taken
              * back at the fresh-liquor temperature, so heat piles up only within a group of
              * overlapping runs (common practice assumption; no cooler is modelled) */
             l->temp_c = u->fresh_liquor_temp_c;
-            if (l->dirty && over_limit(u, l, &gvent[(size_t)grp[i] * VS_COUNT])) {
-                if ((st = push_spent(o, l, r->start_min, 0))) {
-                    hl_err_set(e, st, "out of memory in the scrubber model");
-                    goto out;
-                }
+            if (l->dirty && over_limit(u, l, &p->gvent[(size_t)p->grp[i] * VS_COUNT])) {
+                if (push_spent(o, l, r->start_min, 0))
+                    return hl_err_set(e, HL_ERR_NOMEM, "out of memory in the scrubber model");
                 fill(u, l);
                 o->changeouts++;
                 ro->changeout_before = 1;
@@ -1213,61 +1105,113 @@ enum hl_status scrub_campaign(const struct scrub_unit_in *units, int nunits,
         o->too_hot_runs += ro->too_hot;
         o->boiling_runs += ro->boils;
     }
+    return HL_OK;
+}
 
-    /* Per unit: the profile, its peak, the final liquor and the caustic make-up. */
-    qsort(bn.ev, (size_t)bn.n, sizeof *bn.ev, bin_cmp);
-    for (size_t k = 0, u = 0; u < (size_t)nunits; u++) {
-        struct scrub_unit_out *o = &unit_out[u];
-        const struct scrub_unit_in *ui = &units[u];
+/* Per unit: the load profile and its peak, the final liquor as a spent batch and the
+ * caustic make-up bought for the changeouts. */
+static enum hl_status pass_units(struct pass *p, struct hl_err *e)
+{
+    struct bins *bn = &p->bn;
+    qsort(bn->ev, (size_t)bn->n, sizeof *bn->ev, bin_cmp);
+    for (size_t k = 0, u = 0; u < (size_t)p->nunits; u++) {
+        struct scrub_unit_out *o = &p->unit_out[u];
+        const struct scrub_unit_in *ui = &p->units[u];
+        struct liq *q = &p->q[u];
         size_t k0 = k;
-        while (k < bn.n && bn.ev[k].unit == (int)u)
+        while (k < bn->n && bn->ev[k].unit == (int)u)
             k++;
-        if (!q[u].used)
+        if (!q->used)
             continue;
         struct series sr = {&o->hourly_kmol_h, &o->hourly_hour, &o->nhourly, o->nhours};
         int at = 0;
-        if ((st = profile(&sr, &bn.ev[k0], k - k0, q[u].max_rate, &o->peak_acid_kmol_h, &at, e)))
-            goto out;
+        enum hl_status st = profile(&sr, &bn->ev[k0], k - k0, q->max_rate, &o->peak_acid_kmol_h, &at, e);
+        if (st)
+            return st;
         o->peak_at_min = o->hour0_min + (int64_t)at * 60;
-        if ((st = push_spent(o, &q[u], (int64_t)ceil(q[u].last_end_min - 1e-9), 1))) {
-            hl_err_set(e, st, "out of memory in the scrubber model");
-            goto out;
-        }
+        if (push_spent(o, q, (int64_t)ceil(q->last_end_min - 1e-9), 1))
+            return hl_err_set(e, HL_ERR_NOMEM, "out of memory in the scrubber model");
         /* The first fill is in place before the campaign: only changeouts buy caustic. */
         double solution_kg, water_kg;
         scrub_fresh_charge(ui->liquor_kg, ui->naoh_wt_pct, ui->makeup_naoh_wt_pct,
-                           ui->water_liquor, &solution_kg, &water_kg);
+                           ui->liquor, &solution_kg, &water_kg);
         o->makeup_kg = o->changeouts * solution_kg;
     }
+    return HL_OK;
+}
 
-    if ((st = emission_profiles(runs, nruns, order, run_out, nunits, unit_out, q, &bn, e)))
-        goto out;
-    if ((st = instant_peaks(runs, nruns, run_out, unit_out, 0, e)) ||
-        (st = instant_peaks(runs, nruns, run_out, unit_out, 1, e)) ||
-        (st = runs_at_peak(runs, nruns, order, run_out, nunits, unit_out, PK_HOURLY, e)) ||
-        (st = runs_at_peak(runs, nruns, order, run_out, nunits, unit_out, PK_INSTANT, e)) ||
-        (st = runs_at_peak(runs, nruns, order, run_out, nunits, unit_out, PK_HEAT, e)))
-        goto out;
-    for (int u = 0; u < nunits; u++) {
-        struct scrub_unit_out *o = &unit_out[u];
+/* The peaks (instantaneous gas and heat, and the runs making each peak), then per unit the
+ * overload against its rating and the column check. */
+static enum hl_status pass_peaks(struct pass *p, struct hl_err *e)
+{
+    enum hl_status st;
+    if ((st = instant_peaks(p->runs, p->nruns, p->run_out, p->unit_out, 0, e)) ||
+        (st = instant_peaks(p->runs, p->nruns, p->run_out, p->unit_out, 1, e)) ||
+        (st = runs_at_peak(p->runs, p->nruns, p->order, p->run_out, p->nunits, p->unit_out, PK_HOURLY, e)) ||
+        (st = runs_at_peak(p->runs, p->nruns, p->order, p->run_out, p->nunits, p->unit_out, PK_INSTANT, e)) ||
+        (st = runs_at_peak(p->runs, p->nruns, p->order, p->run_out, p->nunits, p->unit_out, PK_HEAT, e)))
+        return st;
+    for (int u = 0; u < p->nunits; u++) {
+        const struct scrub_unit_in *ui = &p->units[u];
+        struct scrub_unit_out *o = &p->unit_out[u];
         /* a rating is an instantaneous limit: held against the instantaneous peak */
-        o->overloaded = units[u].rated_acid_kmol_h > 0 &&
-                        o->peak_instant_kmol_h > units[u].rated_acid_kmol_h * (1 + 1e-12);
-        if (units[u].has_column) {
-            double mm = q[u].gas_mol > 0 ? q[u].gas_g / q[u].gas_mol : gas_mm(VS_HCL);
-            column_check(&units[u], o->peak_instant_kmol_h, mm, &o->column);
+        o->overloaded = ui->rated_acid_kmol_h > 0 &&
+                        o->peak_instant_kmol_h > ui->rated_acid_kmol_h * (1 + 1e-12);
+        if (ui->has_column) {
+            double mm = p->q[u].gas_mol > 0 ? p->q[u].gas_g / p->q[u].gas_mol : gas_mm(VS_HCL);
+            column_check(ui, o->peak_instant_kmol_h, mm, &o->column);
         }
     }
+    return HL_OK;
+}
+
+enum hl_status scrub_campaign(const struct scrub_unit_in *units, int nunits,
+                              const struct scrub_run_in *runs, int nruns, const int *order,
+                              struct scrub_run_out *run_out, struct scrub_unit_out *unit_out,
+                              struct hl_err *e)
+{
+    if (nunits < 0 || nruns < 0 || (nunits && (!units || !unit_out)) ||
+        (nruns && (!runs || !order || !run_out)))
+        return hl_err_set(e, HL_ERR_INPUT, "scrub_campaign: bad arguments");
+    if (nunits)
+        memset(unit_out, 0, (size_t)nunits * sizeof *unit_out);
+    if (nruns)
+        memset(run_out, 0, (size_t)nruns * sizeof *run_out);
+
+    enum hl_status st = HL_OK;
+    size_t n1 = (size_t)(nruns ? nruns : 1);
+    struct pass p = {units, nunits, runs, nruns, order, run_out, unit_out, NULL, {NULL, 0}, NULL, NULL};
+    /* allocated one after another, in this order (the allocation-failure walks count them) */
+    char *seen = hl_calloc(n1, 1);
+    p.q = hl_calloc((size_t)(nunits ? nunits : 1), sizeof *p.q);
+    p.bn.ev = hl_malloc((size_t)(4 * nruns + 1) * sizeof *p.bn.ev);
+    p.grp = hl_malloc(n1 * sizeof *p.grp);
+    p.gvent = hl_calloc(n1 * VS_COUNT, sizeof *p.gvent);
+    if (!seen || !p.q || !p.bn.ev || !p.grp || !p.gvent) {
+        st = hl_err_set(e, HL_ERR_NOMEM, "out of memory in the scrubber model");
+        goto out;
+    }
+    if ((st = check_inputs(units, nunits, runs, nruns, order, seen, e)))
+        goto out;
+    for (int u = 0; u < nunits; u++)
+        removal_in_force(&units[u], &unit_out[u]);
+    if ((st = pass_spans(&p, e)))
+        goto out;
+    pass_groups(&p);
+    if ((st = pass_liquor(&p, e)) || (st = pass_units(&p, e)) ||
+        (st = emission_profiles(runs, nruns, order, run_out, nunits, unit_out, p.q, &p.bn, e)) ||
+        (st = pass_peaks(&p, e)))
+        goto out;
 
 out:
     if (st && nunits && unit_out) {
         scrub_unit_out_free(unit_out, nunits);
         memset(unit_out, 0, (size_t)nunits * sizeof *unit_out);
     }
-    hl_free(bn.ev);
-    hl_free(gvent);
-    hl_free(grp);
-    hl_free(q);
+    hl_free(p.bn.ev);
+    hl_free(p.gvent);
+    hl_free(p.grp);
+    hl_free(p.q);
     hl_free(seen);
     return st;
 }

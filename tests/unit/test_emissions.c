@@ -111,8 +111,8 @@ static void test_caustic_breakthrough(void)
  * x / (100 + x) = 0.20, x = 25 kg; of those 1 - 0.95 leaves, and the other 5 kg whole. */
 static void test_water_breakthrough(void)
 {
-    struct scrub_unit_in u = {.id = "Q", .water_liquor = 1, .liquor_kg = 100, .max_acid_wt_pct = 20,
-                              .max_hbr_wt_pct = 47, .fresh_liquor_temp_c = 25, .max_liquor_temp_c = 40};
+    struct scrub_unit_in u = {.id = "Q", .liquor = LQ_WATER, .liquor_kg = 100, .max_gas_wt_pct = {[VS_HCL] = 20, [VS_HBR] = 47},
+                              .fresh_liquor_temp_c = 25, .max_liquor_temp_c = 40};
     struct scrub_run_in r = {.unit = 0, .start_min = t("2027-05-01T00:00"), .feed_h = 1, .peak_factor = 1};
     r.vent_mol[VS_HCL] = 30.0 * 1000 / MM_HCL;
     r.vent_mol[VS_CL2] = 10;

@@ -13,6 +13,8 @@
 #include "reagents.h"
 
 #include <ctype.h>
+#include <math.h>
+#include <stdio.h>
 #include <string.h>
 
 static void masses_match_formulas(void)
@@ -151,6 +153,70 @@ static void lookups(void)
     }
     CU_ASSERT_PTR_NULL(vent_get(VS_COUNT));
     CU_ASSERT_PTR_NULL(vent_get(-1));
+}
+
+/* Every liquor row, automatically for a new one: each reacting gas balances element by element
+ * (gas + n base -> salts + water, counted from the formulas of the rows), a dissolving gas has
+ * a changeout strength and a solution enthalpy, a gas it passes is credited no removal, and
+ * the property tables give finite positive values for the fresh liquor. */
+static void liquor_rows(void)
+{
+    for (int q = 0; q < LQ_COUNT; q++) {
+        const struct liquor_info *l = liquor_get(q);
+        CU_ASSERT_PTR_NOT_NULL_FATAL(l);
+        CU_ASSERT(l->name && l->name[0]);
+        CU_ASSERT_PTR_NOT_NULL(l->bp_basis);
+        for (int v = 0; v < VS_COUNT; v++) {
+            const struct liquor_gas *g = &l->gas[v];
+            CU_ASSERT(g->removal >= 0 && g->removal <= 1);
+            CU_ASSERT_PTR_NOT_NULL(g->removal_origin);
+            CU_ASSERT_PTR_NOT_NULL(liquor_dfh_get(g->dfh_gas));
+            if (g->uptake == LQ_PASSES)
+                CU_ASSERT_EQUAL(g->removal, 0);
+            if (g->uptake == LQ_DISSOLVES)
+                CU_ASSERT_PTR_NOT_NULL(liquor_dfh_get(g->dfh_taken));
+            if (g->uptake != LQ_REACTS)
+                continue;
+            CU_ASSERT_FATAL(l->base >= 0 && l->base < RG_COUNT && g->base_mol > 0);
+            CU_ASSERT_PTR_NOT_NULL(liquor_dfh_get(l->dfh_base));
+            double bal[EL_COUNT] = {0};
+            struct formula f;
+            CU_ASSERT_EQUAL_FATAL(formula_parse(vent_formula(v), &f, NULL), HL_OK);
+            for (int el = 0; el < EL_COUNT; el++)
+                bal[el] += f.n[el];
+            CU_ASSERT_EQUAL_FATAL(formula_parse(reagent_get(l->base)->formula, &f, NULL), HL_OK);
+            for (int el = 0; el < EL_COUNT; el++)
+                bal[el] += g->base_mol * f.n[el];
+            CU_ASSERT_EQUAL_FATAL(formula_parse("H2O", &f, NULL), HL_OK);
+            for (int el = 0; el < EL_COUNT; el++)
+                bal[el] -= g->water_mol * f.n[el];
+            for (int k = 0; k < 2; k++) {
+                if (g->salt[k] < 0)
+                    continue;
+                CU_ASSERT_PTR_NOT_NULL_FATAL(liquor_salt_get(g->salt[k]));
+                CU_ASSERT_EQUAL_FATAL(formula_parse(liquor_salt_get(g->salt[k])->name, &f, NULL), HL_OK);
+                for (int el = 0; el < EL_COUNT; el++)
+                    bal[el] -= g->salt_mol[k] * f.n[el];
+            }
+            for (int el = 0; el < EL_COUNT; el++)
+                if (bal[el] != 0)
+                    printf("liquor %s, gas %s: element %s off by %g\n", l->name, vent_name(v),
+                           elem_symbol(el), bal[el]);
+            for (int el = 0; el < EL_COUNT; el++)
+                CU_ASSERT_EQUAL(bal[el], 0);
+        }
+        struct liquor_comp fresh = {.base_wt_pct = l->base >= 0 ? 10 : 0};
+        double x[4] = {l->cp_kj_kg_k(&fresh), l->boiling_point_c(&fresh), l->density_kg_m3(&fresh),
+                       l->viscosity_mpa_s(&fresh)};
+        for (int k = 0; k < 4; k++)
+            CU_ASSERT(isfinite(x[k]) && x[k] > 0);
+    }
+    CU_ASSERT_PTR_NULL(liquor_get(LQ_COUNT));
+    CU_ASSERT_PTR_NULL(liquor_get(-1));
+    CU_ASSERT_EQUAL(liquor_has(-1, LQ_REACTS), 0);
+    /* the campaign spellings (design section 3) */
+    CU_ASSERT_STRING_EQUAL(liquor_get(LQ_NAOH)->name, "naoh");
+    CU_ASSERT_STRING_EQUAL(liquor_get(LQ_WATER)->name, "water");
 }
 
 /* Every salt row: its name is its formula, and the molar mass is that formula's. */
@@ -297,7 +363,7 @@ int main(void)
         {"masses match formulas", masses_match_formulas},
         {"stoichiometry balances", stoichiometry_balances},
         {"unreacted and phase", unreacted_and_phase},
-        {"lookups", lookups}, {"salt rows", salt_rows},
+        {"lookups", lookups}, {"salt rows", salt_rows}, {"liquor rows", liquor_rows},
         {"cautions", cautions}, {"IDLH 2025 profiles", idlh_2025},
         {"deferral", deferral}};
     return CU_RUN_ALL("reagents", cases);

@@ -37,8 +37,8 @@ static struct scrub_unit_in caustic(double kg, double wt, double min_wt)
 
 static struct scrub_unit_in water(double kg, double max_acid_wt_pct)
 {
-    return (struct scrub_unit_in){.id = "W", .water_liquor = 1, .liquor_kg = kg,
-                                  .max_acid_wt_pct = max_acid_wt_pct, .max_hbr_wt_pct = 47,
+    return (struct scrub_unit_in){.id = "W", .liquor = LQ_WATER, .liquor_kg = kg,
+                                  .max_gas_wt_pct = {[VS_HCL] = max_acid_wt_pct, [VS_HBR] = 47},
                                   .fresh_liquor_temp_c = 25, .max_liquor_temp_c = 40};
 }
 
@@ -82,25 +82,25 @@ static enum hl_status go(const struct scrub_unit_in *u, int nu, const struct scr
 static void heats(void)
 {
     /* each reaction of design section 4 against the hand sums above */
-    ASSERT_ABS(scrub_heat_kj_per_mol(VS_HCL, 0), 130.679, 1e-9);
-    ASSERT_REL(scrub_heat_kj_per_mol(VS_HCL, 0), H_HCL, 1e-12);
-    ASSERT_REL(scrub_heat_kj_per_mol(VS_HBR, 0), H_HBR, 1e-12);
-    ASSERT_REL(scrub_heat_kj_per_mol(VS_CL2, 0), H_CL2, 1e-12);
-    ASSERT_REL(scrub_heat_kj_per_mol(VS_BR2, 0), H_BR2, 1e-12);
-    ASSERT_REL(scrub_heat_kj_per_mol(VS_SO2, 0), H_SO2, 1e-12);
+    ASSERT_ABS(scrub_heat_kj_per_mol(VS_HCL, LQ_NAOH), 130.679, 1e-9);
+    ASSERT_REL(scrub_heat_kj_per_mol(VS_HCL, LQ_NAOH), H_HCL, 1e-12);
+    ASSERT_REL(scrub_heat_kj_per_mol(VS_HBR, LQ_NAOH), H_HBR, 1e-12);
+    ASSERT_REL(scrub_heat_kj_per_mol(VS_CL2, LQ_NAOH), H_CL2, 1e-12);
+    ASSERT_REL(scrub_heat_kj_per_mol(VS_BR2, LQ_NAOH), H_BR2, 1e-12);
+    ASSERT_REL(scrub_heat_kj_per_mol(VS_SO2, LQ_NAOH), H_SO2, 1e-12);
     ASSERT_REL(scrub_sulfite_redox_kj_per_mol(SALT_NAOCL), H_REDOX_CL, 1e-12);
     ASSERT_REL(scrub_sulfite_redox_kj_per_mol(SALT_NAOBR), H_REDOX_BR, 1e-12);
     /* design-issue targets derived from NBS/CODATA formation enthalpies:
      * HCl(g) + NaOH(aq) -> NaCl(aq) + H2O(l): -130.7 kJ/mol;
      * Cl2(g) + 2 NaOH(aq) -> NaCl(aq) + NaOCl(aq) + H2O(l): -100.1 kJ/mol */
-    ASSERT_ABS(scrub_heat_kj_per_mol(VS_HCL, 0), 130.7, 0.2);
-    ASSERT_ABS(scrub_heat_kj_per_mol(VS_CL2, 0), 100.1, 0.2);
+    ASSERT_ABS(scrub_heat_kj_per_mol(VS_HCL, LQ_NAOH), 130.7, 0.2);
+    ASSERT_ABS(scrub_heat_kj_per_mol(VS_CL2, LQ_NAOH), 100.1, 0.2);
     /* HBr(g) + NaOH(aq): -361.67 - 285.83 + 36.29 + 470.11 = -141.10 (NBS 1982 aq values,
      * CODATA 1989 HBr(g)) */
-    ASSERT_ABS(scrub_heat_kj_per_mol(VS_HBR, 0), 141.10, 0.05);
+    ASSERT_ABS(scrub_heat_kj_per_mol(VS_HBR, LQ_NAOH), 141.10, 0.05);
     /* heat of solution HCl(g) -> HCl(aq): -167.16 - (-92.31) = -74.85 (NBS 1982) */
-    ASSERT_ABS(scrub_heat_kj_per_mol(VS_HCL, 1), 74.85, 0.01);
-    CU_ASSERT_EQUAL(scrub_heat_kj_per_mol(VS_CL2, 1), 0); /* chlorine is not absorbed by water */
+    ASSERT_ABS(scrub_heat_kj_per_mol(VS_HCL, LQ_WATER), 74.85, 0.01);
+    CU_ASSERT_EQUAL(scrub_heat_kj_per_mol(VS_CL2, LQ_WATER), 0); /* chlorine is not absorbed by water */
     /* the table holds the values stated in the NBS/CODATA tables */
     static const struct { const char *sp; double v; } want[] = {
         {"HCl(g)", -92.31}, {"NaOH(aq)", -470.11}, {"NaCl(aq)", -407.27}, {"H2O(l)", -285.83},
@@ -108,15 +108,15 @@ static void heats(void)
         {"Br2(g)", 30.91}};
     for (size_t k = 0; k < sizeof want / sizeof want[0]; k++) {
         int found = 0;
-        for (int i = 0; scrub_dfh_get(i); i++)
-            if (!strcmp(scrub_dfh_get(i)->species, want[k].sp)) {
+        for (int i = 0; liquor_dfh_get(i); i++)
+            if (!strcmp(liquor_dfh_get(i)->species, want[k].sp)) {
                 found = 1;
-                ASSERT_ABS(scrub_dfh_get(i)->dfh_kj_mol, want[k].v, 0.006);
-                CU_ASSERT_PTR_NOT_NULL(scrub_dfh_get(i)->source);
+                ASSERT_ABS(liquor_dfh_get(i)->dfh_kj_mol, want[k].v, 0.006);
+                CU_ASSERT_PTR_NOT_NULL(liquor_dfh_get(i)->source);
             }
         CU_ASSERT(found);
     }
-    CU_ASSERT_PTR_NULL(scrub_dfh_get(-1));
+    CU_ASSERT_PTR_NULL(liquor_dfh_get(-1));
     /* sulfite + hypohalite by hand, from ion values (NBS 1982; SO4^2- -909.27, SO3^2- -635.5,
      * ClO- -107.1, BrO- -94.1 from memory; Cl- -167.159, Br- -121.55):
      *   SO3^2- + ClO- -> SO4^2- + Cl-:  -909.27 - 167.159 + 635.5 + 107.1 = -333.83 kJ/mol
@@ -127,12 +127,12 @@ static void heats(void)
     ASSERT_ABS(scrub_sulfite_redox_kj_per_mol(SALT_NACL), 0, 0);
     ASSERT_ABS(scrub_sulfite_redox_kj_per_mol(SALT_COUNT), 0, 0);
     int found = 0;
-    for (int i = 0; scrub_dfh_get(i); i++)
-        if (!strcmp(scrub_dfh_get(i)->species, "Na2SO4(aq)")) {
+    for (int i = 0; liquor_dfh_get(i); i++)
+        if (!strcmp(liquor_dfh_get(i)->species, "Na2SO4(aq)")) {
             found = 1;
             /* 2 Na+(aq) -240.12 + SO4^2-(aq) -909.27 = -1389.51 (NBS 1982) */
-            ASSERT_ABS(scrub_dfh_get(i)->dfh_kj_mol, -1389.51, 0.006);
-            CU_ASSERT_PTR_NOT_NULL(strstr(scrub_dfh_get(i)->source, "from memory"));
+            ASSERT_ABS(liquor_dfh_get(i)->dfh_kj_mol, -1389.51, 0.006);
+            CU_ASSERT_PTR_NOT_NULL(strstr(liquor_dfh_get(i)->source, "from memory"));
         }
     CU_ASSERT(found);
 }
@@ -146,61 +146,61 @@ static void stoichiometry(void)
     ASSERT_ABS(scrub_naoh_per_mol(VS_BR2), 2, 0);
     ASSERT_ABS(scrub_naoh_per_mol(VS_SO2), 2, 0);
     /* salt molar masses from CIAAW 2021 abridged atomic weights */
-    ASSERT_REL(scrub_salt_molar_mass_g_mol(SALT_NACL), A_NA + A_CL, 1e-12);
-    ASSERT_REL(scrub_salt_molar_mass_g_mol(SALT_NABR), A_NA + A_BR, 1e-12);
-    ASSERT_REL(scrub_salt_molar_mass_g_mol(SALT_NAOCL), 74.439, 1e-9);
-    ASSERT_REL(scrub_salt_molar_mass_g_mol(SALT_NAOBR), 118.893, 1e-9);
-    ASSERT_REL(scrub_salt_molar_mass_g_mol(SALT_NA2SO3), 126.037, 1e-9);
-    ASSERT_REL(scrub_salt_molar_mass_g_mol(SALT_NA2SO4), 2 * A_NA + A_S + 4 * A_O, 1e-12);
-    ASSERT_REL(scrub_salt_molar_mass_g_mol(SALT_NA2SO4), 142.036, 1e-9);
-    CU_ASSERT_STRING_EQUAL(scrub_salt_name(SALT_NAOCL), "NaOCl");
-    CU_ASSERT_STRING_EQUAL(scrub_salt_name(SALT_NA2SO4), "Na2SO4");
-    CU_ASSERT_PTR_NULL(scrub_salt_name(SALT_COUNT));
+    ASSERT_REL(liquor_salt_get(SALT_NACL)->molar_mass_g_mol, A_NA + A_CL, 1e-12);
+    ASSERT_REL(liquor_salt_get(SALT_NABR)->molar_mass_g_mol, A_NA + A_BR, 1e-12);
+    ASSERT_REL(liquor_salt_get(SALT_NAOCL)->molar_mass_g_mol, 74.439, 1e-9);
+    ASSERT_REL(liquor_salt_get(SALT_NAOBR)->molar_mass_g_mol, 118.893, 1e-9);
+    ASSERT_REL(liquor_salt_get(SALT_NA2SO3)->molar_mass_g_mol, 126.037, 1e-9);
+    ASSERT_REL(liquor_salt_get(SALT_NA2SO4)->molar_mass_g_mol, 2 * A_NA + A_S + 4 * A_O, 1e-12);
+    ASSERT_REL(liquor_salt_get(SALT_NA2SO4)->molar_mass_g_mol, 142.036, 1e-9);
+    CU_ASSERT_STRING_EQUAL(liquor_salt_get(SALT_NAOCL)->name, "NaOCl");
+    CU_ASSERT_STRING_EQUAL(liquor_salt_get(SALT_NA2SO4)->name, "Na2SO4");
+    CU_ASSERT_PTR_NULL(liquor_salt_get(SALT_COUNT));
     /* the redox keeps the atoms: Na2SO3 + NaOCl weighs what Na2SO4 + NaCl weighs */
-    ASSERT_REL(scrub_salt_molar_mass_g_mol(SALT_NA2SO3) + scrub_salt_molar_mass_g_mol(SALT_NAOCL),
-               scrub_salt_molar_mass_g_mol(SALT_NA2SO4) + scrub_salt_molar_mass_g_mol(SALT_NACL), 1e-14);
+    ASSERT_REL(liquor_salt_get(SALT_NA2SO3)->molar_mass_g_mol + liquor_salt_get(SALT_NAOCL)->molar_mass_g_mol,
+               liquor_salt_get(SALT_NA2SO4)->molar_mass_g_mol + liquor_salt_get(SALT_NACL)->molar_mass_g_mol, 1e-14);
 }
 
 static void properties(void)
 {
     /* water at 20 C: 998.2 kg/m3 (CRC Handbook), cp 4.18 kJ/(kg K) (IAPWS-95) */
-    ASSERT_ABS(scrub_hcl_acid_density_kg_m3(0), 998.2, 0.1);
-    ASSERT_ABS(scrub_liquor_cp_kj_kg_k(0), 4.18, 0.01);
-    ASSERT_ABS(scrub_hcl_acid_cp_kj_kg_k(0), 4.18, 0.01);
+    ASSERT_ABS(liquor_hcl_acid_density_kg_m3(0), 998.2, 0.1);
+    ASSERT_ABS(liquor_naoh_cp_kj_kg_k(0), 4.18, 0.01);
+    ASSERT_ABS(liquor_hcl_acid_cp_kj_kg_k(0), 4.18, 0.01);
     /* concentrated hydrochloric acid, 37 wt %: 1.18-1.19 g/cm3 on reagent labels */
-    double r37 = scrub_hcl_acid_density_kg_m3(37);
+    double r37 = liquor_hcl_acid_density_kg_m3(37);
     CU_ASSERT(r37 > 1175 && r37 < 1190);
     /* 50 wt % caustic soda: about 1.52-1.53 g/cm3 (producers' data, from memory) */
-    double r50 = scrub_naoh_density_kg_m3(50);
+    double r50 = liquor_naoh_density_kg_m3(50);
     CU_ASSERT(r50 > 1515 && r50 < 1530);
     /* cp falls with concentration (dissolved solute, analytic trend of the tables) */
-    CU_ASSERT(scrub_liquor_cp_kj_kg_k(20) < scrub_liquor_cp_kj_kg_k(10));
-    CU_ASSERT(scrub_hcl_acid_cp_kj_kg_k(30) < scrub_hcl_acid_cp_kj_kg_k(10));
+    CU_ASSERT(liquor_naoh_cp_kj_kg_k(20) < liquor_naoh_cp_kj_kg_k(10));
+    CU_ASSERT(liquor_hcl_acid_cp_kj_kg_k(30) < liquor_hcl_acid_cp_kj_kg_k(10));
     /* clamped outside the table */
-    ASSERT_ABS(scrub_hcl_acid_density_kg_m3(60), scrub_hcl_acid_density_kg_m3(40), 0);
+    ASSERT_ABS(liquor_hcl_acid_density_kg_m3(60), liquor_hcl_acid_density_kg_m3(40), 0);
     /* the tables at their own rows, and halfway by hand. Caustic soda at 20 C [g/cm3]: CRC
      * Handbook of Chemistry and Physics, "Concentrative properties of aqueous solutions"
      * (the table scrubber.c cites; values from memory) */
     static const double rho_naoh[][2] = {{10, 1.1089}, {20, 1.2191}, {30, 1.3277},
                                          {40, 1.4300}, {50, 1.5253}};
     for (int i = 0; i < 5; i++)
-        ASSERT_ABS(scrub_naoh_density_kg_m3(rho_naoh[i][0]), 1000 * rho_naoh[i][1], 0.05);
-    ASSERT_ABS(scrub_naoh_density_kg_m3(15), 1000 * (1.1089 + 1.2191) / 2, 0.05);
+        ASSERT_ABS(liquor_naoh_density_kg_m3(rho_naoh[i][0]), 1000 * rho_naoh[i][1], 0.05);
+    ASSERT_ABS(liquor_naoh_density_kg_m3(15), 1000 * (1.1089 + 1.2191) / 2, 0.05);
     /* hydrochloric acid at 20 C, same CRC table (from memory) */
     static const double rho_hcl[][2] = {{10, 1.0474}, {20, 1.0980}, {30, 1.1493}, {36, 1.1789}};
     for (int i = 0; i < 4; i++)
-        ASSERT_ABS(scrub_hcl_acid_density_kg_m3(rho_hcl[i][0]), 1000 * rho_hcl[i][1], 0.05);
+        ASSERT_ABS(liquor_hcl_acid_density_kg_m3(rho_hcl[i][0]), 1000 * rho_hcl[i][1], 0.05);
     /* caustic soda heat capacity near 20 C [kJ/(kg K)], the values scrubber.c cites (from
      * memory; at 50 % the producers' 0.78 Btu/(lb F) x 4.1868 = 3.27) */
     static const double cp_naoh[][2] = {{10, 3.78}, {20, 3.59}, {30, 3.48}, {40, 3.38}, {50, 3.27}};
     for (int i = 0; i < 5; i++)
-        ASSERT_ABS(scrub_liquor_cp_kj_kg_k(cp_naoh[i][0]), cp_naoh[i][1], 1e-9);
-    ASSERT_ABS(scrub_liquor_cp_kj_kg_k(15), (3.78 + 3.59) / 2, 1e-9);
+        ASSERT_ABS(liquor_naoh_cp_kj_kg_k(cp_naoh[i][0]), cp_naoh[i][1], 1e-9);
+    ASSERT_ABS(liquor_naoh_cp_kj_kg_k(15), (3.78 + 3.59) / 2, 1e-9);
     /* hydrochloric acid: Perry's table of heat capacities of aqueous HCl, 0.72 cal/(g K) at
      * 9.09 mol % HCl (from memory as scrubber.c cites it): 9.09 mol % is
      * 100 x 0.0909 x 36.458 / (0.0909 x 36.458 + 0.9091 x 18.015) = 16.83 wt %, and
      * 0.72 x 4.184 = 3.012 kJ/(kg K) (thermochemical calorie) */
-    ASSERT_ABS(scrub_hcl_acid_cp_kj_kg_k(16.83), 3.012, 0.01);
+    ASSERT_ABS(liquor_hcl_acid_cp_kj_kg_k(16.83), 3.012, 0.01);
 }
 
 /* The default liquor temperature limit is 40 C (README, max_liquor_temp_c; common practice for
@@ -711,7 +711,7 @@ static void column(void)
      * (rho_L / rho_W) mu^-0.1 = 1.2213 x 0.8604 = 1.0508 (analytic; +-1.5 % for mu +-15 %). */
     {
         struct scrub_unit_in k = u;
-        k.water_liquor = 0;
+        k.liquor = LQ_NAOH;
         k.naoh_wt_pct = 20;
         k.min_naoh_wt_pct = 2;
         k.makeup_naoh_wt_pct = 50;
@@ -775,12 +775,12 @@ static void bad_inputs(void)
     CU_ASSERT_EQUAL(go(&u, 1, r, 2, ro, &uo), HL_ERR_INPUT);
     r[0].peak_factor = 1;
     struct scrub_unit_in w = water(1000, 20);
-    w.max_hbr_wt_pct = 0;
+    w.max_gas_wt_pct[VS_HBR] = 0;
     CU_ASSERT_EQUAL(go(&w, 1, r, 2, ro, &uo), HL_ERR_INPUT);
-    w.max_hbr_wt_pct = 47;
-    w.max_acid_wt_pct = 0;
+    w.max_gas_wt_pct[VS_HBR] = 47;
+    w.max_gas_wt_pct[VS_HCL] = 0;
     CU_ASSERT_EQUAL(go(&w, 1, r, 2, ro, &uo), HL_ERR_INPUT);
-    w.max_acid_wt_pct = 20;
+    w.max_gas_wt_pct[VS_HCL] = 20;
     CU_ASSERT_EQUAL_FATAL(go(&w, 1, r, 2, ro, &uo), HL_OK);
     scrub_unit_out_free(&uo, 1);
 }
@@ -950,7 +950,7 @@ static void atoms(const double *salt_kg, double *na, double *s, double *cl, doub
 {
     double m[SALT_COUNT];
     for (int k = 0; k < SALT_COUNT; k++)
-        m[k] = salt_kg[k] / scrub_salt_molar_mass_g_mol(k);
+        m[k] = salt_kg[k] / liquor_salt_get(k)->molar_mass_g_mol;
     *na = m[SALT_NACL] + m[SALT_NABR] + m[SALT_NAOCL] + m[SALT_NAOBR] + 2 * m[SALT_NA2SO3] +
           2 * m[SALT_NA2SO4];
     *s = m[SALT_NA2SO3] + m[SALT_NA2SO4];
@@ -1115,7 +1115,7 @@ static void shortest_window(void)
  * heat 170300 kJ, rise with fresh water's cp 4.18: 170300 / (1161.824 x 4.18) = 35.067 K. */
 static void water_liquor_hbr(void)
 {
-    ASSERT_ABS(scrub_heat_kj_per_mol(VS_HBR, 1), 85.15, 1e-9);
+    ASSERT_ABS(scrub_heat_kj_per_mol(VS_HBR, LQ_WATER), 85.15, 1e-9);
     struct scrub_unit_in u = water(1000, 20);
     struct scrub_run_in r[2] = {run_at("2027-03-02T06:00", 2, VS_HBR, 2000),
                                 run_at("2027-03-03T06:00", 2, VS_HBR, 2000)};
@@ -1153,13 +1153,13 @@ static void water_liquor_hbr(void)
      * 0.295 + 0.279 = 0.574, no changeout. */
     struct scrub_run_in m[2] = {run_at("2027-03-02T06:00", 2, VS_HCL, 2000),
                                 run_at("2027-03-03T06:00", 2, VS_HBR, 2000)};
-    u.max_acid_wt_pct = 10;
-    u.max_hbr_wt_pct = 20;
+    u.max_gas_wt_pct[VS_HCL] = 10;
+    u.max_gas_wt_pct[VS_HBR] = 20;
     CU_ASSERT_EQUAL_FATAL(go(&u, 1, m, 2, ro, &uo), HL_OK);
     CU_ASSERT_EQUAL(ro[1].changeout_before, 1);
     scrub_unit_out_free(&uo, 1);
-    u.max_acid_wt_pct = 20;
-    u.max_hbr_wt_pct = 47;
+    u.max_gas_wt_pct[VS_HCL] = 20;
+    u.max_gas_wt_pct[VS_HBR] = 47;
     CU_ASSERT_EQUAL_FATAL(go(&u, 1, m, 2, ro, &uo), HL_OK);
     CU_ASSERT_EQUAL(ro[1].changeout_before, 0);
     ASSERT_ABS(ro[1].acid_wt_pct_after, (72.916 + 161.824) / 1234.740 * 100, 1e-9);
@@ -1167,19 +1167,19 @@ static void water_liquor_hbr(void)
     scrub_unit_out_free(&uo, 1);
     /* densities: water at 20 C 0.99820 g/cm3 (IAPWS-95); 48 wt% commercial hydrobromic
      * acid about 1.49 g/cm3 (suppliers' data sheets, from memory), within 1 % */
-    ASSERT_ABS(scrub_hbr_acid_density_kg_m3(0), 998.20, 0.01);
-    ASSERT_REL(scrub_hbr_acid_density_kg_m3(48), 1490, 0.01);
-    ASSERT_ABS(scrub_acid_density_kg_m3(10, 0), scrub_hcl_acid_density_kg_m3(10), 1e-9);
+    ASSERT_ABS(liquor_hbr_acid_density_kg_m3(0), 998.20, 0.01);
+    ASSERT_REL(liquor_hbr_acid_density_kg_m3(48), 1490, 0.01);
+    ASSERT_ABS(liquor_acid_density_kg_m3(10, 0), liquor_hcl_acid_density_kg_m3(10), 1e-9);
     /* cp: with no HBr the HCl table itself; HBr at equal mole fraction lowers cp per kg */
     /* Perry's 0.72 cal/(g K) at 9.09 mol % = 16.83 wt % HCl (from memory, worked out in
      * properties() above): 3.012 kJ/(kg K) */
-    ASSERT_ABS(scrub_acid_cp_kj_kg_k(16.83, 0), 3.012, 0.01);
+    ASSERT_ABS(liquor_acid_cp_kj_kg_k(16.83, 0), 3.012, 0.01);
     /* HBr acid by the stated rule (the molar heat capacity of the solution as that of HCl acid
      * at the same mole fraction: an assumption), by hand at Perry's 9.09 mol % row: HBr at
      * x = 0.0909 is 100 x 0.0909 x 80.912 / (0.0909 x 80.912 + 0.9091 x 18.015) = 30.99 wt %;
      * per mole of solution 19.691 g (as HCl) vs 23.732 g, so cp = 3.012 x 19.691 / 23.732
      * = 2.499 kJ/(kg K) */
-    ASSERT_ABS(scrub_acid_cp_kj_kg_k(0, 30.99), 2.499, 0.01);
+    ASSERT_ABS(liquor_acid_cp_kj_kg_k(0, 30.99), 2.499, 0.01);
 }
 
 /* Issue 8 item 6: a liquor reaching its boiling point.  Water liquor, basis 100 C (water at
@@ -1207,10 +1207,10 @@ static void boiling_liquor(void)
     /* caustic: boiling point of NaOH solution at the strength after the run.  Water
      * boils at 99.97 C at 101.325 kPa (IAPWS-95); 50 wt% caustic soda near 143 C
      * (suppliers' data sheets, from memory); rising with strength in between. */
-    ASSERT_ABS(scrub_naoh_boiling_point_c(0), 99.97, 0.05);
-    ASSERT_ABS(scrub_naoh_boiling_point_c(50), 143, 3);
+    ASSERT_ABS(liquor_naoh_boiling_point_c(0), 99.97, 0.05);
+    ASSERT_ABS(liquor_naoh_boiling_point_c(50), 143, 3);
     for (int w = 1; w <= 50; w++)
-        CU_ASSERT(scrub_naoh_boiling_point_c(w) > scrub_naoh_boiling_point_c(w - 1));
+        CU_ASSERT(liquor_naoh_boiling_point_c(w) > liquor_naoh_boiling_point_c(w - 1));
     /* 1000 kg of 18 % NaOH takes 3000 mol HCl (130.679 kJ/mol): 392037 kJ into 1109.35 kg
      * at cp 3.628 (table at 18 %) is a 97.4 K rise, 122 C; NaOH left 60.009 kg = 5.409 wt%,
      * whose boiling point is a little above 100 C: boils */
