@@ -93,6 +93,8 @@ struct vent_info {
     double molar_mass_g_mol; /* CIAAW 2021 conventional weights (elements.h) */
     int caution;             /* enum caution_id */
     const char *mol_key;     /* "HCl_mol" (runs[].vent) */
+    int acid_gas;            /* an acid gas in the glossary's sense (HCl, HBr) */
+    int retained;            /* dissolves in the reaction mass: vent_retained_fraction applies */
 };
 /* Row of a vent species; NULL out of range. Static data. */
 const struct vent_info *vent_get(int vs);

@@ -528,8 +528,7 @@ static enum hl_status compute(const struct bal_in *in, struct bal_cache *cache, 
     else
         o->reagent_left_kg = o->reagent_unreacted_mol * ri->molar_mass_g_mol / 1000.0;
     for (int v = 0; v < VS_COUNT; v++) {
-        int acid = v == VS_HCL || v == VS_HBR || v == VS_SO2;
-        o->retained_mol[v] = acid ? leaving[v] * keep : 0.0;
+        o->retained_mol[v] = vent_get(v)->retained ? leaving[v] * keep : 0.0;
         o->vent_mol[v] = leaving[v] - o->retained_mol[v];
     }
     element_balance(kk, in->reagent, o, pf, formed, succ_mol);

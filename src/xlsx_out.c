@@ -2129,9 +2129,9 @@ static void row_waste_run(struct xw *w, struct xtable *b, lxw_row_t row, int i)
     xt_num(w, b, row, k++, o->overhal_kg);
     xt_num(w, b, row, k++, o->isomer_kg);
     xt_num(w, b, row, k++, o->unreacted_substrate_kg);
-    xt_num(w, b, row, k++, xo_vent_kg(o->retained_mol, VS_HCL));
-    xt_num(w, b, row, k++, xo_vent_kg(o->retained_mol, VS_HBR));
-    xt_num(w, b, row, k++, xo_vent_kg(o->retained_mol, VS_SO2));
+    for (int v = 0; v < VS_COUNT; v++)
+        if (vent_get(v)->retained)
+            xt_num(w, b, row, k++, xo_vent_kg(o->retained_mol, v));
 }
 
 static void xo_waste(struct xw *w)
@@ -2147,9 +2147,9 @@ static void xo_waste(struct xw *w)
     xt_col(&a, XK_KG, 0, "Over-halogenated products [kg]");
     xt_col(&a, XK_KG, 0, "Isomer products [kg]");
     xt_col(&a, XK_KG, 0, "Unreacted substrate [kg]");
-    xt_col(&a, XK_KG, 1, "HCl retained in mass [kg]");
-    xt_col(&a, XK_KG, 1, "HBr retained in mass [kg]");
-    xt_col(&a, XK_KG, 1, "SO2 retained in mass [kg]");
+    for (int v = 0; v < VS_COUNT; v++)
+        if (vent_get(v)->retained)
+            xt_col(&a, XK_KG, 1, "%s retained in mass [kg]", vent_name(v));
     xo_table(w, "Waste by run", &a);
 }
 
@@ -2364,19 +2364,20 @@ static void xo_monthly(struct xw *w)
     }
     /* series only for what the campaign has; at least one so no chart is empty.  Acid
      * gas means HCl and HBr; the halogens and SO2 get a chart of their own. */
-    int acid[2], na = 0, hal[3], nh = 0, rg[RG_CHARGEABLE], nr = 0;
-    const int acid_gas[2] = {VS_HCL, VS_HBR}, other_gas[3] = {VS_CL2, VS_BR2, VS_SO2};
-    for (int j = 0; j < 2; j++)
-        if (b.sum[MC_VENT + acid_gas[j]] != 0)
-            acid[na++] = MC_VENT + acid_gas[j];
-    for (int j = 0; j < 3; j++)
-        if (b.sum[MC_VENT + other_gas[j]] != 0)
-            hal[nh++] = MC_VENT + other_gas[j];
+    int acid[VS_COUNT], na = 0, hal[VS_COUNT], nh = 0, rg[RG_CHARGEABLE], nr = 0;
+    for (int v = 0; v < VS_COUNT; v++)
+        if (b.sum[MC_VENT + v] != 0) {
+            if (vent_get(v)->acid_gas)
+                acid[na++] = MC_VENT + v;
+            else
+                hal[nh++] = MC_VENT + v;
+        }
     for (int g = 0; g < RG_CHARGEABLE; g++)
         if (b.sum[MC_REAGENT + g] != 0)
             rg[nr++] = MC_REAGENT + g;
-    if (na == 0)
-        acid[na++] = MC_VENT + VS_HCL;
+    for (int v = 0; na == 0 && v < VS_COUNT; v++) /* none vented: the first acid gas */
+        if (vent_get(v)->acid_gas)
+            acid[na++] = MC_VENT + v;
     if (nr == 0)
         rg[nr++] = MC_REAGENT;
     int naoh[1] = {MC_NAOH};

@@ -151,6 +151,9 @@ static void lookups(void)
         CU_ASSERT_STRING_EQUAL(vent_get(v)->mol_key, vk[v]);
         CU_ASSERT_STRING_EQUAL(vent_get(v)->name, vn[v]);
     }
+    /* acid gas: HCl and HBr only (DEVELOPERS.md glossary) */
+    for (int v = 0; v < VS_COUNT; v++)
+        CU_ASSERT_EQUAL(vent_get(v)->acid_gas, v == VS_HCL || v == VS_HBR);
     CU_ASSERT_PTR_NULL(vent_get(VS_COUNT));
     CU_ASSERT_PTR_NULL(vent_get(-1));
 }
