@@ -320,7 +320,7 @@ edit('unknown_key_top_run', '  "runs": [', '  @@"run": [],\n  "runs": [', 'run',
 edit('reagent_lower_case', '"reagent": "Br2"', '"reagent": @@"br2"', 'runs[1].reagent',
      'unknown reagent "br2" (did you mean "Br2"?)')
 edit('reagent_name_spelled_out', '"reagent": "Cl2", "reagent_eq"', '"reagent": @@"chlorine", "reagent_eq"',
-     'runs[0].reagent', 'unknown reagent "chlorine" (known: Cl2, Br2, SO2Cl2, NBS, HBr)')
+     'runs[0].reagent', 'unknown reagent "chlorine" (known: Cl2, Br2, SO2Cl2, NBS, HBr')
 edit('reagent_naoh_in_run', '"reagent": "Br2"', '"reagent": @@"NaOH"', 'runs[1].reagent',
      '"NaOH" cannot be charged to a reactor')
 edit('reagent_stock_unknown', '{"reagent": "Cl2", "on_hand_kg"', '{"reagent": @@"Cl", "on_hand_kg"',

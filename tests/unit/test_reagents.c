@@ -121,11 +121,17 @@ static void unreacted_and_phase(void)
 
 static void lookups(void)
 {
-    static const char *names[RG_COUNT] = {"Cl2", "Br2", "SO2Cl2", "NBS", "HBr", "NaOH"};
-    for (int i = 0; i < RG_COUNT; i++) {
-        CU_ASSERT_EQUAL(reagent_lookup(names[i]), i);
-        CU_ASSERT_STRING_EQUAL(reagent_get(i)->name, names[i]);
+    /* the campaign spellings of design section 3 (a new reagent adds its own) */
+    static const struct { const char *name; int id; } spelled[] = {
+        {"Cl2", RG_CL2}, {"Br2", RG_BR2}, {"SO2Cl2", RG_SO2CL2}, {"NBS", RG_NBS}, {"HBr", RG_HBR},
+        {"NaOH", RG_NAOH}};
+    for (size_t i = 0; i < sizeof spelled / sizeof spelled[0]; i++) {
+        CU_ASSERT_EQUAL(reagent_lookup(spelled[i].name), spelled[i].id);
+        CU_ASSERT_STRING_EQUAL(reagent_get(spelled[i].id)->name, spelled[i].name);
     }
+    /* every row, a new one too: its name finds it */
+    for (int i = 0; i < RG_COUNT; i++)
+        CU_ASSERT_EQUAL(reagent_lookup(reagent_get(i)->name), i);
     CU_ASSERT_EQUAL(reagent_lookup("cl2"), -1);
     CU_ASSERT_EQUAL(reagent_lookup("Cl"), -1);
     CU_ASSERT_EQUAL(reagent_lookup(""), -1);
