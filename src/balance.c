@@ -386,55 +386,69 @@ static void run_figures(const struct reagent_info *ri, const struct formula *rf,
         o->halogen_charged_mol > 0 ? 100.0 * o->halogen_in_wanted_mol / o->halogen_charged_mol : 0.0;
 }
 
-static enum hl_status compute(const struct bal_in *in, struct bal_cache *cache, struct bal_out *o,
-                              struct hl_err *e)
+/* The model constants, the selectivity prediction and the substrate's figures of one run.
+ * Takes the run and the cache (NULL: none); gives *kk (the cache's constants, or *local_k
+ * filled), o->sel (owned by o without a cache, by the cache's entry *ent with one) and o's
+ * substrate formula, molar mass and moles. */
+static enum hl_status prepare(const struct bal_in *in, struct bal_cache *cache,
+                              struct bal_consts *local_k, const struct bal_consts **kk,
+                              struct bal_entry **ent, struct bal_out *o, struct hl_err *e)
 {
-    const struct reagent_info *ri = reagent_get(in->reagent);
-    if (!ri || in->reagent >= RG_CHARGEABLE)
-        return hl_err_at(e, HL_ERR_INPUT, 0, 0, "reagent", "not a reactor reagent");
     enum hl_status st;
-    struct bal_consts local_k;
-    const struct bal_consts *kk = &local_k;
+    *kk = local_k;
     if (cache) {
         if (!cache->have_k && (st = consts_init(&cache->k, e)))
             return st;
         cache->have_k = 1;
-        kk = &cache->k;
-    } else if ((st = consts_init(&local_k, e))) {
+        *kk = &cache->k;
+    } else if ((st = consts_init(local_k, e))) {
         return st;
     }
     struct sel_reactivity user = in->user;
     if (in->nratios > 0)
         user.set_mask |= SEL_OWN_RATIOS;
-    struct bal_entry *ent = NULL;
+    *ent = NULL;
     if (!cache) {
         if (!(o->sel = hl_calloc(1, sizeof *o->sel)))
             return hl_err_set(e, HL_ERR_NOMEM, "out of memory");
         o->sel_owned = 1;
     }
-    if ((st = predict_once(in, &user, cache, &ent, o->sel, e)))
+    if ((st = predict_once(in, &user, cache, ent, o->sel, e)))
         return st;
-    if (ent)
-        o->sel = &ent->sel;
+    if (*ent)
+        o->sel = &(*ent)->sel;
     struct sel_result *s = o->sel;
     o->isomers_resolved = in->smiles != NULL;
     formula_hill(&s->substrate, o->substrate_formula, sizeof o->substrate_formula);
     o->substrate_molar_mass_g_mol = s->molar_mass_g_mol;
     o->substrate_mol = in->substrate_kg * 1000.0 / s->molar_mass_g_mol;
+    return HL_OK;
+}
 
-    /* Step constants of the degree model. Published ratios (methane + Cl2) yield to
-     * the campaign's own. The chain ends where no abstractable H (or C=C) is left. */
-    double k[KIN_MAX_STEPS];
+/* Step constants of the degree model. Published ratios (methane + Cl2) yield to the
+ * campaign's own. The chain ends where no abstractable H (or C=C) is left. Takes the run and
+ * its prediction; gives k[0..*nsteps-1] (k holds KIN_MAX_STEPS) and *nsteps >= 1. */
+static enum hl_status step_constants(const struct bal_in *in, const struct sel_result *s,
+                                     double *k, int *nsteps, struct hl_err *e)
+{
     double phi = in->has_phi ? in->phi : 1.0;
     const double *ratios = in->nratios ? in->ratios : (s->nratios ? s->rate_ratios : NULL);
     int nratios = in->nratios ? in->nratios : s->nratios;
-    int nsteps = ratios ? kin_step_constants(s->h0, s->mean_r, phi, ratios, nratios, k)
-                        : kin_step_constants_sites(s->class_h, s->class_r, SITE_CLASS_COUNT, phi, k);
-    if (nsteps < 1)
+    *nsteps = ratios ? kin_step_constants(s->h0, s->mean_r, phi, ratios, nratios, k)
+                     : kin_step_constants_sites(s->class_h, s->class_r, SITE_CLASS_COUNT, phi, k);
+    if (*nsteps < 1)
         return hl_err_at(e, HL_ERR_INPUT, 0, 0, "model", "rate constants are not usable");
+    return HL_OK;
+}
 
-    /* Charged and reacted. Each mole of reagent reacted puts one halogen on carbon
-     * (X2 and SO2Cl2 by substitution, NBS at allylic/benzylic C-H, HBr across one C=C). */
+/* Charged and reacted. Each mole of reagent reacted puts one halogen on carbon (X2 and
+ * SO2Cl2 by substitution, NBS at allylic/benzylic C-H, HBr across one C=C). Takes the run,
+ * its reagent row and the number of steps (halogens a substrate molecule can take); sets o's
+ * reagent figures, the mean degree and, when the substrate caps the reaction, o->capped and
+ * the warning. */
+static void charge_reagent(const struct bal_in *in, const struct reagent_info *ri, int nsteps,
+                           struct bal_out *o)
+{
     if (in->amount_is_kg) {
         o->reagent_kg = in->reagent_kg;
         o->reagent_mol = in->reagent_kg * 1000.0 / ri->molar_mass_g_mol;
@@ -457,25 +471,23 @@ static enum hl_status compute(const struct bal_in *in, struct bal_cache *cache, 
     o->reagent_unreacted_mol = o->reagent_mol - o->reagent_reacted_mol;
     o->halogen_reacted_mol = o->reagent_reacted_mol;
     o->mean_degree = o->reagent_reacted_mol / o->substrate_mol;
+}
 
-    double x[KIN_MAX_STEPS + 1];
-    double mean = o->mean_degree > nsteps ? nsteps : o->mean_degree;
-    if ((st = kin_solve_extent(in->mode, k, nsteps, mean, x, NULL, e)))
-        return st;
-
-    /* Products: degree 0, the first-step isomers, then higher degrees. */
-    int cap = 1 + s->niso + nsteps;
-    struct formula *pf = hl_calloc((size_t)cap, sizeof *pf);
-    o->products = hl_calloc((size_t)cap, sizeof *o->products);
-    if (!pf || !o->products) {
-        hl_free(pf);
-        return hl_err_set(e, HL_ERR_NOMEM, "out of memory");
-    }
+/* Products: degree 0, the first-step isomers, then higher degrees. Takes the run, its
+ * reagent row, prediction and cache entry (NULL: none), the degree fractions x[0..nsteps] and
+ * pf[cap] (the caller's, freed by it); pushes each product into o->products (cap rows, owned
+ * by o), its formula into pf[] at the same index, and sums the kg of each role. */
+static enum hl_status push_products(const struct bal_in *in, const struct reagent_info *ri,
+                                    const struct sel_result *s, struct bal_entry *ent,
+                                    const double *x, int nsteps, int cap, struct formula *pf,
+                                    struct bal_out *o, struct hl_err *e)
+{
     double n0 = o->substrate_mol;
     struct bal_formula scratch;
     pf[0] = s->substrate;
-    st = push_product(o, cap, in->smiles, product_formula(ent, 0, &s->substrate, &scratch), 0,
-                      x[0] * n0, n0, ROLE_UNREACTED, e);
+    enum hl_status st = push_product(o, cap, in->smiles,
+                                     product_formula(ent, 0, &s->substrate, &scratch), 0,
+                                     x[0] * n0, n0, ROLE_UNREACTED, e);
     const struct bal_formula *f1_text = NULL;
     for (int j = 0; !st && j < s->niso; j++) {
         struct formula f1;
@@ -497,10 +509,8 @@ static enum hl_status compute(const struct bal_in *in, struct bal_cache *cache, 
         st = push_product(o, cap, s->over_smiles[d], product_formula(ent, d, &fd, &scratch), d,
                           x[d] * n0, n0, ROLE_OVERHAL, e);
     }
-    if (st) {
-        hl_free(pf);
+    if (st)
         return st;
-    }
     for (int i = 0; i < o->nproducts; i++) {
         const struct bal_product *p = &o->products[i];
         if (p->role == ROLE_WANTED) o->wanted_kg += p->kg;
@@ -508,11 +518,19 @@ static enum hl_status compute(const struct bal_in *in, struct bal_cache *cache, 
         else if (p->role == ROLE_OVERHAL) o->overhal_kg += p->kg;
         else o->unreacted_substrate_kg += p->kg;
     }
+    return HL_OK;
+}
 
-    /* By-products and vent. Acid gases (HCl, HBr, SO2) partly stay dissolved in the
-     * reaction mass (vent_retained_fraction); unreacted Cl2/Br2 all leave. */
+/* By-products and vent. Acid gases (HCl, HBr, SO2) partly stay dissolved in the reaction
+ * mass (vent_retained_fraction); unreacted Cl2/Br2 all leave. Takes the run, its reagent row
+ * and the constants; gives formed[VS_COUNT] (mol of each vent species formed) and the
+ * succinimide formed [mol]; sets o's by-product kg, reagent left, retained and vent moles. */
+static double vent_gas(const struct bal_in *in, const struct reagent_info *ri,
+                       const struct bal_consts *kk, double *formed, struct bal_out *o)
+{
     double keep = in->vent_retained_fraction;
-    double formed[VS_COUNT] = {0};
+    for (int v = 0; v < VS_COUNT; v++)
+        formed[v] = 0.0;
     if (ri->hx_species >= 0)
         formed[ri->hx_species] += ri->hx_mol * o->reagent_reacted_mol;
     formed[VS_SO2] += ri->so2_mol * o->reagent_reacted_mol;
@@ -531,20 +549,71 @@ static enum hl_status compute(const struct bal_in *in, struct bal_cache *cache, 
         o->retained_mol[v] = vent_get(v)->retained ? leaving[v] * keep : 0.0;
         o->vent_mol[v] = leaving[v] - o->retained_mol[v];
     }
-    element_balance(kk, in->reagent, o, pf, formed, succ_mol);
-    hl_free(pf);
-    run_figures(ri, &kk->reagent[in->reagent], o);
-    if (!st && !o->warning[0] && s->warning[0])
+    return succ_mol;
+}
+
+/* The run's warning when no earlier one was set: the prediction's, else a hot liquid
+ * reagent's. Takes the run, its reagent row and prediction; writes o->warning. */
+static void late_warning(const struct bal_in *in, const struct reagent_info *ri,
+                         const struct sel_result *s, struct bal_out *o)
+{
+    if (!o->warning[0] && s->warning[0])
         snprintf(o->warning, sizeof o->warning, "%s", s->warning);
     /* A liquid reagent kept in the mass (SO2Cl2 boils at about 69 C, its row): above its
      * boiling point, unreacted reagent can leave with the vent gas and react in the scrubber. */
-    if (!st && ri->hot_vent_c > 0 && in->temp_c >= ri->hot_vent_c && o->reagent_left_kg > 0 &&
+    if (ri->hot_vent_c > 0 && in->temp_c >= ri->hot_vent_c && o->reagent_left_kg > 0 &&
         !o->warning[0])
         snprintf(o->warning, sizeof o->warning,
                  "%.1f kg of unreacted %s at %.0f C, above its boiling point (about %.0f C): "
                  "it may leave with the vent gas (%s); the ledger keeps it in the reaction mass",
                  o->reagent_left_kg, ri->name, in->temp_c, ri->hot_vent_c, ri->hot_vent_note);
-    return st;
+}
+
+/* One run's balance (bal_compute_cached without the clean-up): takes the run and the cache
+ * (NULL: none); fills o, which owns what it points at unless the cache does (o->sel). On an
+ * error o may be partly filled: the caller frees it. */
+static enum hl_status compute(const struct bal_in *in, struct bal_cache *cache, struct bal_out *o,
+                              struct hl_err *e)
+{
+    const struct reagent_info *ri = reagent_get(in->reagent);
+    if (!ri || in->reagent >= RG_CHARGEABLE)
+        return hl_err_at(e, HL_ERR_INPUT, 0, 0, "reagent", "not a reactor reagent");
+    enum hl_status st;
+    struct bal_consts local_k;
+    const struct bal_consts *kk;
+    struct bal_entry *ent;
+    if ((st = prepare(in, cache, &local_k, &kk, &ent, o, e)))
+        return st;
+    const struct sel_result *s = o->sel;
+    double k[KIN_MAX_STEPS];
+    int nsteps;
+    if ((st = step_constants(in, s, k, &nsteps, e)))
+        return st;
+    charge_reagent(in, ri, nsteps, o);
+
+    double x[KIN_MAX_STEPS + 1];
+    double mean = o->mean_degree > nsteps ? nsteps : o->mean_degree;
+    if ((st = kin_solve_extent(in->mode, k, nsteps, mean, x, NULL, e)))
+        return st;
+
+    int cap = 1 + s->niso + nsteps;
+    struct formula *pf = hl_calloc((size_t)cap, sizeof *pf);
+    o->products = hl_calloc((size_t)cap, sizeof *o->products);
+    if (!pf || !o->products) {
+        hl_free(pf);
+        return hl_err_set(e, HL_ERR_NOMEM, "out of memory");
+    }
+    if ((st = push_products(in, ri, s, ent, x, nsteps, cap, pf, o, e))) {
+        hl_free(pf);
+        return st;
+    }
+    double formed[VS_COUNT];
+    double succ_mol = vent_gas(in, ri, kk, formed, o);
+    element_balance(kk, in->reagent, o, pf, formed, succ_mol);
+    hl_free(pf);
+    run_figures(ri, &kk->reagent[in->reagent], o);
+    late_warning(in, ri, s, o);
+    return HL_OK;
 }
 
 enum hl_status bal_compute_cached(const struct bal_in *in, struct bal_cache *cache,

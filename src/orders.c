@@ -92,6 +92,158 @@ static int cmp_supply(const void *pa, const void *pb)
     return (a->when_min > b->when_min) - (a->when_min < b->when_min);
 }
 
+/* Per-item books of the plan: the stock carried from month to month, safety stock and lead
+ * time, and the deliveries sorted by item, then time (sv[first[k]..first[k+1]-1] are item k's,
+ * next[k] the first not yet counted; sv NULL without deliveries). */
+struct books {
+    double stock[RG_COUNT], safety[RG_COUNT], lead[RG_COUNT];
+    struct ord_supply *sv;
+    int first[RG_COUNT + 1], next[RG_COUNT];
+};
+
+/* The demand rows grouped by month and item, in that order. Takes d[nd] (nd >= 1); gives
+ * *lines (*ng rows, owned by the caller, hl_free) with month, item, first use and demand set. */
+static enum hl_status group_demand(const struct ord_demand *d, int nd, struct ord_line **lines,
+                                   int *ng_out, struct hl_err *e)
+{
+    struct dm *v = hl_malloc((size_t)nd * sizeof *v);
+    if (!v)
+        return hl_err_set(e, HL_ERR_NOMEM, "out of memory planning orders");
+    for (int i = 0; i < nd; i++)
+        v[i] = (struct dm){isodate_month_index(d[i].when_min), d[i].item, d[i].when_min, d[i].kg, i};
+    qsort(v, (size_t)nd, sizeof *v, cmp_dm);
+
+    int ng = 0;
+    for (int i = 0; i < nd; i++)
+        if (i == 0 || v[i].month != v[i - 1].month || v[i].item != v[i - 1].item)
+            ng++;
+    struct ord_line *L = hl_calloc((size_t)ng, sizeof *L);
+    if (!L) {
+        hl_free(v);
+        return hl_err_set(e, HL_ERR_NOMEM, "out of memory planning orders");
+    }
+    int g = -1;
+    for (int i = 0; i < nd; i++) {
+        if (i == 0 || v[i].month != v[i - 1].month || v[i].item != v[i - 1].item) {
+            L[++g].month_index = v[i].month;
+            L[g].item = v[i].item;
+            L[g].first_use_min = v[i].when; /* sorted by time within the group */
+        }
+        L[g].demand_kg += v[i].kg;
+    }
+    hl_free(v);
+    *lines = L;
+    *ng_out = ng;
+    return HL_OK;
+}
+
+/* The books at the start of the plan from the stock rows s[ns] and the deliveries sup[nsup];
+ * b->sv is a sorted copy of sup owned by the caller (hl_free; NULL when nsup is 0). */
+static enum hl_status open_books(const struct ord_stock *s, int ns, const struct ord_supply *sup,
+                                 int nsup, struct books *b, struct hl_err *e)
+{
+    for (int k = 0; k < RG_COUNT; k++)
+        b->stock[k] = b->safety[k] = b->lead[k] = 0;
+    for (int i = 0; i < ns; i++) {
+        b->stock[s[i].item] = s[i].on_hand_kg;
+        b->safety[s[i].item] = s[i].safety_kg;
+        b->lead[s[i].item] = s[i].lead_days;
+    }
+    /* supplies by item, then time; next[item] walks them alongside the month groups */
+    b->sv = NULL;
+    if (nsup) {
+        b->sv = hl_malloc((size_t)nsup * sizeof *b->sv);
+        if (!b->sv)
+            return hl_err_set(e, HL_ERR_NOMEM, "out of memory planning orders");
+        memcpy(b->sv, sup, (size_t)nsup * sizeof *b->sv);
+        qsort(b->sv, (size_t)nsup, sizeof *b->sv, cmp_supply);
+    }
+    for (int k = 0, j = 0; k <= RG_COUNT; k++) {
+        while (j < nsup && b->sv[j].item < k)
+            j++;
+        b->first[k] = j;
+    }
+    for (int k = 0; k < RG_COUNT; k++)
+        b->next[k] = b->first[k];
+    return HL_OK;
+}
+
+/* The container of o's item that covers o->to_order_kg in the fewest containers, with the
+ * least left unused on a tie; sets o's container figures (o->container borrows c's name), or
+ * buys in bulk when c[nc] has none for the item. */
+static void pick_container(const struct ord_container *c, int nc, struct ord_line *o)
+{
+    int it = o->item;
+    int best = -1, best_n = 0;
+    double best_waste = 0;
+    for (int j = 0; j < nc; j++) {
+        if (c[j].item != it)
+            continue;
+        double usable = c[j].net_kg - c[j].heel_kg;
+        int n = count_containers(o->to_order_kg, usable);
+        double waste = n * usable - o->to_order_kg;
+        if (waste < 0)
+            waste = 0; /* within the round-off guard */
+        double tol = REL_EPS * (usable > 1 ? usable : 1);
+        if (best < 0 || n < best_n || (n == best_n && waste < best_waste - tol)) {
+            best = j;
+            best_n = n;
+            best_waste = waste;
+        }
+    }
+    if (best >= 0) {
+        o->container = c[best].name;
+        o->net_kg = c[best].net_kg;
+        o->heel_kg = c[best].heel_kg;
+        o->containers = best_n;
+        o->ordered_usable_kg = best_n * (c[best].net_kg - c[best].heel_kg);
+    } else {
+        o->no_container = o->demand_kg > 0;
+        o->ordered_usable_kg = o->to_order_kg; /* bought in bulk */
+    }
+}
+
+/* One month line of one item: takes the line (month, item, first use, demand set) and the
+ * books, which it moves on to the end of that month; fills the line's supply, order and
+ * order-by figures (late when ordered after today_min; today_min < 0: no today). */
+static void plan_line(const struct ord_container *c, int nc, int64_t today_min, struct books *b,
+                      struct ord_line *o)
+{
+    double *stock = b->stock;
+    const double *lead = b->lead;
+    const struct ord_supply *sv = b->sv;
+    int *next = b->next;
+    const int *first_sup = b->first;
+    int it = o->item;
+    /* deliveries of earlier months (without a line of this item) are stock by now */
+    while (next[it] < first_sup[it + 1] && isodate_month_index(sv[next[it]].when_min) < o->month_index)
+        stock[it] += sv[next[it]++].kg;
+    while (next[it] < first_sup[it + 1] && isodate_month_index(sv[next[it]].when_min) == o->month_index) {
+        const struct ord_supply *p = &sv[next[it]++];
+        if (p->received)
+            o->received_kg += p->kg;
+        else
+            o->on_order_kg += p->kg;
+    }
+    o->stock_start_kg = stock[it];
+    o->safety_kg = b->safety[it];
+    double have = o->stock_start_kg + o->received_kg + o->on_order_kg;
+    double need = o->demand_kg + o->safety_kg - have;
+    double scale = o->demand_kg + o->safety_kg + fabs(have);
+    o->to_order_kg = need > REL_EPS * scale ? need : 0;
+
+    pick_container(c, nc, o);
+    o->stock_end_kg = have + o->ordered_usable_kg - o->demand_kg;
+    stock[it] = o->stock_end_kg;
+
+    /* whole lead days, rounded up: a fractional day moves the date earlier */
+    int64_t lead_d = (int64_t)ceil(lead[it] - REL_EPS);
+    if (lead_d < 0)
+        lead_d = 0;
+    o->order_by_min = day_start(o->first_use_min) - lead_d * DAY_MIN;
+    o->late = today_min >= 0 && o->to_order_kg > 0 && o->order_by_min < today_min;
+}
+
 enum hl_status ord_plan_supply(const struct ord_demand *d, int nd,
                                const struct ord_stock *s, int ns,
                                const struct ord_container *c, int nc,
@@ -114,124 +266,19 @@ enum hl_status ord_plan_supply(const struct ord_demand *d, int nd,
     if (nd == 0)
         return HL_OK;
 
-    struct dm *v = hl_malloc((size_t)nd * sizeof *v);
-    if (!v)
-        return hl_err_set(e, HL_ERR_NOMEM, "out of memory planning orders");
-    for (int i = 0; i < nd; i++)
-        v[i] = (struct dm){isodate_month_index(d[i].when_min), d[i].item, d[i].when_min, d[i].kg, i};
-    qsort(v, (size_t)nd, sizeof *v, cmp_dm);
-
+    struct ord_line *L = NULL;
     int ng = 0;
-    for (int i = 0; i < nd; i++)
-        if (i == 0 || v[i].month != v[i - 1].month || v[i].item != v[i - 1].item)
-            ng++;
-    struct ord_line *L = hl_calloc((size_t)ng, sizeof *L);
-    if (!L) {
-        hl_free(v);
-        return hl_err_set(e, HL_ERR_NOMEM, "out of memory planning orders");
+    if ((st = group_demand(d, nd, &L, &ng, e)))
+        return st;
+    struct books b;
+    if ((st = open_books(s, ns, sup, nsup, &b, e))) {
+        hl_free(L);
+        return st;
     }
-
-    double stock[RG_COUNT], safety[RG_COUNT], lead[RG_COUNT];
-    for (int k = 0; k < RG_COUNT; k++)
-        stock[k] = safety[k] = lead[k] = 0;
-    for (int i = 0; i < ns; i++) {
-        stock[s[i].item] = s[i].on_hand_kg;
-        safety[s[i].item] = s[i].safety_kg;
-        lead[s[i].item] = s[i].lead_days;
-    }
-
-    /* supplies by item, then time; next[item] walks them alongside the month groups */
-    struct ord_supply *sv = NULL;
-    int first_sup[RG_COUNT + 1];
-    if (nsup) {
-        sv = hl_malloc((size_t)nsup * sizeof *sv);
-        if (!sv) {
-            hl_free(v);
-            hl_free(L);
-            return hl_err_set(e, HL_ERR_NOMEM, "out of memory planning orders");
-        }
-        memcpy(sv, sup, (size_t)nsup * sizeof *sv);
-        qsort(sv, (size_t)nsup, sizeof *sv, cmp_supply);
-    }
-    for (int k = 0, j = 0; k <= RG_COUNT; k++) {
-        while (j < nsup && sv[j].item < k)
-            j++;
-        first_sup[k] = j;
-    }
-    int next[RG_COUNT];
-    for (int k = 0; k < RG_COUNT; k++)
-        next[k] = first_sup[k];
-
-    int g = -1;
-    for (int i = 0; i < nd; i++) {
-        if (i == 0 || v[i].month != v[i - 1].month || v[i].item != v[i - 1].item) {
-            L[++g].month_index = v[i].month;
-            L[g].item = v[i].item;
-            L[g].first_use_min = v[i].when; /* sorted by time within the group */
-        }
-        L[g].demand_kg += v[i].kg;
-    }
-    hl_free(v);
-
     /* Groups are in month order, so the stock of each item carries forward. */
-    for (g = 0; g < ng; g++) {
-        struct ord_line *o = &L[g];
-        int it = o->item;
-        /* deliveries of earlier months (without a line of this item) are stock by now */
-        while (next[it] < first_sup[it + 1] && isodate_month_index(sv[next[it]].when_min) < o->month_index)
-            stock[it] += sv[next[it]++].kg;
-        while (next[it] < first_sup[it + 1] && isodate_month_index(sv[next[it]].when_min) == o->month_index) {
-            const struct ord_supply *p = &sv[next[it]++];
-            if (p->received)
-                o->received_kg += p->kg;
-            else
-                o->on_order_kg += p->kg;
-        }
-        o->stock_start_kg = stock[it];
-        o->safety_kg = safety[it];
-        double have = o->stock_start_kg + o->received_kg + o->on_order_kg;
-        double need = o->demand_kg + o->safety_kg - have;
-        double scale = o->demand_kg + o->safety_kg + fabs(have);
-        o->to_order_kg = need > REL_EPS * scale ? need : 0;
-
-        int best = -1, best_n = 0;
-        double best_waste = 0;
-        for (int j = 0; j < nc; j++) {
-            if (c[j].item != it)
-                continue;
-            double usable = c[j].net_kg - c[j].heel_kg;
-            int n = count_containers(o->to_order_kg, usable);
-            double waste = n * usable - o->to_order_kg;
-            if (waste < 0)
-                waste = 0; /* within the round-off guard */
-            double tol = REL_EPS * (usable > 1 ? usable : 1);
-            if (best < 0 || n < best_n || (n == best_n && waste < best_waste - tol)) {
-                best = j;
-                best_n = n;
-                best_waste = waste;
-            }
-        }
-        if (best >= 0) {
-            o->container = c[best].name;
-            o->net_kg = c[best].net_kg;
-            o->heel_kg = c[best].heel_kg;
-            o->containers = best_n;
-            o->ordered_usable_kg = best_n * (c[best].net_kg - c[best].heel_kg);
-        } else {
-            o->no_container = o->demand_kg > 0;
-            o->ordered_usable_kg = o->to_order_kg; /* bought in bulk */
-        }
-        o->stock_end_kg = have + o->ordered_usable_kg - o->demand_kg;
-        stock[it] = o->stock_end_kg;
-
-        /* whole lead days, rounded up: a fractional day moves the date earlier */
-        int64_t lead_d = (int64_t)ceil(lead[it] - REL_EPS);
-        if (lead_d < 0)
-            lead_d = 0;
-        o->order_by_min = day_start(o->first_use_min) - lead_d * DAY_MIN;
-        o->late = today_min >= 0 && o->to_order_kg > 0 && o->order_by_min < today_min;
-    }
-    hl_free(sv);
+    for (int g = 0; g < ng; g++)
+        plan_line(c, nc, today_min, &b, &L[g]);
+    hl_free(b.sv);
     *out = L;
     *nout = ng;
     return HL_OK;
