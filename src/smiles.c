@@ -315,7 +315,97 @@ static int aromatic_el(const char *p, int *len)
 
 static int is_digit(char c) { return c >= '0' && c <= '9'; }
 
-/* Bracket atom at s[i] == '['. On success *end is the index after ']'. */
+/* Chirality after a bracket atom's symbol at s[*j] (accepted, not modelled): @, @@, @TH1-2,
+ * @AL1-2, @SP1-3, @TB1-20, @OH1-30. Moves *j past it; nothing there is no error. */
+static enum hl_status read_chirality(const char *s, int *pj, struct hl_err *e)
+{
+    int j = *pj;
+    if (s[j] == '@') {
+        int ccol = j + 1;
+        j++;
+        if (s[j] == '@') {
+            j++;
+        } else if (s[j] >= 'A' && s[j] <= 'Z' && s[j + 1] >= 'A' && s[j + 1] <= 'Z') {
+            static const struct { const char *tag; int max; } tags[] = {
+                {"TH", 2}, {"AL", 2}, {"SP", 3}, {"TB", 20}, {"OH", 30}};
+            int found = -1;
+            for (int t = 0; t < 5; t++)
+                if (s[j] == tags[t].tag[0] && s[j + 1] == tags[t].tag[1])
+                    found = t;
+            if (found < 0 || !is_digit(s[j + 2]))
+                return bad(e, ccol, "unknown chirality class%s", NULL);
+            j += 2;
+            int v = 0;
+            while (is_digit(s[j]) && v <= 99)
+                v = v * 10 + (s[j++] - '0');
+            if (v < 1 || v > tags[found].max)
+                return bad(e, ccol, "chirality class number out of range%s", NULL);
+        }
+    }
+    *pj = j;
+    return HL_OK;
+}
+
+/* Charge of a bracket atom at s[*j]: +, ++, -, --, +N or -N (N 1..15); gives *charge (0
+ * when none) and moves *j past it. */
+static enum hl_status read_charge(const char *s, int *pj, int *charge_out, struct hl_err *e)
+{
+    int j = *pj;
+    int charge = 0;
+    if (s[j] == '+' || s[j] == '-') {
+        int ccol = j + 1;
+        char sign = s[j++];
+        int mag = 1;
+        if (s[j] == sign) {
+            j++;
+            mag = 2;
+            if (s[j] == sign || s[j] == '+' || s[j] == '-')
+                return bad(e, ccol, "bad charge: write +3 rather than repeating the sign%s", NULL);
+        } else if (is_digit(s[j])) {
+            mag = 0;
+            int nd = 0;
+            while (is_digit(s[j])) {
+                if (++nd > 2)
+                    return bad(e, ccol, "bad charge: at most 15%s", NULL);
+                mag = mag * 10 + (s[j++] - '0');
+            }
+            if (mag == 0 || mag > 15)
+                return bad(e, ccol, "bad charge: magnitude must be 1..15%s", NULL);
+        }
+        if (s[j] == '+' || s[j] == '-')
+            return bad(e, ccol, "bad charge%s", NULL);
+        charge = sign == '+' ? mag : -mag;
+    }
+    *charge_out = charge;
+    *pj = j;
+    return HL_OK;
+}
+
+/* Atom class of a bracket atom at s[*j]: ':' and up to 6 digits; gives *aclass (0 when
+ * none) and moves *j past it. */
+static enum hl_status read_atom_class(const char *s, int *pj, int *aclass_out, struct hl_err *e)
+{
+    int j = *pj;
+    int aclass = 0;
+    if (s[j] == ':') {
+        int ccol = j + 1;
+        j++;
+        if (!is_digit(s[j]))
+            return bad(e, ccol, "atom class ':' needs a number%s", NULL);
+        int nd = 0;
+        while (is_digit(s[j])) {
+            if (++nd > 6)
+                return bad(e, ccol, "atom class number too long%s", NULL);
+            aclass = aclass * 10 + (s[j++] - '0');
+        }
+    }
+    *aclass_out = aclass;
+    *pj = j;
+    return HL_OK;
+}
+
+/* Bracket atom at s[i] == '[': adds the atom to P->m (*atom its index); *end is the index
+ * after ']'. An error names the column. */
 static enum hl_status read_bracket(struct parser *P, int i, int *end, int *atom, struct hl_err *e)
 {
     const char *s = P->s;
@@ -356,29 +446,9 @@ static enum hl_status read_bracket(struct parser *P, int i, int *end, int *atom,
                   elem_z(el));
         return HL_ERR_INPUT;
     }
-    /* chirality: @, @@, @TH1-2, @AL1-2, @SP1-3, @TB1-20, @OH1-30 (accepted, not modelled) */
-    if (s[j] == '@') {
-        int ccol = j + 1;
-        j++;
-        if (s[j] == '@') {
-            j++;
-        } else if (s[j] >= 'A' && s[j] <= 'Z' && s[j + 1] >= 'A' && s[j + 1] <= 'Z') {
-            static const struct { const char *tag; int max; } tags[] = {
-                {"TH", 2}, {"AL", 2}, {"SP", 3}, {"TB", 20}, {"OH", 30}};
-            int found = -1;
-            for (int t = 0; t < 5; t++)
-                if (s[j] == tags[t].tag[0] && s[j + 1] == tags[t].tag[1])
-                    found = t;
-            if (found < 0 || !is_digit(s[j + 2]))
-                return bad(e, ccol, "unknown chirality class%s", NULL);
-            j += 2;
-            int v = 0;
-            while (is_digit(s[j]) && v <= 99)
-                v = v * 10 + (s[j++] - '0');
-            if (v < 1 || v > tags[found].max)
-                return bad(e, ccol, "chirality class number out of range%s", NULL);
-        }
-    }
+    enum hl_status st;
+    if ((st = read_chirality(s, &j, e)))
+        return st;
     int h = 0;
     if (s[j] == 'H') {
         j++;
@@ -386,44 +456,12 @@ static enum hl_status read_bracket(struct parser *P, int i, int *end, int *atom,
         if (is_digit(s[j]))
             h = s[j++] - '0';
     }
-    int charge = 0;
-    if (s[j] == '+' || s[j] == '-') {
-        int ccol = j + 1;
-        char sign = s[j++];
-        int mag = 1;
-        if (s[j] == sign) {
-            j++;
-            mag = 2;
-            if (s[j] == sign || s[j] == '+' || s[j] == '-')
-                return bad(e, ccol, "bad charge: write +3 rather than repeating the sign%s", NULL);
-        } else if (is_digit(s[j])) {
-            mag = 0;
-            int nd = 0;
-            while (is_digit(s[j])) {
-                if (++nd > 2)
-                    return bad(e, ccol, "bad charge: at most 15%s", NULL);
-                mag = mag * 10 + (s[j++] - '0');
-            }
-            if (mag == 0 || mag > 15)
-                return bad(e, ccol, "bad charge: magnitude must be 1..15%s", NULL);
-        }
-        if (s[j] == '+' || s[j] == '-')
-            return bad(e, ccol, "bad charge%s", NULL);
-        charge = sign == '+' ? mag : -mag;
-    }
-    int aclass = 0;
-    if (s[j] == ':') {
-        int ccol = j + 1;
-        j++;
-        if (!is_digit(s[j]))
-            return bad(e, ccol, "atom class ':' needs a number%s", NULL);
-        int nd = 0;
-        while (is_digit(s[j])) {
-            if (++nd > 6)
-                return bad(e, ccol, "atom class number too long%s", NULL);
-            aclass = aclass * 10 + (s[j++] - '0');
-        }
-    }
+    int charge;
+    if ((st = read_charge(s, &j, &charge, e)))
+        return st;
+    int aclass;
+    if ((st = read_atom_class(s, &j, &aclass, e)))
+        return st;
     if (s[j] != ']') {
         if (!s[j])
             return bad(e, open, "bracket atom not closed with ']'%s", NULL);
@@ -733,6 +771,89 @@ static int kek_augment(struct kek *K, int root)
     return 0;
 }
 
+/* One component of the atoms needing a double bond (need[]), over aromatic bonds, from root:
+ * takes loc[] (-1 for atoms not yet in a component); gives its atoms comp[0..c-1] (root
+ * first, breadth first), loc[atom] = its place there, and its adjacency over those places as
+ * CSR start[0..c], nbr[]; returns c. The arrays are the caller's. */
+static int kek_component(const struct smi_mol *m, const int *need, int root, int *loc, int *comp,
+                         int *start, int *nbr)
+{
+    /* one component of the needing atoms over aromatic bonds, breadth first */
+    int c = 0;
+    comp[c] = root;
+    loc[root] = c++;
+    for (int h = 0; h < c; h++) {
+        int v = comp[h];
+        for (int k = m->adj_start[v]; k < m->adj_start[v + 1]; k++) {
+            int bd = m->adj[k], w = smiles_other(m, bd, v);
+            if (m->bonds[bd].order == SMI_AROMATIC && need[w] && loc[w] < 0) {
+                comp[c] = w;
+                loc[w] = c++;
+            }
+        }
+    }
+    int ne = 0;
+    for (int h = 0; h < c; h++) {
+        int v = comp[h];
+        start[h] = ne;
+        for (int k = m->adj_start[v]; k < m->adj_start[v + 1]; k++) {
+            int bd = m->adj[k], w = smiles_other(m, bd, v);
+            if (m->bonds[bd].order == SMI_AROMATIC && need[w])
+                nbr[ne++] = loc[w];
+        }
+    }
+    start[c] = ne;
+    return c;
+}
+
+/* Greedy start of the matching on K (K->match all -1, nfree[h] = h's neighbour count): matches
+ * atoms with few free neighbours first, so the augmenting search has little left to do.
+ * freec[] (K->n places) is scratch. */
+static void kek_greedy(struct kek *K, int *nfree, int *freec)
+{
+    const int *start = K->start, *nbr = K->nbr;
+    int c = K->n;
+    /* greedy: repeatedly match an atom with the fewest free neighbours (a bucket queue
+     * would be exact; a stack of atoms left with one free neighbour is enough here) */
+    int sp = 0;
+    for (int h = 0; h < c; h++)
+        if (nfree[h] == 1)
+            freec[sp++] = h;
+    for (int next = 0;;) {
+        int v = -1;
+        while (sp && v < 0) {
+            int x = freec[--sp];
+            if (K->match[x] < 0 && nfree[x] >= 1)
+                v = x;
+        }
+        while (v < 0 && next < c) {
+            if (K->match[next] < 0 && nfree[next] >= 1)
+                v = next;
+            next++;
+        }
+        if (v < 0)
+            break;
+        int w = -1;
+        for (int k = start[v]; k < start[v + 1] && w < 0; k++)
+            if (K->match[nbr[k]] < 0)
+                w = nbr[k];
+        if (w < 0) {
+            nfree[v] = 0;
+            continue;
+        }
+        K->match[v] = w;
+        K->match[w] = v;
+        for (int t = 0; t < 2; t++) {
+            int x = t ? w : v;
+            for (int k = start[x]; k < start[x + 1]; k++) {
+                int y = nbr[k];
+                if (K->match[y] < 0 && --nfree[y] == 1)
+                    freec[sp++] = y;
+            }
+        }
+    }
+}
+
 /* 0 with *bad_atom = -1 if every atom needing a double bond can get one, else *bad_atom = the
  * first atom of a system that cannot; -1 on NOMEM. */
 static int kek_check(const struct smi_mol *m, int *bad_atom, struct hl_err *e)
@@ -759,31 +880,7 @@ static int kek_check(const struct smi_mol *m, int *bad_atom, struct hl_err *e)
     for (int root = 0; any && root < n && *bad_atom < 0; root++) {
         if (!need[root] || loc[root] >= 0)
             continue;
-        /* one component of the needing atoms over aromatic bonds, breadth first */
-        int c = 0;
-        comp[c] = root;
-        loc[root] = c++;
-        for (int h = 0; h < c; h++) {
-            int v = comp[h];
-            for (int k = m->adj_start[v]; k < m->adj_start[v + 1]; k++) {
-                int bd = m->adj[k], w = smiles_other(m, bd, v);
-                if (m->bonds[bd].order == SMI_AROMATIC && need[w] && loc[w] < 0) {
-                    comp[c] = w;
-                    loc[w] = c++;
-                }
-            }
-        }
-        int ne = 0;
-        for (int h = 0; h < c; h++) {
-            int v = comp[h];
-            start[h] = ne;
-            for (int k = m->adj_start[v]; k < m->adj_start[v + 1]; k++) {
-                int bd = m->adj[k], w = smiles_other(m, bd, v);
-                if (m->bonds[bd].order == SMI_AROMATIC && need[w])
-                    nbr[ne++] = loc[w];
-            }
-        }
-        start[c] = ne;
+        int c = kek_component(m, need, root, loc, comp, start, nbr);
         struct kek K = {c, start, nbr, work, work + c, work + 2 * c, work + 3 * c, work + 4 * c,
                         work + 5 * c, work + 6 * c};
         int *nfree = work + 7 * c; /* unmatched neighbours, for the greedy order */
@@ -791,45 +888,7 @@ static int kek_check(const struct smi_mol *m, int *bad_atom, struct hl_err *e)
             K.match[h] = -1;
             nfree[h] = start[h + 1] - start[h];
         }
-        /* greedy: repeatedly match an atom with the fewest free neighbours (a bucket queue
-         * would be exact; a stack of atoms left with one free neighbour is enough here) */
-        int sp = 0;
-        for (int h = 0; h < c; h++)
-            if (nfree[h] == 1)
-                freec[sp++] = h;
-        for (int next = 0;;) {
-            int v = -1;
-            while (sp && v < 0) {
-                int x = freec[--sp];
-                if (K.match[x] < 0 && nfree[x] >= 1)
-                    v = x;
-            }
-            while (v < 0 && next < c) {
-                if (K.match[next] < 0 && nfree[next] >= 1)
-                    v = next;
-                next++;
-            }
-            if (v < 0)
-                break;
-            int w = -1;
-            for (int k = start[v]; k < start[v + 1] && w < 0; k++)
-                if (K.match[nbr[k]] < 0)
-                    w = nbr[k];
-            if (w < 0) {
-                nfree[v] = 0;
-                continue;
-            }
-            K.match[v] = w;
-            K.match[w] = v;
-            for (int t = 0; t < 2; t++) {
-                int x = t ? w : v;
-                for (int k = start[x]; k < start[x + 1]; k++) {
-                    int y = nbr[k];
-                    if (K.match[y] < 0 && --nfree[y] == 1)
-                        freec[sp++] = y;
-                }
-            }
-        }
+        kek_greedy(&K, nfree, freec);
         /* blamed: the first atom of the system in the text (comp[0], the lowest index) */
         for (int h = 0; h < c && *bad_atom < 0; h++)
             if (K.match[h] < 0 && !kek_augment(&K, h))
@@ -911,171 +970,241 @@ static enum hl_status finish(struct parser *P, struct hl_err *e)
     return HL_OK;
 }
 
+/* The reader's place in the text: the atom the next bond starts from (prev, -1 at the start),
+ * a bond symbol waiting for its atom (bond, its column bond_col), the open branches (stack:
+ * pairs of atom and column of its '(', sp of them, room for cap; owned, hl_free) and the open
+ * ring bonds. */
+struct walk {
+    struct parser *P;
+    struct ring_open ring[NRING];
+    int *stack, sp, cap;
+    int prev, bond, bond_col, just_opened;
+};
+
+/* An atom at s[i]: a bracket atom, or an organic-subset one (Cl and Br, B C N O P S F I, the
+ * aromatic b c n o p s). Adds it to P->m: *atom its index and *len its characters. Any other
+ * character gives *atom = -1 and no error; a letter that is no such atom is an error. */
+static enum hl_status read_atom(struct parser *P, int i, int *atom, int *len, struct hl_err *e)
+{
+    const char *s = P->s;
+    char c = s[i];
+    int col = i + 1;
+    int el = -1, arom = 0;
+    *atom = -1;
+    *len = 1;
+    if (c == '[') {
+        int end = i;
+        enum hl_status st = read_bracket(P, i, &end, atom, e);
+        if (st)
+            return st;
+        *len = end - i;
+        return HL_OK;
+    } else if (c >= 'A' && c <= 'Z') {
+        if (c == 'C' && s[i + 1] == 'l') { el = EL_Cl; *len = 2; }
+        else if (c == 'B' && s[i + 1] == 'r') { el = EL_Br; *len = 2; }
+        else if (strchr("BCNOPSFI", c)) el = elem_lookup(s + i, 1);
+        if (el < 0) {
+            char sym[3] = {c, 0, 0};
+            if (s[i + 1] >= 'a' && s[i + 1] <= 'z')
+                sym[1] = s[i + 1];
+            int known = elem_lookup(sym, strlen(sym)) >= 0 || elem_lookup(sym, 1) >= 0;
+            return bad(e, col, known ? "element '%s' must be written in brackets"
+                                     : "unknown element '%s'", sym);
+        }
+    } else if (c >= 'a' && c <= 'z') {
+        el = aromatic_el(s + i, len);
+        if (el < 0 || *len != 1) {
+            char sym[2] = {c, 0};
+            return bad(e, col, "'%s' is not an aromatic organic-subset atom (b c n o p s)", sym);
+        }
+        arom = 1;
+    }
+    if (el >= 0) {
+        if ((*atom = smiles_add_atom(P->m, el)) < 0)
+            return nomem(e);
+        P->m->atoms[*atom].aromatic = arom;
+        P->m->atoms[*atom].col = col;
+    }
+    return HL_OK;
+}
+
+/* The atom just read (at column col): bonded to W->prev by the waiting bond symbol, if there
+ * is a previous atom; it becomes W->prev. */
+static enum hl_status walk_atom(struct walk *W, int atom, int col, struct hl_err *e)
+{
+    enum hl_status st;
+    if (W->prev >= 0 &&
+        (st = add_bond_col(W->P, W->prev, atom, W->bond, W->bond ? W->bond_col : col, e)))
+        return st;
+    W->prev = atom;
+    W->bond = 0;
+    W->just_opened = 0;
+    return HL_OK;
+}
+
+/* A bond symbol c at column col: it waits for the next atom or ring-closure number. */
+static enum hl_status walk_bond(struct walk *W, char c, int col, struct hl_err *e)
+{
+    int bc = bond_code(c);
+    if (W->prev < 0)
+        return bad(e, col, "bond symbol with no atom before it%s", NULL);
+    if (W->bond)
+        return bad(e, col, "two bond symbols in a row%s", NULL);
+    if (bc == 5)
+        return bad(e, col, "quadruple bond '$' is not supported%s", NULL);
+    W->bond = bc;
+    W->bond_col = col;
+    return HL_OK;
+}
+
+/* '(' at column col: pushes W->prev and the column on the branch stack (grown as needed). */
+static enum hl_status walk_open(struct walk *W, int col, struct hl_err *e)
+{
+    if (W->prev < 0)
+        return bad(e, col, "branch '(' with no atom before it%s", NULL);
+    if (W->bond)
+        return bad(e, W->bond_col, "bond symbol before '(': put it inside the branch%s", NULL);
+    if (W->sp == W->cap) {
+        int ncap = W->cap ? 2 * W->cap : 32;
+        int *p = hl_realloc(W->stack, (size_t)ncap * 2 * sizeof *p);
+        if (!p)
+            return nomem(e);
+        W->stack = p;
+        W->cap = ncap;
+    }
+    W->stack[2 * W->sp] = W->prev;
+    W->stack[2 * W->sp + 1] = col;
+    W->sp++;
+    W->just_opened = 1;
+    return HL_OK;
+}
+
+/* ')' at column col: the atom before the matching '(' becomes W->prev again. */
+static enum hl_status walk_close(struct walk *W, int col, struct hl_err *e)
+{
+    if (!W->sp)
+        return bad(e, col, "')' without a matching '('%s", NULL);
+    if (W->bond)
+        return bad(e, W->bond_col, "bond symbol with no atom after it%s", NULL);
+    if (W->just_opened)
+        return bad(e, col, "empty branch '()'%s", NULL);
+    W->prev = W->stack[2 * (--W->sp)];
+    return HL_OK;
+}
+
+/* A ring-closure number at s[i] (a digit, or '%' and two digits; *len its characters): opens
+ * the ring bond at W->prev, or closes it with the bond symbol given at either end. */
+static enum hl_status walk_ring(struct walk *W, int i, int *len, struct hl_err *e)
+{
+    const char *s = W->P->s;
+    char c = s[i];
+    int col = i + 1;
+    int num, bond = W->bond, bond_col = W->bond_col;
+    *len = 1;
+    if (c == '%') {
+        if (!is_digit(s[i + 1]) || !is_digit(s[i + 2]))
+            return bad(e, col, "'%%' must be followed by two digits%s", NULL);
+        num = (s[i + 1] - '0') * 10 + (s[i + 2] - '0');
+        *len = 3;
+    } else {
+        num = c - '0';
+    }
+    if (W->prev < 0)
+        return bad(e, col, "ring-closure number with no atom before it%s", NULL);
+    if (W->just_opened)
+        return bad(e, col, "ring-closure number right after '('%s", NULL);
+    struct ring_open *r = &W->ring[num];
+    if (r->atom < 0) {
+        r->atom = W->prev;
+        r->order = bond;
+        r->col = bond ? bond_col : col;
+    } else {
+        if (r->atom == W->prev)
+            return bad(e, col, "ring bond from an atom to itself%s", NULL);
+        if (r->order && bond && r->order != bond)
+            return bad(e, bond_col, "ring-closure bond symbols disagree%s", NULL);
+        if (smiles_find_bond(W->P->m, r->atom, W->prev) >= 0)
+            return bad(e, col, "duplicate bond: these two atoms are already bonded%s", NULL);
+        int order = bond ? bond : r->order;
+        enum hl_status st = add_bond_col(W->P, r->atom, W->prev, order, bond ? bond_col : col, e);
+        if (st)
+            return st;
+        r->atom = -1;
+    }
+    W->bond = 0;
+    return HL_OK;
+}
+
+/* A character c at column col that starts nothing SMILES knows here: always an error. */
+static enum hl_status stray(char c, int col, struct hl_err *e)
+{
+    if (c == '.')
+        return bad(e, col, "'.' (disconnected structures) is not supported: give one molecule%s", NULL);
+    if (c == ' ' || c == '\t' || c == '\n' || c == '\r')
+        return bad(e, col, "white space inside SMILES%s", NULL);
+    char cc[2] = {c, 0};
+    return bad(e, col, (unsigned char)c < 32 || (unsigned char)c > 126 ? "unexpected byte%s"
+                                                                        : "unexpected character '%s'",
+               (unsigned char)c < 32 || (unsigned char)c > 126 ? "" : cc);
+}
+
+/* At the end of the text: no bond symbol waiting, no branch and no ring bond left open (the
+ * ring bond opened first in the text is named). */
+static enum hl_status walk_end(const struct walk *W, struct hl_err *e)
+{
+    if (W->bond)
+        return bad(e, W->bond_col, "bond symbol with no atom after it%s", NULL);
+    if (W->sp)
+        return bad(e, W->stack[2 * (W->sp - 1) + 1], "branch '(' is not closed%s", NULL);
+    int worst = -1;
+    for (int r = 0; r < NRING; r++)
+        if (W->ring[r].atom >= 0 && (worst < 0 || W->ring[r].col < W->ring[worst].col))
+            worst = r;
+    if (worst >= 0) {
+        char num[16];
+        snprintf(num, sizeof num, "%d", worst);
+        return bad(e, W->ring[worst].col, "ring bond %s is not closed", num);
+    }
+    return HL_OK;
+}
+
 enum hl_status smiles_parse(const char *text, struct smi_mol *m, struct hl_err *e)
 {
     memset(m, 0, sizeof *m);
     if (!text || !*text)
         return bad(e, 1, "empty SMILES%s", NULL);
     struct parser P = {.s = text, .m = m};
-    struct ring_open ring[NRING];
+    struct walk W = {.P = &P, .prev = -1};
     for (int r = 0; r < NRING; r++)
-        ring[r].atom = -1;
-    int *stack = NULL, sp = 0, cap = 0; /* pairs: atom, column of its '(' */
-    int prev = -1, bond = 0, bond_col = 0, just_opened = 0;
+        W.ring[r].atom = -1;
     enum hl_status st = HL_OK;
     const char *s = text;
     int i = 0;
     while (!st && s[i]) {
         char c = s[i];
         int col = i + 1;
-        int el = -1, len = 1, arom = 0, atom = -1, bc;
-        if (c == '[') {
-            int end;
-            if ((st = read_bracket(&P, i, &end, &atom, e)))
-                break;
-            len = end - i;
-        } else if (c >= 'A' && c <= 'Z') {
-            if (c == 'C' && s[i + 1] == 'l') { el = EL_Cl; len = 2; }
-            else if (c == 'B' && s[i + 1] == 'r') { el = EL_Br; len = 2; }
-            else if (strchr("BCNOPSFI", c)) el = elem_lookup(s + i, 1);
-            if (el < 0) {
-                char sym[3] = {c, 0, 0};
-                if (s[i + 1] >= 'a' && s[i + 1] <= 'z')
-                    sym[1] = s[i + 1];
-                int known = elem_lookup(sym, strlen(sym)) >= 0 || elem_lookup(sym, 1) >= 0;
-                st = bad(e, col, known ? "element '%s' must be written in brackets"
-                                       : "unknown element '%s'", sym);
-                break;
-            }
-        } else if (c >= 'a' && c <= 'z') {
-            el = aromatic_el(s + i, &len);
-            if (el < 0 || len != 1) {
-                char sym[2] = {c, 0};
-                st = bad(e, col, "'%s' is not an aromatic organic-subset atom (b c n o p s)", sym);
-                break;
-            }
-            arom = 1;
-        }
-        if (el >= 0) {
-            if ((atom = smiles_add_atom(m, el)) < 0) {
-                st = nomem(e);
-                break;
-            }
-            m->atoms[atom].aromatic = arom;
-            m->atoms[atom].col = col;
-        }
-        if (atom >= 0) {
-            if (prev >= 0 && (st = add_bond_col(&P, prev, atom, bond, bond ? bond_col : col, e)))
-                break;
-            prev = atom;
-            bond = 0;
-            just_opened = 0;
-            i += len;
-            continue;
-        }
-        if ((bc = bond_code(c))) {
-            if (prev < 0) { st = bad(e, col, "bond symbol with no atom before it%s", NULL); break; }
-            if (bond) { st = bad(e, col, "two bond symbols in a row%s", NULL); break; }
-            if (bc == 5) { st = bad(e, col, "quadruple bond '$' is not supported%s", NULL); break; }
-            bond = bc;
-            bond_col = col;
-            i++;
-            continue;
-        }
-        if (c == '(') {
-            if (prev < 0) { st = bad(e, col, "branch '(' with no atom before it%s", NULL); break; }
-            if (bond) { st = bad(e, bond_col, "bond symbol before '(': put it inside the branch%s", NULL); break; }
-            if (sp == cap) {
-                int ncap = cap ? 2 * cap : 32;
-                int *p = hl_realloc(stack, (size_t)ncap * 2 * sizeof *p);
-                if (!p) { st = nomem(e); break; }
-                stack = p;
-                cap = ncap;
-            }
-            stack[2 * sp] = prev;
-            stack[2 * sp + 1] = col;
-            sp++;
-            just_opened = 1;
-            i++;
-            continue;
-        }
-        if (c == ')') {
-            if (!sp) { st = bad(e, col, "')' without a matching '('%s", NULL); break; }
-            if (bond) { st = bad(e, bond_col, "bond symbol with no atom after it%s", NULL); break; }
-            if (just_opened) { st = bad(e, col, "empty branch '()'%s", NULL); break; }
-            prev = stack[2 * (--sp)];
-            i++;
-            continue;
-        }
-        if (is_digit(c) || c == '%') {
-            int num, nlen = 1;
-            if (c == '%') {
-                if (!is_digit(s[i + 1]) || !is_digit(s[i + 2])) {
-                    st = bad(e, col, "'%%' must be followed by two digits%s", NULL);
-                    break;
-                }
-                num = (s[i + 1] - '0') * 10 + (s[i + 2] - '0');
-                nlen = 3;
-            } else {
-                num = c - '0';
-            }
-            if (prev < 0) { st = bad(e, col, "ring-closure number with no atom before it%s", NULL); break; }
-            if (just_opened) { st = bad(e, col, "ring-closure number right after '('%s", NULL); break; }
-            struct ring_open *r = &ring[num];
-            if (r->atom < 0) {
-                r->atom = prev;
-                r->order = bond;
-                r->col = bond ? bond_col : col;
-            } else {
-                if (r->atom == prev) { st = bad(e, col, "ring bond from an atom to itself%s", NULL); break; }
-                if (r->order && bond && r->order != bond) {
-                    st = bad(e, bond_col, "ring-closure bond symbols disagree%s", NULL);
-                    break;
-                }
-                if (smiles_find_bond(m, r->atom, prev) >= 0) {
-                    st = bad(e, col, "duplicate bond: these two atoms are already bonded%s", NULL);
-                    break;
-                }
-                int order = bond ? bond : r->order;
-                if ((st = add_bond_col(&P, r->atom, prev, order, bond ? bond_col : col, e)))
-                    break;
-                r->atom = -1;
-            }
-            bond = 0;
-            i += nlen;
-            continue;
-        }
-        if (c == '.') {
-            st = bad(e, col, "'.' (disconnected structures) is not supported: give one molecule%s", NULL);
+        int len = 1, atom = -1;
+        if ((st = read_atom(&P, i, &atom, &len, e)))
             break;
-        }
-        if (c == ' ' || c == '\t' || c == '\n' || c == '\r') {
-            st = bad(e, col, "white space inside SMILES%s", NULL);
-            break;
-        }
-        char cc[2] = {c, 0};
-        st = bad(e, col, (unsigned char)c < 32 || (unsigned char)c > 126 ? "unexpected byte%s"
-                                                                          : "unexpected character '%s'",
-                 (unsigned char)c < 32 || (unsigned char)c > 126 ? "" : cc);
-    }
-    if (!st && bond)
-        st = bad(e, bond_col, "bond symbol with no atom after it%s", NULL);
-    if (!st && sp)
-        st = bad(e, stack[2 * (sp - 1) + 1], "branch '(' is not closed%s", NULL);
-    if (!st) {
-        int worst = -1;
-        for (int r = 0; r < NRING; r++)
-            if (ring[r].atom >= 0 && (worst < 0 || ring[r].col < ring[worst].col))
-                worst = r;
-        if (worst >= 0) {
-            char num[16];
-            snprintf(num, sizeof num, "%d", worst);
-            st = bad(e, ring[worst].col, "ring bond %s is not closed", num);
-        }
+        if (atom >= 0)
+            st = walk_atom(&W, atom, col, e);
+        else if (bond_code(c))
+            st = walk_bond(&W, c, col, e);
+        else if (c == '(')
+            st = walk_open(&W, col, e);
+        else if (c == ')')
+            st = walk_close(&W, col, e);
+        else if (is_digit(c) || c == '%')
+            st = walk_ring(&W, i, &len, e);
+        else
+            st = stray(c, col, e);
+        i += len;
     }
     if (!st)
+        st = walk_end(&W, e);
+    if (!st)
         st = finish(&P, e);
-    hl_free(stack);
+    hl_free(W.stack);
     hl_free(P.bcol);
     return st;
 }
@@ -1171,25 +1300,25 @@ static const char *bond_text(const struct smi_mol *m, int bd)
     }
 }
 
-enum hl_status smiles_write(const struct smi_mol *m, char **out, struct hl_err *e)
+/* The writer's spanning tree, over n atoms (arrays of n unless said): pre-order (order[]),
+ * each atom's place in it (visit[]), the tree bond to its parent (pbond[], -1 at the root),
+ * a cursor per atom (it[]), a stack, subtree sizes (size[]); per bond, whether it closes a
+ * ring (isring[]) and the digit it is written with (bdigit[]); digits in use (used[]). The
+ * int arrays of n share one allocation (order owns it); isring and bdigit are their own. */
+struct wtree {
+    int *order, *visit, *pbond, *it, *stack, *size;
+    int *isring, *bdigit;
+    int used[100];
+    int root;
+};
+
+/* Phase 1: depth-first tree; each non-tree bond becomes a ring closure opened at the atom
+ * visited first. Takes m (n >= 1 atoms) and W with its arrays allocated; fills W's tree and
+ * returns the number of atoms reached (n when m is connected). */
+static int write_tree(const struct smi_mol *m, struct wtree *W)
 {
-    *out = NULL;
     int n = m->natoms;
-    if (n == 0)
-        return hl_err_set(e, HL_ERR_INPUT, "empty molecule");
-    /* Phase 1: depth-first tree; each non-tree bond becomes a ring closure opened
-     * at the atom visited first. */
-    int *order = hl_malloc((size_t)n * 6 * sizeof *order);
-    int *isring = hl_calloc((size_t)(m->nbonds ? m->nbonds : 1), sizeof *isring);
-    if (!order || !isring) {
-        hl_free(order);
-        hl_free(isring);
-        return nomem(e);
-    }
-    int *visit = order + n, *pbond = visit + n, *it = pbond + n, *stack = it + n, *size = stack + n;
-    int *bdigit = NULL;
-    struct sbuf b = {0};
-    enum hl_status st = HL_OK;
+    int *order = W->order, *visit = W->visit, *pbond = W->pbond, *it = W->it, *stack = W->stack;
     for (int i = 0; i < n; i++) {
         visit[i] = -1;
         pbond[i] = -1;
@@ -1201,6 +1330,7 @@ enum hl_status smiles_write(const struct smi_mol *m, char **out, struct hl_err *
     for (int i = 0; i < n; i++)
         if (smiles_degree(m, i) <= 1)
             root = i;
+    W->root = root;
     int t = 0, sp = 0;
     stack[sp++] = root;
     visit[root] = t;
@@ -1221,96 +1351,146 @@ enum hl_status smiles_write(const struct smi_mol *m, char **out, struct hl_err *
             order[t++] = w;
             stack[sp++] = w;
         } else {
-            isring[bd] = 1;
+            W->isring[bd] = 1;
         }
     }
-    if (t != n) {
+    return t;
+}
+
+/* The ring-closure digits of atom v, after its symbol: a closure to an atom written later
+ * opens with the lowest free digit (and its bond symbol), one to an atom written earlier
+ * closes with the digit it opened with. HL_ERR_INPUT past 99 open at once. */
+static enum hl_status put_ring_digits(struct sbuf *b, const struct smi_mol *m, struct wtree *W,
+                                      int v, struct hl_err *e)
+{
+    for (int k = m->adj_start[v]; k < m->adj_start[v + 1]; k++) {
+        int bd = m->adj[k];
+        if (!W->isring[bd])
+            continue;
+        int w = smiles_other(m, bd, v);
+        char num[16];
+        if (W->visit[w] > W->visit[v]) { /* open */
+            int d = 1;
+            while (d < 100 && W->used[d])
+                d++;
+            if (d == 100)
+                return hl_err_set(e, HL_ERR_INPUT, "more than 99 open ring closures");
+            W->used[d] = 1;
+            W->bdigit[bd] = d;
+            put(b, bond_text(m, bd));
+        } else {
+            W->used[W->bdigit[bd]] = 0;
+        }
+        if (W->bdigit[bd] < 10)
+            snprintf(num, sizeof num, "%d", W->bdigit[bd]);
+        else
+            snprintf(num, sizeof num, "%%%d", W->bdigit[bd]);
+        put(b, num);
+    }
+    return HL_OK;
+}
+
+/* The next child of v to write: the smallest unwritten subtree (-1: none left); *left is the
+ * number of children still unwritten, this one included. */
+static int next_child(const struct smi_mol *m, const struct wtree *W, int v, int *left)
+{
+    int child = -1;
+    *left = 0;
+    for (int k = m->adj_start[v]; k < m->adj_start[v + 1]; k++) {
+        int bd = m->adj[k];
+        int w = smiles_other(m, bd, v);
+        if (W->pbond[w] != bd || W->visit[w] < W->visit[v] || W->it[w] >= 0)
+            continue;
+        (*left)++;
+        if (child < 0 || W->size[w] < W->size[child])
+            child = w;
+    }
+    return child;
+}
+
+/* Emission in pre-order; ring closures open at the ancestor end (written first whatever the
+ * sibling order). Takes the finished tree W (its cursors and stack are reused: it[v] < 0, not
+ * written yet); appends the text to b (b->fail on NOMEM). */
+static enum hl_status write_text(const struct smi_mol *m, struct wtree *W, struct sbuf *b,
+                                 struct hl_err *e)
+{
+    int n = m->natoms, *it = W->it, *stack = W->stack;
+    enum hl_status st = HL_OK;
+    for (int i = 0; i < n; i++)
+        it[i] = -1;
+    int sp = 0;
+    stack[sp++] = W->root;
+    while (sp && !b->fail && !st) {
+        int v = stack[sp - 1] < 0 ? -stack[sp - 1] - 1 : stack[sp - 1];
+        if (stack[sp - 1] < 0) { /* returning from a branch in parentheses */
+            put(b, ")");
+            stack[sp - 1] = v;
+        }
+        if (it[v] < 0) {
+            if (W->pbond[v] >= 0)
+                put(b, bond_text(m, W->pbond[v]));
+            put_atom(b, m, v);
+            st = put_ring_digits(b, m, W, v, e);
+            it[v] = 0;
+        }
+        int left;
+        int child = next_child(m, W, v, &left);
+        if (child < 0) {
+            sp--;
+            continue;
+        }
+        if (left > 1) {
+            put(b, "(");
+            stack[sp - 1] = -v - 1; /* write ')' when control comes back to v */
+        }
+        stack[sp++] = child;
+    }
+    return st;
+}
+
+enum hl_status smiles_write(const struct smi_mol *m, char **out, struct hl_err *e)
+{
+    *out = NULL;
+    int n = m->natoms;
+    if (n == 0)
+        return hl_err_set(e, HL_ERR_INPUT, "empty molecule");
+    struct wtree W = {0};
+    W.order = hl_malloc((size_t)n * 6 * sizeof *W.order);
+    W.isring = hl_calloc((size_t)(m->nbonds ? m->nbonds : 1), sizeof *W.isring);
+    if (!W.order || !W.isring) {
+        hl_free(W.order);
+        hl_free(W.isring);
+        return nomem(e);
+    }
+    W.visit = W.order + n;
+    W.pbond = W.visit + n;
+    W.it = W.pbond + n;
+    W.stack = W.it + n;
+    W.size = W.stack + n;
+    struct sbuf b = {0};
+    enum hl_status st = HL_OK;
+    if (write_tree(m, &W) != n) {
         st = hl_err_set(e, HL_ERR_INPUT, "molecule is not connected");
         goto done;
     }
     /* subtree sizes (reverse pre-order), so that small branches go in parentheses
      * and the largest continues the main chain */
     for (int i = 0; i < n; i++)
-        size[i] = 1;
+        W.size[i] = 1;
     for (int i = n - 1; i > 0; i--)
-        size[smiles_other(m, pbond[order[i]], order[i])] += size[order[i]];
-    bdigit = hl_malloc((size_t)(m->nbonds ? m->nbonds : 1) * sizeof *bdigit);
-    if (!bdigit) {
+        W.size[smiles_other(m, W.pbond[W.order[i]], W.order[i])] += W.size[W.order[i]];
+    W.bdigit = hl_malloc((size_t)(m->nbonds ? m->nbonds : 1) * sizeof *W.bdigit);
+    if (!W.bdigit) {
         st = nomem(e);
         goto done;
     }
-    int used[100] = {0};
-    /* Emission in pre-order; ring closures open at the ancestor end (written first
-     * whatever the sibling order). it[v] < 0: not written yet. */
-    for (int i = 0; i < n; i++)
-        it[i] = -1;
-    sp = 0;
-    stack[sp++] = root;
-    while (sp && !b.fail && !st) {
-        int v = stack[sp - 1] < 0 ? -stack[sp - 1] - 1 : stack[sp - 1];
-        if (stack[sp - 1] < 0) { /* returning from a branch in parentheses */
-            put(&b, ")");
-            stack[sp - 1] = v;
-        }
-        if (it[v] < 0) {
-            if (pbond[v] >= 0)
-                put(&b, bond_text(m, pbond[v]));
-            put_atom(&b, m, v);
-            for (int k = m->adj_start[v]; k < m->adj_start[v + 1]; k++) {
-                int bd = m->adj[k];
-                if (!isring[bd])
-                    continue;
-                int w = smiles_other(m, bd, v);
-                char num[16];
-                if (visit[w] > visit[v]) { /* open */
-                    int d = 1;
-                    while (d < 100 && used[d])
-                        d++;
-                    if (d == 100) {
-                        st = hl_err_set(e, HL_ERR_INPUT, "more than 99 open ring closures");
-                        break;
-                    }
-                    used[d] = 1;
-                    bdigit[bd] = d;
-                    put(&b, bond_text(m, bd));
-                } else {
-                    used[bdigit[bd]] = 0;
-                }
-                if (bdigit[bd] < 10)
-                    snprintf(num, sizeof num, "%d", bdigit[bd]);
-                else
-                    snprintf(num, sizeof num, "%%%d", bdigit[bd]);
-                put(&b, num);
-            }
-            it[v] = 0;
-        }
-        /* next child: the smallest unwritten subtree */
-        int child = -1, left = 0;
-        for (int k = m->adj_start[v]; k < m->adj_start[v + 1]; k++) {
-            int bd = m->adj[k];
-            int w = smiles_other(m, bd, v);
-            if (pbond[w] != bd || visit[w] < visit[v] || it[w] >= 0)
-                continue;
-            left++;
-            if (child < 0 || size[w] < size[child])
-                child = w;
-        }
-        if (child < 0) {
-            sp--;
-            continue;
-        }
-        if (left > 1) {
-            put(&b, "(");
-            stack[sp - 1] = -v - 1; /* write ')' when control comes back to v */
-        }
-        stack[sp++] = child;
-    }
+    st = write_text(m, &W, &b, e);
     if (!st && b.fail)
         st = nomem(e);
 done:
-    hl_free(order);
-    hl_free(isring);
-    hl_free(bdigit);
+    hl_free(W.order);
+    hl_free(W.isring);
+    hl_free(W.bdigit);
     if (st)
         hl_free(b.p);
     else
