@@ -177,6 +177,7 @@ static volatile sig_atomic_t writer_pid; /* a child writing for us, 0 if none */
 static const int guarded[] = {SIGHUP, SIGINT, SIGQUIT, SIGTERM, SIGPIPE, SIGALRM, SIGUSR1, SIGUSR2};
 #define NGUARDED (int)(sizeof guarded / sizeof guarded[0])
 
+/* Blocks the guarded signals; *old gets the mask to restore. */
 static void block_guarded(sigset_t *old)
 {
     sigset_t set;
@@ -186,6 +187,8 @@ static void block_guarded(sigset_t *old)
     sigprocmask(SIG_BLOCK, &set, old);
 }
 
+/* Handler of the guarded signals: stops and waits for a writer child, removes every staged
+ * file, then ends the process by the same signal. Async-signal-safe calls only. */
 static void on_fatal_signal(int sig)
 {
     pid_t child = (pid_t)writer_pid;
@@ -247,6 +250,7 @@ void afile_writer_done(void)
     writer_pid = 0;
 }
 
+/* Drops tmp from the list of staged names (the file itself is left alone). */
 static void forget(const char *tmp)
 {
     for (int i = 0; i < STAGED_MAX; i++)

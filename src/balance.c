@@ -20,6 +20,7 @@
 
 const int bal_elements[BAL_NEL] = {EL_C, EL_H, EL_N, EL_O, EL_S, EL_Cl, EL_Br};
 
+/* Parses a formula built into the program into *f; a failure is an internal error. */
 static enum hl_status parse_known(const char *text, struct formula *f, struct hl_err *e)
 {
     enum hl_status st = formula_parse(text, f, e);
@@ -123,6 +124,8 @@ struct bal_cache {
     int have_k;
 };
 
+/* Fills k with the parsed formulas of every chargeable reagent, vent gas and succinimide
+ * and succinimide's molar mass. */
 static enum hl_status consts_init(struct bal_consts *k, struct hl_err *e)
 {
     enum hl_status st = HL_OK;
@@ -137,6 +140,7 @@ static enum hl_status consts_init(struct bal_consts *k, struct hl_err *e)
     return st;
 }
 
+/* FNV-1a hash of n bytes at p, continuing from h (Fowler, Noll, Vo; the 64-bit prime). */
 static uint64_t fnv_bytes(uint64_t h, const void *p, size_t n)
 {
     const unsigned char *b = p;
@@ -145,11 +149,13 @@ static uint64_t fnv_bytes(uint64_t h, const void *p, size_t n)
     return h;
 }
 
+/* fnv_bytes of s with its NUL; a NULL s hashes apart from "". */
 static uint64_t fnv_str(uint64_t h, const char *s)
 {
     return s ? fnv_bytes(h, s, strlen(s) + 1) : fnv_bytes(h, "", 1) * 31u;
 }
 
+/* 1 when a and b are both NULL or equal strings. */
 static int same_str(const char *a, const char *b) { return (!a && !b) || (a && b && !strcmp(a, b)); }
 
 /* Everything sel_predict (or the formula path) reads, compared bit for bit. */
@@ -166,6 +172,8 @@ static uint64_t key_hash(const struct bal_in *in, const struct sel_reactivity *u
     return fnv_bytes(h, &u->set_mask, sizeof u->set_mask);
 }
 
+/* 1 when cache entry x was predicted from exactly these inputs (in, u): every field
+ * key_hash reads, bit for bit. */
 static int key_equal(const struct bal_entry *x, const struct bal_in *in, const struct sel_reactivity *u)
 {
     return x->reagent == in->reagent && !memcmp(&x->temp_c, &in->temp_c, sizeof x->temp_c) &&
@@ -188,6 +196,7 @@ struct bal_cache *bal_cache_new(void)
     return c;
 }
 
+/* Frees cache entry x, its prediction and its copies of the input strings. */
 static void entry_free(struct bal_entry *x)
 {
     sel_free(&x->sel);
@@ -304,6 +313,9 @@ static void degree_formula(const struct formula *sub, const struct reagent_info 
     }
 }
 
+/* Appends one product row to o->products (cap rows): its SMILES copied (owned by o; NULL:
+ * none), formula text and molar mass from f, degree, moles, kg and mole fraction of the
+ * substrate_mol charged, role. Overflow is an internal error. */
 static enum hl_status push_product(struct bal_out *o, int cap, const char *smiles,
                                    const struct bal_formula *f, int degree, double mol,
                                    double substrate_mol, enum bal_role role, struct hl_err *e)
@@ -325,6 +337,7 @@ static enum hl_status push_product(struct bal_out *o, int cap, const char *smile
     return HL_OK;
 }
 
+/* Adds mol x the element counts of f to acc[BAL_NEL] (the elements of bal_elements). */
 static void count_elements(double *acc, const struct formula *f, double mol)
 {
     for (int i = 0; i < BAL_NEL; i++)

@@ -25,6 +25,7 @@ const char *emis_limit_unit(int kind)
     return kind == EMIS_KG_H ? "kg/h" : kind == EMIS_MG_NM3 ? "mg/Nm3" : "t/yr";
 }
 
+/* a / b rounded toward minus infinity (b != 0). */
 static int64_t floor_div(int64_t a, int64_t b) { return a / b - ((a % b != 0) && ((a < 0) != (b < 0))); }
 
 /* Runs of unit u emitting species v whose vent window overlaps [t0, t1) by a positive
@@ -106,6 +107,8 @@ static double worst_day(const struct scrub_unit_out *o, const struct scrub_emis 
     return best > 0 ? best : 0;
 }
 
+/* Appends x to *c (*n used of *cap, grown as needed; *c owned by the caller). On NOMEM x's
+ * runs are freed and HL_ERR_NOMEM returned. */
 static enum hl_status add_check(struct emis_check **c, int *n, int *cap, struct emis_check x)
 {
     if (*n == *cap) {

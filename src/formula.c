@@ -25,6 +25,8 @@ struct parser {
     struct hl_err *e;
 };
 
+/* Sets p->e (when given) to an input error at column pos + 1 naming the formula, msg and arg
+ * (NULL: none); returns HL_ERR_INPUT. */
 static enum hl_status fail(struct parser *p, size_t pos, const char *msg, const char *arg)
 {
     if (p->e) {
@@ -41,6 +43,7 @@ static enum hl_status fail(struct parser *p, size_t pos, const char *msg, const 
     return HL_ERR_INPUT;
 }
 
+/* ASCII letter and digit tests, locale-free. */
 static int is_upper(char c) { return c >= 'A' && c <= 'Z'; }
 static int is_lower(char c) { return c >= 'a' && c <= 'z'; }
 static int is_digit(char c) { return c >= '0' && c <= '9'; }
@@ -87,6 +90,9 @@ static enum hl_status add_checked(struct parser *p, size_t at, struct formula *a
 
 static enum hl_status parse_seq(struct parser *p, struct formula *f, int depth);
 
+/* One group at p->pos: an element or a parenthesised formula (at nesting depth, at most
+ * FORMULA_MAX_DEPTH), and its count; moves p->pos past it and adds its atoms to *f, refusing
+ * totals over FORMULA_MAX_ATOMS. An error names the group's column. */
 static enum hl_status parse_group(struct parser *p, struct formula *f, int depth)
 {
     size_t start = p->pos;

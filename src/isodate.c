@@ -9,6 +9,7 @@
 
 #include <stdio.h>
 
+/* Days from 1970-01-01 to y-m-d, proleptic Gregorian (Hinnant's algorithm, above). */
 static int64_t days_from_civil(int64_t y, int m, int d)
 {
     y -= m <= 2;
@@ -19,6 +20,7 @@ static int64_t days_from_civil(int64_t y, int m, int d)
     return era * 146097 + doe - 719468;
 }
 
+/* The date *y-*m-*d that is z days from 1970-01-01 (Hinnant's algorithm, above). */
 static void civil_from_days(int64_t z, int *y, int *m, int *d)
 {
     z += 719468;
@@ -34,6 +36,7 @@ static void civil_from_days(int64_t z, int *y, int *m, int *d)
     *d = dd;
 }
 
+/* Days in month m (1..12) of year y, Gregorian leap years. */
 static int days_in_month(int y, int m)
 {
     static const int dm[12] = {31, 28, 31, 30, 31, 30, 31, 31, 30, 31, 30, 31};

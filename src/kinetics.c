@@ -52,6 +52,8 @@
 
 #define NMAX (KIN_MAX_STEPS + 1)
 
+/* HL_ERR_INPUT unless k[nsteps] and x are given, 1 <= nsteps <= KIN_MAX_STEPS and every
+ * k lies in [KIN_K_MIN, KIN_K_MAX]. */
 static enum hl_status check_args(const double *k, int nsteps, const double *x, struct hl_err *e)
 {
     if (!k || !x)
@@ -66,6 +68,7 @@ static enum hl_status check_args(const double *k, int nsteps, const double *x, s
     return HL_OK;
 }
 
+/* Largest of k[0..n-1] (n >= 1). */
 static double max_k(const double *k, int n)
 {
     double L = k[0];
@@ -211,6 +214,9 @@ static int past_all_steps(const double *k, int N, double tau)
     return logp < -760.0;
 }
 
+/* Batch (plug flow) degree fractions x[0..N] at tau for the step constants k[0..N-1]: the
+ * exact ends at tau 0 and past all steps, the series below KIN_DIRECT_MAX, squaring above;
+ * a dominant last state is taken as the complement. */
 static void batch(const double *k, int N, double tau, double *x)
 {
     double L = max_k(k, N);
@@ -236,6 +242,8 @@ static void batch(const double *k, int N, double tau, double *x)
         x[N] = 1.0 - below;
 }
 
+/* CSTR degree fractions x[0..N] at tau: A_n = A_{n-1} k_{n-1} tau / (1 + k_n tau), the last
+ * state what got past every step. */
 static void cstr(const double *k, int N, double tau, double *x)
 {
     double surv = 1.0; /* fraction that got past step n: prod k tau/(1 + k tau) */
@@ -272,6 +280,8 @@ struct eval {
     double x[NMAX];
 };
 
+/* Fills ev at u = ln tau: the degree fractions of the mode, the residual mean degree -
+ * target and its derivative d/du. */
 static void evaluate(enum kin_mode mode, const double *k, int N, double u, double target,
                      struct eval *ev)
 {

@@ -28,6 +28,7 @@
 
 struct dm { int month, item; int64_t when; double kg; int idx; };
 
+/* qsort order of demand rows: month, item, time, then input order (so the sort is stable). */
 static int cmp_dm(const void *pa, const void *pb)
 {
     const struct dm *a = pa, *b = pb;
@@ -40,6 +41,7 @@ static int cmp_dm(const void *pa, const void *pb)
     return (a->idx > b->idx) - (a->idx < b->idx);
 }
 
+/* The minute count of 00:00 of the day minute m falls on (floor, also before 1970). */
 static int64_t day_start(int64_t m) { return (m / DAY_MIN - (m % DAY_MIN < 0)) * DAY_MIN; }
 
 /* Whole containers of `usable` kg for `kg`, without an extra one from round-off. */
@@ -51,6 +53,8 @@ static int count_containers(double kg, double usable)
     return (int)ceil(n - REL_EPS * (n > 1 ? n : 1));
 }
 
+/* HL_ERR_INPUT naming the row when a demand, stock or container row is out of range (item,
+ * finite non-negative kg, lead <= 3650 d, one stock row per item, net_kg > heel_kg >= 0). */
 static enum hl_status check(const struct ord_demand *d, int nd, const struct ord_stock *s, int ns,
                             const struct ord_container *c, int nc, struct hl_err *e)
 {
@@ -84,6 +88,7 @@ enum hl_status ord_plan(const struct ord_demand *d, int nd,
     return ord_plan_supply(d, nd, s, ns, c, nc, NULL, 0, today_min, out, nout, e);
 }
 
+/* qsort order of deliveries: item, then time. */
 static int cmp_supply(const void *pa, const void *pb)
 {
     const struct ord_supply *a = pa, *b = pb;

@@ -117,6 +117,9 @@ struct rdr {
     enum hl_status st;          /* first error; the callbacks then do nothing */
 };
 
+/* Sets r's error (r->st, e): an input error at position p, named by column colno of the
+ * header in the field path (-1: the schedule); returns it. Once r->st is set the callbacks
+ * do nothing, so the first error is the one reported. */
 static enum hl_status rerr(struct rdr *r, struct sched_pos p, int colno, const char *fmt, ...)
     __attribute__((format(printf, 4, 5)));
 static enum hl_status rerr(struct rdr *r, struct sched_pos p, int colno, const char *fmt, ...)
@@ -138,12 +141,14 @@ static enum hl_status rerr(struct rdr *r, struct sched_pos p, int colno, const c
     return r->st;
 }
 
+/* Records out of memory as r's error and returns it. */
 static enum hl_status nomem(struct rdr *r)
 {
     r->st = hl_err_set(r->e, HL_ERR_NOMEM, "out of memory reading the schedule");
     return r->st;
 }
 
+/* Line, column and offset of byte off of the text, from r's line count. */
 static struct sched_pos here(const struct rdr *r, size_t off)
 {
     struct sched_pos p = {r->line, (int)(off - r->line_start) + 1, off};
@@ -152,8 +157,11 @@ static struct sched_pos here(const struct rdr *r, size_t off)
 
 /* libcsv allocates through these, so allocation-failure tests reach it */
 static void *csv_realloc(void *p, size_t n) { return hl_realloc(p, n); }
+/* libcsv's free, through hl_free. */
 static void csv_free_fn(void *p) { hl_free(p); }
+/* libcsv's blank test: space and tab. */
 static int is_space_tab(unsigned char c) { return c == ' ' || c == '\t'; }
+/* libcsv's blank test when tab separates: space only. */
 static int is_space_only(unsigned char c) { return c == ' '; }
 
 /* 1-based byte of the first invalid UTF-8 sequence (RFC 3629), 0 if valid */
@@ -178,6 +186,9 @@ static size_t bad_utf8(const unsigned char *s, size_t n)
     return 0;
 }
 
+/* libcsv field callback: appends the cell (s, len; s NULL for an empty unquoted one) to r's
+ * record buffer with its position; too many cells, an overlong cell or invalid UTF-8 is r's
+ * error. Does nothing after an error. */
 static void on_field(void *s, size_t len, void *data)
 {
     struct rdr *r = data;
@@ -220,6 +231,8 @@ static void on_field(void *s, size_t len, void *data)
         rerr(r, p, r->nf - 1, "invalid UTF-8 at byte %zu of the cell (save the file as UTF-8)", bad);
 }
 
+/* The first record as the header: keeps the names (r owns name_store) and maps each to its
+ * run key, refusing unknown, repeated and missing required columns. */
 static enum hl_status header(struct rdr *r)
 {
     r->ncols = r->nf;
@@ -273,6 +286,7 @@ static enum hl_status header(struct rdr *r)
     return HL_OK;
 }
 
+/* Appends p to r->pos (grown as needed, owned by r); -1 on NOMEM. */
 static int add_pos(struct rdr *r, struct sched_pos p)
 {
     if (r->npos == r->pcap) {
@@ -339,6 +353,8 @@ static int cell_number(const char *s, char sep, double *out)
     return *end ? -1 : 0;
 }
 
+/* One record after the header, unless every cell is empty: built into a run object and
+ * handed to r->fn with the positions of its cells; r->fn's error becomes r's. */
 static enum hl_status row(struct rdr *r)
 {
     int any = 0;
@@ -415,6 +431,7 @@ static enum hl_status row(struct rdr *r)
     return st;
 }
 
+/* libcsv record callback: the header first, then each row; resets the record buffer. */
 static void on_record(int term, void *data)
 {
     (void)term;
@@ -447,6 +464,7 @@ static char detect_sep(const char *t, size_t n)
     return ',';
 }
 
+/* sched_parse on text with a NUL at text[len] (the positions are read back through it). */
 static enum hl_status parse_nul(const char *text, size_t len, char sep, sched_row_fn fn, void *data,
                                 struct hl_err *e);
 

@@ -27,6 +27,7 @@ struct keyset {
     const int *key, *off, *len;
 };
 
+/* Order of the keys of a and b in k: element by element, a shorter key first on a tie. */
 static int cmp_key(const struct keyset *k, int a, int b)
 {
     const int *x = k->key + k->off[a], *y = k->key + k->off[b];
@@ -81,6 +82,7 @@ struct part {
     int ncell, qh, qt, qcap;
 };
 
+/* Puts cell c on P's ring-buffer queue of cells to refine by, unless it is queued. */
 static void enqueue(struct part *P, int c)
 {
     if (P->inq[c])
@@ -280,6 +282,8 @@ enum hl_status sites_symmetry(const struct smi_mol *m, int *cls, int *nclass, st
     return st;
 }
 
+/* Order of bond bd as the comparison sees it: every bond but a triple as single when lax
+ * (Kekule and aromatic forms of one structure then compare equal). */
 static int bond_order_view(const struct smi_mol *m, int bd, int lax)
 {
     int o = m->bonds[bd].order;
@@ -361,6 +365,10 @@ static int match(const struct smi_mol *a, const struct smi_mol *b, const int *cl
     return i == n;
 }
 
+/* 1 when a and b (same atom and bond counts) are the same structure, 0 when not, -1 with e
+ * set on NOMEM or the step limit; lax compares bond orders as bond_order_view. Atom
+ * classes of both, refined together, must hold as many atoms of each, then an isomorphism
+ * respecting them is searched. */
 static int same_mode(const struct smi_mol *a, const struct smi_mol *b, int lax, struct hl_err *e)
 {
     int n = a->natoms, nb2 = a->adj_start[n];
@@ -494,6 +502,7 @@ int sites_hbr_br_ends(const struct smi_mol *m, int bd, int *ends)
 
 /* ---- products -------------------------------------------------------------- */
 
+/* Adds a halogen atom x_el to o, bonded singly to atom at. HL_ERR_NOMEM on failure. */
 static enum hl_status add_x(struct smi_mol *o, int at, int x_el, struct hl_err *e)
 {
     int x = smiles_add_atom(o, x_el);
@@ -502,6 +511,7 @@ static enum hl_status add_x(struct smi_mol *o, int at, int x_el, struct hl_err *
     return smiles_add_bond(o, at, x, 1, e);
 }
 
+/* Sets the order of the bond p-q of o, when there is one. */
 static void set_order(struct smi_mol *o, int p, int q, int order)
 {
     int bd = smiles_find_bond(o, p, q);

@@ -21,8 +21,11 @@
 
 #define NRING 100 /* ring-closure numbers 0..99 */
 
+/* Sets e to out of memory and returns HL_ERR_NOMEM. */
 static enum hl_status nomem(struct hl_err *e) { return hl_err_set(e, HL_ERR_NOMEM, "out of memory"); }
 
+/* Sets e to an input error at column col (fmt takes one %s: arg, or "" when NULL) and
+ * returns HL_ERR_INPUT. */
 static enum hl_status bad(struct hl_err *e, int col, const char *fmt, const char *arg)
 {
     hl_err_at(e, HL_ERR_INPUT, 0, col, "", fmt, arg ? arg : "");
@@ -229,6 +232,7 @@ static const int *normal_valences(int el)
     }
 }
 
+/* Valence units atom a spends on its bonds in m (an aromatic bond counts 1). */
 static int bond_sum(const struct smi_mol *m, int a)
 {
     int s = 0;
@@ -297,6 +301,7 @@ struct parser {
     int cap_bcol;
 };
 
+/* Element of the aromatic symbol at p (se, as, b c n o p s; *len its characters), or -1. */
 static int aromatic_el(const char *p, int *len)
 {
     *len = 1;
@@ -313,6 +318,7 @@ static int aromatic_el(const char *p, int *len)
     }
 }
 
+/* ASCII digit test, locale-free. */
 static int is_digit(char c) { return c >= '0' && c <= '9'; }
 
 /* Chirality after a bracket atom's symbol at s[*j] (accepted, not modelled): @, @@, @TH1-2,
@@ -484,6 +490,8 @@ static enum hl_status read_bracket(struct parser *P, int i, int *end, int *atom,
     return HL_OK;
 }
 
+/* Adds the bond a-b of the given order to P->m and keeps col (the column messages name for
+ * it) in P->bcol, grown as needed (the parser owns it). HL_ERR_NOMEM on failure. */
 static enum hl_status add_bond_col(struct parser *P, int a, int b, int order, int col, struct hl_err *e)
 {
     if (P->m->nbonds == P->cap_bcol) {
@@ -498,6 +506,8 @@ static enum hl_status add_bond_col(struct parser *P, int a, int b, int order, in
     return smiles_add_bond(P->m, a, b, order, e);
 }
 
+/* Order a bond symbol c stands for (1 for - / \, 2, 3, 5 for the refused '$',
+ * SMI_AROMATIC for ':'), 0 when c is no bond symbol. */
 static int bond_code(char c)
 {
     switch (c) {
@@ -578,6 +588,8 @@ static int kek_candidate(const struct smi_mol *m, int a)
     return dbl == 1;
 }
 
+/* 1 when the six-ring ring[0..5] of m can be taken as aromatic: each atom not yet aromatic
+ * has its double bond to a ring neighbour. */
 static int kek_ring_ok(const struct smi_mol *m, const int *ring)
 {
     for (int i = 0; i < 6; i++) {
@@ -598,6 +610,8 @@ static int kek_ring_ok(const struct smi_mol *m, const int *ring)
     return 1;
 }
 
+/* Marks the Kekule six-rings of m aromatic (atoms and ring bonds), repeated until no ring
+ * changes, so that fused rings written with alternating bonds follow. */
 static void aromatize_kekule(struct smi_mol *m)
 {
     int changed = 1;
@@ -692,6 +706,8 @@ struct kek {
     int *match, *par, *base, *q, *inq, *inb, *used;
 };
 
+/* Blossom search: the base of the blossom where the alternating paths from a and b meet
+ * (K->used is scratch). */
 static int kek_lca(struct kek *K, int a, int b)
 {
     for (int i = 0; i < K->n; i++)
@@ -711,6 +727,8 @@ static int kek_lca(struct kek *K, int a, int b)
     }
 }
 
+/* Blossom search: marks the bases on the path from v up to base b as in the blossom and
+ * points their parents across it (child: the atom v was reached from). */
 static void kek_mark(struct kek *K, int v, int b, int child)
 {
     while (K->base[v] != b) {
@@ -907,6 +925,9 @@ out:
     return rc;
 }
 
+/* After the text is read: adjacency and rings of P->m, implicit bond orders, aromatic bond
+ * checks, valences and H counts, Kekule rings aromatised, explicit [H] folded and the
+ * Kekule check. An error names the column of the atom or bond at fault. */
 static enum hl_status finish(struct parser *P, struct hl_err *e)
 {
     struct smi_mol *m = P->m;
@@ -1231,6 +1252,8 @@ double smiles_molar_mass_g_mol(const struct smi_mol *m)
 
 struct sbuf { char *p; size_t n, cap; int fail; };
 
+/* Appends s to b (b->p owned by b's user, hl_free); sets b->fail and keeps b as it was when
+ * it cannot grow. */
 static void put(struct sbuf *b, const char *s)
 {
     size_t k = strlen(s);
@@ -1252,6 +1275,8 @@ static void put(struct sbuf *b, const char *s)
     b->n += k;
 }
 
+/* Appends atom a of m to b: the bare symbol when the organic subset gives its H count, a
+ * bracket atom (isotope, H, charge, class) otherwise. */
 static void put_atom(struct sbuf *b, const struct smi_mol *m, int a)
 {
     const struct smi_atom *at = &m->atoms[a];

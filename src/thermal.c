@@ -60,6 +60,7 @@ const char *therm_site_name(int site)
     return site >= 0 && site < THERM_NSITE ? n[site] : "?";
 }
 
+/* 1 when the reagent adds across C=C (its row's kind), 0 otherwise or when unknown. */
 static int is_addition(int reagent)
 {
     const struct reagent_info *ri = reagent_get(reagent);
