@@ -174,6 +174,17 @@ static void test_criticality_boundaries(void)
     therm_compute(&in, &o);
     CU_ASSERT_EQUAL(o.crit_class, 4);
     CU_ASSERT_EQUAL(o.mtsr_over_td24, 1);
+    /* MTSR exactly at MTT and TD24 (nothing accumulated: MTSR = Tp = 30 C) reaches both
+     * (Stoessel: MTSR < MTT is the safe side, so equality is flagged) */
+    {
+        struct therm_in eq = in;
+        eq.accumulation = 0;
+        eq.mtt_c = eq.td24_c = 30;
+        struct therm_out q;
+        therm_compute(&eq, &q);
+        CU_ASSERT_EQUAL(q.mtsr_over_mtt, 1);
+        CU_ASSERT_EQUAL(q.mtsr_over_td24, 1);
+    }
     /* the reasoning is written from the code and the temperatures at write time */
     char why[480];
     therm_reason_text(&o, in.temp_c, in.mtt_c, in.td24_c, why, sizeof why);
