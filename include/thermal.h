@@ -45,6 +45,10 @@ const char *therm_step_name(int reagent, int site);
  * for a reagent or site without values (NBS at a non-allylic, non-benzylic site). */
 int therm_step_dh(int reagent, int site, double *dh_kj_mol, double *unc_kj_mol);
 
+/* Bond enthalpy at 298 K [kJ/mol] of a reagent bond (enum reagent_bond) into *d, its stated
+ * uncertainty into *unc (may be NULL). Returns 0, or -1 out of range. */
+int therm_bond_kj_mol(int bond, double *d, double *unc);
+
 /* Stoessel criticality class (1..5) from the process temperature, MTSR, MTT and TD24 [C];
  * a tie counts as reached (the higher class). The reasoning in words goes into why (n bytes). */
 int therm_class(double temp_c, double mtsr_c, double mtt_c, double td24_c, char *why, size_t n);

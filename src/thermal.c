@@ -81,6 +81,16 @@ static unsigned site_bit(int site)
     return bit[site];
 }
 
+int therm_bond_kj_mol(int bond, double *d, double *unc)
+{
+    if (bond < 0 || bond >= RB_COUNT)
+        return -1;
+    *d = D_BOND[bond].v;
+    if (unc)
+        *unc = D_BOND[bond].u;
+    return 0;
+}
+
 int therm_step_dh(int reagent, int site, double *dh_kj_mol, double *unc_kj_mol)
 {
     const struct reagent_info *ri = reagent_get(reagent);

@@ -66,6 +66,27 @@ static void test_against_formation_enthalpies(void)
     ASSERT_ABS(step(RG_SO2CL2, THERM_METHYL), DF_CH3CL + DF_SO2 + DF_HCL - DF_CH4 - DF_SO2CL2_G, 4.0);
 }
 
+/* The diatomic bonds of the reagents against their atomisation enthalpies at 298.15 K from
+ * the CODATA key values (Cox, Wagman & Medvedev, CODATA Key Values for Thermodynamics, 1989;
+ * from memory): dfH Cl(g) 121.301, Br(g) 111.87, Br2(g) 30.91, H(g) 217.998, HCl(g) -92.31,
+ * HBr(g) -36.29 kJ/mol; D(X-Y) = dfH X(g) + dfH Y(g) - dfH XY(g). The tolerance is the key
+ * values' own uncertainty (0.1 to 0.2 kJ/mol) plus rounding: a bond table off by a few kJ/mol
+ * fails here even where a whole step, summed over four terms, stays within its tolerance. */
+static void test_reagent_bonds(void)
+{
+    static const struct { int bond; double expect; } b[] = {
+        {RB_CLCL, 2 * 121.301}, {RB_BRBR, 2 * 111.87 - 30.91},
+        {RB_HCL, 217.998 + 121.301 + 92.31}, {RB_HBR, 217.998 + 111.87 + 36.29}};
+    for (size_t i = 0; i < sizeof b / sizeof b[0]; i++) {
+        double d = 0;
+        CU_ASSERT_EQUAL(therm_bond_kj_mol(b[i].bond, &d, NULL), 0);
+        ASSERT_ABS(d, b[i].expect, 0.3);
+    }
+    double d;
+    CU_ASSERT_EQUAL(therm_bond_kj_mol(RB_COUNT, &d, NULL), -1);
+    CU_ASSERT_EQUAL(therm_bond_kj_mol(RB_NONE, &d, NULL), -1);
+}
+
 static void test_step_signs_and_refusals(void)
 {
     /* every halogenation step of the table is exothermic; bromination less than chlorination
@@ -220,6 +241,7 @@ int main(void)
     static const struct cu_case cases[] = {
         {"step heats against formation enthalpies (NIST WebBook, Pedley)", test_against_formation_enthalpies},
         {"step heat signs and refusals", test_step_signs_and_refusals},
+        {"reagent bonds against CODATA atomisation enthalpies", test_reagent_bonds},
         {"adiabatic rise and MTSR by hand", test_rise_and_mtsr_by_hand},
         {"Stoessel criticality classes on each boundary", test_criticality_boundaries},
         {"containers on line", test_withdrawal},
