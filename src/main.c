@@ -757,7 +757,24 @@ static void print_warnings(const struct ledger *l)
     }
 }
 
-static int run(int argc, char **argv)
+/* The options of the command line (getopt_long: before or after the command). */
+struct cli {
+    const char *set_args[OVR_MAX];
+    int nset;
+    const char *schedules[MAX_SCHEDULES];
+    int nsched, example;
+    char csv_sep;
+    const char *sweep_run_id, *vary, *objective;
+    const char *outputs[MAX_OUTPUTS];
+    int nout, strict, all_products;
+    const char *catalog_path, *today_text;
+};
+
+#define CLI_GO_ON (-1)
+
+/* Read the options into *o (pointers into argv). Returns CLI_GO_ON, or the exit status when
+ * the run ends here: --help and --version (0), a bad option (2, message printed). */
+static int read_options(int argc, char **argv, struct cli *o)
 {
     static const struct option opts[] = {
         {"output", required_argument, NULL, 'o'}, {"today", required_argument, NULL, 't'},
@@ -770,50 +787,42 @@ static int run(int argc, char **argv)
         {"objective", required_argument, NULL, 'j'},
         {"set", required_argument, NULL, 'e'},
         {NULL, 0, NULL, 0}};
-    const char *set_args[OVR_MAX];
-    int nset = 0;
-    const char *schedules[MAX_SCHEDULES];
-    int nsched = 0, example = 0;
-    char csv_sep = 0;
-    const char *sweep_run_id = NULL, *vary = NULL, *objective = NULL;
-    const char *outputs[MAX_OUTPUTS];
-    int nout = 0, strict = 0, all_products = 0, ch;
-    const char *catalog_path = NULL, *today_text = NULL;
-    hl_mem_hook_cjson();
+    int ch;
+    memset(o, 0, sizeof *o);
     opterr = 0; /* our own messages, in our own format */
     /* GNU getopt permutes, so options may come before or after the command; "--" ends them. */
     while ((ch = getopt_long(argc, argv, ":o:hV", opts, NULL)) != -1) {
         switch (ch) {
         case 'o':
-            if (nout == MAX_OUTPUTS)
+            if (o->nout == MAX_OUTPUTS)
                 return usage_error("at most %s outputs", "4");
-            outputs[nout++] = optarg;
+            o->outputs[o->nout++] = optarg;
             break;
-        case 't': today_text = optarg; break;
-        case 's': strict = 1; break;
-        case 'a': all_products = 1; break;
-        case 'c': catalog_path = optarg; break;
+        case 't': o->today_text = optarg; break;
+        case 's': o->strict = 1; break;
+        case 'a': o->all_products = 1; break;
+        case 'c': o->catalog_path = optarg; break;
         case 'S':
-            if (nsched == MAX_SCHEDULES)
+            if (o->nsched == MAX_SCHEDULES)
                 return usage_error("at most %s --schedule files", "64");
-            schedules[nsched++] = optarg;
+            o->schedules[o->nsched++] = optarg;
             break;
         case 'p':
             if (!strcmp(optarg, ",") || !strcmp(optarg, ";") || !strcmp(optarg, "\t"))
-                csv_sep = optarg[0];
+                o->csv_sep = optarg[0];
             else if (!strcmp(optarg, "tab"))
-                csv_sep = '\t';
+                o->csv_sep = '\t';
             else
                 return usage_error("--csv-sep: '%s' is not ',' ';' or 'tab'", optarg);
             break;
-        case 'x': example = 1; break;
-        case 'r': sweep_run_id = optarg; break;
-        case 'v': vary = optarg; break;
-        case 'j': objective = optarg; break;
+        case 'x': o->example = 1; break;
+        case 'r': o->sweep_run_id = optarg; break;
+        case 'v': o->vary = optarg; break;
+        case 'j': o->objective = optarg; break;
         case 'e':
-            if (nset == OVR_MAX)
+            if (o->nset == OVR_MAX)
                 return usage_error("at most %s --set options", "64");
-            set_args[nset++] = optarg;
+            o->set_args[o->nset++] = optarg;
             break;
         case 'h': fputs(usage_text, stdout); return EXIT_OK;
         case 'V':
@@ -824,22 +833,32 @@ static int run(int argc, char **argv)
         default: return usage_error("unknown option '%s'", argv[optind - 1]);
         }
     }
+    return CLI_GO_ON;
+}
+
+static int run(int argc, char **argv)
+{
+    struct cli o;
+    hl_mem_hook_cjson();
+    int rc = read_options(argc, argv, &o);
+    if (rc != CLI_GO_ON)
+        return rc;
     if (optind >= argc)
         return usage_error("%s", "missing command: check or report");
     const char *cmd = argv[optind++];
-    if (nset && (!strcmp(cmd, "compare") || !strcmp(cmd, "schedule-template")))
+    if (o.nset && (!strcmp(cmd, "compare") || !strcmp(cmd, "schedule-template")))
         return usage_error("--set belongs to check, report and sweep (%s: write the what-if's "
                            "ledger with report --set -o and compare that)", cmd);
     if (!strcmp(cmd, "compare"))
-        return do_compare(argc, argv, outputs, nout, catalog_path, today_text);
+        return do_compare(argc, argv, o.outputs, o.nout, o.catalog_path, o.today_text);
     if (!strcmp(cmd, "schedule-template"))
-        return schedule_template(argc, argv, outputs, nout, example);
+        return schedule_template(argc, argv, o.outputs, o.nout, o.example);
     int report = !strcmp(cmd, "report"), sweep = !strcmp(cmd, "sweep");
     if (sweep) {
-        if (!sweep_run_id || !vary)
+        if (!o.sweep_run_id || !o.vary)
             return usage_error("%s", "sweep needs --run ID and --vary KEY=FROM:TO:STEP");
-        report = nout > 0;
-    } else if (sweep_run_id || vary || objective)
+        report = o.nout > 0;
+    } else if (o.sweep_run_id || o.vary || o.objective)
         return usage_error("%s", "--run, --vary and --objective belong to sweep");
     if (!report && !sweep && strcmp(cmd, "check"))
         return usage_error("unknown command '%s' (expected check, report, sweep, compare or schedule-template)", cmd);
@@ -848,39 +867,39 @@ static int run(int argc, char **argv)
     const char *campaign_path = argv[optind++];
     if (optind < argc)
         return usage_error("unexpected argument '%s'", argv[optind]);
-    if (report && nout == 0 && !sweep)
+    if (report && o.nout == 0 && !sweep)
         return usage_error("%s", "report needs -o OUT.xlsx or -o OUT.json");
-    if (!report && !sweep && nout > 0)
+    if (!report && !sweep && o.nout > 0)
         return usage_error("%s", "check writes nothing; use report -o");
-    for (int i = 0; i < nout; i++)
-        if (!has_ext(outputs[i], ".xlsx") && !has_ext(outputs[i], ".json"))
-            return usage_error("output '%s' must end in .xlsx or .json", outputs[i]);
-    int rc = outputs_clash(outputs, nout, campaign_path, catalog_path);
+    for (int i = 0; i < o.nout; i++)
+        if (!has_ext(o.outputs[i], ".xlsx") && !has_ext(o.outputs[i], ".json"))
+            return usage_error("output '%s' must end in .xlsx or .json", o.outputs[i]);
+    rc = outputs_clash(o.outputs, o.nout, campaign_path, o.catalog_path);
     if (rc != EXIT_OK)
         return rc;
 
     struct ledger_opts lo = {.today_min = -1, .created_min = source_date_minutes(),
-                             .all_products = all_products};
-    if (today_text) {
+                             .all_products = o.all_products};
+    if (o.today_text) {
         int bad;
-        if (isodate_parse(today_text, &lo.today_min, &bad))
-            return usage_error("--today: '%s' is not an ISO 8601 date (YYYY-MM-DD)", today_text);
+        if (isodate_parse(o.today_text, &lo.today_min, &bad))
+            return usage_error("--today: '%s' is not an ISO 8601 date (YYYY-MM-DD)", o.today_text);
     }
 
     struct campaign *c = NULL;
-    for (int i = 0; i < nout; i++)
-        for (int j = 0; j < nsched; j++)
-            if (afile_same(outputs[i], schedules[j]))
-                return usage_error("output '%s' is a --schedule file; choose another name", outputs[i]);
+    for (int i = 0; i < o.nout; i++)
+        for (int j = 0; j < o.nsched; j++)
+            if (afile_same(o.outputs[i], o.schedules[j]))
+                return usage_error("output '%s' is a --schedule file; choose another name", o.outputs[i]);
     struct ovr_list sets;
-    struct camp_opts co = {schedules, nsched, csv_sep, nset ? &sets : NULL};
-    if ((rc = load_campaign(campaign_path, catalog_path, &co, set_args, nset, &sets, &c)) != EXIT_OK)
+    struct camp_opts co = {o.schedules, o.nsched, o.csv_sep, o.nset ? &sets : NULL};
+    if ((rc = load_campaign(campaign_path, o.catalog_path, &co, o.set_args, o.nset, &sets, &c)) != EXIT_OK)
         return rc;
     struct hl_err e;
     hl_err_clear(&e);
     enum hl_status st;
     if (sweep) {
-        rc = do_sweep(c, &lo, sweep_run_id, vary, objective, outputs, nout, &sets);
+        rc = do_sweep(c, &lo, o.sweep_run_id, o.vary, o.objective, o.outputs, o.nout, &sets);
         camp_free(c);
         ovr_free(&sets);
         return rc;
@@ -891,20 +910,20 @@ static int run(int argc, char **argv)
     ovr_blame(&sets, &e); /* a model's error in a --set value (a SMILES) names the --set */
     ovr_free(&sets);
     if (st) {
-        print_err(err_file(&e, campaign_path, catalog_path), &e);
+        print_err(err_file(&e, campaign_path, o.catalog_path), &e);
         return exit_for(st);
     }
     print_warnings(l);
     /* report writes first and prints after: a reader that stops early (| head) cannot
      * keep the ledger from being written */
     if (report)
-        rc = write_outputs(l, outputs, nout);
+        rc = write_outputs(l, o.outputs, o.nout);
     if (rc == EXIT_OK) {
         print_summary(l);
-        for (int i = 0; i < nout; i++)
-            printf("wrote %s\n", outputs[i]);
+        for (int i = 0; i < o.nout; i++)
+            printf("wrote %s\n", o.outputs[i]);
     }
-    if (rc == EXIT_OK && strict && l->nwarnings > 0)
+    if (rc == EXIT_OK && o.strict && l->nwarnings > 0)
         rc = EXIT_WARNINGS;
     ledger_free(l);
     return rc;

@@ -2642,6 +2642,52 @@ static double xo_cells(const struct ledger *l)
     return n;
 }
 
+/* Every sheet, in the order of the workbook's tabs (each stops at the first error in w->st). */
+static void xo_sheets(struct xw *w)
+{
+    xo_summary(w);
+    xo_runs(w);
+    xo_products(w);
+    xo_liquor(w);
+    xo_units(w);
+    xo_hours(w);
+    xo_column(w);
+    xo_emis_runs(w);
+    xo_emis_by_hour(w);
+    xo_permits(w);
+    xo_emis_charts(w);
+    xo_orders(w);
+    xo_actuals(w);
+    xo_checks(w);
+    xo_waste(w);
+    xo_spent(w);
+    xo_heat(w);
+    xo_monthly(w); /* and the Charts sheet */
+    xo_warnings(w);
+    xo_cautions(w);
+    xo_assumptions(w);
+}
+
+/* fsync the written temporary tmp (the library does not: a crash after the rename must not
+ * leave an empty file), then rename it onto path.  Frees tmp; removes it on failure. */
+static enum hl_status sync_commit(char *tmp, const char *path, struct hl_err *e)
+{
+    enum hl_status st;
+    int fd = open(tmp, O_RDONLY | O_CLOEXEC);
+    if (fd < 0 || (fsync(fd) != 0 && errno != EINVAL)) {
+        st = hl_err_set(e, HL_ERR_IO, "cannot write %s: %s", path, strerror(errno));
+        if (fd >= 0)
+            close(fd);
+        unlink(tmp);
+        hl_free(tmp);
+        return st;
+    }
+    close(fd);
+    st = afile_commit(tmp, path, e);
+    hl_free(tmp);
+    return st;
+}
+
 enum hl_status xlsx_out_write_opt(const struct ledger *l, const char *path, int stream,
                                   struct hl_err *e)
 {
@@ -2658,7 +2704,6 @@ enum hl_status xlsx_out_write_opt(const struct ledger *l, const char *path, int 
         hl_free(tmp);
         return st;
     }
-    int fd;
     struct xw *w = hl_calloc(1, sizeof *w);
     if (!w) {
         unlink(tmp);
@@ -2688,27 +2733,7 @@ enum hl_status xlsx_out_write_opt(const struct ledger *l, const char *path, int 
         xo_fail(w, HL_ERR_NOMEM, "cannot add cell formats");
     if (w->st == HL_OK)
         xo_check(w, workbook_set_properties(w->wb, &props), 0, 0);
-    xo_summary(w);
-    xo_runs(w);
-    xo_products(w);
-    xo_liquor(w);
-    xo_units(w);
-    xo_hours(w);
-    xo_column(w);
-    xo_emis_runs(w);
-    xo_emis_by_hour(w);
-    xo_permits(w);
-    xo_emis_charts(w);
-    xo_orders(w);
-    xo_actuals(w);
-    xo_checks(w);
-    xo_waste(w);
-    xo_spent(w);
-    xo_heat(w);
-    xo_monthly(w); /* and the Charts sheet */
-    xo_warnings(w);
-    xo_cautions(w);
-    xo_assumptions(w);
+    xo_sheets(w);
     if (w->st != HL_OK) {
         st = w->st;
         lxw_workbook_free(w->wb); /* frees without writing the file */
@@ -2724,20 +2749,7 @@ enum hl_status xlsx_out_write_opt(const struct ledger *l, const char *path, int 
     }
     hl_free(w);
     hl_free(dir);
-    /* the library does not fsync: do it so a crash after rename cannot leave an empty file */
-    fd = open(tmp, O_RDONLY | O_CLOEXEC);
-    if (fd < 0 || (fsync(fd) != 0 && errno != EINVAL)) {
-        st = hl_err_set(e, HL_ERR_IO, "cannot write %s: %s", path, strerror(errno));
-        if (fd >= 0)
-            close(fd);
-        unlink(tmp);
-        hl_free(tmp);
-        return st;
-    }
-    close(fd);
-    st = afile_commit(tmp, path, e);
-    hl_free(tmp);
-    return st;
+    return sync_commit(tmp, path, e);
 
 fail_nowb:
     unlink(tmp);
