@@ -668,6 +668,85 @@ static void jo_reaction(struct jo *w, const struct ledger_run *r)
     jo_close(w, '}');
 }
 
+/* A run's products[] (the rows listed, the lumped "other" row with its label). */
+static void jo_run_products(struct jo *w, const struct ledger_run *r)
+{
+    const struct ledger_bal *b = &r->bal;
+    jo_open(w, "products", '[');
+    for (int p = 0; p < b->nproducts && w->st == HL_OK; p++) {
+        const struct ledger_product *bp = &b->products[p];
+        jo_open(w, NULL, '{');
+        jo_str(w, "smiles", bp->smiles);
+        jo_str(w, "formula", bp->role == ROLE_OTHER ? NULL : bp->formula); /* a mixture */
+        jo_num(w, "degree", bp->degree);
+        jo_num(w, "molar_mass_g_mol", bp->molar_mass_g_mol);
+        jo_num(w, "mol", bp->mol);
+        jo_num(w, "kg", bp->kg);
+        jo_num(w, "mol_fraction", bp->mol_fraction);
+        jo_str(w, "role", ledger_role_name(bp->role));
+        if (bp->role == ROLE_OTHER) { /* the sum of the rows below the reporting threshold */
+            jo_num(w, "mean_degree", r->other_mean_degree);
+            jo_num(w, "rows_summed", r->other_rows);
+            char label[64];
+            ledger_other_label(bp, label, sizeof label);
+            jo_str(w, "label", label);
+        }
+        jo_close(w, '}');
+    }
+    jo_close(w, ']');
+}
+
+/* A run's scrubber{} object: its liquor after the run. */
+static void jo_run_scrubber(struct jo *w, const struct ledger_run *r)
+{
+    const struct scrub_run_out *s = &r->scrub;
+    jo_open(w, "scrubber", '{');
+    jo_str(w, "id", r->scrubber);
+    jo_num(w, "naoh_kg", s->naoh_kg);
+    jo_num(w, "heat_kj", s->heat_kj);
+    jo_num(w, "temp_rise_k", s->temp_rise_k);
+    jo_bool(w, "changeout_before", s->changeout_before);
+    jo_bool(w, "exhausted", s->exhausted);
+    jo_num(w, "naoh_left_kg", s->naoh_left_kg);
+    jo_num(w, "liquor_kg_after", s->liquor_kg_after);
+    jo_num(w, "naoh_wt_pct_after", s->naoh_wt_pct_after);
+    jo_open(w, "salts_kg", '{');
+    for (int k = 0; k < SALT_COUNT; k++)
+        jo_num(w, jo_salt_key(k), s->salt_kg[k]);
+    jo_close(w, '}');
+    jo_num(w, "water_formed_kg", s->water_formed_kg);
+    jo_num(w, "acid_wt_pct_after", s->acid_wt_pct_after);
+    jo_num(w, "liquor_temp_c_after", s->liquor_temp_c_after);
+    jo_num(w, "heat_kw", s->heat_kw);
+    jo_bool(w, "too_hot", s->too_hot);
+    jo_num(w, "sulfite_oxidised_mol", s->sulfite_oxidised_mol);
+    jo_num(w, "breakthrough_mol", s->breakthrough_mol);
+    jo_num(w, "unabsorbed_mol", s->unabsorbed_mol);
+    jo_num(w, "caustic_solution_kg", r->changeout_caustic_solution_kg);
+    jo_num(w, "dilution_water_kg", r->changeout_water_kg);
+    jo_num(w, "hbr_wt_pct_after", s->hbr_wt_pct_after);
+    jo_num(w, "boiling_point_c", s->boiling_point_c);
+    jo_bool(w, "boils", s->boils);
+    jo_close(w, '}');
+}
+
+/* A run's element_balance{}: the largest relative error and each element in and out. */
+static void jo_run_elements(struct jo *w, const struct ledger_bal *b)
+{
+    jo_open(w, "element_balance", '{');
+    jo_num(w, "max_rel_error", b->max_rel_error);
+    jo_open(w, "elements", '{');
+    for (int k = 0; k < BAL_NEL; k++) {
+        const char *sym = elem_symbol(bal_elements[k]);
+        jo_open(w, sym ? sym : "?", '{');
+        jo_num(w, "in_mol", b->el_in_mol[k]);
+        jo_num(w, "out_mol", b->el_out_mol[k]);
+        jo_close(w, '}');
+    }
+    jo_close(w, '}');
+    jo_close(w, '}');
+}
+
 static void jo_run(struct jo *w, const struct ledger *l, int i)
 {
     const struct ledger_run *r = &l->runs[i];
@@ -706,28 +785,7 @@ static void jo_run(struct jo *w, const struct ledger *l, int i)
     jo_bool(w, "capped", b->capped);
     jo_num(w, "mean_degree", b->mean_degree);
 
-    jo_open(w, "products", '[');
-    for (int p = 0; p < b->nproducts && w->st == HL_OK; p++) {
-        const struct ledger_product *bp = &b->products[p];
-        jo_open(w, NULL, '{');
-        jo_str(w, "smiles", bp->smiles);
-        jo_str(w, "formula", bp->role == ROLE_OTHER ? NULL : bp->formula); /* a mixture */
-        jo_num(w, "degree", bp->degree);
-        jo_num(w, "molar_mass_g_mol", bp->molar_mass_g_mol);
-        jo_num(w, "mol", bp->mol);
-        jo_num(w, "kg", bp->kg);
-        jo_num(w, "mol_fraction", bp->mol_fraction);
-        jo_str(w, "role", ledger_role_name(bp->role));
-        if (bp->role == ROLE_OTHER) { /* the sum of the rows below the reporting threshold */
-            jo_num(w, "mean_degree", r->other_mean_degree);
-            jo_num(w, "rows_summed", r->other_rows);
-            char label[64];
-            ledger_other_label(bp, label, sizeof label);
-            jo_str(w, "label", label);
-        }
-        jo_close(w, '}');
-    }
-    jo_close(w, ']');
+    jo_run_products(w, r);
 
     jo_open(w, "byproducts", '{');
     jo_num(w, "HCl_kg", b->hx_kg[0]);
@@ -752,47 +810,9 @@ static void jo_run(struct jo *w, const struct ledger *l, int i)
     jo_num(w, "unreacted_substrate_kg", b->unreacted_substrate_kg);
     jo_close(w, '}');
 
-    jo_open(w, "scrubber", '{');
-    jo_str(w, "id", r->scrubber);
-    jo_num(w, "naoh_kg", s->naoh_kg);
-    jo_num(w, "heat_kj", s->heat_kj);
-    jo_num(w, "temp_rise_k", s->temp_rise_k);
-    jo_bool(w, "changeout_before", s->changeout_before);
-    jo_bool(w, "exhausted", s->exhausted);
-    jo_num(w, "naoh_left_kg", s->naoh_left_kg);
-    jo_num(w, "liquor_kg_after", s->liquor_kg_after);
-    jo_num(w, "naoh_wt_pct_after", s->naoh_wt_pct_after);
-    jo_open(w, "salts_kg", '{');
-    for (int k = 0; k < SALT_COUNT; k++)
-        jo_num(w, jo_salt_key(k), s->salt_kg[k]);
-    jo_close(w, '}');
-    jo_num(w, "water_formed_kg", s->water_formed_kg);
-    jo_num(w, "acid_wt_pct_after", s->acid_wt_pct_after);
-    jo_num(w, "liquor_temp_c_after", s->liquor_temp_c_after);
-    jo_num(w, "heat_kw", s->heat_kw);
-    jo_bool(w, "too_hot", s->too_hot);
-    jo_num(w, "sulfite_oxidised_mol", s->sulfite_oxidised_mol);
-    jo_num(w, "breakthrough_mol", s->breakthrough_mol);
-    jo_num(w, "unabsorbed_mol", s->unabsorbed_mol);
-    jo_num(w, "caustic_solution_kg", r->changeout_caustic_solution_kg);
-    jo_num(w, "dilution_water_kg", r->changeout_water_kg);
-    jo_num(w, "hbr_wt_pct_after", s->hbr_wt_pct_after);
-    jo_num(w, "boiling_point_c", s->boiling_point_c);
-    jo_bool(w, "boils", s->boils);
-    jo_close(w, '}');
+    jo_run_scrubber(w, r);
 
-    jo_open(w, "element_balance", '{');
-    jo_num(w, "max_rel_error", b->max_rel_error);
-    jo_open(w, "elements", '{');
-    for (int k = 0; k < BAL_NEL; k++) {
-        const char *sym = elem_symbol(bal_elements[k]);
-        jo_open(w, sym ? sym : "?", '{');
-        jo_num(w, "in_mol", b->el_in_mol[k]);
-        jo_num(w, "out_mol", b->el_out_mol[k]);
-        jo_close(w, '}');
-    }
-    jo_close(w, '}');
-    jo_close(w, '}');
+    jo_run_elements(w, &r->bal);
     jo_bool(w, "isomers_resolved", b->isomers_resolved);
     jo_num(w, "wanted_mol", b->wanted_mol);
     jo_num(w, "converted_mol", b->converted_mol);
