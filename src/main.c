@@ -174,6 +174,15 @@ static void print_close(const struct ledger_month *m)
            k->naoh_plan_kg);
 }
 
+/* One route of a month (substrate, reagent, wanted product): its runs, wanted kg and yield. */
+static void print_route(const struct ledger_month_product *p)
+{
+    printf("           %s + %s -> %s: %d run%s, wanted %.1f kg, yield %.1f %%\n",
+           p->substrate_name ? p->substrate_name : p->substrate, reagent_get(p->reagent)->name,
+           p->wanted_formula[0] ? p->wanted_formula : "(no wanted product)", p->runs,
+           p->runs == 1 ? "" : "s", p->wanted_kg, p->yield_pct);
+}
+
 static void print_summary(const struct ledger *l)
 {
     char month[16], when[20];
@@ -187,10 +196,16 @@ static void print_summary(const struct ledger *l)
         double acid = 0;
         for (int v = 0; v < VS_COUNT; v++)
             acid += m->vent_kg[v];
-        printf("  %s  runs %d  wanted product %.1f kg  isomers %.1f kg  over-halogenated %.1f kg"
+        /* unlike products are not one quantity: several routes get a line each below */
+        char routes[40] = "";
+        if (m->nproducts > 1)
+            snprintf(routes, sizeof routes, " (%d routes)", m->nproducts);
+        printf("  %s  runs %d  wanted product%s %.1f kg%s  isomers %.1f kg  over-halogenated %.1f kg"
                "  gas to scrubber %.1f kg  NaOH consumed %.1f kg  changeouts %d\n",
-               month, m->runs, m->product_kg, m->isomer_kg, m->overhal_kg, acid, m->naoh_kg,
-               m->changeouts);
+               month, m->runs, m->nproducts > 1 ? "s" : "", m->product_kg, routes, m->isomer_kg,
+               m->overhal_kg, acid, m->naoh_kg, m->changeouts);
+        for (int k = 0; m->nproducts > 1 && k < m->nproducts; k++)
+            print_route(&m->products[k]);
         for (int r = 0; r < RG_COUNT; r++)
             if (m->reagents_kg[r] > 0 && r != RG_NAOH)
                 printf("           %-7s %.1f kg charged\n", reagent_get(r)->name, m->reagents_kg[r]);
@@ -215,7 +230,8 @@ static void print_summary(const struct ledger *l)
                s->out.overloaded ? " OVERLOADED" : "", s->out.changeouts, s->out.naoh_kg);
         if (s->out.npeak_heat_runs > 0) {
             isodate_format(s->out.peak_heat_at_min, 0, when, sizeof when);
-            printf("    peak heat release %.1f kW from %s (runs", s->out.peak_heat_kw, when);
+            printf("    peak heat release %.1f kW from %s (run%s", s->out.peak_heat_kw, when,
+                   s->out.npeak_heat_runs == 1 ? "" : "s");
             for (int k = 0; k < s->out.npeak_heat_runs; k++)
                 printf("%s %s", k ? "," : "", l->runs[s->out.peak_heat_runs[k]].id);
             printf(")\n");

@@ -13,7 +13,7 @@ methane, 92.141 kg of toluene and 42.081 kg of propene are 1000 mol each.
 - A fresh charge of liquor_kg at w_fresh from solution at w_makeup: solution = liquor_kg x
   w_fresh / w_makeup, water = liquor_kg - solution (NaOH conserved on dilution).
 """
-import json, math, os, subprocess, sys, tempfile
+import json, math, os, re, subprocess, sys, tempfile
 
 sys.path.insert(0, os.path.dirname(os.path.abspath(__file__)))
 from _hl import BIN, CIAAW, WRAP, Tally
@@ -76,6 +76,9 @@ with tempfile.TemporaryDirectory() as d:
     T.check(p.returncode == 0, f"report exit {p.returncode}: {p.stderr}")
     L = json.load(open(out)) if p.returncode == 0 else {"runs": [], "months": [], "scrubbers": [],
                                                         "orders": []}
+    q = subprocess.run(WRAP + [BIN, "check", camp], capture_output=True, text=True)
+    T.check(q.returncode == 0, f"check exit {q.returncode}: {q.stderr}")
+    CHECK_TEXT = q.stdout
 
 runs = {r["id"]: r for r in L["runs"]}
 T.check(set(runs) == {"M-1", "M-2", "M-3", "N-1", "H-1", "H-2"}, f"run ids {sorted(runs)}")
@@ -135,6 +138,24 @@ for x in routes:
     close(x["selectivity_pct"], 100 * want / conv, f"{what} selectivity_pct")
     close(x["halogen_efficiency_pct"], 100 * want / hal, f"{what} halogen_efficiency_pct")
 close(month_hand["HBr"][2] / month_hand["HBr"][1] * 100, 65.0, "propene month yield hand value")
+# `check` prints the month's routes one a line (three unlike products are not one figure):
+# "methane + Cl2 -> CH3Cl: 3 runs, wanted K kg, yield Y %", Y to 0.1 % from the hand figures
+route_lines = {}
+for ln in CHECK_TEXT.splitlines():
+    mt = re.match(r"^ {11}(\S+) \+ (\S+) -> (\S+): (\d+) runs?, wanted ([\d.]+) kg, yield ([\d.]+) %$", ln)
+    if mt:
+        route_lines[mt.group(2)] = mt.groups()
+T.check(re.search(r"^  2027-05  runs 6  wanted products [\d.]+ kg \(3 routes\)", CHECK_TEXT, re.M)
+        is not None, f"check month line names 3 routes: {CHECK_TEXT[:300]!r}")
+for reagent, (n, sub, want, conv, hal) in month_hand.items():
+    g = route_lines.get(reagent)
+    if not T.check(g is not None, f"check route line for {reagent}: {sorted(route_lines)}"):
+        continue
+    T.check(int(g[3]) == n, f"check route {reagent} runs {g[3]} (want {n})")
+    T.check(g[5] == f"{100 * want / sub:.1f}", f"check route {reagent} yield {g[5]} "
+            f"(want {100 * want / sub:.1f})")
+T.check(route_lines.get("Cl2", ("",) * 3)[:3] == ("methane", "Cl2", "CH3Cl"),
+        f"check route Cl2 names {route_lines.get('Cl2')}")
 
 # caustic: NaOH as 100 % consumed per run, solution and dilution water per changeout
 sol = LIQUOR_KG * FRESH_PCT / MAKEUP_PCT    # 75 kg of 40 wt% solution
