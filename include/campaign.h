@@ -23,10 +23,14 @@
  *             report {paper "A4"|"Letter" = A4; min_mol_fraction [0,1) = 1e-4: over-halogenated
  *             products below it are summed into one "other" row per run} (layout of the
  *             ledgers only: every total is computed from all products).
- *  scrubbers: id R (unique); liquor "naoh"|"water" = naoh; naoh_wt_pct [0.1,50] R for naoh;
- *             liquor_kg [1, 1e9) R; min_naoh_wt_pct [0, naoh_wt_pct) = 2 (naoh only);
- *             max_acid_wt_pct [0.1,60] = 20 (water only); rated_acid_kmol_h [1e-3,1e6] R;
- *             makeup_naoh_wt_pct (0,100] = 50, >= naoh_wt_pct; liquor_cp_kj_kg_k [0.5,10]
+ *  scrubbers: id R (unique); liquor: a liquor row's spelling (liquor.h: "naoh", "water",
+ *             "soda_ash") = naoh; liquor_kg [1, 1e9) R; the base strengths, spelled as the
+ *             liquor's row says (enum liquor_keys; the other spelling is refused):
+ *             naoh_wt_pct | base_wt_pct [0.1, the row's max_base_wt_pct] R with a base;
+ *             min_naoh_wt_pct | min_base_wt_pct [0, fresh strength) = 2;
+ *             makeup_naoh_wt_pct (0,100] = 50 | makeup_base_wt_pct (0,100] = 100, each >=
+ *             the fresh strength; max_acid_wt_pct [0.1,60] = 20 (a liquor that dissolves HCl:
+ *             water); rated_acid_kmol_h [1e-3,1e6] R; liquor_cp_kj_kg_k [0.5,10]
  *             (absent: the built-in tables, liquor_cp_given 0); fresh_liquor_temp_c [-20,80] = 25;
  *             max_liquor_temp_c (0,150] = 40; column {packing_factor_1_m [1,1e4] R, htu_m [0.01,20] R,
  *             removal_fraction [0.01,1) R, flood_fraction [0.1,1) = 0.7, carrier_kmol_h [1e-3,1e6] R,
@@ -105,6 +109,8 @@ struct camp_strpos {
     struct camp_esc *esc;       /* nesc entries (NULL when none); owned by the campaign */
 };
 
+/* The liquor of a scrubber is an enum liquor_id (liquor.h, the campaign's spellings); these
+ * two names stay for the first two rows. */
 enum camp_liquor { CAMP_LIQUOR_NAOH, CAMP_LIQUOR_WATER };
 enum camp_mode { CAMP_BATCH, CAMP_CSTR };
 
@@ -137,14 +143,16 @@ struct camp_column {
 
 struct camp_scrubber {
     char *id;
-    enum camp_liquor liquor;
-    double naoh_wt_pct;         /* fresh liquor strength (naoh liquor) */
+    int liquor;                 /* enum liquor_id */
+    /* the base strengths [wt% of the liquor's base], a liquor with a base (given as
+     * naoh_wt_pct ... for caustic, base_wt_pct ... for another base) */
+    double base_wt_pct;         /* fresh liquor strength */
     double liquor_kg;           /* charge of fresh liquor */
-    double min_naoh_wt_pct;     /* changeout before a run would go below it */
+    double min_base_wt_pct;     /* changeout before a run would go below it */
     double max_acid_wt_pct;     /* water liquor: changeout before HCl passes it */
     double max_hbr_wt_pct;      /* water liquor: the same for HBr (no key: built in, 47) */
     double rated_acid_kmol_h;
-    double makeup_naoh_wt_pct;  /* strength of purchased caustic, default 50 */
+    double makeup_base_wt_pct;  /* strength of the base bought (caustic default 50) */
     double liquor_cp_kj_kg_k;   /* given heat capacity of the liquor, where liquor_cp_given */
     int liquor_cp_given;        /* 0: the built-in tables of the liquor (scrubber.h) */
     double fresh_liquor_temp_c; /* fresh liquor and idle-unit temperature, default 25 */

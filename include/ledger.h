@@ -94,9 +94,10 @@ struct ledger_run {
     struct ledger_bal bal;               /* also yield, conversion, selectivity, halogen efficiency;
                                           * products: see ledger_build (reporting threshold) */
     struct scrub_run_out scrub;
-    /* the fresh charge before this run (0 without changeout_before): purchased caustic
-     * solution at its unit's makeup_naoh_wt_pct [kg of solution] and dilution water [kg] */
-    double changeout_caustic_solution_kg, changeout_water_kg;
+    /* the fresh charge before this run (0 without changeout_before): the base bought at its
+     * unit's makeup_base_wt_pct [kg as bought], of it what is caustic solution (a NaOH base;
+     * else 0) [kg of solution], and dilution water [kg] */
+    double changeout_makeup_kg, changeout_caustic_solution_kg, changeout_water_kg;
     int other_rows;                      /* products summed into the ROLE_OTHER row, 0 = none */
     double other_mean_degree;            /* mol-weighted mean degree of that row */
     /* reaction heat, adiabatic rise, MTSR, criticality class (thermal.h); the inputs used */
@@ -163,9 +164,11 @@ struct ledger_month {
     int month_index;                     /* isodate_month_index */
     int runs;
     double product_kg, isomer_kg, overhal_kg, unreacted_substrate_kg;
-    double reagents_kg[RG_COUNT];        /* charged (NaOH: caustic make-up bought) */
+    double reagents_kg[RG_COUNT];        /* charged (a scrubber base: its make-up bought) */
     double vent_kg[VS_COUNT];
     double naoh_kg;                      /* consumed in scrubbers, as 100 % NaOH */
+    double base_kg[RG_COUNT];            /* each scrubber base consumed, as 100 % (RK_BASE rows) */
+    double co2_kg;                       /* CO2 the liquors gave off (up the stacks) */
     int changeouts;
     double spent_liquor_kg, succinimide_kg, reagent_left_kg, retained_acid_kg;
     /* Caustic for this month's changeouts: solution bought at each unit's makeup strength
@@ -178,7 +181,11 @@ struct ledger_month {
 struct ledger_scrubber {
     char *id;
     double rated_acid_kmol_h;
-    double makeup_naoh_wt_pct;           /* strength of the caustic bought [wt% NaOH]; 0 water liquor */
+    int base;                            /* enum reagent_id of the liquor's base, -1: none */
+    double makeup_base_wt_pct;           /* strength of the base bought [wt%]; 0 without a base */
+    double changeout_makeup_kg;          /* base bought per fresh charge [kg as bought] */
+    /* the same where the base is NaOH (the public caustic figures), else 0: */
+    double makeup_naoh_wt_pct;           /* strength of the caustic bought [wt% NaOH] */
     double changeout_caustic_solution_kg; /* per fresh charge [kg of solution at makeup strength] */
     double changeout_water_kg;           /* dilution water per fresh charge [kg] */
     double dilution_water_kg;            /* over all changeouts [kg] (out.makeup_kg is the solution) */

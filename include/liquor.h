@@ -13,7 +13,7 @@
 enum liquor_dfh_id {
     DFH_H2O, DFH_HCL_G, DFH_HCL_AQ, DFH_HBR_G, DFH_CL2_G, DFH_BR2_G, DFH_SO2_G, DFH_NAOH_AQ,
     DFH_NACL_AQ, DFH_NABR_AQ, DFH_NAOCL_AQ, DFH_NAOBR_AQ, DFH_NA2SO3_AQ, DFH_NA2SO4_AQ,
-    DFH_HBR_G_NBS, DFH_HBR_AQ, DFH_COUNT
+    DFH_HBR_G_NBS, DFH_HBR_AQ, DFH_CO2_G, DFH_NA2CO3_AQ, DFH_COUNT
 };
 struct liquor_dfh { const char *species; double dfh_kj_mol; const char *source; };
 /* Row i of the formation-enthalpy table, NULL out of range. Static data. */
@@ -44,12 +44,16 @@ enum liquor_uptake {
     LQ_DISSOLVES  /* absorbed as an acid solution, up to a changeout strength */
 };
 
+#define LQ_MAX_SALTS 3 /* products a reacting gas may form in the liquor, besides water */
+
 struct liquor_gas {
     int uptake;                /* enum liquor_uptake */
     double base_mol;           /* LQ_REACTS: base used per mol of gas */
-    int salt[2];               /* LQ_REACTS: salts formed (-1: none) */
-    double salt_mol[2];        /*   per mol of gas */
+    int salt[LQ_MAX_SALTS];    /* LQ_REACTS: salts formed (-1: none) */
+    double salt_mol[LQ_MAX_SALTS]; /* per mol of gas */
     double water_mol;          /* LQ_REACTS: water formed per mol of gas */
+    double co2_mol;            /* LQ_REACTS: CO2 given off per mol of gas (a carbonate base); it
+                                * leaves the liquor as gas, up the stack with the vent gas */
     int dfh_gas, dfh_taken;    /* formation enthalpies: the gas, and (LQ_DISSOLVES) its
                                 * solution; the heats follow from these rows (the changeout
                                 * strength of a dissolved gas is the unit's, from the campaign) */
@@ -60,10 +64,25 @@ struct liquor_gas {
 /* Composition of a liquor, mass percent of the whole: its base and each dissolved gas. */
 struct liquor_comp { double base_wt_pct; double gas_wt_pct[VS_COUNT]; };
 
+/* Which campaign keys give a liquor's base strengths (fresh, minimum, make-up; the reader
+ * takes these and refuses the other spellings, campaign.h). */
+enum liquor_keys {
+    LQ_KEYS_NONE,  /* no base: none of them */
+    LQ_KEYS_NAOH,  /* naoh_wt_pct, min_naoh_wt_pct, makeup_naoh_wt_pct (they name NaOH) */
+    LQ_KEYS_BASE   /* base_wt_pct, min_base_wt_pct, makeup_base_wt_pct (any other base) */
+};
+
 struct liquor_info {
     const char *name;          /* campaign spelling ("naoh") */
     int base;                  /* enum reagent_id of the base (bought as make-up), -1: none */
     int dfh_base;              /* enum liquor_dfh_id of the dissolved base, -1: none */
+    int keys;                  /* enum liquor_keys */
+    double max_base_wt_pct;    /* strongest fresh liquor the reader takes [wt% base]: the end of
+                                * the property tables, or under the base's solubility */
+    const char *max_base_why;  /* why (the reader's message), NULL: the tables end there */
+    const char *unit_noun;     /* "caustic scrubber" (messages: "a liquor under 0.1 wt% NaOH
+                                * is no caustic scrubber") */
+    const char *makeup_noun;   /* what is bought ("caustic", "soda ash") */
     struct liquor_gas gas[VS_COUNT];
     /* Property tables at a composition (sources in liquor.c): heat capacity [kJ/(kg K)],
      * boiling point at 1 atm [C], density [kg/m3] and viscosity [mPa s] of the fresh liquor

@@ -23,7 +23,7 @@ enum reagent_kind {
     RK_SUBSTITUTION, /* RH + X-Y -> RX + HY (Cl2, Br2, SO2Cl2) */
     RK_NBS,          /* allylic/benzylic RH + NBS -> RBr + succinimide */
     RK_ADDITION,     /* radical anti-Markovnikov C=C + HBr -> RBr */
-    RK_CAUSTIC
+    RK_BASE          /* a scrubber liquor's base: bought as make-up, never charged */
 };
 
 /* Vent species (gas sent to the scrubber). */

@@ -27,11 +27,13 @@
 struct scrub_unit_in {
     const char *id;
     int liquor;                 /* enum liquor_id: its row says what it does with each gas */
-    double naoh_wt_pct, liquor_kg, min_naoh_wt_pct; /* the base of a liquor that has one */
+    /* the base of a liquor that has one (its row's base, NaOH for caustic) [wt% of the liquor]:
+     * fresh strength and the least before a changeout */
+    double base_wt_pct, liquor_kg, min_base_wt_pct;
     double max_gas_wt_pct[VS_COUNT]; /* changeout strength [wt%, > 0] of each gas the liquor
                                  * dissolves (water: HCl, HBr); with several acids, changeout
                                  * before the sum of strength / limit passes 1 */
-    double rated_acid_kmol_h, makeup_naoh_wt_pct; /* caustic: makeup >= naoh_wt_pct */
+    double rated_acid_kmol_h, makeup_base_wt_pct; /* strength of the base bought, >= base_wt_pct */
     double liquor_cp_kj_kg_k;   /* used where liquor_cp_given, else the built-in tables */
     int liquor_cp_given;
     int has_column;
@@ -57,12 +59,16 @@ struct scrub_run_in {
 
 struct scrub_run_out {
     double acid_kmol_h;         /* (HCl+HBr+Cl2+Br2+SO2) vented / feed_h x peak_factor [kmol/h] */
-    double naoh_kg;             /* NaOH consumed */
+    double base_kg;             /* the liquor's base consumed, as 100 % */
+    double co2_kg;              /* CO2 given off by the liquor (a carbonate base): up the stack */
+    double naoh_kg;             /* NaOH consumed, as 100 %: base_kg where the base is NaOH, else 0
+                                 * (the public NaOH figures, design section 5) */
     double heat_kj;             /* heat released in the liquor (positive = released) */
     double temp_rise_k;         /* adiabatic rise of the liquor */
     int changeout_before;       /* fresh liquor charged before this run */
     int exhausted;              /* liquor would run out during the run (warning) */
-    double naoh_left_kg, liquor_kg_after, naoh_wt_pct_after;
+    double base_left_kg, liquor_kg_after, base_wt_pct_after; /* the base, as 100 % */
+    double naoh_left_kg, naoh_wt_pct_after; /* the same where the base is NaOH, else 0 */
     double salt_kg[SALT_COUNT];
     double water_formed_kg;
     double acid_wt_pct_after;   /* water liquor: HCl + HBr wt% after the run */
@@ -105,7 +111,8 @@ struct scrub_emis {
 /* One liquor batch sent to waste (at a changeout, and the last one at campaign end). */
 struct scrub_spent {
     int64_t at_min;             /* when it was drained (start of the next run, or last run end) */
-    double mass_kg, naoh_kg, water_kg, hcl_kg, hbr_kg, salt_kg[SALT_COUNT];
+    double mass_kg, base_kg, water_kg, hcl_kg, hbr_kg, salt_kg[SALT_COUNT];
+    double naoh_kg;             /* base_kg where the base is NaOH, else 0 */
     int final;                  /* 1 = still in the unit at the end of the campaign */
 };
 
@@ -134,8 +141,10 @@ struct scrub_unit_out {
     int too_hot_runs;           /* runs with too_hot set */
     int boiling_runs;           /* runs with boils set */
     int changeouts;
-    double naoh_kg;             /* consumed over the campaign */
-    double makeup_kg;           /* purchased caustic solution for the changeouts [kg of makeup_naoh_wt_pct] */
+    double base_kg;             /* the base consumed over the campaign, as 100 % */
+    double co2_kg;              /* CO2 given off over the campaign */
+    double naoh_kg;             /* base_kg where the base is NaOH, else 0 */
+    double makeup_kg;           /* base bought for the changeouts [kg as bought, at makeup_base_wt_pct] */
     double heat_kj;
     /* Load profile over hours 0 .. nhours-1 from hour0_min, read with scrub_hourly_kmol_h.
      * scrub_campaign keeps only the hours with load: hourly_kmol_h[k] is hour
@@ -153,7 +162,7 @@ struct scrub_unit_out {
 /* Heat released per mole of gas absorbed [kJ/mol] (positive) in a liquor (enum liquor_id),
  * from the formation enthalpies of its row; 0 for a gas it passes. */
 double scrub_heat_kj_per_mol(int vent_species, int liquor);
-/* NaOH consumed per mole of gas in the caustic liquor [mol/mol]. */
+/* NaOH consumed per mole of gas in the caustic liquor [mol/mol] (the public NaOH plan figure). */
 double scrub_naoh_per_mol(int vent_species);
 
 /* Run the whole campaign. order[0..nruns-1] lists run indices by start time.
@@ -174,12 +183,12 @@ enum hl_status scrub_campaign(const struct scrub_unit_in *units, int nunits,
                               struct scrub_run_out *run_out, struct scrub_unit_out *unit_out,
                               struct hl_err *e);
 
-/* One fresh charge of liquor_kg made up from purchased caustic (issue 15.4): solution
- * bought = liquor_kg x naoh_wt_pct / makeup_naoh_wt_pct [kg of makeup strength], dilution
- * water = liquor_kg - solution [kg]. A liquor without a base (water): all liquor_kg is
- * water.  makeup_naoh_wt_pct must be > 0 for a liquor with a base (no default is taken). */
-void scrub_fresh_charge(double liquor_kg, double naoh_wt_pct, double makeup_naoh_wt_pct,
-                        int liquor, double *caustic_solution_kg, double *water_kg);
+/* One fresh charge of liquor_kg made up from the base bought (issue 15.4): make-up bought =
+ * liquor_kg x base_wt_pct / makeup_base_wt_pct [kg as bought], dilution water = liquor_kg -
+ * make-up [kg]. A liquor without a base (water): all liquor_kg is water.
+ * makeup_base_wt_pct must be > 0 for a liquor with a base (no default is taken). */
+void scrub_fresh_charge(double liquor_kg, double base_wt_pct, double makeup_base_wt_pct,
+                        int liquor, double *makeup_kg, double *water_kg);
 
 /* Heat released [kJ] per mol Na2SO3 oxidised in the liquor by SALT_NAOCL or
  * SALT_NAOBR (Na2SO3 + NaOX -> Na2SO4 + NaX); 0 for any other salt. */

@@ -21,6 +21,7 @@
 #include "hlmem.h"
 #include "isodate.h"
 #include "jsonpos.h"
+#include "liquor.h"
 #include "override.h"
 #include "reagents.h"
 #include "sched.h"
@@ -78,17 +79,27 @@ static void campaign_defaults(struct campaign *cp)
 static void scrubber_defaults(struct camp_scrubber *s)
 {
     s->liquor = CAMP_LIQUOR_NAOH;
-    s->min_naoh_wt_pct = 2;      /* common practice: keep a few % free caustic */
     s->max_acid_wt_pct = 20;     /* near the HCl-water azeotrope, 20.2 wt% at 1 atm (from memory) */
     /* not a key: built in, under the HBr-water azeotrope, about 47.6 wt% (from memory) */
     s->max_hbr_wt_pct = 47;
-    s->makeup_naoh_wt_pct = 50;  /* the usual commercial caustic strength (common practice) */
     s->liquor_cp_given = 0;      /* the liquor's heat capacity from the built-in tables */
     s->fresh_liquor_temp_c = 25; /* ambient (common practice) */
     /* Hypochlorite liquor is kept below about 40 C: above it hypochlorite disproportionates
      * to chlorate faster and the liquor absorbs Cl2 worse (common practice; hot water also
      * holds less HCl, so the same default serves a water liquor). */
     s->max_liquor_temp_c = 40;
+}
+
+/* The base strengths, by the keys the scrubber's liquor reads (liquor.h enum liquor_keys),
+ * set once the liquor is known.  Keep a few % free base before a changeout (common
+ * practice: for caustic, and the same rule for any base).  Caustic (naoh_* keys) is bought
+ * as the usual commercial 50 wt% solution; another base (base_* keys) as the dry solid,
+ * dissolved on site: soda ash is sold as dense soda ash, over 99 % Na2CO3 (common
+ * practice). */
+static void scrubber_base_defaults(struct camp_scrubber *s, int keys)
+{
+    s->min_base_wt_pct = 2;
+    s->makeup_base_wt_pct = keys == LQ_KEYS_BASE ? 100 : 50;
 }
 
 static void column_defaults(struct camp_column *col)
@@ -226,16 +237,22 @@ static void merge_model(struct camp_model *run, const struct camp_model *camp)
 
 /* scrubbers */
 enum { SK_ID, SK_LIQUOR, SK_NAOH, SK_LIQKG, SK_MIN, SK_MAXACID, SK_RATED, SK_MAKEUP, SK_CP, SK_COLUMN,
-       SK_NOTE, SK_FRESHT, SK_MAXT, SK_STACK, SK_REMOVAL, SK_N };
+       SK_NOTE, SK_FRESHT, SK_MAXT, SK_STACK, SK_REMOVAL, SK_BASE, SK_MINBASE, SK_MKBASE, SK_N };
 static const char *const scrub_keys[SK_N] = {
     "id", "liquor", "naoh_wt_pct", "liquor_kg", "min_naoh_wt_pct", "max_acid_wt_pct",
     "rated_acid_kmol_h", "makeup_naoh_wt_pct", "liquor_cp_kj_kg_k", "column", "note",
-    "fresh_liquor_temp_c", "max_liquor_temp_c", "stack_nm3_h", "removal"};
+    "fresh_liquor_temp_c", "max_liquor_temp_c", "stack_nm3_h", "removal", "base_wt_pct",
+    "min_base_wt_pct", "makeup_base_wt_pct"};
+/* The base-strength keys of each spelling a liquor row names (enum liquor_keys): fresh,
+ * minimum and make-up strength. */
+enum { BK_FRESH, BK_MIN, BK_MAKEUP, BK_N };
+static const int base_keys[3][BK_N] = {[LQ_KEYS_NONE] = {-1, -1, -1},
+                                       [LQ_KEYS_NAOH] = {SK_NAOH, SK_MIN, SK_MAKEUP},
+                                       [LQ_KEYS_BASE] = {SK_BASE, SK_MINBASE, SK_MKBASE}};
 enum { CK_FP, CK_HTU, CK_REMOVAL, CK_FLOOD, CK_CARRIER, CK_LIQ, CK_GAST, CK_N };
 static const char *const col_keys[CK_N] = {"packing_factor_1_m", "htu_m", "removal_fraction",
                                            "flood_fraction", "carrier_kmol_h", "liquor_kg_h",
                                            "gas_temp_c"};
-static const char *const liquor_names[2] = {"naoh", "water"};
 
 static enum hl_status parse_column(struct val_ctx *c, const cJSON *m, struct camp_column *col)
 {
@@ -274,6 +291,22 @@ static enum hl_status parse_column(struct val_ctx *c, const cJSON *m, struct cam
     return HL_OK;
 }
 
+/* The vent gases a liquor absorbs, "HCl and HBr", into buf (messages). */
+static const char *absorbed_list(int liquor, char *buf, size_t n)
+{
+    const struct liquor_info *l = liquor_get(liquor);
+    int names[VS_COUNT], nn = 0;
+    for (int v = 0; v < VS_COUNT; v++)
+        if (l->gas[v].uptake != LQ_PASSES)
+            names[nn++] = v;
+    size_t len = 0;
+    buf[0] = '\0';
+    for (int j = 0; j < nn && len < n; j++)
+        len += (size_t)snprintf(buf + len, n - len, "%s%s", j == 0 ? "" : j == nn - 1 ? " and " : ", ",
+                                vent_name(names[j]));
+    return buf;
+}
+
 /* The emission keys of a scrubber (issue 12): its stack flow and the removal it is
  * credited with, species by species (the vent species names as keys). */
 static enum hl_status parse_emission_keys(struct val_ctx *c, const cJSON *stack, const cJSON *rem,
@@ -290,6 +323,7 @@ static enum hl_status parse_emission_keys(struct val_ctx *c, const cJSON *stack,
         return HL_OK;
     const char *names[VS_COUNT];
     const cJSON *k[VS_COUNT];
+    char list[64];
     for (int v = 0; v < VS_COUNT; v++)
         names[v] = vent_name(v);
     size_t old = val_push_key(c, rem->string);
@@ -302,14 +336,95 @@ static enum hl_status parse_emission_keys(struct val_ctx *c, const cJSON *stack,
             return st;
         /* the liquor model lets Cl2, Br2 and SO2 pass a water liquor: crediting it with
          * removing them would contradict the liquor figures */
-        if (s->liquor == CAMP_LIQUOR_WATER && v != VS_HCL && v != VS_HBR && s->removal[v] > 0) {
+        if (liquor_get(s->liquor)->gas[v].uptake == LQ_PASSES && s->removal[v] > 0) {
             val_push_key(c, names[v]);
-            return val_err(c, k[v], 0, "a \"water\" liquor absorbs only HCl and HBr: %s passes it "
-                        "(give 0 or leave it out)", names[v]);
+            return val_err(c, k[v], 0, "a \"%s\" liquor absorbs only %s: %s passes it "
+                        "(give 0 or leave it out)", liquor_get(s->liquor)->name,
+                        absorbed_list(s->liquor, list, sizeof list), names[v]);
         }
         s->removal_given |= 1u << v;
     }
     val_pop(c, old);
+    return HL_OK;
+}
+
+/* The liquors a key applies to, as '"naoh"' or '"a", "b" or "c"', into buf (messages):
+ * those whose row reads base-strength spelling sp, or (sp < 0) those that dissolve HCl. */
+static const char *liquors_taking(int sp, char *buf, size_t n)
+{
+    int ids[LQ_COUNT], nn = 0;
+    for (int q = 0; q < LQ_COUNT; q++)
+        if (sp >= 0 ? liquor_get(q)->keys == sp : liquor_get(q)->gas[VS_HCL].uptake == LQ_DISSOLVES)
+            ids[nn++] = q;
+    size_t len = 0;
+    buf[0] = '\0';
+    for (int j = 0; j < nn && len < n; j++)
+        len += (size_t)snprintf(buf + len, n - len, "%s\"%s\"", j == 0 ? "" : j == nn - 1 ? " or " : ", ",
+                                liquor_get(ids[j])->name);
+    return buf;
+}
+
+/* The keys that apply to the scrubber's liquor, from its row: the base-strength keys of
+ * its spelling (any other spelling is refused, naming the liquors it applies to), the fresh
+ * strength required where there is a base, max_acid_wt_pct only where the liquor dissolves
+ * HCl. */
+static enum hl_status liquor_keys(struct val_ctx *c, const cJSON *o, const cJSON **k,
+                                  const struct liquor_info *l)
+{
+    char names[120], what[160];
+    for (int sp = LQ_KEYS_NAOH; sp <= LQ_KEYS_BASE; sp++)
+        for (int j = 0; j < BK_N && sp != l->keys; j++) {
+            const cJSON *x = k[base_keys[sp][j]];
+            if (!x)
+                continue;
+            val_push_key(c, x->string);
+            return val_err(c, x, 1, "applies to a %s liquor only", liquors_taking(sp, names, sizeof names));
+        }
+    if (l->keys != LQ_KEYS_NONE && !k[base_keys[l->keys][BK_FRESH]]) {
+        snprintf(what, sizeof what, "a %s needs its fresh liquor strength", l->unit_noun);
+        return val_missing(c, o, scrub_keys[base_keys[l->keys][BK_FRESH]], what);
+    }
+    if (k[SK_MAXACID] && l->gas[VS_HCL].uptake != LQ_DISSOLVES) {
+        val_push_key(c, "max_acid_wt_pct");
+        return val_err(c, k[SK_MAXACID], 1, "applies to a %s liquor only", liquors_taking(-1, names, sizeof names));
+    }
+    return HL_OK;
+}
+
+/* The base strengths as given (the row's spelling), and the checks between them: the least
+ * below the fresh strength, the make-up at least as strong. */
+static enum hl_status base_strengths(struct val_ctx *c, const cJSON **k, const struct liquor_info *l,
+                                     struct camp_scrubber *s)
+{
+    if (l->keys == LQ_KEYS_NONE)
+        return HL_OK;
+    const cJSON *kw = k[base_keys[l->keys][BK_FRESH]], *kmin = k[base_keys[l->keys][BK_MIN]],
+                *kmk = k[base_keys[l->keys][BK_MAKEUP]];
+    const char *base = reagent_get(l->base)->name, *wkey = scrub_keys[base_keys[l->keys][BK_FRESH]],
+               *minkey = scrub_keys[base_keys[l->keys][BK_MIN]];
+    /* Floor (common practice): a liquor under 0.1 wt% of its base absorbs next to nothing.
+     * Ceiling: the liquor row's (its tables' end or its base's solubility). */
+    char floor_why[120];
+    snprintf(floor_why, sizeof floor_why, "a liquor under 0.1 wt%% %s is no %s", base, l->unit_noun);
+    const struct val_rng rwt = {0.1, l->max_base_wt_pct, 0, 0, floor_why, NULL},
+                     rmin = {0, 50, 0, 1, NULL, NULL}, rmk = {0, 100, 1, 0, NULL, NULL};
+    enum hl_status st;
+    if ((st = val_num(c, kw, rwt, &s->base_wt_pct)) ||
+        (kmin && (st = val_num(c, kmin, rmin, &s->min_base_wt_pct))) ||
+        (kmk && (st = val_num(c, kmk, rmk, &s->makeup_base_wt_pct))))
+        return st;
+    if (s->min_base_wt_pct >= s->base_wt_pct) {
+        const cJSON *x = kmin ? kmin : kw;
+        val_push_key(c, x->string);
+        return kmin ? val_err(c, x, 0, "must be < %s (%.15g)", wkey, s->base_wt_pct)
+                    : val_err(c, x, 0, "must be > %s (%.15g, the default)", minkey, s->min_base_wt_pct);
+    }
+    if (s->makeup_base_wt_pct < s->base_wt_pct) {
+        const cJSON *x = kmk ? kmk : kw;
+        val_push_key(c, x->string);
+        return val_err(c, x, 0, "the make-up %s (%.15g wt%%) must be at least as strong as the "
+                    "liquor (%.15g wt%%)", l->makeup_noun, s->makeup_base_wt_pct, s->base_wt_pct);
+    }
     return HL_OK;
 }
 
@@ -325,61 +440,34 @@ static enum hl_status parse_scrubber(struct val_ctx *c, const cJSON *o, struct c
         return val_missing(c, o, "id", NULL);
     if ((st = val_dup_str(c, k[SK_ID], VAL_TEXT | VAL_NONEMPTY, MAX_ID, &s->id)))
         return st;
-    int liq = s->liquor == CAMP_LIQUOR_WATER;
-    if (k[SK_LIQUOR] && (st = val_enum(c, k[SK_LIQUOR], liquor_names, 2, &liq)))
+    const char *liquor_names[LQ_COUNT];
+    for (int q = 0; q < LQ_COUNT; q++)
+        liquor_names[q] = liquor_get(q)->name;
+    int liq = s->liquor;
+    if (k[SK_LIQUOR] && (st = val_enum(c, k[SK_LIQUOR], liquor_names, LQ_COUNT, &liq)))
         return st;
-    s->liquor = liq ? CAMP_LIQUOR_WATER : CAMP_LIQUOR_NAOH;
-    if (s->liquor == CAMP_LIQUOR_NAOH) {
-        if (!k[SK_NAOH])
-            return val_missing(c, o, "naoh_wt_pct", "a caustic scrubber needs its fresh liquor strength");
-        if (k[SK_MAXACID]) {
-            val_push_key(c, "max_acid_wt_pct");
-            return val_err(c, k[SK_MAXACID], 1, "applies to a \"water\" liquor only");
-        }
-    } else {
-        if (k[SK_NAOH] || k[SK_MIN]) {
-            const cJSON *x = k[SK_NAOH] ? k[SK_NAOH] : k[SK_MIN];
-            val_push_key(c, x->string);
-            return val_err(c, x, 1, "applies to a \"naoh\" liquor only");
-        }
-    }
-    /* Floors (common practice): a liquor under 0.1 wt% caustic or a water liquor allowed under
-     * 0.1 wt% acid absorbs next to nothing; a charge under 1 kg or a rating under a mole an
-     * hour is no plant scrubber. */
-    const struct val_rng rwt = {0.1, 50, 0, 0, "a liquor under 0.1 wt% NaOH is no caustic scrubber", NULL},
-                     rmin = {0, 50, 0, 1, NULL, NULL},
-                     racid = {0.1, 60, 0, 0, "a water liquor changed below 0.1 wt% acid absorbs nothing", NULL},
+    s->liquor = liq;
+    const struct liquor_info *l = liquor_get(liq);
+    scrubber_base_defaults(s, l->keys);
+    if ((st = liquor_keys(c, o, k, l)))
+        return st;
+    /* Floors (common practice): a water liquor allowed under 0.1 wt% acid absorbs next to
+     * nothing; a charge under 1 kg or a rating under a mole an hour is no plant scrubber. */
+    const struct val_rng racid = {0.1, 60, 0, 0, "a water liquor changed below 0.1 wt% acid absorbs nothing", NULL},
                      rliqkg = {1, 1e9, 0, 1, "a liquor charge below 1 kg is no scrubber", NULL},
                      rrate = {1e-3, 1e6, 0, 0, "a rating below a mole an hour is no plant scrubber", NULL},
-                     rmk = {0, 100, 1, 0, NULL, NULL}, rcp = {0.5, 10, 0, 0, NULL, NULL},
+                     rcp = {0.5, 10, 0, 0, NULL, NULL},
                      rfresh = {-20, 80, 0, 0, NULL, NULL}, rmaxt = {0, 150, 1, 0, NULL, NULL};
-    if ((k[SK_NAOH] && (st = val_num(c, k[SK_NAOH], rwt, &s->naoh_wt_pct))) ||
+    if ((st = base_strengths(c, k, l, s)) ||
         (!k[SK_LIQKG] && (st = val_missing(c, o, "liquor_kg", NULL))) ||
         (st = val_num(c, k[SK_LIQKG], rliqkg, &s->liquor_kg)) ||
-        (k[SK_MIN] && (st = val_num(c, k[SK_MIN], rmin, &s->min_naoh_wt_pct))) ||
         (k[SK_MAXACID] && (st = val_num(c, k[SK_MAXACID], racid, &s->max_acid_wt_pct))) ||
         (!k[SK_RATED] && (st = val_missing(c, o, "rated_acid_kmol_h", NULL))) ||
         (st = val_num(c, k[SK_RATED], rrate, &s->rated_acid_kmol_h)) ||
-        (k[SK_MAKEUP] && (st = val_num(c, k[SK_MAKEUP], rmk, &s->makeup_naoh_wt_pct))) ||
         (k[SK_CP] && (st = val_num(c, k[SK_CP], rcp, &s->liquor_cp_kj_kg_k))) ||
         (k[SK_FRESHT] && (st = val_num(c, k[SK_FRESHT], rfresh, &s->fresh_liquor_temp_c))) ||
         (k[SK_MAXT] && (st = val_num(c, k[SK_MAXT], rmaxt, &s->max_liquor_temp_c))))
         return st;
-    if (s->liquor == CAMP_LIQUOR_NAOH) {
-        if (s->min_naoh_wt_pct >= s->naoh_wt_pct) {
-            const cJSON *x = k[SK_MIN] ? k[SK_MIN] : k[SK_NAOH];
-            val_push_key(c, x->string);
-            return val_err(c, x, 0, k[SK_MIN] ? "must be < naoh_wt_pct (%.15g)"
-                                            : "must be > min_naoh_wt_pct (%.15g, the default)",
-                        k[SK_MIN] ? s->naoh_wt_pct : s->min_naoh_wt_pct);
-        }
-        if (s->makeup_naoh_wt_pct < s->naoh_wt_pct) {
-            const cJSON *x = k[SK_MAKEUP] ? k[SK_MAKEUP] : k[SK_NAOH];
-            val_push_key(c, x->string);
-            return val_err(c, x, 0, "the make-up caustic (%.15g wt%%) must be at least as strong as the "
-                        "liquor (%.15g wt%%)", s->makeup_naoh_wt_pct, s->naoh_wt_pct);
-        }
-    }
     s->liquor_cp_given = k[SK_CP] != NULL;
     if (k[SK_COLUMN] && (st = parse_column(c, k[SK_COLUMN], &s->column)))
         return st;
@@ -1020,10 +1108,10 @@ static enum hl_status check_dates(struct reader *rd)
             return run_err(c->e, r, r->pos_feed, "feed_h", "the feed of run starting %s would end after 9999-12-31, the last date a "
                              "ledger can show", when);
         }
-        /* order-by dates: the reagent, and caustic make-up on a caustic scrubber */
+        /* order-by dates: the reagent, and the make-up of its scrubber's base */
         int items[2] = {r->reagent, -1};
-        if (r->scrubber >= 0 && cp->scrubbers[r->scrubber].liquor == CAMP_LIQUOR_NAOH)
-            items[1] = RG_NAOH;
+        if (r->scrubber >= 0)
+            items[1] = liquor_get(cp->scrubbers[r->scrubber].liquor)->base;
         for (int k = 0; k < 2; k++) {
             const struct camp_stock *s = items[k] >= 0 ? lead[items[k]] : NULL;
             if (!s)

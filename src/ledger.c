@@ -913,11 +913,11 @@ static enum hl_status run_scrubbers(const struct campaign *c, struct ledger *l, 
         const struct camp_scrubber *s = &c->scrubbers[u];
         units[u] = (struct scrub_unit_in){
             .id = s->id, .liquor = s->liquor,
-            .naoh_wt_pct = s->naoh_wt_pct, .liquor_kg = s->liquor_kg,
-            .min_naoh_wt_pct = s->min_naoh_wt_pct,
+            .base_wt_pct = s->base_wt_pct, .liquor_kg = s->liquor_kg,
+            .min_base_wt_pct = s->min_base_wt_pct,
             /* the campaign's changeout strengths of the acids a water liquor dissolves */
             .max_gas_wt_pct = {[VS_HCL] = s->max_acid_wt_pct, [VS_HBR] = s->max_hbr_wt_pct},
-            .rated_acid_kmol_h = s->rated_acid_kmol_h, .makeup_naoh_wt_pct = s->makeup_naoh_wt_pct,
+            .rated_acid_kmol_h = s->rated_acid_kmol_h, .makeup_base_wt_pct = s->makeup_base_wt_pct,
             .liquor_cp_kj_kg_k = s->liquor_cp_kj_kg_k, .liquor_cp_given = s->liquor_cp_given,
             .has_column = s->column.present,
             .packing_factor_1_m = s->column.packing_factor_1_m, .htu_m = s->column.htu_m,
@@ -952,10 +952,14 @@ static enum hl_status run_scrubbers(const struct campaign *c, struct ledger *l, 
     for (int u = 0; u < nu; u++) {
         const struct camp_scrubber *cs = &c->scrubbers[u];
         struct ledger_scrubber *ls = &l->scrubbers[u];
-        int no_base = liquor_get(cs->liquor)->base < 0;
-        ls->makeup_naoh_wt_pct = no_base ? 0.0 : cs->makeup_naoh_wt_pct;
-        scrub_fresh_charge(cs->liquor_kg, cs->naoh_wt_pct, cs->makeup_naoh_wt_pct, cs->liquor,
-                           &ls->changeout_caustic_solution_kg, &ls->changeout_water_kg);
+        ls->base = liquor_get(cs->liquor)->base;
+        ls->makeup_base_wt_pct = ls->base < 0 ? 0.0 : cs->makeup_base_wt_pct;
+        scrub_fresh_charge(cs->liquor_kg, cs->base_wt_pct, cs->makeup_base_wt_pct, cs->liquor,
+                           &ls->changeout_makeup_kg, &ls->changeout_water_kg);
+        /* the caustic figures of the ledger (design section 5) are those of a NaOH base */
+        int caustic = ls->base == RG_NAOH;
+        ls->makeup_naoh_wt_pct = caustic ? ls->makeup_base_wt_pct : 0.0;
+        ls->changeout_caustic_solution_kg = caustic ? ls->changeout_makeup_kg : 0.0;
         ls->dilution_water_kg = ls->out.changeouts * ls->changeout_water_kg;
     }
     for (int i = 0; i < nr; i++) {
@@ -963,6 +967,7 @@ static enum hl_status run_scrubbers(const struct campaign *c, struct ledger *l, 
         lr->scrub = rout[i];
         if (lr->scrub.changeout_before && lr->scrubber_index >= 0) {
             const struct ledger_scrubber *ls = &l->scrubbers[lr->scrubber_index];
+            lr->changeout_makeup_kg = ls->changeout_makeup_kg;
             lr->changeout_caustic_solution_kg = ls->changeout_caustic_solution_kg;
             lr->changeout_water_kg = ls->changeout_water_kg;
         }
@@ -1113,9 +1118,10 @@ static enum hl_status plan_orders(const struct campaign *c, struct ledger *l, st
         const struct ledger_run *r = &l->runs[i];
         if (r->bal.reagent_kg > 0 && r->start_min >= counted_at[r->reagent])
             d[nd++] = (struct ord_demand){r->reagent, r->start_min, r->bal.reagent_kg};
-        /* caustic make-up for a fresh charge, bought as purchased-strength solution */
-        if (r->changeout_caustic_solution_kg > 0)
-            d[nd++] = (struct ord_demand){RG_NAOH, r->start_min, r->changeout_caustic_solution_kg};
+        /* the base's make-up for a fresh charge, bought at its make-up strength */
+        if (r->changeout_makeup_kg > 0)
+            d[nd++] = (struct ord_demand){l->scrubbers[r->scrubber_index].base, r->start_min,
+                                          r->changeout_makeup_kg};
     }
     int has_row[RG_COUNT] = {0};
     for (int i = 0; i < c->nstock; i++) {
@@ -1481,6 +1487,9 @@ static enum hl_status build_months(struct ledger *l, struct hl_err *e)
             m->retained_acid_kg += b->retained_mol[v] * vent_molar_mass_g_mol(v) / 1000.0;
         }
         m->naoh_kg += r->scrub.naoh_kg;
+        if (r->scrubber_index >= 0 && l->scrubbers[r->scrubber_index].base >= 0)
+            m->base_kg[l->scrubbers[r->scrubber_index].base] += r->scrub.base_kg;
+        m->co2_kg += r->scrub.co2_kg;
         m->changeouts += r->scrub.changeout_before;
         if (r->scrub.changeout_before && r->scrubber_index >= 0) {
             m->caustic_solution_kg += r->changeout_caustic_solution_kg;
@@ -1496,8 +1505,8 @@ static enum hl_status build_months(struct ledger *l, struct hl_err *e)
         m->reagent_left_kg += b->reagent_left_kg;
     }
     for (int i = 0; i < l->norders; i++)
-        if (l->orders[i].item == RG_NAOH) /* caustic bought for changeouts, by month of need */
-            month_of(l, l->orders[i].first_use_min)->reagents_kg[RG_NAOH] += l->orders[i].demand_kg;
+        if (reagent_get(l->orders[i].item)->kind == RK_BASE) /* make-up for changeouts, by month of need */
+            month_of(l, l->orders[i].first_use_min)->reagents_kg[l->orders[i].item] += l->orders[i].demand_kg;
     for (int u = 0; u < l->nscrubbers; u++)
         for (int j = 0; j < l->scrubbers[u].out.nspent; j++) {
             const struct scrub_spent *sp = &l->scrubbers[u].out.spent[j];
@@ -1517,6 +1526,13 @@ static enum hl_status build_months(struct ledger *l, struct hl_err *e)
 
 /* ---- warnings, cautions, assumptions ---- */
 
+/* The name of the base of a run's scrubber ("NaOH"; "base" without one). */
+static const char *base_name(const struct ledger *l, const struct ledger_run *r)
+{
+    int b = r->scrubber_index >= 0 ? l->scrubbers[r->scrubber_index].base : -1;
+    return b >= 0 ? reagent_get(b)->name : "base";
+}
+
 static enum hl_status collect_warnings(const struct campaign *c, struct ledger *l,
                                        struct hl_err *e)
 {
@@ -1531,14 +1547,14 @@ static enum hl_status collect_warnings(const struct campaign *c, struct ledger *
             st = warn(l, e, r->id, "vents %.1f mol of gas but names no scrubber", gas);
         else if (r->scrub.breakthrough_mol > 0)
             st = warn(l, e, r->id,
-                      "scrubber %s runs out of NaOH during this run: %.1f mol of gas pass "
+                      "scrubber %s runs out of %s during this run: %.1f mol of gas pass "
                       "unneutralised; plan a changeout or move the run",
-                      r->scrubber, r->scrub.breakthrough_mol);
+                      r->scrubber, base_name(l, r), r->scrub.breakthrough_mol);
         else if (r->scrub.exhausted)
             st = warn(l, e, r->id,
-                      "scrubber %s liquor falls below the minimum NaOH strength during this run "
+                      "scrubber %s liquor falls below the minimum %s strength during this run "
                       "(%.2f wt%% after it); overlapping runs leave no time for a changeout",
-                      r->scrubber, r->scrub.naoh_wt_pct_after);
+                      r->scrubber, base_name(l, r), r->scrub.base_wt_pct_after);
         if (!st && r->scrub.unabsorbed)
             st = warn(l, e, r->id, "scrubber %s has a water liquor: %.1f mol of Cl2/Br2/SO2 "
                       "pass it unabsorbed", r->scrubber, r->scrub.unabsorbed_mol);
@@ -1675,6 +1691,9 @@ static void collect_cautions(struct ledger *l)
     }
     if (l->nscrubbers > 0)
         l->cautions_mask |= 1u << CA_NAOH;
+    for (int u = 0; u < l->nscrubbers; u++) /* the base each liquor is made up with */
+        if (l->scrubbers[u].base >= 0)
+            l->cautions_mask |= 1u << reagent_get(l->scrubbers[u].base)->caution;
 }
 
 static enum hl_status collect_assumptions(struct ledger *l, struct hl_err *e)

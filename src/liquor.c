@@ -49,6 +49,11 @@ static const struct liquor_dfh dfh[DFH_COUNT] = {
     [DFH_HBR_G_NBS] = {"HBr(g), with HBr(ao)", -36.40,
                      "NBS 1982 (used with HBr(ao) for the heat of solution in water)"},
     [DFH_HBR_AQ] = {"HBr(ao)", -121.55, "NBS 1982, equal to Br-(ao) (H+(ao) = 0) (from memory)"},
+    /* a carbonate base: CO2 given off as gas, and the dissolved carbonate as its ions */
+    [DFH_CO2_G] = {"CO2(g)", -393.509, "NBS 1982 (CODATA 1989 -393.51) (from memory)"},
+    [DFH_NA2CO3_AQ] = {"Na2CO3(aq)", 2 * DFH_NA_ION - 677.14,
+                     "2 Na+(aq) (NBS 1982) + CO3^2-(aq) -677.14 (NBS 1982, from memory); the NBS "
+                     "entry Na2CO3(ai) -1157.38 is the same sum (from memory)"},
 };
 
 const struct liquor_dfh *liquor_dfh_get(int i)
@@ -213,10 +218,19 @@ static double water_visc(const struct liquor_comp *c) { (void)c; return 1.0; }
  * Water absorbs the acid gases (HCl(g) -> HCl(aq), HBr(g) -> HBr(ao)); Cl2, Br2 and SO2
  * pass it; its changeout strengths are the campaign's (campaign.c defaults, under the
  * azeotropes). */
-#define REACT(base, s0, n0, s1, n1, g, rem) {LQ_REACTS, base, {s0, s1}, {n0, n1}, 1, g, -1, rem, CAUSTIC_REM}
-#define PASS(g) {LQ_PASSES, 0, {-1, -1}, {0, 0}, 0, g, -1, 0.0, WATER_PASS}
+#define REACT(base, s0, n0, s1, n1, g, rem)                                                    \
+    {.uptake = LQ_REACTS, .base_mol = base, .salt = {s0, s1, -1}, .salt_mol = {n0, n1, 0},      \
+     .water_mol = 1, .co2_mol = 0, .dfh_gas = g, .dfh_taken = -1, .removal = rem,               \
+     .removal_origin = CAUSTIC_REM}
+#define DISSOLVE(g, taken, rem, origin)                                                        \
+    {.uptake = LQ_DISSOLVES, .salt = {-1, -1, -1}, .dfh_gas = g, .dfh_taken = taken,            \
+     .removal = rem, .removal_origin = origin}
+#define PASS(g)                                                                                \
+    {.uptake = LQ_PASSES, .salt = {-1, -1, -1}, .dfh_gas = g, .dfh_taken = -1, .removal = 0.0,  \
+     .removal_origin = WATER_PASS}
 static const struct liquor_info liquors[LQ_COUNT] = {
-    [LQ_NAOH] = {"naoh", RG_NAOH, DFH_NAOH_AQ,
+    /* 50 wt%: the end of the NaOH tables above and the usual commercial strength */
+    [LQ_NAOH] = {"naoh", RG_NAOH, DFH_NAOH_AQ, LQ_KEYS_NAOH, 50, NULL, "caustic scrubber", "caustic",
                  {[VS_HCL] = REACT(1, SALT_NACL, 1, -1, 0, DFH_HCL_G, 0.99),
                   [VS_HBR] = REACT(1, SALT_NABR, 1, -1, 0, DFH_HBR_G, 0.99),
                   [VS_CL2] = REACT(2, SALT_NACL, 1, SALT_NAOCL, 1, DFH_CL2_G, 0.98),
@@ -224,13 +238,11 @@ static const struct liquor_info liquors[LQ_COUNT] = {
                   [VS_SO2] = REACT(2, SALT_NA2SO3, 1, -1, 0, DFH_SO2_G, 0.98)},
                  caustic_cp, caustic_bp, caustic_rho, caustic_visc,
                  "NaOH solution at the liquor's strength, salts ignored"},
-    [LQ_WATER] = {"water", -1, -1,
-                  {[VS_HCL] = {LQ_DISSOLVES, 0, {-1, -1}, {0, 0}, 0, DFH_HCL_G, DFH_HCL_AQ, 0.95,
-                               WATER_REM},
+    [LQ_WATER] = {"water", -1, -1, LQ_KEYS_NONE, 0, NULL, "water scrubber", NULL,
+                  {[VS_HCL] = DISSOLVE(DFH_HCL_G, DFH_HCL_AQ, 0.95, WATER_REM),
                    /* both HBr values from the NBS tables, so the heat of solution is that of
                     * one table (as for HCl) */
-                   [VS_HBR] = {LQ_DISSOLVES, 0, {-1, -1}, {0, 0}, 0, DFH_HBR_G_NBS, DFH_HBR_AQ,
-                               0.95, WATER_REM},
+                   [VS_HBR] = DISSOLVE(DFH_HBR_G_NBS, DFH_HBR_AQ, 0.95, WATER_REM),
                    [VS_CL2] = PASS(DFH_CL2_G), [VS_BR2] = PASS(DFH_BR2_G), [VS_SO2] = PASS(DFH_SO2_G)},
                   water_cp, water_bp, water_rho, water_visc,
                   "water: the acids boil higher up to their azeotropes"},

@@ -64,7 +64,7 @@ static const struct reagent_info reagents[RG_COUNT] = {
                 VS_HBR, "gas (liquefied under pressure)", CA_HBR,
                 0, -1, NULL, 0, RB_HBR, RB_NONE, 1, 0, NULL},
     [RG_NAOH] = {"NaOH", "HNaO", "sodium hydroxide (scrubber caustic make-up)",
-                 ELEM_W_NA + ELEM_W_O + ELEM_W_H, RK_CAUSTIC, -1, 0.0, -1, 0.0, 0.0, -1,
+                 ELEM_W_NA + ELEM_W_O + ELEM_W_H, RK_BASE, -1, 0.0, -1, 0.0, 0.0, -1,
                  "aqueous solution (caustic liquor)", CA_NAOH,
                  0, -1, NULL, 0, RB_NONE, RB_NONE, 0, 0, NULL},
 };

@@ -5,7 +5,7 @@
  * scrubber design, its relief and its interlocks need the SDS of every
  * substance, local regulations and review by a licensed engineer.
  * Hypochlorite/hypobromite liquor releases Cl2/Br2 when acidified: keep the
- * liquor alkaline (that is what min_naoh_wt_pct is for) and never mix spent
+ * liquor alkaline (that is what the minimum base strength is for) and never mix spent
  * liquor with acid waste.
  */
 #include "scrubber.h"
@@ -19,6 +19,7 @@
 
 /* ---- molar masses: the vent-gas, salt and reagent tables (reagents.c, liquor.c) ---- */
 #define M_H2O (2 * ELEM_W_H + ELEM_W_O)
+#define M_CO2 (ELEM_W_C + 2 * ELEM_W_O)
 #define M_AIR 28.9644 /* dry air, U.S. Standard Atmosphere 1976 */
 
 static double gas_mm(int v) { return vent_molar_mass_g_mol(v); }
@@ -29,6 +30,8 @@ static double base_mm(const struct liquor_info *l)
 {
     return l->base >= 0 ? reagent_get(l->base)->molar_mass_g_mol : 0;
 }
+/* The public NaOH-named figures (naoh_kg, design section 5) are those of a NaOH base only. */
+static int naoh_named(const struct liquor_info *l) { return l->base == RG_NAOH; }
 
 /* ---- heats, from the formation enthalpies of liquor.c ---- */
 
@@ -43,9 +46,11 @@ double scrub_heat_kj_per_mol(int vs, int liquor)
     if (g->uptake != LQ_REACTS)
         return 0; /* passes: the run is flagged */
     double h = g->water_mol * dfh_of(DFH_H2O) - dfh_of(g->dfh_gas) - g->base_mol * dfh_of(l->dfh_base);
-    for (int k = 0; k < 2; k++)
+    for (int k = 0; k < LQ_MAX_SALTS; k++)
         if (g->salt[k] >= 0)
             h += g->salt_mol[k] * dfh_of(liquor_salt_get(g->salt[k])->dfh);
+    if (g->co2_mol > 0) /* given off as gas */
+        h += g->co2_mol * dfh_of(DFH_CO2_G);
     return -h; /* released */
 }
 
@@ -148,7 +153,7 @@ static void column_check(const struct scrub_unit_in *u, double peak_kmol_h, doub
     c->gas_density_kg_m3 = P_ATM * mix_mm / 1000.0 / (R_GAS * (u->gas_temp_c + 273.15));
     /* the fresh liquor's properties (its row in liquor.c) */
     const struct liquor_info *l = liquor_get(u->liquor);
-    const struct liquor_comp fresh = {.base_wt_pct = l->base >= 0 ? u->naoh_wt_pct : 0};
+    const struct liquor_comp fresh = {.base_wt_pct = l->base >= 0 ? u->base_wt_pct : 0};
     c->liquid_density_kg_m3 = l->density_kg_m3(&fresh);
     double mu = l->viscosity_mpa_s(&fresh);
     double rg = c->gas_density_kg_m3, rl = c->liquid_density_kg_m3;
@@ -170,17 +175,17 @@ static void column_check(const struct scrub_unit_in *u, double peak_kmol_h, doub
 
 #define MAX_HOURS (20L * 366 * 24) /* a load profile longer than 20 years is a bad input */
 
-void scrub_fresh_charge(double liquor_kg, double naoh_wt_pct, double makeup_naoh_wt_pct,
-                        int liquor, double *caustic_solution_kg, double *water_kg)
+void scrub_fresh_charge(double liquor_kg, double base_wt_pct, double makeup_base_wt_pct,
+                        int liquor, double *makeup_kg, double *water_kg)
 {
-    /* NaOH is conserved on dilution: liquor_kg x w_fresh = solution x w_makeup */
-    double sol = liquor_get(liquor)->base < 0 ? 0.0 : liquor_kg * naoh_wt_pct / makeup_naoh_wt_pct;
-    *caustic_solution_kg = sol;
+    /* the base is conserved on dilution: liquor_kg x w_fresh = make-up x w_makeup */
+    double sol = liquor_get(liquor)->base < 0 ? 0.0 : liquor_kg * base_wt_pct / makeup_base_wt_pct;
+    *makeup_kg = sol;
     *water_kg = liquor_kg - sol;
 }
 
 struct liq {
-    double naoh, water;      /* kg of base (as 100 %) and of water in the unit */
+    double base, water;      /* kg of base (as 100 %) and of water in the unit */
     double gas[VS_COUNT];    /* kg of each gas held dissolved (LQ_DISSOLVES) */
     double salt[SALT_COUNT]; /* kg of each salt */
     double temp_c;           /* adiabatic liquor temperature: no cooling since the last fill */
@@ -197,7 +202,7 @@ struct liq {
 
 static double liq_mass(const struct liq *q)
 {
-    double m = q->naoh + q->water;
+    double m = q->base + q->water;
     for (int v = 0; v < VS_COUNT; v++)
         m += q->gas[v];
     for (int s = 0; s < SALT_COUNT; s++)
@@ -207,15 +212,16 @@ static double liq_mass(const struct liq *q)
 
 static void fill(const struct scrub_unit_in *u, struct liq *q)
 {
-    q->naoh = liquor_get(u->liquor)->base < 0 ? 0 : u->liquor_kg * u->naoh_wt_pct / 100.0;
-    q->water = u->liquor_kg - q->naoh;
+    q->base = liquor_get(u->liquor)->base < 0 ? 0 : u->liquor_kg * u->base_wt_pct / 100.0;
+    q->water = u->liquor_kg - q->base;
     memset(q->gas, 0, sizeof q->gas);
     memset(q->salt, 0, sizeof q->salt);
     q->temp_c = u->fresh_liquor_temp_c;
     q->dirty = 0;
 }
 
-static enum hl_status push_spent(struct scrub_unit_out *o, struct liq *q, int64_t at, int final)
+static enum hl_status push_spent(struct scrub_unit_out *o, struct liq *q, int64_t at, int final,
+                                 int naoh_named)
 {
     if (o->nspent == q->cap_spent) {
         int cap = q->cap_spent ? 2 * q->cap_spent : 4;
@@ -229,7 +235,8 @@ static enum hl_status push_spent(struct scrub_unit_out *o, struct liq *q, int64_
     memset(s, 0, sizeof *s);
     s->at_min = at;
     s->mass_kg = liq_mass(q);
-    s->naoh_kg = q->naoh;
+    s->base_kg = q->base;
+    s->naoh_kg = naoh_named ? q->base : 0;
     s->water_kg = q->water;
     s->hcl_kg = q->gas[VS_HCL]; /* the spent-liquor fields of the ledger */
     s->hbr_kg = q->gas[VS_HBR];
@@ -284,17 +291,18 @@ static int over_limit(const struct scrub_unit_in *u, const struct liq *q, const 
     if (liquor_has(u->liquor, LQ_DISSOLVES) && uptake_kg(l, LQ_DISSOLVES, vent, kg) > 0 &&
         acid_load(u, l, q, kg) > 1.0)
         return 1;
-    double gas_kg = 0, naoh_kg = 0;
+    double gas_kg = 0, base_kg = 0, co2_kg = 0;
     for (int v = 0; v < VS_COUNT; v++) {
         if (l->gas[v].uptake != LQ_REACTS)
             continue;
         gas_kg += vent[v] * gas_mm(v) / 1000.0;
-        naoh_kg += vent[v] * l->gas[v].base_mol * base_mm(l) / 1000.0;
+        base_kg += vent[v] * l->gas[v].base_mol * base_mm(l) / 1000.0;
+        co2_kg += vent[v] * l->gas[v].co2_mol * M_CO2 / 1000.0;
     }
-    if (!(naoh_kg > 0))
+    if (!(base_kg > 0))
         return 0;
-    double left = q->naoh - naoh_kg;
-    return left < 0 || left / (liq_mass(q) + gas_kg) * 100.0 < u->min_naoh_wt_pct;
+    double left = q->base - base_kg;
+    return left < 0 || left / (liq_mass(q) + gas_kg - co2_kg) * 100.0 < u->min_base_wt_pct;
 }
 
 /* One oxidant salt (hypohalite) meets the reductant (sulfite) in the liquor: red + ox ->
@@ -393,7 +401,7 @@ static void absorb_base(const struct scrub_unit_in *u, struct liq *q, const doub
         need_kg += vent[v] * l->gas[v].base_mol * mm / 1000.0;
         total_mol += vent[v];
     }
-    double f = need_kg > q->naoh ? (q->naoh > 0 ? q->naoh / need_kg : 0) : 1.0;
+    double f = need_kg > q->base ? (q->base > 0 ? q->base / need_kg : 0) : 1.0;
     r->breakthrough_mol = (1.0 - f) * total_mol;
     for (int v = 0; v < VS_COUNT; v++) {
         const struct liquor_gas *g = &l->gas[v];
@@ -403,20 +411,22 @@ static void absorb_base(const struct scrub_unit_in *u, struct liq *q, const doub
         taken[v] = f;
         if (!(n > 0))
             continue;
-        q->naoh -= n * g->base_mol * mm / 1000.0;
+        q->base -= n * g->base_mol * mm / 1000.0;
         q->water += n * g->water_mol * M_H2O / 1000.0;
         r->water_formed_kg += n * g->water_mol * M_H2O / 1000.0;
-        for (int k = 0; k < 2; k++)
+        for (int k = 0; k < LQ_MAX_SALTS; k++)
             if (g->salt[k] >= 0) {
                 double kg = n * g->salt_mol[k] * salt_mm(g->salt[k]) / 1000.0;
                 q->salt[g->salt[k]] += kg;
                 r->salt_kg[g->salt[k]] += kg;
             }
-        r->naoh_kg += n * g->base_mol * mm / 1000.0;
+        r->base_kg += n * g->base_mol * mm / 1000.0;
+        if (g->co2_mol > 0) /* leaves the liquor as gas: the liquor keeps the rest */
+            r->co2_kg += n * g->co2_mol * M_CO2 / 1000.0;
         r->heat_kj += n * scrub_heat_kj_per_mol(v, u->liquor);
     }
-    if (q->naoh < 0)
-        q->naoh = 0; /* round-off only: f caps the use at what is there */
+    if (q->base < 0)
+        q->base = 0; /* round-off only: f caps the use at what is there */
     sulfite_redox(q, r);
 }
 
@@ -426,7 +436,7 @@ static struct liquor_comp comp_of(const struct liq *q)
     struct liquor_comp c = {0};
     double m = liq_mass(q);
     if (m > 0) {
-        c.base_wt_pct = q->naoh / m * 100.0;
+        c.base_wt_pct = q->base / m * 100.0;
         for (int v = 0; v < VS_COUNT; v++)
             c.gas_wt_pct[v] = q->gas[v] / m * 100.0;
     }
@@ -458,11 +468,16 @@ static void absorb(const struct scrub_unit_in *u, struct liq *q, const double *v
     q->temp_c += r->temp_rise_k;
     r->liquor_temp_c_after = q->temp_c;
     r->too_hot = q->temp_c > u->max_liquor_temp_c;
-    r->naoh_left_kg = q->naoh;
+    r->base_left_kg = q->base;
     r->liquor_kg_after = mass;
-    r->naoh_wt_pct_after = mass > 0 ? q->naoh / mass * 100.0 : 0;
+    r->base_wt_pct_after = mass > 0 ? q->base / mass * 100.0 : 0;
+    if (naoh_named(l)) {
+        r->naoh_kg = r->base_kg;
+        r->naoh_left_kg = r->base_left_kg;
+        r->naoh_wt_pct_after = r->base_wt_pct_after;
+    }
     struct liquor_comp after = comp_of(q);
-    after.base_wt_pct = r->naoh_wt_pct_after;
+    after.base_wt_pct = r->base_wt_pct_after;
     double acid_kg = 0;
     for (int v = 0; v < VS_COUNT; v++)
         acid_kg += q->gas[v];
@@ -514,14 +529,14 @@ static enum hl_status check_inputs(const struct scrub_unit_in *units, int nunits
         const struct liquor_info *l = liquor_get(u->liquor);
         if (!l)
             return hl_err_set(e, HL_ERR_INPUT, "scrubber %s: unknown liquor %d", id, u->liquor);
-        if (l->base >= 0 && (!(u->naoh_wt_pct > 0 && u->naoh_wt_pct < 100) ||
-                                 !(u->min_naoh_wt_pct >= 0 && u->min_naoh_wt_pct < u->naoh_wt_pct)))
+        if (l->base >= 0 && (!(u->base_wt_pct > 0 && u->base_wt_pct < 100) ||
+                                 !(u->min_base_wt_pct >= 0 && u->min_base_wt_pct < u->base_wt_pct)))
             return hl_err_set(e, HL_ERR_INPUT,
-                              "scrubber %s: need 0 < naoh_wt_pct < 100 and 0 <= min_naoh_wt_pct < "
-                              "naoh_wt_pct", id);
-        if (l->base >= 0 && !(u->makeup_naoh_wt_pct >= u->naoh_wt_pct && u->makeup_naoh_wt_pct <= 100))
+                              "scrubber %s: need 0 < base_wt_pct < 100 and 0 <= min_base_wt_pct < "
+                              "base_wt_pct", id);
+        if (l->base >= 0 && !(u->makeup_base_wt_pct >= u->base_wt_pct && u->makeup_base_wt_pct <= 100))
             return hl_err_set(e, HL_ERR_INPUT,
-                              "scrubber %s: need naoh_wt_pct <= makeup_naoh_wt_pct <= 100", id);
+                              "scrubber %s: need base_wt_pct <= makeup_base_wt_pct <= 100", id);
         if (u->liquor_cp_given && !(u->liquor_cp_kj_kg_k > 0 && isfinite(u->liquor_cp_kj_kg_k)))
             return hl_err_set(e, HL_ERR_INPUT, "scrubber %s: liquor_cp_kj_kg_k must be > 0", id);
         if (!isfinite(u->fresh_liquor_temp_c) || !(u->fresh_liquor_temp_c > -273.15) ||
@@ -1085,7 +1100,7 @@ static enum hl_status pass_liquor(struct pass *p, struct hl_err *e)
              * overlapping runs (common practice assumption; no cooler is modelled) */
             l->temp_c = u->fresh_liquor_temp_c;
             if (l->dirty && over_limit(u, l, &p->gvent[(size_t)p->grp[i] * VS_COUNT])) {
-                if (push_spent(o, l, r->start_min, 0))
+                if (push_spent(o, l, r->start_min, 0, naoh_named(liquor_get(u->liquor))))
                     return hl_err_set(e, HL_ERR_NOMEM, "out of memory in the scrubber model");
                 fill(u, l);
                 o->changeouts++;
@@ -1098,6 +1113,8 @@ static enum hl_status pass_liquor(struct pass *p, struct hl_err *e)
         absorb(u, l, r->vent_mol, ro, taken);
         emit(o->removal, r->vent_mol, taken, ro);
         ro->heat_kw = ro->heat_kj / (r->feed_h / r->peak_factor * 3600.0);
+        o->base_kg += ro->base_kg;
+        o->co2_kg += ro->co2_kg;
         o->naoh_kg += ro->naoh_kg;
         o->heat_kj += ro->heat_kj;
         if (ro->liquor_temp_c_after > o->max_liquor_temp_c)
@@ -1129,11 +1146,11 @@ static enum hl_status pass_units(struct pass *p, struct hl_err *e)
         if (st)
             return st;
         o->peak_at_min = o->hour0_min + (int64_t)at * 60;
-        if (push_spent(o, q, (int64_t)ceil(q->last_end_min - 1e-9), 1))
+        if (push_spent(o, q, (int64_t)ceil(q->last_end_min - 1e-9), 1, naoh_named(liquor_get(ui->liquor))))
             return hl_err_set(e, HL_ERR_NOMEM, "out of memory in the scrubber model");
         /* The first fill is in place before the campaign: only changeouts buy caustic. */
         double solution_kg, water_kg;
-        scrub_fresh_charge(ui->liquor_kg, ui->naoh_wt_pct, ui->makeup_naoh_wt_pct,
+        scrub_fresh_charge(ui->liquor_kg, ui->base_wt_pct, ui->makeup_base_wt_pct,
                            ui->liquor, &solution_kg, &water_kg);
         o->makeup_kg = o->changeouts * solution_kg;
     }

@@ -335,7 +335,13 @@ enum hl_status val_enum(struct val_ctx *c, const cJSON *m, const char *const *na
     val_push_key(c, m->string);
     if (n == 2)
         return val_err(c, m, 0, "must be \"%s\" or \"%s\" (got \"%s\")", names[0], names[1], q);
-    return val_err(c, m, 0, "unknown value \"%s\"", q);
+    char list[320];
+    size_t len = 0;
+    list[0] = '\0';
+    for (int k = 0; k < n && len < sizeof list; k++)
+        len += (size_t)snprintf(list + len, sizeof list - len, "%s\"%s\"",
+                                k == 0 ? "" : k == n - 1 ? " or " : ", ", names[k]);
+    return val_err(c, m, 0, "must be %s (got \"%s\")", list, q);
 }
 
 enum hl_status val_date(struct val_ctx *c, const cJSON *m, int64_t *out)

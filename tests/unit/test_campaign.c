@@ -82,11 +82,11 @@ static void demo_fields(void)
     const struct camp_scrubber *s = &c->scrubbers[0];
     CU_ASSERT_STRING_EQUAL(s->id, "VS-1");
     CU_ASSERT_EQUAL(s->liquor, CAMP_LIQUOR_NAOH);
-    ASSERT_REL(s->naoh_wt_pct, 18, 1e-15);
+    ASSERT_REL(s->base_wt_pct, 18, 1e-15);
     ASSERT_REL(s->liquor_kg, 6000, 1e-15);
-    ASSERT_REL(s->min_naoh_wt_pct, 2.5, 1e-15);
+    ASSERT_REL(s->min_base_wt_pct, 2.5, 1e-15);
     ASSERT_REL(s->rated_acid_kmol_h, 2.0, 1e-15);
-    ASSERT_REL(s->makeup_naoh_wt_pct, 32, 1e-15);
+    ASSERT_REL(s->makeup_base_wt_pct, 32, 1e-15);
     ASSERT_REL(s->liquor_cp_kj_kg_k, 3.6, 1e-15);
     CU_ASSERT_EQUAL(s->liquor_cp_given, 1);
     CU_ASSERT_EQUAL(s->column.present, 1);
@@ -186,8 +186,8 @@ static void defaults(void)
     CU_ASSERT_EQUAL(c->paper, CAMP_PAPER_A4);
     const struct camp_scrubber *s = &c->scrubbers[0];
     CU_ASSERT_EQUAL(s->liquor, CAMP_LIQUOR_NAOH);
-    ASSERT_REL(s->min_naoh_wt_pct, 2, 1e-15);
-    ASSERT_REL(s->makeup_naoh_wt_pct, 50, 1e-15);
+    ASSERT_REL(s->min_base_wt_pct, 2, 1e-15);
+    ASSERT_REL(s->makeup_base_wt_pct, 50, 1e-15);
     CU_ASSERT_EQUAL(s->liquor_cp_given, 0);
     CU_ASSERT_EQUAL(s->column.present, 0);
     /* the liquor temperatures of design section 3 / campaign.h: fresh 25 C, limit 40 C */

@@ -47,8 +47,8 @@ static void test_removal_from_ntu(void)
     ASSERT_REL(scrub_removal_from_ntu(50.0), 1.0, 1e-15);
     ASSERT_ABS(scrub_removal_from_ntu(0.0), 0.0, 0.0);
     /* a column credited with its design removal: 0.995 of every gas a caustic absorbs */
-    struct scrub_unit_in u = {.id = "K", .naoh_wt_pct = 18, .liquor_kg = 6000, .min_naoh_wt_pct = 2,
-                              .makeup_naoh_wt_pct = 50, .fresh_liquor_temp_c = 25, .max_liquor_temp_c = 40,
+    struct scrub_unit_in u = {.id = "K", .base_wt_pct = 18, .liquor_kg = 6000, .min_base_wt_pct = 2,
+                              .makeup_base_wt_pct = 50, .fresh_liquor_temp_c = 25, .max_liquor_temp_c = 40,
                               .has_column = 1, .packing_factor_1_m = 200, .htu_m = 0.5,
                               .removal_fraction = 0.995, .flood_fraction = 0.7,
                               .carrier_kmol_h = 5, .liquor_kg_h = 20000, .gas_temp_c = 25};
@@ -82,8 +82,8 @@ static void test_mg_nm3(void)
  * neutralise, of which 1 - removal leaves; the rest (1 - f) leaves whole. */
 static void test_caustic_breakthrough(void)
 {
-    struct scrub_unit_in u = {.id = "W", .naoh_wt_pct = 10, .liquor_kg = 100, .min_naoh_wt_pct = 1,
-                              .makeup_naoh_wt_pct = 50, .fresh_liquor_temp_c = 25, .max_liquor_temp_c = 40,
+    struct scrub_unit_in u = {.id = "W", .base_wt_pct = 10, .liquor_kg = 100, .min_base_wt_pct = 1,
+                              .makeup_base_wt_pct = 50, .fresh_liquor_temp_c = 25, .max_liquor_temp_c = 40,
                               .removal_given = 1u << VS_HCL};
     u.removal[VS_HCL] = 0.9;
     struct scrub_run_in r[2] = {{.unit = 0, .start_min = t("2027-04-01T00:00"), .feed_h = 1, .peak_factor = 1},
@@ -131,8 +131,8 @@ static void test_water_breakthrough(void)
  * over 2 h.  Day means: 2027-12-31 1 kg / 24 h, 2028-01-01 5 kg / 24 h. */
 static void test_years_days_permits(void)
 {
-    struct scrub_unit_in u = {.id = "Y", .naoh_wt_pct = 18, .liquor_kg = 6000, .min_naoh_wt_pct = 2,
-                              .makeup_naoh_wt_pct = 50, .fresh_liquor_temp_c = 25, .max_liquor_temp_c = 40,
+    struct scrub_unit_in u = {.id = "Y", .base_wt_pct = 18, .liquor_kg = 6000, .min_base_wt_pct = 2,
+                              .makeup_base_wt_pct = 50, .fresh_liquor_temp_c = 25, .max_liquor_temp_c = 40,
                               .removal_given = 1u << VS_HCL};
     u.removal[VS_HCL] = 0.5;
     struct scrub_run_in r[2] = {{.unit = 0, .start_min = t("2027-12-31T23:30"), .feed_h = 1, .peak_factor = 1},
@@ -192,8 +192,8 @@ static void test_years_days_permits(void)
 /* A removal fraction outside [0, 1] is a bad input for the model too. */
 static void test_bad_removal(void)
 {
-    struct scrub_unit_in u = {.id = "B", .naoh_wt_pct = 18, .liquor_kg = 6000, .min_naoh_wt_pct = 2,
-                              .makeup_naoh_wt_pct = 50, .fresh_liquor_temp_c = 25, .max_liquor_temp_c = 40,
+    struct scrub_unit_in u = {.id = "B", .base_wt_pct = 18, .liquor_kg = 6000, .min_base_wt_pct = 2,
+                              .makeup_base_wt_pct = 50, .fresh_liquor_temp_c = 25, .max_liquor_temp_c = 40,
                               .removal_given = 1u << VS_SO2};
     u.removal[VS_SO2] = 1.01;
     struct scrub_run_in r = {.unit = 0, .start_min = t("2027-03-02T06:00"), .feed_h = 1, .peak_factor = 1};

@@ -94,7 +94,7 @@ static void stoichiometry_balances(void)
     ASSERT_ABS(reagent_get(RG_NBS)->succinimide_mol, 1.0, 0.0);
     ASSERT_ABS(reagent_get(RG_NBS)->hx_mol, 0.0, 0.0);
     ASSERT_ABS(reagent_get(RG_HBR)->hx_mol, 0.0, 0.0);
-    CU_ASSERT_EQUAL(reagent_get(RG_NAOH)->kind, RK_CAUSTIC);
+    CU_ASSERT_EQUAL(reagent_get(RG_NAOH)->kind, RK_BASE);
     CU_ASSERT_EQUAL(reagent_get(RG_NAOH)->halogen_el, -1);
 }
 

@@ -30,8 +30,8 @@ static int64_t t(const char *s)
  * 50 wt%; a water liquor's HBr limit 47 wt%). */
 static struct scrub_unit_in caustic(double kg, double wt, double min_wt)
 {
-    return (struct scrub_unit_in){.id = "VS-T", .naoh_wt_pct = wt, .liquor_kg = kg,
-                                  .min_naoh_wt_pct = min_wt, .makeup_naoh_wt_pct = 50,
+    return (struct scrub_unit_in){.id = "VS-T", .base_wt_pct = wt, .liquor_kg = kg,
+                                  .min_base_wt_pct = min_wt, .makeup_base_wt_pct = 50,
                                   .fresh_liquor_temp_c = 25, .max_liquor_temp_c = 40};
 }
 
@@ -712,9 +712,9 @@ static void column(void)
     {
         struct scrub_unit_in k = u;
         k.liquor = LQ_NAOH;
-        k.naoh_wt_pct = 20;
-        k.min_naoh_wt_pct = 2;
-        k.makeup_naoh_wt_pct = 50;
+        k.base_wt_pct = 20;
+        k.min_base_wt_pct = 2;
+        k.makeup_base_wt_pct = 50;
         k.liquor_kg_h = 3000 * sqrt(1219.1 / 998.2);
         struct scrub_unit_out ko;
         CU_ASSERT_EQUAL(go(&k, 1, &r, 1, &ro, &ko), HL_OK);
@@ -761,16 +761,16 @@ static void bad_inputs(void)
     u.max_liquor_temp_c = NAN;
     CU_ASSERT_EQUAL(go(&u, 1, r, 2, ro, &uo), HL_ERR_INPUT);
     u.max_liquor_temp_c = 40;
-    u.min_naoh_wt_pct = 20;
+    u.min_base_wt_pct = 20;
     CU_ASSERT_EQUAL(go(&u, 1, r, 2, ro, &uo), HL_ERR_INPUT);
-    u.min_naoh_wt_pct = 2;
+    u.min_base_wt_pct = 2;
     /* the model takes no default (the campaign reader sets them): a 0 that once stood for
      * "the default" is refused, never replaced */
     CU_ASSERT_EQUAL_FATAL(go(&u, 1, r, 2, ro, &uo), HL_OK);
     scrub_unit_out_free(&uo, 1);
-    u.makeup_naoh_wt_pct = 0;
+    u.makeup_base_wt_pct = 0;
     CU_ASSERT_EQUAL(go(&u, 1, r, 2, ro, &uo), HL_ERR_INPUT);
-    u.makeup_naoh_wt_pct = 50;
+    u.makeup_base_wt_pct = 50;
     r[0].peak_factor = 0;
     CU_ASSERT_EQUAL(go(&u, 1, r, 2, ro, &uo), HL_ERR_INPUT);
     r[0].peak_factor = 1;
