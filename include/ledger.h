@@ -187,6 +187,7 @@ struct ledger_scrubber {
     /* the same where the base is NaOH (the public caustic figures), else 0: */
     double makeup_naoh_wt_pct;           /* strength of the caustic bought [wt% NaOH] */
     double changeout_caustic_solution_kg; /* per fresh charge [kg of solution at makeup strength] */
+    double caustic_solution_kg;          /* over all changeouts [kg of solution] */
     double changeout_water_kg;           /* dilution water per fresh charge [kg] */
     double dilution_water_kg;            /* over all changeouts [kg] (out.makeup_kg is the solution) */
     struct scrub_unit_out out;

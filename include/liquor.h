@@ -35,7 +35,7 @@ struct liquor_salt {
 const struct liquor_salt *liquor_salt_get(int salt);
 
 /* Liquors; the order is that of enum camp_liquor (the campaign's "liquor" spellings). */
-enum liquor_id { LQ_NAOH, LQ_WATER, LQ_COUNT };
+enum liquor_id { LQ_NAOH, LQ_WATER, LQ_SODA_ASH, LQ_COUNT };
 
 /* What a liquor does with a vent gas. */
 enum liquor_uptake {

@@ -14,10 +14,13 @@
 
 enum reagent_id {
     RG_CL2, RG_BR2, RG_SO2CL2, RG_NBS, RG_HBR,
-    RG_NAOH, /* caustic make-up: ordered and stocked, never charged to a reactor */
+    /* from here on the bases of the scrubber liquors (RK_BASE): their make-up is ordered and
+     * stocked, never charged to a reactor */
+    RG_NAOH,   /* caustic soda */
+    RG_NA2CO3, /* soda ash */
     RG_COUNT
 };
-#define RG_CHARGEABLE RG_NAOH /* ids below this can be a run's reagent */
+#define RG_CHARGEABLE RG_NAOH /* ids below this can be a run's reagent; the rest are bases */
 
 enum reagent_kind {
     RK_SUBSTITUTION, /* RH + X-Y -> RX + HY (Cl2, Br2, SO2Cl2) */
@@ -44,7 +47,7 @@ enum reagent_bond {
 
 /* Caution rows. */
 enum caution_id {
-    CA_CL2, CA_BR2, CA_HCL, CA_HBR, CA_SO2, CA_SO2CL2, CA_NBS, CA_NAOCL, CA_NAOH,
+    CA_CL2, CA_BR2, CA_HCL, CA_HBR, CA_SO2, CA_SO2CL2, CA_NBS, CA_NAOCL, CA_NAOH, CA_NA2CO3,
     CA_COUNT
 };
 
@@ -54,7 +57,7 @@ struct reagent_info {
     const char *long_name;   /* "chlorine" */
     double molar_mass_g_mol; /* from CIAAW 2021 weights (checked by a test) */
     enum reagent_kind kind;
-    int halogen_el;          /* EL_Cl or EL_Br: the atom put on carbon; -1 for NaOH */
+    int halogen_el;          /* EL_Cl or EL_Br: the atom put on carbon; -1 for a base */
     /* per mole of reagent reacted: */
     double hx_mol;           /* HCl or HBr formed (1 for X2/SO2Cl2, 0 for NBS/HBr) */
     int hx_species;          /* VS_HCL / VS_HBR, or -1 */

@@ -406,11 +406,17 @@ static enum hl_status base_strengths(struct val_ctx *c, const cJSON **k, const s
      * Ceiling: the liquor row's (its tables' end or its base's solubility). */
     char floor_why[120];
     snprintf(floor_why, sizeof floor_why, "a liquor under 0.1 wt%% %s is no %s", base, l->unit_noun);
-    const struct val_rng rwt = {0.1, l->max_base_wt_pct, 0, 0, floor_why, NULL},
+    const struct val_rng rwt = {0.1, 100, 0, 0, floor_why, NULL},
                      rmin = {0, 50, 0, 1, NULL, NULL}, rmk = {0, 100, 1, 0, NULL, NULL};
     enum hl_status st;
-    if ((st = val_num(c, kw, rwt, &s->base_wt_pct)) ||
-        (kmin && (st = val_num(c, kmin, rmin, &s->min_base_wt_pct))) ||
+    if ((st = val_num(c, kw, rwt, &s->base_wt_pct)))
+        return st;
+    if (s->base_wt_pct > l->max_base_wt_pct) {
+        val_push_key(c, kw->string);
+        return val_err(c, kw, 0, "must be <= %.15g (got %.15g)%s%s", l->max_base_wt_pct, s->base_wt_pct,
+                       l->max_base_why ? ": " : "", l->max_base_why ? l->max_base_why : "");
+    }
+    if ((kmin && (st = val_num(c, kmin, rmin, &s->min_base_wt_pct))) ||
         (kmk && (st = val_num(c, kmk, rmk, &s->makeup_base_wt_pct))))
         return st;
     if (s->min_base_wt_pct >= s->base_wt_pct) {

@@ -697,7 +697,7 @@ static void jo_run_products(struct jo *w, const struct ledger_run *r)
 }
 
 /* A run's scrubber{} object: its liquor after the run. */
-static void jo_run_scrubber(struct jo *w, const struct ledger_run *r)
+static void jo_run_scrubber(struct jo *w, const struct ledger_run *r, int base)
 {
     const struct scrub_run_out *s = &r->scrub;
     jo_open(w, "scrubber", '{');
@@ -727,6 +727,16 @@ static void jo_run_scrubber(struct jo *w, const struct ledger_run *r)
     jo_num(w, "hbr_wt_pct_after", s->hbr_wt_pct_after);
     jo_num(w, "boiling_point_c", s->boiling_point_c);
     jo_bool(w, "boils", s->boils);
+    /* base-neutral figures (any liquor base; the naoh_ keys above are NaOH's only) */
+    if (base >= 0)
+        jo_str(w, "base", reagent_get(base)->name);
+    else
+        jo_null(w, "base");
+    jo_num(w, "base_kg", s->base_kg);
+    jo_num(w, "base_left_kg", s->base_left_kg);
+    jo_num(w, "base_wt_pct_after", s->base_wt_pct_after);
+    jo_num(w, "makeup_kg", r->changeout_makeup_kg);
+    jo_num(w, "co2_kg", s->co2_kg);
     jo_close(w, '}');
 }
 
@@ -810,7 +820,7 @@ static void jo_run(struct jo *w, const struct ledger *l, int i)
     jo_num(w, "unreacted_substrate_kg", b->unreacted_substrate_kg);
     jo_close(w, '}');
 
-    jo_run_scrubber(w, r);
+    jo_run_scrubber(w, r, r->scrubber_index >= 0 ? l->scrubbers[r->scrubber_index].base : -1);
 
     jo_run_elements(w, &r->bal);
     jo_bool(w, "isomers_resolved", b->isomers_resolved);
@@ -899,6 +909,11 @@ static void jo_month(struct jo *w, const struct ledger *l, int i)
     jo_num(w, "caustic_solution_kg", m->caustic_solution_kg);
     jo_num(w, "caustic_solution_naoh_kg", m->caustic_solution_naoh_kg);
     jo_num(w, "dilution_water_kg", m->dilution_water_kg);
+    jo_open(w, "base_kg", '{'); /* each scrubber base consumed, as 100 % */
+    for (int k = RG_CHARGEABLE; k < RG_COUNT; k++)
+        jo_num(w, jo_item_name(k), m->base_kg[k]);
+    jo_close(w, '}');
+    jo_num(w, "co2_kg", m->co2_kg);
     jo_month_products(w, m);
     const struct ledger_month_close *k = &m->close;
     jo_open(w, "close", '{');
@@ -1039,7 +1054,7 @@ static void jo_scrubber(struct jo *w, const struct ledger *l, int i)
     jo_num(w, "naoh_kg", s->naoh_kg);
     jo_num(w, "makeup_kg", s->makeup_kg);
     jo_num(w, "makeup_naoh_wt_pct", u->makeup_naoh_wt_pct);
-    jo_num(w, "caustic_solution_kg", s->makeup_kg);
+    jo_num(w, "caustic_solution_kg", u->caustic_solution_kg);
     jo_num(w, "changeout_caustic_solution_kg", u->changeout_caustic_solution_kg);
     jo_num(w, "changeout_water_kg", u->changeout_water_kg);
     jo_num(w, "dilution_water_kg", u->dilution_water_kg);
@@ -1060,6 +1075,14 @@ static void jo_scrubber(struct jo *w, const struct ledger *l, int i)
     jo_num(w, "max_liquor_temp_c", s->max_liquor_temp_c);
     jo_num(w, "too_hot_runs", s->too_hot_runs);
     jo_num(w, "boiling_runs", s->boiling_runs);
+    if (u->base >= 0)
+        jo_str(w, "base", reagent_get(u->base)->name);
+    else
+        jo_null(w, "base");
+    jo_num(w, "base_kg", s->base_kg);
+    jo_num(w, "co2_kg", s->co2_kg);
+    jo_num(w, "makeup_base_wt_pct", u->makeup_base_wt_pct);
+    jo_num(w, "changeout_makeup_kg", u->changeout_makeup_kg);
     jo_open(w, "hourly", '{');
     if (s->nhours > 0)
         jo_date(w, "start", s->hour0_min, 0);
@@ -1085,6 +1108,7 @@ static void jo_scrubber(struct jo *w, const struct ledger *l, int i)
         for (int q = 0; q < SALT_COUNT; q++)
             jo_num(w, jo_salt_key(q), b->salt_kg[q]);
         jo_close(w, '}');
+        jo_num(w, "base_kg", b->base_kg);
         jo_close(w, '}');
     }
     jo_close(w, ']');

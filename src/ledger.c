@@ -961,6 +961,7 @@ static enum hl_status run_scrubbers(const struct campaign *c, struct ledger *l, 
         ls->makeup_naoh_wt_pct = caustic ? ls->makeup_base_wt_pct : 0.0;
         ls->changeout_caustic_solution_kg = caustic ? ls->changeout_makeup_kg : 0.0;
         ls->dilution_water_kg = ls->out.changeouts * ls->changeout_water_kg;
+        ls->caustic_solution_kg = caustic ? ls->out.makeup_kg : 0.0;
     }
     for (int i = 0; i < nr; i++) {
         struct ledger_run *lr = &l->runs[i];
@@ -1689,11 +1690,11 @@ static void collect_cautions(struct ledger *l)
         if (r->scrubber_index >= 0 && r->bal.vent_mol[VS_CL2] > 0)
             l->cautions_mask |= 1u << CA_NAOCL; /* Cl2 on caustic makes hypochlorite liquor */
     }
-    if (l->nscrubbers > 0)
-        l->cautions_mask |= 1u << CA_NAOH;
-    for (int u = 0; u < l->nscrubbers; u++) /* the base each liquor is made up with */
-        if (l->scrubbers[u].base >= 0)
-            l->cautions_mask |= 1u << reagent_get(l->scrubbers[u].base)->caution;
+    /* the base each liquor is made up with; a water unit keeps the caustic caution it has
+     * always carried */
+    for (int u = 0; u < l->nscrubbers; u++)
+        l->cautions_mask |= 1u << (l->scrubbers[u].base >= 0 ? reagent_get(l->scrubbers[u].base)->caution
+                                                              : CA_NAOH);
 }
 
 static enum hl_status collect_assumptions(struct ledger *l, struct hl_err *e)

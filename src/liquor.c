@@ -202,6 +202,35 @@ static double water_bp(const struct liquor_comp *c) { (void)c; return 100.0; }
 static double water_rho(const struct liquor_comp *c) { (void)c; return LIQUOR_RHO_WATER_KG_M3; }
 static double water_visc(const struct liquor_comp *c) { (void)c; return 1.0; }
 
+/* Sodium carbonate solution (soda ash liquor), by Na2CO3 mass percent.  The tables stop at
+ * 14 wt%, the strongest fresh liquor taken: under the solubility near 20 C (21.5 g per 100 g
+ * water, 17.7 wt%; at 10 C only about 11 wt%, where the decahydrate crystallises; CRC
+ * Handbook, "Aqueous solubility of inorganic compounds", from memory).  Density at 20 C
+ * [g/cm3]: CRC Handbook, "Concentrative properties of aqueous solutions", from memory. */
+static const struct pt na2co3_rho[] = {{0, 0.99820}, {1, 1.0086}, {2, 1.0190}, {4, 1.0398},
+                                       {6, 1.0606}, {8, 1.0816}, {10, 1.1029}, {12, 1.1244},
+                                       {14, 1.1463}};
+/* Viscosity at 20 C [mPa s]: from memory, approximate (CRC concentrative properties table);
+ * it enters the flooding correlation as mu^0.2 only. */
+static const struct pt na2co3_mu[] = {{0, 1.00}, {5, 1.25}, {10, 1.60}, {14, 2.00}};
+
+static double soda_rho(const struct liquor_comp *c) { return 1000.0 * interp(na2co3_rho, NPT(na2co3_rho), c->base_wt_pct); }
+static double soda_visc(const struct liquor_comp *c) { return interp(na2co3_mu, NPT(na2co3_mu), c->base_wt_pct); }
+/* Heat capacity: no table of sodium carbonate solutions was at hand, so the liquor is
+ * credited with the heat capacity of the water in it only, 4.18 x (1 - w) [kJ/(kg K)]
+ * (IAPWS-95 near 20 C for water); the caustic table above meets this rule within 1 % at 10
+ * wt% NaOH.  About +-5 % (assumption): the dissolved salt's apparent heat capacity is small. */
+static double soda_cp(const struct liquor_comp *c)
+{
+    double w = c->base_wt_pct < 0 ? 0 : c->base_wt_pct > 14 ? 14 : c->base_wt_pct;
+    return 4.18 * (1.0 - w / 100.0);
+}
+/* Boiling point: taken as water's, 100 C at 1 atm.  The carbonate raises it by at most
+ * about 2.4 K at 14 wt% (ideal dilute solution, three ions, ebullioscopic constant of water
+ * 0.512 K kg/mol, from memory), and its salts further, so the alarm comes early, never
+ * late. */
+static double soda_bp(const struct liquor_comp *c) { (void)c; return 100.0; }
+
 /* Default removal without column data or a given value: a packed caustic scrubber on a
  * halogenation vent is commonly specified for 99 % removal of HCl and HBr and 98 % of Cl2,
  * Br2 and SO2 (common practice: typical guarantee figures, not a design); a water scrubber
@@ -210,6 +239,10 @@ static double water_visc(const struct liquor_comp *c) { (void)c; return 1.0; }
 #define CAUSTIC_REM "packed caustic scrubber, typical specification (common practice)"
 #define WATER_REM "water scrubber, typical specification (from memory)"
 #define WATER_PASS "a water liquor does not absorb it (liquor model)"
+/* A packed soda-ash scrubber: the acid gases as on caustic (a fast acid-base reaction) and SO2
+ * (soda ash is a usual SO2 liquor), the halogens somewhat less (they react through hypohalous
+ * acid, slower at the lower pH of carbonate): from memory, typical figures, not a design. */
+#define SODA_REM "packed soda-ash scrubber, typical specification (from memory)"
 
 /* Caustic liquor reactions of design section 4, per mole of vent gas:
  *   HCl + NaOH -> NaCl + H2O          HBr + NaOH -> NaBr + H2O
@@ -228,6 +261,17 @@ static double water_visc(const struct liquor_comp *c) { (void)c; return 1.0; }
 #define PASS(g)                                                                                \
     {.uptake = LQ_PASSES, .salt = {-1, -1, -1}, .dfh_gas = g, .dfh_taken = -1, .removal = 0.0,  \
      .removal_origin = WATER_PASS}
+/* Soda ash liquor, the carbonate spent to CO2 (basis: the least carbonate per mole of gas;
+ * while carbonate is in excess the first acid makes bicarbonate instead, which takes twice
+ * the carbonate per mole of HCl and gives off no CO2 - see design section 4), per mole of
+ * vent gas:
+ *   2 HCl + Na2CO3 -> 2 NaCl + H2O + CO2      2 HBr + Na2CO3 -> 2 NaBr + H2O + CO2
+ *   Cl2 + Na2CO3 -> NaCl + NaOCl + CO2        Br2 + Na2CO3 -> NaBr + NaOBr + CO2
+ *   SO2 + Na2CO3 -> Na2SO3 + CO2 */
+#define SODA(base, s0, n0, s1, n1, w, g, rem)                                                  \
+    {.uptake = LQ_REACTS, .base_mol = base, .salt = {s0, s1, -1}, .salt_mol = {n0, n1, 0},      \
+     .water_mol = w, .co2_mol = base, .dfh_gas = g, .dfh_taken = -1, .removal = rem,            \
+     .removal_origin = SODA_REM}
 static const struct liquor_info liquors[LQ_COUNT] = {
     /* 50 wt%: the end of the NaOH tables above and the usual commercial strength */
     [LQ_NAOH] = {"naoh", RG_NAOH, DFH_NAOH_AQ, LQ_KEYS_NAOH, 50, NULL, "caustic scrubber", "caustic",
@@ -246,6 +290,16 @@ static const struct liquor_info liquors[LQ_COUNT] = {
                    [VS_CL2] = PASS(DFH_CL2_G), [VS_BR2] = PASS(DFH_BR2_G), [VS_SO2] = PASS(DFH_SO2_G)},
                   water_cp, water_bp, water_rho, water_visc,
                   "water: the acids boil higher up to their azeotropes"},
+    [LQ_SODA_ASH] = {"soda_ash", RG_NA2CO3, DFH_NA2CO3_AQ, LQ_KEYS_BASE, 14,
+                     "under the solubility of Na2CO3 near 20 C (about 17.7 wt%)",
+                     "soda-ash scrubber", "soda ash",
+                     {[VS_HCL] = SODA(0.5, SALT_NACL, 1, -1, 0, 0.5, DFH_HCL_G, 0.99),
+                      [VS_HBR] = SODA(0.5, SALT_NABR, 1, -1, 0, 0.5, DFH_HBR_G, 0.99),
+                      [VS_CL2] = SODA(1, SALT_NACL, 1, SALT_NAOCL, 1, 0, DFH_CL2_G, 0.95),
+                      [VS_BR2] = SODA(1, SALT_NABR, 1, SALT_NAOBR, 1, 0, DFH_BR2_G, 0.95),
+                      [VS_SO2] = SODA(1, SALT_NA2SO3, 1, -1, 0, 0, DFH_SO2_G, 0.98)},
+                     soda_cp, soda_bp, soda_rho, soda_visc,
+                     "water at 1 atm, the carbonate and salts ignored"},
 };
 
 const struct liquor_info *liquor_get(int liquor)

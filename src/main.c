@@ -206,12 +206,18 @@ static void print_summary(const struct ledger *l)
                m->overhal_kg, acid, m->naoh_kg, m->changeouts);
         for (int k = 0; m->nproducts > 1 && k < m->nproducts; k++)
             print_route(&m->products[k]);
-        for (int r = 0; r < RG_COUNT; r++)
-            if (m->reagents_kg[r] > 0 && r != RG_NAOH)
+        for (int r = 0; r < RG_CHARGEABLE; r++)
+            if (m->reagents_kg[r] > 0)
                 printf("           %-7s %.1f kg charged\n", reagent_get(r)->name, m->reagents_kg[r]);
         if (m->reagents_kg[RG_NAOH] > 0)
             printf("           caustic make-up bought for changeouts %.1f kg (as purchased solution)\n",
                    m->reagents_kg[RG_NAOH]);
+        for (int r = RG_CHARGEABLE; r < RG_COUNT; r++) /* the other bases */
+            if (r != RG_NAOH && m->reagents_kg[r] > 0)
+                printf("           %s make-up bought for changeouts %.1f kg (as bought)\n",
+                       reagent_get(r)->name, m->reagents_kg[r]);
+        if (m->co2_kg > 0)
+            printf("           CO2 given off by the scrubber liquors %.1f kg\n", m->co2_kg);
         print_close(m);
     }
     for (int i = 0; i < l->nstock_checks; i++) {

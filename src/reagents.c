@@ -67,6 +67,10 @@ static const struct reagent_info reagents[RG_COUNT] = {
                  ELEM_W_NA + ELEM_W_O + ELEM_W_H, RK_BASE, -1, 0.0, -1, 0.0, 0.0, -1,
                  "aqueous solution (caustic liquor)", CA_NAOH,
                  0, -1, NULL, 0, RB_NONE, RB_NONE, 0, 0, NULL},
+    [RG_NA2CO3] = {"Na2CO3", "CNa2O3", "sodium carbonate (soda ash, scrubber make-up)",
+                   2 * ELEM_W_NA + ELEM_W_C + 3 * ELEM_W_O, RK_BASE, -1, 0.0, -1, 0.0, 0.0, -1,
+                   "solid (dense soda ash, dissolved on site)", CA_NA2CO3,
+                   0, -1, NULL, 0, RB_NONE, RB_NONE, 0, 0, NULL},
 };
 
 const struct reagent_info *reagent_get(int id)
@@ -274,6 +278,25 @@ static const struct caution_info cautions[CA_COUNT] = {
         "(common practice).",
         "NaOH: corrosive alkali - NIOSH REL C 2 mg/m3; eye protection, keep from acids and "
         "aluminium.",
+    },
+    /* no exposure limit of its own in the NIOSH guide or Table Z-1 (from memory); as a dust
+     * it falls under the limits for particulates not otherwise regulated */
+    [CA_NA2CO3] = {
+        "Sodium carbonate (soda ash, Na2CO3)", "497-19-8",
+        LIM_NONE,
+        "Alkaline irritant: the dust and the solution irritate the eyes seriously, and the skin "
+        "and airways. In the scrubber the liquor gives off CO2 as it takes up acid gas and "
+        "halogen: it foams, and CO2 gathers in low and enclosed spaces (sumps, pits, tank "
+        "interiors) - an asphyxiation hazard; ventilate and test the air before entry (common "
+        "practice). Its spent liquor holds hypochlorite and hypobromite, as a caustic "
+        "liquor does.",
+        "Acids (CO2 and foam, heat). A liquor whose carbonate is spent turns less alkaline "
+        "(bicarbonate, pH near 8), where hypochlorite releases chlorine more readily: keep "
+        "free carbonate in it, and the acids and ammonia of the hypochlorite caution away.",
+        "Goggles, gloves and a dust mask for the dry ash; eyewash within reach; no entry to "
+        "scrubber sumps or tanks without gas testing.",
+        "Na2CO3: alkaline irritant - eye protection; its liquor gives off CO2 (ventilate and "
+        "test sumps and pits before entry).",
     },
 };
 

@@ -1356,6 +1356,14 @@ static void row_liquor(struct xw *w, struct xtable *b, lxw_row_t row, int i)
     xt_num(w, b, row, k++, s->sulfite_oxidised_mol);
     xt_num(w, b, row, k++, s->breakthrough_mol);
     xt_raise(w, b, row, k++, s->exhausted, "BELOW MINIMUM");
+    /* the liquor's own base, whatever it is (the NaOH columns above are NaOH's only) */
+    int base = l->scrubbers[r->scrubber_index].base;
+    xt_text(w, b, row, k++, base >= 0 ? xo_item(base) : "none (water liquor)");
+    xt_num(w, b, row, k++, r->changeout_makeup_kg);
+    xt_num(w, b, row, k++, s->base_kg);
+    xt_num(w, b, row, k++, s->base_left_kg);
+    xt_num(w, b, row, k++, s->base_wt_pct_after);
+    xt_num(w, b, row, k++, s->co2_kg);
 }
 
 static void xo_liquor(struct xw *w)
@@ -1389,6 +1397,12 @@ static void xo_liquor(struct xw *w)
     xt_col(&a, XK_MOL, 0, "Sulfite oxidised by hypohalite [mol]");
     xt_col(&a, XK_MOL, 0, "Gas left unneutralised [mol]");
     xt_alarm(&a, XA_ALARM, "Below minimum NaOH");
+    xt_col(&a, XK_TEXT, 0, "Liquor base");
+    xt_col(&a, XK_KG, 0, "Base bought for the fresh charge, as bought [kg]");
+    xt_col(&a, XK_KG, 0, "Base consumed, as 100 %% [kg]");
+    xt_col(&a, XK_KG, 0, "Base left, as 100 %% [kg]");
+    xt_col(&a, XK_PCT, 0, "Base after run [wt%%]");
+    xt_col(&a, XK_KG, 1, "CO2 given off by the liquor [kg]");
     xo_table(w, "Liquor by run", &a);
 }
 
@@ -1429,15 +1443,25 @@ static void row_unit(struct xw *w, struct xtable *b, lxw_row_t row, int i)
     if (u->makeup_naoh_wt_pct > 0)
         xt_num(w, b, row, k, u->makeup_naoh_wt_pct);
     else
-        xt_text(w, b, row, k, "none (water liquor)");
+        xt_text(w, b, row, k, u->base < 0 ? "none (water liquor)" : "none (no NaOH in the liquor)");
     k++;
     xt_num(w, b, row, k++, u->changeout_caustic_solution_kg);
     xt_num(w, b, row, k++, u->changeout_water_kg);
-    xt_num(w, b, row, k++, s->makeup_kg);
+    xt_num(w, b, row, k++, u->caustic_solution_kg);
     xt_num(w, b, row, k++, u->dilution_water_kg);
     xt_num(w, b, row, k++, s->heat_kj);
     xt_num(w, b, row, k++, s->max_liquor_temp_c);
     xt_num(w, b, row, k++, s->too_hot_runs);
+    xt_text(w, b, row, k++, u->base >= 0 ? xo_item(u->base) : "none (water liquor)");
+    xt_num(w, b, row, k++, s->base_kg);
+    if (u->base >= 0)
+        xt_num(w, b, row, k, u->makeup_base_wt_pct);
+    else
+        xt_text(w, b, row, k, "none (water liquor)");
+    k++;
+    xt_num(w, b, row, k++, u->changeout_makeup_kg);
+    xt_num(w, b, row, k++, s->makeup_kg);
+    xt_num(w, b, row, k++, s->co2_kg);
 }
 
 static void xo_units(struct xw *w)
@@ -1466,6 +1490,12 @@ static void xo_units(struct xw *w)
     xt_col(&u, XK_HEAT, 1, "Heat to liquor [kJ]");
     xt_col(&u, XK_TEMP, 0, "Hottest liquor, no cooling [°C]");
     xt_col(&u, XK_INT, 1, "Runs needing cooling [count]");
+    xt_col(&u, XK_TEXT, 0, "Liquor base");
+    xt_col(&u, XK_KG, 0, "Base consumed, as 100 %% [kg]");
+    xt_col(&u, XK_PCT, 0, "Base make-up strength [wt%%]");
+    xt_col(&u, XK_KG, 0, "Base bought per changeout, as bought [kg]");
+    xt_col(&u, XK_KG, 0, "Base bought, all changeouts, as bought [kg]");
+    xt_col(&u, XK_KG, 1, "CO2 given off by the liquor [kg]");
     xo_table(w, "Scrubber units", &u);
 }
 
@@ -2202,7 +2232,8 @@ static void xo_spent(struct xw *w)
 
 enum { MC_RUNS = 1, MC_REAGENT, /* RG_COUNT columns */
        MC_VENT = MC_REAGENT + RG_COUNT, MC_NAOH = MC_VENT + VS_COUNT, MC_CAUSTIC_NAOH, MC_WATER,
-       MC_CHANGE, MC_SPENT, MC_SUCC, MC_NCOL };
+       MC_CHANGE, MC_SPENT, MC_SUCC, MC_BASE, /* the bases other than NaOH, consumed */
+       MC_CO2 = MC_BASE + RG_COUNT - RG_CHARGEABLE - 1, MC_NCOL };
 
 static void row_month(struct xw *w, struct xtable *b, lxw_row_t row, int i)
 {
@@ -2221,6 +2252,10 @@ static void row_month(struct xw *w, struct xtable *b, lxw_row_t row, int i)
     xt_num(w, b, row, MC_CHANGE, m->changeouts);
     xt_num(w, b, row, MC_SPENT, m->spent_liquor_kg);
     xt_num(w, b, row, MC_SUCC, m->succinimide_kg);
+    for (int g = RG_CHARGEABLE, c = MC_BASE; g < RG_COUNT; g++)
+        if (g != RG_NAOH)
+            xt_num(w, b, row, c++, m->base_kg[g]);
+    xt_num(w, b, row, MC_CO2, m->co2_kg);
 }
 
 /* --- Monthly yields: one row per month and route ------------------------- */
@@ -2342,6 +2377,8 @@ static void xo_monthly(struct xw *w)
     for (int g = 0; g < RG_COUNT; g++)
         if (g == RG_NAOH)
             xt_col(&b, XK_KG, 1, "Caustic solution bought, %s [kg]", w->caustic);
+        else if (g >= RG_CHARGEABLE) /* another liquor base: its make-up */
+            xt_col(&b, XK_KG, 1, "%s make-up bought, as bought [kg]", xo_item(g));
         else
             xt_col(&b, XK_KG, 1, "%s charged [kg]", xo_item(g));
     for (int s = 0; s < VS_COUNT; s++)
@@ -2353,6 +2390,10 @@ static void xo_monthly(struct xw *w)
     xt_col(&b, XK_INT, 1, "Liquor changeouts [count]");
     xt_col(&b, XK_KG, 1, "Spent liquor [kg]");
     xt_col(&b, XK_KG, 1, "Succinimide [kg]");
+    for (int g = RG_CHARGEABLE; g < RG_COUNT; g++)
+        if (g != RG_NAOH)
+            xt_col(&b, XK_KG, 1, "%s consumed, as 100 %% [kg]", xo_item(g));
+    xt_col(&b, XK_KG, 1, "CO2 given off by the liquors [kg]");
     xo_table(w, "Monthly", &b);
     xo_month_yields(w); /* its sheet sits between Monthly and Charts */
     if (w->st != HL_OK)

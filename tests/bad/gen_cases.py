@@ -464,9 +464,20 @@ edit('format_catalog', '"format": "haloledger-campaign/1"', '"format": @@"halole
 edit('mode_plug', '"reactor_mode": "batch"', '"reactor_mode": @@"plug"', 'runs[0].reactor_mode',
      'must be "batch" or "cstr" (got "plug")')
 edit('liquor_caustic', '"liquor": "naoh"', '"liquor": @@"caustic"', 'scrubbers[0].liquor',
-     'must be "naoh" or "water" (got "caustic")')
+     'must be "naoh", "water" or "soda_ash" (got "caustic")')
 edit('water_with_naoh_pct', '"liquor": "naoh", "naoh_wt_pct": 18', '"liquor": "water", @@"naoh_wt_pct": 18',
      'scrubbers[0].naoh_wt_pct', 'applies to a "naoh" liquor only')
+# soda ash reads the base-neutral spellings: the NaOH-named keys do not apply, nor the other way
+edit('soda_ash_with_naoh_pct', '"liquor": "naoh", "naoh_wt_pct": 18', '"liquor": "soda_ash", @@"naoh_wt_pct": 18',
+     'scrubbers[0].naoh_wt_pct', 'applies to a "naoh" liquor only')
+edit('naoh_with_base_pct', '"rated_acid_kmol_h": 2.0}', '"rated_acid_kmol_h": 2.0, @@"min_base_wt_pct": 2}',
+     'scrubbers[0].min_base_wt_pct', 'applies to a "soda_ash" liquor only')
+edit('soda_ash_missing_base_pct', '{"id": "VS-1", "liquor": "naoh", "naoh_wt_pct": 18, "liquor_kg": 6000,\n     "min_naoh_wt_pct": 2,',
+     '@@{"id": "VS-1", "liquor": "soda_ash", "liquor_kg": 6000,', 'scrubbers[0].base_wt_pct',
+     'missing: a soda-ash scrubber needs its fresh liquor strength')
+edit('soda_ash_above_solubility', '"liquor": "naoh", "naoh_wt_pct": 18, "liquor_kg": 6000,\n     "min_naoh_wt_pct": 2,',
+     '"liquor": "soda_ash", "base_wt_pct": @@18, "liquor_kg": 6000,', 'scrubbers[0].base_wt_pct',
+     'must be <= 14 (got 18): under the solubility of Na2CO3 near 20 C')
 edit('naoh_with_max_acid', '"rated_acid_kmol_h": 2.0}', '"rated_acid_kmol_h": 2.0, @@"max_acid_wt_pct": 20}',
      'scrubbers[0].max_acid_wt_pct', 'applies to a "water" liquor only')
 

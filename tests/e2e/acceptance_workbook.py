@@ -60,7 +60,7 @@ SHEETS = ["Summary", "Runs", "Products", "Liquor by run", "Scrubber units", "Hou
 # a total column must name one thing (its header starts with one of these) or count something
 TOTAL_OK = ("HCl ", "HBr ", "Cl2 ", "Br2 ", "SO2 ", "SO2Cl2 ", "NBS ", "Succinimide", "NaOH ", "Heat to liquor",
             "Liquor [kg]", "Water [kg]", "NaCl ", "NaBr ", "NaOCl ", "NaOBr ", "Na2SO3 ", "Na2SO4 ",
-            "Spent liquor", "Caustic solution bought", "Dilution water")
+            "Spent liquor", "Caustic solution bought", "Dilution water", "Na2CO3 ", "CO2 given off")
 # (sheet, header, marker, JSON getter(led, key) -> bool or None, key column)
 ALARMS = [("Runs", "Capped by substrate", "!"), ("Liquor by run", "Cooling needed", "!!"),
           ("Liquor by run", "Below minimum NaOH", "!!"),

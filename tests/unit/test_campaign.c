@@ -4,6 +4,7 @@
 #include "campaign.h"
 #include "hlmem.h"
 #include "isodate.h"
+#include "liquor.h"
 #include "reagents.h"
 #include <stdlib.h>
 #include <string.h>
@@ -164,6 +165,30 @@ static void demo_fields(void)
     CU_ASSERT_EQUAL(b->pos_formula.col, 67);
     CU_ASSERT_EQUAL(b->pos_product_smiles.line, 31);
     CU_ASSERT_EQUAL(b->pos_product_smiles.col, 24);
+    camp_free(c);
+}
+
+/* A soda-ash scrubber (design section 3): the base strengths under their base-neutral keys, as
+ * written, and their defaults (min_base_wt_pct 2, makeup_base_wt_pct 100: dry ash). */
+static void soda_ash_scrubber(void)
+{
+    static const char T[] =
+        "{\"format\": \"haloledger-campaign/1\",\n"
+        " \"scrubbers\": [{\"id\": \"S\", \"liquor\": \"soda_ash\", \"base_wt_pct\": 12, \"liquor_kg\": 100,\n"
+        "   \"rated_acid_kmol_h\": 1},\n"
+        "  {\"id\": \"T\", \"liquor\": \"soda_ash\", \"base_wt_pct\": 8, \"min_base_wt_pct\": 1.5,\n"
+        "   \"makeup_base_wt_pct\": 30, \"liquor_kg\": 100, \"rated_acid_kmol_h\": 1}],\n"
+        " \"runs\": [{\"id\": \"A\", \"start\": \"2027-01-01\", \"substrate\": {\"smiles\": \"C=CC\"},\n"
+        "   \"substrate_kg\": 1, \"reagent\": \"HBr\", \"reagent_eq\": 1.1}]}";
+    struct campaign *c = parse_ok(T, NULL);
+    CU_ASSERT_PTR_NOT_NULL_FATAL(c);
+    CU_ASSERT_EQUAL(c->scrubbers[0].liquor, LQ_SODA_ASH);
+    ASSERT_REL(c->scrubbers[0].base_wt_pct, 12, 1e-15);
+    ASSERT_REL(c->scrubbers[0].min_base_wt_pct, 2, 1e-15);
+    ASSERT_REL(c->scrubbers[0].makeup_base_wt_pct, 100, 1e-15);
+    ASSERT_REL(c->scrubbers[1].base_wt_pct, 8, 1e-15);
+    ASSERT_REL(c->scrubbers[1].min_base_wt_pct, 1.5, 1e-15);
+    ASSERT_REL(c->scrubbers[1].makeup_base_wt_pct, 30, 1e-15);
     camp_free(c);
 }
 
@@ -668,7 +693,7 @@ int main(void)
 {
     hl_mem_hook_cjson();
     static const struct cu_case cases[] = {
-        {"demo fields", demo_fields}, {"defaults", defaults}, {"report paper", report_paper}, {"repeat expansion", repeat_expansion},
+        {"demo fields", demo_fields}, {"defaults", defaults}, {"soda-ash scrubber", soda_ash_scrubber}, {"report paper", report_paper}, {"repeat expansion", repeat_expansion},
         {"model merge", model_merge}, {"catalog merge", catalog_merge}, {"positions", positions},
         {"errors", errors}, {"load file", load_file}, {"allocation failure", alloc_failure},
         {"string columns", string_columns}, {"campaign model position", campaign_model_position},

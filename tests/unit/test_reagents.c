@@ -124,7 +124,7 @@ static void lookups(void)
     /* the campaign spellings of design section 3 (a new reagent adds its own) */
     static const struct { const char *name; int id; } spelled[] = {
         {"Cl2", RG_CL2}, {"Br2", RG_BR2}, {"SO2Cl2", RG_SO2CL2}, {"NBS", RG_NBS}, {"HBr", RG_HBR},
-        {"NaOH", RG_NAOH}};
+        {"NaOH", RG_NAOH}, {"Na2CO3", RG_NA2CO3}};
     for (size_t i = 0; i < sizeof spelled / sizeof spelled[0]; i++) {
         CU_ASSERT_EQUAL(reagent_lookup(spelled[i].name), spelled[i].id);
         CU_ASSERT_STRING_EQUAL(reagent_get(spelled[i].id)->name, spelled[i].name);
@@ -199,7 +199,11 @@ static void liquor_rows(void)
             CU_ASSERT_EQUAL_FATAL(formula_parse("H2O", &f, NULL), HL_OK);
             for (int el = 0; el < EL_COUNT; el++)
                 bal[el] -= g->water_mol * f.n[el];
-            for (int k = 0; k < 2; k++) {
+            CU_ASSERT_EQUAL_FATAL(formula_parse("CO2", &f, NULL), HL_OK); /* given off */
+            for (int el = 0; el < EL_COUNT; el++)
+                bal[el] -= g->co2_mol * f.n[el];
+            CU_ASSERT(g->co2_mol >= 0);
+            for (int k = 0; k < LQ_MAX_SALTS; k++) {
                 if (g->salt[k] < 0)
                     continue;
                 CU_ASSERT_PTR_NOT_NULL_FATAL(liquor_salt_get(g->salt[k]));
@@ -214,11 +218,25 @@ static void liquor_rows(void)
             for (int el = 0; el < EL_COUNT; el++)
                 CU_ASSERT_EQUAL(bal[el], 0);
         }
-        struct liquor_comp fresh = {.base_wt_pct = l->base >= 0 ? 10 : 0};
-        double x[4] = {l->cp_kj_kg_k(&fresh), l->boiling_point_c(&fresh), l->density_kg_m3(&fresh),
-                       l->viscosity_mpa_s(&fresh)};
-        for (int k = 0; k < 4; k++)
-            CU_ASSERT(isfinite(x[k]) && x[k] > 0);
+        /* a base is a make-up row of its own, read through one spelling of the strength keys,
+         * up to a strongest fresh liquor the property tables reach */
+        CU_ASSERT_EQUAL(l->base >= 0, l->keys != LQ_KEYS_NONE);
+        CU_ASSERT_PTR_NOT_NULL(l->unit_noun);
+        if (l->base >= 0) {
+            CU_ASSERT_FATAL(l->base >= RG_CHARGEABLE && l->base < RG_COUNT);
+            CU_ASSERT_EQUAL(reagent_get(l->base)->kind, RK_BASE);
+            CU_ASSERT(l->keys == LQ_KEYS_NAOH || l->keys == LQ_KEYS_BASE);
+            CU_ASSERT_EQUAL(l->keys == LQ_KEYS_NAOH, l->base == RG_NAOH); /* the naoh_* keys name NaOH */
+            CU_ASSERT(l->max_base_wt_pct > 0.1 && l->max_base_wt_pct <= 100);
+            CU_ASSERT_PTR_NOT_NULL(l->makeup_noun);
+        }
+        for (int w = 0; w <= 1; w++) {
+            struct liquor_comp fresh = {.base_wt_pct = l->base >= 0 ? (w ? l->max_base_wt_pct : 0.1) : 0};
+            double x[4] = {l->cp_kj_kg_k(&fresh), l->boiling_point_c(&fresh), l->density_kg_m3(&fresh),
+                           l->viscosity_mpa_s(&fresh)};
+            for (int k = 0; k < 4; k++)
+                CU_ASSERT(isfinite(x[k]) && x[k] > 0);
+        }
     }
     CU_ASSERT_PTR_NULL(liquor_get(LQ_COUNT));
     CU_ASSERT_PTR_NULL(liquor_get(-1));
@@ -226,6 +244,59 @@ static void liquor_rows(void)
     /* the campaign spellings (design section 3) */
     CU_ASSERT_STRING_EQUAL(liquor_get(LQ_NAOH)->name, "naoh");
     CU_ASSERT_STRING_EQUAL(liquor_get(LQ_WATER)->name, "water");
+    CU_ASSERT_STRING_EQUAL(liquor_get(LQ_SODA_ASH)->name, "soda_ash");
+}
+
+/* The soda-ash row against its chemistry, written out here (design section 4, carbonate
+ * spent to CO2): per mol of gas, Na2CO3 used, salts, water and CO2; every product is one of
+ * 2 HCl + Na2CO3 -> 2 NaCl + H2O + CO2, Cl2 + Na2CO3 -> NaCl + NaOCl + CO2, SO2 + Na2CO3
+ * -> Na2SO3 + CO2 (and the HBr, Br2 alike).  Its property functions against their sources:
+ * CRC Handbook densities at 20 C (from memory: 4 wt% 1.0398, 10 wt% 1.1029, 14 wt% 1.1463
+ * g/cm3), the water-only heat capacity rule 4.18 x (1 - w), water's boiling point, and the
+ * end of the tables at 14 wt% (solubility near 20 C about 17.7 wt%, from memory). */
+static void soda_ash_row(void)
+{
+    const struct liquor_info *l = liquor_get(LQ_SODA_ASH);
+    CU_ASSERT_PTR_NOT_NULL_FATAL(l);
+    CU_ASSERT_EQUAL(l->base, RG_NA2CO3);
+    CU_ASSERT_EQUAL(l->keys, LQ_KEYS_BASE);
+    static const struct { int v; double na2co3, water, co2; int s0; double n0; int s1; double n1; } want[] = {
+        {VS_HCL, 0.5, 0.5, 0.5, SALT_NACL, 1, -1, 0}, {VS_HBR, 0.5, 0.5, 0.5, SALT_NABR, 1, -1, 0},
+        {VS_CL2, 1, 0, 1, SALT_NACL, 1, SALT_NAOCL, 1}, {VS_BR2, 1, 0, 1, SALT_NABR, 1, SALT_NAOBR, 1},
+        {VS_SO2, 1, 0, 1, SALT_NA2SO3, 1, -1, 0}};
+    for (size_t i = 0; i < sizeof want / sizeof want[0]; i++) {
+        const struct liquor_gas *g = &l->gas[want[i].v];
+        CU_ASSERT_EQUAL(g->uptake, LQ_REACTS);
+        ASSERT_ABS(g->base_mol, want[i].na2co3, 0);
+        ASSERT_ABS(g->water_mol, want[i].water, 0);
+        ASSERT_ABS(g->co2_mol, want[i].co2, 0);
+        CU_ASSERT_EQUAL(g->salt[0], want[i].s0);
+        ASSERT_ABS(g->salt_mol[0], want[i].n0, 0);
+        CU_ASSERT_EQUAL(g->salt[1], want[i].s1);
+        if (want[i].s1 >= 0)
+            ASSERT_ABS(g->salt_mol[1], want[i].n1, 0);
+        CU_ASSERT_EQUAL(g->salt[2], -1);
+        CU_ASSERT(g->removal > 0.9 && g->removal < 1);
+    }
+    ASSERT_ABS(l->max_base_wt_pct, 14, 0);
+    static const double rho[][2] = {{0, 0.99820}, {4, 1.0398}, {10, 1.1029}, {14, 1.1463}};
+    for (size_t i = 0; i < sizeof rho / sizeof rho[0]; i++) {
+        struct liquor_comp c = {.base_wt_pct = rho[i][0]};
+        ASSERT_ABS(l->density_kg_m3(&c), 1000 * rho[i][1], 0.05);
+        ASSERT_ABS(l->cp_kj_kg_k(&c), 4.18 * (1 - rho[i][0] / 100), 1e-12);
+        ASSERT_ABS(l->boiling_point_c(&c), 100, 0);
+    }
+    struct liquor_comp c = {.base_wt_pct = 11}; /* between table rows: linear */
+    ASSERT_ABS(l->density_kg_m3(&c), 1000 * (1.1029 + (1.1244 - 1.1029) / 2), 0.05);
+    c.base_wt_pct = 30; /* clamped at the table end, as the other tables */
+    ASSERT_ABS(l->density_kg_m3(&c), 1146.3, 0.05);
+    ASSERT_ABS(l->cp_kj_kg_k(&c), 4.18 * 0.86, 1e-12);
+    c.base_wt_pct = 10; /* viscosity about 1.6 mPa s at 10 wt% (from memory), water 1.00 */
+    ASSERT_ABS(l->viscosity_mpa_s(&c), 1.6, 0.05);
+    /* the make-up row: Na2CO3 by the CIAAW 2021 weights 2 x 22.990 + 12.011 + 3 x 15.999 */
+    ASSERT_ABS(reagent_get(RG_NA2CO3)->molar_mass_g_mol, 105.988, 5e-4);
+    CU_ASSERT_EQUAL(reagent_get(RG_NA2CO3)->caution, CA_NA2CO3);
+    CU_ASSERT_STRING_EQUAL(caution_get(CA_NA2CO3)->cas, "497-19-8");
 }
 
 /* Every salt row: its name is its formula, and the molar mass is that formula's. */
@@ -372,7 +443,7 @@ int main(void)
         {"masses match formulas", masses_match_formulas},
         {"stoichiometry balances", stoichiometry_balances},
         {"unreacted and phase", unreacted_and_phase},
-        {"lookups", lookups}, {"salt rows", salt_rows}, {"liquor rows", liquor_rows},
+        {"lookups", lookups}, {"salt rows", salt_rows}, {"liquor rows", liquor_rows}, {"soda-ash row", soda_ash_row},
         {"cautions", cautions}, {"IDLH 2025 profiles", idlh_2025},
         {"deferral", deferral}};
     return CU_RUN_ALL("reagents", cases);
