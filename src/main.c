@@ -174,6 +174,20 @@ static void print_close(const struct ledger_month *m)
            k->naoh_plan_kg);
 }
 
+/* The bases a month's scrubbers consumed, as 100 %: "NaOH consumed K kg" for each base used
+ * (NaOH alone when none was: the month line always says what the liquors took). */
+static void base_text(const struct ledger_month *m, char *out, size_t n)
+{
+    size_t len = 0;
+    out[0] = '\0';
+    for (int r = RG_CHARGEABLE; r < RG_COUNT && len < n; r++)
+        if (reagent_get(r)->kind == RK_BASE && m->base_kg[r] > 0)
+            len += (size_t)snprintf(out + len, n - len, "%s%s consumed %.1f kg", len ? ", " : "",
+                                    reagent_get(r)->name, m->base_kg[r]);
+    if (len == 0)
+        snprintf(out, n, "%s consumed %.1f kg", reagent_get(RG_NAOH)->name, m->naoh_kg);
+}
+
 /* One route of a month (substrate, reagent, wanted product): its runs, wanted kg and yield. */
 static void print_route(const struct ledger_month_product *p)
 {
@@ -200,10 +214,12 @@ static void print_summary(const struct ledger *l)
         char routes[40] = "";
         if (m->nproducts > 1)
             snprintf(routes, sizeof routes, " (%d routes)", m->nproducts);
+        char bases[160];
+        base_text(m, bases, sizeof bases);
         printf("  %s  runs %d  wanted product%s %.1f kg%s  isomers %.1f kg  over-halogenated %.1f kg"
-               "  gas to scrubber %.1f kg  NaOH consumed %.1f kg  changeouts %d\n",
+               "  gas to scrubber %.1f kg  %s  changeouts %d\n",
                month, m->runs, m->nproducts > 1 ? "s" : "", m->product_kg, routes, m->isomer_kg,
-               m->overhal_kg, acid, m->naoh_kg, m->changeouts);
+               m->overhal_kg, acid, bases, m->changeouts);
         for (int k = 0; m->nproducts > 1 && k < m->nproducts; k++)
             print_route(&m->products[k]);
         for (int r = 0; r < RG_CHARGEABLE; r++)
@@ -230,10 +246,13 @@ static void print_summary(const struct ledger *l)
     for (int i = 0; i < l->nscrubbers; i++) {
         const struct ledger_scrubber *s = &l->scrubbers[i];
         isodate_format(s->out.peak_at_min, 0, when, sizeof when);
+        char used[80] = "water liquor, no base";
+        if (s->base >= 0)
+            snprintf(used, sizeof used, "%s consumed %.1f kg", reagent_get(s->base)->name, s->out.base_kg);
         printf("  scrubber %s: hourly peak %.3f kmol/h in the hour from %s (rated %.3f)%s, "
-               "%d changeouts, NaOH consumed %.1f kg\n",
+               "%d changeouts, %s\n",
                s->id, s->out.peak_acid_kmol_h, when, s->rated_acid_kmol_h,
-               s->out.overloaded ? " OVERLOADED" : "", s->out.changeouts, s->out.naoh_kg);
+               s->out.overloaded ? " OVERLOADED" : "", s->out.changeouts, used);
         if (s->out.npeak_heat_runs > 0) {
             isodate_format(s->out.peak_heat_at_min, 0, when, sizeof when);
             printf("    peak heat release %.1f kW from %s (run%s", s->out.peak_heat_kw, when,

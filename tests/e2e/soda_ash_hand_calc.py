@@ -13,7 +13,7 @@ the NBS 1982 formation enthalpies (Wagman et al., J. Phys. Chem. Ref. Data 11 Su
 minimum is 2 wt% (the schema default): a changeout before the third run; the fresh charge is
 300 kg of dry ash (makeup 100 wt%) and 2700 kg water.  Molar masses: CIAAW 2021 abridged.
 """
-import json
+import json, re
 import os
 import subprocess
 import sys
@@ -91,6 +91,15 @@ def main():
     T.check(len(ash) == 1 and ash[0]["containers"] == 1 and ash[0]["demand_kg"] == 300,
             "one bulk bag of soda ash ordered (got %r)" % ash)
     T.check(not any(o["reagent"] == "NaOH" for o in d["orders"]), "no caustic ordered")
+    # `check` names the base the liquor took, not NaOH: month and unit, 4 runs by hand
+    q = subprocess.run(WRAP + [BIN, "check", SRC], capture_output=True, text=True, timeout=120)
+    T.check(q.returncode == 0, "check exits 0 (got %d: %s)" % (q.returncode, q.stderr))
+    used = "Na2CO3 consumed %.1f kg" % (4 * na2co3)
+    T.check(re.search(r"^  2027-03  runs 4 .*  %s  changeouts 1$" % used, q.stdout, re.M) is not None,
+            "check month line says %r: %r" % (used, q.stdout[:400]))
+    T.check(re.search(r"^  scrubber SA-1: .*, 1 changeouts, %s$" % used, q.stdout, re.M) is not None,
+            "check scrubber line says %r" % used)
+    T.check("NaOH consumed" not in q.stdout, "check says no NaOH consumed on a soda-ash unit")
     return finish()
 
 
