@@ -1697,7 +1697,89 @@ static void collect_cautions(struct ledger *l)
                                                               : CA_NAOH);
 }
 
-static enum hl_status collect_assumptions(struct ledger *l, struct hl_err *e)
+/* "2 " for a coefficient of 2, "" for 1: a reaction written as chemists write it. */
+static void coef_text(double k, char *out, size_t n)
+{
+    if (k == 1)
+        out[0] = '\0';
+    else
+        snprintf(out, n, "%g ", k);
+}
+
+/* The reaction of vent gas v in liquor q, written from its row ("HCl + 0.5 Na2CO3 -> NaCl +
+ * 0.5 H2O + 0.5 CO2"): the Assumptions rows of a liquor quote what its row says. */
+static void reaction_text(const struct liquor_info *q, int v, char *out, size_t n)
+{
+    const struct liquor_gas *g = &q->gas[v];
+    char k[32];
+    size_t len = 0;
+    coef_text(g->base_mol, k, sizeof k);
+    len += (size_t)snprintf(out + len, n - len, "%s + %s%s", vent_name(v), k, reagent_get(q->base)->name);
+    if (g->water_mol < 0) { /* the reaction takes water up */
+        coef_text(-g->water_mol, k, sizeof k);
+        len += (size_t)snprintf(out + len, n - len, " + %sH2O", k);
+    }
+    const char *sep = " -> ";
+    for (int i = 0; i < LQ_MAX_SALTS && len < n; i++)
+        if (g->salt[i] >= 0) {
+            coef_text(g->salt_mol[i], k, sizeof k);
+            len += (size_t)snprintf(out + len, n - len, "%s%s%s", sep, k, liquor_salt_get(g->salt[i])->name);
+            sep = " + ";
+        }
+    if (g->water_mol > 0 && len < n) {
+        coef_text(g->water_mol, k, sizeof k);
+        len += (size_t)snprintf(out + len, n - len, "%s%sH2O", sep, k);
+    }
+    if (g->co2_mol > 0 && len < n) {
+        coef_text(g->co2_mol, k, sizeof k);
+        snprintf(out + len, n - len, " + %sCO2 (given off)", k);
+    }
+}
+
+/* Assumption rows of a liquor with a base other than caustic (whose rows are written as
+ * before): per gas it neutralises, the base used, the CO2 given off and the heat. */
+static enum hl_status assume_liquor(struct ledger *l, struct hl_err *e, int liquor)
+{
+    const struct liquor_info *q = liquor_get(liquor);
+    const char *base = reagent_get(q->base)->name;
+    char what[160], origin[240], eq[160];
+    enum hl_status st = HL_OK;
+    for (int v = 0; v < VS_COUNT && !st; v++) {
+        const struct liquor_gas *g = &q->gas[v];
+        if (g->uptake != LQ_REACTS)
+            continue;
+        reaction_text(q, v, eq, sizeof eq);
+        snprintf(origin, sizeof origin, "liquor reaction (%s liquor): %s", q->name, eq);
+        snprintf(what, sizeof what, "%s consumed per mol of %s", base, vent_name(v));
+        st = assume(l, e, what, 1, g->base_mol, "mol/mol", origin);
+        if (!st && g->co2_mol > 0) {
+            snprintf(what, sizeof what, "CO2 given off per mol of %s (%s liquor)", vent_name(v), q->name);
+            st = assume(l, e, what, 1, g->co2_mol, "mol/mol", origin);
+        }
+        if (!st) {
+            snprintf(what, sizeof what, "Heat of absorption of %s in %s liquor", vent_name(v), q->name);
+            st = assume(l, e, what, 1, scrub_heat_kj_per_mol(v, liquor), "kJ/mol released",
+                        "standard enthalpies of formation: NBS tables (Wagman et al. 1982), CODATA Key Values (Cox, Wagman & Medvedev 1989)");
+        }
+    }
+    return st;
+}
+
+/* The caustic rows stand unless the campaign's units all hold a liquor with another base
+ * (a water-only campaign keeps them: caustic is the liquor a unit gets by default). */
+static int caustic_rows_apply(const struct campaign *c)
+{
+    int other = 0;
+    for (int u = 0; u < c->nscrubbers; u++) {
+        int b = liquor_get(c->scrubbers[u].liquor)->base;
+        if (b == RG_NAOH)
+            return 1;
+        other += b >= 0;
+    }
+    return other == 0;
+}
+
+static enum hl_status collect_assumptions(const struct campaign *c, struct ledger *l, struct hl_err *e)
 {
     enum hl_status st;
     if ((st = assume(l, e, "Standard atomic weights", 0, 0, NULL,
@@ -1711,8 +1793,17 @@ static enum hl_status collect_assumptions(struct ledger *l, struct hl_err *e)
                      "first-step isomer shares are (expected-value depletion; with all H alike "
                      "this is the plain H-count rule). Replaced by rate_ratios where given")))
         return st;
+    for (int q = 0; q < LQ_COUNT; q++) { /* each other liquor with a base that a unit holds */
+        int used = 0;
+        for (int u = 0; u < c->nscrubbers; u++)
+            used |= c->scrubbers[u].liquor == q;
+        int b = liquor_get(q)->base;
+        if (used && b >= 0 && b != RG_NAOH && (st = assume_liquor(l, e, q)))
+            return st;
+    }
+    int caustic = caustic_rows_apply(c);
     char what[160];
-    for (int v = 0; v < VS_COUNT; v++) {
+    for (int v = 0; v < VS_COUNT && caustic; v++) {
         snprintf(what, sizeof what, "Heat of absorption of %s in caustic liquor", vent_name(v));
         if ((st = assume(l, e, what, 1, scrub_heat_kj_per_mol(v, 0), "kJ/mol released",
                          "standard enthalpies of formation: NBS tables (Wagman et al. 1982), CODATA Key Values (Cox, Wagman & Medvedev 1989)")))
@@ -1732,7 +1823,7 @@ static enum hl_status collect_assumptions(struct ledger *l, struct hl_err *e)
                      "default of max_liquor_temp_c: hypochlorite liquor turns to chlorate faster "
                      "and absorbs chlorine worse when hot (common practice)")))
         return st;
-    for (int v = 0; v < VS_COUNT; v++) {
+    for (int v = 0; v < VS_COUNT && caustic; v++) {
         snprintf(what, sizeof what, "NaOH consumed per mol of %s", vent_name(v));
         if ((st = assume(l, e, what, 1, scrub_naoh_per_mol(v), "mol/mol",
                          "liquor reactions: HX + NaOH -> NaX + H2O; X2 + 2 NaOH -> NaX + NaOX + H2O; SO2 + 2 NaOH -> Na2SO3 + H2O")))
@@ -1789,7 +1880,7 @@ static enum hl_status build(const struct campaign *c, struct campaign *consume,
     if (!l)
         return nomem(e);
     enum hl_status st;
-    if ((st = copy_identity(c, o, l, e)) || (st = collect_assumptions(l, e)) ||
+    if ((st = copy_identity(c, o, l, e)) || (st = collect_assumptions(c, l, e)) ||
         (st = report_threshold(c, o, l, e)) || (st = balance_runs(c, o, l, l->report_min_mol_fraction, e)))
         goto fail;
     camp_free_runs(consume); /* nothing below reads c->runs */

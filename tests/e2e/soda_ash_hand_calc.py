@@ -91,6 +91,23 @@ def main():
     T.check(len(ash) == 1 and ash[0]["containers"] == 1 and ash[0]["demand_kg"] == 300,
             "one bulk bag of soda ash ordered (got %r)" % ash)
     T.check(not any(o["reagent"] == "NaOH" for o in d["orders"]), "no caustic ordered")
+    # the Assumptions quote the soda-ash reactions (stoichiometry written out), not caustic's
+    A = {a["what"]: a for a in d["assumptions"]}
+    for gas, base, co2 in (("HCl", 0.5, 0.5), ("HBr", 0.5, 0.5), ("Cl2", 1, 1), ("Br2", 1, 1), ("SO2", 1, 1)):
+        a = A.get("Na2CO3 consumed per mol of " + gas)
+        if T.check(a is not None, "assumption Na2CO3 per mol of " + gas):
+            T.check(a["value"] == base, "Na2CO3 per mol of %s: %r (want %r)" % (gas, a["value"], base))
+        a = A.get("CO2 given off per mol of %s (soda_ash liquor)" % gas)
+        if T.check(a is not None, "assumption CO2 per mol of " + gas):
+            T.check(a["value"] == co2, "CO2 per mol of %s: %r (want %r)" % (gas, a["value"], co2))
+    a = A.get("Na2CO3 consumed per mol of HCl", {})
+    T.check(a.get("origin", "").endswith("HCl + 0.5 Na2CO3 -> NaCl + 0.5 H2O + 0.5 CO2 (given off)"),
+            "HCl reaction written out: %r" % a.get("origin"))
+    a = A.get("Heat of absorption of HCl in soda_ash liquor")
+    if T.check(a is not None, "assumption: heat of HCl in soda ash"):
+        near(a["value"], heat / hcl_mol, "heat of HCl in soda ash per mol, NBS 1982 by hand", 1e-9)
+    T.check(not any(w.startswith("NaOH consumed per mol") or w.endswith("in caustic liquor") for w in A),
+            "no caustic reaction rows on a soda-ash-only campaign")
     # `check` names the base the liquor took, not NaOH: month and unit, 4 runs by hand
     q = subprocess.run(WRAP + [BIN, "check", SRC], capture_output=True, text=True, timeout=120)
     T.check(q.returncode == 0, "check exits 0 (got %d: %s)" % (q.returncode, q.stderr))
