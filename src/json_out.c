@@ -23,6 +23,7 @@
 #include "afile.h"
 #include "hlmem.h"
 #include "isodate.h"
+#include "ltable.h"
 
 #include <errno.h>
 #include <float.h>
@@ -538,16 +539,50 @@ static void jo_date(struct jo *w, const char *key, int64_t min, int date_only)
     jo_str(w, key, buf);
 }
 
-static const char *jo_item_name(int item)
+/* An array key of the ids of runs (indices into l->runs). */
+static void jo_run_ids(struct jo *w, const struct ledger *l, const char *key, const int *runs, int n)
 {
-    const struct reagent_info *ri = reagent_get(item);
-    return ri ? ri->name : "unknown";
+    jo_open(w, key, '[');
+    for (int k = 0; k < n && w->st == HL_OK; k++) {
+        int ri = runs[k];
+        if (ri < 0 || ri >= l->nruns) {
+            jo_close(w, ']');
+            jo_bad(w, key, "run index out of range");
+            return;
+        }
+        jo_str(w, NULL, l->runs[ri].id);
+    }
+    jo_close(w, ']');
 }
 
-static void jo_month_text(int month_index, char *buf, size_t n)
+/* The keyed columns of table t (ltable.h) for record i, row j, as members of the open
+ * object, in the list's order (the JSON key order). */
+static void jo_cols(struct jo *w, const struct lt_table *t, const struct ledger *l, int i, int j)
 {
-    int y = month_index >= 0 ? month_index / 12 : -((-month_index + 11) / 12);
-    snprintf(buf, n, "%04d-%02d", y, month_index - y * 12 + 1);
+    struct lt_val v;
+    for (int c = 0; c < t->ncols && w->st == HL_OK; c++) {
+        const char *key = t->cols[c].key;
+        if (!key)
+            continue;
+        lt_get(t, c, l, i, j, &v);
+        switch (v.t) {
+        case LT_V_ABSENT: break;
+        case LT_V_NULL: jo_null(w, key); break;
+        case LT_V_NUM: jo_num(w, key, v.num); break;
+        case LT_V_TEXT: jo_str(w, key, v.text); break;
+        case LT_V_DATE: jo_date(w, key, v.min, t->cols[c].kind == LT_DAY); break;
+        case LT_V_BOOL: jo_bool(w, key, v.on); break;
+        case LT_V_RUNS: jo_run_ids(w, l, key, v.runs, v.nruns); break;
+        }
+    }
+}
+
+/* A top-level record of table t: {columns}. */
+static void jo_record(struct jo *w, const struct lt_table *t, const struct ledger *l, int i)
+{
+    jo_begin(w, t->key, i);
+    jo_cols(w, t, l, i, 0);
+    jo_end(w);
 }
 
 /* --- records ------------------------------------------------------------- */
@@ -669,28 +704,12 @@ static void jo_reaction(struct jo *w, const struct ledger_run *r)
 }
 
 /* A run's products[] (the rows listed, the lumped "other" row with its label). */
-static void jo_run_products(struct jo *w, const struct ledger_run *r)
+static void jo_run_products(struct jo *w, const struct ledger *l, int i)
 {
-    const struct ledger_bal *b = &r->bal;
     jo_open(w, "products", '[');
-    for (int p = 0; p < b->nproducts && w->st == HL_OK; p++) {
-        const struct ledger_product *bp = &b->products[p];
+    for (int p = 0; p < l->runs[i].bal.nproducts && w->st == HL_OK; p++) {
         jo_open(w, NULL, '{');
-        jo_str(w, "smiles", bp->smiles);
-        jo_str(w, "formula", bp->role == ROLE_OTHER ? NULL : bp->formula); /* a mixture */
-        jo_num(w, "degree", bp->degree);
-        jo_num(w, "molar_mass_g_mol", bp->molar_mass_g_mol);
-        jo_num(w, "mol", bp->mol);
-        jo_num(w, "kg", bp->kg);
-        jo_num(w, "mol_fraction", bp->mol_fraction);
-        jo_str(w, "role", ledger_role_name(bp->role));
-        if (bp->role == ROLE_OTHER) { /* the sum of the rows below the reporting threshold */
-            jo_num(w, "mean_degree", r->other_mean_degree);
-            jo_num(w, "rows_summed", r->other_rows);
-            char label[64];
-            ledger_other_label(bp, label, sizeof label);
-            jo_str(w, "label", label);
-        }
+        jo_cols(w, &lt_run_products, l, i, p);
         jo_close(w, '}');
     }
     jo_close(w, ']');
@@ -771,7 +790,7 @@ static void jo_run(struct jo *w, const struct ledger *l, int i)
         jo_date(w, "end", r->start_min + (int64_t)llround(r->feed_h * 60.0), 0);
     jo_str(w, "reactor", r->reactor);
     jo_str(w, "scrubber_id", r->scrubber);
-    jo_str(w, "reagent", jo_item_name(r->reagent));
+    jo_str(w, "reagent", lt_item_name(r->reagent));
     jo_num(w, "temp_c", r->temp_c);
     jo_str(w, "reactor_mode", r->mode == KIN_CSTR ? "cstr" : "batch");
     jo_num(w, "feed_h", r->feed_h);
@@ -795,7 +814,7 @@ static void jo_run(struct jo *w, const struct ledger *l, int i)
     jo_bool(w, "capped", b->capped);
     jo_num(w, "mean_degree", b->mean_degree);
 
-    jo_run_products(w, r);
+    jo_run_products(w, l, i);
 
     jo_open(w, "byproducts", '{');
     jo_num(w, "HCl_kg", b->hx_kg[0]);
@@ -855,7 +874,7 @@ static void jo_month_products(struct jo *w, const struct ledger_month *m)
         jo_open(w, NULL, '{');
         jo_str(w, "substrate_name", p->substrate_name);
         jo_str(w, "substrate", p->substrate);
-        jo_str(w, "reagent", jo_item_name(p->reagent));
+        jo_str(w, "reagent", lt_item_name(p->reagent));
         jo_str(w, "wanted", p->wanted);
         jo_str(w, "wanted_formula", p->wanted_formula);
         jo_num(w, "runs", p->runs);
@@ -883,7 +902,7 @@ static void jo_month(struct jo *w, const struct ledger *l, int i)
     const struct ledger_month *m = &l->months[i];
     jo_begin(w, "months", i);
     char mt[32];
-    jo_month_text(m->month_index, mt, sizeof mt);
+    isodate_month_text(m->month_index, mt, sizeof mt);
     jo_str(w, "month", mt);
     jo_num(w, "runs", m->runs);
     jo_num(w, "product_kg", m->product_kg);
@@ -892,7 +911,7 @@ static void jo_month(struct jo *w, const struct ledger *l, int i)
     jo_num(w, "unreacted_substrate_kg", m->unreacted_substrate_kg);
     jo_open(w, "reagents_kg", '{');
     for (int k = 0; k < RG_COUNT; k++)
-        jo_num(w, jo_item_name(k), m->reagents_kg[k]);
+        jo_num(w, lt_item_name(k), m->reagents_kg[k]);
     jo_close(w, '}');
     jo_open(w, "vent_kg", '{');
     for (int k = 0; k < VS_COUNT; k++)
@@ -911,7 +930,7 @@ static void jo_month(struct jo *w, const struct ledger *l, int i)
     jo_num(w, "dilution_water_kg", m->dilution_water_kg);
     jo_open(w, "base_kg", '{'); /* each scrubber base consumed, as 100 % */
     for (int k = RG_CHARGEABLE; k < RG_COUNT; k++)
-        jo_num(w, jo_item_name(k), m->base_kg[k]);
+        jo_num(w, lt_item_name(k), m->base_kg[k]);
     jo_close(w, '}');
     jo_num(w, "co2_kg", m->co2_kg);
     jo_month_products(w, m);
@@ -923,11 +942,11 @@ static void jo_month(struct jo *w, const struct ledger *l, int i)
     jo_bool(w, "closed", k->closed);
     jo_open(w, "reagent_plan_kg", '{');
     for (int r = 0; r < RG_CHARGEABLE; r++)
-        jo_num(w, jo_item_name(r), k->reagent_plan_kg[r]);
+        jo_num(w, lt_item_name(r), k->reagent_plan_kg[r]);
     jo_close(w, '}');
     jo_open(w, "reagent_actual_kg", '{');
     for (int r = 0; r < RG_CHARGEABLE; r++)
-        jo_num(w, jo_item_name(r), k->reagent_actual_kg[r]);
+        jo_num(w, lt_item_name(r), k->reagent_actual_kg[r]);
     jo_close(w, '}');
     jo_num(w, "product_plan_kg", k->product_plan_kg);
     jo_num(w, "product_actual_kg", k->product_actual_kg);
@@ -935,66 +954,13 @@ static void jo_month(struct jo *w, const struct ledger *l, int i)
     jo_num(w, "naoh_actual_kg", k->naoh_actual_kg);
     jo_open(w, "unexplained_kg", '{');
     for (int r = 0; r < RG_CHARGEABLE; r++)
-        jo_num(w, jo_item_name(r), k->unexplained_kg[r]);
+        jo_num(w, lt_item_name(r), k->unexplained_kg[r]);
     jo_close(w, '}');
     jo_close(w, '}');
     jo_end(w);
 }
 
-static void jo_order(struct jo *w, const struct ledger *l, int i)
-{
-    const struct ord_line *d = &l->orders[i];
-    jo_begin(w, "orders", i);
-    char mt[32];
-    jo_month_text(d->month_index, mt, sizeof mt);
-    jo_str(w, "month", mt);
-    jo_str(w, "reagent", jo_item_name(d->item));
-    jo_num(w, "demand_kg", d->demand_kg);
-    jo_num(w, "stock_start_kg", d->stock_start_kg);
-    jo_num(w, "safety_kg", d->safety_kg);
-    jo_num(w, "to_order_kg", d->to_order_kg);
-    jo_str(w, "container", d->container);
-    jo_num(w, "net_kg", d->net_kg);
-    jo_num(w, "heel_kg", d->heel_kg);
-    jo_num(w, "containers", d->containers);
-    jo_num(w, "ordered_usable_kg", d->ordered_usable_kg);
-    jo_num(w, "stock_end_kg", d->stock_end_kg);
-    jo_date(w, "first_use", d->first_use_min, 0);
-    /* Date only, truncated: ordering on that day is never later than required. */
-    jo_date(w, "order_by", d->order_by_min, 1);
-    jo_bool(w, "late", d->late);
-    jo_bool(w, "no_container", d->no_container);
-    jo_num(w, "on_order_kg", d->on_order_kg);
-    jo_num(w, "received_kg", d->received_kg);
-    /* gas fed from containers: the most on line at once, which can exceed those consumed */
-    if (d->peak_on_line > 0) {
-        jo_num(w, "containers_on_line_peak", d->peak_on_line);
-        jo_date(w, "containers_on_line_peak_at", d->peak_on_line_min, 0);
-    }
-    if (d->item == RG_NAOH) { /* caustic is bought as solution: say its strength */
-        if (l->caustic_order_wt_pct > 0)
-            jo_num(w, "naoh_wt_pct", l->caustic_order_wt_pct);
-        else
-            jo_null(w, "naoh_wt_pct"); /* units buy unlike strengths (warned) */
-    }
-    jo_end(w);
-}
-
-/* An array key of the ids of runs (indices into l->runs). */
-static void jo_run_ids(struct jo *w, const struct ledger *l, const char *key, const int *runs, int n)
-{
-    jo_open(w, key, '[');
-    for (int k = 0; k < n && w->st == HL_OK; k++) {
-        int ri = runs[k];
-        if (ri < 0 || ri >= l->nruns) {
-            jo_close(w, ']');
-            jo_bad(w, key, "run index out of range");
-            return;
-        }
-        jo_str(w, NULL, l->runs[ri].id);
-    }
-    jo_close(w, ']');
-}
+static void jo_order(struct jo *w, const struct ledger *l, int i) { jo_record(w, &lt_orders, l, i); }
 
 /* A scrubber's stack: flow, removal in force, and per species what leaves it. */
 static void jo_emissions(struct jo *w, const struct ledger *l, int i)
@@ -1042,47 +1008,7 @@ static void jo_scrubber(struct jo *w, const struct ledger *l, int i)
     const struct ledger_scrubber *u = &l->scrubbers[i];
     const struct scrub_unit_out *s = &u->out;
     jo_begin(w, "scrubbers", i);
-    jo_str(w, "id", u->id);
-    jo_num(w, "peak_acid_kmol_h", s->peak_acid_kmol_h);
-    if (s->nhours > 0)
-        jo_date(w, "peak_at", s->peak_at_min, 0);
-    else
-        jo_null(w, "peak_at");
-    jo_num(w, "rated_acid_kmol_h", u->rated_acid_kmol_h);
-    jo_bool(w, "overloaded", s->overloaded);
-    jo_num(w, "changeouts", s->changeouts);
-    jo_num(w, "naoh_kg", s->naoh_kg);
-    jo_num(w, "makeup_kg", s->makeup_kg);
-    jo_num(w, "makeup_naoh_wt_pct", u->makeup_naoh_wt_pct);
-    jo_num(w, "caustic_solution_kg", u->caustic_solution_kg);
-    jo_num(w, "changeout_caustic_solution_kg", u->changeout_caustic_solution_kg);
-    jo_num(w, "changeout_water_kg", u->changeout_water_kg);
-    jo_num(w, "dilution_water_kg", u->dilution_water_kg);
-    jo_num(w, "heat_kj", s->heat_kj);
-    jo_run_ids(w, l, "peak_runs", s->peak_runs, s->npeak_runs);
-    jo_num(w, "peak_instant_kmol_h", s->peak_instant_kmol_h);
-    if (s->npeak_instant_runs > 0)
-        jo_date(w, "peak_instant_at", s->peak_instant_at_min, 0);
-    else
-        jo_null(w, "peak_instant_at");
-    jo_run_ids(w, l, "peak_instant_runs", s->peak_instant_runs, s->npeak_instant_runs);
-    jo_num(w, "peak_heat_kw", s->peak_heat_kw);
-    if (s->npeak_heat_runs > 0)
-        jo_date(w, "peak_heat_at", s->peak_heat_at_min, 0);
-    else
-        jo_null(w, "peak_heat_at");
-    jo_run_ids(w, l, "peak_heat_runs", s->peak_heat_runs, s->npeak_heat_runs);
-    jo_num(w, "max_liquor_temp_c", s->max_liquor_temp_c);
-    jo_num(w, "too_hot_runs", s->too_hot_runs);
-    jo_num(w, "boiling_runs", s->boiling_runs);
-    if (u->base >= 0)
-        jo_str(w, "base", reagent_get(u->base)->name);
-    else
-        jo_null(w, "base");
-    jo_num(w, "base_kg", s->base_kg);
-    jo_num(w, "co2_kg", s->co2_kg);
-    jo_num(w, "makeup_base_wt_pct", u->makeup_base_wt_pct);
-    jo_num(w, "changeout_makeup_kg", u->changeout_makeup_kg);
+    jo_cols(w, &lt_scrubbers, l, i, 0);
     jo_open(w, "hourly", '{');
     if (s->nhours > 0)
         jo_date(w, "start", s->hour0_min, 0);
@@ -1135,32 +1061,7 @@ static void jo_scrubber(struct jo *w, const struct ledger *l, int i)
 /* One limit of one permit against the worst hour, day mean or calendar year. */
 static void jo_permit_check(struct jo *w, const struct ledger *l, int i)
 {
-    const struct emis_check *x = &l->permit_checks[i];
-    jo_begin(w, "permit_checks", i);
-    jo_str(w, "scrubber", l->scrubbers[x->unit].id);
-    jo_str(w, "species", jo_vent_key(x->species));
-    jo_num(w, "limit", x->limit);
-    jo_str(w, "unit", emis_limit_unit(x->kind));
-    jo_str(w, "averaging", x->kind == EMIS_T_YR ? "year" : x->averaging_day ? "day" : "hour");
-    if (x->has_value)
-        jo_num(w, "value", x->value);
-    else
-        jo_null(w, "value"); /* mg/Nm3 without a stack flow */
-    if (!x->has_at) {
-        jo_null(w, "at");
-    } else if (x->kind == EMIS_T_YR) {
-        char y[16];
-        snprintf(y, sizeof y, "%04d", x->at_year);
-        jo_str(w, "at", y);
-    } else {
-        jo_date(w, "at", x->at_min, x->averaging_day);
-    }
-    if (x->has_value)
-        jo_bool(w, "exceeded", x->exceeded);
-    else
-        jo_null(w, "exceeded");
-    jo_run_ids(w, l, "runs", x->runs, x->nruns);
-    jo_end(w);
+    jo_record(w, &lt_permit_checks, l, i);
 }
 
 /* A caution on the ledger's own estimates (stack emissions, reaction heat). */
@@ -1197,32 +1098,10 @@ static void jo_caution(struct jo *w, const struct ledger *l, int ca)
 
 static void jo_stock_check(struct jo *w, const struct ledger *l, int i)
 {
-    const struct ledger_stock_check *k = &l->stock_checks[i];
-    jo_begin(w, "stock_checks", i);
-    jo_str(w, "reagent", jo_item_name(k->reagent));
-    jo_date(w, "date", k->date_min, 0);
-    if (k->has_since)
-        jo_date(w, "since", k->since_min, 0);
-    else
-        jo_null(w, "since"); /* the book starts at the start of the campaign */
-    jo_num(w, "start_kg", k->start_kg);
-    jo_num(w, "received_kg", k->received_kg);
-    jo_num(w, "drawn_kg", k->drawn_kg);
-    jo_num(w, "book_kg", k->book_kg);
-    jo_num(w, "counted_kg", k->counted_kg);
-    jo_num(w, "unexplained_kg", k->unexplained_kg);
-    jo_num_or_null(w, "unexplained_pct", k->pct_defined, k->unexplained_pct);
-    jo_bool(w, "flagged", k->flagged);
-    jo_end(w);
+    jo_record(w, &lt_stock_checks, l, i);
 }
 
-static void jo_warning(struct jo *w, const struct ledger *l, int i)
-{
-    jo_begin(w, "warnings", i);
-    jo_str(w, "run", l->warnings[i].run);
-    jo_str(w, "message", l->warnings[i].message);
-    jo_end(w);
-}
+static void jo_warning(struct jo *w, const struct ledger *l, int i) { jo_record(w, &lt_warnings, l, i); }
 
 static void jo_assumption(struct jo *w, const struct ledger *l, int i)
 {

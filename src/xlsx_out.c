@@ -33,6 +33,7 @@
 #include "afile.h"
 #include "hlmem.h"
 #include "isodate.h"
+#include "ltable.h"
 
 #include <errno.h>
 #include <fcntl.h>
@@ -60,19 +61,15 @@
 /* Height of one line of the default 11 pt font, in points (common practice: Excel's 15). */
 #define XO_LINE_PT 15.0
 
-enum xk {
-    XK_TEXT, XK_DATE, XK_DAY, XK_INT, XK_KG, XK_MOL, XK_FRAC, XK_MOLFRAC, XK_PCT, XK_RATE,
-    XK_TEMP, XK_HEAT, XK_SCI, XK_GMOL, XK_LEN, XK_GEN, XK_PCT1, XK_KW, XK_COUNT
-};
-/* Digits shown follow what a value means: kg to 0.1 kg, mol to 0.01 mol, rates to
- * 0.001 kmol/h, temperatures to 0.1 K, heat to 1 kJ, heat rates to 0.1 kW, yields and
- * other mole percentages to 0.1 % (XK_PCT1: the value is the percentage itself, so the
- * cell reads as the JSON ledger's *_pct); XK_GEN (the Assumptions values) shows four
- * significant figures, picked per value from xo_sigfmt. */
-static const char *const xo_numfmt[XK_COUNT] = {
+/* Formats of the number kinds (enum lt_kind, ltable.h).  Digits shown follow what a value
+ * means: kg to 0.1 kg, mol to 0.01 mol, rates to 0.001 kmol/h, temperatures to 0.1 K, heat
+ * to 1 kJ, heat rates to 0.1 kW, yields and other mole percentages to 0.1 % (LT_PCT1: the
+ * value is the percentage itself, so the cell reads as the JSON ledger's *_pct); LT_GEN (the
+ * Assumptions values) shows four significant figures, picked per value from xo_sigfmt. */
+static const char *const xo_numfmt[LT_NKIND] = {
     NULL, "yyyy-mm-dd hh:mm", "yyyy-mm-dd", "#,##0", "#,##0.0", "#,##0.00", "0.0%", "0.00%",
     "0.00", "0.000", "0.0", "#,##0", "0.0E+00", "0.00", "0.00", NULL, "0.0", "#,##0.0"};
-static const int xo_decimals[XK_COUNT] = {0, 0, 0, 0, 1, 2, 1, 2, 2, 3, 1, 0, 0, 2, 2, 4, 1, 1};
+static const int xo_decimals[LT_NKIND] = {0, 0, 0, 0, 1, 2, 1, 2, 2, 3, 1, 0, 0, 2, 2, 4, 1, 1};
 #define XO_NSIG 8 /* 0..6 decimals, then scientific */
 static const char *const xo_sigfmt[XO_NSIG] = {"#,##0", "0.0", "0.00", "0.000", "0.0000",
                                                "0.00000", "0.000000", "0.000E+00"};
@@ -83,7 +80,7 @@ static const char *const xo_sigfmt[XO_NSIG] = {"#,##0", "0.0", "0.00", "0.000", 
 enum xa { XA_NONE, XA_ALARM, XA_NOTICE };
 static const char *const xo_marker[3] = {"", "!!", "!"};
 
-struct xcol { char head[96]; enum xk kind; int total; enum xa alarm; };
+struct xcol { char head[96]; enum lt_kind kind; int total; enum xa alarm; };
 
 struct xw;
 struct xtable;
@@ -99,9 +96,11 @@ struct xtable {
     const char *notes[3]; int nnotes;
     double sum[48];
     double fixw[48];           /* fixed column widths (0 = from content), for wrapped text */
+    const struct lt_table *lt; /* the column list the sheet shows (xo_lt_table), or NULL */
+    int at[48];                /* its entry of each column */
 };
 
-#define XO_NSAME (2 * XK_COUNT + XO_NSIG + 1)
+#define XO_NSAME (2 * LT_NKIND + XO_NSIG + 1)
 #define XO_NCANON 256                  /* power of two, above every format made */
 struct xw {
     const struct ledger *l;
@@ -110,7 +109,7 @@ struct xw {
     const char *sheet;
     enum hl_status st;
     struct hl_err *e;
-    lxw_format *fmt[XK_COUNT][2], *sig[XO_NSIG], *head, *title, *wrap, *bold, *note, *top,
+    lxw_format *fmt[LT_NKIND][2], *sig[XO_NSIG], *head, *title, *wrap, *bold, *note, *top,
         *bold_top, *section, *sign, *dxf[3], *noted;
     double width[XO_MAXCOL];
     double fixw[XO_MAXCOL];    /* fixed widths of this sheet (0 = from content) */
@@ -332,26 +331,26 @@ static void xo_end_row(struct xw *w, lxw_row_t row)
     w->row_lines = 0;
 }
 
-static double xo_num_chars(enum xk k, double v)
+static double xo_num_chars(enum lt_kind k, double v)
 {
     switch (k) {
-    case XK_DATE: return 16;
-    case XK_DAY: return 10;
-    case XK_SCI: return 8;
-    case XK_FRAC: case XK_MOLFRAC: return 8;
+    case LT_DATE: return 16;
+    case LT_DAY: return 10;
+    case LT_SCI: return 8;
+    case LT_FRAC: case LT_MOLFRAC: return 8;
     default: break;
     }
     double a = fabs(v);
     int digits = a < 1 ? 1 : (int)floor(log10(a)) + 1;
-    int commas = (k == XK_INT || k == XK_KG || k == XK_MOL || k == XK_HEAT || k == XK_KW)
+    int commas = (k == LT_INT || k == LT_KG || k == LT_MOL || k == LT_HEAT || k == LT_KW)
                      ? (digits - 1) / 3 : 0;
     int dec = xo_decimals[k];
-    if (k == XK_GEN && (a >= 1e10 || (a > 0 && a < 1e-4)))
+    if (k == LT_GEN && (a >= 1e10 || (a > 0 && a < 1e-4)))
         return 10;
     return digits + commas + dec + (dec ? 1 : 0) + (v < 0);
 }
 
-static void xo_num(struct xw *w, lxw_row_t row, lxw_col_t col, enum xk k, double v, int bold,
+static void xo_num(struct xw *w, lxw_row_t row, lxw_col_t col, enum lt_kind k, double v, int bold,
                    const char *what)
 {
     if (w->st != HL_OK)
@@ -364,7 +363,7 @@ static void xo_num(struct xw *w, lxw_row_t row, lxw_col_t col, enum xk k, double
         return;
     }
     lxw_format *f = w->fmt[k][bold];
-    if (k == XK_GEN) { /* four significant figures: decimals from the magnitude */
+    if (k == LT_GEN) { /* four significant figures: decimals from the magnitude */
         double a = fabs(v);
         int d = a == 0 ? 0 : 3 - (int)floor(log10(a));
         f = (a != 0 && (a < 1e-4 || a >= 1e9)) ? w->sig[XO_NSIG - 1]
@@ -389,11 +388,11 @@ static void xo_date(struct xw *w, lxw_row_t row, lxw_col_t col, int64_t min, int
     int64_t days = min >= 0 ? min / 1440 : -((-min + 1439) / 1440);
     /* date only: the day itself (truncated, as in the JSON ledger) */
     double serial = (double)(days + 25569) + (date_only ? 0.0 : (double)(min - days * 1440) / 1440.0);
-    xo_num(w, row, col, date_only ? XK_DAY : XK_DATE, serial, 0, "date");
+    xo_num(w, row, col, date_only ? LT_DAY : LT_DATE, serial, 0, "date");
 }
 
 static void xo_sum(struct xw *w, lxw_row_t row, lxw_col_t col, lxw_row_t r0, lxw_row_t r1,
-                   enum xk k, double cached)
+                   enum lt_kind k, double cached)
 {
     if (w->st != HL_OK)
         return;
@@ -412,9 +411,9 @@ static void xo_sum(struct xw *w, lxw_row_t row, lxw_col_t col, lxw_row_t r0, lxw
 
 /* --- tables ---------------------------------------------------------------- */
 
-static void xt_col(struct xtable *b, enum xk kind, int total, const char *fmt, ...)
+static void xt_col(struct xtable *b, enum lt_kind kind, int total, const char *fmt, ...)
     __attribute__((format(printf, 4, 5)));
-static void xt_col(struct xtable *b, enum xk kind, int total, const char *fmt, ...)
+static void xt_col(struct xtable *b, enum lt_kind kind, int total, const char *fmt, ...)
 {
     if (b->ncols >= (int)(sizeof b->cols / sizeof b->cols[0]))
         return;
@@ -431,7 +430,7 @@ static void xt_col(struct xtable *b, enum xk kind, int total, const char *fmt, .
 /* A yes/no column that is an alarm (level a) when raised. */
 static void xt_alarm(struct xtable *b, enum xa a, const char *head)
 {
-    xt_col(b, XK_TEXT, 0, "%s", head);
+    xt_col(b, LT_TEXT, 0, "%s", head);
     b->cols[b->ncols - 1].alarm = a;
 }
 
@@ -454,7 +453,7 @@ static void xt_text(struct xw *w, struct xtable *b, lxw_row_t row, int k, const 
 static void xt_date(struct xw *w, struct xtable *b, lxw_row_t row, int k, int64_t min)
 {
     if (k < b->ncols)
-        xo_date(w, row, (lxw_col_t)k, min, b->cols[k].kind == XK_DAY);
+        xo_date(w, row, (lxw_col_t)k, min, b->cols[k].kind == LT_DAY);
 }
 
 static void xt_flag(struct xw *w, struct xtable *b, lxw_row_t row, int k, int v)
@@ -630,7 +629,7 @@ static void xo_alarm_formats(struct xw *w, const struct xtable *b)
 static void xo_table_tail(struct xw *w, struct xtable *x, lxw_row_t row)
 {
     if (xt_has_totals(x)) {
-        if (x->cols[0].kind == XK_TEXT)
+        if (x->cols[0].kind == LT_TEXT)
             xo_text(w, row, 0, "Total", w->bold);
         for (int k = 0; k < x->ncols; k++)
             if (x->cols[k].total)
@@ -679,12 +678,6 @@ static void xo_table(struct xw *w, const char *name, struct xtable *x)
 
 /* --- shared names -------------------------------------------------------- */
 
-static const char *xo_item(int item)
-{
-    const struct reagent_info *ri = reagent_get(item);
-    return ri ? ri->name : "unknown";
-}
-
 static const char *xo_vent(int vs)
 {
     const char *n = vent_name(vs);
@@ -694,12 +687,6 @@ static const char *xo_vent(int vs)
 static double xo_vent_kg(const double *mol, int vs)
 {
     return mol[vs] * vent_molar_mass_g_mol(vs) / 1000.0;
-}
-
-static void xo_month_text(int month_index, char *buf, size_t n)
-{
-    int y = month_index >= 0 ? month_index / 12 : -((-month_index + 11) / 12);
-    snprintf(buf, n, "%04d-%02d", y, month_index - y * 12 + 1);
 }
 
 /* Run ids of a list of run indices, ", "-separated, cut with "..." to fit cap. */
@@ -724,26 +711,86 @@ static void xo_join_ids(const struct ledger *l, const int *runs, int n, char *bu
     }
 }
 
-/* The basis every "caustic solution bought" header declares: the make-up strength the
- * caustic units buy at ("50 wt% NaOH"), or, when they buy unlike strengths, "at each
- * unit's make-up strength" (the Scrubber units sheet lists each). */
-static void xo_caustic_basis(const struct ledger *l, char *buf, size_t n)
+/* --- sheets of a column list (ltable.h) ------------------------------------ */
+
+/* Cell k of the current row: value v of column c, as ltable.h describes. */
+static void xt_value(struct xw *w, struct xtable *b, lxw_row_t row, int k, const struct lt_col *c,
+                     const struct lt_val *v)
 {
-    double wt = 0;
-    int mixed = 0;
-    for (int u = 0; u < l->nscrubbers; u++) {
-        double m = l->scrubbers[u].makeup_naoh_wt_pct;
-        if (!(m > 0))
-            continue; /* a water liquor buys no caustic */
-        if (wt == 0)
-            wt = m;
-        else if (m != wt)
-            mixed = 1;
+    const char *s;
+    char ids[1000];
+    switch (v->t) {
+    case LT_V_ABSENT: break;
+    case LT_V_NULL: /* JSON null: the value's own text, the column's, or a blank */
+        s = v->text ? v->text : c->none;
+        if (s && k < b->ncols)
+            xo_text(w, row, (lxw_col_t)k, s, v->wrap ? w->wrap : NULL);
+        break;
+    case LT_V_NUM: xt_num(w, b, row, k, v->num); break;
+    case LT_V_TEXT:
+        if (k < b->ncols)
+            xo_text(w, row, (lxw_col_t)k, v->text, v->wrap ? w->wrap : NULL);
+        break;
+    case LT_V_DATE: xt_date(w, b, row, k, v->min); break;
+    case LT_V_BOOL:
+        if (b->cols[k].alarm == XA_NONE)
+            xt_flag(w, b, row, k, v->on);
+        else
+            xt_raise(w, b, row, k, v->on, v->text ? v->text : c->raised ? c->raised : "yes");
+        break;
+    case LT_V_RUNS:
+        xo_join_ids(w->l, v->runs, v->nruns, ids, c->cap > 0 && c->cap <= 1000 ? (size_t)c->cap : 400);
+        xt_text(w, b, row, k, ids);
+        break;
     }
-    if (wt > 0 && !mixed)
-        snprintf(buf, n, "%.4g wt%% NaOH", wt);
-    else
-        snprintf(buf, n, "at each unit's make-up strength");
+}
+
+/* Row `row` of a column-list sheet: record i, or with nested rows the next (record, row)
+ * of the cursor (cur, sub). */
+static void row_lt(struct xw *w, struct xtable *b, lxw_row_t row, int i)
+{
+    const struct ledger *l = w->l;
+    const struct lt_table *t = b->lt;
+    int j = 0;
+    if (t->nsub) {
+        int n = t->count(l);
+        while (b->cur < n && b->sub >= t->nsub(l, b->cur)) {
+            b->cur++;
+            b->sub = 0;
+        }
+        if (b->cur >= n)
+            return;
+        i = b->cur;
+        j = b->sub++;
+    }
+    struct lt_val v;
+    for (int k = 0; k < b->ncols && w->st == HL_OK; k++) {
+        lt_get(t, b->at[k], l, i, j, &v);
+        xt_value(w, b, row, k, &t->cols[b->at[k]], &v);
+    }
+}
+
+/* The sheet of column list t: its columns, rows and widths from the list; empty note and
+ * notes from b. */
+static void xo_lt_table(struct xw *w, const struct lt_table *t, struct xtable *b)
+{
+    int n = lt_sheet_order(t, b->at, (int)(sizeof b->at / sizeof b->at[0]));
+    if (n < 0) {
+        xo_fail(w, HL_ERR_INTERNAL, "the column list of sheet %s gives no column order", t->sheet);
+        return;
+    }
+    b->lt = t;
+    b->fn = row_lt;
+    b->nrows = lt_nrows(t, w->l);
+    for (int k = 0; k < n; k++) {
+        const struct lt_col *c = &t->cols[b->at[k]];
+        char head[96];
+        lt_head(c, w->l, head, sizeof head);
+        xt_col(b, c->kind, (c->flags & LT_TOTAL) != 0, "%s", head);
+        b->cols[k].alarm = c->flags & LT_ALARM ? XA_ALARM : c->flags & LT_NOTICE ? XA_NOTICE : XA_NONE;
+        b->fixw[k] = c->width;
+    }
+    xo_table(w, t->sheet, b);
 }
 
 /* The wanted product of a run (NULL when it has none, as with nothing converted). */
@@ -772,7 +819,7 @@ static void xs_text(struct xsum *s, const char *item, const char *value, const c
     xo_end_row(s->w, s->row++);
 }
 
-static void xs_num(struct xsum *s, const char *item, enum xk kind, double v, const char *note)
+static void xs_num(struct xsum *s, const char *item, enum lt_kind kind, double v, const char *note)
 {
     xo_text(s->w, s->row, 0, item, s->w->wrap);
     xo_num(s->w, s->row, 1, kind, v, 0, item);
@@ -800,7 +847,7 @@ static void xs_alarm(struct xsum *s, enum xa level, const char *item, int n, con
     char status[160];
     snprintf(status, sizeof status, "%s %s", xo_marker[level], raised);
     xo_text(s->w, s->row, 0, item, s->w->wrap);
-    xo_num(s->w, s->row, 1, XK_INT, n, 0, item);
+    xo_num(s->w, s->row, 1, LT_INT, n, 0, item);
     xo_text(s->w, s->row, s->note, n ? status : "none", s->w->noted);
     xo_end_row(s->w, s->row++);
 }
@@ -847,7 +894,7 @@ static double xs_m_spent(const struct ledger_month *m, int a) { (void)a; return 
 static double xs_m_succ(const struct ledger_month *m, int a) { (void)a; return m->succinimide_kg; }
 static double xs_m_water(const struct ledger_month *m, int a) { (void)a; return m->dilution_water_kg; }
 
-static void xs_month_row(struct xsum *s, const char *item, enum xk kind, xs_month_fn fn, int arg,
+static void xs_month_row(struct xsum *s, const char *item, enum lt_kind kind, xs_month_fn fn, int arg,
                          int skip_zero)
 {
     const struct ledger *l = s->w->l;
@@ -868,28 +915,28 @@ static void xs_months(struct xsum *s)
     char names[XS_MONTHS][32];
     const char *cols[XS_MONTHS];
     for (int m = 0; m < s->nm; m++) {
-        xo_month_text(l->months[m].month_index, names[m], sizeof names[m]);
+        isodate_month_text(l->months[m].month_index, names[m], sizeof names[m]);
         cols[m] = names[m];
     }
     xs_section(s, "Key figures by month", cols, s->nm,
                l->nmonths > s->nm ? "later months: Monthly sheet" : NULL);
     char item[96];
-    xs_month_row(s, "Runs [count]", XK_INT, xs_m_runs, 0, 0);
+    xs_month_row(s, "Runs [count]", LT_INT, xs_m_runs, 0, 0);
     for (int g = 0; g < RG_CHARGEABLE; g++) {
-        snprintf(item, sizeof item, "%s charged [kg]", xo_item(g));
-        xs_month_row(s, item, XK_KG, xs_m_reagent, g, 1);
+        snprintf(item, sizeof item, "%s charged [kg]", lt_item_name(g));
+        xs_month_row(s, item, LT_KG, xs_m_reagent, g, 1);
     }
     for (int v = 0; v < VS_COUNT; v++) {
         snprintf(item, sizeof item, "%s to scrubbers [kg]", xo_vent(v));
-        xs_month_row(s, item, XK_KG, xs_m_vent, v, 1);
+        xs_month_row(s, item, LT_KG, xs_m_vent, v, 1);
     }
-    xs_month_row(s, "NaOH consumed, as 100 % [kg]", XK_KG, xs_m_naoh, 0, 0);
+    xs_month_row(s, "NaOH consumed, as 100 % [kg]", LT_KG, xs_m_naoh, 0, 0);
     snprintf(item, sizeof item, "Caustic solution bought, %s [kg]", s->w->caustic);
-    xs_month_row(s, item, XK_KG, xs_m_reagent, RG_NAOH, 1);
-    xs_month_row(s, "Dilution water for fresh charges [kg]", XK_KG, xs_m_water, 0, 1);
-    xs_month_row(s, "Liquor changeouts [count]", XK_INT, xs_m_change, 0, 0);
-    xs_month_row(s, "Spent liquor [kg]", XK_KG, xs_m_spent, 0, 1);
-    xs_month_row(s, "Succinimide [kg]", XK_KG, xs_m_succ, 0, 1);
+    xs_month_row(s, item, LT_KG, xs_m_reagent, RG_NAOH, 1);
+    xs_month_row(s, "Dilution water for fresh charges [kg]", LT_KG, xs_m_water, 0, 1);
+    xs_month_row(s, "Liquor changeouts [count]", LT_INT, xs_m_change, 0, 0);
+    xs_month_row(s, "Spent liquor [kg]", LT_KG, xs_m_spent, 0, 1);
+    xs_month_row(s, "Succinimide [kg]", LT_KG, xs_m_succ, 0, 1);
 }
 
 /* Month close: only when a month shown has a run with an actual. */
@@ -915,7 +962,7 @@ static void xs_close(struct xsum *s)
     char names[XS_MONTHS][32];
     const char *cols[XS_MONTHS];
     for (int m = 0; m < s->nm; m++) {
-        xo_month_text(l->months[m].month_index, names[m], sizeof names[m]);
+        isodate_month_text(l->months[m].month_index, names[m], sizeof names[m]);
         cols[m] = names[m];
     }
     xs_section(s, "Month close (plan against actual of the runs with an actual)", cols, s->nm,
@@ -924,26 +971,26 @@ static void xs_close(struct xsum *s)
     for (int m = 0; m < s->nm; m++)
         xo_text(s->w, s->row, (lxw_col_t)(1 + m), l->months[m].close.closed ? "yes" : "no", NULL);
     xo_end_row(s->w, s->row++);
-    xs_month_row(s, "Runs done [count]", XK_INT, xs_m_done, 0, 0);
-    xs_month_row(s, "Runs cancelled [count]", XK_INT, xs_m_cancel, 0, 0);
-    xs_month_row(s, "Runs still planned [count]", XK_INT, xs_m_planned, 0, 0);
+    xs_month_row(s, "Runs done [count]", LT_INT, xs_m_done, 0, 0);
+    xs_month_row(s, "Runs cancelled [count]", LT_INT, xs_m_cancel, 0, 0);
+    xs_month_row(s, "Runs still planned [count]", LT_INT, xs_m_planned, 0, 0);
     char item[96];
     for (int g = 0; g < RG_CHARGEABLE; g++) {
-        snprintf(item, sizeof item, "%s drawn, plan [kg]", xo_item(g));
-        xs_month_row(s, item, XK_KG, xs_m_rplan, g, 1);
-        snprintf(item, sizeof item, "%s drawn, actual [kg]", xo_item(g));
-        xs_month_row(s, item, XK_KG, xs_m_ract, g, 1);
+        snprintf(item, sizeof item, "%s drawn, plan [kg]", lt_item_name(g));
+        xs_month_row(s, item, LT_KG, xs_m_rplan, g, 1);
+        snprintf(item, sizeof item, "%s drawn, actual [kg]", lt_item_name(g));
+        xs_month_row(s, item, LT_KG, xs_m_ract, g, 1);
     }
-    xs_month_row(s, "Wanted product, plan [kg]", XK_KG, xs_m_pplan, 0, 0);
-    xs_month_row(s, "Wanted product, actual [kg]", XK_KG, xs_m_pact, 0, 0);
-    xs_month_row(s, "NaOH consumed, as 100 %, plan [kg]", XK_KG, xs_m_nplan, 0, 0);
-    xs_month_row(s, "NaOH consumed, as 100 %, actual [kg]", XK_KG, xs_m_nact, 0, 0);
+    xs_month_row(s, "Wanted product, plan [kg]", LT_KG, xs_m_pplan, 0, 0);
+    xs_month_row(s, "Wanted product, actual [kg]", LT_KG, xs_m_pact, 0, 0);
+    xs_month_row(s, "NaOH consumed, as 100 %, plan [kg]", LT_KG, xs_m_nplan, 0, 0);
+    xs_month_row(s, "NaOH consumed, as 100 %, actual [kg]", LT_KG, xs_m_nact, 0, 0);
     int flagged = 0;
     for (int i = 0; i < l->nstock_checks; i++)
         flagged += l->stock_checks[i].flagged;
     for (int g = 0; g < RG_CHARGEABLE; g++) {
-        snprintf(item, sizeof item, "%s unexplained at stock counts [kg]", xo_item(g));
-        xs_month_row(s, item, XK_KG, xs_m_unexp, g, 1);
+        snprintf(item, sizeof item, "%s unexplained at stock counts [kg]", lt_item_name(g));
+        xs_month_row(s, item, LT_KG, xs_m_unexp, g, 1);
     }
     if (flagged)
         xs_alarm(s, XA_ALARM, "Stock checks outside tolerance [count]", flagged,
@@ -989,12 +1036,12 @@ static void xs_yields(struct xsum *s)
         char item[200];
         snprintf(item, sizeof item, "Yield, %.60s + %s to %.40s [%%]",
                  p->substrate_name && *p->substrate_name ? p->substrate_name : p->substrate,
-                 xo_item(p->reagent), p->wanted_formula);
+                 lt_item_name(p->reagent), p->wanted_formula);
         xo_text(s->w, s->row, 0, item, s->w->wrap);
         for (int m = 0; m < s->nm; m++)
             for (int j = 0; j < l->months[m].nproducts; j++)
                 if (xs_same_route(&l->months[m].products[j], p))
-                    xo_num(s->w, s->row, (lxw_col_t)(1 + m), XK_PCT1, l->months[m].products[j].yield_pct,
+                    xo_num(s->w, s->row, (lxw_col_t)(1 + m), LT_PCT1, l->months[m].products[j].yield_pct,
                            0, item);
         xo_end_row(s->w, s->row++);
     }
@@ -1015,13 +1062,13 @@ static void xs_scrubbers(struct xsum *s)
         snprintf(note, sizeof note, "from %s; rated %.4g kmol/h%s", at, x->rated_acid_kmol_h,
                  x->out.overloaded ? "; !! OVER RATING" : "");
         snprintf(item, sizeof item, "Peak instantaneous load at %.60s [kmol/h]", id);
-        xs_num(s, item, XK_RATE, x->out.peak_instant_kmol_h, note);
+        xs_num(s, item, LT_RATE, x->out.peak_instant_kmol_h, note);
         snprintf(at, sizeof at, "-");
         if (x->out.nhours > 0)
             isodate_format(x->out.peak_at_min, 0, at, sizeof at);
         snprintf(note, sizeof note, "mean over the hour from %s", at);
         snprintf(item, sizeof item, "Peak hourly mean load at %.60s [kmol/h]", id);
-        xs_num(s, item, XK_RATE, x->out.peak_acid_kmol_h, note);
+        xs_num(s, item, LT_RATE, x->out.peak_acid_kmol_h, note);
         snprintf(at, sizeof at, "-");
         if (x->out.npeak_heat_runs > 0)
             isodate_format(x->out.peak_heat_at_min, 0, at, sizeof at);
@@ -1030,9 +1077,9 @@ static void xs_scrubbers(struct xsum *s)
         snprintf(note, sizeof note, "from %s; run%s %s venting", at,
                  x->out.npeak_heat_runs == 1 ? "" : "s", x->out.npeak_heat_runs ? ids : "none");
         snprintf(item, sizeof item, "Peak heat release at %.60s [kW]", id);
-        xs_num(s, item, XK_KW, x->out.peak_heat_kw, note);
+        xs_num(s, item, LT_KW, x->out.peak_heat_kw, note);
         snprintf(item, sizeof item, "Hottest liquor at %.60s [°C]", id);
-        xs_num(s, item, XK_TEMP, x->out.max_liquor_temp_c,
+        xs_num(s, item, LT_TEMP, x->out.max_liquor_temp_c,
                x->out.too_hot_runs ? "!! cooling needed (no cooler modelled)"
                                    : "adiabatic, no cooler modelled");
     }
@@ -1062,7 +1109,7 @@ static void xs_alarms(struct xsum *s)
              "BELOW MINIMUM: Liquor by run sheet");
     xs_alarm(s, XA_ALARM, "Late orders [count]", late, "LATE: Orders sheet");
     xs_alarm(s, XA_NOTICE, "Runs capped by the substrate [count]", capped, "capped: Runs sheet");
-    xs_num(s, "Warnings [count]", XK_INT, l->nwarnings, l->nwarnings ? "listed on the Warnings sheet" : "none");
+    xs_num(s, "Warnings [count]", LT_INT, l->nwarnings, l->nwarnings ? "listed on the Warnings sheet" : "none");
 }
 
 static void xs_orders(struct xsum *s)
@@ -1078,12 +1125,12 @@ static void xs_orders(struct xsum *s)
         if (++n > XS_MONTHS)
             continue;
         char item[96], mt[32], by[24], note[200];
-        xo_month_text(o->month_index, mt, sizeof mt);
+        isodate_month_text(o->month_index, mt, sizeof mt);
         isodate_format(o->order_by_min, 1, by, sizeof by);
-        snprintf(item, sizeof item, "%s for %s [count]", xo_item(o->item), mt);
+        snprintf(item, sizeof item, "%s for %s [count]", lt_item_name(o->item), mt);
         snprintf(note, sizeof note, "%.60s, by %s%s", o->container ? o->container : "container", by,
                  o->late ? "; !! LATE" : "");
-        xs_num(s, item, XK_INT, o->containers, note);
+        xs_num(s, item, LT_INT, o->containers, note);
         shown++;
     }
     if (n == 0)
@@ -1175,7 +1222,7 @@ static void row_run(struct xw *w, struct xtable *b, lxw_row_t row, int i)
     xt_text(w, b, row, k++, r->reactor);
     xt_text(w, b, row, k++, r->scrubber);
     xt_text(w, b, row, k++, r->mode == KIN_CSTR ? "cstr" : "batch");
-    xt_text(w, b, row, k++, xo_item(r->reagent));
+    xt_text(w, b, row, k++, lt_item_name(r->reagent));
     xt_text(w, b, row, k++, r->substrate_name);
     xt_text(w, b, row, k++, r->smiles);
     xt_text(w, b, row, k++, o->substrate_formula);
@@ -1216,108 +1263,56 @@ static void row_run(struct xw *w, struct xtable *b, lxw_row_t row, int i)
 static void xo_runs(struct xw *w)
 {
     struct xtable b = {.fn = row_run, .nrows = w->l->nruns, .empty_note = "No runs in the campaign."};
-    xt_col(&b, XK_TEXT, 0, "Run");
-    xt_col(&b, XK_DATE, 0, "Start (plant time)");
-    xt_col(&b, XK_DATE, 0, "Feed end (plant time)");
-    xt_col(&b, XK_TEXT, 0, "Reactor");
-    xt_col(&b, XK_TEXT, 0, "Scrubber");
-    xt_col(&b, XK_TEXT, 0, "Reactor mode");
-    xt_col(&b, XK_TEXT, 0, "Reagent");
-    xt_col(&b, XK_TEXT, 0, "Substrate");
-    xt_col(&b, XK_TEXT, 0, "Substrate SMILES");
-    xt_col(&b, XK_TEXT, 0, "Substrate formula");
-    xt_col(&b, XK_TEMP, 0, "Temperature [°C]");
-    xt_col(&b, XK_TEMP, 0, "Feed time [h]");
+    xt_col(&b, LT_TEXT, 0, "Run");
+    xt_col(&b, LT_DATE, 0, "Start (plant time)");
+    xt_col(&b, LT_DATE, 0, "Feed end (plant time)");
+    xt_col(&b, LT_TEXT, 0, "Reactor");
+    xt_col(&b, LT_TEXT, 0, "Scrubber");
+    xt_col(&b, LT_TEXT, 0, "Reactor mode");
+    xt_col(&b, LT_TEXT, 0, "Reagent");
+    xt_col(&b, LT_TEXT, 0, "Substrate");
+    xt_col(&b, LT_TEXT, 0, "Substrate SMILES");
+    xt_col(&b, LT_TEXT, 0, "Substrate formula");
+    xt_col(&b, LT_TEMP, 0, "Temperature [°C]");
+    xt_col(&b, LT_TEMP, 0, "Feed time [h]");
     /* no totals over substrates, reagents or halogen atoms: the runs mix them */
-    xt_col(&b, XK_KG, 0, "Substrate [kg]");
-    xt_col(&b, XK_MOL, 0, "Substrate [mol]");
-    xt_col(&b, XK_KG, 0, "Reagent charged [kg]");
-    xt_col(&b, XK_MOL, 0, "Reagent charged [mol]");
-    xt_col(&b, XK_MOL, 0, "Reagent reacted [mol]");
-    xt_col(&b, XK_MOL, 0, "Halogen put on carbon [mol]");
+    xt_col(&b, LT_KG, 0, "Substrate [kg]");
+    xt_col(&b, LT_MOL, 0, "Substrate [mol]");
+    xt_col(&b, LT_KG, 0, "Reagent charged [kg]");
+    xt_col(&b, LT_MOL, 0, "Reagent charged [mol]");
+    xt_col(&b, LT_MOL, 0, "Reagent reacted [mol]");
+    xt_col(&b, LT_MOL, 0, "Halogen put on carbon [mol]");
     xt_alarm(&b, XA_NOTICE, "Capped by substrate");
-    xt_col(&b, XK_MOL, 0, "Mean halogens added [mol/mol substrate]");
+    xt_col(&b, LT_MOL, 0, "Mean halogens added [mol/mol substrate]");
     /* figures in mole per cent (design section 5); no totals: one wanted product a run */
-    xt_col(&b, XK_TEXT, 0, "Wanted product (formula)");
-    xt_col(&b, XK_KG, 0, "Wanted product [kg]");
-    xt_col(&b, XK_PCT1, 0, "Yield [%%]");
-    xt_col(&b, XK_PCT1, 0, "Substrate conversion [%%]");
-    xt_col(&b, XK_PCT1, 0, "Selectivity to wanted product [%%]");
-    xt_col(&b, XK_PCT1, 0, "Halogen efficiency [%%]");
-    xt_col(&b, XK_KG, 1, "HCl formed [kg]");
-    xt_col(&b, XK_KG, 1, "HBr formed [kg]");
-    xt_col(&b, XK_KG, 1, "SO2 formed [kg]");
-    xt_col(&b, XK_KG, 1, "Succinimide formed [kg]");
+    xt_col(&b, LT_TEXT, 0, "Wanted product (formula)");
+    xt_col(&b, LT_KG, 0, "Wanted product [kg]");
+    xt_col(&b, LT_PCT1, 0, "Yield [%%]");
+    xt_col(&b, LT_PCT1, 0, "Substrate conversion [%%]");
+    xt_col(&b, LT_PCT1, 0, "Selectivity to wanted product [%%]");
+    xt_col(&b, LT_PCT1, 0, "Halogen efficiency [%%]");
+    xt_col(&b, LT_KG, 1, "HCl formed [kg]");
+    xt_col(&b, LT_KG, 1, "HBr formed [kg]");
+    xt_col(&b, LT_KG, 1, "SO2 formed [kg]");
+    xt_col(&b, LT_KG, 1, "Succinimide formed [kg]");
     for (int s = 0; s < VS_COUNT; s++)
-        xt_col(&b, XK_KG, 1, "%s to scrubber [kg]", xo_vent(s));
-    xt_col(&b, XK_RATE, 0, "Vent gas to scrubber, peak rate [kmol/h]");
-    xt_col(&b, XK_KG, 1, "NaOH consumed, as 100 %% [kg]");
-    xt_col(&b, XK_HEAT, 1, "Heat to liquor [kJ]");
-    xt_col(&b, XK_TEMP, 0, "Liquor temperature rise [K]");
-    xt_col(&b, XK_TEXT, 0, "Liquor changed before run");
-    xt_col(&b, XK_SCI, 0, "Element balance error [relative]");
-    xt_col(&b, XK_TEXT, 0, "Note");
+        xt_col(&b, LT_KG, 1, "%s to scrubber [kg]", xo_vent(s));
+    xt_col(&b, LT_RATE, 0, "Vent gas to scrubber, peak rate [kmol/h]");
+    xt_col(&b, LT_KG, 1, "NaOH consumed, as 100 %% [kg]");
+    xt_col(&b, LT_HEAT, 1, "Heat to liquor [kJ]");
+    xt_col(&b, LT_TEMP, 0, "Liquor temperature rise [K]");
+    xt_col(&b, LT_TEXT, 0, "Liquor changed before run");
+    xt_col(&b, LT_SCI, 0, "Element balance error [relative]");
+    xt_col(&b, LT_TEXT, 0, "Note");
     xo_table(w, "Runs", &b);
 }
 
 /* --- Products ------------------------------------------------------------ */
 
-static void row_product(struct xw *w, struct xtable *b, lxw_row_t row, int i)
-{
-    (void)i;
-    const struct ledger *l = w->l;
-    /* cursor (cur = run, sub = product) walks the nested lists in order */
-    while (b->cur < l->nruns && b->sub >= l->runs[b->cur].bal.nproducts) {
-        b->cur++;
-        b->sub = 0;
-    }
-    if (b->cur >= l->nruns)
-        return;
-    const struct ledger_run *r = &l->runs[b->cur];
-    const struct ledger_product *p = &r->bal.products[b->sub++];
-    int k = 0;
-    xt_text(w, b, row, k++, r->id);
-    xt_text(w, b, row, k++, xo_item(r->reagent));
-    if (p->role == ROLE_OTHER) {
-        /* the lumped row says what it sums, so it does not read as one substance */
-        char label[96], what[200];
-        ledger_other_label(p, label, sizeof label);
-        snprintf(what, sizeof what, "%s: %d product%s summed, mean %.2f halogens added; "
-                 "molar mass is the mean", label, r->other_rows, r->other_rows == 1 ? "" : "s",
-                 r->other_mean_degree);
-        xo_text(w, row, (lxw_col_t)k++, what, w->wrap); /* wrapped: it must not print over the next column */
-        xt_text(w, b, row, k++, "(mixture)");
-    } else {
-        xt_text(w, b, row, k++, p->smiles); /* blank: no unambiguous structure */
-        xt_text(w, b, row, k++, p->formula);
-    }
-    xt_num(w, b, row, k++, p->degree);
-    xt_text(w, b, row, k++, ledger_role_name(p->role));
-    xt_num(w, b, row, k++, p->molar_mass_g_mol);
-    xt_num(w, b, row, k++, p->mol);
-    xt_num(w, b, row, k++, p->kg);
-    xt_num(w, b, row, k++, p->mol_fraction);
-}
-
 static void xo_products(struct xw *w)
 {
-    int n = 0;
-    for (int i = 0; i < w->l->nruns; i++)
-        n += w->l->runs[i].bal.nproducts;
-    struct xtable b = {.fn = row_product, .nrows = n, .empty_note = "No products."};
-    xt_col(&b, XK_TEXT, 0, "Run");
-    xt_col(&b, XK_TEXT, 0, "Reagent");
-    xt_col(&b, XK_TEXT, 0, "Structure (SMILES)");
-    xt_col(&b, XK_TEXT, 0, "Formula");
-    xt_col(&b, XK_INT, 0, "Halogens added [atoms/molecule]");
-    xt_col(&b, XK_TEXT, 0, "Role");
-    xt_col(&b, XK_GMOL, 0, "Molar mass [g/mol]");
-    /* no totals: the rows are different substances */
-    xt_col(&b, XK_MOL, 0, "Amount [mol]");
-    xt_col(&b, XK_KG, 0, "Mass [kg]");
-    xt_col(&b, XK_MOLFRAC, 0, "Share of substrate charged [mol %%]");
-    b.fixw[2] = 34; /* a known width, so the lumped row's wrapped label gets the height it needs */
-    xo_table(w, "Products", &b);
+    struct xtable b = {.empty_note = "No products."};
+    xo_lt_table(w, &lt_run_products, &b);
 }
 
 /* --- Liquor by run ------------------------------------------------------- */
@@ -1358,7 +1353,7 @@ static void row_liquor(struct xw *w, struct xtable *b, lxw_row_t row, int i)
     xt_raise(w, b, row, k++, s->exhausted, "BELOW MINIMUM");
     /* the liquor's own base, whatever it is (the NaOH columns above are NaOH's only) */
     int base = l->scrubbers[r->scrubber_index].base;
-    xt_text(w, b, row, k++, base >= 0 ? xo_item(base) : "none (water liquor)");
+    xt_text(w, b, row, k++, base >= 0 ? lt_item_name(base) : "none (water liquor)");
     xt_num(w, b, row, k++, r->changeout_makeup_kg);
     xt_num(w, b, row, k++, s->base_kg);
     xt_num(w, b, row, k++, s->base_left_kg);
@@ -1373,36 +1368,36 @@ static void xo_liquor(struct xw *w)
     for (int i = 0; i < l->nruns; i++)
         n += l->runs[i].scrubber != NULL;
     struct xtable a = {.fn = row_liquor, .nrows = n, .empty_note = "No run is routed to a scrubber."};
-    xt_col(&a, XK_TEXT, 0, "Run");
-    xt_col(&a, XK_TEXT, 0, "Scrubber");
-    xt_col(&a, XK_DATE, 0, "Start (plant time)");
-    xt_col(&a, XK_TEXT, 0, "Liquor changed before run");
+    xt_col(&a, LT_TEXT, 0, "Run");
+    xt_col(&a, LT_TEXT, 0, "Scrubber");
+    xt_col(&a, LT_DATE, 0, "Start (plant time)");
+    xt_col(&a, LT_TEXT, 0, "Liquor changed before run");
     /* the fresh charge before the run, made up from the caustic bought and site water */
-    xt_col(&a, XK_KG, 1, "Caustic solution bought, %s, for the fresh charge [kg]", w->caustic);
-    xt_col(&a, XK_KG, 1, "Dilution water for the fresh charge [kg]");
-    xt_col(&a, XK_RATE, 0, "Vent gas to scrubber, peak rate [kmol/h]");
-    xt_col(&a, XK_KG, 1, "NaOH consumed, as 100 %% [kg]");
-    xt_col(&a, XK_KG, 0, "NaOH left, as 100 %% [kg]");
-    xt_col(&a, XK_KG, 0, "Liquor after run [kg]");
-    xt_col(&a, XK_PCT, 0, "NaOH after run [wt%%]");
+    xt_col(&a, LT_KG, 1, "Caustic solution bought, %s, for the fresh charge [kg]", w->caustic);
+    xt_col(&a, LT_KG, 1, "Dilution water for the fresh charge [kg]");
+    xt_col(&a, LT_RATE, 0, "Vent gas to scrubber, peak rate [kmol/h]");
+    xt_col(&a, LT_KG, 1, "NaOH consumed, as 100 %% [kg]");
+    xt_col(&a, LT_KG, 0, "NaOH left, as 100 %% [kg]");
+    xt_col(&a, LT_KG, 0, "Liquor after run [kg]");
+    xt_col(&a, LT_PCT, 0, "NaOH after run [wt%%]");
     for (int q = 0; q < SALT_COUNT; q++)
-        xt_col(&a, XK_KG, 0, "%s net change [kg]", xo_salt(q));
-    xt_col(&a, XK_KG, 0, "Water formed [kg]");
-    xt_col(&a, XK_PCT, 0, "HCl in water liquor [wt%%]");
-    xt_col(&a, XK_HEAT, 1, "Heat to liquor [kJ]");
-    xt_col(&a, XK_TEMP, 0, "Liquor temperature rise [K]");
-    xt_col(&a, XK_TEMP, 0, "Liquor temperature after run, no cooling [°C]");
-    xt_col(&a, XK_KW, 0, "Heat release, mean over the vent window [kW]");
+        xt_col(&a, LT_KG, 0, "%s net change [kg]", xo_salt(q));
+    xt_col(&a, LT_KG, 0, "Water formed [kg]");
+    xt_col(&a, LT_PCT, 0, "HCl in water liquor [wt%%]");
+    xt_col(&a, LT_HEAT, 1, "Heat to liquor [kJ]");
+    xt_col(&a, LT_TEMP, 0, "Liquor temperature rise [K]");
+    xt_col(&a, LT_TEMP, 0, "Liquor temperature after run, no cooling [°C]");
+    xt_col(&a, LT_KW, 0, "Heat release, mean over the vent window [kW]");
     xt_alarm(&a, XA_ALARM, "Cooling needed");
-    xt_col(&a, XK_MOL, 0, "Sulfite oxidised by hypohalite [mol]");
-    xt_col(&a, XK_MOL, 0, "Gas left unneutralised [mol]");
+    xt_col(&a, LT_MOL, 0, "Sulfite oxidised by hypohalite [mol]");
+    xt_col(&a, LT_MOL, 0, "Gas left unneutralised [mol]");
     xt_alarm(&a, XA_ALARM, "Below minimum NaOH");
-    xt_col(&a, XK_TEXT, 0, "Liquor base");
-    xt_col(&a, XK_KG, 0, "Base bought for the fresh charge, as bought [kg]");
-    xt_col(&a, XK_KG, 0, "Base consumed, as 100 %% [kg]");
-    xt_col(&a, XK_KG, 0, "Base left, as 100 %% [kg]");
-    xt_col(&a, XK_PCT, 0, "Base after run [wt%%]");
-    xt_col(&a, XK_KG, 1, "CO2 given off by the liquor [kg]");
+    xt_col(&a, LT_TEXT, 0, "Liquor base");
+    xt_col(&a, LT_KG, 0, "Base bought for the fresh charge, as bought [kg]");
+    xt_col(&a, LT_KG, 0, "Base consumed, as 100 %% [kg]");
+    xt_col(&a, LT_KG, 0, "Base left, as 100 %% [kg]");
+    xt_col(&a, LT_PCT, 0, "Base after run [wt%%]");
+    xt_col(&a, LT_KG, 1, "CO2 given off by the liquor [kg]");
     xo_table(w, "Liquor by run", &a);
 }
 
@@ -1410,93 +1405,10 @@ static void xo_liquor(struct xw *w)
 
 
 
-static void row_unit(struct xw *w, struct xtable *b, lxw_row_t row, int i)
-{
-    const struct ledger *l = w->l;
-    const struct ledger_scrubber *u = &l->scrubbers[i];
-    const struct scrub_unit_out *s = &u->out;
-    int k = 0;
-    xt_text(w, b, row, k++, u->id);
-    xt_num(w, b, row, k++, u->rated_acid_kmol_h);
-    xt_num(w, b, row, k++, s->peak_acid_kmol_h);
-    if (s->nhours > 0)
-        xt_date(w, b, row, k, s->peak_at_min);
-    k++;
-    char ids[400];
-    xo_join_ids(l, s->peak_runs, s->npeak_runs, ids, sizeof ids);
-    xt_text(w, b, row, k++, ids);
-    xt_num(w, b, row, k++, s->peak_instant_kmol_h);
-    if (s->npeak_instant_runs > 0)
-        xt_date(w, b, row, k, s->peak_instant_at_min);
-    k++;
-    xo_join_ids(l, s->peak_instant_runs, s->npeak_instant_runs, ids, sizeof ids);
-    xt_text(w, b, row, k++, ids);
-    xt_raise(w, b, row, k++, s->overloaded, "OVER RATING");
-    xt_num(w, b, row, k++, s->peak_heat_kw);
-    if (s->npeak_heat_runs > 0)
-        xt_date(w, b, row, k, s->peak_heat_at_min);
-    k++;
-    xo_join_ids(l, s->peak_heat_runs, s->npeak_heat_runs, ids, sizeof ids);
-    xt_text(w, b, row, k++, ids);
-    xt_num(w, b, row, k++, s->changeouts);
-    xt_num(w, b, row, k++, s->naoh_kg);
-    if (u->makeup_naoh_wt_pct > 0)
-        xt_num(w, b, row, k, u->makeup_naoh_wt_pct);
-    else
-        xt_text(w, b, row, k, u->base < 0 ? "none (water liquor)" : "none (no NaOH in the liquor)");
-    k++;
-    xt_num(w, b, row, k++, u->changeout_caustic_solution_kg);
-    xt_num(w, b, row, k++, u->changeout_water_kg);
-    xt_num(w, b, row, k++, u->caustic_solution_kg);
-    xt_num(w, b, row, k++, u->dilution_water_kg);
-    xt_num(w, b, row, k++, s->heat_kj);
-    xt_num(w, b, row, k++, s->max_liquor_temp_c);
-    xt_num(w, b, row, k++, s->too_hot_runs);
-    xt_text(w, b, row, k++, u->base >= 0 ? xo_item(u->base) : "none (water liquor)");
-    xt_num(w, b, row, k++, s->base_kg);
-    if (u->base >= 0)
-        xt_num(w, b, row, k, u->makeup_base_wt_pct);
-    else
-        xt_text(w, b, row, k, "none (water liquor)");
-    k++;
-    xt_num(w, b, row, k++, u->changeout_makeup_kg);
-    xt_num(w, b, row, k++, s->makeup_kg);
-    xt_num(w, b, row, k++, s->co2_kg);
-}
-
 static void xo_units(struct xw *w)
 {
-    struct xtable u = {.fn = row_unit, .nrows = w->l->nscrubbers, .empty_note = "No scrubber defined."};
-    xt_col(&u, XK_TEXT, 0, "Scrubber");
-    xt_col(&u, XK_RATE, 0, "Rated capacity [kmol/h]");
-    xt_col(&u, XK_RATE, 0, "Peak hourly mean load [kmol/h]");
-    xt_col(&u, XK_DATE, 0, "Peak hour start (plant time)");
-    xt_col(&u, XK_TEXT, 0, "Runs in the peak hour");
-    xt_col(&u, XK_RATE, 0, "Peak instantaneous load [kmol/h]");
-    xt_col(&u, XK_DATE, 0, "Instantaneous peak from (plant time)");
-    xt_col(&u, XK_TEXT, 0, "Runs venting at the instantaneous peak");
-    xt_alarm(&u, XA_ALARM, "Overloaded (instantaneous peak over rating)");
-    /* the duty a liquor cooler would need: heat-release rates of the runs venting at once */
-    xt_col(&u, XK_KW, 0, "Peak heat release [kW]");
-    xt_col(&u, XK_DATE, 0, "Heat release peak from (plant time)");
-    xt_col(&u, XK_TEXT, 0, "Runs venting at the heat release peak");
-    xt_col(&u, XK_INT, 1, "Liquor changeouts [count]");
-    xt_col(&u, XK_KG, 1, "NaOH consumed, as 100 %% [kg]");
-    xt_col(&u, XK_PCT, 0, "Caustic make-up strength [wt%% NaOH]");
-    xt_col(&u, XK_KG, 0, "Caustic solution bought per changeout, at make-up strength [kg]");
-    xt_col(&u, XK_KG, 0, "Dilution water per changeout [kg]");
-    xt_col(&u, XK_KG, 1, "Caustic solution bought, %s [kg]", w->caustic);
-    xt_col(&u, XK_KG, 1, "Dilution water, all changeouts [kg]");
-    xt_col(&u, XK_HEAT, 1, "Heat to liquor [kJ]");
-    xt_col(&u, XK_TEMP, 0, "Hottest liquor, no cooling [°C]");
-    xt_col(&u, XK_INT, 1, "Runs needing cooling [count]");
-    xt_col(&u, XK_TEXT, 0, "Liquor base");
-    xt_col(&u, XK_KG, 0, "Base consumed, as 100 %% [kg]");
-    xt_col(&u, XK_PCT, 0, "Base make-up strength [wt%%]");
-    xt_col(&u, XK_KG, 0, "Base bought per changeout, as bought [kg]");
-    xt_col(&u, XK_KG, 0, "Base bought, all changeouts, as bought [kg]");
-    xt_col(&u, XK_KG, 1, "CO2 given off by the liquor [kg]");
-    xo_table(w, "Scrubber units", &u);
+    struct xtable u = {.empty_note = "No scrubber defined."};
+    xo_lt_table(w, &lt_scrubbers, &u);
 }
 
 static void row_hour(struct xw *w, struct xtable *b, lxw_row_t row, int i)
@@ -1523,10 +1435,10 @@ static void xo_hours(struct xw *w)
     for (int u = 0; u < w->l->nscrubbers; u++)
         n += w->l->scrubbers[u].out.nhours;
     struct xtable h = {.fn = row_hour, .nrows = n, .empty_note = "No vent gas load."};
-    xt_col(&h, XK_TEXT, 0, "Scrubber");
-    xt_col(&h, XK_DATE, 0, "Hour start (plant time)");
-    xt_col(&h, XK_RATE, 0, "Vent gas load, mean over the hour [kmol/h]");
-    xt_col(&h, XK_RATE, 0, "Rated capacity [kmol/h]");
+    xt_col(&h, LT_TEXT, 0, "Scrubber");
+    xt_col(&h, LT_DATE, 0, "Hour start (plant time)");
+    xt_col(&h, LT_RATE, 0, "Vent gas load, mean over the hour [kmol/h]");
+    xt_col(&h, LT_RATE, 0, "Rated capacity [kmol/h]");
     xo_table(w, "Hourly load", &h);
 }
 
@@ -1562,15 +1474,15 @@ static void xo_column(struct xw *w)
                                  "pressure-drop correlation): a final column design needs review and sign-off",
                                  "by a licensed engineer, with the vendor's packing data."},
                        .nnotes = 3};
-    xt_col(&c, XK_TEXT, 0, "Scrubber");
-    xt_col(&c, XK_RATE, 0, "Gas flow at the instantaneous peak [kmol/h]");
-    xt_col(&c, XK_SCI, 0, "Acid gas in [mol/mol]");
-    xt_col(&c, XK_SCI, 0, "Acid gas out [mol/mol]");
-    xt_col(&c, XK_PCT, 0, "Transfer units, NTU (dimensionless)");
-    xt_col(&c, XK_LEN, 0, "Packed height [m]");
-    xt_col(&c, XK_LEN, 0, "Diameter [m]");
-    xt_col(&c, XK_LEN, 0, "Flooding velocity [m/s]");
-    xt_col(&c, XK_RATE, 0, "Flow parameter (dimensionless)");
+    xt_col(&c, LT_TEXT, 0, "Scrubber");
+    xt_col(&c, LT_RATE, 0, "Gas flow at the instantaneous peak [kmol/h]");
+    xt_col(&c, LT_SCI, 0, "Acid gas in [mol/mol]");
+    xt_col(&c, LT_SCI, 0, "Acid gas out [mol/mol]");
+    xt_col(&c, LT_PCT, 0, "Transfer units, NTU (dimensionless)");
+    xt_col(&c, LT_LEN, 0, "Packed height [m]");
+    xt_col(&c, LT_LEN, 0, "Diameter [m]");
+    xt_col(&c, LT_LEN, 0, "Flooding velocity [m/s]");
+    xt_col(&c, LT_RATE, 0, "Flow parameter (dimensionless)");
     xo_table(w, "Column check", &c);
 }
 
@@ -1597,13 +1509,13 @@ static void xo_emis_runs(struct xw *w)
                        .notes = {xo_emis_note,
                                  "A run with no scrubber is not counted here (see Warnings)."},
                        .nnotes = 2};
-    xt_col(&b, XK_TEXT, 0, "Run");
-    xt_col(&b, XK_DATE, 0, "Start (plant time)");
-    xt_col(&b, XK_TEXT, 0, "Scrubber");
+    xt_col(&b, LT_TEXT, 0, "Run");
+    xt_col(&b, LT_DATE, 0, "Start (plant time)");
+    xt_col(&b, LT_TEXT, 0, "Scrubber");
     for (int v = 0; v < VS_COUNT; v++)
-        xt_col(&b, XK_RATE, 1, "%s leaving the stack [kg]", xo_vent(v));
+        xt_col(&b, LT_RATE, 1, "%s leaving the stack [kg]", xo_vent(v));
     /* no total: the gases are unlike things */
-    xt_col(&b, XK_RATE, 0, "Of it, breakthrough of a spent liquor, all gases [kg]");
+    xt_col(&b, LT_RATE, 0, "Of it, breakthrough of a spent liquor, all gases [kg]");
     xo_table(w, "Emissions by run", &b);
 }
 
@@ -1710,76 +1622,25 @@ static void xo_emis_by_hour(struct xw *w)
                                  "Hours with any emission only; each run's emission spread evenly over its "
                                  "vent window. mg/Nm3 = kg/h x 1e6 / stack gas flow (0 C, 101.325 kPa)."},
                        .nnotes = 2};
-    xt_col(&b, XK_TEXT, 0, "Scrubber");
-    xt_col(&b, XK_DATE, 0, "Hour start (plant time)");
+    xt_col(&b, LT_TEXT, 0, "Scrubber");
+    xt_col(&b, LT_DATE, 0, "Hour start (plant time)");
     for (int v = 0; v < VS_COUNT; v++)
-        xt_col(&b, XK_RATE, 0, "%s leaving the stack, mean over the hour [kg/h]", xo_vent(v));
+        xt_col(&b, LT_RATE, 0, "%s leaving the stack, mean over the hour [kg/h]", xo_vent(v));
     for (int v = 0; v < VS_COUNT && c.conc; v++)
-        xt_col(&b, XK_TEMP, 0, "%s in the stack gas [mg/Nm3]", xo_vent(v));
+        xt_col(&b, LT_TEMP, 0, "%s in the stack gas [mg/Nm3]", xo_vent(v));
     for (int j = 0; j < c.nlim; j++)
-        xt_col(&b, XK_RATE, 0, "%s hourly permit limit [kg/h]", xo_vent(c.lim_sp[j]));
+        xt_col(&b, LT_RATE, 0, "%s hourly permit limit [kg/h]", xo_vent(c.lim_sp[j]));
     xo_table(w, "Emissions by hour", &b);
-}
-
-enum { PC_SCRUB, PC_SPECIES, PC_AVG, PC_LIM_KG, PC_VAL_KG, PC_LIM_MG, PC_VAL_MG, PC_LIM_T, PC_VAL_T,
-       PC_WHEN, PC_SHARE, PC_MARGIN, PC_EXC, PC_RUNS };
-
-static void row_permit(struct xw *w, struct xtable *b, lxw_row_t row, int i)
-{
-    const struct ledger *l = w->l;
-    const struct emis_check *x = &l->permit_checks[i];
-    xt_text(w, b, row, PC_SCRUB, l->scrubbers[x->unit].id);
-    xt_text(w, b, row, PC_SPECIES, xo_vent(x->species));
-    xt_text(w, b, row, PC_AVG, x->kind == EMIS_T_YR ? "calendar year"
-                               : x->averaging_day ? "calendar-day mean" : "clock hour");
-    int lim = x->kind == EMIS_KG_H ? PC_LIM_KG : x->kind == EMIS_MG_NM3 ? PC_LIM_MG : PC_LIM_T;
-    xt_num(w, b, row, lim, x->limit);
-    if (x->has_value)
-        xt_num(w, b, row, lim + 1, x->value);
-    else
-        xt_text(w, b, row, lim + 1, "no stack flow");
-    char when[24] = "nothing leaves";
-    if (x->has_at && x->kind == EMIS_T_YR)
-        snprintf(when, sizeof when, "%04d", x->at_year);
-    else if (x->has_at)
-        isodate_format(x->at_min, x->averaging_day, when, sizeof when);
-    xt_text(w, b, row, PC_WHEN, when);
-    if (x->has_value) {
-        xt_num(w, b, row, PC_SHARE, x->value / x->limit);
-        xt_num(w, b, row, PC_MARGIN, (x->limit - x->value) / x->limit);
-        xt_raise(w, b, row, PC_EXC, x->exceeded, "EXCEEDED");
-    } else {
-        xt_text(w, b, row, PC_EXC, "! not checkable");
-    }
-    char ids[1000];
-    xo_join_ids(l, x->runs, x->nruns, ids, sizeof ids);
-    xt_text(w, b, row, PC_RUNS, ids);
 }
 
 static void xo_permits(struct xw *w)
 {
-    struct xtable b = {.fn = row_permit, .nrows = w->l->npermit_checks,
-                       .empty_note = "The campaign gives no permits (campaign key permits[]).",
+    struct xtable b = {.empty_note = "The campaign gives no permits (campaign key permits[]).",
                        .notes = {xo_emis_note,
                                  "Worst clock hour or calendar-day mean against kg/h and mg/Nm3, worst "
                                  "calendar year against t/yr; the runs are those emitting the species then."},
                        .nnotes = 2};
-    xt_col(&b, XK_TEXT, 0, "Scrubber");
-    xt_col(&b, XK_TEXT, 0, "Species");
-    xt_col(&b, XK_TEXT, 0, "Averaging");
-    xt_col(&b, XK_GEN, 0, "Permit limit [kg/h]");
-    xt_col(&b, XK_GEN, 0, "Worst estimate [kg/h]");
-    xt_col(&b, XK_GEN, 0, "Permit limit [mg/Nm3]");
-    xt_col(&b, XK_GEN, 0, "Worst estimate [mg/Nm3]");
-    xt_col(&b, XK_GEN, 0, "Permit limit [t/yr]");
-    xt_col(&b, XK_GEN, 0, "Worst estimate [t/yr]");
-    xt_col(&b, XK_TEXT, 0, "When (hour, day or year)");
-    xt_col(&b, XK_FRAC, 0, "Worst as share of the limit [%%]");
-    xt_col(&b, XK_FRAC, 0, "Margin left [%% of the limit]");
-    xt_alarm(&b, XA_ALARM, "Limit exceeded");
-    xt_col(&b, XK_TEXT, 0, "Runs emitting then");
-    b.fixw[PC_RUNS] = XO_WRAP_W;
-    xo_table(w, "Permit checks", &b);
+    xo_lt_table(w, &lt_permit_checks, &b);
 }
 
 /* One line chart over rows r0..r1 of a sheet: categories in column 1, series in cols[]. */
@@ -1864,70 +1725,10 @@ static void xo_emis_charts(struct xw *w)
 
 /* --- Orders -------------------------------------------------------------- */
 
-static void row_order(struct xw *w, struct xtable *b, lxw_row_t row, int i)
-{
-    const struct ord_line *d = &w->l->orders[i];
-    char mt[32];
-    xo_month_text(d->month_index, mt, sizeof mt);
-    int k = 0;
-    xt_text(w, b, row, k++, mt);
-    xt_text(w, b, row, k++, xo_item(d->item));
-    xt_num(w, b, row, k++, d->demand_kg);
-    xt_num(w, b, row, k++, d->stock_start_kg);
-    xt_num(w, b, row, k++, d->received_kg);
-    xt_num(w, b, row, k++, d->on_order_kg);
-    xt_num(w, b, row, k++, d->safety_kg);
-    xt_num(w, b, row, k++, d->to_order_kg);
-    xt_text(w, b, row, k++, d->container ? d->container : "(none defined)");
-    xt_num(w, b, row, k++, d->net_kg);
-    xt_num(w, b, row, k++, d->heel_kg);
-    xt_num(w, b, row, k++, d->containers);
-    if (d->peak_on_line > 0) {
-        xt_num(w, b, row, k++, d->peak_on_line);
-        xt_date(w, b, row, k++, d->peak_on_line_min);
-    } else {
-        k += 2; /* not a gas fed from containers: left blank */
-    }
-    xt_num(w, b, row, k++, d->ordered_usable_kg);
-    xt_num(w, b, row, k++, d->stock_end_kg);
-    xt_date(w, b, row, k++, d->first_use_min);
-    xt_date(w, b, row, k++, d->order_by_min);
-    xt_raise(w, b, row, k++, d->late, "LATE");
-    /* the kg of a caustic line are solution as bought, not NaOH as 100 % */
-    char note[160] = "";
-    if (d->item == RG_NAOH)
-        snprintf(note, sizeof note, "kg of caustic solution bought, %s%s", w->caustic,
-                 d->no_container ? "; " : "");
-    if (d->no_container)
-        snprintf(note + strlen(note), sizeof note - strlen(note), "no container defined for this item");
-    xt_text(w, b, row, k++, note);
-}
-
 static void xo_orders(struct xw *w)
 {
-    struct xtable b = {.fn = row_order, .nrows = w->l->norders, .empty_note = "Nothing to order."};
-    xt_col(&b, XK_TEXT, 0, "Month");
-    xt_col(&b, XK_TEXT, 0, "Item");
-    /* no totals row: the lines mix reagents and caustic, whose sum means nothing */
-    xt_col(&b, XK_KG, 0, "Demand [kg]");
-    xt_col(&b, XK_KG, 0, "Stock at month start [kg]");
-    xt_col(&b, XK_KG, 0, "Received this month [kg]");
-    xt_col(&b, XK_KG, 0, "Placed orders due this month [kg]");
-    xt_col(&b, XK_KG, 0, "Safety stock [kg]");
-    xt_col(&b, XK_KG, 0, "To order [kg]");
-    xt_col(&b, XK_TEXT, 0, "Container");
-    xt_col(&b, XK_KG, 0, "Container net [kg]");
-    xt_col(&b, XK_KG, 0, "Heel left in container [kg]");
-    xt_col(&b, XK_INT, 0, "Containers [count]");
-    xt_col(&b, XK_INT, 0, "Containers on line, busiest moment [count]");
-    xt_col(&b, XK_DATE, 0, "Busiest moment (plant time)");
-    xt_col(&b, XK_KG, 0, "Usable content ordered [kg]");
-    xt_col(&b, XK_KG, 0, "Stock at month end [kg]");
-    xt_col(&b, XK_DATE, 0, "First use (plant time)");
-    xt_col(&b, XK_DAY, 0, "Order by (date)");
-    xt_alarm(&b, XA_ALARM, "Late");
-    xt_col(&b, XK_TEXT, 0, "Note");
-    xo_table(w, "Orders", &b);
+    struct xtable b = {.empty_note = "Nothing to order."};
+    xo_lt_table(w, &lt_orders, &b);
 }
 
 /* --- Plan vs actual, Stock checks (month close) ------------------------------ */
@@ -1955,7 +1756,7 @@ static void row_actual(struct xw *w, struct xtable *b, lxw_row_t row, int i)
         xt_date(w, b, row, k, a->end_min);
     k++;
     xt_text(w, b, row, k++, done ? "done" : "cancelled");
-    xt_text(w, b, row, k++, xo_item(r->reagent));
+    xt_text(w, b, row, k++, lt_item_name(r->reagent));
     xt_num(w, b, row, k++, v->reagent_kg_plan);
     xt_num(w, b, row, k++, r->bal.reagent_kg); /* the book's draw: weighed, else the plan; cancelled 0 */
     if (v->has_reagent) {
@@ -1998,75 +1799,40 @@ static void xo_actuals(struct xw *w)
     b.notes[b.nnotes++] = xo_close_note;
     b.notes[b.nnotes++] = xo_close_note2;
     b.notes[b.nnotes++] = tol;
-    xt_col(&b, XK_TEXT, 0, "Run");
-    xt_col(&b, XK_DATE, 0, "Start (plant time)");
-    xt_col(&b, XK_DATE, 0, "End, actual (plant time)");
-    xt_col(&b, XK_TEXT, 0, "Status");
-    xt_col(&b, XK_TEXT, 0, "Reagent");
+    xt_col(&b, LT_TEXT, 0, "Run");
+    xt_col(&b, LT_DATE, 0, "Start (plant time)");
+    xt_col(&b, LT_DATE, 0, "End, actual (plant time)");
+    xt_col(&b, LT_TEXT, 0, "Status");
+    xt_col(&b, LT_TEXT, 0, "Reagent");
     /* no totals: the rows mix reagents */
-    xt_col(&b, XK_KG, 0, "Reagent plan [kg]");
-    xt_col(&b, XK_KG, 0, "Reagent drawn, booked [kg]");
-    xt_col(&b, XK_KG, 0, "Reagent variance [kg]");
-    xt_col(&b, XK_PCT1, 0, "Reagent variance [%% of plan]");
-    xt_col(&b, XK_KG, 0, "Wanted product plan [kg]");
-    xt_col(&b, XK_KG, 0, "Wanted product isolated, as 100 %% [kg]");
-    xt_col(&b, XK_KG, 0, "Wanted product variance [kg]");
-    xt_col(&b, XK_PCT1, 0, "Wanted product variance [%% of plan]");
-    xt_col(&b, XK_PCT1, 0, "Yield plan [mol %%]");
-    xt_col(&b, XK_PCT1, 0, "Yield actual [mol %%]");
-    xt_col(&b, XK_KG, 0, "NaOH consumed, as 100 %%, plan [kg]");
-    xt_col(&b, XK_KG, 0, "NaOH consumed, as 100 %%, titrated [kg]");
-    xt_col(&b, XK_KG, 0, "NaOH variance [kg]");
+    xt_col(&b, LT_KG, 0, "Reagent plan [kg]");
+    xt_col(&b, LT_KG, 0, "Reagent drawn, booked [kg]");
+    xt_col(&b, LT_KG, 0, "Reagent variance [kg]");
+    xt_col(&b, LT_PCT1, 0, "Reagent variance [%% of plan]");
+    xt_col(&b, LT_KG, 0, "Wanted product plan [kg]");
+    xt_col(&b, LT_KG, 0, "Wanted product isolated, as 100 %% [kg]");
+    xt_col(&b, LT_KG, 0, "Wanted product variance [kg]");
+    xt_col(&b, LT_PCT1, 0, "Wanted product variance [%% of plan]");
+    xt_col(&b, LT_PCT1, 0, "Yield plan [mol %%]");
+    xt_col(&b, LT_PCT1, 0, "Yield actual [mol %%]");
+    xt_col(&b, LT_KG, 0, "NaOH consumed, as 100 %%, plan [kg]");
+    xt_col(&b, LT_KG, 0, "NaOH consumed, as 100 %%, titrated [kg]");
+    xt_col(&b, LT_KG, 0, "NaOH variance [kg]");
     xt_alarm(&b, XA_ALARM, "Outside tolerance");
     xo_table(w, "Plan vs actual", &b);
-}
-
-static void row_check(struct xw *w, struct xtable *b, lxw_row_t row, int i)
-{
-    const struct ledger_stock_check *c = &w->l->stock_checks[i];
-    int k = 0;
-    xt_text(w, b, row, k++, xo_item(c->reagent));
-    xt_date(w, b, row, k++, c->date_min);
-    if (c->has_since)
-        xt_date(w, b, row, k++, c->since_min);
-    else
-        xt_text(w, b, row, k++, "campaign start");
-    xt_num(w, b, row, k++, c->start_kg);
-    xt_num(w, b, row, k++, c->received_kg);
-    xt_num(w, b, row, k++, c->drawn_kg);
-    xt_num(w, b, row, k++, c->book_kg);
-    xt_num(w, b, row, k++, c->counted_kg);
-    xt_num(w, b, row, k++, c->unexplained_kg);
-    if (c->pct_defined)
-        xt_num(w, b, row, k, c->unexplained_pct);
-    k++;
-    int leak = c->flagged && c->unexplained_kg > 0 && reagent_get(c->reagent)->toxic_gas;
-    xt_raise(w, b, row, k++, c->flagged, leak ? "CHECK FOR LEAK" : "OUTSIDE TOLERANCE");
 }
 
 static void xo_checks(struct xw *w)
 {
     const struct ledger *l = w->l;
-    struct xtable b = {.fn = row_check, .nrows = l->nstock_checks,
-                       .empty_note = "No stock count given (campaign key counts[])."};
+    struct xtable b = {.empty_note = "No stock count given (campaign key counts[])."};
     static char tol[160];
     snprintf(tol, sizeof tol, "Unexplained = book - counted (positive: missing); tolerance %.4g %% "
              "of the draws since the last count.", l->tol_stock_pct);
     b.notes[b.nnotes++] = "Book = previous count (first: stock on hand) + received - drawn by the runs since.";
     b.notes[b.nnotes++] = tol;
     b.notes[b.nnotes++] = "Toxic gas missing may have been released: check for leaks; see the SDS and local rules.";
-    xt_col(&b, XK_TEXT, 0, "Reagent");
-    xt_col(&b, XK_DATE, 0, "Count (plant time)");
-    xt_col(&b, XK_DATE, 0, "Book since (plant time)");
-    xt_col(&b, XK_KG, 0, "Stock at book start [kg]");
-    xt_col(&b, XK_KG, 0, "Received [kg]");
-    xt_col(&b, XK_KG, 0, "Drawn by runs [kg]");
-    xt_col(&b, XK_KG, 0, "Book stock [kg]");
-    xt_col(&b, XK_KG, 0, "Counted [kg]");
-    xt_col(&b, XK_KG, 0, "Unexplained [kg]");
-    xt_col(&b, XK_PCT1, 0, "Unexplained [%% of drawn]");
-    xt_alarm(&b, XA_ALARM, "Outside tolerance");
-    xo_table(w, "Stock checks", &b);
+    xo_lt_table(w, &lt_stock_checks, &b);
 }
 
 /* --- Reaction heat (thermal screening, one row per run) ------------------- */
@@ -2078,7 +1844,7 @@ static void row_heat(struct xw *w, struct xtable *b, lxw_row_t row, int i)
     int k = 0;
     xt_text(w, b, row, k++, r->id);
     xt_date(w, b, row, k++, r->start_min);
-    xt_text(w, b, row, k++, xo_item(r->reagent));
+    xt_text(w, b, row, k++, lt_item_name(r->reagent));
     xt_text(w, b, row, k++, r->substrate_name);
     xt_num(w, b, row, k++, t->dh_kj_mol);
     xt_num(w, b, row, k++, t->heat_kj);
@@ -2117,28 +1883,28 @@ static void row_heat(struct xw *w, struct xtable *b, lxw_row_t row, int i)
 static void xo_heat(struct xw *w)
 {
     struct xtable b = {.fn = row_heat, .nrows = w->l->nruns, .empty_note = "No runs."};
-    xt_col(&b, XK_TEXT, 0, "Run");
-    xt_col(&b, XK_DATE, 0, "Start (plant time)");
-    xt_col(&b, XK_TEXT, 0, "Reagent");
-    xt_col(&b, XK_TEXT, 0, "Substrate");
-    xt_col(&b, XK_KG, 0, "Heat of one step, mean [kJ/mol] (negative: released)");
-    xt_col(&b, XK_HEAT, 0, "Reaction heat released [kJ]"); /* runs do not share a mass: no total */
-    xt_col(&b, XK_KW, 0, "Mean heat release over feed [kW]");
-    xt_col(&b, XK_KW, 0, "Peak heat release [kW]");
-    xt_col(&b, XK_KG, 0, "Reaction mass [kg]");
-    xt_col(&b, XK_MOL, 0, "Heat capacity [kJ/(kg K)]");
-    xt_col(&b, XK_FRAC, 0, "Accumulation (dimensionless)");
-    xt_col(&b, XK_TEMP, 0, "Adiabatic temperature rise [K]");
-    xt_col(&b, XK_TEMP, 0, "Process temperature [°C]");
-    xt_col(&b, XK_TEMP, 0, "MTSR [°C]");
-    xt_col(&b, XK_TEMP, 0, "MTT [°C]");
-    xt_col(&b, XK_TEMP, 0, "TD24 [°C]");
-    xt_col(&b, XK_INT, 0, "Criticality class (Stoessel 1-5)");
+    xt_col(&b, LT_TEXT, 0, "Run");
+    xt_col(&b, LT_DATE, 0, "Start (plant time)");
+    xt_col(&b, LT_TEXT, 0, "Reagent");
+    xt_col(&b, LT_TEXT, 0, "Substrate");
+    xt_col(&b, LT_KG, 0, "Heat of one step, mean [kJ/mol] (negative: released)");
+    xt_col(&b, LT_HEAT, 0, "Reaction heat released [kJ]"); /* runs do not share a mass: no total */
+    xt_col(&b, LT_KW, 0, "Mean heat release over feed [kW]");
+    xt_col(&b, LT_KW, 0, "Peak heat release [kW]");
+    xt_col(&b, LT_KG, 0, "Reaction mass [kg]");
+    xt_col(&b, LT_MOL, 0, "Heat capacity [kJ/(kg K)]");
+    xt_col(&b, LT_FRAC, 0, "Accumulation (dimensionless)");
+    xt_col(&b, LT_TEMP, 0, "Adiabatic temperature rise [K]");
+    xt_col(&b, LT_TEMP, 0, "Process temperature [°C]");
+    xt_col(&b, LT_TEMP, 0, "MTSR [°C]");
+    xt_col(&b, LT_TEMP, 0, "MTT [°C]");
+    xt_col(&b, LT_TEMP, 0, "TD24 [°C]");
+    xt_col(&b, LT_INT, 0, "Criticality class (Stoessel 1-5)");
     xt_alarm(&b, XA_ALARM, "MTSR reaches MTT or TD24");
-    xt_col(&b, XK_TEXT, 0, "Class reasoning (screening estimate: calorimetry and a process-safety study decide)");
-    xt_col(&b, XK_TEXT, 0, "Gas container");
-    xt_col(&b, XK_KG, 0, "Gas demand at peak [kg/h]");
-    xt_col(&b, XK_INT, 0, "Containers on line [count]");
+    xt_col(&b, LT_TEXT, 0, "Class reasoning (screening estimate: calorimetry and a process-safety study decide)");
+    xt_col(&b, LT_TEXT, 0, "Gas container");
+    xt_col(&b, LT_KG, 0, "Gas demand at peak [kg/h]");
+    xt_col(&b, LT_INT, 0, "Containers on line [count]");
     xt_alarm(&b, XA_ALARM, "Evaporator needed");
     xo_table(w, "Reaction heat", &b);
 }
@@ -2152,7 +1918,7 @@ static void row_waste_run(struct xw *w, struct xtable *b, lxw_row_t row, int i)
     int k = 0;
     xt_text(w, b, row, k++, r->id);
     xt_date(w, b, row, k++, r->start_min);
-    xt_text(w, b, row, k++, xo_item(r->reagent));
+    xt_text(w, b, row, k++, lt_item_name(r->reagent));
     xt_text(w, b, row, k++, r->substrate_name);
     xt_num(w, b, row, k++, o->succinimide_kg);
     xt_num(w, b, row, k++, o->reagent_left_kg);
@@ -2167,19 +1933,19 @@ static void row_waste_run(struct xw *w, struct xtable *b, lxw_row_t row, int i)
 static void xo_waste(struct xw *w)
 {
     struct xtable a = {.fn = row_waste_run, .nrows = w->l->nruns, .empty_note = "No runs."};
-    xt_col(&a, XK_TEXT, 0, "Run");
-    xt_col(&a, XK_DATE, 0, "Start (plant time)");
-    xt_col(&a, XK_TEXT, 0, "Reagent");
-    xt_col(&a, XK_TEXT, 0, "Substrate");
-    xt_col(&a, XK_KG, 1, "Succinimide (solid) [kg]");
+    xt_col(&a, LT_TEXT, 0, "Run");
+    xt_col(&a, LT_DATE, 0, "Start (plant time)");
+    xt_col(&a, LT_TEXT, 0, "Reagent");
+    xt_col(&a, LT_TEXT, 0, "Substrate");
+    xt_col(&a, LT_KG, 1, "Succinimide (solid) [kg]");
     /* the next four mix reagents or products from run to run: no totals */
-    xt_col(&a, XK_KG, 0, "Unreacted reagent left in mass [kg]");
-    xt_col(&a, XK_KG, 0, "Over-halogenated products [kg]");
-    xt_col(&a, XK_KG, 0, "Isomer products [kg]");
-    xt_col(&a, XK_KG, 0, "Unreacted substrate [kg]");
+    xt_col(&a, LT_KG, 0, "Unreacted reagent left in mass [kg]");
+    xt_col(&a, LT_KG, 0, "Over-halogenated products [kg]");
+    xt_col(&a, LT_KG, 0, "Isomer products [kg]");
+    xt_col(&a, LT_KG, 0, "Unreacted substrate [kg]");
     for (int v = 0; v < VS_COUNT; v++)
         if (vent_get(v)->retained)
-            xt_col(&a, XK_KG, 1, "%s retained in mass [kg]", vent_name(v));
+            xt_col(&a, LT_KG, 1, "%s retained in mass [kg]", vent_name(v));
     xo_table(w, "Waste by run", &a);
 }
 
@@ -2216,15 +1982,15 @@ static void xo_spent(struct xw *w)
                        .notes = {"Hypochlorite/hypobromite liquor releases halogen with acid: never mix "
                                  "with acid waste."},
                        .nnotes = 1};
-    xt_col(&s, XK_TEXT, 0, "Spent liquor from");
-    xt_col(&s, XK_DATE, 0, "Drained (plant time)");
-    xt_col(&s, XK_TEXT, 0, "Still in unit");
-    xt_col(&s, XK_KG, 1, "Liquor [kg]");
-    xt_col(&s, XK_KG, 1, "NaOH left, as 100 %% [kg]");
-    xt_col(&s, XK_KG, 1, "Water [kg]");
-    xt_col(&s, XK_KG, 1, "HCl [kg]");
+    xt_col(&s, LT_TEXT, 0, "Spent liquor from");
+    xt_col(&s, LT_DATE, 0, "Drained (plant time)");
+    xt_col(&s, LT_TEXT, 0, "Still in unit");
+    xt_col(&s, LT_KG, 1, "Liquor [kg]");
+    xt_col(&s, LT_KG, 1, "NaOH left, as 100 %% [kg]");
+    xt_col(&s, LT_KG, 1, "Water [kg]");
+    xt_col(&s, LT_KG, 1, "HCl [kg]");
     for (int q = 0; q < SALT_COUNT; q++)
-        xt_col(&s, XK_KG, 1, "%s [kg]", xo_salt(q));
+        xt_col(&s, LT_KG, 1, "%s [kg]", xo_salt(q));
     xo_table(w, "Spent liquor", &s);
 }
 
@@ -2239,7 +2005,7 @@ static void row_month(struct xw *w, struct xtable *b, lxw_row_t row, int i)
 {
     const struct ledger_month *m = &w->l->months[i];
     char mt[32];
-    xo_month_text(m->month_index, mt, sizeof mt);
+    isodate_month_text(m->month_index, mt, sizeof mt);
     xt_text(w, b, row, 0, mt);
     xt_num(w, b, row, MC_RUNS, m->runs);
     for (int g = 0; g < RG_COUNT; g++)
@@ -2273,12 +2039,12 @@ static void row_month_route(struct xw *w, struct xtable *b, lxw_row_t row, int i
     const struct ledger_month *m = &l->months[b->cur];
     const struct ledger_month_product *p = &m->products[b->sub++];
     char mt[32];
-    xo_month_text(m->month_index, mt, sizeof mt);
+    isodate_month_text(m->month_index, mt, sizeof mt);
     int k = 0;
     xt_text(w, b, row, k++, mt);
     xt_text(w, b, row, k++, p->substrate_name);
     xt_text(w, b, row, k++, p->substrate);
-    xt_text(w, b, row, k++, xo_item(p->reagent));
+    xt_text(w, b, row, k++, lt_item_name(p->reagent));
     xt_text(w, b, row, k++, p->wanted);
     xt_text(w, b, row, k++, p->wanted_formula);
     xt_num(w, b, row, k++, p->runs);
@@ -2311,25 +2077,25 @@ static void xo_month_yields(struct xw *w)
                                  "halogen efficiency = halogen atoms in the wanted product / halogen "
                                  "atoms charged (2 per Cl2, Br2, SO2Cl2; 1 per NBS, HBr)."},
                        .nnotes = 2};
-    xt_col(&b, XK_TEXT, 0, "Month");
-    xt_col(&b, XK_TEXT, 0, "Substrate");
-    xt_col(&b, XK_TEXT, 0, "Substrate (SMILES or formula)");
-    xt_col(&b, XK_TEXT, 0, "Reagent");
-    xt_col(&b, XK_TEXT, 0, "Wanted product (SMILES or formula)");
-    xt_col(&b, XK_TEXT, 0, "Wanted product (formula)");
+    xt_col(&b, LT_TEXT, 0, "Month");
+    xt_col(&b, LT_TEXT, 0, "Substrate");
+    xt_col(&b, LT_TEXT, 0, "Substrate (SMILES or formula)");
+    xt_col(&b, LT_TEXT, 0, "Reagent");
+    xt_col(&b, LT_TEXT, 0, "Wanted product (SMILES or formula)");
+    xt_col(&b, LT_TEXT, 0, "Wanted product (formula)");
     /* no totals: every row is another route */
-    xt_col(&b, XK_INT, 0, "Runs [count]");
-    xt_col(&b, XK_KG, 0, "Substrate charged [kg]");
-    xt_col(&b, XK_MOL, 0, "Substrate charged [mol]");
-    xt_col(&b, XK_MOL, 0, "Substrate converted [mol]");
-    xt_col(&b, XK_MOL, 0, "Wanted product [mol]");
-    xt_col(&b, XK_KG, 0, "Wanted product [kg]");
-    xt_col(&b, XK_MOL, 0, "Halogen atoms charged [mol]");
-    xt_col(&b, XK_MOL, 0, "Halogen atoms in wanted product [mol]");
-    xt_col(&b, XK_PCT1, 0, "Yield [%%]");
-    xt_col(&b, XK_PCT1, 0, "Substrate conversion [%%]");
-    xt_col(&b, XK_PCT1, 0, "Selectivity to wanted product [%%]");
-    xt_col(&b, XK_PCT1, 0, "Halogen efficiency [%%]");
+    xt_col(&b, LT_INT, 0, "Runs [count]");
+    xt_col(&b, LT_KG, 0, "Substrate charged [kg]");
+    xt_col(&b, LT_MOL, 0, "Substrate charged [mol]");
+    xt_col(&b, LT_MOL, 0, "Substrate converted [mol]");
+    xt_col(&b, LT_MOL, 0, "Wanted product [mol]");
+    xt_col(&b, LT_KG, 0, "Wanted product [kg]");
+    xt_col(&b, LT_MOL, 0, "Halogen atoms charged [mol]");
+    xt_col(&b, LT_MOL, 0, "Halogen atoms in wanted product [mol]");
+    xt_col(&b, LT_PCT1, 0, "Yield [%%]");
+    xt_col(&b, LT_PCT1, 0, "Substrate conversion [%%]");
+    xt_col(&b, LT_PCT1, 0, "Selectivity to wanted product [%%]");
+    xt_col(&b, LT_PCT1, 0, "Halogen efficiency [%%]");
     b.fixw[2] = 24;
     b.fixw[4] = 24;
     xo_table(w, "Monthly yields", &b);
@@ -2372,28 +2138,28 @@ static void xo_monthly(struct xw *w)
 {
     const struct ledger *l = w->l;
     struct xtable b = {.fn = row_month, .nrows = l->nmonths, .empty_note = "No months."};
-    xt_col(&b, XK_TEXT, 0, "Month");
-    xt_col(&b, XK_INT, 1, "Runs [count]");
+    xt_col(&b, LT_TEXT, 0, "Month");
+    xt_col(&b, LT_INT, 1, "Runs [count]");
     for (int g = 0; g < RG_COUNT; g++)
         if (g == RG_NAOH)
-            xt_col(&b, XK_KG, 1, "Caustic solution bought, %s [kg]", w->caustic);
+            xt_col(&b, LT_KG, 1, "Caustic solution bought, %s [kg]", w->caustic);
         else if (g >= RG_CHARGEABLE) /* another liquor base: its make-up */
-            xt_col(&b, XK_KG, 1, "%s make-up bought, as bought [kg]", xo_item(g));
+            xt_col(&b, LT_KG, 1, "%s make-up bought, as bought [kg]", lt_item_name(g));
         else
-            xt_col(&b, XK_KG, 1, "%s charged [kg]", xo_item(g));
+            xt_col(&b, LT_KG, 1, "%s charged [kg]", lt_item_name(g));
     for (int s = 0; s < VS_COUNT; s++)
-        xt_col(&b, XK_KG, 1, "%s to scrubber [kg]", xo_vent(s));
+        xt_col(&b, LT_KG, 1, "%s to scrubber [kg]", xo_vent(s));
     /* both bases where both matter: NaOH the gas consumed and NaOH in the solution bought */
-    xt_col(&b, XK_KG, 1, "NaOH consumed, as 100 %% [kg]");
-    xt_col(&b, XK_KG, 1, "NaOH in the caustic bought, as 100 %% [kg]");
-    xt_col(&b, XK_KG, 1, "Dilution water for fresh charges [kg]");
-    xt_col(&b, XK_INT, 1, "Liquor changeouts [count]");
-    xt_col(&b, XK_KG, 1, "Spent liquor [kg]");
-    xt_col(&b, XK_KG, 1, "Succinimide [kg]");
+    xt_col(&b, LT_KG, 1, "NaOH consumed, as 100 %% [kg]");
+    xt_col(&b, LT_KG, 1, "NaOH in the caustic bought, as 100 %% [kg]");
+    xt_col(&b, LT_KG, 1, "Dilution water for fresh charges [kg]");
+    xt_col(&b, LT_INT, 1, "Liquor changeouts [count]");
+    xt_col(&b, LT_KG, 1, "Spent liquor [kg]");
+    xt_col(&b, LT_KG, 1, "Succinimide [kg]");
     for (int g = RG_CHARGEABLE; g < RG_COUNT; g++)
         if (g != RG_NAOH)
-            xt_col(&b, XK_KG, 1, "%s consumed, as 100 %% [kg]", xo_item(g));
-    xt_col(&b, XK_KG, 1, "CO2 given off by the liquors [kg]");
+            xt_col(&b, LT_KG, 1, "%s consumed, as 100 %% [kg]", lt_item_name(g));
+    xt_col(&b, LT_KG, 1, "CO2 given off by the liquors [kg]");
     xo_table(w, "Monthly", &b);
     xo_month_yields(w); /* its sheet sits between Monthly and Charts */
     if (w->st != HL_OK)
@@ -2450,20 +2216,10 @@ static void xo_monthly(struct xw *w)
 
 /* --- Warnings ------------------------------------------------------------ */
 
-static void row_warning(struct xw *w, struct xtable *b, lxw_row_t row, int i)
-{
-    const struct ledger_warning *x = &w->l->warnings[i];
-    xt_text(w, b, row, 0, x->run ? x->run : "(campaign)");
-    xt_text(w, b, row, 1, x->message);
-}
-
 static void xo_warnings(struct xw *w)
 {
-    struct xtable b = {.fn = row_warning, .nrows = w->l->nwarnings, .empty_note = "No warnings."};
-    xt_col(&b, XK_TEXT, 0, "Run");
-    xt_col(&b, XK_TEXT, 0, "Warning");
-    b.fixw[1] = 110;
-    xo_table(w, "Warnings", &b);
+    struct xtable b = {.empty_note = "No warnings."};
+    xo_lt_table(w, &lt_warnings, &b);
 }
 
 /* --- Cautions ------------------------------------------------------------ */
@@ -2531,11 +2287,11 @@ static void xo_cautions(struct xw *w)
 {
     int n = xo_caution_substance_rows(w->l);
     struct xtable b = {.fn = row_caution, .nrows = (n ? n : 1) + caution_estimate_count()};
-    xt_col(&b, XK_TEXT, 0, "Substance");
-    xt_col(&b, XK_TEXT, 0, "CAS number");
-    xt_col(&b, XK_TEXT, 0, "Topic");
-    xt_col(&b, XK_TEXT, 0, "Detail");
-    xt_col(&b, XK_TEXT, 0, "Source");
+    xt_col(&b, LT_TEXT, 0, "Substance");
+    xt_col(&b, LT_TEXT, 0, "CAS number");
+    xt_col(&b, LT_TEXT, 0, "Topic");
+    xt_col(&b, LT_TEXT, 0, "Detail");
+    xt_col(&b, LT_TEXT, 0, "Source");
     b.fixw[3] = 64; /* one page wide on A4 and Letter with the other three columns */
     b.fixw[4] = 30;
     xo_table(w, "Cautions", &b);
@@ -2571,10 +2327,10 @@ static void xo_assumptions(struct xw *w)
 {
     struct xtable b = {.fn = row_assumption, .nrows = w->l->noverrides + w->l->nassumptions,
                        .empty_note = "No assumptions recorded."};
-    xt_col(&b, XK_TEXT, 0, "What");
-    xt_col(&b, XK_GEN, 0, "Value");
-    xt_col(&b, XK_TEXT, 0, "Unit");
-    xt_col(&b, XK_TEXT, 0, "Origin");
+    xt_col(&b, LT_TEXT, 0, "What");
+    xt_col(&b, LT_GEN, 0, "Value");
+    xt_col(&b, LT_TEXT, 0, "Unit");
+    xt_col(&b, LT_TEXT, 0, "Origin");
     b.fixw[0] = 44;
     b.fixw[3] = 66;
     xo_table(w, "Assumptions", &b);
@@ -2592,7 +2348,7 @@ static void xo_assumptions(struct xw *w)
 
 static int xo_formats(struct xw *w)
 {
-    for (int k = 0; k < XK_COUNT; k++)
+    for (int k = 0; k < LT_NKIND; k++)
         for (int t = 0; t < 2; t++) {
             lxw_format *f = workbook_add_format(w->wb);
             if (!f)
@@ -2654,7 +2410,7 @@ static int xo_formats(struct xw *w)
      * top alignment, bold with a thin top rule for totals (xo_canon) */
     struct xo_made { lxw_format *f; const char *num; int bold; } made[XO_NSAME];
     int n = 0;
-    for (int k = 0; k < XK_COUNT; k++)
+    for (int k = 0; k < LT_NKIND; k++)
         for (int t = 0; t < 2; t++)
             made[n++] = (struct xo_made){w->fmt[k][t], xo_numfmt[k] ? xo_numfmt[k] : "", t};
     for (int d = 0; d < XO_NSIG; d++)
@@ -2754,7 +2510,7 @@ enum hl_status xlsx_out_write_opt(const struct ledger *l, const char *path, int 
     }
     w->l = l;
     w->e = e;
-    xo_caustic_basis(l, w->caustic, sizeof w->caustic);
+    lt_caustic_basis(l, w->caustic, sizeof w->caustic);
     lxw_workbook_options opt = {
         .constant_memory = (uint8_t)(stream > 0 || (stream < 0 && xo_cells(l) > XO_STREAM_CELLS)),
         .tmpdir = dir, .use_zip64 = LXW_FALSE};

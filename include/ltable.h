@@ -1,0 +1,124 @@
+/*
+ * ltable.h - the ledger's output tables as column lists, one per table, read by both
+ * writers (json_out.c, xlsx_out.c), so that a field is one entry and the JSON ledger and
+ * the workbook cannot drift apart.
+ *
+ * A table (struct lt_table) is a list of columns (struct lt_col).  Each entry names:
+ *   key    its JSON key (NULL: a sheet-only column);
+ *   head   its sheet header with the unit in brackets (NULL: JSON only);
+ *   kind   what the value is and the number format the sheet shows it in;
+ *   a getter: `get`, or, without one, the double (LT_IFIELD: int) at byte offset `off` of the
+ *          table's record (`rec`).
+ * The list is in JSON key order, which is public (design section 5: extend, never rename
+ * or reorder), so the JSON writer writes the keyed entries as listed.  The sheet takes the
+ * entries with a header in list order too, unless an entry gives its sheet column: `col`
+ * (1 = the first column) places it there and the entries after it follow it.  Where the
+ * two orders agree no entry gives a column; lt_sheet_order checks that the columns of a
+ * table come out 1..n, each once (tests/unit/test_ltable.c holds every table to it).
+ *
+ * One value (struct lt_val), two renderings:
+ *   LT_V_NUM   a number (JSON number; sheet cell in `kind`'s format, summed when LT_TOTAL)
+ *   LT_V_TEXT  text (JSON string; sheet text cell)
+ *   LT_V_DATE  plant minutes (JSON "2027-03-02T06:00", date only for LT_DAY; sheet date)
+ *   LT_V_BOOL  true/false (sheet "yes"/"no"; an alarm column LT_ALARM/LT_NOTICE shows the
+ *              marker and the raised word, `raised` or the value's own text, or "no")
+ *   LT_V_RUNS  run indices (JSON array of run ids; sheet the ids joined, cut at `cap` bytes)
+ *   LT_V_NULL  JSON null; the sheet shows the value's text, else the column's `none`, else
+ *              leaves the cell blank
+ *   LT_V_ABSENT the key is left out of the JSON object; blank cell
+ * Nothing here writes: the writers render the values, and each keeps what is not a column
+ * (nested objects and arrays of a record, sheet notes, charts, the Summary form).
+ */
+#ifndef LTABLE_H
+#define LTABLE_H
+
+#include <stddef.h>
+#include <stdint.h>
+#include "ledger.h"
+
+/* Number kinds: the sheet format of each is in xlsx_out.c (xo_numfmt). */
+enum lt_kind {
+    LT_TEXT, LT_DATE, LT_DAY, LT_INT, LT_KG, LT_MOL, LT_FRAC, LT_MOLFRAC, LT_PCT, LT_RATE,
+    LT_TEMP, LT_HEAT, LT_SCI, LT_GMOL, LT_LEN, LT_GEN, LT_PCT1, LT_KW, LT_NKIND
+};
+
+enum lt_vt { LT_V_NULL, LT_V_ABSENT, LT_V_NUM, LT_V_TEXT, LT_V_DATE, LT_V_BOOL, LT_V_RUNS };
+
+struct lt_val {
+    enum lt_vt t;
+    double num;                 /* LT_V_NUM */
+    int64_t min;                /* LT_V_DATE */
+    int on;                     /* LT_V_BOOL */
+    const char *text;           /* LT_V_TEXT: the text (never NULL); LT_V_NULL: the sheet's
+                                 * text for it (NULL: the column's none); LT_V_BOOL: the
+                                 * raised word (NULL: the column's raised) */
+    int wrap;                   /* the sheet writes the text wrapped */
+    const int *runs; int nruns; /* LT_V_RUNS: indices into ledger.runs */
+    char buf[200];              /* text the getter formats (text may point here) */
+};
+
+enum lt_flag {
+    LT_TOTAL = 1u,              /* the sheet sums the column (like things only) */
+    LT_ALARM = 2u,              /* yes/no alarm column: "!! WORD" when raised */
+    LT_NOTICE = 4u,             /* yes/no notice column: "! word" when raised */
+    LT_CAUSTIC = 8u,            /* head is a format with one %s: the caustic basis */
+    LT_IFIELD = 16u             /* the field at off is an int, not a double */
+};
+
+typedef void (*lt_get_fn)(const struct ledger *l, int i, int j, struct lt_val *v);
+
+struct lt_col {
+    const char *key;            /* JSON key; NULL: sheet only */
+    const char *head;           /* sheet header; NULL: JSON only */
+    enum lt_kind kind;
+    unsigned flags;             /* enum lt_flag */
+    int col;                    /* sheet column (1-based); 0: after the previous one */
+    size_t off;                 /* without get: offset of the field in the record */
+    lt_get_fn get;
+    const char *raised, *none;  /* see lt_val */
+    double width;               /* fixed sheet width in characters, 0 = from content */
+    int cap;                    /* LT_V_RUNS: sheet text cut at cap bytes (0: 400) */
+};
+
+struct lt_table {
+    const char *key;            /* the JSON member that holds the records */
+    const char *path;           /* where they are in the ledger ("runs[].products") */
+    const char *sheet;          /* the sheet the rows fill */
+    const struct lt_col *cols; int ncols;
+    int (*count)(const struct ledger *l);          /* records i = 0..count-1 */
+    int (*nsub)(const struct ledger *l, int i);    /* rows j of record i; NULL: one */
+    const void *(*rec)(const struct ledger *l, int i, int j); /* base of the off fields */
+};
+
+/* The tables: orders[] / Orders, scrubbers[] / Scrubber units (the record's scalars; its
+ * hourly, spent, column and emission members are the JSON writer's), permit_checks[] /
+ * Permit checks, stock_checks[] / Stock checks, runs[].products[] / Products (i run,
+ * j product), warnings[] / Warnings. */
+extern const struct lt_table lt_orders, lt_scrubbers, lt_permit_checks, lt_stock_checks,
+    lt_run_products, lt_warnings;
+/* All of them, for tests and tools that walk every table (LT_NTABLES entries). */
+#define LT_NTABLES 6
+extern const struct lt_table *const lt_tables[LT_NTABLES];
+
+/* Value of column c of t for record i, row j (j = 0 without nsub) into *v. */
+void lt_get(const struct lt_table *t, int c, const struct ledger *l, int i, int j,
+            struct lt_val *v);
+
+/* Sheet columns of t: at[p] = the entry shown in column p (0-based); returns their number,
+ * or -1 when the entries' columns are not 1..n each once or more than max. */
+int lt_sheet_order(const struct lt_table *t, int *at, int max);
+
+/* Rows of t in its sheet: count, or the sum of nsub over the records. */
+int lt_nrows(const struct lt_table *t, const struct ledger *l);
+
+/* Header of c into buf (the caustic basis put in for LT_CAUSTIC). */
+void lt_head(const struct lt_col *c, const struct ledger *l, char *buf, size_t n);
+
+/* The basis of every "caustic solution bought" figure: "50 wt% NaOH" when the caustic units
+ * buy one make-up strength, else "at each unit's make-up strength"; into buf. */
+void lt_caustic_basis(const struct ledger *l, char *buf, size_t n);
+
+/* Campaign spelling of a reagent or item (NaOH), "unknown" for a bad id (static text). */
+const char *lt_item_name(int item);
+
+#endif
