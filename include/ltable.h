@@ -26,8 +26,21 @@
  *   LT_V_NULL  JSON null; the sheet shows the value's text, else the column's `none`, else
  *              leaves the cell blank
  *   LT_V_ABSENT the key is left out of the JSON object; blank cell
- * Nothing here writes: the writers render the values, and each keeps what is not a column
- * (nested objects and arrays of a record, sheet notes, charts, the Summary form).
+ *   LT_V_BAD   the JSON writer refuses the record (the value's text says why); blank cell
+ *
+ * Beyond single values a list says, for the JSON side, where a record's objects begin and end
+ * (an LT_OPEN entry, whose getter may make the object null, and an LT_CLOSE entry), where an
+ * array of rows of another list sits (`sub`: runs[].reaction.steps), and a family: one entry
+ * for a key and a column per vent species or salt (`each`, the member's name in the %s of key
+ * and head).  So a list can be written inside a record the JSON writer owns: the lists of
+ * Plan vs actual, Reaction heat, Emissions by run and Liquor by run are parts of each runs[]
+ * record, in its key order.
+ *
+ * Each list and its sheet are the same rows: a sheet row per record (count), or per row j of
+ * a record when the list has nsub (products of a run, routes of a month; 0 or 1 to take only
+ * some records, as the runs with an actual).  Nothing here writes: the writers render the
+ * values, and each keeps what is not a list (the rest of the runs[] record, the Runs, Waste,
+ * Hourly load, Column check, Spent liquor and Monthly sheets, notes, charts, the Summary).
  */
 #ifndef LTABLE_H
 #define LTABLE_H
@@ -42,7 +55,8 @@ enum lt_kind {
     LT_TEMP, LT_HEAT, LT_SCI, LT_GMOL, LT_LEN, LT_GEN, LT_PCT1, LT_KW, LT_NKIND
 };
 
-enum lt_vt { LT_V_NULL, LT_V_ABSENT, LT_V_NUM, LT_V_TEXT, LT_V_DATE, LT_V_BOOL, LT_V_RUNS };
+enum lt_vt { LT_V_NULL, LT_V_ABSENT, LT_V_NUM, LT_V_TEXT, LT_V_DATE, LT_V_BOOL, LT_V_RUNS,
+             LT_V_BAD };
 
 struct lt_val {
     enum lt_vt t;
@@ -54,7 +68,8 @@ struct lt_val {
                                  * raised word (NULL: the column's raised) */
     int wrap;                   /* the sheet writes the text wrapped */
     const int *runs; int nruns; /* LT_V_RUNS: indices into ledger.runs */
-    char buf[200];              /* text the getter formats (text may point here) */
+    int item;                   /* in: the member of a family entry (lt_each) */
+    char buf[512];              /* text the getter formats (text may point here) */
 };
 
 enum lt_flag {
@@ -62,8 +77,18 @@ enum lt_flag {
     LT_ALARM = 2u,              /* yes/no alarm column: "!! WORD" when raised */
     LT_NOTICE = 4u,             /* yes/no notice column: "! word" when raised */
     LT_CAUSTIC = 8u,            /* head is a format with one %s: the caustic basis */
-    LT_IFIELD = 16u             /* the field at off is an int, not a double */
+    LT_IFIELD = 16u,            /* the field at off is an int, not a double */
+    LT_OPEN = 32u,              /* JSON: opens the object `key`; a getter that gives LT_V_NULL
+                                 * writes "key": null and leaves out its members */
+    LT_CLOSE = 64u              /* JSON: closes the object opened last */
 };
+
+/* A family entry stands for one column and one key per member: key and head are formats
+ * with one %s for the member's name, the getter reads lt_val.item (and off the item-th
+ * double of an array). */
+enum lt_each { LT_ONE, LT_EACH_VENT, LT_EACH_SALT };
+
+struct lt_table;
 
 typedef void (*lt_get_fn)(const struct ledger *l, int i, int j, struct lt_val *v);
 
@@ -78,6 +103,8 @@ struct lt_col {
     const char *raised, *none;  /* see lt_val */
     double width;               /* fixed sheet width in characters, 0 = from content */
     int cap;                    /* LT_V_RUNS: sheet text cut at cap bytes (0: 400) */
+    enum lt_each each;
+    const struct lt_table *sub; /* JSON only: "key": [ a row object per sub->nsub(l, i) ] */
 };
 
 struct lt_table {
@@ -96,23 +123,39 @@ struct lt_table {
  * j product), warnings[] / Warnings. */
 extern const struct lt_table lt_orders, lt_scrubbers, lt_permit_checks, lt_stock_checks,
     lt_run_products, lt_warnings;
+/* months[].products[] / Monthly yields (i month, j route); lists written inside each runs[]
+ * record (i run): actual{} and variance{} / Plan vs actual (the runs with an actual),
+ * reaction{} (with its steps[]) and withdrawal{} / Reaction heat, emissions_kg{} and
+ * emissions_breakthrough_kg / Emissions by run. */
+extern const struct lt_table lt_month_products, lt_run_actuals, lt_run_reaction, lt_run_emissions;
+/* runs[].scrubber{} / Liquor by run (the runs routed to a scrubber): the liquor after each run. */
+extern const struct lt_table lt_run_liquor;
 /* All of them, for tests and tools that walk every table (LT_NTABLES entries). */
-#define LT_NTABLES 6
+#define LT_NTABLES 11
 extern const struct lt_table *const lt_tables[LT_NTABLES];
 
-/* Value of column c of t for record i, row j (j = 0 without nsub) into *v. */
-void lt_get(const struct lt_table *t, int c, const struct ledger *l, int i, int j,
+/* Value of member `item` (0 for a single entry) of column c of t for record i, row j (j = 0
+ * without nsub) into *v. */
+void lt_get(const struct lt_table *t, int c, int item, const struct ledger *l, int i, int j,
             struct lt_val *v);
 
-/* Sheet columns of t: at[p] = the entry shown in column p (0-based); returns their number,
- * or -1 when the entries' columns are not 1..n each once or more than max. */
-int lt_sheet_order(const struct lt_table *t, int *at, int max);
+/* Members of entry c: 1, or the family's (VS_COUNT vent species, SALT_COUNT salts). */
+int lt_items(const struct lt_col *c);
+
+/* Sheet columns of t: column p (0-based) shows member item[p] of entry at[p]; a family's
+ * members take consecutive columns.  Returns the number of columns, or -1 when the entries'
+ * columns are not 1..n each once or more than max. */
+int lt_sheet_order(const struct lt_table *t, int *at, int *item, int max);
 
 /* Rows of t in its sheet: count, or the sum of nsub over the records. */
 int lt_nrows(const struct lt_table *t, const struct ledger *l);
 
-/* Header of c into buf (the caustic basis put in for LT_CAUSTIC). */
-void lt_head(const struct lt_col *c, const struct ledger *l, char *buf, size_t n);
+/* Header of member item of c into buf (the member's name, or the caustic basis for
+ * LT_CAUSTIC, put in for its %s). */
+void lt_head(const struct lt_col *c, int item, const struct ledger *l, char *buf, size_t n);
+
+/* JSON key of member item of c into buf (the member's name put in for a family's %s). */
+void lt_key(const struct lt_col *c, int item, char *buf, size_t n);
 
 /* The basis of every "caustic solution bought" figure: "50 wt% NaOH" when the caustic units
  * buy one make-up strength, else "at each unit's make-up strength"; into buf. */

@@ -555,26 +555,78 @@ static void jo_run_ids(struct jo *w, const struct ledger *l, const char *key, co
     jo_close(w, ']');
 }
 
-/* The keyed columns of table t (ltable.h) for record i, row j, as members of the open
- * object, in the list's order (the JSON key order). */
+/* One value of a list entry (ltable.h) as member key of the open object. */
+static void jo_value(struct jo *w, const struct ledger *l, const char *key, enum lt_kind kind,
+                     const struct lt_val *v)
+{
+    switch (v->t) {
+    case LT_V_ABSENT: break;
+    case LT_V_NULL: jo_null(w, key); break;
+    case LT_V_NUM: jo_num(w, key, v->num); break;
+    case LT_V_TEXT: jo_str(w, key, v->text); break;
+    case LT_V_DATE: jo_date(w, key, v->min, kind == LT_DAY); break;
+    case LT_V_BOOL: jo_bool(w, key, v->on); break;
+    case LT_V_RUNS: jo_run_ids(w, l, key, v->runs, v->nruns); break;
+    case LT_V_BAD: jo_bad(w, key, v->text); break;
+    }
+}
+
+static void jo_rows(struct jo *w, const struct lt_table *t, const struct ledger *l, int i,
+                    const char *key);
+
+/* The keyed entries of table t (ltable.h) for record i, row j, as members of the open
+ * object, in the list's order (the JSON key order): objects opened and closed where the
+ * list says (a null one's members left out), a family one member per key, a sub-table an
+ * array of its rows. */
 static void jo_cols(struct jo *w, const struct lt_table *t, const struct ledger *l, int i, int j)
 {
     struct lt_val v;
+    int skip = 0; /* depth inside an object written as null */
     for (int c = 0; c < t->ncols && w->st == HL_OK; c++) {
-        const char *key = t->cols[c].key;
-        if (!key)
+        const struct lt_col *e = &t->cols[c];
+        if (skip) {
+            skip += (e->flags & LT_OPEN) ? 1 : (e->flags & LT_CLOSE) ? -1 : 0;
             continue;
-        lt_get(t, c, l, i, j, &v);
-        switch (v.t) {
-        case LT_V_ABSENT: break;
-        case LT_V_NULL: jo_null(w, key); break;
-        case LT_V_NUM: jo_num(w, key, v.num); break;
-        case LT_V_TEXT: jo_str(w, key, v.text); break;
-        case LT_V_DATE: jo_date(w, key, v.min, t->cols[c].kind == LT_DAY); break;
-        case LT_V_BOOL: jo_bool(w, key, v.on); break;
-        case LT_V_RUNS: jo_run_ids(w, l, key, v.runs, v.nruns); break;
+        }
+        if (e->flags & LT_CLOSE) {
+            jo_close(w, '}');
+        } else if (!e->key) {
+            continue; /* a sheet-only column */
+        } else if (e->flags & LT_OPEN) {
+            v.t = LT_V_BOOL;
+            if (e->get)
+                lt_get(t, c, 0, l, i, j, &v);
+            if (v.t == LT_V_NULL) {
+                jo_null(w, e->key);
+                skip = 1;
+            } else {
+                jo_open(w, e->key, '{');
+            }
+        } else if (e->sub) {
+            jo_rows(w, e->sub, l, i, e->key);
+        } else {
+            for (int k = 0; k < lt_items(e); k++) {
+                char key[64];
+                lt_key(e, k, key, sizeof key);
+                lt_get(t, c, k, l, i, j, &v);
+                jo_value(w, l, key, e->kind, &v);
+            }
         }
     }
+}
+
+/* "key": [ an object per row of table t under record i ]. */
+static void jo_rows(struct jo *w, const struct lt_table *t, const struct ledger *l, int i,
+                    const char *key)
+{
+    jo_open(w, key, '[');
+    int n = t->nsub ? t->nsub(l, i) : 1;
+    for (int j = 0; j < n && w->st == HL_OK; j++) {
+        jo_open(w, NULL, '{');
+        jo_cols(w, t, l, i, j);
+        jo_close(w, '}');
+    }
+    jo_close(w, ']');
 }
 
 /* A top-level record of table t: {columns}. */
@@ -592,171 +644,6 @@ static void jo_species(struct jo *w, const double *mol)
 {
     for (int s = 0; s < VS_COUNT; s++)
         jo_num(w, vent_get(s)->mol_key, mol[s]);
-}
-
-static void jo_num_or_null(struct jo *w, const char *key, int has, double v)
-{
-    if (has)
-        jo_num(w, key, v);
-    else
-        jo_null(w, key);
-}
-
-/* runs[].actual (null while planned) and runs[].variance (done runs only, else null) */
-static void jo_actual(struct jo *w, const struct ledger_run *r)
-{
-    const struct ledger_actual *a = &r->actual;
-    const struct ledger_variance *v = r->var;
-    if (a->status == LEDGER_PLANNED) {
-        jo_null(w, "actual");
-        jo_null(w, "variance");
-        return;
-    }
-    jo_open(w, "actual", '{');
-    jo_str(w, "status", a->status == LEDGER_DONE ? "done" : "cancelled");
-    jo_num_or_null(w, "reagent_kg", a->given & LEDGER_ACT_REAGENT, a->reagent_kg);
-    jo_num_or_null(w, "product_kg", a->given & LEDGER_ACT_PRODUCT, a->product_kg);
-    jo_num_or_null(w, "naoh_kg", a->given & LEDGER_ACT_NAOH, a->naoh_kg);
-    if (a->given & LEDGER_ACT_END)
-        jo_date(w, "end", a->end_min, 0);
-    else
-        jo_null(w, "end");
-    jo_close(w, '}');
-    if (a->status != LEDGER_DONE) {
-        jo_null(w, "variance");
-        return;
-    }
-    jo_open(w, "variance", '{');
-    jo_num(w, "reagent_kg_plan", v->reagent_kg_plan);
-    jo_num_or_null(w, "reagent_kg", v->has_reagent, v->reagent_kg);
-    jo_num_or_null(w, "reagent_pct", v->has_reagent, v->reagent_pct);
-    jo_num(w, "product_kg_plan", v->product_kg_plan);
-    jo_num_or_null(w, "product_kg", v->has_product, v->product_kg);
-    jo_num_or_null(w, "product_pct", v->has_product && v->product_kg_plan > 0, v->product_pct);
-    jo_num(w, "yield_pct_plan", v->yield_pct_plan);
-    jo_num_or_null(w, "yield_pct_actual", v->has_product, v->yield_pct_actual);
-    jo_num(w, "naoh_kg_plan", v->naoh_kg_plan);
-    jo_num_or_null(w, "naoh_kg", v->has_naoh, v->naoh_kg);
-    jo_num_or_null(w, "naoh_pct", v->has_naoh && v->naoh_pct_defined, v->naoh_pct);
-    jo_bool(w, "flagged", v->flagged);
-    jo_close(w, '}');
-}
-
-/* runs[].reaction and runs[].withdrawal (thermal.h): heat released, rates, adiabatic rise,
- * MTSR, criticality class (null when MTT or TD24 is missing) with its reasoning and the
- * step heats per site; withdrawal null for a reagent not drawn as gas from a container. */
-static void jo_reaction(struct jo *w, const struct ledger_run *r)
-{
-    const struct therm_out *t = &r->therm;
-    jo_open(w, "reaction", '{');
-    jo_num(w, "heat_kj", t->heat_kj);
-    jo_num(w, "mean_kw", t->mean_kw);
-    jo_num(w, "peak_kw", t->peak_kw);
-    jo_num(w, "delta_t_ad_k", t->delta_t_ad_k);
-    jo_num(w, "mtsr_c", t->mtsr_c);
-    if (t->crit_class > 0)
-        jo_num(w, "criticality_class", t->crit_class);
-    else
-        jo_null(w, "criticality_class");
-    char why[480];
-    therm_reason_text(t, r->temp_c, r->mtt_c, r->td24_c, why, sizeof why);
-    jo_str(w, "class_reason", why);
-    jo_num(w, "dh_kj_mol", t->dh_kj_mol);
-    jo_num(w, "dh_uncertainty_kj_mol", t->dh_unc_kj_mol);
-    jo_bool(w, "site_assumed", t->site_assumed);
-    jo_open(w, "steps", '[');
-    for (int s = 0; s < THERM_NSITE; s++) {
-        if (!(t->share[s] > 0))
-            continue;
-        jo_open(w, NULL, '{');
-        jo_str(w, "site", therm_step_name(r->reagent, s));
-        jo_num(w, "share", t->share[s]);
-        jo_num(w, "dh_kj_mol", t->step_dh_kj_mol[s]);
-        jo_close(w, '}');
-    }
-    jo_close(w, ']');
-    jo_num(w, "mass_kg", r->therm_mass_kg);
-    jo_num(w, "cp_kj_kg_k", r->therm_cp_kj_kg_k);
-    jo_num(w, "accumulation", r->therm_accumulation);
-    if (r->has_mtt)
-        jo_num(w, "mtt_c", r->mtt_c);
-    else
-        jo_null(w, "mtt_c");
-    if (r->has_td24)
-        jo_num(w, "td24_c", r->td24_c);
-    else
-        jo_null(w, "td24_c");
-    jo_bool(w, "mtsr_reaches_mtt", t->mtsr_over_mtt);
-    jo_bool(w, "mtsr_reaches_td24", t->mtsr_over_td24);
-    jo_str(w, "source", therm_bde_origin);
-    jo_close(w, '}');
-    if (!r->has_withdrawal) {
-        jo_null(w, "withdrawal");
-        return;
-    }
-    jo_open(w, "withdrawal", '{');
-    jo_str(w, "container", r->withdrawal_container);
-    jo_num(w, "kg_h", r->withdrawal.kg_h);
-    jo_num(w, "container_kg_h", r->withdrawal.container_kg_h);
-    jo_num(w, "containers_on_line", r->withdrawal.containers_on_line);
-    jo_bool(w, "evaporator_needed", r->withdrawal.evaporator_needed);
-    jo_close(w, '}');
-}
-
-/* A run's products[] (the rows listed, the lumped "other" row with its label). */
-static void jo_run_products(struct jo *w, const struct ledger *l, int i)
-{
-    jo_open(w, "products", '[');
-    for (int p = 0; p < l->runs[i].bal.nproducts && w->st == HL_OK; p++) {
-        jo_open(w, NULL, '{');
-        jo_cols(w, &lt_run_products, l, i, p);
-        jo_close(w, '}');
-    }
-    jo_close(w, ']');
-}
-
-/* A run's scrubber{} object: its liquor after the run. */
-static void jo_run_scrubber(struct jo *w, const struct ledger_run *r, int base)
-{
-    const struct scrub_run_out *s = &r->scrub;
-    jo_open(w, "scrubber", '{');
-    jo_str(w, "id", r->scrubber);
-    jo_num(w, "naoh_kg", s->naoh_kg);
-    jo_num(w, "heat_kj", s->heat_kj);
-    jo_num(w, "temp_rise_k", s->temp_rise_k);
-    jo_bool(w, "changeout_before", s->changeout_before);
-    jo_bool(w, "exhausted", s->exhausted);
-    jo_num(w, "naoh_left_kg", s->naoh_left_kg);
-    jo_num(w, "liquor_kg_after", s->liquor_kg_after);
-    jo_num(w, "naoh_wt_pct_after", s->naoh_wt_pct_after);
-    jo_open(w, "salts_kg", '{');
-    for (int k = 0; k < SALT_COUNT; k++)
-        jo_num(w, jo_salt_key(k), s->salt_kg[k]);
-    jo_close(w, '}');
-    jo_num(w, "water_formed_kg", s->water_formed_kg);
-    jo_num(w, "acid_wt_pct_after", s->acid_wt_pct_after);
-    jo_num(w, "liquor_temp_c_after", s->liquor_temp_c_after);
-    jo_num(w, "heat_kw", s->heat_kw);
-    jo_bool(w, "too_hot", s->too_hot);
-    jo_num(w, "sulfite_oxidised_mol", s->sulfite_oxidised_mol);
-    jo_num(w, "breakthrough_mol", s->breakthrough_mol);
-    jo_num(w, "unabsorbed_mol", s->unabsorbed_mol);
-    jo_num(w, "caustic_solution_kg", r->changeout_caustic_solution_kg);
-    jo_num(w, "dilution_water_kg", r->changeout_water_kg);
-    jo_num(w, "hbr_wt_pct_after", s->hbr_wt_pct_after);
-    jo_num(w, "boiling_point_c", s->boiling_point_c);
-    jo_bool(w, "boils", s->boils);
-    /* base-neutral figures (any liquor base; the naoh_ keys above are NaOH's only) */
-    if (base >= 0)
-        jo_str(w, "base", reagent_get(base)->name);
-    else
-        jo_null(w, "base");
-    jo_num(w, "base_kg", s->base_kg);
-    jo_num(w, "base_left_kg", s->base_left_kg);
-    jo_num(w, "base_wt_pct_after", s->base_wt_pct_after);
-    jo_num(w, "makeup_kg", r->changeout_makeup_kg);
-    jo_num(w, "co2_kg", s->co2_kg);
-    jo_close(w, '}');
 }
 
 /* A run's element_balance{}: the largest relative error and each element in and out. */
@@ -814,7 +701,7 @@ static void jo_run(struct jo *w, const struct ledger *l, int i)
     jo_bool(w, "capped", b->capped);
     jo_num(w, "mean_degree", b->mean_degree);
 
-    jo_run_products(w, l, i);
+    jo_rows(w, &lt_run_products, l, i, "products"); /* the rows listed, the lumped "other" row */
 
     jo_open(w, "byproducts", '{');
     jo_num(w, "HCl_kg", b->hx_kg[0]);
@@ -839,7 +726,7 @@ static void jo_run(struct jo *w, const struct ledger *l, int i)
     jo_num(w, "unreacted_substrate_kg", b->unreacted_substrate_kg);
     jo_close(w, '}');
 
-    jo_run_scrubber(w, r, r->scrubber_index >= 0 ? l->scrubbers[r->scrubber_index].base : -1);
+    jo_cols(w, &lt_run_liquor, l, i, 0); /* scrubber{}: its liquor after the run */
 
     jo_run_elements(w, &r->bal);
     jo_bool(w, "isomers_resolved", b->isomers_resolved);
@@ -854,47 +741,12 @@ static void jo_run(struct jo *w, const struct ledger *l, int i)
     else
         jo_null(w, "selectivity_pct"); /* nothing converted: no selectivity */
     jo_num(w, "halogen_efficiency_pct", b->halogen_efficiency_pct);
-    jo_reaction(w, r);
+    jo_cols(w, &lt_run_reaction, l, i, 0); /* reaction{} (thermal.h), withdrawal{} or null */
     if (b->warning)
         jo_str(w, "warning", b->warning);
-    jo_actual(w, r);
-    jo_open(w, "emissions_kg", '{'); /* what leaves the stack after the scrubber */
-    for (int v = 0; v < VS_COUNT; v++)
-        jo_num(w, jo_vent_key(v), s->emis_kg[v]);
-    jo_close(w, '}');
-    jo_num(w, "emissions_breakthrough_kg", s->emis_breakthrough_kg);
+    jo_cols(w, &lt_run_actuals, l, i, 0); /* actual{} (null while planned), variance{} (done) */
+    jo_cols(w, &lt_run_emissions, l, i, 0); /* what leaves the stack after the scrubber */
     jo_end(w);
-}
-
-static void jo_month_products(struct jo *w, const struct ledger_month *m)
-{
-    jo_open(w, "products", '[');
-    for (int j = 0; j < m->nproducts && w->st == HL_OK; j++) {
-        const struct ledger_month_product *p = &m->products[j];
-        jo_open(w, NULL, '{');
-        jo_str(w, "substrate_name", p->substrate_name);
-        jo_str(w, "substrate", p->substrate);
-        jo_str(w, "reagent", lt_item_name(p->reagent));
-        jo_str(w, "wanted", p->wanted);
-        jo_str(w, "wanted_formula", p->wanted_formula);
-        jo_num(w, "runs", p->runs);
-        jo_num(w, "substrate_kg", p->substrate_kg);
-        jo_num(w, "substrate_mol", p->substrate_mol);
-        jo_num(w, "converted_mol", p->converted_mol);
-        jo_num(w, "wanted_mol", p->wanted_mol);
-        jo_num(w, "wanted_kg", p->wanted_kg);
-        jo_num(w, "halogen_charged_mol", p->halogen_charged_mol);
-        jo_num(w, "halogen_in_wanted_mol", p->halogen_in_wanted_mol);
-        jo_num(w, "yield_pct", p->yield_pct);
-        jo_num(w, "conversion_pct", p->conversion_pct);
-        if (p->selectivity_defined)
-            jo_num(w, "selectivity_pct", p->selectivity_pct);
-        else
-            jo_null(w, "selectivity_pct");
-        jo_num(w, "halogen_efficiency_pct", p->halogen_efficiency_pct);
-        jo_close(w, '}');
-    }
-    jo_close(w, ']');
 }
 
 static void jo_month(struct jo *w, const struct ledger *l, int i)
@@ -933,7 +785,7 @@ static void jo_month(struct jo *w, const struct ledger *l, int i)
         jo_num(w, lt_item_name(k), m->base_kg[k]);
     jo_close(w, '}');
     jo_num(w, "co2_kg", m->co2_kg);
-    jo_month_products(w, m);
+    jo_rows(w, &lt_month_products, l, i, "products");
     const struct ledger_month_close *k = &m->close;
     jo_open(w, "close", '{');
     jo_num(w, "runs_done", k->done);

@@ -7,6 +7,7 @@
 #include "ltable.h"
 
 #include "isodate.h"
+#include "liquor.h"
 
 #include <stdio.h>
 #include <string.h>
@@ -41,23 +42,51 @@ void lt_caustic_basis(const struct ledger *l, char *buf, size_t n)
         snprintf(buf, n, "at each unit's make-up strength");
 }
 
-void lt_head(const struct lt_col *c, const struct ledger *l, char *buf, size_t n)
+int lt_items(const struct lt_col *c)
 {
-    if (!(c->flags & LT_CAUSTIC)) {
-        snprintf(buf, n, "%s", c->head ? c->head : "");
-        return;
-    }
-    char basis[48];
-    lt_caustic_basis(l, basis, sizeof basis);
-    char *at = strstr(c->head, "%s");
-    if (!at) {
-        snprintf(buf, n, "%s", c->head);
-        return;
-    }
-    snprintf(buf, n, "%.*s%s%s", (int)(at - c->head), c->head, basis, at + 2);
+    return c->each == LT_EACH_VENT ? VS_COUNT : c->each == LT_EACH_SALT ? SALT_COUNT : 1;
 }
 
-void lt_get(const struct lt_table *t, int c, const struct ledger *l, int i, int j, struct lt_val *v)
+/* Name of member k of a family. */
+static const char *member(enum lt_each each, int k)
+{
+    const char *n = each == LT_EACH_VENT ? vent_name(k) : liquor_salt_get(k)->name;
+    return n ? n : "gas";
+}
+
+/* fmt with its one %s replaced by s, into buf. */
+static void put_in(const char *fmt, const char *s, char *buf, size_t n)
+{
+    const char *at = strstr(fmt, "%s");
+    if (!at)
+        snprintf(buf, n, "%s", fmt);
+    else
+        snprintf(buf, n, "%.*s%s%s", (int)(at - fmt), fmt, s, at + 2);
+}
+
+void lt_head(const struct lt_col *c, int item, const struct ledger *l, char *buf, size_t n)
+{
+    char basis[48];
+    if (c->each != LT_ONE) {
+        put_in(c->head ? c->head : "", member(c->each, item), buf, n);
+    } else if (c->flags & LT_CAUSTIC) {
+        lt_caustic_basis(l, basis, sizeof basis);
+        put_in(c->head, basis, buf, n);
+    } else {
+        snprintf(buf, n, "%s", c->head ? c->head : "");
+    }
+}
+
+void lt_key(const struct lt_col *c, int item, char *buf, size_t n)
+{
+    if (c->each != LT_ONE)
+        put_in(c->key ? c->key : "", member(c->each, item), buf, n);
+    else
+        snprintf(buf, n, "%s", c->key ? c->key : "");
+}
+
+void lt_get(const struct lt_table *t, int c, int item, const struct ledger *l, int i, int j,
+            struct lt_val *v)
 {
     const struct lt_col *col = &t->cols[c];
     v->t = LT_V_NULL;
@@ -65,26 +94,27 @@ void lt_get(const struct lt_table *t, int c, const struct ledger *l, int i, int 
     v->wrap = 0;
     v->runs = NULL;
     v->nruns = 0;
+    v->item = item;
     if (col->get) {
         col->get(l, i, j, v);
         return;
     }
-    const char *base = t->rec(l, i, j);
+    const char *base = (const char *)t->rec(l, i, j) + col->off;
     v->t = LT_V_NUM;
     if (col->flags & LT_IFIELD) {
         int x;
-        memcpy(&x, base + col->off, sizeof x);
+        memcpy(&x, base + (size_t)item * sizeof x, sizeof x);
         v->num = x;
     } else {
-        memcpy(&v->num, base + col->off, sizeof v->num);
+        memcpy(&v->num, base + (size_t)item * sizeof v->num, sizeof v->num);
     }
 }
 
-int lt_sheet_order(const struct lt_table *t, int *at, int max)
+int lt_sheet_order(const struct lt_table *t, int *at, int *item, int max)
 {
     int n = 0, p = 0;
     for (int c = 0; c < t->ncols; c++)
-        n += t->cols[c].head != NULL;
+        n += t->cols[c].head ? lt_items(&t->cols[c]) : 0;
     if (n > max)
         return -1;
     for (int k = 0; k < n; k++)
@@ -93,9 +123,12 @@ int lt_sheet_order(const struct lt_table *t, int *at, int max)
         if (!t->cols[c].head)
             continue;
         p = t->cols[c].col > 0 ? t->cols[c].col - 1 : p;
-        if (p >= n || at[p] >= 0)
-            return -1;
-        at[p++] = c;
+        for (int m = 0; m < lt_items(&t->cols[c]); m++, p++) {
+            if (p >= n || at[p] >= 0)
+                return -1;
+            at[p] = c;
+            item[p] = m;
+        }
     }
     return n;
 }
@@ -113,6 +146,8 @@ int lt_nrows(const struct lt_table *t, const struct ledger *l)
 
 /* A getter: value of record i, row j of its table (ltable.h lt_get_fn). */
 #define GET(name) static void name(const struct ledger *l, int i, int j, struct lt_val *v)
+/* One of record i alone (the row j does not matter): one statement. */
+#define GET1(name, stmt) GET(name) { (void)j; stmt; }
 
 static void text(struct lt_val *v, const char *s)
 {
@@ -161,13 +196,13 @@ GET(ord_month)
     isodate_month_text(ORD(i)->month_index, v->buf, sizeof v->buf);
     text(v, v->buf);
 }
-GET(ord_item) { (void)j; text(v, lt_item_name(ORD(i)->item)); }
-GET(ord_container) { (void)j; text(v, ORD(i)->container); }
-GET(ord_first_use) { (void)j; date(v, ORD(i)->first_use_min); }
+GET1(ord_item, text(v, lt_item_name(ORD(i)->item)))
+GET1(ord_container, text(v, ORD(i)->container))
+GET1(ord_first_use, date(v, ORD(i)->first_use_min))
 /* date only, truncated: ordering on that day is never later than required */
-GET(ord_order_by) { (void)j; date(v, ORD(i)->order_by_min); }
-GET(ord_late) { (void)j; flag(v, ORD(i)->late); }
-GET(ord_no_container) { (void)j; flag(v, ORD(i)->no_container); }
+GET1(ord_order_by, date(v, ORD(i)->order_by_min))
+GET1(ord_late, flag(v, ORD(i)->late))
+GET1(ord_no_container, flag(v, ORD(i)->no_container))
 
 /* gas fed from containers: the most on line at once, which can exceed those consumed */
 GET(ord_peak)
@@ -260,8 +295,8 @@ static const void *chk_rec(const struct ledger *l, int i, int j)
 }
 #define CHK(i) (&l->stock_checks[i])
 
-GET(chk_reagent) { (void)j; text(v, lt_item_name(CHK(i)->reagent)); }
-GET(chk_date) { (void)j; date(v, CHK(i)->date_min); }
+GET1(chk_reagent, text(v, lt_item_name(CHK(i)->reagent)))
+GET1(chk_date, date(v, CHK(i)->date_min))
 /* null: the book starts at the start of the campaign */
 GET(chk_since)
 {
@@ -314,14 +349,11 @@ static const void *pc_rec(const struct ledger *l, int i, int j)
 }
 #define PC(i) (&l->permit_checks[i])
 
-GET(pc_scrubber) { (void)j; text(v, l->scrubbers[PC(i)->unit].id); }
-GET(pc_species) { (void)j; text(v, vent_get(PC(i)->species)->name); }
-GET(pc_unit) { (void)j; text(v, emis_limit_unit(PC(i)->kind)); }
-GET(pc_averaging)
-{
-    (void)j;
-    text(v, PC(i)->kind == EMIS_T_YR ? "year" : PC(i)->averaging_day ? "day" : "hour");
-}
+GET1(pc_scrubber, text(v, l->scrubbers[PC(i)->unit].id))
+GET1(pc_species, text(v, vent_get(PC(i)->species)->name))
+GET1(pc_unit, text(v, emis_limit_unit(PC(i)->kind)))
+GET1(pc_averaging,
+     text(v, PC(i)->kind == EMIS_T_YR ? "year" : PC(i)->averaging_day ? "day" : "hour"))
 GET(pc_averaging_words)
 {
     (void)j;
@@ -348,12 +380,12 @@ static void pc_kind(const struct emis_check *x, int kind, int worst, struct lt_v
     else
         v->text = "no stack flow";
 }
-GET(pc_lim_kg) { (void)j; pc_kind(PC(i), EMIS_KG_H, 0, v); }
-GET(pc_val_kg) { (void)j; pc_kind(PC(i), EMIS_KG_H, 1, v); }
-GET(pc_lim_mg) { (void)j; pc_kind(PC(i), EMIS_MG_NM3, 0, v); }
-GET(pc_val_mg) { (void)j; pc_kind(PC(i), EMIS_MG_NM3, 1, v); }
-GET(pc_lim_t) { (void)j; pc_kind(PC(i), EMIS_T_YR, 0, v); }
-GET(pc_val_t) { (void)j; pc_kind(PC(i), EMIS_T_YR, 1, v); }
+GET1(pc_lim_kg, pc_kind(PC(i), EMIS_KG_H, 0, v))
+GET1(pc_val_kg, pc_kind(PC(i), EMIS_KG_H, 1, v))
+GET1(pc_lim_mg, pc_kind(PC(i), EMIS_MG_NM3, 0, v))
+GET1(pc_val_mg, pc_kind(PC(i), EMIS_MG_NM3, 1, v))
+GET1(pc_lim_t, pc_kind(PC(i), EMIS_T_YR, 0, v))
+GET1(pc_val_t, pc_kind(PC(i), EMIS_T_YR, 1, v))
 
 /* "2027-03-02T07:00", "2027-03-02" or "2027"; null when nothing leaves */
 GET(pc_at)
@@ -391,7 +423,7 @@ GET(pc_exceeded)
     if (PC(i)->has_value)
         flag(v, PC(i)->exceeded);
 }
-GET(pc_runs) { (void)j; runs(v, PC(i)->runs, PC(i)->nruns); }
+GET1(pc_runs, runs(v, PC(i)->runs, PC(i)->nruns))
 
 static const struct lt_col pc_cols[] = {
     {"scrubber", "Scrubber", LT_TEXT, .get = pc_scrubber},
@@ -430,14 +462,14 @@ static const void *su_rec(const struct ledger *l, int i, int j)
 #define SU(i) (&l->scrubbers[i])
 #define SUO(i) (&l->scrubbers[i].out)
 
-GET(su_id) { (void)j; text(v, SU(i)->id); }
+GET1(su_id, text(v, SU(i)->id))
 GET(su_peak_at)
 {
     (void)j;
     if (SUO(i)->nhours > 0)
         date(v, SUO(i)->peak_at_min);
 }
-GET(su_overloaded) { (void)j; flag(v, SUO(i)->overloaded); }
+GET1(su_overloaded, flag(v, SUO(i)->overloaded))
 GET(su_strength)
 {
     (void)j;
@@ -447,11 +479,7 @@ GET(su_strength)
         text(v, SU(i)->base < 0 ? "none (water liquor)" : "none (no NaOH in the liquor)");
 }
 /* the liquor's own base, whatever it is (the NaOH columns are NaOH's only); null: water */
-GET(su_base)
-{
-    (void)j;
-    text(v, SU(i)->base >= 0 ? lt_item_name(SU(i)->base) : NULL);
-}
+GET1(su_base, text(v, SU(i)->base >= 0 ? lt_item_name(SU(i)->base) : NULL))
 GET(su_base_strength)
 {
     (void)j;
@@ -460,29 +488,21 @@ GET(su_base_strength)
     else
         text(v, "none (water liquor)");
 }
-GET(su_peak_runs) { (void)j; runs(v, SUO(i)->peak_runs, SUO(i)->npeak_runs); }
+GET1(su_peak_runs, runs(v, SUO(i)->peak_runs, SUO(i)->npeak_runs))
 GET(su_instant_at)
 {
     (void)j;
     if (SUO(i)->npeak_instant_runs > 0)
         date(v, SUO(i)->peak_instant_at_min);
 }
-GET(su_instant_runs)
-{
-    (void)j;
-    runs(v, SUO(i)->peak_instant_runs, SUO(i)->npeak_instant_runs);
-}
+GET1(su_instant_runs, runs(v, SUO(i)->peak_instant_runs, SUO(i)->npeak_instant_runs))
 GET(su_heat_at)
 {
     (void)j;
     if (SUO(i)->npeak_heat_runs > 0)
         date(v, SUO(i)->peak_heat_at_min);
 }
-GET(su_heat_runs)
-{
-    (void)j;
-    runs(v, SUO(i)->peak_heat_runs, SUO(i)->npeak_heat_runs);
-}
+GET1(su_heat_runs, runs(v, SUO(i)->peak_heat_runs, SUO(i)->npeak_heat_runs))
 
 #define SUF(f) OFF(struct ledger_scrubber, f)
 /* The sheet's make-up strengths are text for a water liquor, so each is its own column. */
@@ -552,8 +572,8 @@ static const void *pr_rec(const struct ledger *l, int i, int j)
 }
 #define PR(i, j) (&l->runs[i].bal.products[j])
 
-GET(pr_run) { (void)j; text(v, l->runs[i].id); }
-GET(pr_reagent) { (void)j; text(v, lt_item_name(l->runs[i].reagent)); }
+GET1(pr_run, text(v, l->runs[i].id))
+GET1(pr_reagent, text(v, lt_item_name(l->runs[i].reagent)))
 /* the lumped row (ROLE_OTHER) has no structure; the sheet says what it sums, so that it does
  * not read as one substance (wrapped: it must not print over the next column) */
 GET(pr_smiles)
@@ -626,6 +646,430 @@ const struct lt_table lt_run_products = {.key = "products", .path = "runs[].prod
     .sheet = "Products", .cols = pr_cols, .ncols = NCOLS(pr_cols), .count = pr_count,
     .nsub = pr_nsub, .rec = pr_rec};
 
+/* --- months[].products[] / Monthly yields (one row per month and route) --- */
+
+static int mp_count(const struct ledger *l) { return l->nmonths; }
+static int mp_nsub(const struct ledger *l, int i) { return l->months[i].nproducts; }
+static const void *mp_rec(const struct ledger *l, int i, int j)
+{
+    return &l->months[i].products[j];
+}
+#define MP(i, j) (&l->months[i].products[j])
+
+GET(mp_month)
+{
+    (void)j;
+    isodate_month_text(l->months[i].month_index, v->buf, sizeof v->buf);
+    text(v, v->buf);
+}
+GET(mp_substrate_name) { text(v, MP(i, j)->substrate_name); }
+GET(mp_substrate) { text(v, MP(i, j)->substrate); }
+GET(mp_reagent) { text(v, lt_item_name(MP(i, j)->reagent)); }
+GET(mp_wanted) { text(v, MP(i, j)->wanted); }
+GET(mp_wanted_formula) { text(v, MP(i, j)->wanted_formula); }
+GET(mp_selectivity)
+{
+    if (MP(i, j)->selectivity_defined) /* null: nothing converted */
+        num(v, MP(i, j)->selectivity_pct);
+}
+
+#define MPF(f) OFF(struct ledger_month_product, f)
+/* no totals: every row is another route */
+static const struct lt_col mp_cols[] = {
+    {NULL, "Month", LT_TEXT, .get = mp_month},
+    {"substrate_name", "Substrate", LT_TEXT, .get = mp_substrate_name},
+    {"substrate", "Substrate (SMILES or formula)", LT_TEXT, .get = mp_substrate, .width = 24},
+    {"reagent", "Reagent", LT_TEXT, .get = mp_reagent},
+    {"wanted", "Wanted product (SMILES or formula)", LT_TEXT, .get = mp_wanted, .width = 24},
+    {"wanted_formula", "Wanted product (formula)", LT_TEXT, .get = mp_wanted_formula},
+    {"runs", "Runs [count]", LT_INT, .flags = LT_IFIELD, .off = MPF(runs)},
+    {"substrate_kg", "Substrate charged [kg]", LT_KG, .off = MPF(substrate_kg)},
+    {"substrate_mol", "Substrate charged [mol]", LT_MOL, .off = MPF(substrate_mol)},
+    {"converted_mol", "Substrate converted [mol]", LT_MOL, .off = MPF(converted_mol)},
+    {"wanted_mol", "Wanted product [mol]", LT_MOL, .off = MPF(wanted_mol)},
+    {"wanted_kg", "Wanted product [kg]", LT_KG, .off = MPF(wanted_kg)},
+    {"halogen_charged_mol", "Halogen atoms charged [mol]", LT_MOL, .off = MPF(halogen_charged_mol)},
+    {"halogen_in_wanted_mol", "Halogen atoms in wanted product [mol]", LT_MOL,
+     .off = MPF(halogen_in_wanted_mol)},
+    {"yield_pct", "Yield [%]", LT_PCT1, .off = MPF(yield_pct)},
+    {"conversion_pct", "Substrate conversion [%]", LT_PCT1, .off = MPF(conversion_pct)},
+    {"selectivity_pct", "Selectivity to wanted product [%]", LT_PCT1, .get = mp_selectivity},
+    {"halogen_efficiency_pct", "Halogen efficiency [%]", LT_PCT1,
+     .off = MPF(halogen_efficiency_pct)},
+};
+
+const struct lt_table lt_month_products = {.key = "products", .path = "months[].products",
+    .sheet = "Monthly yields", .cols = mp_cols, .ncols = NCOLS(mp_cols), .count = mp_count,
+    .nsub = mp_nsub, .rec = mp_rec};
+
+/* --- the columns of a run on several sheets ------------------------------ */
+
+static int run_count(const struct ledger *l) { return l->nruns; }
+static const void *run_rec(const struct ledger *l, int i, int j)
+{
+    (void)j;
+    return &l->runs[i];
+}
+#define RUN(i) (&l->runs[i])
+#define RF(f) OFF(struct ledger_run, f)
+
+GET1(run_id, text(v, RUN(i)->id))
+GET1(run_start, date(v, RUN(i)->start_min))
+GET1(run_reagent, text(v, lt_item_name(RUN(i)->reagent)))
+GET1(run_substrate, text(v, RUN(i)->substrate_name))
+
+/* --- runs[].actual, runs[].variance / Plan vs actual ---------------------- */
+
+static int pa_nsub(const struct ledger *l, int i)
+{
+    return RUN(i)->actual.status != LEDGER_PLANNED;
+}
+#define ACT(i) (&l->runs[i].actual)
+#define VAR(i) (l->runs[i].var)
+
+GET(pa_actual) /* null while planned */
+{
+    (void)j;
+    if (ACT(i)->status != LEDGER_PLANNED)
+        flag(v, 1);
+}
+GET1(pa_status, text(v, ACT(i)->status == LEDGER_DONE ? "done" : "cancelled"))
+static void given(const struct ledger_actual *a, unsigned bit, double x, struct lt_val *v)
+{
+    if (a->given & bit)
+        num(v, x);
+}
+GET1(pa_reagent_kg, given(ACT(i), LEDGER_ACT_REAGENT, ACT(i)->reagent_kg, v))
+GET1(pa_product_kg, given(ACT(i), LEDGER_ACT_PRODUCT, ACT(i)->product_kg, v))
+GET1(pa_naoh_kg, given(ACT(i), LEDGER_ACT_NAOH, ACT(i)->naoh_kg, v))
+GET(pa_end)
+{
+    (void)j;
+    if (ACT(i)->given & LEDGER_ACT_END)
+        date(v, ACT(i)->end_min);
+}
+GET(pa_variance) /* done runs only (a cancelled run keeps the plan side for the sheet) */
+{
+    (void)j;
+    if (ACT(i)->status == LEDGER_DONE)
+        flag(v, 1);
+}
+/* the book's draw: weighed, else the plan; cancelled 0 */
+GET1(pa_drawn, num(v, RUN(i)->bal.reagent_kg))
+static void known(int has, double x, struct lt_val *v)
+{
+    if (has)
+        num(v, x);
+}
+GET1(pa_reagent_plan, num(v, VAR(i)->reagent_kg_plan))
+GET1(pa_reagent_var, known(VAR(i)->has_reagent, VAR(i)->reagent_kg, v))
+GET1(pa_reagent_pct, known(VAR(i)->has_reagent, VAR(i)->reagent_pct, v))
+GET1(pa_product_plan, num(v, VAR(i)->product_kg_plan))
+GET1(pa_product_var, known(VAR(i)->has_product, VAR(i)->product_kg, v))
+GET1(pa_product_pct,
+     known(VAR(i)->has_product && VAR(i)->product_kg_plan > 0, VAR(i)->product_pct, v))
+GET1(pa_yield_plan, num(v, VAR(i)->yield_pct_plan))
+GET1(pa_yield_actual, known(VAR(i)->has_product, VAR(i)->yield_pct_actual, v))
+GET1(pa_naoh_plan, num(v, VAR(i)->naoh_kg_plan))
+GET1(pa_naoh_var, known(VAR(i)->has_naoh, VAR(i)->naoh_kg, v))
+GET1(pa_naoh_pct, known(VAR(i)->has_naoh && VAR(i)->naoh_pct_defined, VAR(i)->naoh_pct, v))
+GET1(pa_flagged, flag(v, ACT(i)->status == LEDGER_DONE && VAR(i)->flagged))
+
+/* JSON: the two objects of a run; sheet: the runs with an actual. No totals: the rows mix
+ * reagents. */
+static const struct lt_col pa_cols[] = {
+    {NULL, "Run", LT_TEXT, .get = run_id},
+    {NULL, "Start (plant time)", LT_DATE, .get = run_start},
+    {"actual", NULL, LT_TEXT, .flags = LT_OPEN, .get = pa_actual},
+    {"status", "Status", LT_TEXT, .col = 4, .get = pa_status},
+    {"reagent_kg", NULL, LT_KG, .get = pa_reagent_kg},
+    {"product_kg", "Wanted product isolated, as 100 % [kg]", LT_KG, .col = 11,
+     .get = pa_product_kg},
+    {"naoh_kg", "NaOH consumed, as 100 %, titrated [kg]", LT_KG, .col = 17, .get = pa_naoh_kg},
+    {"end", "End, actual (plant time)", LT_DATE, .col = 3, .get = pa_end},
+    {.flags = LT_CLOSE},
+    {NULL, "Reagent", LT_TEXT, .col = 5, .get = run_reagent},
+    {"variance", NULL, LT_TEXT, .flags = LT_OPEN, .get = pa_variance},
+    {"reagent_kg_plan", "Reagent plan [kg]", LT_KG, .get = pa_reagent_plan},
+    {NULL, "Reagent drawn, booked [kg]", LT_KG, .get = pa_drawn},
+    {"reagent_kg", "Reagent variance [kg]", LT_KG, .get = pa_reagent_var},
+    {"reagent_pct", "Reagent variance [% of plan]", LT_PCT1, .get = pa_reagent_pct},
+    {"product_kg_plan", "Wanted product plan [kg]", LT_KG, .get = pa_product_plan},
+    {"product_kg", "Wanted product variance [kg]", LT_KG, .col = 12, .get = pa_product_var},
+    {"product_pct", "Wanted product variance [% of plan]", LT_PCT1, .get = pa_product_pct},
+    {"yield_pct_plan", "Yield plan [mol %]", LT_PCT1, .get = pa_yield_plan},
+    {"yield_pct_actual", "Yield actual [mol %]", LT_PCT1, .get = pa_yield_actual},
+    {"naoh_kg_plan", "NaOH consumed, as 100 %, plan [kg]", LT_KG, .get = pa_naoh_plan},
+    {"naoh_kg", "NaOH variance [kg]", LT_KG, .col = 18, .get = pa_naoh_var},
+    {"naoh_pct", NULL, LT_PCT1, .get = pa_naoh_pct},
+    {"flagged", "Outside tolerance", LT_TEXT, .flags = LT_ALARM, .get = pa_flagged,
+     .raised = "OUTSIDE TOLERANCE"},
+    {.flags = LT_CLOSE},
+};
+
+const struct lt_table lt_run_actuals = {.key = "runs", .path = "runs[actual]",
+    .sheet = "Plan vs actual", .cols = pa_cols, .ncols = NCOLS(pa_cols), .count = run_count,
+    .nsub = pa_nsub, .rec = run_rec};
+
+/* --- runs[].reaction, runs[].withdrawal / Reaction heat ------------------- */
+
+#define TH(i) (&l->runs[i].therm)
+
+/* runs[].reaction.steps[]: the sites with a share, j-th of them */
+static int st_site(const struct ledger *l, int i, int j)
+{
+    for (int s = 0; s < THERM_NSITE; s++)
+        if (TH(i)->share[s] > 0 && j-- == 0)
+            return s;
+    return 0;
+}
+static int st_nsub(const struct ledger *l, int i)
+{
+    int n = 0;
+    for (int s = 0; s < THERM_NSITE; s++)
+        n += TH(i)->share[s] > 0;
+    return n;
+}
+GET(st_name) { text(v, therm_step_name(RUN(i)->reagent, st_site(l, i, j))); }
+GET(st_share) { num(v, TH(i)->share[st_site(l, i, j)]); }
+GET(st_dh) { num(v, TH(i)->step_dh_kj_mol[st_site(l, i, j)]); }
+
+static const struct lt_col st_cols[] = {
+    {"site", NULL, LT_TEXT, .get = st_name},
+    {"share", NULL, LT_FRAC, .get = st_share},
+    {"dh_kj_mol", NULL, LT_KG, .get = st_dh},
+};
+
+/* JSON only: a table inside runs[].reaction */
+static const struct lt_table lt_reaction_steps = {.key = "steps", .path = "runs[].reaction.steps",
+    .sheet = NULL, .cols = st_cols, .ncols = NCOLS(st_cols), .count = run_count, .nsub = st_nsub};
+
+GET(rh_class)
+{
+    (void)j;
+    if (TH(i)->crit_class > 0) /* null without mtt_c and td24_c */
+        num(v, TH(i)->crit_class);
+}
+GET(rh_reason)
+{
+    (void)j;
+    therm_reason_text(TH(i), RUN(i)->temp_c, RUN(i)->mtt_c, RUN(i)->td24_c, v->buf, 480);
+    text(v, v->buf);
+}
+GET1(rh_site_assumed, flag(v, TH(i)->site_assumed))
+GET(rh_mtt)
+{
+    (void)j;
+    if (RUN(i)->has_mtt)
+        num(v, RUN(i)->mtt_c);
+}
+GET(rh_td24)
+{
+    (void)j;
+    if (RUN(i)->has_td24)
+        num(v, RUN(i)->td24_c);
+}
+GET1(rh_over_mtt, flag(v, TH(i)->mtsr_over_mtt))
+GET1(rh_over_td24, flag(v, TH(i)->mtsr_over_td24))
+GET(rh_reaches)
+{
+    (void)j;
+    flag(v, TH(i)->mtsr_over_mtt || TH(i)->mtsr_over_td24);
+    v->text = TH(i)->mtsr_over_td24 ? "REACHES TD24" : "REACHES MTT";
+}
+GET(rh_source)
+{
+    (void)j;
+    (void)l;
+    (void)i;
+    text(v, therm_bde_origin);
+}
+/* null for a reagent not drawn as gas from a container */
+GET(wd_open)
+{
+    (void)j;
+    if (RUN(i)->has_withdrawal)
+        flag(v, 1);
+}
+#define WD(i) (&l->runs[i].withdrawal)
+GET(wd_container)
+{
+    (void)j;
+    if (RUN(i)->has_withdrawal)
+        text(v, RUN(i)->withdrawal_container);
+    else
+        v->text = "not drawn as gas";
+}
+GET(wd_kg_h)
+{
+    (void)j;
+    if (RUN(i)->has_withdrawal)
+        num(v, WD(i)->kg_h);
+    else
+        v->t = LT_V_ABSENT;
+}
+GET1(wd_container_kg_h, num(v, WD(i)->container_kg_h))
+GET(wd_on_line)
+{
+    (void)j;
+    if (RUN(i)->has_withdrawal)
+        num(v, WD(i)->containers_on_line);
+    else
+        v->t = LT_V_ABSENT;
+}
+GET(wd_evaporator)
+{
+    (void)j;
+    if (RUN(i)->has_withdrawal)
+        flag(v, WD(i)->evaporator_needed);
+    else
+        v->t = LT_V_ABSENT;
+}
+
+/* Thermal screening, one row per run.  Runs do not share a mass: no totals. */
+static const struct lt_col rh_cols[] = {
+    {NULL, "Run", LT_TEXT, .get = run_id},
+    {NULL, "Start (plant time)", LT_DATE, .get = run_start},
+    {NULL, "Reagent", LT_TEXT, .get = run_reagent},
+    {NULL, "Substrate", LT_TEXT, .get = run_substrate},
+    {"reaction", NULL, LT_TEXT, .flags = LT_OPEN},
+    {"heat_kj", "Reaction heat released [kJ]", LT_HEAT, .col = 6, .off = RF(therm.heat_kj)},
+    {"mean_kw", "Mean heat release over feed [kW]", LT_KW, .off = RF(therm.mean_kw)},
+    {"peak_kw", "Peak heat release [kW]", LT_KW, .off = RF(therm.peak_kw)},
+    {"delta_t_ad_k", "Adiabatic temperature rise [K]", LT_TEMP, .col = 12,
+     .off = RF(therm.delta_t_ad_k)},
+    {NULL, "Process temperature [°C]", LT_TEMP, .off = RF(temp_c)},
+    {"mtsr_c", "MTSR [°C]", LT_TEMP, .off = RF(therm.mtsr_c)},
+    {"criticality_class", "Criticality class (Stoessel 1-5)", LT_INT, .col = 17, .get = rh_class},
+    {NULL, "MTSR reaches MTT or TD24", LT_TEXT, .flags = LT_ALARM, .get = rh_reaches},
+    {"class_reason", "Class reasoning (screening estimate: calorimetry and a process-safety study "
+     "decide)", LT_TEXT, .get = rh_reason},
+    {"dh_kj_mol", "Heat of one step, mean [kJ/mol] (negative: released)", LT_KG, .col = 5,
+     .off = RF(therm.dh_kj_mol)},
+    {"dh_uncertainty_kj_mol", NULL, LT_KG, .off = RF(therm.dh_unc_kj_mol)},
+    {"site_assumed", NULL, LT_TEXT, .get = rh_site_assumed},
+    {"steps", NULL, LT_TEXT, .sub = &lt_reaction_steps},
+    {"mass_kg", "Reaction mass [kg]", LT_KG, .col = 9, .off = RF(therm_mass_kg)},
+    {"cp_kj_kg_k", "Heat capacity [kJ/(kg K)]", LT_MOL, .off = RF(therm_cp_kj_kg_k)},
+    {"accumulation", "Accumulation (dimensionless)", LT_FRAC, .off = RF(therm_accumulation)},
+    {"mtt_c", "MTT [°C]", LT_TEMP, .col = 15, .get = rh_mtt},
+    {"td24_c", "TD24 [°C]", LT_TEMP, .get = rh_td24},
+    {"mtsr_reaches_mtt", NULL, LT_TEXT, .get = rh_over_mtt},
+    {"mtsr_reaches_td24", NULL, LT_TEXT, .get = rh_over_td24},
+    {"source", NULL, LT_TEXT, .get = rh_source},
+    {.flags = LT_CLOSE},
+    {"withdrawal", NULL, LT_TEXT, .flags = LT_OPEN, .get = wd_open},
+    {"container", "Gas container", LT_TEXT, .col = 20, .get = wd_container},
+    {"kg_h", "Gas demand at peak [kg/h]", LT_KG, .get = wd_kg_h},
+    {"container_kg_h", NULL, LT_KG, .get = wd_container_kg_h},
+    {"containers_on_line", "Containers on line [count]", LT_INT, .get = wd_on_line},
+    {"evaporator_needed", "Evaporator needed", LT_TEXT, .flags = LT_ALARM, .get = wd_evaporator,
+     .raised = "EVAPORATOR"},
+    {.flags = LT_CLOSE},
+};
+
+const struct lt_table lt_run_reaction = {.key = "runs", .path = "runs", .sheet = "Reaction heat",
+    .cols = rh_cols, .ncols = NCOLS(rh_cols), .count = run_count, .rec = run_rec};
+
+/* --- runs[].emissions_kg / Emissions by run ------------------------------- */
+
+GET1(em_scrubber, text(v, RUN(i)->scrubber ? RUN(i)->scrubber : "(none)"))
+
+/* what leaves the stack after the scrubber */
+static const struct lt_col em_cols[] = {
+    {NULL, "Run", LT_TEXT, .get = run_id},
+    {NULL, "Start (plant time)", LT_DATE, .get = run_start},
+    {NULL, "Scrubber", LT_TEXT, .get = em_scrubber},
+    {"emissions_kg", NULL, LT_TEXT, .flags = LT_OPEN},
+    {"%s", "%s leaving the stack [kg]", LT_RATE, .flags = LT_TOTAL, .each = LT_EACH_VENT,
+     .off = RF(scrub.emis_kg)},
+    {.flags = LT_CLOSE},
+    /* no total: the gases are unlike things */
+    {"emissions_breakthrough_kg", "Of it, breakthrough of a spent liquor, all gases [kg]", LT_RATE,
+     .off = RF(scrub.emis_breakthrough_kg)},
+};
+
+const struct lt_table lt_run_emissions = {.key = "runs", .path = "runs",
+    .sheet = "Emissions by run",
+    .cols = em_cols, .ncols = NCOLS(em_cols), .count = run_count, .rec = run_rec};
+
+/* --- runs[].scrubber / Liquor by run (the runs routed to a scrubber) ------ */
+
+static int lq_nsub(const struct ledger *l, int i) { return RUN(i)->scrubber != NULL; }
+#define SCR(i) (&l->runs[i].scrub)
+
+GET1(lq_id, text(v, RUN(i)->scrubber))
+GET1(lq_changeout, flag(v, SCR(i)->changeout_before))
+GET1(lq_exhausted, flag(v, SCR(i)->exhausted))
+GET1(lq_too_hot, flag(v, SCR(i)->too_hot))
+GET1(lq_boils, flag(v, SCR(i)->boils))
+/* the liquor's own base, whatever it is (the NaOH columns are NaOH's only); null: water */
+GET(lq_base)
+{
+    (void)j;
+    int u = RUN(i)->scrubber_index, base = u >= 0 ? l->scrubbers[u].base : -1;
+    text(v, base >= 0 ? lt_item_name(base) : NULL);
+}
+
+/* Sheet columns: 11 before the salts, the salts, then the rest. */
+#define LQ_SALTS_END (11 + SALT_COUNT)
+/* the liquor after each run; the fresh charge before it made up from the caustic bought and
+ * site water */
+static const struct lt_col lq_cols[] = {
+    {NULL, "Run", LT_TEXT, .get = run_id},
+    {"scrubber", NULL, LT_TEXT, .flags = LT_OPEN},
+    {"id", "Scrubber", LT_TEXT, .get = lq_id},
+    {"naoh_kg", "NaOH consumed, as 100 % [kg]", LT_KG, .flags = LT_TOTAL, .col = 8,
+     .off = RF(scrub.naoh_kg)},
+    {"heat_kj", "Heat to liquor [kJ]", LT_HEAT, .flags = LT_TOTAL, .col = LQ_SALTS_END + 3,
+     .off = RF(scrub.heat_kj)},
+    {"temp_rise_k", "Liquor temperature rise [K]", LT_TEMP, .off = RF(scrub.temp_rise_k)},
+    {"changeout_before", "Liquor changed before run", LT_TEXT, .col = 4, .get = lq_changeout},
+    {"exhausted", "Below minimum NaOH", LT_TEXT, .flags = LT_ALARM, .col = LQ_SALTS_END + 10,
+     .get = lq_exhausted, .raised = "BELOW MINIMUM"},
+    {"naoh_left_kg", "NaOH left, as 100 % [kg]", LT_KG, .col = 9, .off = RF(scrub.naoh_left_kg)},
+    {"liquor_kg_after", "Liquor after run [kg]", LT_KG, .off = RF(scrub.liquor_kg_after)},
+    {"naoh_wt_pct_after", "NaOH after run [wt%]", LT_PCT, .off = RF(scrub.naoh_wt_pct_after)},
+    {"salts_kg", NULL, LT_TEXT, .flags = LT_OPEN},
+    {"%s", "%s net change [kg]", LT_KG, .each = LT_EACH_SALT, .off = RF(scrub.salt_kg)},
+    {.flags = LT_CLOSE},
+    {"water_formed_kg", "Water formed [kg]", LT_KG, .off = RF(scrub.water_formed_kg)},
+    {"acid_wt_pct_after", "HCl in water liquor [wt%]", LT_PCT, .off = RF(scrub.acid_wt_pct_after)},
+    {"liquor_temp_c_after", "Liquor temperature after run, no cooling [°C]", LT_TEMP,
+     .col = LQ_SALTS_END + 5, .off = RF(scrub.liquor_temp_c_after)},
+    {"heat_kw", "Heat release, mean over the vent window [kW]", LT_KW, .off = RF(scrub.heat_kw)},
+    {"too_hot", "Cooling needed", LT_TEXT, .flags = LT_ALARM, .get = lq_too_hot,
+     .raised = "TOO HOT"},
+    {"sulfite_oxidised_mol", "Sulfite oxidised by hypohalite [mol]", LT_MOL,
+     .off = RF(scrub.sulfite_oxidised_mol)},
+    {"breakthrough_mol", "Gas left unneutralised [mol]", LT_MOL, .off = RF(scrub.breakthrough_mol)},
+    {"unabsorbed_mol", NULL, LT_MOL, .off = RF(scrub.unabsorbed_mol)},
+    {"caustic_solution_kg", "Caustic solution bought, %s, for the fresh charge [kg]", LT_KG,
+     .flags = LT_TOTAL | LT_CAUSTIC, .col = 5, .off = RF(changeout_caustic_solution_kg)},
+    {"dilution_water_kg", "Dilution water for the fresh charge [kg]", LT_KG, .flags = LT_TOTAL,
+     .off = RF(changeout_water_kg)},
+    {NULL, "Vent gas to scrubber, peak rate [kmol/h]", LT_RATE, .off = RF(scrub.acid_kmol_h)},
+    {"hbr_wt_pct_after", NULL, LT_PCT, .off = RF(scrub.hbr_wt_pct_after)},
+    {"boiling_point_c", NULL, LT_TEMP, .off = RF(scrub.boiling_point_c)},
+    {"boils", NULL, LT_TEXT, .get = lq_boils},
+    {"base", "Liquor base", LT_TEXT, .col = LQ_SALTS_END + 11, .get = lq_base,
+     .none = "none (water liquor)"},
+    {"base_kg", "Base consumed, as 100 % [kg]", LT_KG, .col = LQ_SALTS_END + 13,
+     .off = RF(scrub.base_kg)},
+    {"base_left_kg", "Base left, as 100 % [kg]", LT_KG, .off = RF(scrub.base_left_kg)},
+    {"base_wt_pct_after", "Base after run [wt%]", LT_PCT, .off = RF(scrub.base_wt_pct_after)},
+    {"makeup_kg", "Base bought for the fresh charge, as bought [kg]", LT_KG,
+     .col = LQ_SALTS_END + 12, .off = RF(changeout_makeup_kg)},
+    {"co2_kg", "CO2 given off by the liquor [kg]", LT_KG, .flags = LT_TOTAL,
+     .col = LQ_SALTS_END + 16, .off = RF(scrub.co2_kg)},
+    {.flags = LT_CLOSE},
+    {NULL, "Start (plant time)", LT_DATE, .col = 3, .get = run_start},
+};
+
+const struct lt_table lt_run_liquor = {.key = "runs", .path = "runs[scrubber_id]",
+    .sheet = "Liquor by run", .cols = lq_cols, .ncols = NCOLS(lq_cols), .count = run_count,
+    .nsub = lq_nsub, .rec = run_rec};
+
 /* --- warnings[] / Warnings ------------------------------------------------ */
 
 static int wn_count(const struct ledger *l) { return l->nwarnings; }
@@ -634,11 +1078,7 @@ GET(wn_run)
     (void)j;
     text(v, l->warnings[i].run); /* null: a warning of the campaign, not of one run */
 }
-GET(wn_message)
-{
-    (void)j;
-    text(v, l->warnings[i].message);
-}
+GET1(wn_message, text(v, l->warnings[i].message))
 
 static const struct lt_col wn_cols[] = {
     {"run", "Run", LT_TEXT, .get = wn_run, .none = "(campaign)"},
@@ -649,4 +1089,5 @@ const struct lt_table lt_warnings = {.key = "warnings", .path = "warnings",
     .sheet = "Warnings", .cols = wn_cols, .ncols = NCOLS(wn_cols), .count = wn_count};
 
 const struct lt_table *const lt_tables[LT_NTABLES] = {
-    &lt_run_products, &lt_scrubbers, &lt_permit_checks, &lt_orders, &lt_stock_checks, &lt_warnings};
+    &lt_run_products, &lt_scrubbers, &lt_permit_checks, &lt_orders, &lt_stock_checks, &lt_warnings,
+    &lt_month_products, &lt_run_actuals, &lt_run_reaction, &lt_run_emissions, &lt_run_liquor};

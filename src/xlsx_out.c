@@ -97,7 +97,7 @@ struct xtable {
     double sum[48];
     double fixw[48];           /* fixed column widths (0 = from content), for wrapped text */
     const struct lt_table *lt; /* the column list the sheet shows (xo_lt_table), or NULL */
-    int at[48];                /* its entry of each column */
+    int at[48], item[48];      /* its entry of each column, and the entry's member */
 };
 
 #define XO_NSAME (2 * LT_NKIND + XO_NSIG + 1)
@@ -720,7 +720,7 @@ static void xt_value(struct xw *w, struct xtable *b, lxw_row_t row, int k, const
     const char *s;
     char ids[1000];
     switch (v->t) {
-    case LT_V_ABSENT: break;
+    case LT_V_ABSENT: case LT_V_BAD: break; /* LT_V_BAD: the JSON writer refuses it; blank here */
     case LT_V_NULL: /* JSON null: the value's own text, the column's, or a blank */
         s = v->text ? v->text : c->none;
         if (s && k < b->ncols)
@@ -765,7 +765,7 @@ static void row_lt(struct xw *w, struct xtable *b, lxw_row_t row, int i)
     }
     struct lt_val v;
     for (int k = 0; k < b->ncols && w->st == HL_OK; k++) {
-        lt_get(t, b->at[k], l, i, j, &v);
+        lt_get(t, b->at[k], b->item[k], l, i, j, &v);
         xt_value(w, b, row, k, &t->cols[b->at[k]], &v);
     }
 }
@@ -774,7 +774,7 @@ static void row_lt(struct xw *w, struct xtable *b, lxw_row_t row, int i)
  * notes from b. */
 static void xo_lt_table(struct xw *w, const struct lt_table *t, struct xtable *b)
 {
-    int n = lt_sheet_order(t, b->at, (int)(sizeof b->at / sizeof b->at[0]));
+    int n = lt_sheet_order(t, b->at, b->item, (int)(sizeof b->at / sizeof b->at[0]));
     if (n < 0) {
         xo_fail(w, HL_ERR_INTERNAL, "the column list of sheet %s gives no column order", t->sheet);
         return;
@@ -785,7 +785,7 @@ static void xo_lt_table(struct xw *w, const struct lt_table *t, struct xtable *b
     for (int k = 0; k < n; k++) {
         const struct lt_col *c = &t->cols[b->at[k]];
         char head[96];
-        lt_head(c, w->l, head, sizeof head);
+        lt_head(c, b->item[k], w->l, head, sizeof head);
         xt_col(b, c->kind, (c->flags & LT_TOTAL) != 0, "%s", head);
         b->cols[k].alarm = c->flags & LT_ALARM ? XA_ALARM : c->flags & LT_NOTICE ? XA_NOTICE : XA_NONE;
         b->fixw[k] = c->width;
@@ -1317,88 +1317,10 @@ static void xo_products(struct xw *w)
 
 /* --- Liquor by run ------------------------------------------------------- */
 
-static void row_liquor(struct xw *w, struct xtable *b, lxw_row_t row, int i)
-{
-    (void)i;
-    const struct ledger *l = w->l;
-    while (b->cur < l->nruns && !l->runs[b->cur].scrubber)
-        b->cur++;
-    if (b->cur >= l->nruns)
-        return;
-    const struct ledger_run *r = &l->runs[b->cur++];
-    const struct scrub_run_out *s = &r->scrub;
-    int k = 0;
-    xt_text(w, b, row, k++, r->id);
-    xt_text(w, b, row, k++, r->scrubber);
-    xt_date(w, b, row, k++, r->start_min);
-    xt_flag(w, b, row, k++, s->changeout_before);
-    xt_num(w, b, row, k++, r->changeout_caustic_solution_kg);
-    xt_num(w, b, row, k++, r->changeout_water_kg);
-    xt_num(w, b, row, k++, s->acid_kmol_h);
-    xt_num(w, b, row, k++, s->naoh_kg);
-    xt_num(w, b, row, k++, s->naoh_left_kg);
-    xt_num(w, b, row, k++, s->liquor_kg_after);
-    xt_num(w, b, row, k++, s->naoh_wt_pct_after);
-    for (int q = 0; q < SALT_COUNT; q++)
-        xt_num(w, b, row, k++, s->salt_kg[q]);
-    xt_num(w, b, row, k++, s->water_formed_kg);
-    xt_num(w, b, row, k++, s->acid_wt_pct_after);
-    xt_num(w, b, row, k++, s->heat_kj);
-    xt_num(w, b, row, k++, s->temp_rise_k);
-    xt_num(w, b, row, k++, s->liquor_temp_c_after);
-    xt_num(w, b, row, k++, s->heat_kw);
-    xt_raise(w, b, row, k++, s->too_hot, "TOO HOT");
-    xt_num(w, b, row, k++, s->sulfite_oxidised_mol);
-    xt_num(w, b, row, k++, s->breakthrough_mol);
-    xt_raise(w, b, row, k++, s->exhausted, "BELOW MINIMUM");
-    /* the liquor's own base, whatever it is (the NaOH columns above are NaOH's only) */
-    int base = l->scrubbers[r->scrubber_index].base;
-    xt_text(w, b, row, k++, base >= 0 ? lt_item_name(base) : "none (water liquor)");
-    xt_num(w, b, row, k++, r->changeout_makeup_kg);
-    xt_num(w, b, row, k++, s->base_kg);
-    xt_num(w, b, row, k++, s->base_left_kg);
-    xt_num(w, b, row, k++, s->base_wt_pct_after);
-    xt_num(w, b, row, k++, s->co2_kg);
-}
-
 static void xo_liquor(struct xw *w)
 {
-    const struct ledger *l = w->l;
-    int n = 0;
-    for (int i = 0; i < l->nruns; i++)
-        n += l->runs[i].scrubber != NULL;
-    struct xtable a = {.fn = row_liquor, .nrows = n, .empty_note = "No run is routed to a scrubber."};
-    xt_col(&a, LT_TEXT, 0, "Run");
-    xt_col(&a, LT_TEXT, 0, "Scrubber");
-    xt_col(&a, LT_DATE, 0, "Start (plant time)");
-    xt_col(&a, LT_TEXT, 0, "Liquor changed before run");
-    /* the fresh charge before the run, made up from the caustic bought and site water */
-    xt_col(&a, LT_KG, 1, "Caustic solution bought, %s, for the fresh charge [kg]", w->caustic);
-    xt_col(&a, LT_KG, 1, "Dilution water for the fresh charge [kg]");
-    xt_col(&a, LT_RATE, 0, "Vent gas to scrubber, peak rate [kmol/h]");
-    xt_col(&a, LT_KG, 1, "NaOH consumed, as 100 %% [kg]");
-    xt_col(&a, LT_KG, 0, "NaOH left, as 100 %% [kg]");
-    xt_col(&a, LT_KG, 0, "Liquor after run [kg]");
-    xt_col(&a, LT_PCT, 0, "NaOH after run [wt%%]");
-    for (int q = 0; q < SALT_COUNT; q++)
-        xt_col(&a, LT_KG, 0, "%s net change [kg]", xo_salt(q));
-    xt_col(&a, LT_KG, 0, "Water formed [kg]");
-    xt_col(&a, LT_PCT, 0, "HCl in water liquor [wt%%]");
-    xt_col(&a, LT_HEAT, 1, "Heat to liquor [kJ]");
-    xt_col(&a, LT_TEMP, 0, "Liquor temperature rise [K]");
-    xt_col(&a, LT_TEMP, 0, "Liquor temperature after run, no cooling [°C]");
-    xt_col(&a, LT_KW, 0, "Heat release, mean over the vent window [kW]");
-    xt_alarm(&a, XA_ALARM, "Cooling needed");
-    xt_col(&a, LT_MOL, 0, "Sulfite oxidised by hypohalite [mol]");
-    xt_col(&a, LT_MOL, 0, "Gas left unneutralised [mol]");
-    xt_alarm(&a, XA_ALARM, "Below minimum NaOH");
-    xt_col(&a, LT_TEXT, 0, "Liquor base");
-    xt_col(&a, LT_KG, 0, "Base bought for the fresh charge, as bought [kg]");
-    xt_col(&a, LT_KG, 0, "Base consumed, as 100 %% [kg]");
-    xt_col(&a, LT_KG, 0, "Base left, as 100 %% [kg]");
-    xt_col(&a, LT_PCT, 0, "Base after run [wt%%]");
-    xt_col(&a, LT_KG, 1, "CO2 given off by the liquor [kg]");
-    xo_table(w, "Liquor by run", &a);
+    struct xtable a = {.empty_note = "No run is routed to a scrubber."};
+    xo_lt_table(w, &lt_run_liquor, &a);
 }
 
 /* --- Scrubber units, hourly load, column check ---------------------------- */
@@ -1492,31 +1414,13 @@ static const char xo_emis_note[] =
     "Planning estimates of what leaves the stack: a permit is judged on measured emissions by the "
     "method the authority prescribes; the site's permit and local rules decide.";
 
-static void row_emis_run(struct xw *w, struct xtable *b, lxw_row_t row, int i)
-{
-    const struct ledger_run *r = &w->l->runs[i];
-    xt_text(w, b, row, 0, r->id);
-    xt_date(w, b, row, 1, r->start_min);
-    xt_text(w, b, row, 2, r->scrubber ? r->scrubber : "(none)");
-    for (int v = 0; v < VS_COUNT; v++)
-        xt_num(w, b, row, 3 + v, r->scrub.emis_kg[v]);
-    xt_num(w, b, row, 3 + VS_COUNT, r->scrub.emis_breakthrough_kg);
-}
-
 static void xo_emis_runs(struct xw *w)
 {
-    struct xtable b = {.fn = row_emis_run, .nrows = w->l->nruns, .empty_note = "No runs.",
+    struct xtable b = {.empty_note = "No runs.",
                        .notes = {xo_emis_note,
                                  "A run with no scrubber is not counted here (see Warnings)."},
                        .nnotes = 2};
-    xt_col(&b, LT_TEXT, 0, "Run");
-    xt_col(&b, LT_DATE, 0, "Start (plant time)");
-    xt_col(&b, LT_TEXT, 0, "Scrubber");
-    for (int v = 0; v < VS_COUNT; v++)
-        xt_col(&b, LT_RATE, 1, "%s leaving the stack [kg]", xo_vent(v));
-    /* no total: the gases are unlike things */
-    xt_col(&b, LT_RATE, 0, "Of it, breakthrough of a spent liquor, all gases [kg]");
-    xo_table(w, "Emissions by run", &b);
+    xo_lt_table(w, &lt_run_emissions, &b);
 }
 
 /* First hour after `after` with any emission from unit u (INT_MAX: none). */
@@ -1738,88 +1642,17 @@ static const char xo_close_note[] =
 static const char xo_close_note2[] =
     "A weighed draw drives the balance, the scrubber and the stock; a cancelled run draws nothing.";
 
-static void row_actual(struct xw *w, struct xtable *b, lxw_row_t row, int i)
-{
-    (void)i;
-    const struct ledger *l = w->l;
-    while (b->cur < l->nruns && l->runs[b->cur].actual.status == LEDGER_PLANNED)
-        b->cur++;
-    if (b->cur >= l->nruns)
-        return;
-    const struct ledger_run *r = &l->runs[b->cur++];
-    const struct ledger_actual *a = &r->actual;
-    const struct ledger_variance *v = r->var;
-    int done = a->status == LEDGER_DONE, k = 0;
-    xt_text(w, b, row, k++, r->id);
-    xt_date(w, b, row, k++, r->start_min);
-    if (a->given & LEDGER_ACT_END)
-        xt_date(w, b, row, k, a->end_min);
-    k++;
-    xt_text(w, b, row, k++, done ? "done" : "cancelled");
-    xt_text(w, b, row, k++, lt_item_name(r->reagent));
-    xt_num(w, b, row, k++, v->reagent_kg_plan);
-    xt_num(w, b, row, k++, r->bal.reagent_kg); /* the book's draw: weighed, else the plan; cancelled 0 */
-    if (v->has_reagent) {
-        xt_num(w, b, row, k, v->reagent_kg);
-        xt_num(w, b, row, k + 1, v->reagent_pct);
-    }
-    k += 2;
-    xt_num(w, b, row, k++, v->product_kg_plan);
-    if (v->has_product) {
-        xt_num(w, b, row, k, a->product_kg);
-        xt_num(w, b, row, k + 1, v->product_kg);
-        if (v->product_kg_plan > 0)
-            xt_num(w, b, row, k + 2, v->product_pct);
-    }
-    k += 3;
-    xt_num(w, b, row, k++, v->yield_pct_plan);
-    if (v->has_product)
-        xt_num(w, b, row, k, v->yield_pct_actual);
-    k++;
-    xt_num(w, b, row, k++, v->naoh_kg_plan);
-    if (v->has_naoh) {
-        xt_num(w, b, row, k, a->naoh_kg);
-        xt_num(w, b, row, k + 1, v->naoh_kg);
-    }
-    k += 2;
-    xt_raise(w, b, row, k++, done && v->flagged, "OUTSIDE TOLERANCE");
-}
-
 static void xo_actuals(struct xw *w)
 {
     const struct ledger *l = w->l;
-    int n = 0;
-    for (int i = 0; i < l->nruns; i++)
-        n += l->runs[i].actual.status != LEDGER_PLANNED;
-    struct xtable b = {.fn = row_actual, .nrows = n,
-                       .empty_note = "No run has an actual yet (campaign key runs[].actual)."};
+    struct xtable b = {.empty_note = "No run has an actual yet (campaign key runs[].actual)."};
     static char tol[200];
     snprintf(tol, sizeof tol, "Tolerances: reagent drawn %.4g %%, wanted product %.4g %% of the plan.",
              l->tol_reagent_pct, l->tol_product_pct);
     b.notes[b.nnotes++] = xo_close_note;
     b.notes[b.nnotes++] = xo_close_note2;
     b.notes[b.nnotes++] = tol;
-    xt_col(&b, LT_TEXT, 0, "Run");
-    xt_col(&b, LT_DATE, 0, "Start (plant time)");
-    xt_col(&b, LT_DATE, 0, "End, actual (plant time)");
-    xt_col(&b, LT_TEXT, 0, "Status");
-    xt_col(&b, LT_TEXT, 0, "Reagent");
-    /* no totals: the rows mix reagents */
-    xt_col(&b, LT_KG, 0, "Reagent plan [kg]");
-    xt_col(&b, LT_KG, 0, "Reagent drawn, booked [kg]");
-    xt_col(&b, LT_KG, 0, "Reagent variance [kg]");
-    xt_col(&b, LT_PCT1, 0, "Reagent variance [%% of plan]");
-    xt_col(&b, LT_KG, 0, "Wanted product plan [kg]");
-    xt_col(&b, LT_KG, 0, "Wanted product isolated, as 100 %% [kg]");
-    xt_col(&b, LT_KG, 0, "Wanted product variance [kg]");
-    xt_col(&b, LT_PCT1, 0, "Wanted product variance [%% of plan]");
-    xt_col(&b, LT_PCT1, 0, "Yield plan [mol %%]");
-    xt_col(&b, LT_PCT1, 0, "Yield actual [mol %%]");
-    xt_col(&b, LT_KG, 0, "NaOH consumed, as 100 %%, plan [kg]");
-    xt_col(&b, LT_KG, 0, "NaOH consumed, as 100 %%, titrated [kg]");
-    xt_col(&b, LT_KG, 0, "NaOH variance [kg]");
-    xt_alarm(&b, XA_ALARM, "Outside tolerance");
-    xo_table(w, "Plan vs actual", &b);
+    xo_lt_table(w, &lt_run_actuals, &b);
 }
 
 static void xo_checks(struct xw *w)
@@ -1837,76 +1670,10 @@ static void xo_checks(struct xw *w)
 
 /* --- Reaction heat (thermal screening, one row per run) ------------------- */
 
-static void row_heat(struct xw *w, struct xtable *b, lxw_row_t row, int i)
-{
-    const struct ledger_run *r = &w->l->runs[i];
-    const struct therm_out *t = &r->therm;
-    int k = 0;
-    xt_text(w, b, row, k++, r->id);
-    xt_date(w, b, row, k++, r->start_min);
-    xt_text(w, b, row, k++, lt_item_name(r->reagent));
-    xt_text(w, b, row, k++, r->substrate_name);
-    xt_num(w, b, row, k++, t->dh_kj_mol);
-    xt_num(w, b, row, k++, t->heat_kj);
-    xt_num(w, b, row, k++, t->mean_kw);
-    xt_num(w, b, row, k++, t->peak_kw);
-    xt_num(w, b, row, k++, r->therm_mass_kg);
-    xt_num(w, b, row, k++, r->therm_cp_kj_kg_k);
-    xt_num(w, b, row, k++, r->therm_accumulation);
-    xt_num(w, b, row, k++, t->delta_t_ad_k);
-    xt_num(w, b, row, k++, r->temp_c);
-    xt_num(w, b, row, k++, t->mtsr_c);
-    if (r->has_mtt)
-        xt_num(w, b, row, k, r->mtt_c);
-    k++;
-    if (r->has_td24)
-        xt_num(w, b, row, k, r->td24_c);
-    k++;
-    if (t->crit_class > 0)
-        xt_num(w, b, row, k, t->crit_class);
-    k++;
-    xt_raise(w, b, row, k++, t->mtsr_over_mtt || t->mtsr_over_td24,
-             t->mtsr_over_td24 ? "REACHES TD24" : "REACHES MTT");
-    char why[480];
-    therm_reason_text(t, r->temp_c, r->mtt_c, r->td24_c, why, sizeof why);
-    xt_text(w, b, row, k++, why);
-    if (r->has_withdrawal) {
-        xt_text(w, b, row, k++, r->withdrawal_container);
-        xt_num(w, b, row, k++, r->withdrawal.kg_h);
-        xt_num(w, b, row, k++, r->withdrawal.containers_on_line);
-        xt_raise(w, b, row, k++, r->withdrawal.evaporator_needed, "EVAPORATOR");
-    } else {
-        xt_text(w, b, row, k, "not drawn as gas");
-    }
-}
-
 static void xo_heat(struct xw *w)
 {
-    struct xtable b = {.fn = row_heat, .nrows = w->l->nruns, .empty_note = "No runs."};
-    xt_col(&b, LT_TEXT, 0, "Run");
-    xt_col(&b, LT_DATE, 0, "Start (plant time)");
-    xt_col(&b, LT_TEXT, 0, "Reagent");
-    xt_col(&b, LT_TEXT, 0, "Substrate");
-    xt_col(&b, LT_KG, 0, "Heat of one step, mean [kJ/mol] (negative: released)");
-    xt_col(&b, LT_HEAT, 0, "Reaction heat released [kJ]"); /* runs do not share a mass: no total */
-    xt_col(&b, LT_KW, 0, "Mean heat release over feed [kW]");
-    xt_col(&b, LT_KW, 0, "Peak heat release [kW]");
-    xt_col(&b, LT_KG, 0, "Reaction mass [kg]");
-    xt_col(&b, LT_MOL, 0, "Heat capacity [kJ/(kg K)]");
-    xt_col(&b, LT_FRAC, 0, "Accumulation (dimensionless)");
-    xt_col(&b, LT_TEMP, 0, "Adiabatic temperature rise [K]");
-    xt_col(&b, LT_TEMP, 0, "Process temperature [°C]");
-    xt_col(&b, LT_TEMP, 0, "MTSR [°C]");
-    xt_col(&b, LT_TEMP, 0, "MTT [°C]");
-    xt_col(&b, LT_TEMP, 0, "TD24 [°C]");
-    xt_col(&b, LT_INT, 0, "Criticality class (Stoessel 1-5)");
-    xt_alarm(&b, XA_ALARM, "MTSR reaches MTT or TD24");
-    xt_col(&b, LT_TEXT, 0, "Class reasoning (screening estimate: calorimetry and a process-safety study decide)");
-    xt_col(&b, LT_TEXT, 0, "Gas container");
-    xt_col(&b, LT_KG, 0, "Gas demand at peak [kg/h]");
-    xt_col(&b, LT_INT, 0, "Containers on line [count]");
-    xt_alarm(&b, XA_ALARM, "Evaporator needed");
-    xo_table(w, "Reaction heat", &b);
+    struct xtable b = {.empty_note = "No runs."};
+    xo_lt_table(w, &lt_run_reaction, &b);
 }
 
 /* --- Waste by run, spent liquor ------------------------------------------- */
@@ -2026,79 +1793,17 @@ static void row_month(struct xw *w, struct xtable *b, lxw_row_t row, int i)
 
 /* --- Monthly yields: one row per month and route ------------------------- */
 
-static void row_month_route(struct xw *w, struct xtable *b, lxw_row_t row, int i)
-{
-    (void)i;
-    const struct ledger *l = w->l;
-    while (b->cur < l->nmonths && b->sub >= l->months[b->cur].nproducts) {
-        b->cur++;
-        b->sub = 0;
-    }
-    if (b->cur >= l->nmonths)
-        return;
-    const struct ledger_month *m = &l->months[b->cur];
-    const struct ledger_month_product *p = &m->products[b->sub++];
-    char mt[32];
-    isodate_month_text(m->month_index, mt, sizeof mt);
-    int k = 0;
-    xt_text(w, b, row, k++, mt);
-    xt_text(w, b, row, k++, p->substrate_name);
-    xt_text(w, b, row, k++, p->substrate);
-    xt_text(w, b, row, k++, lt_item_name(p->reagent));
-    xt_text(w, b, row, k++, p->wanted);
-    xt_text(w, b, row, k++, p->wanted_formula);
-    xt_num(w, b, row, k++, p->runs);
-    xt_num(w, b, row, k++, p->substrate_kg);
-    xt_num(w, b, row, k++, p->substrate_mol);
-    xt_num(w, b, row, k++, p->converted_mol);
-    xt_num(w, b, row, k++, p->wanted_mol);
-    xt_num(w, b, row, k++, p->wanted_kg);
-    xt_num(w, b, row, k++, p->halogen_charged_mol);
-    xt_num(w, b, row, k++, p->halogen_in_wanted_mol);
-    xt_num(w, b, row, k++, p->yield_pct);
-    xt_num(w, b, row, k++, p->conversion_pct);
-    if (p->selectivity_defined)
-        xt_num(w, b, row, k, p->selectivity_pct);
-    k++;
-    xt_num(w, b, row, k++, p->halogen_efficiency_pct);
-}
-
 /* Yields per month and route (substrate, reagent, wanted product): the month's figures
  * over like things only, mole-weighted over the route's runs (design section 5). */
 static void xo_month_yields(struct xw *w)
 {
-    const struct ledger *l = w->l;
-    int n = 0;
-    for (int m = 0; m < l->nmonths; m++)
-        n += l->months[m].nproducts;
-    struct xtable b = {.fn = row_month_route, .nrows = n, .empty_note = "No runs.",
+    struct xtable b = {.empty_note = "No runs.",
                        .notes = {"Per cent of moles: yield = wanted / substrate charged; conversion = "
                                  "substrate converted / charged; selectivity = wanted / converted;",
                                  "halogen efficiency = halogen atoms in the wanted product / halogen "
                                  "atoms charged (2 per Cl2, Br2, SO2Cl2; 1 per NBS, HBr)."},
                        .nnotes = 2};
-    xt_col(&b, LT_TEXT, 0, "Month");
-    xt_col(&b, LT_TEXT, 0, "Substrate");
-    xt_col(&b, LT_TEXT, 0, "Substrate (SMILES or formula)");
-    xt_col(&b, LT_TEXT, 0, "Reagent");
-    xt_col(&b, LT_TEXT, 0, "Wanted product (SMILES or formula)");
-    xt_col(&b, LT_TEXT, 0, "Wanted product (formula)");
-    /* no totals: every row is another route */
-    xt_col(&b, LT_INT, 0, "Runs [count]");
-    xt_col(&b, LT_KG, 0, "Substrate charged [kg]");
-    xt_col(&b, LT_MOL, 0, "Substrate charged [mol]");
-    xt_col(&b, LT_MOL, 0, "Substrate converted [mol]");
-    xt_col(&b, LT_MOL, 0, "Wanted product [mol]");
-    xt_col(&b, LT_KG, 0, "Wanted product [kg]");
-    xt_col(&b, LT_MOL, 0, "Halogen atoms charged [mol]");
-    xt_col(&b, LT_MOL, 0, "Halogen atoms in wanted product [mol]");
-    xt_col(&b, LT_PCT1, 0, "Yield [%%]");
-    xt_col(&b, LT_PCT1, 0, "Substrate conversion [%%]");
-    xt_col(&b, LT_PCT1, 0, "Selectivity to wanted product [%%]");
-    xt_col(&b, LT_PCT1, 0, "Halogen efficiency [%%]");
-    b.fixw[2] = 24;
-    b.fixw[4] = 24;
-    xo_table(w, "Monthly yields", &b);
+    xo_lt_table(w, &lt_month_products, &b);
 }
 
 /* A chart over columns cols[] of the month rows (plain numbers, never the totals row). */
