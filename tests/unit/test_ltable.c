@@ -12,10 +12,10 @@ static void test_sheet_order(void)
 {
     for (int t = 0; t < LT_NTABLES; t++) {
         const struct lt_table *tb = lt_tables[t];
-        int at[64], heads = 0;
+        int at[64], item[64], heads = 0;
         for (int c = 0; c < tb->ncols; c++)
-            heads += tb->cols[c].head != NULL;
-        int n = lt_sheet_order(tb, at, 64);
+            heads += tb->cols[c].head ? lt_items(&tb->cols[c]) : 0;
+        int n = lt_sheet_order(tb, at, item, 64);
         if (n != heads)
             printf("\n  %s: lt_sheet_order %d, %d headers", tb->path, n, heads);
         CU_ASSERT_EQUAL(n, heads);
@@ -23,6 +23,7 @@ static void test_sheet_order(void)
         for (int p = 0; p < n && n == heads; p++) {
             CU_ASSERT(at[p] >= 0 && at[p] < tb->ncols);
             CU_ASSERT(at[p] >= 0 && tb->cols[at[p]].head != NULL);
+            CU_ASSERT(at[p] >= 0 && item[p] >= 0 && item[p] < lt_items(&tb->cols[at[p]]));
         }
     }
 }
@@ -36,16 +37,42 @@ static void test_sheet_order_refuses(void)
     static const struct lt_col swapped[] = {{.key = "a", .head = "A", .col = 2},
                                             {.key = "b", .head = "B", .col = 1}, {.key = "c"}};
     struct lt_table t = {.cols = twice, .ncols = 2};
-    int at[4];
-    CU_ASSERT_EQUAL(lt_sheet_order(&t, at, 4), -1);
+    int at[8], item[8];
+    CU_ASSERT_EQUAL(lt_sheet_order(&t, at, item, 8), -1);
     t.cols = past;
-    CU_ASSERT_EQUAL(lt_sheet_order(&t, at, 4), -1);
+    CU_ASSERT_EQUAL(lt_sheet_order(&t, at, item, 8), -1);
     t.cols = swapped;
     t.ncols = 3;
-    CU_ASSERT_EQUAL(lt_sheet_order(&t, at, 4), 2);
+    CU_ASSERT_EQUAL(lt_sheet_order(&t, at, item, 8), 2);
     CU_ASSERT_EQUAL(at[0], 1);
     CU_ASSERT_EQUAL(at[1], 0);
-    CU_ASSERT_EQUAL(lt_sheet_order(&t, at, 1), -1); /* more columns than room */
+    CU_ASSERT_EQUAL(lt_sheet_order(&t, at, item, 1), -1); /* more columns than room */
+    /* a family takes one column per member, after the entry before it */
+    static const struct lt_col family[] = {{.key = "a", .head = "A"},
+                                           {.key = "%s_kg", .head = "%s [kg]", .each = LT_EACH_VENT},
+                                           {.key = "z", .head = "Z"}};
+    t.cols = family;
+    CU_ASSERT_EQUAL(lt_sheet_order(&t, at, item, 8), VS_COUNT + 2);
+    CU_ASSERT(at[1] == 1 && item[1] == 0 && at[VS_COUNT] == 1 && item[VS_COUNT] == VS_COUNT - 1);
+    CU_ASSERT(at[VS_COUNT + 1] == 2);
+    char buf[32];
+    lt_key(&family[1], 0, buf, sizeof buf);
+    CU_ASSERT_STRING_EQUAL(buf, "HCl_kg"); /* design section 5: the vent species' spelling */
+    lt_head(&family[1], VS_COUNT - 1, NULL, buf, sizeof buf);
+    CU_ASSERT_STRING_EQUAL(buf, "SO2 [kg]");
+}
+
+/* The object an entry's key sits in: the entry index of the LT_OPEN still open before it
+ * (-1: the record itself). */
+static int group_of(const struct lt_table *tb, int c)
+{
+    int open[8], n = 0;
+    for (int d = 0; d < c; d++)
+        if ((tb->cols[d].flags & LT_OPEN) && n < 8)
+            open[n++] = d;
+        else if ((tb->cols[d].flags & LT_CLOSE) && n > 0)
+            n--;
+    return n ? open[n - 1] : -1;
 }
 
 static void test_entries(void)
@@ -53,18 +80,28 @@ static void test_entries(void)
     for (int t = 0; t < LT_NTABLES; t++) {
         const struct lt_table *tb = lt_tables[t];
         CU_ASSERT(tb->key && tb->path && tb->sheet && tb->count);
+        int open = 0;
         for (int c = 0; c < tb->ncols; c++) {
             const struct lt_col *e = &tb->cols[c];
-            CU_ASSERT(e->key || e->head);
-            CU_ASSERT(e->get || tb->rec);
+            CU_ASSERT(e->key || e->head || (e->flags & LT_CLOSE));
+            CU_ASSERT(e->get || tb->rec || (e->flags & (LT_OPEN | LT_CLOSE)) || e->sub);
             CU_ASSERT(e->kind >= LT_TEXT && e->kind < LT_NKIND);
+            /* an object's open and close and a sub-table are JSON only; two levels at most */
+            if (e->flags & (LT_OPEN | LT_CLOSE) || e->sub)
+                CU_ASSERT(e->head == NULL);
+            open += (e->flags & LT_OPEN) ? 1 : (e->flags & LT_CLOSE) ? -1 : 0;
+            CU_ASSERT(open >= 0 && open <= 2);
             if (e->flags & LT_CAUSTIC) {
                 const char *s = e->head ? strstr(e->head, "%s") : NULL;
                 CU_ASSERT(s != NULL && strstr(s + 2, "%") == NULL);
             }
+            if (e->each != LT_ONE) /* one %s in the key and the header: the member's name */
+                CU_ASSERT((!e->key || strstr(e->key, "%s")) && (!e->head || strstr(e->head, "%s")));
             for (int d = 0; d < c; d++) {
                 const struct lt_col *f = &tb->cols[d];
-                int same_key = e->key && f->key && strcmp(e->key, f->key) == 0;
+                int same_key = e->key && f->key && !((e->flags | f->flags) & LT_CLOSE) &&
+                               strcmp(e->key, f->key) == 0 &&
+                               group_of(tb, c) == group_of(tb, d);
                 int same_head = e->head && f->head && strcmp(e->head, f->head) == 0;
                 if (same_key || same_head)
                     printf("\n  %s: entries %d and %d share %s", tb->path, d, c,
@@ -72,6 +109,7 @@ static void test_entries(void)
                 CU_ASSERT(!same_key && !same_head);
             }
         }
+        CU_ASSERT_EQUAL(open, 0);
     }
 }
 
@@ -91,7 +129,7 @@ static void test_caustic_basis(void)
     CU_ASSERT_STRING_EQUAL(buf, "50 wt% NaOH");
     struct lt_col c = {.key = "caustic_solution_kg", .head = "Caustic solution bought, %s [kg]",
                        .kind = LT_KG, .flags = LT_CAUSTIC};
-    lt_head(&c, &l, buf, sizeof buf);
+    lt_head(&c, 0, &l, buf, sizeof buf);
     CU_ASSERT_STRING_EQUAL(buf, "Caustic solution bought, 50 wt% NaOH [kg]");
     u[2].makeup_naoh_wt_pct = 25;
     lt_caustic_basis(&l, buf, sizeof buf);
