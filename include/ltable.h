@@ -26,7 +26,6 @@
  *   LT_V_NULL  JSON null; the sheet shows the value's text, else the column's `none`, else
  *              leaves the cell blank
  *   LT_V_ABSENT the key is left out of the JSON object; blank cell
- *   LT_V_BAD   the JSON writer refuses the record (the value's text says why); blank cell
  *
  * Beyond single values a list says, for the JSON side, where a record's objects begin and end
  * (an LT_OPEN entry, whose getter may make the object null, and an LT_CLOSE entry), where an
@@ -55,8 +54,7 @@ enum lt_kind {
     LT_TEMP, LT_HEAT, LT_SCI, LT_GMOL, LT_LEN, LT_GEN, LT_PCT1, LT_KW, LT_NKIND
 };
 
-enum lt_vt { LT_V_NULL, LT_V_ABSENT, LT_V_NUM, LT_V_TEXT, LT_V_DATE, LT_V_BOOL, LT_V_RUNS,
-             LT_V_BAD };
+enum lt_vt { LT_V_NULL, LT_V_ABSENT, LT_V_NUM, LT_V_TEXT, LT_V_DATE, LT_V_BOOL, LT_V_RUNS };
 
 struct lt_val {
     enum lt_vt t;

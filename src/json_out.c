@@ -567,7 +567,6 @@ static void jo_value(struct jo *w, const struct ledger *l, const char *key, enum
     case LT_V_DATE: jo_date(w, key, v->min, kind == LT_DAY); break;
     case LT_V_BOOL: jo_bool(w, key, v->on); break;
     case LT_V_RUNS: jo_run_ids(w, l, key, v->runs, v->nruns); break;
-    case LT_V_BAD: jo_bad(w, key, v->text); break;
     }
 }
 

@@ -720,7 +720,7 @@ static void xt_value(struct xw *w, struct xtable *b, lxw_row_t row, int k, const
     const char *s;
     char ids[1000];
     switch (v->t) {
-    case LT_V_ABSENT: case LT_V_BAD: break; /* LT_V_BAD: the JSON writer refuses it; blank here */
+    case LT_V_ABSENT: break;
     case LT_V_NULL: /* JSON null: the value's own text, the column's, or a blank */
         s = v->text ? v->text : c->none;
         if (s && k < b->ncols)
