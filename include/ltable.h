@@ -32,13 +32,13 @@
  * array of rows of another list sits (`sub`: runs[].reaction.steps), and a family: one entry
  * for a key and a column per vent species or salt (`each`, the member's name in the %s of key
  * and head).  So a list can be written inside a record the JSON writer owns: the lists of
- * Plan vs actual, Reaction heat, Emissions by run and Liquor by run are parts of each runs[]
- * record, in its key order.
+ * Waste by run, Liquor by run, Reaction heat, Plan vs actual and Emissions by run are parts of
+ * each runs[] record, in its key order.
  *
  * Each list and its sheet are the same rows: a sheet row per record (count), or per row j of
  * a record when the list has nsub (products of a run, routes of a month; 0 or 1 to take only
  * some records, as the runs with an actual).  Nothing here writes: the writers render the
- * values, and each keeps what is not a list (the rest of the runs[] record, the Runs, Waste,
+ * values, and each keeps what is not a list (the rest of the runs[] record, the Runs,
  * Hourly load, Column check, Spent liquor and Monthly sheets, notes, charts, the Summary).
  */
 #ifndef LTABLE_H
@@ -83,8 +83,9 @@ enum lt_flag {
 
 /* A family entry stands for one column and one key per member: key and head are formats
  * with one %s for the member's name, the getter reads lt_val.item (and off the item-th
- * double of an array). */
-enum lt_each { LT_ONE, LT_EACH_VENT, LT_EACH_SALT };
+ * double of an array).  LT_EACH_RETAINED: the vent species that dissolve in the reaction
+ * mass (reagents.h `retained`), item k the k-th of them (lt_retained gives its species). */
+enum lt_each { LT_ONE, LT_EACH_VENT, LT_EACH_SALT, LT_EACH_RETAINED };
 
 struct lt_table;
 
@@ -128,8 +129,10 @@ extern const struct lt_table lt_orders, lt_scrubbers, lt_permit_checks, lt_stock
 extern const struct lt_table lt_month_products, lt_run_actuals, lt_run_reaction, lt_run_emissions;
 /* runs[].scrubber{} / Liquor by run (the runs routed to a scrubber): the liquor after each run. */
 extern const struct lt_table lt_run_liquor;
+/* byproducts{}, vent{}, retained{}, reagent_left_kg and losses{} / Waste by run. */
+extern const struct lt_table lt_run_waste;
 /* All of them, for tests and tools that walk every table (LT_NTABLES entries). */
-#define LT_NTABLES 11
+#define LT_NTABLES 12
 extern const struct lt_table *const lt_tables[LT_NTABLES];
 
 /* Value of member `item` (0 for a single entry) of column c of t for record i, row j (j = 0
@@ -137,8 +140,12 @@ extern const struct lt_table *const lt_tables[LT_NTABLES];
 void lt_get(const struct lt_table *t, int c, int item, const struct ledger *l, int i, int j,
             struct lt_val *v);
 
-/* Members of entry c: 1, or the family's (VS_COUNT vent species, SALT_COUNT salts). */
+/* Members of entry c: 1, or the family's (VS_COUNT vent species, SALT_COUNT salts, the
+ * retained species). */
 int lt_items(const struct lt_col *c);
+
+/* The vent species of member k of LT_EACH_RETAINED, -1 past the last. */
+int lt_retained(int k);
 
 /* Sheet columns of t: column p (0-based) shows member item[p] of entry at[p]; a family's
  * members take consecutive columns.  Returns the number of columns, or -1 when the entries'

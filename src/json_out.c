@@ -638,13 +638,6 @@ static void jo_record(struct jo *w, const struct lt_table *t, const struct ledge
 
 /* --- records ------------------------------------------------------------- */
 
-/* The five vent species as members NAME_mol of the open object. */
-static void jo_species(struct jo *w, const double *mol)
-{
-    for (int s = 0; s < VS_COUNT; s++)
-        jo_num(w, vent_get(s)->mol_key, mol[s]);
-}
-
 /* A run's element_balance{}: the largest relative error and each element in and out. */
 static void jo_run_elements(struct jo *w, const struct ledger_bal *b)
 {
@@ -666,7 +659,6 @@ static void jo_run(struct jo *w, const struct ledger *l, int i)
 {
     const struct ledger_run *r = &l->runs[i];
     const struct ledger_bal *b = &r->bal;
-    const struct scrub_run_out *s = &r->scrub;
     jo_begin(w, "runs", i);
     jo_str(w, "id", r->id);
     jo_date(w, "start", r->start_min, 0);
@@ -702,28 +694,7 @@ static void jo_run(struct jo *w, const struct ledger *l, int i)
 
     jo_rows(w, &lt_run_products, l, i, "products"); /* the rows listed, the lumped "other" row */
 
-    jo_open(w, "byproducts", '{');
-    jo_num(w, "HCl_kg", b->hx_kg[0]);
-    jo_num(w, "HBr_kg", b->hx_kg[1]);
-    jo_num(w, "SO2_kg", b->so2_kg);
-    jo_num(w, "succinimide_kg", b->succinimide_kg);
-    jo_close(w, '}');
-
-    jo_open(w, "vent", '{');
-    jo_species(w, b->vent_mol);
-    jo_num(w, "acid_kmol_h", s->acid_kmol_h);
-    jo_close(w, '}');
-    jo_open(w, "retained", '{');
-    jo_species(w, b->retained_mol);
-    jo_close(w, '}');
-    jo_num(w, "reagent_left_kg", b->reagent_left_kg);
-
-    jo_open(w, "losses", '{');
-    jo_num(w, "wanted_kg", b->wanted_kg);
-    jo_num(w, "isomer_kg", b->isomer_kg);
-    jo_num(w, "overhalogenated_kg", b->overhal_kg);
-    jo_num(w, "unreacted_substrate_kg", b->unreacted_substrate_kg);
-    jo_close(w, '}');
+    jo_cols(w, &lt_run_waste, l, i, 0); /* byproducts{}, vent{}, retained{}, losses{} */
 
     jo_cols(w, &lt_run_liquor, l, i, 0); /* scrubber{}: its liquor after the run */
 

@@ -42,15 +42,34 @@ void lt_caustic_basis(const struct ledger *l, char *buf, size_t n)
         snprintf(buf, n, "at each unit's make-up strength");
 }
 
+int lt_retained(int k)
+{
+    for (int v = 0; v < VS_COUNT; v++)
+        if (vent_get(v)->retained && k-- == 0)
+            return v;
+    return -1;
+}
+
 int lt_items(const struct lt_col *c)
 {
-    return c->each == LT_EACH_VENT ? VS_COUNT : c->each == LT_EACH_SALT ? SALT_COUNT : 1;
+    int n = 0;
+    switch (c->each) {
+    case LT_ONE: return 1;
+    case LT_EACH_VENT: return VS_COUNT;
+    case LT_EACH_SALT: return SALT_COUNT;
+    case LT_EACH_RETAINED:
+        while (lt_retained(n) >= 0)
+            n++;
+        return n;
+    }
+    return 1;
 }
 
 /* Name of member k of a family. */
 static const char *member(enum lt_each each, int k)
 {
-    const char *n = each == LT_EACH_VENT ? vent_name(k) : liquor_salt_get(k)->name;
+    const char *n = each == LT_EACH_SALT ? liquor_salt_get(k)->name
+                    : vent_name(each == LT_EACH_RETAINED ? lt_retained(k) : k);
     return n ? n : "gas";
 }
 
@@ -1070,6 +1089,54 @@ const struct lt_table lt_run_liquor = {.key = "runs", .path = "runs[scrubber_id]
     .sheet = "Liquor by run", .cols = lq_cols, .ncols = NCOLS(lq_cols), .count = run_count,
     .nsub = lq_nsub, .rec = run_rec};
 
+/* --- byproducts{} .. losses{} of runs[] / Waste by run --------------------- */
+
+/* what stays in the reaction mass, in kg (the JSON gives it in mol, retained{}) */
+GET(ws_retained)
+{
+    (void)j;
+    int s = lt_retained(v->item);
+    num(v, RUN(i)->bal.retained_mol[s] * vent_molar_mass_g_mol(s) / 1000.0);
+}
+
+/* the run's by-products, vent gas and losses; the sheet shows the waste among them */
+static const struct lt_col ws_cols[] = {
+    {NULL, "Run", LT_TEXT, .get = run_id},
+    {NULL, "Start (plant time)", LT_DATE, .get = run_start},
+    {NULL, "Reagent", LT_TEXT, .get = run_reagent},
+    {NULL, "Substrate", LT_TEXT, .get = run_substrate},
+    {"byproducts", NULL, LT_TEXT, .flags = LT_OPEN},
+    {"HCl_kg", NULL, LT_KG, .off = RF(bal.hx_kg[0])},
+    {"HBr_kg", NULL, LT_KG, .off = RF(bal.hx_kg[1])},
+    {"SO2_kg", NULL, LT_KG, .off = RF(bal.so2_kg)},
+    {"succinimide_kg", "Succinimide (solid) [kg]", LT_KG, .flags = LT_TOTAL,
+     .off = RF(bal.succinimide_kg)},
+    {.flags = LT_CLOSE},
+    {"vent", NULL, LT_TEXT, .flags = LT_OPEN},
+    {"%s_mol", NULL, LT_MOL, .each = LT_EACH_VENT, .off = RF(bal.vent_mol)},
+    {"acid_kmol_h", NULL, LT_RATE, .off = RF(scrub.acid_kmol_h)},
+    {.flags = LT_CLOSE},
+    {"retained", NULL, LT_TEXT, .flags = LT_OPEN},
+    {"%s_mol", NULL, LT_MOL, .each = LT_EACH_VENT, .off = RF(bal.retained_mol)},
+    {.flags = LT_CLOSE},
+    /* this and the next three mix reagents or products from run to run: no totals */
+    {"reagent_left_kg", "Unreacted reagent left in mass [kg]", LT_KG,
+     .off = RF(bal.reagent_left_kg)},
+    {"losses", NULL, LT_TEXT, .flags = LT_OPEN},
+    {"wanted_kg", NULL, LT_KG, .off = RF(bal.wanted_kg)},
+    {"isomer_kg", "Isomer products [kg]", LT_KG, .col = 8, .off = RF(bal.isomer_kg)},
+    {"overhalogenated_kg", "Over-halogenated products [kg]", LT_KG, .col = 7,
+     .off = RF(bal.overhal_kg)},
+    {"unreacted_substrate_kg", "Unreacted substrate [kg]", LT_KG, .col = 9,
+     .off = RF(bal.unreacted_substrate_kg)},
+    {.flags = LT_CLOSE},
+    {NULL, "%s retained in mass [kg]", LT_KG, .flags = LT_TOTAL, .each = LT_EACH_RETAINED,
+     .get = ws_retained},
+};
+
+const struct lt_table lt_run_waste = {.key = "runs", .path = "runs", .sheet = "Waste by run",
+    .cols = ws_cols, .ncols = NCOLS(ws_cols), .count = run_count, .rec = run_rec};
+
 /* --- warnings[] / Warnings ------------------------------------------------ */
 
 static int wn_count(const struct ledger *l) { return l->nwarnings; }
@@ -1090,4 +1157,5 @@ const struct lt_table lt_warnings = {.key = "warnings", .path = "warnings",
 
 const struct lt_table *const lt_tables[LT_NTABLES] = {
     &lt_run_products, &lt_scrubbers, &lt_permit_checks, &lt_orders, &lt_stock_checks, &lt_warnings,
-    &lt_month_products, &lt_run_actuals, &lt_run_reaction, &lt_run_emissions, &lt_run_liquor};
+    &lt_month_products, &lt_run_actuals, &lt_run_reaction, &lt_run_emissions, &lt_run_liquor,
+    &lt_run_waste};

@@ -1678,42 +1678,10 @@ static void xo_heat(struct xw *w)
 
 /* --- Waste by run, spent liquor ------------------------------------------- */
 
-static void row_waste_run(struct xw *w, struct xtable *b, lxw_row_t row, int i)
-{
-    const struct ledger_run *r = &w->l->runs[i];
-    const struct ledger_bal *o = &r->bal;
-    int k = 0;
-    xt_text(w, b, row, k++, r->id);
-    xt_date(w, b, row, k++, r->start_min);
-    xt_text(w, b, row, k++, lt_item_name(r->reagent));
-    xt_text(w, b, row, k++, r->substrate_name);
-    xt_num(w, b, row, k++, o->succinimide_kg);
-    xt_num(w, b, row, k++, o->reagent_left_kg);
-    xt_num(w, b, row, k++, o->overhal_kg);
-    xt_num(w, b, row, k++, o->isomer_kg);
-    xt_num(w, b, row, k++, o->unreacted_substrate_kg);
-    for (int v = 0; v < VS_COUNT; v++)
-        if (vent_get(v)->retained)
-            xt_num(w, b, row, k++, xo_vent_kg(o->retained_mol, v));
-}
-
 static void xo_waste(struct xw *w)
 {
-    struct xtable a = {.fn = row_waste_run, .nrows = w->l->nruns, .empty_note = "No runs."};
-    xt_col(&a, LT_TEXT, 0, "Run");
-    xt_col(&a, LT_DATE, 0, "Start (plant time)");
-    xt_col(&a, LT_TEXT, 0, "Reagent");
-    xt_col(&a, LT_TEXT, 0, "Substrate");
-    xt_col(&a, LT_KG, 1, "Succinimide (solid) [kg]");
-    /* the next four mix reagents or products from run to run: no totals */
-    xt_col(&a, LT_KG, 0, "Unreacted reagent left in mass [kg]");
-    xt_col(&a, LT_KG, 0, "Over-halogenated products [kg]");
-    xt_col(&a, LT_KG, 0, "Isomer products [kg]");
-    xt_col(&a, LT_KG, 0, "Unreacted substrate [kg]");
-    for (int v = 0; v < VS_COUNT; v++)
-        if (vent_get(v)->retained)
-            xt_col(&a, LT_KG, 1, "%s retained in mass [kg]", vent_name(v));
-    xo_table(w, "Waste by run", &a);
+    struct xtable a = {.empty_note = "No runs."};
+    xo_lt_table(w, &lt_run_waste, &a);
 }
 
 static void row_spent(struct xw *w, struct xtable *b, lxw_row_t row, int i)

@@ -6,6 +6,7 @@
 #include "cu_helpers.h"
 #include "ltable.h"
 
+#include <stdio.h>
 #include <string.h>
 
 static void test_sheet_order(void)
@@ -60,6 +61,23 @@ static void test_sheet_order_refuses(void)
     CU_ASSERT_STRING_EQUAL(buf, "HCl_kg"); /* design section 5: the vent species' spelling */
     lt_head(&family[1], VS_COUNT - 1, NULL, buf, sizeof buf);
     CU_ASSERT_STRING_EQUAL(buf, "SO2 [kg]");
+    /* the retained family: one member per vent species flagged retained, in species order */
+    static const struct lt_col kept = {.head = "%s retained [kg]", .each = LT_EACH_RETAINED};
+    int nkept = 0, last = -1;
+    for (int v = 0; v < VS_COUNT; v++)
+        nkept += vent_get(v)->retained != 0;
+    CU_ASSERT(nkept > 0);
+    CU_ASSERT_EQUAL(lt_items(&kept), nkept);
+    for (int k = 0; k < nkept; k++) {
+        int s = lt_retained(k);
+        CU_ASSERT(s > last && s < VS_COUNT && vent_get(s)->retained);
+        last = s;
+        char want[32];
+        snprintf(want, sizeof want, "%s retained [kg]", vent_get(s)->name);
+        lt_head(&kept, k, NULL, buf, sizeof buf);
+        CU_ASSERT_STRING_EQUAL(buf, want);
+    }
+    CU_ASSERT_EQUAL(lt_retained(nkept), -1);
 }
 
 /* The object an entry's key sits in: the entry index of the LT_OPEN still open before it
