@@ -116,6 +116,12 @@ near(m.get("peak_kw"), HEAT / 7200, 3.0 * MOL_CL2 / 7200, "M3 peak_kw (peak fact
 near(m.get("mass_kg"), 500.0, 1e-6, "M3 reaction mass = substrate + Cl2 + solvent")
 near(m.get("delta_t_ad_k"), RISE, 3.0 * MOL_CL2 / 1000, "M3 delta_t_ad_k")
 near(m.get("mtsr_c"), MTSR, 0.5 * 3.0 * MOL_CL2 / 1000, "M3 mtsr_c")
+# the same two through their defining relations, tight: the hand heat above carries the
+# bond-table tolerance (3 K on the rise), too loose to tell the rise from the MTSR (1.5 K apart)
+if T.check(isinstance(m.get("heat_kj"), (int, float)) and isinstance(m.get("delta_t_ad_k"), (int, float)),
+           "M3 heat_kj and delta_t_ad_k are numbers"):
+    near(m["delta_t_ad_k"], m["heat_kj"] / (500.0 * CP), 1e-9 * RISE, "M3 delta_t_ad_k = Q / (m cp)")
+    near(m.get("mtsr_c"), TEMP_C + ACC * m["delta_t_ad_k"], 1e-9 * MTSR, "M3 mtsr_c = T + acc x rise")
 T.check("criticality_class" in m and m["criticality_class"] is None, f"M3 unclassed: {m.get('criticality_class')!r}")
 T.check("mtt_c and td24_c" in (m.get("class_reason") or ""), f"M3 says what is missing: {m.get('class_reason')!r}")
 T.check("Luo" in (m.get("source") or ""), f"M3 names its bond-enthalpy source: {m.get('source')!r}")
