@@ -26,20 +26,21 @@
  *   LT_V_NULL  JSON null; the sheet shows the value's text, else the column's `none`, else
  *              leaves the cell blank
  *   LT_V_ABSENT the key is left out of the JSON object; blank cell
+ *   LT_V_BAD   the JSON writer refuses the record (the value's text says why); blank cell
  *
  * Beyond single values a list says, for the JSON side, where a record's objects begin and end
  * (an LT_OPEN entry, whose getter may make the object null, and an LT_CLOSE entry), where an
  * array of rows of another list sits (`sub`: runs[].reaction.steps), and a family: one entry
  * for a key and a column per vent species or salt (`each`, the member's name in the %s of key
- * and head).  So a list can be written inside a record the JSON writer owns: the lists of
- * Waste by run, Liquor by run, Reaction heat, Plan vs actual and Emissions by run are parts of
- * each runs[] record, in its key order.
+ * and head).  A list can be a part of another's records: the lists of Waste by run, Liquor by
+ * run, Reaction heat, Plan vs actual and Emissions by run are parts of each runs[] record,
+ * placed in its key order by the Runs list (lt_runs) with a key-less `sub` entry.
  *
  * Each list and its sheet are the same rows: a sheet row per record (count), or per row j of
  * a record when the list has nsub (products of a run, routes of a month; 0 or 1 to take only
  * some records, as the runs with an actual).  Nothing here writes: the writers render the
- * values, and each keeps what is not a list (the rest of the runs[] record, the Runs,
- * Hourly load, Column check, Spent liquor and Monthly sheets, notes, charts, the Summary).
+ * values, and each keeps what is not a list (the Hourly load, Column check, Spent liquor and
+ * Monthly sheets and the records behind them, notes, charts, the Summary).
  */
 #ifndef LTABLE_H
 #define LTABLE_H
@@ -54,7 +55,8 @@ enum lt_kind {
     LT_TEMP, LT_HEAT, LT_SCI, LT_GMOL, LT_LEN, LT_GEN, LT_PCT1, LT_KW, LT_NKIND
 };
 
-enum lt_vt { LT_V_NULL, LT_V_ABSENT, LT_V_NUM, LT_V_TEXT, LT_V_DATE, LT_V_BOOL, LT_V_RUNS };
+enum lt_vt { LT_V_NULL, LT_V_ABSENT, LT_V_NUM, LT_V_TEXT, LT_V_DATE, LT_V_BOOL, LT_V_RUNS,
+             LT_V_BAD };
 
 struct lt_val {
     enum lt_vt t;
@@ -84,8 +86,11 @@ enum lt_flag {
 /* A family entry stands for one column and one key per member: key and head are formats
  * with one %s for the member's name, the getter reads lt_val.item (and off the item-th
  * double of an array).  LT_EACH_RETAINED: the vent species that dissolve in the reaction
- * mass (reagents.h `retained`), item k the k-th of them (lt_retained gives its species). */
-enum lt_each { LT_ONE, LT_EACH_VENT, LT_EACH_SALT, LT_EACH_RETAINED };
+ * mass (reagents.h `retained`), item k the k-th of them (lt_retained gives its species).
+ * LT_EACH_ELEMENT: the elements balanced (balance.h bal_elements), keyed by symbol.  A family
+ * LT_OPEN entry (JSON only) opens an object per member, and the entries up to its LT_CLOSE
+ * are written in each with the member as their item (runs[].element_balance.elements). */
+enum lt_each { LT_ONE, LT_EACH_VENT, LT_EACH_SALT, LT_EACH_RETAINED, LT_EACH_ELEMENT };
 
 struct lt_table;
 
@@ -103,7 +108,9 @@ struct lt_col {
     double width;               /* fixed sheet width in characters, 0 = from content */
     int cap;                    /* LT_V_RUNS: sheet text cut at cap bytes (0: 400) */
     enum lt_each each;
-    const struct lt_table *sub; /* JSON only: "key": [ a row object per sub->nsub(l, i) ] */
+    const struct lt_table *sub; /* JSON only: "key": [ a row object per sub->nsub(l, i) ];
+                                 * without a key: sub's keyed entries written here, in this
+                                 * record (a list that is a part of it) */
 };
 
 struct lt_table {
@@ -131,8 +138,10 @@ extern const struct lt_table lt_month_products, lt_run_actuals, lt_run_reaction,
 extern const struct lt_table lt_run_liquor;
 /* byproducts{}, vent{}, retained{}, reagent_left_kg and losses{} / Waste by run. */
 extern const struct lt_table lt_run_waste;
+/* runs[] / Runs: the record's own keys, and where the lists above that are parts of it go. */
+extern const struct lt_table lt_runs;
 /* All of them, for tests and tools that walk every table (LT_NTABLES entries). */
-#define LT_NTABLES 12
+#define LT_NTABLES 13
 extern const struct lt_table *const lt_tables[LT_NTABLES];
 
 /* Value of member `item` (0 for a single entry) of column c of t for record i, row j (j = 0

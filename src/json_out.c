@@ -567,22 +567,38 @@ static void jo_value(struct jo *w, const struct ledger *l, const char *key, enum
     case LT_V_DATE: jo_date(w, key, v->min, kind == LT_DAY); break;
     case LT_V_BOOL: jo_bool(w, key, v->on); break;
     case LT_V_RUNS: jo_run_ids(w, l, key, v->runs, v->nruns); break;
+    case LT_V_BAD: jo_bad(w, key, v->text); break;
     }
 }
 
 static void jo_rows(struct jo *w, const struct lt_table *t, const struct ledger *l, int i,
                     const char *key);
 
-/* The keyed entries of table t (ltable.h) for record i, row j, as members of the open
- * object, in the list's order (the JSON key order): objects opened and closed where the
- * list says (a null one's members left out), a family one member per key, a sub-table an
- * array of its rows. */
-static void jo_cols(struct jo *w, const struct lt_table *t, const struct ledger *l, int i, int j)
+/* Index of the LT_CLOSE that closes the object entry c of t opens. */
+static int jo_close_of(const struct lt_table *t, int c)
+{
+    int depth = 0;
+    for (; c < t->ncols; c++) {
+        depth += (t->cols[c].flags & LT_OPEN) ? 1 : (t->cols[c].flags & LT_CLOSE) ? -1 : 0;
+        if (depth == 0)
+            return c;
+    }
+    return t->ncols;
+}
+
+/* The keyed entries from..to-1 of table t (ltable.h) for record i, row j, as members of the
+ * open object, in the list's order (the JSON key order): objects opened and closed where the
+ * list says (a null one's members left out; a family's an object per member, whose entries
+ * take the member as their item), a family one member per key, a sub-table an array of its
+ * rows, a key-less sub-table its entries here. */
+static void jo_span(struct jo *w, const struct lt_table *t, const struct ledger *l, int i, int j,
+                    int from, int to, int item)
 {
     struct lt_val v;
     int skip = 0; /* depth inside an object written as null */
-    for (int c = 0; c < t->ncols && w->st == HL_OK; c++) {
+    for (int c = from; c < to && w->st == HL_OK; c++) {
         const struct lt_col *e = &t->cols[c];
+        char key[64];
         if (skip) {
             skip += (e->flags & LT_OPEN) ? 1 : (e->flags & LT_CLOSE) ? -1 : 0;
             continue;
@@ -590,7 +606,17 @@ static void jo_cols(struct jo *w, const struct lt_table *t, const struct ledger 
         if (e->flags & LT_CLOSE) {
             jo_close(w, '}');
         } else if (!e->key) {
-            continue; /* a sheet-only column */
+            if (e->sub) /* a list that is a part of this record */
+                jo_span(w, e->sub, l, i, j, 0, e->sub->ncols, 0);
+        } else if ((e->flags & LT_OPEN) && e->each != LT_ONE) {
+            int end = jo_close_of(t, c);
+            for (int k = 0; k < lt_items(e) && w->st == HL_OK; k++) {
+                lt_key(e, k, key, sizeof key);
+                jo_open(w, key, '{');
+                jo_span(w, t, l, i, j, c + 1, end, k);
+                jo_close(w, '}');
+            }
+            c = end;
         } else if (e->flags & LT_OPEN) {
             v.t = LT_V_BOOL;
             if (e->get)
@@ -605,13 +631,18 @@ static void jo_cols(struct jo *w, const struct lt_table *t, const struct ledger 
             jo_rows(w, e->sub, l, i, e->key);
         } else {
             for (int k = 0; k < lt_items(e); k++) {
-                char key[64];
                 lt_key(e, k, key, sizeof key);
-                lt_get(t, c, k, l, i, j, &v);
+                lt_get(t, c, e->each == LT_ONE ? item : k, l, i, j, &v);
                 jo_value(w, l, key, e->kind, &v);
             }
         }
     }
+}
+
+/* All the keyed entries of table t for record i, row j (jo_span). */
+static void jo_cols(struct jo *w, const struct lt_table *t, const struct ledger *l, int i, int j)
+{
+    jo_span(w, t, l, i, j, 0, t->ncols, 0);
 }
 
 /* "key": [ an object per row of table t under record i ]. */
@@ -638,86 +669,8 @@ static void jo_record(struct jo *w, const struct lt_table *t, const struct ledge
 
 /* --- records ------------------------------------------------------------- */
 
-/* A run's element_balance{}: the largest relative error and each element in and out. */
-static void jo_run_elements(struct jo *w, const struct ledger_bal *b)
-{
-    jo_open(w, "element_balance", '{');
-    jo_num(w, "max_rel_error", b->max_rel_error);
-    jo_open(w, "elements", '{');
-    for (int k = 0; k < BAL_NEL; k++) {
-        const char *sym = elem_symbol(bal_elements[k]);
-        jo_open(w, sym ? sym : "?", '{');
-        jo_num(w, "in_mol", b->el_in_mol[k]);
-        jo_num(w, "out_mol", b->el_out_mol[k]);
-        jo_close(w, '}');
-    }
-    jo_close(w, '}');
-    jo_close(w, '}');
-}
-
-static void jo_run(struct jo *w, const struct ledger *l, int i)
-{
-    const struct ledger_run *r = &l->runs[i];
-    const struct ledger_bal *b = &r->bal;
-    jo_begin(w, "runs", i);
-    jo_str(w, "id", r->id);
-    jo_date(w, "start", r->start_min, 0);
-    if (!isfinite(r->feed_h) || fabs(r->feed_h) > 1e9)
-        jo_bad(w, "end", "feed time out of range");
-    else
-        jo_date(w, "end", r->start_min + (int64_t)llround(r->feed_h * 60.0), 0);
-    jo_str(w, "reactor", r->reactor);
-    jo_str(w, "scrubber_id", r->scrubber);
-    jo_str(w, "reagent", lt_item_name(r->reagent));
-    jo_num(w, "temp_c", r->temp_c);
-    jo_str(w, "reactor_mode", r->mode == KIN_CSTR ? "cstr" : "batch");
-    jo_num(w, "feed_h", r->feed_h);
-
-    jo_open(w, "substrate", '{');
-    jo_str(w, "name", r->substrate_name);
-    jo_str(w, "smiles", r->smiles);
-    jo_str(w, "formula", b->substrate_formula);
-    jo_num(w, "molar_mass_g_mol", b->substrate_molar_mass_g_mol);
-    jo_num(w, "kg", r->substrate_kg);
-    jo_num(w, "mol", b->substrate_mol);
-    jo_close(w, '}');
-
-    jo_open(w, "reagent_charged", '{');
-    jo_num(w, "kg", b->reagent_kg);
-    jo_num(w, "mol", b->reagent_mol);
-    jo_close(w, '}');
-    jo_num(w, "reagent_reacted_mol", b->reagent_reacted_mol);
-    jo_num(w, "reagent_unreacted_mol", b->reagent_unreacted_mol);
-    jo_num(w, "halogen_reacted_mol", b->halogen_reacted_mol);
-    jo_bool(w, "capped", b->capped);
-    jo_num(w, "mean_degree", b->mean_degree);
-
-    jo_rows(w, &lt_run_products, l, i, "products"); /* the rows listed, the lumped "other" row */
-
-    jo_cols(w, &lt_run_waste, l, i, 0); /* byproducts{}, vent{}, retained{}, losses{} */
-
-    jo_cols(w, &lt_run_liquor, l, i, 0); /* scrubber{}: its liquor after the run */
-
-    jo_run_elements(w, &r->bal);
-    jo_bool(w, "isomers_resolved", b->isomers_resolved);
-    jo_num(w, "wanted_mol", b->wanted_mol);
-    jo_num(w, "converted_mol", b->converted_mol);
-    jo_num(w, "halogen_charged_mol", b->halogen_charged_mol);
-    jo_num(w, "halogen_in_wanted_mol", b->halogen_in_wanted_mol);
-    jo_num(w, "yield_pct", b->yield_pct);
-    jo_num(w, "conversion_pct", b->conversion_pct);
-    if (b->selectivity_defined)
-        jo_num(w, "selectivity_pct", b->selectivity_pct);
-    else
-        jo_null(w, "selectivity_pct"); /* nothing converted: no selectivity */
-    jo_num(w, "halogen_efficiency_pct", b->halogen_efficiency_pct);
-    jo_cols(w, &lt_run_reaction, l, i, 0); /* reaction{} (thermal.h), withdrawal{} or null */
-    if (b->warning)
-        jo_str(w, "warning", b->warning);
-    jo_cols(w, &lt_run_actuals, l, i, 0); /* actual{} (null while planned), variance{} (done) */
-    jo_cols(w, &lt_run_emissions, l, i, 0); /* what leaves the stack after the scrubber */
-    jo_end(w);
-}
+/* A runs[] record: the Runs list (ltable.h lt_runs), with the lists that are parts of it. */
+static void jo_run(struct jo *w, const struct ledger *l, int i) { jo_record(w, &lt_runs, l, i); }
 
 static void jo_month(struct jo *w, const struct ledger *l, int i)
 {

@@ -6,9 +6,11 @@
  */
 #include "ltable.h"
 
+#include "elements.h"
 #include "isodate.h"
 #include "liquor.h"
 
+#include <math.h>
 #include <stdio.h>
 #include <string.h>
 
@@ -61,6 +63,7 @@ int lt_items(const struct lt_col *c)
         while (lt_retained(n) >= 0)
             n++;
         return n;
+    case LT_EACH_ELEMENT: return BAL_NEL;
     }
     return 1;
 }
@@ -68,6 +71,10 @@ int lt_items(const struct lt_col *c)
 /* Name of member k of a family. */
 static const char *member(enum lt_each each, int k)
 {
+    if (each == LT_EACH_ELEMENT) {
+        const char *sym = elem_symbol(bal_elements[k]);
+        return sym ? sym : "?";
+    }
     const char *n = each == LT_EACH_SALT ? liquor_salt_get(k)->name
                     : vent_name(each == LT_EACH_RETAINED ? lt_retained(k) : k);
     return n ? n : "gas";
@@ -1137,6 +1144,157 @@ static const struct lt_col ws_cols[] = {
 const struct lt_table lt_run_waste = {.key = "runs", .path = "runs", .sheet = "Waste by run",
     .cols = ws_cols, .ncols = NCOLS(ws_cols), .count = run_count, .rec = run_rec};
 
+/* --- runs[] / Runs ---------------------------------------------------------- */
+
+/* the feed end; a feed time no date can hold refuses the record (the sheet leaves it blank) */
+GET(run_end)
+{
+    (void)j;
+    const struct ledger_run *r = RUN(i);
+    if (!isfinite(r->feed_h) || fabs(r->feed_h) > 1e9) {
+        v->t = LT_V_BAD;
+        v->text = "feed time out of range";
+    } else {
+        date(v, r->start_min + (int64_t)llround(r->feed_h * 60.0));
+    }
+}
+GET1(run_reactor, text(v, RUN(i)->reactor))
+GET1(run_scrubber, text(v, RUN(i)->scrubber))
+GET1(run_mode, text(v, RUN(i)->mode == KIN_CSTR ? "cstr" : "batch"))
+GET1(run_smiles, text(v, RUN(i)->smiles))
+GET1(run_formula, text(v, RUN(i)->bal.substrate_formula))
+GET1(run_capped, flag(v, RUN(i)->bal.capped))
+GET1(run_resolved, flag(v, RUN(i)->bal.isomers_resolved))
+GET(run_selectivity)
+{
+    (void)j;
+    if (RUN(i)->bal.selectivity_defined) /* null: nothing converted */
+        num(v, RUN(i)->bal.selectivity_pct);
+}
+GET(run_warning)
+{
+    (void)j;
+    if (RUN(i)->bal.warning)
+        text(v, RUN(i)->bal.warning);
+    else
+        v->t = LT_V_ABSENT;
+}
+/* the wanted product of a run (NULL when it has none, as with nothing converted) */
+static const struct ledger_product *run_wanted(const struct ledger_bal *b)
+{
+    for (int k = 0; k < b->nproducts; k++)
+        if (b->products[k].role == ROLE_WANTED)
+            return &b->products[k];
+    return NULL;
+}
+GET(run_wanted_formula)
+{
+    (void)j;
+    const struct ledger_product *p = run_wanted(&RUN(i)->bal);
+    text(v, p ? p->formula : NULL);
+}
+GET(run_wanted_kg)
+{
+    (void)j;
+    const struct ledger_product *p = run_wanted(&RUN(i)->bal);
+    num(v, p ? p->kg : 0.0);
+}
+/* the vent gas in kg (the JSON gives it in mol, vent{}) */
+GET(run_vent_kg)
+{
+    (void)j;
+    num(v, RUN(i)->bal.vent_mol[v->item] * vent_molar_mass_g_mol(v->item) / 1000.0);
+}
+GET(run_note)
+{
+    (void)j;
+    const struct ledger_bal *b = &RUN(i)->bal;
+    text(v, b->warning ? b->warning : b->isomers_resolved ? NULL
+         : "formula substrate: isomers not resolved, every monohalide counted as the wanted "
+           "product");
+}
+
+/* Sheet columns: the vent family from 31, then the scrubber's figures. */
+#define RN_VENT_END (30 + VS_COUNT)
+/* The runs[] record: its own keys, and where the lists of its parts go (a sub entry without
+ * a key).  No totals over substrates, reagents or halogen atoms: the runs mix them; figures in
+ * mole per cent (design section 5). */
+static const struct lt_col rn_cols[] = {
+    {"id", "Run", LT_TEXT, .get = run_id},
+    {"start", "Start (plant time)", LT_DATE, .get = run_start},
+    {"end", "Feed end (plant time)", LT_DATE, .get = run_end},
+    {"reactor", "Reactor", LT_TEXT, .get = run_reactor},
+    {"scrubber_id", "Scrubber", LT_TEXT, .get = run_scrubber},
+    {"reagent", "Reagent", LT_TEXT, .col = 7, .get = run_reagent},
+    {"temp_c", "Temperature [°C]", LT_TEMP, .col = 11, .off = RF(temp_c)},
+    {"reactor_mode", "Reactor mode", LT_TEXT, .col = 6, .get = run_mode},
+    {"feed_h", "Feed time [h]", LT_TEMP, .col = 12, .off = RF(feed_h)},
+    {"substrate", NULL, LT_TEXT, .flags = LT_OPEN},
+    {"name", "Substrate", LT_TEXT, .col = 8, .get = run_substrate},
+    {"smiles", "Substrate SMILES", LT_TEXT, .get = run_smiles},
+    {"formula", "Substrate formula", LT_TEXT, .get = run_formula},
+    {"molar_mass_g_mol", NULL, LT_GMOL, .off = RF(bal.substrate_molar_mass_g_mol)},
+    {"kg", "Substrate [kg]", LT_KG, .col = 13, .off = RF(substrate_kg)},
+    {"mol", "Substrate [mol]", LT_MOL, .off = RF(bal.substrate_mol)},
+    {.flags = LT_CLOSE},
+    {"reagent_charged", NULL, LT_TEXT, .flags = LT_OPEN},
+    {"kg", "Reagent charged [kg]", LT_KG, .off = RF(bal.reagent_kg)},
+    {"mol", "Reagent charged [mol]", LT_MOL, .off = RF(bal.reagent_mol)},
+    {.flags = LT_CLOSE},
+    {"reagent_reacted_mol", "Reagent reacted [mol]", LT_MOL, .off = RF(bal.reagent_reacted_mol)},
+    {"reagent_unreacted_mol", NULL, LT_MOL, .off = RF(bal.reagent_unreacted_mol)},
+    {"halogen_reacted_mol", "Halogen put on carbon [mol]", LT_MOL,
+     .off = RF(bal.halogen_reacted_mol)},
+    {"capped", "Capped by substrate", LT_TEXT, .flags = LT_NOTICE, .get = run_capped,
+     .raised = "capped"},
+    {"mean_degree", "Mean halogens added [mol/mol substrate]", LT_MOL, .off = RF(bal.mean_degree)},
+    {"products", NULL, LT_TEXT, .sub = &lt_run_products}, /* the rows listed, the lumped one */
+    {.sub = &lt_run_waste},  /* byproducts{}, vent{}, retained{}, reagent_left_kg, losses{} */
+    {.sub = &lt_run_liquor}, /* scrubber{}: its liquor after the run */
+    {"element_balance", NULL, LT_TEXT, .flags = LT_OPEN},
+    {"max_rel_error", "Element balance error [relative]", LT_SCI, .col = RN_VENT_END + 6,
+     .off = RF(bal.max_rel_error)},
+    {"elements", NULL, LT_TEXT, .flags = LT_OPEN},
+    {"%s", NULL, LT_TEXT, .flags = LT_OPEN, .each = LT_EACH_ELEMENT}, /* one object each */
+    {"in_mol", NULL, LT_MOL, .off = RF(bal.el_in_mol)},
+    {"out_mol", NULL, LT_MOL, .off = RF(bal.el_out_mol)},
+    {.flags = LT_CLOSE},
+    {.flags = LT_CLOSE},
+    {.flags = LT_CLOSE},
+    {"isomers_resolved", NULL, LT_TEXT, .get = run_resolved},
+    {"wanted_mol", NULL, LT_MOL, .off = RF(bal.wanted_mol)},
+    {"converted_mol", NULL, LT_MOL, .off = RF(bal.converted_mol)},
+    {"halogen_charged_mol", NULL, LT_MOL, .off = RF(bal.halogen_charged_mol)},
+    {"halogen_in_wanted_mol", NULL, LT_MOL, .off = RF(bal.halogen_in_wanted_mol)},
+    {"yield_pct", "Yield [%]", LT_PCT1, .col = 23, .off = RF(bal.yield_pct)},
+    {"conversion_pct", "Substrate conversion [%]", LT_PCT1, .off = RF(bal.conversion_pct)},
+    {"selectivity_pct", "Selectivity to wanted product [%]", LT_PCT1, .get = run_selectivity},
+    {"halogen_efficiency_pct", "Halogen efficiency [%]", LT_PCT1,
+     .off = RF(bal.halogen_efficiency_pct)},
+    {.sub = &lt_run_reaction}, /* reaction{} (thermal.h), withdrawal{} or null */
+    {"warning", NULL, LT_TEXT, .get = run_warning},
+    {.sub = &lt_run_actuals},   /* actual{} (null while planned), variance{} (done) */
+    {.sub = &lt_run_emissions}, /* what leaves the stack after the scrubber */
+    {NULL, "Wanted product (formula)", LT_TEXT, .col = 21, .get = run_wanted_formula},
+    {NULL, "Wanted product [kg]", LT_KG, .get = run_wanted_kg},
+    {NULL, "HCl formed [kg]", LT_KG, .flags = LT_TOTAL, .col = 27, .off = RF(bal.hx_kg[0])},
+    {NULL, "HBr formed [kg]", LT_KG, .flags = LT_TOTAL, .off = RF(bal.hx_kg[1])},
+    {NULL, "SO2 formed [kg]", LT_KG, .flags = LT_TOTAL, .off = RF(bal.so2_kg)},
+    {NULL, "Succinimide formed [kg]", LT_KG, .flags = LT_TOTAL, .off = RF(bal.succinimide_kg)},
+    {NULL, "%s to scrubber [kg]", LT_KG, .flags = LT_TOTAL, .each = LT_EACH_VENT,
+     .get = run_vent_kg},
+    {NULL, "Vent gas to scrubber, peak rate [kmol/h]", LT_RATE, .col = RN_VENT_END + 1,
+     .off = RF(scrub.acid_kmol_h)},
+    {NULL, "NaOH consumed, as 100 % [kg]", LT_KG, .flags = LT_TOTAL, .off = RF(scrub.naoh_kg)},
+    {NULL, "Heat to liquor [kJ]", LT_HEAT, .flags = LT_TOTAL, .off = RF(scrub.heat_kj)},
+    {NULL, "Liquor temperature rise [K]", LT_TEMP, .off = RF(scrub.temp_rise_k)},
+    {NULL, "Liquor changed before run", LT_TEXT, .get = lq_changeout},
+    {NULL, "Note", LT_TEXT, .col = RN_VENT_END + 7, .get = run_note},
+};
+
+const struct lt_table lt_runs = {.key = "runs", .path = "runs", .sheet = "Runs",
+    .cols = rn_cols, .ncols = NCOLS(rn_cols), .count = run_count, .rec = run_rec};
+
 /* --- warnings[] / Warnings ------------------------------------------------ */
 
 static int wn_count(const struct ledger *l) { return l->nwarnings; }
@@ -1158,4 +1316,4 @@ const struct lt_table lt_warnings = {.key = "warnings", .path = "warnings",
 const struct lt_table *const lt_tables[LT_NTABLES] = {
     &lt_run_products, &lt_scrubbers, &lt_permit_checks, &lt_orders, &lt_stock_checks, &lt_warnings,
     &lt_month_products, &lt_run_actuals, &lt_run_reaction, &lt_run_emissions, &lt_run_liquor,
-    &lt_run_waste};
+    &lt_run_waste, &lt_runs};

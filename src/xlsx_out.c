@@ -427,13 +427,6 @@ static void xt_col(struct xtable *b, enum lt_kind kind, int total, const char *f
     c->alarm = XA_NONE;
 }
 
-/* A yes/no column that is an alarm (level a) when raised. */
-static void xt_alarm(struct xtable *b, enum xa a, const char *head)
-{
-    xt_col(b, LT_TEXT, 0, "%s", head);
-    b->cols[b->ncols - 1].alarm = a;
-}
-
 /* Cell k of the current row of table b. */
 static void xt_num(struct xw *w, struct xtable *b, lxw_row_t row, int k, double v)
 {
@@ -684,11 +677,6 @@ static const char *xo_vent(int vs)
     return n ? n : "gas";
 }
 
-static double xo_vent_kg(const double *mol, int vs)
-{
-    return mol[vs] * vent_molar_mass_g_mol(vs) / 1000.0;
-}
-
 /* Run ids of a list of run indices, ", "-separated, cut with "..." to fit cap. */
 static void xo_join_ids(const struct ledger *l, const int *runs, int n, char *buf, size_t cap)
 {
@@ -720,7 +708,7 @@ static void xt_value(struct xw *w, struct xtable *b, lxw_row_t row, int k, const
     const char *s;
     char ids[1000];
     switch (v->t) {
-    case LT_V_ABSENT: break;
+    case LT_V_ABSENT: case LT_V_BAD: break; /* LT_V_BAD: the JSON writer refuses it; blank here */
     case LT_V_NULL: /* JSON null: the value's own text, the column's, or a blank */
         s = v->text ? v->text : c->none;
         if (s && k < b->ncols)
@@ -791,15 +779,6 @@ static void xo_lt_table(struct xw *w, const struct lt_table *t, struct xtable *b
         b->fixw[k] = c->width;
     }
     xo_table(w, t->sheet, b);
-}
-
-/* The wanted product of a run (NULL when it has none, as with nothing converted). */
-static const struct ledger_product *xo_wanted(const struct ledger_bal *o)
-{
-    for (int j = 0; j < o->nproducts; j++)
-        if (o->products[j].role == ROLE_WANTED)
-            return &o->products[j];
-    return NULL;
 }
 
 /* --- Summary ------------------------------------------------------------- */
@@ -1206,105 +1185,10 @@ static void xo_summary(struct xw *w)
 
 /* --- Runs ---------------------------------------------------------------- */
 
-static const char xo_formula_note[] =
-    "formula substrate: isomers not resolved, every monohalide counted as the wanted product";
-
-static void row_run(struct xw *w, struct xtable *b, lxw_row_t row, int i)
-{
-    const struct ledger_run *r = &w->l->runs[i];
-    const struct ledger_bal *o = &r->bal;
-    int k = 0;
-    xt_text(w, b, row, k++, r->id);
-    xt_date(w, b, row, k++, r->start_min);
-    if (isfinite(r->feed_h) && fabs(r->feed_h) < 1e9)
-        xt_date(w, b, row, k, r->start_min + (int64_t)llround(r->feed_h * 60.0));
-    k++;
-    xt_text(w, b, row, k++, r->reactor);
-    xt_text(w, b, row, k++, r->scrubber);
-    xt_text(w, b, row, k++, r->mode == KIN_CSTR ? "cstr" : "batch");
-    xt_text(w, b, row, k++, lt_item_name(r->reagent));
-    xt_text(w, b, row, k++, r->substrate_name);
-    xt_text(w, b, row, k++, r->smiles);
-    xt_text(w, b, row, k++, o->substrate_formula);
-    xt_num(w, b, row, k++, r->temp_c);
-    xt_num(w, b, row, k++, r->feed_h);
-    xt_num(w, b, row, k++, r->substrate_kg);
-    xt_num(w, b, row, k++, o->substrate_mol);
-    xt_num(w, b, row, k++, o->reagent_kg);
-    xt_num(w, b, row, k++, o->reagent_mol);
-    xt_num(w, b, row, k++, o->reagent_reacted_mol);
-    xt_num(w, b, row, k++, o->halogen_reacted_mol);
-    xt_raise(w, b, row, k++, o->capped, "capped");
-    xt_num(w, b, row, k++, o->mean_degree);
-    const struct ledger_product *want = xo_wanted(o);
-    xt_text(w, b, row, k++, want ? want->formula : NULL);
-    xt_num(w, b, row, k++, want ? want->kg : 0.0);
-    xt_num(w, b, row, k++, o->yield_pct);
-    xt_num(w, b, row, k++, o->conversion_pct);
-    if (o->selectivity_defined)
-        xt_num(w, b, row, k, o->selectivity_pct);
-    k++; /* blank: nothing converted, so no selectivity */
-    xt_num(w, b, row, k++, o->halogen_efficiency_pct);
-    xt_num(w, b, row, k++, o->hx_kg[0]);
-    xt_num(w, b, row, k++, o->hx_kg[1]);
-    xt_num(w, b, row, k++, o->so2_kg);
-    xt_num(w, b, row, k++, o->succinimide_kg);
-    for (int s = 0; s < VS_COUNT; s++)
-        xt_num(w, b, row, k++, xo_vent_kg(o->vent_mol, s));
-    xt_num(w, b, row, k++, r->scrub.acid_kmol_h);
-    xt_num(w, b, row, k++, r->scrub.naoh_kg);
-    xt_num(w, b, row, k++, r->scrub.heat_kj);
-    xt_num(w, b, row, k++, r->scrub.temp_rise_k);
-    xt_flag(w, b, row, k++, r->scrub.changeout_before);
-    xt_num(w, b, row, k++, o->max_rel_error);
-    xt_text(w, b, row, k++, o->warning ? o->warning : o->isomers_resolved ? NULL : xo_formula_note);
-}
-
 static void xo_runs(struct xw *w)
 {
-    struct xtable b = {.fn = row_run, .nrows = w->l->nruns, .empty_note = "No runs in the campaign."};
-    xt_col(&b, LT_TEXT, 0, "Run");
-    xt_col(&b, LT_DATE, 0, "Start (plant time)");
-    xt_col(&b, LT_DATE, 0, "Feed end (plant time)");
-    xt_col(&b, LT_TEXT, 0, "Reactor");
-    xt_col(&b, LT_TEXT, 0, "Scrubber");
-    xt_col(&b, LT_TEXT, 0, "Reactor mode");
-    xt_col(&b, LT_TEXT, 0, "Reagent");
-    xt_col(&b, LT_TEXT, 0, "Substrate");
-    xt_col(&b, LT_TEXT, 0, "Substrate SMILES");
-    xt_col(&b, LT_TEXT, 0, "Substrate formula");
-    xt_col(&b, LT_TEMP, 0, "Temperature [°C]");
-    xt_col(&b, LT_TEMP, 0, "Feed time [h]");
-    /* no totals over substrates, reagents or halogen atoms: the runs mix them */
-    xt_col(&b, LT_KG, 0, "Substrate [kg]");
-    xt_col(&b, LT_MOL, 0, "Substrate [mol]");
-    xt_col(&b, LT_KG, 0, "Reagent charged [kg]");
-    xt_col(&b, LT_MOL, 0, "Reagent charged [mol]");
-    xt_col(&b, LT_MOL, 0, "Reagent reacted [mol]");
-    xt_col(&b, LT_MOL, 0, "Halogen put on carbon [mol]");
-    xt_alarm(&b, XA_NOTICE, "Capped by substrate");
-    xt_col(&b, LT_MOL, 0, "Mean halogens added [mol/mol substrate]");
-    /* figures in mole per cent (design section 5); no totals: one wanted product a run */
-    xt_col(&b, LT_TEXT, 0, "Wanted product (formula)");
-    xt_col(&b, LT_KG, 0, "Wanted product [kg]");
-    xt_col(&b, LT_PCT1, 0, "Yield [%%]");
-    xt_col(&b, LT_PCT1, 0, "Substrate conversion [%%]");
-    xt_col(&b, LT_PCT1, 0, "Selectivity to wanted product [%%]");
-    xt_col(&b, LT_PCT1, 0, "Halogen efficiency [%%]");
-    xt_col(&b, LT_KG, 1, "HCl formed [kg]");
-    xt_col(&b, LT_KG, 1, "HBr formed [kg]");
-    xt_col(&b, LT_KG, 1, "SO2 formed [kg]");
-    xt_col(&b, LT_KG, 1, "Succinimide formed [kg]");
-    for (int s = 0; s < VS_COUNT; s++)
-        xt_col(&b, LT_KG, 1, "%s to scrubber [kg]", xo_vent(s));
-    xt_col(&b, LT_RATE, 0, "Vent gas to scrubber, peak rate [kmol/h]");
-    xt_col(&b, LT_KG, 1, "NaOH consumed, as 100 %% [kg]");
-    xt_col(&b, LT_HEAT, 1, "Heat to liquor [kJ]");
-    xt_col(&b, LT_TEMP, 0, "Liquor temperature rise [K]");
-    xt_col(&b, LT_TEXT, 0, "Liquor changed before run");
-    xt_col(&b, LT_SCI, 0, "Element balance error [relative]");
-    xt_col(&b, LT_TEXT, 0, "Note");
-    xo_table(w, "Runs", &b);
+    struct xtable b = {.empty_note = "No runs in the campaign."};
+    xo_lt_table(w, &lt_runs, &b);
 }
 
 /* --- Products ------------------------------------------------------------ */

@@ -1,7 +1,8 @@
 /* test_ltable.c - the column lists of include/ltable.h hold together: every table's sheet
  * columns come out 1..n each once (lt_sheet_order), no JSON key or header twice in a table,
- * every entry has a key or a header and a way to get its value, a caustic header has its one
- * "%s"; the caustic basis against hand-worked values.
+ * nor a key twice in a record made of several lists (runs[]), every entry has a key or a
+ * header (or is a part: a key-less sub-table) and a way to get its value, a caustic header has
+ * its one "%s"; the caustic basis against hand-worked values.
  * That both writers render every entry alike is tests/e2e/writers_agree.py. */
 #include "cu_helpers.h"
 #include "ltable.h"
@@ -101,14 +102,14 @@ static void test_entries(void)
         int open = 0;
         for (int c = 0; c < tb->ncols; c++) {
             const struct lt_col *e = &tb->cols[c];
-            CU_ASSERT(e->key || e->head || (e->flags & LT_CLOSE));
+            CU_ASSERT(e->key || e->head || (e->flags & LT_CLOSE) || e->sub);
             CU_ASSERT(e->get || tb->rec || (e->flags & (LT_OPEN | LT_CLOSE)) || e->sub);
             CU_ASSERT(e->kind >= LT_TEXT && e->kind < LT_NKIND);
-            /* an object's open and close and a sub-table are JSON only; two levels at most */
+            /* an object's open and close and a sub-table are JSON only; three levels at most */
             if (e->flags & (LT_OPEN | LT_CLOSE) || e->sub)
                 CU_ASSERT(e->head == NULL);
             open += (e->flags & LT_OPEN) ? 1 : (e->flags & LT_CLOSE) ? -1 : 0;
-            CU_ASSERT(open >= 0 && open <= 2);
+            CU_ASSERT(open >= 0 && open <= 3);
             if (e->flags & LT_CAUSTIC) {
                 const char *s = e->head ? strstr(e->head, "%s") : NULL;
                 CU_ASSERT(s != NULL && strstr(s + 2, "%") == NULL);
@@ -128,6 +129,53 @@ static void test_entries(void)
             }
         }
         CU_ASSERT_EQUAL(open, 0);
+    }
+}
+
+/* The record-level keys of tb (outside its objects), with those of its parts, into keys. */
+static int record_keys(const struct lt_table *tb, const char **keys, int n, int max)
+{
+    int depth = 0;
+    for (int c = 0; c < tb->ncols; c++) {
+        const struct lt_col *e = &tb->cols[c];
+        if (depth == 0 && !e->key && e->sub)
+            n = record_keys(e->sub, keys, n, max);
+        else if (depth == 0 && e->key && n < max)
+            keys[n++] = e->key;
+        depth += (e->flags & LT_OPEN) ? 1 : (e->flags & LT_CLOSE) ? -1 : 0;
+    }
+    return n;
+}
+
+/* A record written from several lists (runs[]: lt_runs and its parts) has each key once, and
+ * every list that is a part of runs[] is placed in it exactly once. */
+static void test_record_parts(void)
+{
+    const char *keys[200];
+    int n = record_keys(&lt_runs, keys, 0, 200);
+    CU_ASSERT(n > 30 && n < 200); /* 28 keys of its own and those of five parts */
+    for (int a = 0; a < n; a++)
+        for (int b = 0; b < a; b++) {
+            if (strcmp(keys[a], keys[b]) == 0)
+                printf("\n  runs[]: key %s twice", keys[a]);
+            CU_ASSERT(strcmp(keys[a], keys[b]) != 0);
+        }
+    const struct lt_table *parts[] = {&lt_run_waste, &lt_run_liquor, &lt_run_reaction,
+                                      &lt_run_actuals, &lt_run_emissions};
+    for (int p = 0; p < 5; p++) {
+        int placed = 0;
+        for (int c = 0; c < lt_runs.ncols; c++)
+            placed += !lt_runs.cols[c].key && lt_runs.cols[c].sub == parts[p];
+        CU_ASSERT_EQUAL(placed, 1);
+    }
+    /* the elements family: one member per element balanced, keyed by its symbol (IUPAC) */
+    static const struct lt_col el = {.key = "%s", .flags = LT_OPEN, .each = LT_EACH_ELEMENT};
+    CU_ASSERT_EQUAL(lt_items(&el), 7);
+    static const char *const sym[7] = {"C", "H", "N", "O", "S", "Cl", "Br"};
+    for (int k = 0; k < 7; k++) {
+        char buf[8];
+        lt_key(&el, k, buf, sizeof buf);
+        CU_ASSERT_STRING_EQUAL(buf, sym[k]);
     }
 }
 
@@ -163,6 +211,7 @@ int main(void)
         {"every sheet order 1..n once", test_sheet_order},
         {"clashing columns refused", test_sheet_order_refuses},
         {"entries named, gettable, unique", test_entries},
+        {"a record's parts share no key", test_record_parts},
         {"caustic basis and header", test_caustic_basis},
     };
     return CU_RUN_ALL("ltable", cases);
