@@ -39,8 +39,8 @@
  * Each list and its sheet are the same rows: a sheet row per record (count), or per row j of
  * a record when the list has nsub (products of a run, routes of a month; 0 or 1 to take only
  * some records, as the runs with an actual).  Nothing here writes: the writers render the
- * values, and each keeps what is not a list (the Hourly load, Column check, Spent liquor and
- * Monthly sheets and the records behind them, notes, charts, the Summary).
+ * values, and each keeps what is not a list (the Hourly load, Column check and Spent liquor
+ * sheets and the records behind them, notes, charts, the Summary).
  */
 #ifndef LTABLE_H
 #define LTABLE_H
@@ -89,8 +89,12 @@ enum lt_flag {
  * mass (reagents.h `retained`), item k the k-th of them (lt_retained gives its species).
  * LT_EACH_ELEMENT: the elements balanced (balance.h bal_elements), keyed by symbol.  A family
  * LT_OPEN entry (JSON only) opens an object per member, and the entries up to its LT_CLOSE
- * are written in each with the member as their item (runs[].element_balance.elements). */
-enum lt_each { LT_ONE, LT_EACH_VENT, LT_EACH_SALT, LT_EACH_RETAINED, LT_EACH_ELEMENT };
+ * are written in each with the member as their item (runs[].element_balance.elements).
+ * LT_EACH_CHARGED: the reagents a run can charge (RG_CL2 .. below RG_CHARGEABLE);
+ * LT_EACH_OTHER_BASE: the scrubber bases after NaOH (RG_CHARGEABLE + 1 .. below RG_COUNT),
+ * item k reagent RG_CHARGEABLE + 1 + k. */
+enum lt_each { LT_ONE, LT_EACH_VENT, LT_EACH_SALT, LT_EACH_RETAINED, LT_EACH_ELEMENT,
+               LT_EACH_CHARGED, LT_EACH_OTHER_BASE };
 
 struct lt_table;
 
@@ -140,8 +144,11 @@ extern const struct lt_table lt_run_liquor;
 extern const struct lt_table lt_run_waste;
 /* runs[] / Runs: the record's own keys, and where the lists above that are parts of it go. */
 extern const struct lt_table lt_runs;
+/* months[] / Monthly (the record's scalars, its objects and close{}; products[] is
+ * lt_month_products). */
+extern const struct lt_table lt_months;
 /* All of them, for tests and tools that walk every table (LT_NTABLES entries). */
-#define LT_NTABLES 13
+#define LT_NTABLES 14
 extern const struct lt_table *const lt_tables[LT_NTABLES];
 
 /* Value of member `item` (0 for a single entry) of column c of t for record i, row j (j = 0

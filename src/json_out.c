@@ -672,68 +672,7 @@ static void jo_record(struct jo *w, const struct lt_table *t, const struct ledge
 /* A runs[] record: the Runs list (ltable.h lt_runs), with the lists that are parts of it. */
 static void jo_run(struct jo *w, const struct ledger *l, int i) { jo_record(w, &lt_runs, l, i); }
 
-static void jo_month(struct jo *w, const struct ledger *l, int i)
-{
-    const struct ledger_month *m = &l->months[i];
-    jo_begin(w, "months", i);
-    char mt[32];
-    isodate_month_text(m->month_index, mt, sizeof mt);
-    jo_str(w, "month", mt);
-    jo_num(w, "runs", m->runs);
-    jo_num(w, "product_kg", m->product_kg);
-    jo_num(w, "isomer_kg", m->isomer_kg);
-    jo_num(w, "overhalogenated_kg", m->overhal_kg);
-    jo_num(w, "unreacted_substrate_kg", m->unreacted_substrate_kg);
-    jo_open(w, "reagents_kg", '{');
-    for (int k = 0; k < RG_COUNT; k++)
-        jo_num(w, lt_item_name(k), m->reagents_kg[k]);
-    jo_close(w, '}');
-    jo_open(w, "vent_kg", '{');
-    for (int k = 0; k < VS_COUNT; k++)
-        jo_num(w, jo_vent_key(k), m->vent_kg[k]);
-    jo_close(w, '}');
-    jo_num(w, "naoh_kg", m->naoh_kg);
-    jo_num(w, "changeouts", m->changeouts);
-    jo_open(w, "waste_kg", '{');
-    jo_num(w, "spent_liquor", m->spent_liquor_kg);
-    jo_num(w, "succinimide", m->succinimide_kg);
-    jo_num(w, "reagent_left", m->reagent_left_kg);
-    jo_num(w, "retained_acid", m->retained_acid_kg);
-    jo_close(w, '}');
-    jo_num(w, "caustic_solution_kg", m->caustic_solution_kg);
-    jo_num(w, "caustic_solution_naoh_kg", m->caustic_solution_naoh_kg);
-    jo_num(w, "dilution_water_kg", m->dilution_water_kg);
-    jo_open(w, "base_kg", '{'); /* each scrubber base consumed, as 100 % */
-    for (int k = RG_CHARGEABLE; k < RG_COUNT; k++)
-        jo_num(w, lt_item_name(k), m->base_kg[k]);
-    jo_close(w, '}');
-    jo_num(w, "co2_kg", m->co2_kg);
-    jo_rows(w, &lt_month_products, l, i, "products");
-    const struct ledger_month_close *k = &m->close;
-    jo_open(w, "close", '{');
-    jo_num(w, "runs_done", k->done);
-    jo_num(w, "runs_cancelled", k->cancelled);
-    jo_num(w, "runs_planned", k->planned);
-    jo_bool(w, "closed", k->closed);
-    jo_open(w, "reagent_plan_kg", '{');
-    for (int r = 0; r < RG_CHARGEABLE; r++)
-        jo_num(w, lt_item_name(r), k->reagent_plan_kg[r]);
-    jo_close(w, '}');
-    jo_open(w, "reagent_actual_kg", '{');
-    for (int r = 0; r < RG_CHARGEABLE; r++)
-        jo_num(w, lt_item_name(r), k->reagent_actual_kg[r]);
-    jo_close(w, '}');
-    jo_num(w, "product_plan_kg", k->product_plan_kg);
-    jo_num(w, "product_actual_kg", k->product_actual_kg);
-    jo_num(w, "naoh_plan_kg", k->naoh_plan_kg);
-    jo_num(w, "naoh_actual_kg", k->naoh_actual_kg);
-    jo_open(w, "unexplained_kg", '{');
-    for (int r = 0; r < RG_CHARGEABLE; r++)
-        jo_num(w, lt_item_name(r), k->unexplained_kg[r]);
-    jo_close(w, '}');
-    jo_close(w, '}');
-    jo_end(w);
-}
+static void jo_month(struct jo *w, const struct ledger *l, int i) { jo_record(w, &lt_months, l, i); }
 
 static void jo_order(struct jo *w, const struct ledger *l, int i) { jo_record(w, &lt_orders, l, i); }
 

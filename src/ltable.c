@@ -59,6 +59,8 @@ int lt_items(const struct lt_col *c)
     case LT_ONE: return 1;
     case LT_EACH_VENT: return VS_COUNT;
     case LT_EACH_SALT: return SALT_COUNT;
+    case LT_EACH_CHARGED: return RG_CHARGEABLE;
+    case LT_EACH_OTHER_BASE: return RG_COUNT - RG_CHARGEABLE - 1;
     case LT_EACH_RETAINED:
         while (lt_retained(n) >= 0)
             n++;
@@ -75,6 +77,8 @@ static const char *member(enum lt_each each, int k)
         const char *sym = elem_symbol(bal_elements[k]);
         return sym ? sym : "?";
     }
+    if (each == LT_EACH_CHARGED || each == LT_EACH_OTHER_BASE)
+        return lt_item_name(each == LT_EACH_CHARGED ? k : RG_CHARGEABLE + 1 + k);
     const char *n = each == LT_EACH_SALT ? liquor_salt_get(k)->name
                     : vent_name(each == LT_EACH_RETAINED ? lt_retained(k) : k);
     return n ? n : "gas";
@@ -728,6 +732,85 @@ const struct lt_table lt_month_products = {.key = "products", .path = "months[].
     .sheet = "Monthly yields", .cols = mp_cols, .ncols = NCOLS(mp_cols), .count = mp_count,
     .nsub = mp_nsub, .rec = mp_rec};
 
+/* --- months[] / Monthly (one row per month) ------------------------------ */
+
+GET1(mo_closed, flag(v, l->months[i].close.closed))
+
+#define MOF(f) OFF(struct ledger_month, f)
+/* Sheet columns: Month, Runs, the reagents, the vent gases, then the NaOH and waste. */
+#define MO_VENT_END (2 + RG_COUNT + VS_COUNT)
+static const struct lt_col mo_cols[] = {
+    {"month", "Month", LT_TEXT, .get = mp_month},
+    {"runs", "Runs [count]", LT_INT, .flags = LT_TOTAL | LT_IFIELD, .off = MOF(runs)},
+    {"product_kg", NULL, LT_KG, .off = MOF(product_kg)},
+    {"isomer_kg", NULL, LT_KG, .off = MOF(isomer_kg)},
+    {"overhalogenated_kg", NULL, LT_KG, .off = MOF(overhal_kg)},
+    {"unreacted_substrate_kg", NULL, LT_KG, .off = MOF(unreacted_substrate_kg)},
+    /* charged; a scrubber base: its make-up bought */
+    {"reagents_kg", NULL, LT_TEXT, .flags = LT_OPEN},
+    {"%s", "%s charged [kg]", LT_KG, .flags = LT_TOTAL, .each = LT_EACH_CHARGED,
+     .off = MOF(reagents_kg)},
+    {"NaOH", "Caustic solution bought, %s [kg]", LT_KG, .flags = LT_TOTAL | LT_CAUSTIC,
+     .off = MOF(reagents_kg[RG_NAOH])},
+    {"%s", "%s make-up bought, as bought [kg]", LT_KG, .flags = LT_TOTAL,
+     .each = LT_EACH_OTHER_BASE, .off = MOF(reagents_kg[RG_NAOH + 1])},
+    {.flags = LT_CLOSE},
+    {"vent_kg", NULL, LT_TEXT, .flags = LT_OPEN},
+    {"%s", "%s to scrubber [kg]", LT_KG, .flags = LT_TOTAL, .each = LT_EACH_VENT,
+     .off = MOF(vent_kg)},
+    {.flags = LT_CLOSE},
+    {"naoh_kg", "NaOH consumed, as 100 % [kg]", LT_KG, .flags = LT_TOTAL, .off = MOF(naoh_kg)},
+    {"changeouts", "Liquor changeouts [count]", LT_INT, .flags = LT_TOTAL | LT_IFIELD,
+     .col = MO_VENT_END + 4, .off = MOF(changeouts)},
+    {"waste_kg", NULL, LT_TEXT, .flags = LT_OPEN},
+    {"spent_liquor", "Spent liquor [kg]", LT_KG, .flags = LT_TOTAL, .off = MOF(spent_liquor_kg)},
+    {"succinimide", "Succinimide [kg]", LT_KG, .flags = LT_TOTAL, .off = MOF(succinimide_kg)},
+    {"reagent_left", NULL, LT_KG, .off = MOF(reagent_left_kg)},
+    {"retained_acid", NULL, LT_KG, .off = MOF(retained_acid_kg)},
+    {.flags = LT_CLOSE},
+    {"caustic_solution_kg", NULL, LT_KG, .off = MOF(caustic_solution_kg)},
+    /* both bases where both matter: NaOH the gas consumed and NaOH in the solution bought */
+    {"caustic_solution_naoh_kg", "NaOH in the caustic bought, as 100 % [kg]", LT_KG,
+     .flags = LT_TOTAL, .col = MO_VENT_END + 2, .off = MOF(caustic_solution_naoh_kg)},
+    {"dilution_water_kg", "Dilution water for fresh charges [kg]", LT_KG, .flags = LT_TOTAL,
+     .off = MOF(dilution_water_kg)},
+    {"base_kg", NULL, LT_TEXT, .flags = LT_OPEN}, /* each scrubber base consumed, as 100 % */
+    {"NaOH", NULL, LT_KG, .off = MOF(base_kg[RG_NAOH])},
+    {"%s", "%s consumed, as 100 % [kg]", LT_KG, .flags = LT_TOTAL, .col = MO_VENT_END + 7,
+     .each = LT_EACH_OTHER_BASE, .off = MOF(base_kg[RG_NAOH + 1])},
+    {.flags = LT_CLOSE},
+    {"co2_kg", "CO2 given off by the liquors [kg]", LT_KG, .flags = LT_TOTAL, .off = MOF(co2_kg)},
+    {"products", NULL, LT_TEXT, .sub = &lt_month_products},
+    {"close", NULL, LT_TEXT, .flags = LT_OPEN},
+    {"runs_done", NULL, LT_INT, .flags = LT_IFIELD, .off = MOF(close.done)},
+    {"runs_cancelled", NULL, LT_INT, .flags = LT_IFIELD, .off = MOF(close.cancelled)},
+    {"runs_planned", NULL, LT_INT, .flags = LT_IFIELD, .off = MOF(close.planned)},
+    {"closed", NULL, LT_TEXT, .get = mo_closed},
+    {"reagent_plan_kg", NULL, LT_TEXT, .flags = LT_OPEN},
+    {"%s", NULL, LT_KG, .each = LT_EACH_CHARGED, .off = MOF(close.reagent_plan_kg)},
+    {.flags = LT_CLOSE},
+    {"reagent_actual_kg", NULL, LT_TEXT, .flags = LT_OPEN},
+    {"%s", NULL, LT_KG, .each = LT_EACH_CHARGED, .off = MOF(close.reagent_actual_kg)},
+    {.flags = LT_CLOSE},
+    {"product_plan_kg", NULL, LT_KG, .off = MOF(close.product_plan_kg)},
+    {"product_actual_kg", NULL, LT_KG, .off = MOF(close.product_actual_kg)},
+    {"naoh_plan_kg", NULL, LT_KG, .off = MOF(close.naoh_plan_kg)},
+    {"naoh_actual_kg", NULL, LT_KG, .off = MOF(close.naoh_actual_kg)},
+    {"unexplained_kg", NULL, LT_TEXT, .flags = LT_OPEN},
+    {"%s", NULL, LT_KG, .each = LT_EACH_CHARGED, .off = MOF(close.unexplained_kg)},
+    {.flags = LT_CLOSE},
+    {.flags = LT_CLOSE},
+};
+
+static const void *mo_rec(const struct ledger *l, int i, int j)
+{
+    (void)j;
+    return &l->months[i];
+}
+
+const struct lt_table lt_months = {.key = "months", .path = "months", .sheet = "Monthly",
+    .cols = mo_cols, .ncols = NCOLS(mo_cols), .count = mp_count, .rec = mo_rec};
+
 /* --- the columns of a run on several sheets ------------------------------ */
 
 static int run_count(const struct ledger *l) { return l->nruns; }
@@ -1316,4 +1399,4 @@ const struct lt_table lt_warnings = {.key = "warnings", .path = "warnings",
 const struct lt_table *const lt_tables[LT_NTABLES] = {
     &lt_run_products, &lt_scrubbers, &lt_permit_checks, &lt_orders, &lt_stock_checks, &lt_warnings,
     &lt_month_products, &lt_run_actuals, &lt_run_reaction, &lt_run_emissions, &lt_run_liquor,
-    &lt_run_waste, &lt_runs};
+    &lt_run_waste, &lt_runs, &lt_months};

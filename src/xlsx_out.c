@@ -1615,32 +1615,16 @@ static void xo_spent(struct xw *w)
 
 /* --- Monthly ------------------------------------------------------------- */
 
-enum { MC_RUNS = 1, MC_REAGENT, /* RG_COUNT columns */
-       MC_VENT = MC_REAGENT + RG_COUNT, MC_NAOH = MC_VENT + VS_COUNT, MC_CAUSTIC_NAOH, MC_WATER,
-       MC_CHANGE, MC_SPENT, MC_SUCC, MC_BASE, /* the bases other than NaOH, consumed */
-       MC_CO2 = MC_BASE + RG_COUNT - RG_CHARGEABLE - 1, MC_NCOL };
-
-static void row_month(struct xw *w, struct xtable *b, lxw_row_t row, int i)
+/* The sheet column (0-based) of the first member of the entry with JSON key `key` and family
+ * `each` in sheet b (filled by xo_lt_table), -1 when none. */
+static int xo_lt_column(const struct xtable *b, const char *key, enum lt_each each)
 {
-    const struct ledger_month *m = &w->l->months[i];
-    char mt[32];
-    isodate_month_text(m->month_index, mt, sizeof mt);
-    xt_text(w, b, row, 0, mt);
-    xt_num(w, b, row, MC_RUNS, m->runs);
-    for (int g = 0; g < RG_COUNT; g++)
-        xt_num(w, b, row, MC_REAGENT + g, m->reagents_kg[g]);
-    for (int s = 0; s < VS_COUNT; s++)
-        xt_num(w, b, row, MC_VENT + s, m->vent_kg[s]);
-    xt_num(w, b, row, MC_NAOH, m->naoh_kg);
-    xt_num(w, b, row, MC_CAUSTIC_NAOH, m->caustic_solution_naoh_kg);
-    xt_num(w, b, row, MC_WATER, m->dilution_water_kg);
-    xt_num(w, b, row, MC_CHANGE, m->changeouts);
-    xt_num(w, b, row, MC_SPENT, m->spent_liquor_kg);
-    xt_num(w, b, row, MC_SUCC, m->succinimide_kg);
-    for (int g = RG_CHARGEABLE, c = MC_BASE; g < RG_COUNT; g++)
-        if (g != RG_NAOH)
-            xt_num(w, b, row, c++, m->base_kg[g]);
-    xt_num(w, b, row, MC_CO2, m->co2_kg);
+    for (int p = 0; p < b->ncols; p++) {
+        const struct lt_col *c = &b->lt->cols[b->at[p]];
+        if (c->each == each && c->key && strcmp(c->key, key) == 0)
+            return p;
+    }
+    return -1;
 }
 
 /* --- Monthly yields: one row per month and route ------------------------- */
@@ -1694,30 +1678,8 @@ static void xo_chart(struct xw *w, const struct xtable *b, uint8_t type, const c
 static void xo_monthly(struct xw *w)
 {
     const struct ledger *l = w->l;
-    struct xtable b = {.fn = row_month, .nrows = l->nmonths, .empty_note = "No months."};
-    xt_col(&b, LT_TEXT, 0, "Month");
-    xt_col(&b, LT_INT, 1, "Runs [count]");
-    for (int g = 0; g < RG_COUNT; g++)
-        if (g == RG_NAOH)
-            xt_col(&b, LT_KG, 1, "Caustic solution bought, %s [kg]", w->caustic);
-        else if (g >= RG_CHARGEABLE) /* another liquor base: its make-up */
-            xt_col(&b, LT_KG, 1, "%s make-up bought, as bought [kg]", lt_item_name(g));
-        else
-            xt_col(&b, LT_KG, 1, "%s charged [kg]", lt_item_name(g));
-    for (int s = 0; s < VS_COUNT; s++)
-        xt_col(&b, LT_KG, 1, "%s to scrubber [kg]", xo_vent(s));
-    /* both bases where both matter: NaOH the gas consumed and NaOH in the solution bought */
-    xt_col(&b, LT_KG, 1, "NaOH consumed, as 100 %% [kg]");
-    xt_col(&b, LT_KG, 1, "NaOH in the caustic bought, as 100 %% [kg]");
-    xt_col(&b, LT_KG, 1, "Dilution water for fresh charges [kg]");
-    xt_col(&b, LT_INT, 1, "Liquor changeouts [count]");
-    xt_col(&b, LT_KG, 1, "Spent liquor [kg]");
-    xt_col(&b, LT_KG, 1, "Succinimide [kg]");
-    for (int g = RG_CHARGEABLE; g < RG_COUNT; g++)
-        if (g != RG_NAOH)
-            xt_col(&b, LT_KG, 1, "%s consumed, as 100 %% [kg]", lt_item_name(g));
-    xt_col(&b, LT_KG, 1, "CO2 given off by the liquors [kg]");
-    xo_table(w, "Monthly", &b);
+    struct xtable b = {.empty_note = "No months."};
+    xo_lt_table(w, &lt_months, &b);
     xo_month_yields(w); /* its sheet sits between Monthly and Charts */
     if (w->st != HL_OK)
         return;
@@ -1729,22 +1691,29 @@ static void xo_monthly(struct xw *w)
     /* series only for what the campaign has; at least one so no chart is empty.  Acid
      * gas means HCl and HBr; the halogens and SO2 get a chart of their own. */
     int acid[VS_COUNT], na = 0, hal[VS_COUNT], nh = 0, rg[RG_CHARGEABLE], nr = 0;
+    const int vent0 = xo_lt_column(&b, "%s", LT_EACH_VENT),
+              reagent0 = xo_lt_column(&b, "%s", LT_EACH_CHARGED),
+              naoh0 = xo_lt_column(&b, "naoh_kg", LT_ONE);
+    if (vent0 < 0 || reagent0 < 0 || naoh0 < 0) {
+        xo_fail(w, HL_ERR_INTERNAL, "the Monthly sheet lacks a charted column");
+        return;
+    }
     for (int v = 0; v < VS_COUNT; v++)
-        if (b.sum[MC_VENT + v] != 0) {
+        if (b.sum[vent0 + v] != 0) {
             if (vent_get(v)->acid_gas)
-                acid[na++] = MC_VENT + v;
+                acid[na++] = vent0 + v;
             else
-                hal[nh++] = MC_VENT + v;
+                hal[nh++] = vent0 + v;
         }
     for (int g = 0; g < RG_CHARGEABLE; g++)
-        if (b.sum[MC_REAGENT + g] != 0)
-            rg[nr++] = MC_REAGENT + g;
+        if (b.sum[reagent0 + g] != 0)
+            rg[nr++] = reagent0 + g;
     for (int v = 0; na == 0 && v < VS_COUNT; v++) /* none vented: the first acid gas */
         if (vent_get(v)->acid_gas)
-            acid[na++] = MC_VENT + v;
+            acid[na++] = vent0 + v;
     if (nr == 0)
-        rg[nr++] = MC_REAGENT;
-    int naoh[1] = {MC_NAOH};
+        rg[nr++] = reagent0;
+    int naoh[1] = {naoh0};
     /* The charts get a sheet of their own, one a page: on the Monthly sheet they would
      * print over the repeated header row and across page breaks. */
     if (!xo_sheet(w, "Charts"))
