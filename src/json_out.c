@@ -733,25 +733,7 @@ static void jo_scrubber(struct jo *w, const struct ledger *l, int i)
         jo_num(w, NULL, scrub_hourly_kmol_h(s, k));
     jo_close(w, ']');
     jo_close(w, '}');
-    jo_open(w, "spent", '[');
-    for (int k = 0; k < s->nspent && w->st == HL_OK; k++) {
-        const struct scrub_spent *b = &s->spent[k];
-        jo_open(w, NULL, '{');
-        jo_date(w, "at", b->at_min, 0);
-        jo_bool(w, "final", b->final);
-        jo_num(w, "mass_kg", b->mass_kg);
-        jo_num(w, "naoh_kg", b->naoh_kg);
-        jo_num(w, "water_kg", b->water_kg);
-        jo_num(w, "hcl_kg", b->hcl_kg);
-        jo_num(w, "hbr_kg", b->hbr_kg);
-        jo_open(w, "salts_kg", '{');
-        for (int q = 0; q < SALT_COUNT; q++)
-            jo_num(w, jo_salt_key(q), b->salt_kg[q]);
-        jo_close(w, '}');
-        jo_num(w, "base_kg", b->base_kg);
-        jo_close(w, '}');
-    }
-    jo_close(w, ']');
+    jo_rows(w, &lt_scrubber_spent, l, i, "spent");
     if (s->column.present) {
         const struct scrub_column_check *c = &s->column;
         jo_open(w, "column", '{');

@@ -592,6 +592,41 @@ const struct lt_table lt_scrubbers = {.key = "scrubbers", .path = "scrubbers",
     .sheet = "Scrubber units", .cols = su_cols, .ncols = NCOLS(su_cols),
     .count = su_count, .rec = su_rec};
 
+/* --- scrubbers[].spent[] / Spent liquor (one row per spent charge) -------- */
+
+static int sp_nsub(const struct ledger *l, int i) { return SUO(i)->nspent; }
+static const void *sp_rec(const struct ledger *l, int i, int j)
+{
+    return &l->scrubbers[i].out.spent[j];
+}
+#define SP(i, j) (&l->scrubbers[i].out.spent[j])
+
+GET(sp_at) { date(v, SP(i, j)->at_min); }
+GET(sp_final) { flag(v, SP(i, j)->final); }
+GET(sp_still) { text(v, SP(i, j)->final ? "yes (campaign end)" : "no"); }
+
+#define SPF(f) OFF(struct scrub_spent, f)
+/* each charge drained, and the one still in the unit at the campaign's end */
+static const struct lt_col sp_cols[] = {
+    {NULL, "Spent liquor from", LT_TEXT, .get = su_id},
+    {"at", "Drained (plant time)", LT_DATE, .get = sp_at},
+    {"final", NULL, LT_TEXT, .get = sp_final},
+    {NULL, "Still in unit", LT_TEXT, .get = sp_still},
+    {"mass_kg", "Liquor [kg]", LT_KG, .flags = LT_TOTAL, .off = SPF(mass_kg)},
+    {"naoh_kg", "NaOH left, as 100 % [kg]", LT_KG, .flags = LT_TOTAL, .off = SPF(naoh_kg)},
+    {"water_kg", "Water [kg]", LT_KG, .flags = LT_TOTAL, .off = SPF(water_kg)},
+    {"hcl_kg", "HCl [kg]", LT_KG, .flags = LT_TOTAL, .off = SPF(hcl_kg)},
+    {"hbr_kg", NULL, LT_KG, .off = SPF(hbr_kg)},
+    {"salts_kg", NULL, LT_TEXT, .flags = LT_OPEN},
+    {"%s", "%s [kg]", LT_KG, .flags = LT_TOTAL, .each = LT_EACH_SALT, .off = SPF(salt_kg)},
+    {.flags = LT_CLOSE},
+    {"base_kg", NULL, LT_KG, .off = SPF(base_kg)},
+};
+
+const struct lt_table lt_scrubber_spent = {.key = "spent", .path = "scrubbers[].spent",
+    .sheet = "Spent liquor", .cols = sp_cols, .ncols = NCOLS(sp_cols), .count = su_count,
+    .nsub = sp_nsub, .rec = sp_rec};
+
 /* --- runs[].products[] / Products ---------------------------------------- */
 
 static int pr_count(const struct ledger *l) { return l->nruns; }
@@ -1399,4 +1434,4 @@ const struct lt_table lt_warnings = {.key = "warnings", .path = "warnings",
 const struct lt_table *const lt_tables[LT_NTABLES] = {
     &lt_run_products, &lt_scrubbers, &lt_permit_checks, &lt_orders, &lt_stock_checks, &lt_warnings,
     &lt_month_products, &lt_run_actuals, &lt_run_reaction, &lt_run_emissions, &lt_run_liquor,
-    &lt_run_waste, &lt_runs, &lt_months};
+    &lt_run_waste, &lt_runs, &lt_months, &lt_scrubber_spent};

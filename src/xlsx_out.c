@@ -1568,49 +1568,13 @@ static void xo_waste(struct xw *w)
     xo_lt_table(w, &lt_run_waste, &a);
 }
 
-static void row_spent(struct xw *w, struct xtable *b, lxw_row_t row, int i)
-{
-    (void)i;
-    const struct ledger *l = w->l;
-    while (b->cur < l->nscrubbers && b->sub >= l->scrubbers[b->cur].out.nspent) {
-        b->cur++;
-        b->sub = 0;
-    }
-    if (b->cur >= l->nscrubbers)
-        return;
-    const struct ledger_scrubber *u = &l->scrubbers[b->cur];
-    const struct scrub_spent *s = &u->out.spent[b->sub++];
-    int k = 0;
-    xt_text(w, b, row, k++, u->id);
-    xt_date(w, b, row, k++, s->at_min);
-    xt_text(w, b, row, k++, s->final ? "yes (campaign end)" : "no");
-    xt_num(w, b, row, k++, s->mass_kg);
-    xt_num(w, b, row, k++, s->naoh_kg);
-    xt_num(w, b, row, k++, s->water_kg);
-    xt_num(w, b, row, k++, s->hcl_kg);
-    for (int q = 0; q < SALT_COUNT; q++)
-        xt_num(w, b, row, k++, s->salt_kg[q]);
-}
-
 static void xo_spent(struct xw *w)
 {
-    int n = 0;
-    for (int u = 0; u < w->l->nscrubbers; u++)
-        n += w->l->scrubbers[u].out.nspent;
-    struct xtable s = {.fn = row_spent, .nrows = n, .empty_note = "No spent liquor.",
+    struct xtable s = {.empty_note = "No spent liquor.",
                        .notes = {"Hypochlorite/hypobromite liquor releases halogen with acid: never mix "
                                  "with acid waste."},
                        .nnotes = 1};
-    xt_col(&s, LT_TEXT, 0, "Spent liquor from");
-    xt_col(&s, LT_DATE, 0, "Drained (plant time)");
-    xt_col(&s, LT_TEXT, 0, "Still in unit");
-    xt_col(&s, LT_KG, 1, "Liquor [kg]");
-    xt_col(&s, LT_KG, 1, "NaOH left, as 100 %% [kg]");
-    xt_col(&s, LT_KG, 1, "Water [kg]");
-    xt_col(&s, LT_KG, 1, "HCl [kg]");
-    for (int q = 0; q < SALT_COUNT; q++)
-        xt_col(&s, LT_KG, 1, "%s [kg]", xo_salt(q));
-    xo_table(w, "Spent liquor", &s);
+    xo_lt_table(w, &lt_scrubber_spent, &s);
 }
 
 /* --- Monthly ------------------------------------------------------------- */
