@@ -39,8 +39,8 @@
  * Each list and its sheet are the same rows: a sheet row per record (count), or per row j of
  * a record when the list has nsub (products of a run, routes of a month; 0 or 1 to take only
  * some records, as the runs with an actual).  Nothing here writes: the writers render the
- * values, and each keeps what is not a list (the Hourly load and Column check sheets and
- * the records behind them, notes, charts, the Summary).
+ * values, and each keeps what is not a list (the Hourly load sheet and the records behind
+ * it, notes, charts, the Summary).
  */
 #ifndef LTABLE_H
 #define LTABLE_H
@@ -128,7 +128,7 @@ struct lt_table {
 };
 
 /* The tables: orders[] / Orders, scrubbers[] / Scrubber units (the record's scalars; its
- * hourly, column and emission members are the JSON writer's), permit_checks[] /
+ * hourly and emission members are the JSON writer's), permit_checks[] /
  * Permit checks, stock_checks[] / Stock checks, runs[].products[] / Products (i run,
  * j product), warnings[] / Warnings. */
 extern const struct lt_table lt_orders, lt_scrubbers, lt_permit_checks, lt_stock_checks,
@@ -149,8 +149,10 @@ extern const struct lt_table lt_runs;
 extern const struct lt_table lt_months;
 /* scrubbers[].spent[] / Spent liquor (i unit, j charge drained). */
 extern const struct lt_table lt_scrubber_spent;
+/* scrubbers[].column{} (null without packing data) / Column check (the units with it). */
+extern const struct lt_table lt_scrubber_column;
 /* All of them, for tests and tools that walk every table (LT_NTABLES entries). */
-#define LT_NTABLES 15
+#define LT_NTABLES 16
 extern const struct lt_table *const lt_tables[LT_NTABLES];
 
 /* Value of member `item` (0 for a single entry) of column c of t for record i, row j (j = 0

@@ -734,22 +734,7 @@ static void jo_scrubber(struct jo *w, const struct ledger *l, int i)
     jo_close(w, ']');
     jo_close(w, '}');
     jo_rows(w, &lt_scrubber_spent, l, i, "spent");
-    if (s->column.present) {
-        const struct scrub_column_check *c = &s->column;
-        jo_open(w, "column", '{');
-        jo_num(w, "gas_kmol_h", c->gas_kmol_h);
-        jo_num(w, "y_in", c->y_in);
-        jo_num(w, "y_out", c->y_out);
-        jo_num(w, "ntu", c->ntu);
-        jo_num(w, "height_m", c->height_m);
-        jo_num(w, "diameter_m", c->diameter_m);
-        jo_num(w, "flood_velocity_m_s", c->flood_velocity_m_s);
-        jo_num(w, "flow_parameter", c->flow_parameter);
-        jo_str(w, "note", "Screening check only; a final column design needs review by a licensed engineer.");
-        jo_close(w, '}');
-    } else {
-        jo_null(w, "column");
-    }
+    jo_cols(w, &lt_scrubber_column, l, i, 0); /* column{} or null */
     jo_emissions(w, l, i);
     jo_end(w);
 }

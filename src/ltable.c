@@ -627,6 +627,43 @@ const struct lt_table lt_scrubber_spent = {.key = "spent", .path = "scrubbers[].
     .sheet = "Spent liquor", .cols = sp_cols, .ncols = NCOLS(sp_cols), .count = su_count,
     .nsub = sp_nsub, .rec = sp_rec};
 
+/* --- scrubbers[].column / Column check (the units with packing data) ----- */
+
+static int cc_nsub(const struct ledger *l, int i) { return SUO(i)->column.present != 0; }
+GET(cc_open) /* null: no packing data */
+{
+    (void)j;
+    if (SUO(i)->column.present)
+        flag(v, 1);
+}
+GET(cc_note)
+{
+    (void)l, (void)i, (void)j;
+    text(v, "Screening check only; a final column design needs review by a licensed engineer.");
+}
+
+static const struct lt_col cc_cols[] = {
+    {NULL, "Scrubber", LT_TEXT, .get = su_id},
+    {"column", NULL, LT_TEXT, .flags = LT_OPEN, .get = cc_open},
+    {"gas_kmol_h", "Gas flow at the instantaneous peak [kmol/h]", LT_RATE,
+     .off = SUF(out.column.gas_kmol_h)},
+    {"y_in", "Acid gas in [mol/mol]", LT_SCI, .off = SUF(out.column.y_in)},
+    {"y_out", "Acid gas out [mol/mol]", LT_SCI, .off = SUF(out.column.y_out)},
+    {"ntu", "Transfer units, NTU (dimensionless)", LT_PCT, .off = SUF(out.column.ntu)},
+    {"height_m", "Packed height [m]", LT_LEN, .off = SUF(out.column.height_m)},
+    {"diameter_m", "Diameter [m]", LT_LEN, .off = SUF(out.column.diameter_m)},
+    {"flood_velocity_m_s", "Flooding velocity [m/s]", LT_LEN,
+     .off = SUF(out.column.flood_velocity_m_s)},
+    {"flow_parameter", "Flow parameter (dimensionless)", LT_RATE,
+     .off = SUF(out.column.flow_parameter)},
+    {"note", NULL, LT_TEXT, .get = cc_note},
+    {.flags = LT_CLOSE},
+};
+
+const struct lt_table lt_scrubber_column = {.key = "scrubbers", .path = "scrubbers[column]",
+    .sheet = "Column check", .cols = cc_cols, .ncols = NCOLS(cc_cols), .count = su_count,
+    .nsub = cc_nsub, .rec = su_rec};
+
 /* --- runs[].products[] / Products ---------------------------------------- */
 
 static int pr_count(const struct ledger *l) { return l->nruns; }
@@ -1434,4 +1471,4 @@ const struct lt_table lt_warnings = {.key = "warnings", .path = "warnings",
 const struct lt_table *const lt_tables[LT_NTABLES] = {
     &lt_run_products, &lt_scrubbers, &lt_permit_checks, &lt_orders, &lt_stock_checks, &lt_warnings,
     &lt_month_products, &lt_run_actuals, &lt_run_reaction, &lt_run_emissions, &lt_run_liquor,
-    &lt_run_waste, &lt_runs, &lt_months, &lt_scrubber_spent};
+    &lt_run_waste, &lt_runs, &lt_months, &lt_scrubber_spent, &lt_scrubber_column};

@@ -1248,48 +1248,14 @@ static void xo_hours(struct xw *w)
     xo_table(w, "Hourly load", &h);
 }
 
-static void row_column(struct xw *w, struct xtable *b, lxw_row_t row, int i)
-{
-    (void)i;
-    const struct ledger *l = w->l;
-    while (b->cur < l->nscrubbers && !l->scrubbers[b->cur].out.column.present)
-        b->cur++;
-    if (b->cur >= l->nscrubbers)
-        return;
-    const struct ledger_scrubber *u = &l->scrubbers[b->cur++];
-    const struct scrub_column_check *c = &u->out.column;
-    int k = 0;
-    xt_text(w, b, row, k++, u->id);
-    xt_num(w, b, row, k++, c->gas_kmol_h);
-    xt_num(w, b, row, k++, c->y_in);
-    xt_num(w, b, row, k++, c->y_out);
-    xt_num(w, b, row, k++, c->ntu);
-    xt_num(w, b, row, k++, c->height_m);
-    xt_num(w, b, row, k++, c->diameter_m);
-    xt_num(w, b, row, k++, c->flood_velocity_m_s);
-    xt_num(w, b, row, k++, c->flow_parameter);
-}
-
 static void xo_column(struct xw *w)
 {
-    int n = 0;
-    for (int u = 0; u < w->l->nscrubbers; u++)
-        n += w->l->scrubbers[u].out.column.present != 0;
-    struct xtable c = {.fn = row_column, .nrows = n, .empty_note = "No scrubber gives packing data.",
+    struct xtable c = {.empty_note = "No scrubber gives packing data.",
                        .notes = {"Screening check only (NTU for gas-film control, flooding from a generalized",
                                  "pressure-drop correlation): a final column design needs review and sign-off",
                                  "by a licensed engineer, with the vendor's packing data."},
                        .nnotes = 3};
-    xt_col(&c, LT_TEXT, 0, "Scrubber");
-    xt_col(&c, LT_RATE, 0, "Gas flow at the instantaneous peak [kmol/h]");
-    xt_col(&c, LT_SCI, 0, "Acid gas in [mol/mol]");
-    xt_col(&c, LT_SCI, 0, "Acid gas out [mol/mol]");
-    xt_col(&c, LT_PCT, 0, "Transfer units, NTU (dimensionless)");
-    xt_col(&c, LT_LEN, 0, "Packed height [m]");
-    xt_col(&c, LT_LEN, 0, "Diameter [m]");
-    xt_col(&c, LT_LEN, 0, "Flooding velocity [m/s]");
-    xt_col(&c, LT_RATE, 0, "Flow parameter (dimensionless)");
-    xo_table(w, "Column check", &c);
+    xo_lt_table(w, &lt_scrubber_column, &c);
 }
 
 /* --- Emissions (what leaves the stacks) ------------------------------------ */
