@@ -610,7 +610,7 @@ static void jo_span(struct jo *w, const struct lt_table *t, const struct ledger 
                 jo_span(w, e->sub, l, i, j, 0, e->sub->ncols, 0);
         } else if ((e->flags & LT_OPEN) && e->each != LT_ONE) {
             int end = jo_close_of(t, c);
-            for (int k = 0; k < lt_items(e) && w->st == HL_OK; k++) {
+            for (int k = 0, n = lt_items(e); k < n && w->st == HL_OK; k++) {
                 lt_key(e, k, key, sizeof key);
                 jo_open(w, key, '{');
                 jo_span(w, t, l, i, j, c + 1, end, k);
@@ -630,10 +630,16 @@ static void jo_span(struct jo *w, const struct lt_table *t, const struct ledger 
         } else if (e->sub) {
             jo_rows(w, e->sub, l, i, e->key);
         } else {
-            for (int k = 0; k < lt_items(e); k++) {
-                lt_key(e, k, key, sizeof key);
+            for (int k = 0, n = lt_items(e); k < n; k++) {
+                /* a family's key is made per member; a single entry's is the list's text
+                 * (no copy: this runs for every value of every record) */
+                const char *name = e->key;
+                if (e->each != LT_ONE) {
+                    lt_key(e, k, key, sizeof key);
+                    name = key;
+                }
                 lt_get(t, c, e->each == LT_ONE ? item : k, l, i, j, &v);
-                jo_value(w, l, key, e->kind, &v);
+                jo_value(w, l, name, e->kind, &v);
             }
         }
     }

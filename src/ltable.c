@@ -87,11 +87,20 @@ static const char *member(enum lt_each each, int k)
 /* fmt with its one %s replaced by s, into buf. */
 static void put_in(const char *fmt, const char *s, char *buf, size_t n)
 {
+    /* by hand, not snprintf: the JSON writer makes a family's key for every value it writes */
     const char *at = strstr(fmt, "%s");
-    if (!at)
-        snprintf(buf, n, "%s", fmt);
-    else
-        snprintf(buf, n, "%.*s%s%s", (int)(at - fmt), fmt, s, at + 2);
+    size_t a = at ? (size_t)(at - fmt) : strlen(fmt), b = at ? strlen(s) : 0;
+    const char *rest = at ? at + 2 : "";
+    size_t c = strlen(rest), o = 0;
+    if (n == 0)
+        return;
+    for (size_t k = 0; k < a && o + 1 < n; k++)
+        buf[o++] = fmt[k];
+    for (size_t k = 0; k < b && o + 1 < n; k++)
+        buf[o++] = s[k];
+    for (size_t k = 0; k < c && o + 1 < n; k++)
+        buf[o++] = rest[k];
+    buf[o] = '\0';
 }
 
 void lt_head(const struct lt_col *c, int item, const struct ledger *l, char *buf, size_t n)
