@@ -1715,7 +1715,7 @@ static void reaction_text(const struct liquor_info *q, int v, char *out, size_t 
     size_t len = 0;
     coef_text(g->base_mol, k, sizeof k);
     len += (size_t)snprintf(out + len, n - len, "%s + %s%s", vent_name(v), k, reagent_get(q->base)->name);
-    if (g->water_mol < 0) { /* the reaction takes water up */
+    if (g->water_mol < 0 && len < n) { /* the reaction takes water up */
         coef_text(-g->water_mol, k, sizeof k);
         len += (size_t)snprintf(out + len, n - len, " + %sH2O", k);
     }
