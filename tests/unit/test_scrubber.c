@@ -708,9 +708,9 @@ static void ntu_values(void)
     ASSERT_ABS(scrub_ntu(0, 0), 0, 0);
 }
 
-/* A worked example of packed-tower sizing by the generalized pressure-drop correlation:
+/* Packed-tower sizing by the generalized pressure-drop correlation, as published in
  * McCabe, Smith & Harriott, Unit Operations of Chemical Engineering (5th ed., McGraw-Hill,
- * 1993), chapter 18, the example of a tower of 1-in ceramic Intalox saddles (Fp 92 1/ft) for
+ * 1993), chapter 18: a tower of 1-in ceramic Intalox saddles (Fp 92 1/ft) for
  * 25,000 ft3/h of gas with 2 vol % ammonia at 68 F and 1 atm, water at 1 lb per lb of gas,
  * the gas at half its flooding velocity.  The figures of the example are from memory, not
  * checked against the book: abscissa about 0.035, flooding ordinate read as about 0.18,
