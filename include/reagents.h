@@ -89,13 +89,13 @@ const struct reagent_info *reagent_get(int id);
 int reagent_lookup(const char *name);
 
 /* One row per vent species (gas sent to the scrubber).  name is also the public JSON key
- * of the species (design section 5: extend, never rename) and mol_key its amount key. */
+ * of the species (design section 5: extend, never rename; its amount key "HCl_mol" is the
+ * column list's, ltable.c). */
 struct vent_info {
     const char *name;        /* "HCl" */
     const char *formula;     /* Hill formula text ("ClH"), parsed by formula.h */
     double molar_mass_g_mol; /* CIAAW 2021 conventional weights (elements.h) */
     int caution;             /* enum caution_id */
-    const char *mol_key;     /* "HCl_mol" (runs[].vent) */
     int acid_gas;            /* an acid gas in the glossary's sense (HCl, HBr) */
     int retained;            /* dissolves in the reaction mass: vent_retained_fraction applies */
 };

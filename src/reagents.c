@@ -91,11 +91,11 @@ int reagent_lookup(const char *name)
 static const struct vent_info vents[VS_COUNT] = {
     /* HCl, HBr and SO2 dissolve in the reaction mass (vent_retained_fraction, design
      * section 3); the halogens are counted at the scrubber whole (common practice) */
-    [VS_HCL] = {"HCl", "ClH", ELEM_W_H + ELEM_W_CL, CA_HCL, "HCl_mol", 1, 1},
-    [VS_HBR] = {"HBr", "BrH", ELEM_W_H + ELEM_W_BR, CA_HBR, "HBr_mol", 1, 1},
-    [VS_CL2] = {"Cl2", "Cl2", 2 * ELEM_W_CL, CA_CL2, "Cl2_mol", 0, 0},
-    [VS_BR2] = {"Br2", "Br2", 2 * ELEM_W_BR, CA_BR2, "Br2_mol", 0, 0},
-    [VS_SO2] = {"SO2", "O2S", ELEM_W_S + 2 * ELEM_W_O, CA_SO2, "SO2_mol", 0, 1},
+    [VS_HCL] = {"HCl", "ClH", ELEM_W_H + ELEM_W_CL, CA_HCL, 1, 1},
+    [VS_HBR] = {"HBr", "BrH", ELEM_W_H + ELEM_W_BR, CA_HBR, 1, 1},
+    [VS_CL2] = {"Cl2", "Cl2", 2 * ELEM_W_CL, CA_CL2, 0, 0},
+    [VS_BR2] = {"Br2", "Br2", 2 * ELEM_W_BR, CA_BR2, 0, 0},
+    [VS_SO2] = {"SO2", "O2S", ELEM_W_S + 2 * ELEM_W_O, CA_SO2, 0, 1},
 };
 
 const struct vent_info *vent_get(int vs) { return (vs >= 0 && vs < VS_COUNT) ? &vents[vs] : NULL; }

@@ -193,6 +193,36 @@ static void test_record_parts(void)
     }
 }
 
+/* Found: the vent family of t (its key "%s_mol") in t or a part of it, NULL if none. */
+static const struct lt_col *vent_mol_entry(const struct lt_table *t)
+{
+    for (int c = 0; c < t->ncols; c++) {
+        const struct lt_col *e = &t->cols[c];
+        if (e->key && e->each == LT_EACH_VENT && strcmp(e->key, "%s_mol") == 0)
+            return e;
+        if (e->sub) {
+            const struct lt_col *f = vent_mol_entry(e->sub);
+            if (f)
+                return f;
+        }
+    }
+    return NULL;
+}
+
+/* The amount keys of runs[].vent as design section 5 spells them, as the writers make them. */
+static void test_vent_keys(void)
+{
+    static const char *const vk[VS_COUNT] = {"HCl_mol", "HBr_mol", "Cl2_mol", "Br2_mol", "SO2_mol"};
+    const struct lt_col *e = vent_mol_entry(&lt_runs);
+    CU_ASSERT_PTR_NOT_NULL_FATAL(e);
+    CU_ASSERT_EQUAL(lt_items(e), VS_COUNT);
+    for (int v = 0; v < VS_COUNT; v++) {
+        char key[32];
+        lt_key(e, v, key, sizeof key);
+        CU_ASSERT_STRING_EQUAL(key, vk[v]);
+    }
+}
+
 static void test_caustic_basis(void)
 {
     struct ledger_scrubber u[3];
@@ -227,6 +257,7 @@ int main(void)
         {"entries named, gettable, unique", test_entries},
         {"a record's parts share no key", test_record_parts},
         {"caustic basis and header", test_caustic_basis},
+        {"vent amount keys", test_vent_keys},
     };
     return CU_RUN_ALL("ltable", cases);
 }
