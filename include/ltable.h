@@ -40,7 +40,11 @@
  * a record when the list has nsub (products of a run, routes of a month; 0 or 1 to take only
  * some records, as the runs with an actual).  Nothing here writes: the writers render the
  * values, and each keeps what is not a list (the Hourly load sheet and the records behind
- * it, notes, charts, the Summary).
+ * it, notes, charts, the Summary, the rows a sheet adds that no record has).
+ *
+ * A form (Cautions) is a block of sheet rows per record: an LT_ROW entry is a row (its head
+ * the row's name), each row of a `sub` array a row, and LT_FORM columns show what the row
+ * gives (lt_form_rows counts them; see enum lt_flag).
  */
 #ifndef LTABLE_H
 #define LTABLE_H
@@ -58,6 +62,11 @@ enum lt_kind {
 enum lt_vt { LT_V_NULL, LT_V_ABSENT, LT_V_NUM, LT_V_TEXT, LT_V_DATE, LT_V_BOOL, LT_V_RUNS,
              LT_V_BAD };
 
+/* How the sheet sets a text cell: LT_S_COL the column's style (as a column: top-aligned,
+ * wrapped when long), LT_S_WRAP wrapped, LT_S_TOP top-aligned, LT_S_BOLD_TOP bold and
+ * top-aligned (the label of a block of rows). */
+enum lt_style { LT_S_COL, LT_S_WRAP, LT_S_TOP, LT_S_BOLD_TOP };
+
 struct lt_val {
     enum lt_vt t;
     double num;                 /* LT_V_NUM */
@@ -66,7 +75,9 @@ struct lt_val {
     const char *text;           /* LT_V_TEXT: the text (never NULL); LT_V_NULL: the sheet's
                                  * text for it (NULL: the column's none); LT_V_BOOL: the
                                  * raised word (NULL: the column's raised) */
-    int wrap;                   /* the sheet writes the text wrapped */
+    enum lt_style style;        /* the sheet's text cell (LT_S_COL: the column's style) */
+    const char *shown;          /* LT_V_TEXT: the sheet's words for an empty text (a value
+                                 * without a unit: "dimensionless"); NULL: a blank */
     const int *runs; int nruns; /* LT_V_RUNS: indices into ledger.runs */
     int item;                   /* in: the member of a family entry (lt_each) */
     char buf[512];              /* text the getter formats (text may point here) */
@@ -80,7 +91,13 @@ enum lt_flag {
     LT_IFIELD = 16u,            /* the field at off is an int, not a double */
     LT_OPEN = 32u,              /* JSON: opens the object `key`; a getter that gives LT_V_NULL
                                  * writes "key": null and leaves out its members */
-    LT_CLOSE = 64u              /* JSON: closes the object opened last */
+    LT_CLOSE = 64u,             /* JSON: closes the object opened last */
+    /* A form: a sheet of a block of rows per record (Cautions), not a row per record. */
+    LT_ROW = 128u,              /* sheet: a row of the record's block, not a column */
+    LT_FORM = 256u,             /* sheet-only column filled from the block's row: on a row
+                                 * of a sub-table, its entry of the same header */
+    LT_NAME = 512u,             /* LT_FORM column: on an LT_ROW entry's row, its header */
+    LT_VALUE = 1024u            /* LT_FORM column: on an LT_ROW entry's row, its value */
 };
 
 /* A family entry stands for one column and one key per member: key and head are formats
@@ -112,6 +129,7 @@ struct lt_col {
     double width;               /* fixed sheet width in characters, 0 = from content */
     int cap;                    /* LT_V_RUNS: sheet text cut at cap bytes (0: 400) */
     enum lt_each each;
+    enum lt_style style;        /* its sheet cells' style (text) */
     const struct lt_table *sub; /* JSON only: "key": [ a row object per sub->nsub(l, i) ];
                                  * without a key: sub's keyed entries written here, in this
                                  * record (a list that is a part of it) */
@@ -151,8 +169,13 @@ extern const struct lt_table lt_months;
 extern const struct lt_table lt_scrubber_spent;
 /* scrubbers[].column{} (null without packing data) / Column check (the units with it). */
 extern const struct lt_table lt_scrubber_column;
+/* assumptions[] / Assumptions (the sheet puts a what-if's --set values above them). */
+extern const struct lt_table lt_assumptions;
+/* cautions[] / Cautions: a form (LT_ROW), a block of rows per substance in play; its limits[]
+ * are rows of another list.  estimate_cautions[]: the rows after them, in the same columns. */
+extern const struct lt_table lt_cautions, lt_estimate_cautions;
 /* All of them, for tests and tools that walk every table (LT_NTABLES entries). */
-#define LT_NTABLES 16
+#define LT_NTABLES 19
 extern const struct lt_table *const lt_tables[LT_NTABLES];
 
 /* Value of member `item` (0 for a single entry) of column c of t for record i, row j (j = 0
@@ -171,6 +194,10 @@ int lt_retained(int k);
  * members take consecutive columns.  Returns the number of columns, or -1 when the entries'
  * columns are not 1..n each once or more than max. */
 int lt_sheet_order(const struct lt_table *t, int *at, int *item, int max);
+
+/* Rows of record i's block in form t (ltable.h LT_ROW): a row per LT_ROW entry and per row
+ * of each sub-table, in list order. */
+int lt_form_rows(const struct lt_table *t, const struct ledger *l, int i);
 
 /* Rows of t in its sheet: count, or the sum of nsub over the records. */
 int lt_nrows(const struct lt_table *t, const struct ledger *l);

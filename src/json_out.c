@@ -751,36 +751,14 @@ static void jo_permit_check(struct jo *w, const struct ledger *l, int i)
     jo_record(w, &lt_permit_checks, l, i);
 }
 
-/* A caution on the ledger's own estimates (stack emissions, reaction heat). */
-static void jo_estimate_caution(struct jo *w, const struct ledger *l, int k)
-{
-    (void)l;
-    jo_begin(w, "estimate_cautions", k);
-    jo_str(w, "topic", caution_estimate_topic(k));
-    jo_str(w, "text", caution_estimate_text(k));
-    jo_end(w);
-}
+/* A substance in play: its exposure limits, hazards, incompatibles and protective
+ * equipment. */
+static void jo_caution(struct jo *w, const struct ledger *l, int i) { jo_record(w, &lt_cautions, l, i); }
 
-static void jo_caution(struct jo *w, const struct ledger *l, int ca)
+/* A caution on the ledger's own estimates (stack emissions, reaction heat). */
+static void jo_estimate_caution(struct jo *w, const struct ledger *l, int i)
 {
-    (void)l;
-    const struct caution_info *c = caution_get(ca);
-    jo_begin(w, "cautions", ca);
-    jo_str(w, "substance", c->substance);
-    jo_str(w, "cas", c->cas);
-    jo_open(w, "limits", '[');
-    for (int k = 0; k < c->nlimits && k < 4; k++) {
-        jo_open(w, NULL, '{');
-        jo_str(w, "kind", c->limits[k].kind);
-        jo_str(w, "value", c->limits[k].value);
-        jo_str(w, "source", c->limits[k].source);
-        jo_close(w, '}');
-    }
-    jo_close(w, ']');
-    jo_str(w, "hazards", c->hazards);
-    jo_str(w, "incompatible", c->incompatible);
-    jo_str(w, "ppe", c->ppe);
-    jo_end(w);
+    jo_record(w, &lt_estimate_cautions, l, i);
 }
 
 static void jo_stock_check(struct jo *w, const struct ledger *l, int i)
@@ -792,16 +770,7 @@ static void jo_warning(struct jo *w, const struct ledger *l, int i) { jo_record(
 
 static void jo_assumption(struct jo *w, const struct ledger *l, int i)
 {
-    const struct ledger_assumption *a = &l->assumptions[i];
-    jo_begin(w, "assumptions", i);
-    jo_str(w, "what", a->what);
-    if (a->has_value)
-        jo_num(w, "value", a->value);
-    else
-        jo_null(w, "value"); /* a text-only assumption */
-    jo_str(w, "unit", a->unit);
-    jo_str(w, "origin", a->origin);
-    jo_end(w);
+    jo_record(w, &lt_assumptions, l, i);
 }
 
 /* "key": [ records ] with one record per line; ids[] picks the records (NULL: 0..n-1). */
@@ -883,12 +852,8 @@ static void jo_document(struct jo *w, const struct ledger *l)
     jo_list(w, l, "permit_checks", l->npermit_checks, NULL, jo_permit_check);
     jo_list(w, l, "warnings", l->nwarnings, NULL, jo_warning);
     jo_list(w, l, "assumptions", l->nassumptions, NULL, jo_assumption);
-    int ca[CA_COUNT], nca = 0;
-    for (int k = 0; k < CA_COUNT; k++)
-        if ((l->cautions_mask >> k & 1u) && caution_get(k))
-            ca[nca++] = k;
-    jo_list(w, l, "cautions", nca, ca, jo_caution);
-    jo_list(w, l, "estimate_cautions", caution_estimate_count(), NULL, jo_estimate_caution);
+    jo_list(w, l, "cautions", lt_cautions.count(l), NULL, jo_caution);
+    jo_list(w, l, "estimate_cautions", lt_estimate_cautions.count(l), NULL, jo_estimate_caution);
     jo_top_str(w, "caution_deferral", caution_deferral());
     jo_puts(w, "\n}\n");
 }

@@ -124,18 +124,70 @@ void lt_key(const struct lt_col *c, int item, char *buf, size_t n)
         snprintf(buf, n, "%s", c->key ? c->key : "");
 }
 
+/* The entry whose row row j of record i of form t is (its LT_ROW entries one row each, a
+ * sub-table entry a row per row of it, in list order), with *sj the sub-table's row; -1
+ * past the last. */
+static int form_row(const struct lt_table *t, const struct ledger *l, int i, int j, int *sj)
+{
+    for (int c = 0; c < t->ncols; c++) {
+        const struct lt_col *e = &t->cols[c];
+        int n = e->sub && e->key ? (e->sub->nsub ? e->sub->nsub(l, i) : 1)
+                                 : (e->flags & LT_ROW) != 0;
+        if (j < n) {
+            *sj = j;
+            return c;
+        }
+        j -= n;
+    }
+    return -1;
+}
+
+int lt_form_rows(const struct lt_table *t, const struct ledger *l, int i)
+{
+    int sj, n = 0;
+    while (form_row(t, l, i, n, &sj) >= 0)
+        n++;
+    return n;
+}
+
+/* Form column c of t on row j of record i: see LT_FORM. */
+static void form_cell(const struct lt_table *t, int c, const struct ledger *l, int i, int j,
+                      struct lt_val *v)
+{
+    int sj = 0, r = form_row(t, l, i, j, &sj);
+    const struct lt_col *col = &t->cols[c], *e = r >= 0 ? &t->cols[r] : NULL;
+    v->t = LT_V_ABSENT;
+    if (e && e->sub) {
+        for (int k = 0; k < e->sub->ncols; k++)
+            if (e->sub->cols[k].head && col->head && !strcmp(e->sub->cols[k].head, col->head)) {
+                lt_get(e->sub, k, 0, l, i, sj, v);
+                return;
+            }
+    } else if (e && (col->flags & LT_NAME)) {
+        v->t = LT_V_TEXT;
+        v->text = e->head;
+    } else if (e && (col->flags & LT_VALUE)) {
+        lt_get(t, r, 0, l, i, j, v);
+    }
+}
+
 void lt_get(const struct lt_table *t, int c, int item, const struct ledger *l, int i, int j,
             struct lt_val *v)
 {
     const struct lt_col *col = &t->cols[c];
     v->t = LT_V_NULL;
     v->text = NULL;
-    v->wrap = 0;
+    v->style = LT_S_COL;
+    v->shown = NULL;
     v->runs = NULL;
     v->nruns = 0;
     v->item = item;
     if (col->get) {
         col->get(l, i, j, v);
+        return;
+    }
+    if (col->flags & LT_FORM) {
+        form_cell(t, c, l, i, j, v);
         return;
     }
     const char *base = (const char *)t->rec(l, i, j) + col->off;
@@ -153,13 +205,13 @@ int lt_sheet_order(const struct lt_table *t, int *at, int *item, int max)
 {
     int n = 0, p = 0;
     for (int c = 0; c < t->ncols; c++)
-        n += t->cols[c].head ? lt_items(&t->cols[c]) : 0;
+        n += t->cols[c].head && !(t->cols[c].flags & LT_ROW) ? lt_items(&t->cols[c]) : 0;
     if (n > max)
         return -1;
     for (int k = 0; k < n; k++)
         at[k] = -1;
     for (int c = 0; c < t->ncols; c++) {
-        if (!t->cols[c].head)
+        if (!t->cols[c].head || (t->cols[c].flags & LT_ROW))
             continue;
         p = t->cols[c].col > 0 ? t->cols[c].col - 1 : p;
         for (int m = 0; m < lt_items(&t->cols[c]); m++, p++) {
@@ -702,7 +754,7 @@ GET(pr_smiles)
              r->other_mean_degree);
     v->t = LT_V_NULL;
     v->text = v->buf;
-    v->wrap = 1;
+    v->style = LT_S_WRAP;
 }
 GET(pr_formula)
 {
@@ -1477,7 +1529,146 @@ static const struct lt_col wn_cols[] = {
 const struct lt_table lt_warnings = {.key = "warnings", .path = "warnings",
     .sheet = "Warnings", .cols = wn_cols, .ncols = NCOLS(wn_cols), .count = wn_count};
 
+/* --- assumptions[] / Assumptions ------------------------------------------ */
+
+static int as_count(const struct ledger *l) { return l->nassumptions; }
+#define AS(i) (&l->assumptions[i])
+
+GET1(as_what, text(v, AS(i)->what))
+GET(as_value)
+{
+    (void)j;
+    if (AS(i)->has_value) /* null: a text-only assumption */
+        num(v, AS(i)->value);
+}
+GET(as_unit)
+{
+    (void)j;
+    text(v, AS(i)->unit);
+    v->shown = AS(i)->has_value ? "dimensionless" : NULL; /* a number without a unit */
+}
+GET1(as_origin, text(v, AS(i)->origin))
+
+/* Each figure the models took without the campaign giving it, and where it comes from (the
+ * sheet puts the --set values of a what-if above them). */
+static const struct lt_col as_cols[] = {
+    {"what", "What", LT_TEXT, .get = as_what, .style = LT_S_WRAP, .width = 44},
+    {"value", "Value", LT_GEN, .get = as_value},
+    {"unit", "Unit", LT_TEXT, .get = as_unit, .style = LT_S_TOP},
+    {"origin", "Origin", LT_TEXT, .get = as_origin, .style = LT_S_WRAP, .width = 66},
+};
+
+const struct lt_table lt_assumptions = {.key = "assumptions", .path = "assumptions",
+    .sheet = "Assumptions", .cols = as_cols, .ncols = NCOLS(as_cols), .count = as_count};
+
+/* --- cautions[] / Cautions (a block of rows per substance in play) -------- */
+
+/* The caution row (reagents.h) of record i: the i-th substance in play. */
+static const struct caution_info *ca_of(const struct ledger *l, int i)
+{
+    for (int ca = 0; ca < CA_COUNT; ca++)
+        if ((l->cautions_mask >> ca & 1u) && caution_get(ca) && i-- == 0)
+            return caution_get(ca);
+    return NULL;
+}
+static int ca_count(const struct ledger *l)
+{
+    int n = 0;
+    while (ca_of(l, n))
+        n++;
+    return n;
+}
+#define CA(i) ca_of(l, i)
+/* at most four limits a substance */
+static int cl_nsub(const struct ledger *l, int i) { return CA(i)->nlimits < 4 ? CA(i)->nlimits : 4; }
+GET(cl_topic)
+{
+    snprintf(v->buf, sizeof v->buf, "Exposure limit: %s",
+             CA(i)->limits[j].kind ? CA(i)->limits[j].kind : "");
+    text(v, v->buf);
+}
+GET(cl_kind) { text(v, CA(i)->limits[j].kind); }
+GET(cl_value) { text(v, CA(i)->limits[j].value); }
+GET(cl_source) { text(v, CA(i)->limits[j].source); }
+
+/* cautions[].limits[]: its rows are rows of the substance's block on the sheet */
+static const struct lt_col cl_cols[] = {
+    {NULL, "Topic", LT_TEXT, .get = cl_topic},
+    {"kind", NULL, LT_TEXT, .get = cl_kind},
+    {"value", "Detail", LT_TEXT, .get = cl_value},
+    {"source", "Source", LT_TEXT, .get = cl_source},
+};
+
+static const struct lt_table lt_caution_limits = {.key = "limits", .path = "cautions[].limits",
+    .sheet = NULL, .cols = cl_cols, .ncols = NCOLS(cl_cols), .count = ca_count, .nsub = cl_nsub};
+
+GET1(ca_substance, text(v, CA(i)->substance))
+GET1(ca_cas, text(v, CA(i)->cas))
+GET1(ca_hazards, text(v, CA(i)->hazards))
+GET1(ca_incompatible, text(v, CA(i)->incompatible))
+GET1(ca_ppe, text(v, CA(i)->ppe))
+GET(ca_deferral)
+{
+    (void)l, (void)i, (void)j;
+    text(v, caution_deferral());
+}
+
+static int ca_nsub(const struct ledger *l, int i);
+/* A substance's block: a row per exposure limit, per LT_ROW entry, then the deferral. */
+static const struct lt_col ca_cols[] = {
+    {"substance", "Substance", LT_TEXT, .get = ca_substance, .style = LT_S_BOLD_TOP},
+    {"cas", "CAS number", LT_TEXT, .get = ca_cas, .style = LT_S_TOP},
+    {"limits", NULL, LT_TEXT, .sub = &lt_caution_limits},
+    {"hazards", "Main hazards", LT_TEXT, .flags = LT_ROW, .get = ca_hazards},
+    {"incompatible", "Incompatible with", LT_TEXT, .flags = LT_ROW, .get = ca_incompatible},
+    {"ppe", "Protective equipment", LT_TEXT, .flags = LT_ROW, .get = ca_ppe},
+    {NULL, "Before use", LT_TEXT, .flags = LT_ROW, .get = ca_deferral},
+    {NULL, "Topic", LT_TEXT, .flags = LT_FORM | LT_NAME, .style = LT_S_TOP},
+    /* one page wide on A4 and Letter with the other three columns */
+    {NULL, "Detail", LT_TEXT, .flags = LT_FORM | LT_VALUE, .style = LT_S_WRAP, .width = 64},
+    {NULL, "Source", LT_TEXT, .flags = LT_FORM, .style = LT_S_WRAP, .width = 30},
+};
+
+const struct lt_table lt_cautions = {.key = "cautions", .path = "cautions", .sheet = "Cautions",
+    .cols = ca_cols, .ncols = NCOLS(ca_cols), .count = ca_count, .nsub = ca_nsub};
+static int ca_nsub(const struct ledger *l, int i) { return lt_form_rows(&lt_cautions, l, i); }
+
+/* --- estimate_cautions[] / Cautions (the rows after the substances) ------- */
+
+static int ec_count(const struct ledger *l)
+{
+    (void)l;
+    return caution_estimate_count();
+}
+GET(ec_label)
+{
+    (void)l, (void)i, (void)j;
+    text(v, "Estimates of this ledger");
+}
+GET1(ec_topic, ((void)l, text(v, caution_estimate_topic(i))))
+GET1(ec_text, ((void)l, text(v, caution_estimate_text(i))))
+GET(ec_none)
+{
+    (void)l, (void)i, (void)j;
+    v->t = LT_V_ABSENT;
+}
+
+/* What the emission and reaction-heat figures are and who decides; the Cautions sheet's
+ * columns (test_ltable holds the two lists to the same headers). */
+static const struct lt_col ec_cols[] = {
+    {NULL, "Substance", LT_TEXT, .get = ec_label, .style = LT_S_BOLD_TOP},
+    {NULL, "CAS number", LT_TEXT, .get = ec_none},
+    {"topic", "Topic", LT_TEXT, .get = ec_topic, .style = LT_S_TOP},
+    {"text", "Detail", LT_TEXT, .get = ec_text, .style = LT_S_WRAP, .width = 64},
+    {NULL, "Source", LT_TEXT, .get = ec_none, .width = 30},
+};
+
+const struct lt_table lt_estimate_cautions = {.key = "estimate_cautions",
+    .path = "estimate_cautions", .sheet = "Cautions", .cols = ec_cols, .ncols = NCOLS(ec_cols),
+    .count = ec_count};
+
 const struct lt_table *const lt_tables[LT_NTABLES] = {
     &lt_run_products, &lt_scrubbers, &lt_permit_checks, &lt_orders, &lt_stock_checks, &lt_warnings,
     &lt_month_products, &lt_run_actuals, &lt_run_reaction, &lt_run_emissions, &lt_run_liquor,
-    &lt_run_waste, &lt_runs, &lt_months, &lt_scrubber_spent, &lt_scrubber_column};
+    &lt_run_waste, &lt_runs, &lt_months, &lt_scrubber_spent, &lt_scrubber_column, &lt_assumptions,
+    &lt_cautions, &lt_estimate_cautions};

@@ -701,6 +701,18 @@ static void xo_join_ids(const struct ledger *l, const int *runs, int n, char *bu
 
 /* --- sheets of a column list (ltable.h) ------------------------------------ */
 
+/* The format of a text cell of column c holding v (ltable.h lt_style). */
+static lxw_format *xo_style(struct xw *w, const struct lt_col *c, const struct lt_val *v)
+{
+    switch (v->style != LT_S_COL ? v->style : c->style) {
+    case LT_S_WRAP: return w->wrap;
+    case LT_S_TOP: return w->top;
+    case LT_S_BOLD_TOP: return w->bold_top;
+    case LT_S_COL: break;
+    }
+    return NULL;
+}
+
 /* Cell k of the current row: value v of column c, as ltable.h describes. */
 static void xt_value(struct xw *w, struct xtable *b, lxw_row_t row, int k, const struct lt_col *c,
                      const struct lt_val *v)
@@ -712,12 +724,13 @@ static void xt_value(struct xw *w, struct xtable *b, lxw_row_t row, int k, const
     case LT_V_NULL: /* JSON null: the value's own text, the column's, or a blank */
         s = v->text ? v->text : c->none;
         if (s && k < b->ncols)
-            xo_text(w, row, (lxw_col_t)k, s, v->wrap ? w->wrap : NULL);
+            xo_text(w, row, (lxw_col_t)k, s, xo_style(w, c, v));
         break;
     case LT_V_NUM: xt_num(w, b, row, k, v->num); break;
     case LT_V_TEXT:
+        s = !*v->text && v->shown ? v->shown : v->text;
         if (k < b->ncols)
-            xo_text(w, row, (lxw_col_t)k, v->text, v->wrap ? w->wrap : NULL);
+            xo_text(w, row, (lxw_col_t)k, s, xo_style(w, c, v));
         break;
     case LT_V_DATE: xt_date(w, b, row, k, v->min); break;
     case LT_V_BOOL:
@@ -730,6 +743,18 @@ static void xt_value(struct xw *w, struct xtable *b, lxw_row_t row, int k, const
         xo_join_ids(w->l, v->runs, v->nruns, ids, c->cap > 0 && c->cap <= 1000 ? (size_t)c->cap : 400);
         xt_text(w, b, row, k, ids);
         break;
+    }
+}
+
+/* Sheet row `row` from record i, row j of list t, whose column k shows member item[k] of
+ * entry at[k]. */
+static void xo_lt_row(struct xw *w, struct xtable *b, const struct lt_table *t, const int *at,
+                      const int *item, lxw_row_t row, int i, int j)
+{
+    struct lt_val v;
+    for (int k = 0; k < b->ncols && w->st == HL_OK; k++) {
+        lt_get(t, at[k], item[k], w->l, i, j, &v);
+        xt_value(w, b, row, k, &t->cols[at[k]], &v);
     }
 }
 
@@ -751,21 +776,17 @@ static void row_lt(struct xw *w, struct xtable *b, lxw_row_t row, int i)
         i = b->cur;
         j = b->sub++;
     }
-    struct lt_val v;
-    for (int k = 0; k < b->ncols && w->st == HL_OK; k++) {
-        lt_get(t, b->at[k], b->item[k], l, i, j, &v);
-        xt_value(w, b, row, k, &t->cols[b->at[k]], &v);
-    }
+    xo_lt_row(w, b, t, b->at, b->item, row, i, j);
 }
 
-/* The sheet of column list t: its columns, rows and widths from the list; empty note and
- * notes from b. */
-static void xo_lt_table(struct xw *w, const struct lt_table *t, struct xtable *b)
+/* The columns of list t's sheet into b (headers, kinds, totals, alarms, widths), its rows
+ * row_lt's; 0 when the list gives no column order. */
+static int xo_lt_cols(struct xw *w, const struct lt_table *t, struct xtable *b)
 {
     int n = lt_sheet_order(t, b->at, b->item, (int)(sizeof b->at / sizeof b->at[0]));
     if (n < 0) {
         xo_fail(w, HL_ERR_INTERNAL, "the column list of sheet %s gives no column order", t->sheet);
-        return;
+        return 0;
     }
     b->lt = t;
     b->fn = row_lt;
@@ -778,7 +799,15 @@ static void xo_lt_table(struct xw *w, const struct lt_table *t, struct xtable *b
         b->cols[k].alarm = c->flags & LT_ALARM ? XA_ALARM : c->flags & LT_NOTICE ? XA_NOTICE : XA_NONE;
         b->fixw[k] = c->width;
     }
-    xo_table(w, t->sheet, b);
+    return 1;
+}
+
+/* The sheet of column list t: its columns, rows and widths from the list; empty note and
+ * notes from b. */
+static void xo_lt_table(struct xw *w, const struct lt_table *t, struct xtable *b)
+{
+    if (xo_lt_cols(w, t, b))
+        xo_table(w, t->sheet, b);
 }
 
 /* --- Summary ------------------------------------------------------------- */
@@ -1680,115 +1709,65 @@ static void xo_warnings(struct xw *w)
 
 /* --- Cautions ------------------------------------------------------------ */
 
-static int xo_caution_nrows(const struct caution_info *c)
-{
-    return (c->nlimits < 4 ? c->nlimits : 4) + 4; /* limits, 3 topics, "Before use" */
-}
-
-static int xo_caution_substance_rows(const struct ledger *l)
-{
-    int n = 0;
-    for (int ca = 0; ca < CA_COUNT; ca++) {
-        const struct caution_info *c = caution_get(ca);
-        if ((l->cautions_mask >> ca & 1u) && c)
-            n += xo_caution_nrows(c);
-    }
-    return n;
-}
-
+/* The Cautions sheet: a block of rows per substance in play (lt_cautions), or one row saying
+ * none is, then a row per caution on the estimates (lt_estimate_cautions, same columns). */
 static void row_caution(struct xw *w, struct xtable *b, lxw_row_t row, int i)
 {
     const struct ledger *l = w->l;
-    int nsub = xo_caution_substance_rows(l);
-    if (i >= (nsub ? nsub : 1)) { /* after the substances: the cautions on the estimates */
-        int j = i - (nsub ? nsub : 1);
-        xo_text(w, row, 0, "Estimates of this ledger", w->bold_top);
-        xo_text(w, row, 2, caution_estimate_topic(j), w->top);
-        xo_text(w, row, 3, caution_estimate_text(j), w->wrap);
-        return;
-    }
-    const struct caution_info *c = NULL;
-    for (; b->cur < CA_COUNT; b->cur++, b->sub = 0) {
-        c = caution_get(b->cur);
-        if ((l->cautions_mask >> b->cur & 1u) && c && b->sub < xo_caution_nrows(c))
-            break;
-    }
-    if (b->cur >= CA_COUNT) { /* nothing in play: the one row says so, with the deferral */
+    int nsub = lt_nrows(&lt_cautions, l);
+    if (i < nsub) {
+        row_lt(w, b, row, i);
+    } else if (nsub == 0 && i == 0) { /* nothing in play: the one row says so, with the deferral */
         xt_text(w, b, row, 0, "No substance of the caution table is in play.");
         xt_text(w, b, row, 2, "Before use");
         xo_text(w, row, 3, caution_deferral(), w->wrap);
-        return;
-    }
-    int k = b->sub++, nl = c->nlimits < 4 ? c->nlimits : 4;
-    const char *topics[3] = {"Main hazards", "Incompatible with", "Protective equipment"};
-    const char *texts[3] = {c->hazards, c->incompatible, c->ppe};
-    xo_text(w, row, 0, c->substance, w->bold_top);
-    xo_text(w, row, 1, c->cas, w->top);
-    if (k < nl) {
-        char topic[80];
-        snprintf(topic, sizeof topic, "Exposure limit: %s", c->limits[k].kind ? c->limits[k].kind : "");
-        xo_text(w, row, 2, topic, w->top);
-        xo_text(w, row, 3, c->limits[k].value, w->wrap);
-        xo_text(w, row, 4, c->limits[k].source, w->wrap);
-    } else if (k < nl + 3) {
-        xo_text(w, row, 2, topics[k - nl], w->top);
-        xo_text(w, row, 3, texts[k - nl], w->wrap);
     } else {
-        xo_text(w, row, 2, "Before use", w->top);
-        xo_text(w, row, 3, caution_deferral(), w->wrap);
+        int at[8], item[8];
+        lt_sheet_order(&lt_estimate_cautions, at, item, 8); /* checked by xo_cautions */
+        xo_lt_row(w, b, &lt_estimate_cautions, at, item, row, i - (nsub ? nsub : 1), 0);
     }
 }
 
 static void xo_cautions(struct xw *w)
 {
-    int n = xo_caution_substance_rows(w->l);
-    struct xtable b = {.fn = row_caution, .nrows = (n ? n : 1) + caution_estimate_count()};
-    xt_col(&b, LT_TEXT, 0, "Substance");
-    xt_col(&b, LT_TEXT, 0, "CAS number");
-    xt_col(&b, LT_TEXT, 0, "Topic");
-    xt_col(&b, LT_TEXT, 0, "Detail");
-    xt_col(&b, LT_TEXT, 0, "Source");
-    b.fixw[3] = 64; /* one page wide on A4 and Letter with the other three columns */
-    b.fixw[4] = 30;
+    struct xtable b = {0};
+    int at[8], item[8];
+    if (!xo_lt_cols(w, &lt_cautions, &b))
+        return;
+    if (lt_sheet_order(&lt_estimate_cautions, at, item, 8) != b.ncols) {
+        xo_fail(w, HL_ERR_INTERNAL, "the estimate cautions do not fill the Cautions columns");
+        return;
+    }
+    int n = b.nrows;
+    b.fn = row_caution;
+    b.nrows = (n ? n : 1) + lt_estimate_cautions.count(w->l);
     xo_table(w, "Cautions", &b);
 }
 
 /* --- Assumptions --------------------------------------------------------- */
 
+/* A what-if's --set values first, so a printed page is not taken for the plan; then the
+ * assumptions (lt_assumptions). */
 static void row_assumption(struct xw *w, struct xtable *b, lxw_row_t row, int i)
 {
-    if (i < w->l->noverrides) {
-        /* a what-if first, so a printed page is not taken for the plan */
-        char what[600];
-        snprintf(what, sizeof what, "!! WHAT-IF: --set %s", w->l->overrides[i]);
-        xo_text(w, row, 0, what, w->wrap);
-        xo_text(w, row, 2, "", w->top);
-        xo_text(w, row, 3, "given on the command line: this ledger is not the campaign file as "
-                "written", w->wrap);
+    if (i >= w->l->noverrides) {
+        row_lt(w, b, row, i - w->l->noverrides);
         return;
     }
-    i -= w->l->noverrides;
-    const struct ledger_assumption *a = &w->l->assumptions[i];
-    xo_text(w, row, 0, a->what, w->wrap);
-    if (a->has_value) {
-        xt_num(w, b, row, 1, a->value);
-        xo_text(w, row, 2, a->unit && *a->unit ? a->unit : "dimensionless", w->top);
-    } else {
-        xo_text(w, row, 2, a->unit, w->top); /* a text-only assumption: no number to show */
-    }
-    xo_text(w, row, 3, a->origin, w->wrap);
+    char what[600];
+    snprintf(what, sizeof what, "!! WHAT-IF: --set %s", w->l->overrides[i]);
+    xo_text(w, row, 0, what, w->wrap);
+    xo_text(w, row, 3, "given on the command line: this ledger is not the campaign file as "
+            "written", w->wrap);
 }
 
 static void xo_assumptions(struct xw *w)
 {
-    struct xtable b = {.fn = row_assumption, .nrows = w->l->noverrides + w->l->nassumptions,
-                       .empty_note = "No assumptions recorded."};
-    xt_col(&b, LT_TEXT, 0, "What");
-    xt_col(&b, LT_GEN, 0, "Value");
-    xt_col(&b, LT_TEXT, 0, "Unit");
-    xt_col(&b, LT_TEXT, 0, "Origin");
-    b.fixw[0] = 44;
-    b.fixw[3] = 66;
+    struct xtable b = {.empty_note = "No assumptions recorded."};
+    if (!xo_lt_cols(w, &lt_assumptions, &b))
+        return;
+    b.fn = row_assumption;
+    b.nrows += w->l->noverrides;
     xo_table(w, "Assumptions", &b);
 }
 

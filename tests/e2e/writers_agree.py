@@ -71,24 +71,33 @@ CAMPAIGN = {
 }
 
 
+LT_ROW, LT_FORM, LT_NAME, LT_VALUE = 128, 256, 512, 1024  # include/ltable.h enum lt_flag
+
+
 def lists():
-    """{sheet: (path, [(key, head, column)])} of the entries with a key and a header."""
+    """[table] of tool_ltable's lists, each {path, sheet, cols: [(key, head, column)] of the
+    entries with a key and a header, heads: sheet columns, entries: every col and sub line as
+    (kind, key, head, column, flags), form: a block of rows per record (LT_ROW)}."""
     p = subprocess.run([TOOL], capture_output=True, text=True, timeout=60)
     T.check(p.returncode == 0, f"tool_ltable exit {p.returncode}: {p.stderr[-300:]}")
-    out, cur, heads = {}, None, {}
+    out, cur = [], None
     for line in p.stdout.splitlines():
         f = line.split("\t")
         if f[0] == "table":
-            cur = f[2]
-            out[cur] = (f[1], [])
-            heads[cur] = 0
+            cur = {"path": f[1], "sheet": f[2], "cols": [], "heads": 0, "entries": [],
+                   "form": False}
+            out.append(cur)
         elif f[0] == "col" and cur:
-            key, head, col = f[1], f[2], int(f[3])
-            if head != "-":
-                heads[cur] += 1
-            if key != "-" and head != "-":
-                out[cur][1].append((key, head, col))
-    return out, heads
+            key, head, col, flags = f[1], f[2], int(f[3]), int(f[4])
+            cur["entries"].append(("col", key, head, col, flags))
+            cur["form"] |= bool(flags & LT_ROW)
+            if head != "-" and not flags & LT_ROW:
+                cur["heads"] += 1
+            if key != "-" and head != "-" and not flags & LT_ROW:
+                cur["cols"].append((key, head, col))
+        elif f[0] == "sub" and cur:
+            cur["entries"].append(("sub", f[1], f[2], 0, int(f[3])))
+    return out
 
 
 def records(d, path):
@@ -137,7 +146,7 @@ def minute(cell):
 def agrees(jv, cell):
     if jv is ABSENT:
         return cell is None
-    if jv is None:
+    if jv is None or jv == "":  # the sheet may say what the blank means ("dimensionless")
         return cell is None or isinstance(cell, str)
     if isinstance(jv, bool):
         if jv:
@@ -156,32 +165,105 @@ def agrees(jv, cell):
     return cell == jv
 
 
-def compare(tag, d, wb, tables, heads, seen):
-    for sheet, (path, cols) in tables.items():
+def form_blocks(t, recs):
+    """Rows of each record's block in form t: a row per LT_ROW entry, a row per element of
+    each array of another list's rows, in list order; [(rows, [(entry, array row)])]."""
+    arrays = []
+    for kind, key, head, col, flags in t["entries"]:
+        if kind == "sub" and key.split(".")[0] not in arrays:
+            arrays.append(key.split(".")[0])
+    blocks = []
+    for rec in recs:
+        rows, done = [], set()
+        for e in t["entries"]:
+            kind, key = e[0], e[1]
+            if kind == "sub" and key.split(".")[0] not in done:
+                arr = key.split(".")[0]
+                done.add(arr)
+                rows += [(("sub", arr), x) for x in rec[arr]]
+            elif kind == "col" and e[4] & LT_ROW:
+                rows.append((e, None))
+        blocks.append(rows)
+    return blocks
+
+
+def compare_form(tag, ws, t, recs, r0):
+    """Form t's blocks from sheet row r0: every row of a record's block holds its keyed
+    columns; an array row the array's keyed members in the columns of their headers; an
+    LT_ROW entry's row its header in the LT_NAME column and its value in the LT_VALUE one."""
+    col_of = {e[2]: e[3] for e in t["entries"] if e[0] == "col" and e[3] > 0}
+    name = [e[3] for e in t["entries"] if e[0] == "col" and e[4] & LT_NAME]
+    value = [e[3] for e in t["entries"] if e[0] == "col" and e[4] & LT_VALUE]
+    if not T.check(len(name) == 1 and len(value) == 1, f"{t['path']}: a form without its "
+                   f"name and value columns"):
+        return r0
+    r = r0
+    for n, (rec, rows) in enumerate(zip(recs, form_blocks(t, recs))):
+        for what, sub in rows:
+            for key, head, col in t["cols"]:
+                T.check(agrees(lookup(rec, key), ws.cell(r, col).value),
+                        f"{tag}: {t['sheet']} row {r} {head!r} = {ws.cell(r, col).value!r}, "
+                        f"JSON {t['path']}[{n}].{key} = {lookup(rec, key)!r}")
+            if what[0] == "sub":
+                for kind, key, head, _, _ in t["entries"]:
+                    if kind == "sub" and key.startswith(what[1] + ".") and key[-2:] != ".-" \
+                            and head != "-":
+                        jv, cell = sub.get(key.split(".")[-1], ABSENT), ws.cell(r, col_of[head]).value
+                        T.check(agrees(jv, cell), f"{tag}: {t['sheet']} row {r} {head!r} = "
+                                f"{cell!r}, JSON {t['path']}[{n}].{key} = {jv!r}")
+            else:
+                key, head = what[1], what[2]
+                T.check(ws.cell(r, name[0]).value == head,
+                        f"{tag}: {t['sheet']} row {r} names {ws.cell(r, name[0]).value!r}, "
+                        f"the list {head!r}")
+                if key != "-":
+                    jv, cell = lookup(rec, key), ws.cell(r, value[0]).value
+                    T.check(agrees(jv, cell), f"{tag}: {t['sheet']} row {r} {head!r} = "
+                            f"{cell!r}, JSON {t['path']}[{n}].{key} = {jv!r}")
+            r += 1
+    return r
+
+
+def first_row(d, t):
+    """The sheet row of t's first record: after the --set lines of a what-if (Assumptions)."""
+    return 2 + (len(d.get("overrides", [])) if t["sheet"] == "Assumptions" else 0)
+
+
+def compare(tag, d, wb, tables, seen):
+    rows_used = {}  # a sheet shared by lists (Cautions): each list's rows follow the last's
+    for t in tables:
+        sheet, path, cols = t["sheet"], t["path"], t["cols"]
         recs = records(d, path)
         if not T.check(sheet in wb.sheetnames, f"{tag}: no sheet {sheet}"):
             continue
         ws = wb[sheet]
         row1 = [c.value for c in ws[1]]
-        T.check(len([v for v in row1 if v is not None]) == heads[sheet],
-                f"{tag}: {sheet} has {len(row1)} header cells, the list {heads[sheet]}")
+        T.check(len([v for v in row1 if v is not None]) == t["heads"],
+                f"{tag}: {sheet} has {len(row1)} header cells, the list {t['heads']}")
         for key, head, col in cols:
             T.check(col >= 1 and head_ok(head, ws.cell(1, col).value),
                     f"{tag}: {sheet} column {col} is {ws.cell(1, col).value!r}, list says {head!r}")
-        # the autofilter spans the header and the data rows
-        ref = ws.auto_filter.ref or ""
+        r0 = rows_used.get(sheet, first_row(d, t))
+        if t["form"]:
+            r = compare_form(tag, ws, t, recs, r0)
+            rows_used[sheet] = r if r > r0 else r0 + 1  # none in play: one row says so
+        else:
+            for n, rec in enumerate(recs):
+                for key, head, col in cols:
+                    jv = lookup(rec, key)
+                    if jv is SKIP:
+                        continue
+                    cell = ws.cell(r0 + n, col).value
+                    T.check(agrees(jv, cell), f"{tag}: {sheet} row {r0 + n} {head!r} = {cell!r}, "
+                            f"JSON {path}[{n}].{key} = {jv!r}")
+            rows_used[sheet] = r0 + len(recs)
+        seen[path] = seen.get(path, 0) + len(recs)
+    for sheet, r in rows_used.items():
+        # the autofilter spans the header and the data rows of the lists on the sheet
+        ref = wb[sheet].auto_filter.ref or ""
         m = re.match(r"^A1:[A-Z]+(\d+)$", ref)
-        T.check(bool(m) and int(m.group(1)) == len(recs) + 1,
-                f"{tag}: {sheet} filters {ref!r}, the JSON has {len(recs)} records")
-        for n, rec in enumerate(recs):
-            for key, head, col in cols:
-                jv = lookup(rec, key)
-                if jv is SKIP:
-                    continue
-                cell = ws.cell(n + 2, col).value
-                T.check(agrees(jv, cell), f"{tag}: {sheet} row {n + 2} {head!r} = {cell!r}, "
-                        f"JSON {path}[{n}].{key} = {jv!r}")
-            seen[sheet] = seen.get(sheet, 0) + 1
+        T.check(bool(m) and int(m.group(1)) == r - 1,
+                f"{tag}: {sheet} filters {ref!r}, the JSON has {r - 2} rows for it")
 
 
 def report(camp, out_dir, tag, extra=()):
@@ -196,7 +278,7 @@ def report(camp, out_dir, tag, extra=()):
 
 
 def main():
-    tables, heads = lists()
+    tables = lists()
     T.check(len(tables) >= 10, f"tool_ltable lists {len(tables)} tables")
     seen = {}
     with tempfile.TemporaryDirectory() as tmp:
@@ -216,12 +298,15 @@ def main():
         for name in sorted(os.listdir(os.path.join(ROOT, "tests", "campaigns"))):
             if name.endswith(".json"):
                 cases.append((os.path.join(ROOT, "tests", "campaigns", name), "t-" + name[:-5], []))
+        # a what-if: the Assumptions sheet lists its --set values above the assumptions
+        cases.append((os.path.join(ROOT, "campaigns", "harrowmere-march.json"), "what-if",
+                      ["--set", "runs.CH-1.reagent_eq=1.2"]))
         for camp, tag, extra in cases:
             d, wb = report(camp, tmp, tag, extra)
             if d is not None:
-                compare(tag, d, wb, tables, heads, seen)
-    for sheet in tables:
-        T.check(seen.get(sheet, 0) > 0, f"sheet {sheet}: no row compared")
+                compare(tag, d, wb, tables, seen)
+    for t in tables:
+        T.check(seen.get(t["path"], 0) > 0, f"{t['path']} / {t['sheet']}: no row compared")
     for f in T.fails[:25]:
         print("FAIL", f)
     print(f"writers_agree: {len(tables)} tables, {sum(seen.values())} rows, {T.n} checks, "

@@ -5,7 +5,12 @@
  *                                                 path in the record, "reaction.heat_kj";
  *                                                 KEY/HEAD "-" when the entry has none;
  *                                                 COLUMN its sheet column, 1-based, 0 none;
- *                                                 HEAD "%s" where the caustic basis goes)
+ *                                                 HEAD "%s" where the caustic basis goes;
+ *                                                 FLAGS LT_ROW: a row of a form's block)
+ *   sub<TAB>KEY<TAB>HEAD<TAB>FLAGS               (an entry of an array of another list's
+ *                                                 rows: KEY the array's key, then one line
+ *                                                 per entry of that list, HEAD the form
+ *                                                 column it fills)
  * tests/e2e/writers_agree.py pairs the two outputs' cells through it; the values it
  * compares come from the JSON file and the workbook, never from here.
  */
@@ -26,6 +31,9 @@ int main(void)
         }
         printf("table\t%s\t%s\n", tb->path, tb->sheet);
         char group[128] = ""; /* "scrubber.salts_kg." inside nested objects */
+        int form = 0;
+        for (int c = 0; c < tb->ncols; c++)
+            form |= (tb->cols[c].flags & LT_ROW) != 0;
         for (int c = 0; c < tb->ncols; c++) {
             const struct lt_col *e = &tb->cols[c];
             size_t g = strlen(group);
@@ -39,6 +47,13 @@ int main(void)
                 while (g > 0 && group[g - 1] != '.')
                     group[--g] = '\0';
                 continue;
+            }
+            if (e->sub && e->key && form) { /* rows of a form's block (cautions[].limits) */
+                for (int k = 0; k < e->sub->ncols; k++) {
+                    const struct lt_col *f = &e->sub->cols[k];
+                    printf("sub\t%s%s.%s\t%s\t%u\n", group, e->key, f->key ? f->key : "-",
+                           f->head ? f->head : "-", f->flags);
+                }
             }
             if (e->sub)
                 continue; /* JSON only, a table of its own */

@@ -15,8 +15,8 @@ static void test_sheet_order(void)
     for (int t = 0; t < LT_NTABLES; t++) {
         const struct lt_table *tb = lt_tables[t];
         int at[64], item[64], heads = 0;
-        for (int c = 0; c < tb->ncols; c++)
-            heads += tb->cols[c].head ? lt_items(&tb->cols[c]) : 0;
+        for (int c = 0; c < tb->ncols; c++) /* a form's LT_ROW entries are rows, not columns */
+            heads += tb->cols[c].head && !(tb->cols[c].flags & LT_ROW) ? lt_items(&tb->cols[c]) : 0;
         int n = lt_sheet_order(tb, at, item, 64);
         if (n != heads)
             printf("\n  %s: lt_sheet_order %d, %d headers", tb->path, n, heads);
@@ -118,7 +118,12 @@ static void test_entries(void)
         for (int c = 0; c < tb->ncols; c++) {
             const struct lt_col *e = &tb->cols[c];
             CU_ASSERT(e->key || e->head || (e->flags & LT_CLOSE) || e->sub);
-            CU_ASSERT(e->get || tb->rec || (e->flags & (LT_OPEN | LT_CLOSE)) || e->sub);
+            CU_ASSERT(e->get || tb->rec || (e->flags & (LT_OPEN | LT_CLOSE | LT_FORM)) || e->sub);
+            /* a form column is sheet only and filled from the row; a form row has a name */
+            if (e->flags & (LT_FORM | LT_NAME | LT_VALUE))
+                CU_ASSERT((e->flags & LT_FORM) && !e->key && e->head && !e->get);
+            if (e->flags & LT_ROW)
+                CU_ASSERT(e->head && !e->sub && !(e->flags & (LT_OPEN | LT_CLOSE | LT_FORM)));
             CU_ASSERT(e->kind >= LT_TEXT && e->kind < LT_NKIND);
             /* an object's open and close and a sub-table are JSON only; three levels at most */
             if (e->flags & (LT_OPEN | LT_CLOSE) || e->sub)
@@ -223,6 +228,64 @@ static void test_vent_keys(void)
     }
 }
 
+/* The header of sheet column p (0-based) of t into buf; 0 when t has no such column. */
+static int sheet_head(const struct lt_table *t, int p, char *buf, size_t n)
+{
+    int at[64], item[64], nc = lt_sheet_order(t, at, item, 64);
+    if (p < 0 || p >= nc)
+        return 0;
+    snprintf(buf, n, "%s", t->cols[at[p]].head);
+    return 1;
+}
+
+/* The Cautions sheet: the substances' blocks (a form) and the estimate cautions after them
+ * in the same columns; a block's rows are its exposure limits, then one per LT_ROW entry,
+ * and each member of a limit fills the form column of its header. */
+static void test_cautions_form(void)
+{
+    CU_ASSERT_STRING_EQUAL(lt_cautions.sheet, lt_estimate_cautions.sheet);
+    int at[64], item[64];
+    int n = lt_sheet_order(&lt_cautions, at, item, 64);
+    CU_ASSERT_EQUAL(n, 5); /* Substance, CAS number, Topic, Detail, Source */
+    CU_ASSERT_EQUAL(lt_sheet_order(&lt_estimate_cautions, at, item, 64), n);
+    for (int p = 0; p < n; p++) {
+        char a[96] = "", b[96] = "";
+        CU_ASSERT(sheet_head(&lt_cautions, p, a, sizeof a));
+        CU_ASSERT(sheet_head(&lt_estimate_cautions, p, b, sizeof b));
+        if (strcmp(a, b) != 0)
+            printf("\n  Cautions column %d: %s, estimate cautions %s", p + 1, a, b);
+        CU_ASSERT_STRING_EQUAL(a, b);
+    }
+    int names = 0, values = 0, rows = 0, subs = 0;
+    for (int c = 0; c < lt_cautions.ncols; c++) {
+        const struct lt_col *e = &lt_cautions.cols[c];
+        names += (e->flags & LT_NAME) != 0;
+        values += (e->flags & LT_VALUE) != 0;
+        rows += (e->flags & LT_ROW) != 0;
+        if (!e->sub)
+            continue;
+        subs++;
+        CU_ASSERT_STRING_EQUAL(e->key, "limits"); /* design section 5 */
+        for (int k = 0; k < e->sub->ncols; k++) { /* each header a form column's */
+            const char *h = e->sub->cols[k].head;
+            int found = 0;
+            for (int d = 0; d < lt_cautions.ncols && h; d++)
+                found += (lt_cautions.cols[d].flags & LT_FORM) && !strcmp(lt_cautions.cols[d].head, h);
+            CU_ASSERT(!h || found == 1);
+        }
+    }
+    CU_ASSERT(names == 1 && values == 1 && subs == 1);
+    CU_ASSERT_EQUAL(rows, 4); /* hazards, incompatible, ppe, the deferral */
+    /* a form's rows: 2 limits, 4 LT_ROW entries */
+    struct ledger l;
+    memset(&l, 0, sizeof l);
+    l.cautions_mask = 1u; /* the first substance of the caution table */
+    CU_ASSERT_EQUAL(lt_cautions.count(&l), 1);
+    const struct caution_info *ci = caution_get(0);
+    CU_ASSERT_PTR_NOT_NULL_FATAL(ci);
+    CU_ASSERT_EQUAL(lt_form_rows(&lt_cautions, &l, 0), (ci->nlimits < 4 ? ci->nlimits : 4) + 4);
+}
+
 static void test_caustic_basis(void)
 {
     struct ledger_scrubber u[3];
@@ -258,6 +321,7 @@ int main(void)
         {"a record's parts share no key", test_record_parts},
         {"caustic basis and header", test_caustic_basis},
         {"vent amount keys", test_vent_keys},
+        {"the Cautions form", test_cautions_form},
     };
     return CU_RUN_ALL("ltable", cases);
 }
