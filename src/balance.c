@@ -12,6 +12,7 @@
 #include "balance.h"
 #include "hlmem.h"
 
+#include <stddef.h>
 #include <stdint.h>
 
 #include <math.h>
@@ -118,10 +119,22 @@ struct bal_entry {
     unsigned char known[KIN_MAX_STEPS + 1];
 };
 
+/* What a solved extent depends on: the mode, the step constants and the mean degree. Runs
+ * of one recipe differ in batch size, not in these, so most solves repeat. */
+struct bal_extent_key {
+    int mode, nsteps;
+    double mean, k[KIN_MAX_STEPS]; /* k[nsteps..] stay 0 */
+};
+
+struct bal_extent { int used; struct bal_extent_key key; double x[KIN_MAX_STEPS + 1]; };
+
+#define BAL_NEXTENT 64 /* direct-mapped: a miss only costs the solve */
+
 struct bal_cache {
     struct bal_entry **bucket; size_t nbucket, n;
     struct bal_consts k;
     int have_k;
+    struct bal_extent extent[BAL_NEXTENT];
 };
 
 /* Fills k with the parsed formulas of every chargeable reagent, vent gas and succinimide
@@ -582,6 +595,39 @@ static void late_warning(const struct bal_in *in, const struct reagent_info *ri,
                  o->reagent_left_kg, ri->name, in->temp_c, ri->hot_vent_c, ri->hot_vent_note);
 }
 
+/* kin_solve_extent through the cache's memo (cache NULL: none). A hit needs the same key,
+ * bit for bit, so it gives the very x the solve would: the ledger cannot change by it. */
+static enum hl_status solve_extent(struct bal_cache *cache, enum kin_mode mode, const double *k,
+                                   int nsteps, double mean, double *x, struct hl_err *e)
+{
+    if (!cache)
+        return kin_solve_extent(mode, k, nsteps, mean, x, NULL, e);
+    struct bal_extent_key key;
+    memset(&key, 0, sizeof key); /* the padding too: the key is hashed and compared as bytes */
+    key.mode = (int)mode;
+    key.nsteps = nsteps;
+    key.mean = mean;
+    memcpy(key.k, k, (size_t)nsteps * sizeof *k);
+    size_t nb = offsetof(struct bal_extent_key, k) + (size_t)nsteps * sizeof *k; /* the rest is 0 */
+    uint64_t h = 1469598103934665603ull; /* FNV-1a */
+    const unsigned char *b = (const unsigned char *)&key;
+    for (size_t i = 0; i < nb; i++)
+        h = (h ^ b[i]) * 1099511628211ull;
+    struct bal_extent *m = &cache->extent[(h ^ (h >> 32)) % BAL_NEXTENT];
+    size_t nx = (size_t)(nsteps + 1) * sizeof *x;
+    if (m->used && !memcmp(&m->key, &key, nb)) {
+        memcpy(x, m->x, nx);
+        return HL_OK;
+    }
+    enum hl_status st = kin_solve_extent(mode, k, nsteps, mean, x, NULL, e);
+    if (st)
+        return st;
+    m->used = 1;
+    m->key = key;
+    memcpy(m->x, x, nx);
+    return HL_OK;
+}
+
 /* One run's balance (bal_compute_cached without the clean-up): takes the run and the cache
  * (NULL: none); fills o, which owns what it points at unless the cache does (o->sel). On an
  * error o may be partly filled: the caller frees it. */
@@ -606,7 +652,7 @@ static enum hl_status compute(const struct bal_in *in, struct bal_cache *cache, 
 
     double x[KIN_MAX_STEPS + 1];
     double mean = o->mean_degree > nsteps ? nsteps : o->mean_degree;
-    if ((st = kin_solve_extent(in->mode, k, nsteps, mean, x, NULL, e)))
+    if ((st = solve_extent(cache, in->mode, k, nsteps, mean, x, e)))
         return st;
 
     int cap = 1 + s->niso + nsteps;

@@ -162,6 +162,37 @@ static void nbs_toluene(void)
     bal_free(&o);
 }
 
+/* Runs through one cache, as the ledger computes a campaign: batch sizes and reagent
+ * amounts change from run to run and come back, so the cache's stored distributions are
+ * met again and each must still be the binomial of its own run (ethane as a formula, six
+ * H alike, over-halogenation factor 1; N = 6, p = eq / 6 at full conversion). */
+static void cached_runs_binomial(void)
+{
+    const double m = 2 * A_C + 6 * A_H; /* 30.070 g/mol */
+    static const double mol[] = {1000, 3000, 250};
+    static const double eq[] = {0.6, 1.2};
+    struct bal_cache *c = bal_cache_new();
+    CU_ASSERT_FATAL(c != NULL);
+    for (int pass = 0; pass < 2; pass++)
+        for (int i = 0; i < 3; i++)
+            for (int j = 0; j < 2; j++) {
+                struct bal_in in = formula_run("C2H6", mol[i] * m / 1000, RG_CL2, eq[j], 1.0, 0);
+                struct bal_out o;
+                struct hl_err e;
+                hl_err_clear(&e);
+                CU_ASSERT_FATAL(bal_compute_cached(&in, c, &o, &e) == HL_OK);
+                ASSERT_REL(o.substrate_mol, mol[i], 1e-12);
+                CU_ASSERT_EQUAL(o.nproducts, 7);
+                for (int k = 0; k < o.nproducts; k++) {
+                    const struct bal_product *p = &o.products[k];
+                    ASSERT_REL(p->mol_fraction, binom(6, p->degree, eq[j] / 6), 1e-9);
+                    ASSERT_REL(p->mol, mol[i] * binom(6, p->degree, eq[j] / 6), 1e-9);
+                }
+                bal_free(&o);
+            }
+    bal_cache_free(c);
+}
+
 int main(void)
 {
     static const struct cu_case cases[] = {
@@ -169,6 +200,7 @@ int main(void)
         {"ethane bromination by hand", ethane_bromination},
         {"SO2Cl2: SO2, reagent left, boiling-point warning", sulfuryl_chloride},
         {"NBS: succinimide and NBS left", nbs_toluene},
+        {"runs through one cache stay binomial", cached_runs_binomial},
     };
     return CU_RUN_ALL("balance", cases);
 }
