@@ -59,6 +59,7 @@ struct pool_block { struct pool_block *next; size_t used, cap; char data[]; };
 struct ledger_strings {
     struct pool_block *blocks;
     char **slots; size_t nslots, nused;      /* nslots a power of two, at most half full */
+    int assume_hint[64];                     /* by hash of the text: 1 + an assumption's index */
 };
 
 static uint64_t pool_hash(const char *s, size_t len)
@@ -237,15 +238,31 @@ static enum hl_status warn_boiling(struct ledger *l, struct hl_err *e, int u, in
                 liquor_get(liquor)->bp_basis);
 }
 
-/* Add an assumption unless one with the same text is listed (the list stays short:
- * a few dozen distinct values, so a scan is cheaper than a hash). */
+/* Whether assumption a is the one given (same text, and the same value where it has one). */
+static int assume_same(const struct ledger_assumption *a, const char *what, int has_value,
+                       double value)
+{
+    return !strcmp(a->what, what) && (!has_value || a->value == value);
+}
+
+/* Add an assumption unless one with the same text (and value) is listed. The list stays
+ * short, a few dozen entries, but every run asks again for each of its model's. */
 static enum hl_status assume(struct ledger *l, struct hl_err *e, const char *what, int has_value,
                              double value, const char *unit, const char *origin)
 {
+    /* Every run repeats its model's assumptions, so first try the one this text last
+     * matched (or added); only a miss scans the list, which gives the same answer. */
+    if (!l->strings && !(l->strings = hl_calloc(1, sizeof *l->strings)))
+        return nomem(e);
+    int *hint = &l->strings->assume_hint[pool_hash(what, strlen(what)) % 64];
+    if (*hint > 0 && *hint <= l->nassumptions &&
+        assume_same(&l->assumptions[*hint - 1], what, has_value, value))
+        return HL_OK;
     for (int i = 0; i < l->nassumptions; i++)
-        if (!strcmp(l->assumptions[i].what, what) &&
-            (!has_value || l->assumptions[i].value == value))
+        if (assume_same(&l->assumptions[i], what, has_value, value)) {
+            *hint = i + 1;
             return HL_OK;
+        }
     struct ledger_assumption *a = l->assumptions;
     if (grow_due(l->nassumptions)) {
         a = hl_realloc(l->assumptions, grown(l->nassumptions) * sizeof *a);
@@ -265,7 +282,7 @@ static enum hl_status assume(struct ledger *l, struct hl_err *e, const char *wha
         hl_free(a->origin);
         return nomem(e);
     }
-    l->nassumptions++;
+    *hint = ++l->nassumptions;
     return HL_OK;
 }
 
