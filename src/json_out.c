@@ -154,42 +154,9 @@ static size_t jo_utoa(uint64_t u, char *out)
     return n;
 }
 
-/* 64 x 64 -> 128-bit product and shifts, in two halves (C11 has no 128-bit type). */
-struct u128 { uint64_t hi, lo; };
-
-static struct u128 mul64(uint64_t a, uint64_t b)
-{
-    uint64_t a0 = a & 0xffffffffu, a1 = a >> 32, b0 = b & 0xffffffffu, b1 = b >> 32;
-    uint64_t p00 = a0 * b0, p01 = a0 * b1, p10 = a1 * b0, p11 = a1 * b1;
-    uint64_t mid = (p00 >> 32) + (p01 & 0xffffffffu) + (p10 & 0xffffffffu);
-    struct u128 r = {p11 + (p01 >> 32) + (p10 >> 32) + (mid >> 32), (mid << 32) | (p00 & 0xffffffffu)};
-    return r;
-}
-
-/* x >> t for 0 < t < 128 */
-static uint64_t shr_lo(struct u128 x, int t)
-{
-    if (t >= 64)
-        return x.hi >> (t - 64);
-    return (x.lo >> t) | (x.hi << (64 - t));
-}
-
-/* the low t bits of x, 0 < t < 128 */
-static struct u128 low_bits(struct u128 x, int t)
-{
-    if (t >= 64)
-        return (struct u128){t == 64 ? 0 : x.hi & ((UINT64_C(1) << (t - 64)) - 1), x.lo};
-    return (struct u128){0, x.lo & ((UINT64_C(1) << t) - 1)};
-}
-
-static int cmp128(struct u128 a, struct u128 b)
-{
-    if (a.hi != b.hi)
-        return a.hi < b.hi ? -1 : 1;
-    return a.lo < b.lo ? -1 : a.lo > b.lo;
-}
-
-static struct u128 shl1(struct u128 x) { return (struct u128){(x.hi << 1) | (x.lo >> 63), x.lo << 1}; }
+/* 64 x 64 -> 128-bit products: GCC and Clang's unsigned __int128 (C11 has no such type;
+ * __extension__ keeps -pedantic quiet). Every target we build for has it. */
+__extension__ typedef unsigned __int128 jo_u128;
 
 static const uint64_t pow10_u64[] = {
     1, 10, 100, 1000, 10000, 100000, 1000000, 10000000, 100000000, 1000000000,
@@ -210,8 +177,10 @@ static int digits_of(uint64_t m, int e, int P, int *x, uint64_t *digits, int *ne
         for (int k = 1; k < 28; k++)
             pow5[k] = pow5[k - 1] * 5;
     }
-    /* floor(log10(2)) x binary exponent: the decimal exponent or one below it */
-    int x10 = (int)floor((e + 52) * 0.30102999566398120);
+    /* floor((e + 52) log10 2), the decimal exponent or one below it: 78913 / 2^18 is
+     * log10 2 close enough for every |e + 52| < 1650 (an offset keeps the shift on a
+     * non-negative number) */
+    int x10 = (((e + 52) * 78913 + (1024 << 18)) >> 18) - 1024;
     for (int tries = 0; tries < 3; tries++) {
         *near = 0;
         int q = P - 1 - x10;
@@ -220,12 +189,10 @@ static int digits_of(uint64_t m, int e, int P, int *x, uint64_t *digits, int *ne
         int t = -(e + q); /* value x 10^q = m 5^q / 2^t */
         if (t <= 0 || t >= 120)
             return 0;
-        struct u128 num = mul64(m, pow5[q]);
-        uint64_t d = shr_lo(num, t);
-        struct u128 rem = low_bits(num, t);
-        struct u128 half = t >= 65 ? (struct u128){UINT64_C(1) << (t - 65), 0}
-                                   : (struct u128){0, UINT64_C(1) << (t - 1)};
-        int c = cmp128(rem, half);
+        jo_u128 num = (jo_u128)m * pow5[q], one = (jo_u128)1 << t;
+        uint64_t d = (uint64_t)(num >> t);
+        jo_u128 rem = num & (one - 1), half = one >> 1;
+        int c = rem > half ? 1 : rem < half ? -1 : 0;
         int up = c > 0 || (c == 0 && (d & 1));
         if (c == 0)
             *near = -1;
@@ -240,15 +207,8 @@ static int digits_of(uint64_t m, int e, int P, int *x, uint64_t *digits, int *ne
         }
         /* |digits - value| x 2^t, against 1.5 units of the double (1.5 x 5^q x 2^0 after
          * scaling): inside reads back to a neighbour at most, outside to 2 away or more */
-        struct u128 diff = rem;
-        if (up) { /* 2^t - rem */
-            struct u128 full = t >= 64 ? (struct u128){UINT64_C(1) << (t - 64), 0}
-                                       : (struct u128){0, UINT64_C(1) << t};
-            diff.hi = full.hi - rem.hi - (full.lo < rem.lo);
-            diff.lo = full.lo - rem.lo;
-        }
-        struct u128 lim = mul64(3, pow5[q]), twice = shl1(diff);
-        int v = cmp128(twice, lim);
+        jo_u128 twice = (up ? one - rem : rem) << 1, lim = (jo_u128)3 * pow5[q];
+        int v = twice < lim ? -1 : twice > lim;
         if (*near != -1)
             *near = v < 0 ? 1 : v > 0 ? 0 : -1;
         *x = x10;
@@ -261,9 +221,17 @@ static int digits_of(uint64_t m, int e, int P, int *x, uint64_t *digits, int *ne
 /* %1.Pg of the value digits x 10^(x - P + 1) (P significant digits, exact). */
 static size_t fmt_g(int neg, uint64_t digits, int P, int x, char *out)
 {
+    static const char pairs[] = /* "00" .. "99" */
+        "00010203040506070809101112131415161718192021222324"
+        "25262728293031323334353637383940414243444546474849"
+        "50515253545556575859606162636465666768697071727374"
+        "75767778798081828384858687888990919293949596979899";
     char dg[20];
-    for (int k = P - 1; k >= 0; k--, digits /= 10)
-        dg[k] = (char)('0' + digits % 10);
+    int k = P;
+    for (; k >= 2; k -= 2, digits /= 100) /* two digits a division */
+        memcpy(dg + k - 2, pairs + 2 * (digits % 100), 2);
+    if (k)
+        dg[0] = (char)('0' + digits % 10);
     int nd = P;
     while (nd > 1 && dg[nd - 1] == '0') /* %g drops trailing zeros */
         nd--;
