@@ -105,9 +105,9 @@ struct bal_cache *bal_cache_new(void);
  * their products but their sel pointer dangles afterwards. */
 void bal_cache_free(struct bal_cache *c);
 
-/* Like bal_compute, taking the prediction (and product formulas) from the cache and
- * adding it there when new; out->sel then belongs to the cache. cache may be NULL
- * (then exactly bal_compute). */
+/* Like bal_compute, taking the prediction (and product formulas) and the solved degree
+ * distribution from the cache and adding them there when new; out->sel then belongs to
+ * the cache. The result equals bal_compute's bit for bit; cache may be NULL. */
 enum hl_status bal_compute_cached(const struct bal_in *in, struct bal_cache *cache,
                                   struct bal_out *out, struct hl_err *e);
 
