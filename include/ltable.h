@@ -39,7 +39,7 @@
  * Each list and its sheet are the same rows: a sheet row per record (count), or per row j of
  * a record when the list has nsub (products of a run, routes of a month; 0 or 1 to take only
  * some records, as the runs with an actual).  Nothing here writes: the writers render the
- * values, and each keeps what is not a list (the Hourly load sheet and the records behind
+ * values, and each keeps what is not a list (the Emissions by hour sheet and the records behind
  * it, notes, charts, the Summary, the rows a sheet adds that no record has).
  *
  * A form (Cautions) is a block of sheet rows per record: an LT_ROW entry is a row (its head
@@ -143,10 +143,15 @@ struct lt_table {
     int (*count)(const struct ledger *l);          /* records i = 0..count-1 */
     int (*nsub)(const struct ledger *l, int i);    /* rows j of record i; NULL: one */
     const void *(*rec)(const struct ledger *l, int i, int j); /* base of the off fields */
+    /* rows j of record i under member item of a family object (scrubbers[].emissions.SPECIES
+     * .years); NULL: nsub */
+    int (*nsub_item)(const struct ledger *l, int i, int item);
+    int bare;                   /* JSON: a row is the value of its one keyed entry, not an
+                                 * object (scrubbers[].hourly.kmol_h) */
 };
 
-/* The tables: orders[] / Orders, scrubbers[] / Scrubber units (the record's scalars; its
- * hourly and emission members are the JSON writer's), permit_checks[] /
+/* The tables: orders[] / Orders, scrubbers[] / Scrubber units (the record's scalars, then
+ * JSON only hourly{}, spent[], column{}, stack_nm3_h, removal{}, emissions{}), permit_checks[] /
  * Permit checks, stock_checks[] / Stock checks, runs[].products[] / Products (i run,
  * j product), warnings[] / Warnings. */
 extern const struct lt_table lt_orders, lt_scrubbers, lt_permit_checks, lt_stock_checks,
@@ -174,8 +179,10 @@ extern const struct lt_table lt_assumptions;
 /* cautions[] / Cautions: a form (LT_ROW), a block of rows per substance in play; its limits[]
  * are rows of another list.  estimate_cautions[]: the rows after them, in the same columns. */
 extern const struct lt_table lt_cautions, lt_estimate_cautions;
+/* scrubbers[].hourly.kmol_h / Hourly load (i unit, j hour): the unit's load, hour by hour. */
+extern const struct lt_table lt_scrubber_hourly;
 /* All of them, for tests and tools that walk every table (LT_NTABLES entries). */
-#define LT_NTABLES 19
+#define LT_NTABLES 20
 extern const struct lt_table *const lt_tables[LT_NTABLES];
 
 /* Value of member `item` (0 for a single entry) of column c of t for record i, row j (j = 0

@@ -35,11 +35,6 @@
 #include <string.h>
 #include <unistd.h>
 
-/* Public key spellings of the vent species and salts: the names of their table rows
- * (reagents.c, liquor.c), which are public JSON keys and never renamed. */
-#define jo_vent_key(v) (vent_get(v)->name)
-#define jo_salt_key(k) (liquor_salt_get(k)->name)
-
 enum { JO_BUF = 1 << 16, JO_DEPTH = 16 };
 
 struct jo {
@@ -540,7 +535,7 @@ static void jo_value(struct jo *w, const struct ledger *l, const char *key, enum
 }
 
 static void jo_rows(struct jo *w, const struct lt_table *t, const struct ledger *l, int i,
-                    const char *key);
+                    const char *key, int item);
 
 /* Index of the LT_CLOSE that closes the object entry c of t opens. */
 static int jo_close_of(const struct lt_table *t, int c)
@@ -579,6 +574,11 @@ static void jo_span(struct jo *w, const struct lt_table *t, const struct ledger 
         } else if ((e->flags & LT_OPEN) && e->each != LT_ONE) {
             int end = jo_close_of(t, c);
             for (int k = 0, n = lt_items(e); k < n && w->st == HL_OK; k++) {
+                v.t = LT_V_BOOL;
+                if (e->get) /* LT_V_ABSENT: no object for this member */
+                    lt_get(t, c, k, l, i, j, &v);
+                if (v.t == LT_V_ABSENT)
+                    continue;
                 lt_key(e, k, key, sizeof key);
                 jo_open(w, key, '{');
                 jo_span(w, t, l, i, j, c + 1, end, k);
@@ -596,7 +596,7 @@ static void jo_span(struct jo *w, const struct lt_table *t, const struct ledger 
                 jo_open(w, e->key, '{');
             }
         } else if (e->sub) {
-            jo_rows(w, e->sub, l, i, e->key);
+            jo_rows(w, e->sub, l, i, e->key, item);
         } else {
             for (int k = 0, n = lt_items(e); k < n; k++) {
                 /* a family's key is made per member; a single entry's is the list's text
@@ -619,15 +619,24 @@ static void jo_cols(struct jo *w, const struct lt_table *t, const struct ledger 
     jo_span(w, t, l, i, j, 0, t->ncols, 0);
 }
 
-/* "key": [ an object per row of table t under record i ]. */
+/* "key": [ an object per row of table t under record i (member item of a family object), or
+ * with t->bare the value of its one keyed entry ]. */
 static void jo_rows(struct jo *w, const struct lt_table *t, const struct ledger *l, int i,
-                    const char *key)
+                    const char *key, int item)
 {
     jo_open(w, key, '[');
-    int n = t->nsub ? t->nsub(l, i) : 1;
+    int n = t->nsub_item ? t->nsub_item(l, i, item) : t->nsub ? t->nsub(l, i) : 1, c = 0;
+    while (t->bare && c < t->ncols - 1 && !t->cols[c].key)
+        c++;
     for (int j = 0; j < n && w->st == HL_OK; j++) {
+        if (t->bare) {
+            struct lt_val v;
+            lt_get(t, c, item, l, i, j, &v);
+            jo_value(w, l, NULL, t->cols[c].kind, &v);
+            continue;
+        }
         jo_open(w, NULL, '{');
-        jo_cols(w, t, l, i, j);
+        jo_span(w, t, l, i, j, 0, t->ncols, item);
         jo_close(w, '}');
     }
     jo_close(w, ']');
@@ -650,67 +659,11 @@ static void jo_month(struct jo *w, const struct ledger *l, int i) { jo_record(w,
 
 static void jo_order(struct jo *w, const struct ledger *l, int i) { jo_record(w, &lt_orders, l, i); }
 
-/* A scrubber's stack: flow, removal in force, and per species what leaves it. */
-static void jo_emissions(struct jo *w, const struct ledger *l, int i)
-{
-    const struct emis_unit *eu = l->emis ? &l->emis[i] : NULL;
-    const struct scrub_unit_out *s = &l->scrubbers[i].out;
-    if (eu && eu->stack_nm3_h > 0)
-        jo_num(w, "stack_nm3_h", eu->stack_nm3_h);
-    else
-        jo_null(w, "stack_nm3_h"); /* no concentrations */
-    jo_open(w, "removal", '{');
-    for (int v = 0; v < VS_COUNT; v++)
-        jo_num(w, jo_vent_key(v), s->removal[v]);
-    jo_close(w, '}');
-    jo_open(w, "emissions", '{');
-    for (int v = 0; v < VS_COUNT && eu; v++) {
-        const struct emis_species *sp = &eu->sp[v];
-        jo_open(w, jo_vent_key(v), '{');
-        jo_num(w, "kg", sp->kg);
-        jo_num(w, "peak_kg_h", sp->peak_kg_h);
-        if (sp->peak_kg_h > 0)
-            jo_date(w, "peak_at", sp->peak_at_min, 0);
-        else
-            jo_null(w, "peak_at");
-        if (eu->stack_nm3_h > 0)
-            jo_num(w, "peak_mg_nm3", sp->peak_mg_nm3);
-        else
-            jo_null(w, "peak_mg_nm3");
-        jo_open(w, "years", '[');
-        for (int k = 0; k < sp->nyears; k++) {
-            jo_open(w, NULL, '{');
-            jo_num(w, "year", sp->years[k].year);
-            jo_num(w, "t", sp->years[k].t);
-            jo_close(w, '}');
-        }
-        jo_close(w, ']');
-        jo_run_ids(w, l, "peak_runs", sp->peak_runs, sp->npeak_runs);
-        jo_close(w, '}');
-    }
-    jo_close(w, '}');
-}
-
+/* A scrubber: its figures, load profile, spent charges, column check and stack (the Scrubber
+ * units list, ltable.h lt_scrubbers, with its parts). */
 static void jo_scrubber(struct jo *w, const struct ledger *l, int i)
 {
-    const struct ledger_scrubber *u = &l->scrubbers[i];
-    const struct scrub_unit_out *s = &u->out;
-    jo_begin(w, "scrubbers", i);
-    jo_cols(w, &lt_scrubbers, l, i, 0);
-    jo_open(w, "hourly", '{');
-    if (s->nhours > 0)
-        jo_date(w, "start", s->hour0_min, 0);
-    else
-        jo_null(w, "start");
-    jo_open(w, "kmol_h", '[');
-    for (int k = 0; k < s->nhours && w->st == HL_OK; k++)
-        jo_num(w, NULL, scrub_hourly_kmol_h(s, k));
-    jo_close(w, ']');
-    jo_close(w, '}');
-    jo_rows(w, &lt_scrubber_spent, l, i, "spent");
-    jo_cols(w, &lt_scrubber_column, l, i, 0); /* column{} or null */
-    jo_emissions(w, l, i);
-    jo_end(w);
+    jo_record(w, &lt_scrubbers, l, i);
 }
 
 /* One limit of one permit against the worst hour, day mean or calendar year. */

@@ -595,6 +595,77 @@ GET(su_heat_at)
 }
 GET1(su_heat_runs, runs(v, SUO(i)->peak_heat_runs, SUO(i)->npeak_heat_runs))
 
+/* --- scrubbers[].hourly.kmol_h / Hourly load (one row per unit and hour) ---- */
+
+static int hr_nsub(const struct ledger *l, int i) { return SUO(i)->nhours; }
+GET(hr_start) { date(v, SUO(i)->hour0_min + 60 * (int64_t)j); }
+GET(hr_load) { num(v, scrub_hourly_kmol_h(SUO(i), j)); }
+
+static const struct lt_col hr_cols[] = {
+    {NULL, "Scrubber", LT_TEXT, .get = su_id},
+    {NULL, "Hour start (plant time)", LT_DATE, .get = hr_start},
+    {"kmol_h", "Vent gas load, mean over the hour [kmol/h]", LT_RATE, .get = hr_load},
+    {NULL, "Rated capacity [kmol/h]", LT_RATE, .off = OFF(struct ledger_scrubber, rated_acid_kmol_h)},
+};
+
+const struct lt_table lt_scrubber_hourly = {.key = "kmol_h", .path = "scrubbers[].hourly.kmol_h",
+    .sheet = "Hourly load", .cols = hr_cols, .ncols = NCOLS(hr_cols), .count = su_count,
+    .nsub = hr_nsub, .rec = su_rec, .bare = 1};
+
+/* --- scrubbers[]: the stack (what leaves it, emissions.h) ------------------ */
+
+#define EU(i) (&l->emis[i])
+#define ES(i) (&l->emis[i].sp[v->item])
+GET(su_hour0)
+{
+    (void)j;
+    if (SUO(i)->nhours > 0)
+        date(v, SUO(i)->hour0_min);
+}
+GET(su_stack)
+{
+    (void)j;
+    if (l->emis && EU(i)->stack_nm3_h > 0) /* null: no concentrations */
+        num(v, EU(i)->stack_nm3_h);
+}
+GET(se_open) /* a species' object; none without the emission checks */
+{
+    (void)j;
+    (void)i;
+    if (l->emis)
+        flag(v, 1);
+    else
+        v->t = LT_V_ABSENT;
+}
+GET1(se_kg, num(v, ES(i)->kg))
+GET1(se_peak, num(v, ES(i)->peak_kg_h))
+GET(se_peak_at)
+{
+    (void)j;
+    if (ES(i)->peak_kg_h > 0) /* null: nothing leaves */
+        date(v, ES(i)->peak_at_min);
+}
+GET(se_mg)
+{
+    (void)j;
+    if (EU(i)->stack_nm3_h > 0) /* null: no stack flow */
+        num(v, ES(i)->peak_mg_nm3);
+}
+GET1(se_runs, runs(v, ES(i)->peak_runs, ES(i)->npeak_runs))
+static int yr_nsub(const struct ledger *l, int i, int item) { return l->emis[i].sp[item].nyears; }
+GET(yr_year) { num(v, ES(i)->years[j].year); }
+GET(yr_t) { num(v, ES(i)->years[j].t); }
+
+static const struct lt_col yr_cols[] = {
+    {"year", NULL, LT_INT, .get = yr_year},
+    {"t", NULL, LT_GEN, .get = yr_t},
+};
+
+/* JSON only: the calendar years with emission of a species */
+static const struct lt_table lt_emis_years = {.key = "years",
+    .path = "scrubbers[].emissions.SPECIES.years", .sheet = NULL, .cols = yr_cols,
+    .ncols = NCOLS(yr_cols), .count = su_count, .nsub_item = yr_nsub};
+
 #define SUF(f) OFF(struct ledger_scrubber, f)
 /* The sheet's make-up strengths are text for a water liquor, so each is its own column. */
 static const struct lt_col su_cols[] = {
@@ -647,6 +718,26 @@ static const struct lt_col su_cols[] = {
     {NULL, "Base make-up strength [wt%]", LT_PCT, .col = 25, .get = su_base_strength},
     {"changeout_makeup_kg", "Base bought per changeout, as bought [kg]", LT_KG,
      .off = SUF(changeout_makeup_kg)},
+    {"hourly", NULL, LT_TEXT, .flags = LT_OPEN}, /* the load profile (Hourly load) */
+    {"start", NULL, LT_DATE, .get = su_hour0},
+    {"kmol_h", NULL, LT_TEXT, .sub = &lt_scrubber_hourly},
+    {.flags = LT_CLOSE},
+    {"spent", NULL, LT_TEXT, .sub = &lt_scrubber_spent},
+    {.sub = &lt_scrubber_column}, /* column{} or null */
+    {"stack_nm3_h", NULL, LT_GEN, .get = su_stack},
+    {"removal", NULL, LT_TEXT, .flags = LT_OPEN}, /* the fractions in force */
+    {"%s", NULL, LT_FRAC, .each = LT_EACH_VENT, .off = SUF(out.removal)},
+    {.flags = LT_CLOSE},
+    {"emissions", NULL, LT_TEXT, .flags = LT_OPEN}, /* what leaves the stack, per species */
+    {"%s", NULL, LT_TEXT, .flags = LT_OPEN, .each = LT_EACH_VENT, .get = se_open},
+    {"kg", NULL, LT_KG, .get = se_kg},
+    {"peak_kg_h", NULL, LT_RATE, .get = se_peak},
+    {"peak_at", NULL, LT_DATE, .get = se_peak_at},
+    {"peak_mg_nm3", NULL, LT_GEN, .get = se_mg},
+    {"years", NULL, LT_TEXT, .sub = &lt_emis_years},
+    {"peak_runs", NULL, LT_TEXT, .get = se_runs},
+    {.flags = LT_CLOSE},
+    {.flags = LT_CLOSE},
 };
 
 const struct lt_table lt_scrubbers = {.key = "scrubbers", .path = "scrubbers",
@@ -1671,4 +1762,4 @@ const struct lt_table *const lt_tables[LT_NTABLES] = {
     &lt_run_products, &lt_scrubbers, &lt_permit_checks, &lt_orders, &lt_stock_checks, &lt_warnings,
     &lt_month_products, &lt_run_actuals, &lt_run_reaction, &lt_run_emissions, &lt_run_liquor,
     &lt_run_waste, &lt_runs, &lt_months, &lt_scrubber_spent, &lt_scrubber_column, &lt_assumptions,
-    &lt_cautions, &lt_estimate_cautions};
+    &lt_cautions, &lt_estimate_cautions, &lt_scrubber_hourly};

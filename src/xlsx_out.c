@@ -1246,35 +1246,10 @@ static void xo_units(struct xw *w)
     xo_lt_table(w, &lt_scrubbers, &u);
 }
 
-static void row_hour(struct xw *w, struct xtable *b, lxw_row_t row, int i)
-{
-    (void)i;
-    const struct ledger *l = w->l;
-    while (b->cur < l->nscrubbers && b->sub >= l->scrubbers[b->cur].out.nhours) {
-        b->cur++;
-        b->sub = 0;
-    }
-    if (b->cur >= l->nscrubbers)
-        return;
-    const struct ledger_scrubber *u = &l->scrubbers[b->cur];
-    int h = b->sub++;
-    xt_text(w, b, row, 0, u->id);
-    xt_date(w, b, row, 1, u->out.hour0_min + 60 * (int64_t)h);
-    xt_num(w, b, row, 2, scrub_hourly_kmol_h(&u->out, h));
-    xt_num(w, b, row, 3, u->rated_acid_kmol_h);
-}
-
 static void xo_hours(struct xw *w)
 {
-    int n = 0;
-    for (int u = 0; u < w->l->nscrubbers; u++)
-        n += w->l->scrubbers[u].out.nhours;
-    struct xtable h = {.fn = row_hour, .nrows = n, .empty_note = "No vent gas load."};
-    xt_col(&h, LT_TEXT, 0, "Scrubber");
-    xt_col(&h, LT_DATE, 0, "Hour start (plant time)");
-    xt_col(&h, LT_RATE, 0, "Vent gas load, mean over the hour [kmol/h]");
-    xt_col(&h, LT_RATE, 0, "Rated capacity [kmol/h]");
-    xo_table(w, "Hourly load", &h);
+    struct xtable h = {.empty_note = "No vent gas load."};
+    xo_lt_table(w, &lt_scrubber_hourly, &h);
 }
 
 static void xo_column(struct xw *w)

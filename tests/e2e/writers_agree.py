@@ -6,7 +6,7 @@ per field.  tool_ltable prints the lists (which JSON key goes with which sheet h
 which sheet column); this script reports the demo campaigns and a campaign of its own (two
 units, one a water liquor without a stack flow, permits in kg/h, mg/Nm3 and t/yr, stock
 counts, a reagent with no container in a trimmed catalog) and those of tests/campaigns (a soda
-ash liquor among them) to .json and .xlsx, reads the
+ash liquor among them) and a what-if to .json and .xlsx, reads the
 JSON with Python's json module and the workbook with openpyxl, and checks, for every entry
 with both a key and a header:
   - the sheet's header row has the entry's header in the entry's column, and no other column;
@@ -103,12 +103,19 @@ def lists():
 def records(d, path):
     """The JSON records of a table path: "orders", "runs[].products" (every run's products in
     turn), "runs[actual]" (the runs whose "actual" is not null)."""
-    m = re.match(r"^(\w+)\[(\w*)\](?:\.(\w+))?$", path)
+    m = re.match(r"^(\w+)\[(\w*)\](?:\.([\w.]+))?$", path)
     if not m:
         return d[path]
     outer, having, inner = m.groups()
     rows = [r for r in d[outer] if not having or r.get(having) is not None]
-    return [x for r in rows for x in r[inner]] if inner else rows
+    if not inner:
+        return rows
+    out = []
+    for r in rows:  # "scrubbers[].hourly.kmol_h": every unit's array in turn
+        for g in inner.split("."):
+            r = r[g]
+        out += r
+    return out
 
 
 SKIP = object()
@@ -116,7 +123,10 @@ SKIP = object()
 
 def lookup(rec, key):
     """rec's value at a dotted key ("reaction.heat_kj"): ABSENT when the key is left out,
-    SKIP when the object holding it is null (the JSON says nothing to hold the cell to)."""
+    SKIP when the object holding it is null (the JSON says nothing to hold the cell to); a
+    record that is a bare value (hourly.kmol_h) is its one key's value."""
+    if not isinstance(rec, dict):
+        return rec
     *groups, last = key.split(".")
     for g in groups:
         if g not in rec:

@@ -148,6 +148,11 @@ static void test_entries(void)
             }
         }
         CU_ASSERT_EQUAL(open, 0);
+        int keyed = 0; /* a bare row is the value of its one keyed entry (hourly.kmol_h) */
+        for (int c = 0; c < tb->ncols; c++)
+            keyed += tb->cols[c].key != NULL;
+        if (tb->bare)
+            CU_ASSERT(keyed == 1 && tb->nsub);
     }
 }
 
