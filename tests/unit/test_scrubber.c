@@ -708,14 +708,14 @@ static void ntu_values(void)
     ASSERT_ABS(scrub_ntu(0, 0), 0, 0);
 }
 
-/* Packed-tower sizing by the generalized pressure-drop correlation, as published in
- * McCabe, Smith & Harriott, Unit Operations of Chemical Engineering (5th ed., McGraw-Hill,
- * 1993), chapter 18: a tower of 1-in ceramic Intalox saddles (Fp 92 1/ft) for
- * 25,000 ft3/h of gas with 2 vol % ammonia at 68 F and 1 atm, water at 1 lb per lb of gas,
- * the gas at half its flooding velocity.  The figures of the example are from memory, not
- * checked against the book: abscissa about 0.035, flooding ordinate read as about 0.18,
- * diameter about 1.6 ft.  Here the 2 % is HCl (a gas the model vents), which changes the gas
- * density by 1.4 % and the diameter by 0.4 %.  By hand, the book's method with these gases:
+/* Packed-tower sizing by the generalized pressure-drop correlation (McCabe, Smith & Harriott,
+ * Unit Operations of Chemical Engineering, 5th ed., McGraw-Hill, 1993, chapter 18). The case
+ * checked: 1-in ceramic Intalox saddles (packing factor Fp 92 1/ft, from memory), 25,000
+ * ft3/h of gas with 2 vol % ammonia at 68 F and 1 atm, water at 1 lb per lb of gas, the gas
+ * at half its flooding velocity; the chart readings below are from memory, not checked
+ * against the book: abscissa about 0.035, flooding ordinate about 0.18, diameter about
+ * 1.6 ft.  Here the 2 % is HCl (a gas the model vents), which changes the gas
+ * density by 1.4 % and the diameter by 0.4 %.  By hand, the correlation with these gases:
  *   gas 101325 x 707.92 m3/h / (8.314462618 x 293.15) = 29.43 kmol/h, 0.5886 of it HCl:
  *   28.84 x 28.9644 + 0.5886 x 36.458 = 856.8 kg/h; rho_G = 856.8 / 707.92 = 1.2103 kg/m3;
  *   X = 1 x sqrt(1.2103 / 998.2) = 0.0348; G_f^2 = 0.18 g rho_G rho_L / Fp (water, mu 1 cP)
