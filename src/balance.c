@@ -126,7 +126,8 @@ struct bal_extent_key {
     double mean, k[KIN_MAX_STEPS]; /* k[nsteps..] stay 0 */
 };
 
-struct bal_extent { int used; struct bal_extent_key key; double x[KIN_MAX_STEPS + 1]; };
+/* An empty slot is all zero: its nsteps 0 matches no key (a solve has nsteps >= 1). */
+struct bal_extent { struct bal_extent_key key; double x[KIN_MAX_STEPS + 1]; };
 
 #define BAL_NEXTENT 64 /* direct-mapped: a miss only costs the solve */
 
@@ -615,14 +616,13 @@ static enum hl_status solve_extent(struct bal_cache *cache, enum kin_mode mode, 
         h = (h ^ b[i]) * 1099511628211ull;
     struct bal_extent *m = &cache->extent[(h ^ (h >> 32)) % BAL_NEXTENT];
     size_t nx = (size_t)(nsteps + 1) * sizeof *x;
-    if (m->used && !memcmp(&m->key, &key, nb)) {
+    if (!memcmp(&m->key, &key, nb)) {
         memcpy(x, m->x, nx);
         return HL_OK;
     }
     enum hl_status st = kin_solve_extent(mode, k, nsteps, mean, x, NULL, e);
     if (st)
         return st;
-    m->used = 1;
     m->key = key;
     memcpy(m->x, x, nx);
     return HL_OK;
