@@ -74,7 +74,7 @@ $(BUILD)/obj:
 
 unit: $(UNIT_BIN) $(TOOL_BIN) $(SHIM_BIN) $(BUILD)/bench_floor
 
-# The floor of `make bench`: bare libxlsxwriter, numeric cells only (bench/README.md).
+# The floors of `make bench`: bare libxlsxwriter, numeric cells or a workbook's own cells (bench/README.md).
 $(BUILD)/bench_floor: bench/floor.c | $(BUILD)/obj
 	$(CC) $(CFLAGS_ALL) $< $(LDLIBS_ALL) -o $@
 

@@ -1,14 +1,18 @@
 #!/usr/bin/python3
 """bench.py - `make bench`: time and memory of check, the JSON report and the workbook report on
-generated campaigns of 10^3, 10^4, 10^5 runs (10^6 with BENCH_BIG=1), against the floor of a bare
-libxlsxwriter program writing as many numeric cells (bench/floor.c). See bench/README.md.
+generated campaigns of 10^3, 10^4, 10^5 runs (10^6 with BENCH_BIG=1), against two floors of a bare
+libxlsxwriter program (bench/floor.c): as many numeric cells (the numeric floor), and the workbook's
+own cells read back from it and written again (the content floor, up to 10^5 runs). See
+bench/README.md.
 
 Env: BUILD (build folder, default build; HALOLEDGER names the binary instead), BENCH_BIG=1 (add 10^6), BENCH_SIZES="1000 10000" (override),
 BENCH_DIR (work folder, default $BUILD/bench). Prints one table; exits non-zero only when a command
 fails (it is not a test of speed).
 """
+import html
 import os
-import resource
+import re
+import struct
 import subprocess
 import tempfile
 import sys
@@ -22,17 +26,22 @@ BIN = os.environ.get("HALOLEDGER") or os.path.join(ROOT, BUILD, "haloledger")
 FLOOR = os.path.join(os.path.dirname(BIN), "bench_floor")
 
 
-def measure(argv, cwd):
-    """Run argv; return (wall s, cpu s = user + sys, peak RSS in KB) from the child's rusage."""
-    # stderr goes to a file, not a pipe: wait4 before reading a pipe deadlocks once the
+def measure(argv, cwd, out=None):
+    """Run argv; return (wall s, cpu s = user + sys, peak RSS in KB) from the child's rusage.
+    With out a list, the command's stdout text is appended to it."""
+    # stdout and stderr go to files, not pipes: wait4 before reading a pipe deadlocks once the
     # warnings fill the pipe buffer (64 KiB on Linux)
-    with tempfile.TemporaryFile() as errf:
+    with tempfile.TemporaryFile() as errf, tempfile.TemporaryFile() as outf:
         t0 = time.monotonic()
-        p = subprocess.Popen(argv, cwd=cwd, stdout=subprocess.DEVNULL, stderr=errf)
+        p = subprocess.Popen(argv, cwd=cwd, stdout=outf if out is not None else subprocess.DEVNULL,
+                             stderr=errf)
         _, status, ru = os.wait4(p.pid, 0)
         wall = time.monotonic() - t0
         errf.seek(0)
         err = errf.read().decode(errors="replace")
+        outf.seek(0)
+        if out is not None:
+            out.append(outf.read().decode(errors="replace"))
     p.returncode = os.waitstatus_to_exitcode(status)
     if p.returncode not in (0, 3):
         raise RuntimeError(f"{' '.join(argv)}: exit {p.returncode}: {err[-400:]}")
@@ -57,6 +66,71 @@ def cells_in(xlsx):
     return n
 
 
+CELL = re.compile(rb'<c r="([A-Z]+)([0-9]+)"(?: s="([0-9]+)")?(?: t="([a-zA-Z]+)")?(?:/>|>(.*?)</c>)', re.S)
+VALUE = re.compile(rb'<v>([^<]*)</v>')
+FORMULA = re.compile(rb'<f>([^<]*)</f>')
+TEXT = re.compile(rb'<t(?: [^>]*)?>([^<]*)</t>')
+SHEET = re.compile(rb'<sheet name="([^"]*)"')
+
+
+def col_index(letters):
+    k = 0
+    for ch in letters:
+        k = k * 26 + ch - 64
+    return k - 1
+
+
+def unescape(b):
+    return html.unescape(b.decode()).encode() if b"&" in b else b
+
+
+def extract_cells(xlsx, out):
+    """Write the cells of every worksheet of xlsx into out, in bench/floor.c's CELLS format
+    (sheets in the workbook's order, cells in the order of the XML); return the cell count."""
+    n = 0
+    with zipfile.ZipFile(xlsx) as z, open(out, "wb") as f:
+        f.write(b"HLCELLS1")
+        sst = []
+        if "xl/sharedStrings.xml" in z.namelist():  # a workbook below the streaming size
+            for si in re.findall(rb"<si>(.*?)</si>", z.read("xl/sharedStrings.xml"), re.S):
+                sst.append(unescape(b"".join(TEXT.findall(si))))
+        names = SHEET.findall(z.read("xl/workbook.xml"))
+        for k, name in enumerate(names, 1):
+            name = unescape(name)
+            f.write(b"S" + struct.pack("<I", len(name)) + name + b"\0")
+            tail = b""
+            with z.open(f"xl/worksheets/sheet{k}.xml") as x:
+                while True:
+                    chunk = x.read(1 << 22)
+                    data = tail + chunk
+                    cut = data.rfind(b"</row>") + 6 if chunk else len(data)
+                    if cut < 6:
+                        tail = data
+                        continue
+                    for m in CELL.finditer(data, 0, cut):
+                        col, row, s, t, body = m.groups()
+                        head = struct.pack("<III", int(row) - 1, col_index(col), int(s or 0))
+                        body = body or b""
+                        fm = FORMULA.search(body)
+                        v = VALUE.search(body)
+                        if fm:
+                            text = unescape(fm.group(1))
+                            f.write(b"F" + head + struct.pack("<dI", float(v.group(1)) if v else 0.0, len(text))
+                                    + text + b"\0")
+                        elif t in (b"s", b"inlineStr"):
+                            text = sst[int(v.group(1))] if t == b"s" else unescape(b"".join(TEXT.findall(body)))
+                            f.write(b"T" + head + struct.pack("<I", len(text)) + text + b"\0")
+                        elif v:
+                            f.write(b"N" + head + struct.pack("<d", float(v.group(1))))
+                        else:
+                            f.write(b"B" + head)
+                        n += 1
+                    tail = data[cut:]
+                    if not chunk:
+                        break
+    return n
+
+
 def generate(n, path):
     if os.path.exists(path):
         return
@@ -72,8 +146,8 @@ def main():
     work = os.environ.get("BENCH_DIR") or os.path.join(os.path.dirname(BIN), "bench")
     os.makedirs(work, exist_ok=True)
     rows = []
-    hdr = ("runs", "check s", "json s", "xlsx s", "floor s", "xlsx/floor", "check MB", "json MB",
-           "xlsx MB", "check us/run", "json us/run", "cells", "json bytes/run")
+    hdr = ("runs", "check s", "json s", "xlsx s", "floor s", "xlsx/floor", "content s", "xlsx/content",
+           "check MB", "json MB", "xlsx MB", "check us/run", "json us/run", "cells", "json bytes/run")
     print("times are CPU seconds (user + sys) of each command; wall seconds in brackets")
     print(" | ".join(hdr))
     for n in sizes:
@@ -85,14 +159,30 @@ def main():
         x = measure([BIN, "report", camp, "-o", xl], work)
         cells = cells_in(xl)
         f = measure([FLOOR, os.path.join(work, f"floor-{n}.xlsx"), str(cells)], work)
+        # the content floor: the workbook's own cells replayed by bare libxlsxwriter (up to 10^5
+        # runs; at 10^6 the cell file alone would take minutes and gigabytes)
+        if n <= 100000:
+            cf = os.path.join(work, f"cells-{n}.bin")
+            replayed = extract_cells(xl, cf)
+            if replayed != cells:
+                raise RuntimeError(f"{xl}: {replayed} cells read back, {cells} counted")
+            said = []
+            r = measure([FLOOR, "--replay", cf, os.path.join(work, f"content-{n}.xlsx")], work, said)
+            load = float(re.search(r"load_cpu_s ([0-9.]+)", said[0]).group(1))
+            cpu = r[1] - load
+            content = f"{cpu:.2f} [{r[0]:.2f}] | {x[1] / cpu if cpu > 0 else float('nan'):.2f}"
+            if n >= 100000:
+                os.remove(cf)  # hundreds of MB
+        else:
+            content = "- | -"
         jbytes = os.path.getsize(os.path.join(work, f"ledger-{n}.json"))
         row = (n, c, j, x, f, cells, jbytes)
         rows.append(row)
         print(f"{n} | {c[1]:.2f} [{c[0]:.2f}] | {j[1]:.2f} [{j[0]:.2f}] | {x[1]:.2f} [{x[0]:.2f}] | "
-              f"{f[1]:.2f} [{f[0]:.2f}] | {x[1] / f[1] if f[1] > 0 else float('nan'):.2f} | "
+              f"{f[1]:.2f} [{f[0]:.2f}] | {x[1] / f[1] if f[1] > 0 else float('nan'):.2f} | {content} | "
               f"{c[2] / 1024:.0f} | {j[2] / 1024:.0f} | {x[2] / 1024:.0f} | {c[1] / n * 1e6:.1f} | "
               f"{j[1] / n * 1e6:.1f} | {cells} | {jbytes / n:.0f}", flush=True)
-        for k in ("ledger", "floor"):
+        for k in ("ledger", "floor", "content"):
             for ext in (".json", ".xlsx"):
                 p = os.path.join(work, f"{k}-{n}{ext}")
                 if os.path.exists(p) and n >= 100000:

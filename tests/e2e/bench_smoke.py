@@ -5,14 +5,18 @@ Not a timed test: nothing here depends on speed. It checks that
 1. bench/gen_campaign.py makes the campaign bench/README.md describes: N runs, one start every
    30 minutes, 12 reactors, 4 scrubbers (three reactors each), eight substrates, all five
    reagents, and that the binary accepts it (`check` exits 0, no warning about the site shape);
-2. bench/bench.py runs check, the JSON and the workbook report and the floor program, and
-   prints its table: the 1000-run row has all 13 fields, with cell and byte counts equal to what
-   is counted here from the files it leaves (cells: <c> elements of the worksheets, read with
-   Python's zipfile; bytes: the JSON ledger's size).
+2. bench/bench.py runs check, the JSON and the workbook report and both floors, and prints its
+   table: the 1000-run row has all 15 fields, with cell and byte counts equal to what is counted
+   here from the files it leaves (cells: <c> elements of the worksheets, read with Python's
+   zipfile; bytes: the JSON ledger's size);
+3. the content floor writes the workbook's own cells: every worksheet of the replayed workbook
+   holds the same <c> elements as the ledger's, byte for byte, once the style numbers (s="N",
+   which only name formats) are taken out, and the same sheet names in the same order.
 Env: HALOLEDGER, HL_ROOT.
 """
 import json
 import os
+import re
 import subprocess
 import sys
 import tempfile
@@ -23,6 +27,30 @@ sys.path.insert(0, os.path.dirname(os.path.abspath(__file__)))
 from _hl import BIN, ROOT, Tally  # noqa: E402
 
 T = Tally()
+
+
+def sheets(xlsx):
+    """[(sheet name, [cell XML less its style number, text resolved])] of every worksheet.
+    A small workbook keeps its texts in the shared-string table, the content floor (streamed)
+    inline: both are compared as <c r=..><is><t>text</t></is></c>."""
+    with zipfile.ZipFile(xlsx) as z:
+        sst = []
+        if "xl/sharedStrings.xml" in z.namelist():
+            sst = [b"".join(re.findall(rb"<t(?: [^>]*)?>([^<]*)</t>", si))
+                   for si in re.findall(rb"<si>(.*?)</si>", z.read("xl/sharedStrings.xml"), re.S)]
+        names = re.findall(rb'<sheet name="([^"]*)"', z.read("xl/workbook.xml"))
+        out = []
+        for k, name in enumerate(names, 1):
+            xml = z.read(f"xl/worksheets/sheet{k}.xml")
+            cells = []
+            for c in re.findall(rb"<c .*?(?:/>|</c>)", xml, re.S):
+                c = re.sub(rb' s="[0-9]+"', b"", c)
+                m = re.match(rb'(<c r="[A-Z]+[0-9]+") t="s"><v>([0-9]+)</v></c>', c)
+                if m:
+                    c = m.group(1) + b' t="inlineStr"><is><t>' + sst[int(m.group(2))] + b"</t></is></c>"
+                cells.append(re.sub(rb'<t xml:space="preserve">', b"<t>", c))
+            out.append((name, cells))
+    return out
 
 
 def main():
@@ -54,24 +82,31 @@ def main():
                            capture_output=True, text=True, timeout=600)
         T.check(p.returncode == 0, f"bench.py exit {p.returncode}: {p.stderr[-500:]}")
         rows = [ln.split(" | ") for ln in p.stdout.splitlines() if ln.startswith("1000 |")]
-        if T.check(len(rows) == 1 and len(rows[0]) == 13, f"table row: {p.stdout[-600:]}"):
+        if T.check(len(rows) == 1 and len(rows[0]) == 15, f"table row: {p.stdout[-600:]}"):
             row = rows[0]
             cells = 0
             with zipfile.ZipFile(os.path.join(tmp, "ledger-1000.xlsx")) as z:
                 for n in z.namelist():
                     if n.startswith("xl/worksheets/sheet"):
                         cells += z.read(n).count(b"<c ")
-            T.check(cells > 10000 and int(row[11]) == cells, f"cells {row[11]} != counted {cells}")
+            T.check(cells > 10000 and int(row[13]) == cells, f"cells {row[13]} != counted {cells}")
             size = os.path.getsize(os.path.join(tmp, "ledger-1000.json"))
-            T.check(round(size / 1000) == int(row[12]), f"json bytes/run {row[12]} != {size / 1000:.0f}")
-            for k in (1, 2, 3, 4):
+            T.check(round(size / 1000) == int(row[14]), f"json bytes/run {row[14]} != {size / 1000:.0f}")
+            for k in (1, 2, 3, 4, 6):
                 cpu, wall = row[k].split(" [")
                 T.check(float(cpu) >= 0 and float(wall.rstrip("]")) > 0, f"time field {row[k]!r}")
-            T.check(all(float(row[k]) > 0 for k in (6, 7, 8)), f"peak RSS fields {row[6:9]}")
+            T.check(all(float(row[k]) > 0 for k in (5, 7)), f"ratio fields {row[5]}, {row[7]}")
+            T.check(all(float(row[k]) > 0 for k in (8, 9, 10)), f"peak RSS fields {row[8:11]}")
             fl = os.path.join(tmp, "floor-1000.xlsx")
             with zipfile.ZipFile(fl) as z:
                 fc = sum(z.read(n).count(b"<c ") for n in z.namelist() if n.startswith("xl/worksheets/sheet"))
             T.check(fc == cells, f"floor wrote {fc} cells, not {cells}")
+            led, rep = sheets(os.path.join(tmp, "ledger-1000.xlsx")), sheets(os.path.join(tmp, "content-1000.xlsx"))
+            T.check([n for n, _ in led] == [n for n, _ in rep] and len(led) > 10,
+                    f"content floor sheets {[n for n, _ in rep]} != {[n for n, _ in led]}")
+            for (name, a), (_, b) in zip(led, rep):
+                T.check(a == b and len(a) > 0, f"content floor sheet {name}: {len(b)} cells against the ledger's {len(a)}"
+                        + next((f", first at {i}: {x[:120]!r} != {y[:120]!r}" for i, (x, y) in enumerate(zip(a, b)) if x != y), ""))
     for f in T.fails:
         print("FAIL:", f)
     print(f"bench_smoke: {T.n - len(T.fails)}/{T.n} checks passed in {time.time() - t0:.1f} s")
