@@ -2,7 +2,7 @@
 """acceptance_chem.py - structure-aware chemistry through the real binary (`haloledger report
 CAMPAIGN -o X.json`), the JSON ledger read back and checked against sources outside the program:
 
-  * textbook isomer shares: Morrison & Boyd, Organic Chemistry (light-initiated chlorination at
+  * published isomer shares: Morrison & Boyd, Organic Chemistry (light-initiated chlorination at
     25 C: propane 45:55, butane 28:72, 2-methylpropane 64:36; bromination at 127 C: propane 3:97,
     2-methylpropane > 99 % tert), within 1.5 percentage points;
   * the exact site formula of design section 4, f_j = n_j r_j / sum n_i r_i, with the site classes

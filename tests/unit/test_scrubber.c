@@ -708,9 +708,10 @@ static void ntu_values(void)
     ASSERT_ABS(scrub_ntu(0, 0), 0, 0);
 }
 
-/* Packed-tower sizing by the generalized pressure-drop correlation (McCabe, Smith & Harriott,
- * Unit Operations of Chemical Engineering, 5th ed., McGraw-Hill, 1993, chapter 18). The case
- * checked: 1-in ceramic Intalox saddles (packing factor Fp 92 1/ft, from memory), 25,000
+/* Packed-tower sizing by the generalized pressure-drop correlation, as published in W. L.
+ * McCabe, J. C. Smith and P. Harriott, Unit Operations of Chemical Engineering, 5th ed.
+ * (McGraw-Hill, New York, 1993), in its treatment of packed towers for gas absorption. The
+ * published case checked: 1-in ceramic Intalox saddles (packing factor Fp 92 1/ft, from memory), 25,000
  * ft3/h of gas with 2 vol % ammonia at 68 F and 1 atm, water at 1 lb per lb of gas, the gas
  * at half its flooding velocity; the chart readings below are from memory, not checked
  * against the book: abscissa about 0.035, flooding ordinate about 0.18, diameter about
@@ -722,7 +723,7 @@ static void ntu_values(void)
  *   = 0.18 x 9.80665 x 1.2103 x 998.2 / 301.8 = 7.066, G_f = 2.658 kg/(m2 s); at half of it
  *   the area is (856.8 / 3600) / 1.329 = 0.1791 m2, D = 0.4775 m (1.57 ft).
  * D goes as Y^-1/4: 4 % covers a chart reading off by 17 %. */
-static void column_textbook(void)
+static void column_published_case(void)
 {
     const double fp = 92 * 3.2808; /* 1/ft -> 1/m */
     struct scrub_unit_in u = water(50000, 20);
@@ -1423,7 +1424,7 @@ int main(void)
         {"boiling liquor", boiling_liquor},
         {"NTU", ntu_values},
         {"column", column},
-        {"column, textbook example", column_textbook},
+        {"column, published worked case", column_published_case},
         {"bad inputs", bad_inputs},
         {"allocation failures", alloc_failures}};
     return CU_RUN_ALL("scrubber", cases);

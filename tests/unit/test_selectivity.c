@@ -50,7 +50,7 @@ static double share_of(const struct sel_result *r, const char *expect)
  * halogenation: chlorination at 25 C, bromination at 127 C). The model's shares come
  * from the same book's per-H ratios, so agreement within 1.5 percentage points is the
  * consistency of the book's rounded ratios with its measured percentages. */
-static void textbook(void)
+static void published_distributions(void)
 {
     static const struct { const char *smi; int rg; double t; const char *prod; double pct; } t[] = {
         {"CCC", RG_CL2, 25, "ClCCC", 45},          {"CCC", RG_CL2, 25, "CC(Cl)C", 55},
@@ -435,7 +435,7 @@ static void alloc_failures(void)
 int main(void)
 {
     static const struct cu_case cases[] = {
-        {"textbook distributions", textbook}, {"2-methylbutane analytic", methylbutane_analytic},
+        {"published distributions", published_distributions}, {"2-methylbutane analytic", methylbutane_analytic},
         {"temperature scaling", temperature}, {"wanted isomer and errors", wanted_and_errors},
         {"NBS and HBr", nbs_hbr}, {"chloromethanes", chloromethanes},
         {"methane ratios at 298 K", methane_ratios_298},
