@@ -104,7 +104,7 @@ def extract_cells(xlsx, out):
                     chunk = x.read(1 << 22)
                     data = tail + chunk
                     cut = data.rfind(b"</row>") + 6 if chunk else len(data)
-                    if cut < 6:
+                    if chunk and cut < 6:  # no row ends in this chunk yet
                         tail = data
                         continue
                     for m in CELL.finditer(data, 0, cut):

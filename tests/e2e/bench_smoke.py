@@ -11,7 +11,8 @@ Not a timed test: nothing here depends on speed. It checks that
    zipfile; bytes: the JSON ledger's size);
 3. the content floor writes the workbook's own cells: every worksheet of the replayed workbook
    holds the same <c> elements as the ledger's, byte for byte, once the style numbers (s="N",
-   which only name formats) are taken out, and the same sheet names in the same order.
+   which only name formats) are taken out, and the same sheet names in the same order; and it
+   uses as many distinct style numbers as the ledger, each a format of its own.
 Env: HALOLEDGER, HL_ROOT.
 """
 import json
@@ -27,6 +28,13 @@ sys.path.insert(0, os.path.dirname(os.path.abspath(__file__)))
 from _hl import BIN, ROOT, Tally  # noqa: E402
 
 T = Tally()
+
+
+def style_numbers(xlsx):
+    """The distinct s="N" of every worksheet's cells."""
+    with zipfile.ZipFile(xlsx) as z:
+        return {m for n in z.namelist() if n.startswith("xl/worksheets/sheet")
+                for m in re.findall(rb'<c [^>]*? s="([0-9]+)"', z.read(n))}
 
 
 def sheets(xlsx):
@@ -101,6 +109,9 @@ def main():
             with zipfile.ZipFile(fl) as z:
                 fc = sum(z.read(n).count(b"<c ") for n in z.namelist() if n.startswith("xl/worksheets/sheet"))
             T.check(fc == cells, f"floor wrote {fc} cells, not {cells}")
+            styles = [style_numbers(os.path.join(tmp, w)) for w in ("ledger-1000.xlsx", "content-1000.xlsx")]
+            T.check(len(styles[0]) > 5 and len(styles[1]) == len(styles[0]),
+                    f"content floor: {len(styles[1])} style numbers, the ledger {len(styles[0])} (one format each)")
             led, rep = sheets(os.path.join(tmp, "ledger-1000.xlsx")), sheets(os.path.join(tmp, "content-1000.xlsx"))
             T.check([n for n, _ in led] == [n for n, _ in rep] and len(led) > 10,
                     f"content floor sheets {[n for n, _ in rep]} != {[n for n, _ in led]}")
