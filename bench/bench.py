@@ -6,8 +6,9 @@ own cells read back from it and written again (the content floor, up to 10^5 run
 bench/README.md.
 
 Env: BUILD (build folder, default build; HALOLEDGER names the binary instead), BENCH_BIG=1 (add 10^6), BENCH_SIZES="1000 10000" (override),
-BENCH_DIR (work folder, default $BUILD/bench). Prints one table; exits non-zero only when a command
-fails (it is not a test of speed).
+BENCH_DIR (work folder, default $BUILD/bench), BENCH_ROUNDS (rounds of the workbook report and its
+floors, default 3). Prints one table; exits non-zero only when a command fails (it is not a test of
+speed).
 """
 import html
 import os
@@ -131,6 +132,17 @@ def extract_cells(xlsx, out):
     return n
 
 
+def median(v):
+    v = sorted(v)
+    return v[len(v) // 2] if len(v) % 2 else (v[len(v) // 2 - 1] + v[len(v) // 2]) / 2
+
+
+def pick(ms):
+    """The measurement of median CPU time among (wall, cpu, rss) rounds (the lower middle one of
+    an even count), so that its wall time and memory are the same command's."""
+    return sorted(ms, key=lambda m: m[1])[(len(ms) - 1) // 2]
+
+
 def generate(n, path):
     if os.path.exists(path):
         return
@@ -145,10 +157,12 @@ def main():
         sizes.append(1000000)
     work = os.environ.get("BENCH_DIR") or os.path.join(os.path.dirname(BIN), "bench")
     os.makedirs(work, exist_ok=True)
-    rows = []
+    rounds = max(1, int(os.environ.get("BENCH_ROUNDS", "3")))
+    rows, rounds_said = [], []
     hdr = ("runs", "check s", "json s", "xlsx s", "floor s", "xlsx/floor", "content s", "xlsx/content",
            "check MB", "json MB", "xlsx MB", "check us/run", "json us/run", "cells", "json bytes/run")
-    print("times are CPU seconds (user + sys) of each command; wall seconds in brackets")
+    print("times are CPU seconds (user + sys) of each command; wall seconds in brackets; the workbook,\n"
+          f"its floors and their ratios are medians of {rounds} rounds")
     print(" | ".join(hdr))
     for n in sizes:
         camp = os.path.join(work, f"campaign-{n}.json")
@@ -158,28 +172,43 @@ def main():
         xl = os.path.join(work, f"ledger-{n}.xlsx")
         x = measure([BIN, "report", camp, "-o", xl], work)
         cells = cells_in(xl)
-        f = measure([FLOOR, os.path.join(work, f"floor-{n}.xlsx"), str(cells)], work)
         # the content floor: the workbook's own cells replayed by bare libxlsxwriter (up to 10^5
         # runs; at 10^6 the cell file alone would take minutes and gigabytes)
-        if n <= 100000:
-            cf = os.path.join(work, f"cells-{n}.bin")
+        cf = os.path.join(work, f"cells-{n}.bin") if n <= 100000 else None
+        if cf:
             replayed = extract_cells(xl, cf)
             if replayed != cells:
                 raise RuntimeError(f"{xl}: {replayed} cells read back, {cells} counted")
-            said = []
-            r = measure([FLOOR, "--replay", cf, os.path.join(work, f"content-{n}.xlsx")], work, said)
-            load = float(re.search(r"load_cpu_s ([0-9.]+)", said[0]).group(1))
-            cpu = r[1] - load
-            content = f"{cpu:.2f} [{r[0]:.2f}] | {x[1] / cpu if cpu > 0 else float('nan'):.2f}"
-            if n >= 100000:
-                os.remove(cf)  # hundreds of MB
+        # The workbook and its floors in rounds, one after the other within a round (the first
+        # report above only makes the workbook to count and read back): a shared machine's load
+        # moves all three alike within a round, and the table prints the medians of the rounds
+        # (of the times, and of the per-round ratios).
+        xs, fs, cs = [], [], []
+        for _ in range(rounds):
+            xs.append(measure([BIN, "report", camp, "-o", xl], work))
+            fs.append(measure([FLOOR, os.path.join(work, f"floor-{n}.xlsx"), str(cells)], work))
+            if cf:
+                said = []
+                r = measure([FLOOR, "--replay", cf, os.path.join(work, f"content-{n}.xlsx")], work, said)
+                load = float(re.search(r"load_cpu_s ([0-9.]+)", said[0]).group(1))
+                cs.append((r[0], r[1] - load, r[2]))
+        if cf and n >= 100000:
+            os.remove(cf)  # hundreds of MB
+        x, f = pick(xs), pick(fs)
+        rx = median([a[1] / b[1] if b[1] > 0 else float("nan") for a, b in zip(xs, fs)])
+        if cf:
+            cm = pick(cs)
+            rc = median([a[1] / b[1] if b[1] > 0 else float("nan") for a, b in zip(xs, cs)])
+            content = f"{cm[1]:.2f} [{cm[0]:.2f}] | {rc:.2f}"
         else:
             content = "- | -"
+        rounds_said.append(f"rounds {n} | " + " ".join(f"{a[1] / b[1]:.3f}" for a, b in zip(xs, fs)) + " | "
+                           + (" ".join(f"{a[1] / b[1]:.3f}" for a, b in zip(xs, cs)) if cf else "-"))
         jbytes = os.path.getsize(os.path.join(work, f"ledger-{n}.json"))
         row = (n, c, j, x, f, cells, jbytes)
         rows.append(row)
         print(f"{n} | {c[1]:.2f} [{c[0]:.2f}] | {j[1]:.2f} [{j[0]:.2f}] | {x[1]:.2f} [{x[0]:.2f}] | "
-              f"{f[1]:.2f} [{f[0]:.2f}] | {x[1] / f[1] if f[1] > 0 else float('nan'):.2f} | {content} | "
+              f"{f[1]:.2f} [{f[0]:.2f}] | {rx:.2f} | {content} | "
               f"{c[2] / 1024:.0f} | {j[2] / 1024:.0f} | {x[2] / 1024:.0f} | {c[1] / n * 1e6:.1f} | "
               f"{j[1] / n * 1e6:.1f} | {cells} | {jbytes / n:.0f}", flush=True)
         for k in ("ledger", "floor", "content"):
@@ -187,6 +216,9 @@ def main():
                 p = os.path.join(work, f"{k}-{n}{ext}")
                 if os.path.exists(p) and n >= 100000:
                     os.remove(p)  # hundreds of MB each
+    print(f"xlsx/floor and xlsx/content of each round [{rounds} rounds]:")
+    for line in rounds_said:
+        print(line)
     if len(rows) > 1:
         print("peak RSS growth per run between sizes [bytes/run]: check, json, xlsx")
         for a, b in zip(rows, rows[1:]):

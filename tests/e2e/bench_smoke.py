@@ -8,7 +8,8 @@ Not a timed test: nothing here depends on speed. It checks that
 2. bench/bench.py runs check, the JSON and the workbook report and both floors, and prints its
    table: the 1000-run row has all 15 fields, with cell and byte counts equal to what is counted
    here from the files it leaves (cells: <c> elements of the worksheets, read with Python's
-   zipfile; bytes: the JSON ledger's size);
+   zipfile; bytes: the JSON ledger's size), and its two ratios are the medians of the three
+   rounds' ratios it lists;
 3. the content floor writes the workbook's own cells: every worksheet of the replayed workbook
    holds the same <c> elements as the ledger's, byte for byte, once the style numbers (s="N",
    which only name formats) are taken out, and the same sheet names in the same order; and it
@@ -85,7 +86,7 @@ def main():
         p = subprocess.run([BIN, "check", camp], capture_output=True, text=True, timeout=300)
         T.check(p.returncode == 0, f"check exit {p.returncode}: {p.stderr[-300:]}")
 
-        env = dict(os.environ, BENCH_SIZES="1000", BENCH_DIR=tmp, HALOLEDGER=BIN)
+        env = dict(os.environ, BENCH_SIZES="1000", BENCH_DIR=tmp, HALOLEDGER=BIN, BENCH_ROUNDS="3")
         p = subprocess.run([sys.executable, os.path.join(ROOT, "bench", "bench.py")], env=env,
                            capture_output=True, text=True, timeout=600)
         T.check(p.returncode == 0, f"bench.py exit {p.returncode}: {p.stderr[-500:]}")
@@ -104,6 +105,13 @@ def main():
                 cpu, wall = row[k].split(" [")
                 T.check(float(cpu) >= 0 and float(wall.rstrip("]")) > 0, f"time field {row[k]!r}")
             T.check(all(float(row[k]) > 0 for k in (5, 7)), f"ratio fields {row[5]}, {row[7]}")
+            # the table's ratios are the medians of the three rounds' ratios it lists
+            rnd = [ln.split(" | ") for ln in p.stdout.splitlines() if ln.startswith("rounds 1000 |")]
+            if T.check(len(rnd) == 1 and len(rnd[0]) == 3, f"rounds line: {p.stdout[-600:]}"):
+                for k, side in ((5, rnd[0][1]), (7, rnd[0][2])):
+                    v = sorted(float(x) for x in side.split())
+                    T.check(len(v) == 3 and abs(v[1] - float(row[k])) <= 0.0051,
+                            f"table ratio {row[k]} is not the median of the rounds' {v}")
             T.check(all(float(row[k]) > 0 for k in (8, 9, 10)), f"peak RSS fields {row[8:11]}")
             fl = os.path.join(tmp, "floor-1000.xlsx")
             with zipfile.ZipFile(fl) as z:
